@@ -1,0 +1,77 @@
+// `npm test`: the same bootstrapping as `npm start` on its own cluster, ports and database,
+// then every vitest project (unit, integration against the real services, browser tests).
+import { join } from 'node:path';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import {
+  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
+} from './lib/services.mjs';
+import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
+
+const port = Number(process.env.AIRTALLY_TEST_PORT ?? 4399);
+const pgPort = Number(process.env.AIRTALLY_TEST_PG_PORT ?? 54339);
+const smtpPort = Number(process.env.AIRTALLY_TEST_SMTP_PORT ?? 54335);
+const mailWebPort = Number(process.env.AIRTALLY_TEST_MAIL_WEB_PORT ?? 54336);
+const dataDir = process.env.AIRTALLY_TEST_DATA_DIR ?? join(ROOT, '.data', 'test');
+const outDir = process.env.AIRTALLY_TEST_DIST_DIR ?? join(ROOT, '.data', 'test-dist');
+const vitestArgs = process.argv.slice(2);
+
+let pg;
+async function finish(code) {
+  await stopChildren();
+  pg?.stop();
+  process.exit(code);
+}
+process.on('SIGINT', () => void finish(130));
+process.on('SIGTERM', () => void finish(143));
+
+try {
+  ensureNodeModules();
+  ensureChromium();
+  process.env.AIRTALLY_PG_FSYNC = 'off';
+  pg = await startPostgres({ dataDir, port: pgPort, database: 'postgres' });
+  const database = 'airtally_test';
+  recreateDatabase(pg, database);
+  const databaseUrl = pg.url.replace(/\/postgres$/, `/${database}`);
+  const origin = `http://127.0.0.1:${port}`;
+  const env = {
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    TEST_ADMIN_DATABASE_URL: pg.adminUrl,
+    PUBLIC_ORIGIN: origin,
+    APP_URL: origin,
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(smtpPort),
+    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
+    NODE_ENV: 'production',
+  };
+  prepareDatabase(env);
+  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
+  await waitForPort(smtpPort, 20_000, 'The mail fake');
+  buildApp(outDir);
+  await serveApp(outDir, port, env);
+
+  step('Running vitest (unit, integration, browser)');
+  const resultsFile = join(dataDir, 'vitest-results.json');
+  rmSync(resultsFile, { force: true });
+  const result = spawnSync(
+    join(ROOT, 'node_modules', '.bin', 'vitest'),
+    ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
+    { cwd: ROOT, stdio: 'inherit', env },
+  );
+  let code = result.status ?? 1;
+  if (existsSync(resultsFile)) {
+    const summary = JSON.parse(readFileSync(resultsFile, 'utf8'));
+    const passed = summary.numPassedTests ?? 0;
+    const failed = (summary.numFailedTests ?? 0) || (summary.numFailedTestSuites ?? 0);
+    if (passed === 0) code = code || 1;
+    console.log(`\n${passed} passed, ${failed} failed`);
+  } else {
+    console.log('\n0 passed, 1 failed');
+    code = code || 1;
+  }
+  await finish(code);
+} catch (error) {
+  console.error(error instanceof Error ? error.stack : error);
+  await finish(1);
+}

@@ -1,0 +1,94 @@
+import { ZodError } from 'zod';
+
+/** An error we expect and can explain to the person who caused it. */
+export class AppError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly details: unknown = null,
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const badRequest = (message: string, details: unknown = null) => new AppError(400, 'bad_request', message, details);
+export const unauthenticated = () => new AppError(401, 'unauthenticated', 'Sign in to continue.');
+export const forbidden = (action = 'do that') =>
+  new AppError(403, 'forbidden', `Your role in this trust does not allow you to ${action}. Ask a trust admin if you need it.`);
+export const notFound = (what: string) => new AppError(404, 'not_found', `${what} was not found in this trust.`);
+export const conflict = (message: string, details: unknown = null) => new AppError(409, 'conflict', message, details);
+export const paymentRequired = (message: string) => new AppError(402, 'payment_required', message);
+
+/** Plain-language messages for our named database constraints (see db/migrations). */
+const CONSTRAINT_MESSAGES: Record<string, string> = {
+  rooms_code_unique_in_school: 'Another room in this school already has that room code. Room codes must be unique within a school.',
+  rooms_openable_within_glazing: 'Openable window area cannot be larger than the glazing area, or negative.',
+  rooms_floor_area_positive: 'Floor area must be more than 0 m² (and at most 5,000 m²).',
+  rooms_ceiling_height_range: 'Ceiling height must be between 2 m and 12 m.',
+  rooms_occupancy_not_negative: 'Pupil and adult numbers cannot be negative.',
+  rooms_orientation_range: 'Orientation must be a bearing from 0° to 359° (0° = north).',
+  rooms_glazing_not_negative: 'Glazing area cannot be negative.',
+  rooms_g_value_range: 'Glazing g-value must be between 0 and 1.',
+  rooms_mechanical_supply_not_negative: 'Mechanical supply cannot be negative.',
+  rooms_block_in_same_school: 'A room can only be placed in a block of its own school, and a block that still has rooms cannot be deleted.',
+  rooms_code_present: 'Every room needs a room code.',
+  schools_name_unique_in_trust: 'This trust already has a school with that name.',
+  schools_reference_unique_in_trust: 'This trust already has a school with that reference number.',
+  blocks_name_unique_in_school: 'This school already has a block with that name.',
+  blocks_year_built_range: 'Year built must be between 1700 and 2100.',
+  blocks_air_permeability_range: 'Air permeability must be more than 0 and at most 100 m³/(h·m²) at 50 Pa.',
+  schools_boiler_efficiency_range: 'Boiler efficiency must be more than 0 and at most 1 (100 %).',
+  schools_fuel_price_range: 'Fuel price must be more than £0 and under £5 per kWh.',
+};
+
+interface PgError {
+  code?: string;
+  constraint?: string;
+  detail?: string;
+}
+
+function isPgError(error: unknown): error is PgError {
+  return typeof error === 'object' && error !== null && 'code' in error && typeof (error as PgError).code === 'string';
+}
+
+/** Turns a database constraint violation into an AppError, or returns null for other errors. */
+export function fromDatabaseError(error: unknown): AppError | null {
+  if (!isPgError(error)) return null;
+  const constraint = error.constraint ?? '';
+  const known = CONSTRAINT_MESSAGES[constraint];
+  switch (error.code) {
+    case '23505':
+      return conflict(known ?? 'That value is already used and must be unique.', { constraint });
+    case '23514':
+    case '23502':
+      return badRequest(known ?? 'A value is outside what makes physical sense for this field.', { constraint });
+    case '23503':
+      return conflict(known ?? 'This record is still referenced by another, or refers to one that does not exist.', { constraint });
+    case '22P02':
+      return badRequest('A value has the wrong format (for example an identifier that is not a valid id).');
+    default:
+      return null;
+  }
+}
+
+/** The one place errors become HTTP responses: `{ error: { code, message, details } }`. */
+export function toErrorResponse(error: unknown): Response {
+  const body = (status: number, code: string, message: string, details: unknown) =>
+    new Response(JSON.stringify({ error: { code, message, details } }), {
+      status,
+      headers: { 'content-type': 'application/json; charset=utf-8' },
+    });
+  if (error instanceof AppError) return body(error.status, error.code, error.message, error.details);
+  if (error instanceof ZodError) {
+    const details = error.issues.map((issue) => ({ path: issue.path.join('.'), message: issue.message }));
+    const first = details[0];
+    const message = first ? `${first.path ? `${first.path}: ` : ''}${first.message}` : 'The request is not valid.';
+    return body(400, 'invalid_request', message, details);
+  }
+  const fromDb = fromDatabaseError(error);
+  if (fromDb) return body(fromDb.status, fromDb.code, fromDb.message, fromDb.details);
+  console.error('Unexpected error', error);
+  return body(500, 'internal_error', 'Something went wrong on our side. Please try again; if it keeps happening, tell your trust admin.', null);
+}
