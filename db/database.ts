@@ -1,95 +1,13 @@
-import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { Insertable, Selectable, Updateable } from 'kysely';
+import type { AssessmentsTables } from './tables/assessments';
+import type { AuthTables } from './tables/auth';
+import type { BillingTables } from './tables/billing';
+import type { EstateTables, AuditEventsTable, BlocksTable, RoomsTable, SchoolsTable } from './tables/estate';
+import type { PortfolioTables } from './tables/portfolio';
+import type { RegisterTables } from './tables/register';
 
-/** Timestamps are written by Postgres defaults and triggers, read as Date. */
-type CreatedAt = ColumnType<Date, never, never>;
-type UpdatedAt = ColumnType<Date, never, Date | undefined>;
-/** JSON columns: written as a string or value, read as parsed JSON. */
-type Json<T> = ColumnType<T, T | string, T | string>;
-
-export interface TrustsTable {
-  id: string;
-  name: string;
-  slug: string;
-  created_at: CreatedAt;
-  updated_at: UpdatedAt;
-}
-
-export interface SchoolsTable {
-  id: Generated<string>;
-  trust_id: string;
-  name: string;
-  reference_number: string | null;
-  phase: string;
-  climate_region: string;
-  address: string | null;
-  timetable: Json<unknown> | null;
-  heating_fuel: Generated<string>;
-  fuel_price_gbp_per_kwh: number | null;
-  boiler_efficiency: number | null;
-  created_at: CreatedAt;
-  updated_at: UpdatedAt;
-}
-
-export interface BlocksTable {
-  id: Generated<string>;
-  school_id: string;
-  name: string;
-  year_built: number | null;
-  construction_type: string | null;
-  air_permeability_m3h_m2: number | null;
-  heating_type: string | null;
-  heating_fuel: string | null;
-  heating_installed_year: number | null;
-  created_at: CreatedAt;
-  updated_at: UpdatedAt;
-}
-
-export interface RoomsTable {
-  id: Generated<string>;
-  school_id: string;
-  block_id: string | null;
-  code: string;
-  name: Generated<string>;
-  use: Generated<string>;
-  floor_area_m2: number;
-  ceiling_height_m: number;
-  pupils: Generated<number>;
-  adults: Generated<number>;
-  age_group: string;
-  orientation_deg: number | null;
-  glazing_area_m2: Generated<number>;
-  openable_area_m2: Generated<number>;
-  window_type: string | null;
-  glazing_g_value: number | null;
-  ventilation_type: string;
-  mechanical_supply_lps: number | null;
-  notes: string | null;
-  created_at: CreatedAt;
-  updated_at: UpdatedAt;
-}
-
-export interface AuditEventsTable {
-  id: Generated<string>;
-  trust_id: string | null;
-  actor_user_id: string | null;
-  actor_email: string | null;
-  action: string;
-  entity_type: string;
-  entity_id: string | null;
-  summary: Generated<string>;
-  before: Json<unknown> | null;
-  after: Json<unknown> | null;
-  created_at: CreatedAt;
-}
-
-/** The whole schema as Kysely sees it; later features add their tables here. */
-export interface Database {
-  trusts: TrustsTable;
-  schools: SchoolsTable;
-  blocks: BlocksTable;
-  rooms: RoomsTable;
-  audit_events: AuditEventsTable;
-}
+/** The whole schema as Kysely sees it, assembled from each feature's tables in db/tables/. */
+export interface Database extends EstateTables, AuthTables, RegisterTables, AssessmentsTables, BillingTables, PortfolioTables {}
 
 export type SchoolRow = Selectable<SchoolsTable>;
 export type NewSchool = Insertable<SchoolsTable>;

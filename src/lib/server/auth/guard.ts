@@ -1,5 +1,6 @@
 import { forbidden, unauthenticated } from '../http/errors';
 import type { ActiveTrust } from './context';
+import { can, type Action, type Resource } from './permissions';
 
 /** The active trust of a signed-in member; 401 without a session, 403 without a trust. */
 export function requireTrust(locals: App.Locals): ActiveTrust {
@@ -8,4 +9,27 @@ export function requireTrust(locals: App.Locals): ActiveTrust {
     throw forbidden('use Airtally without a trust');
   }
   return locals.trust;
+}
+
+const ACTION_WORDS: Record<string, string> = {
+  read: 'see this',
+  create: 'add records',
+  update: 'change records',
+  delete: 'delete records',
+  import: 'import a register',
+  export: 'export this',
+  run: 'run assessments',
+  edit_technical: 'change technical assumptions',
+  edit_financial: 'change financial assumptions',
+  save_weights: 'save ranking weights for the trust',
+  invite: 'invite members',
+  remove: 'remove members',
+  manage: 'manage the plan and billing',
+};
+
+/** The active trust, provided the member's role holds `action` on `resource`; otherwise 401/403. */
+export function requirePermission<R extends Resource>(locals: App.Locals, resource: R, action: Action<R>): ActiveTrust {
+  const trust = requireTrust(locals);
+  if (!can(trust.role, resource, action)) throw forbidden(ACTION_WORDS[action] ?? `${action} ${resource}`);
+  return trust;
 }

@@ -1,0 +1,91 @@
+import type { ColumnType, Generated } from 'kysely';
+import type { Json } from './json';
+
+/** Timestamps are written by Postgres defaults and triggers, read as Date. */
+type CreatedAt = ColumnType<Date, never, never>;
+type UpdatedAt = ColumnType<Date, never, Date | undefined>;
+
+export interface TrustsTable {
+  id: string;
+  name: string;
+  slug: string;
+  created_at: CreatedAt;
+  updated_at: UpdatedAt;
+}
+
+export interface SchoolsTable {
+  id: Generated<string>;
+  trust_id: string;
+  name: string;
+  reference_number: string | null;
+  phase: string;
+  climate_region: string;
+  address: string | null;
+  timetable: Json<unknown> | null;
+  heating_fuel: Generated<string>;
+  fuel_price_gbp_per_kwh: number | null;
+  boiler_efficiency: number | null;
+  created_at: CreatedAt;
+  updated_at: UpdatedAt;
+}
+
+export interface BlocksTable {
+  id: Generated<string>;
+  school_id: string;
+  name: string;
+  year_built: number | null;
+  construction_type: string | null;
+  air_permeability_m3h_m2: number | null;
+  heating_type: string | null;
+  heating_fuel: string | null;
+  heating_installed_year: number | null;
+  created_at: CreatedAt;
+  updated_at: UpdatedAt;
+}
+
+export interface RoomsTable {
+  id: Generated<string>;
+  school_id: string;
+  block_id: string | null;
+  code: string;
+  name: Generated<string>;
+  use: Generated<string>;
+  floor_area_m2: number;
+  ceiling_height_m: number;
+  pupils: Generated<number>;
+  adults: Generated<number>;
+  age_group: string;
+  orientation_deg: number | null;
+  glazing_area_m2: Generated<number>;
+  openable_area_m2: Generated<number>;
+  window_type: string | null;
+  glazing_g_value: number | null;
+  ventilation_type: string;
+  mechanical_supply_lps: number | null;
+  notes: string | null;
+  created_at: CreatedAt;
+  updated_at: UpdatedAt;
+}
+
+export interface AuditEventsTable {
+  id: Generated<string>;
+  trust_id: string | null;
+  actor_user_id: string | null;
+  actor_email: string | null;
+  action: string;
+  entity_type: string;
+  entity_id: string | null;
+  summary: Generated<string>;
+  before: Json<unknown> | null;
+  after: Json<unknown> | null;
+  created_at: CreatedAt;
+}
+
+/** Tables of the estate feature. */
+export interface EstateTables {
+  trusts: TrustsTable;
+  schools: SchoolsTable;
+  blocks: BlocksTable;
+  rooms: RoomsTable;
+  audit_events: AuditEventsTable;
+}

@@ -1,0 +1,55 @@
+/**
+ * Engineering economics with end-of-year cash flows and a real discount rate (domain reference §6.1;
+ * discounting convention of the HM Treasury Green Book).
+ */
+
+/** Annuity factor AF(r, n) = (1 − (1+r)^−n)/r; AF(0, n) = n. r 0–0.5, n ≥ 0 years. */
+export function annuityFactor(rate: number, years: number): number {
+  if (rate === 0) return years;
+  return (1 - (1 + rate) ** -years) / rate;
+}
+
+/** NPV of a level annual saving: −C0 + S·AF(r, n), £. */
+export function npvLevel(args: { capitalGbp: number; annualSavingGbp: number; rate: number; years: number }): number {
+  return -args.capitalGbp + args.annualSavingGbp * annuityFactor(args.rate, args.years);
+}
+
+/** Equivalent annual cost of capital, C0/AF(r, n), £/yr. */
+export function equivalentAnnualCostGbp(args: { capitalGbp: number; rate: number; years: number }): number {
+  return args.capitalGbp / annuityFactor(args.rate, args.years);
+}
+
+/** Simple payback C0/S, years; 0 with no capital; null ("never") when S ≤ 0. */
+export function simplePaybackYears(capitalGbp: number, annualSavingGbp: number): number | null {
+  if (capitalGbp <= 0) return 0;
+  if (!(annualSavingGbp > 0)) return null;
+  return capitalGbp / annualSavingGbp;
+}
+
+/** Closed-form discounted payback for a level saving: −ln(1 − r·C0/S)/ln(1+r), years; null when r·C0/S ≥ 1 or S ≤ 0. */
+export function discountedPaybackClosedFormYears(args: { capitalGbp: number; annualSavingGbp: number; rate: number }): number | null {
+  const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
+  if (c0 <= 0) return 0;
+  if (!(s > 0)) return null;
+  if (r === 0) return c0 / s;
+  const x = (r * c0) / s;
+  if (x >= 1) return null;
+  return -Math.log(1 - x) / Math.log(1 + r);
+}
+
+/**
+ * Discounted payback, years: the smallest year t with Σ_{k=1..t} S/(1+r)^k ≥ C0, with the fraction of the
+ * crossing year found by linear interpolation (§6.1). null ("never") when the saving never repays the capital.
+ * Uses the same annuity factor as npvLevel, so NPV over n years ≥ 0 exactly when this is ≤ n.
+ */
+export function discountedPaybackYears(args: { capitalGbp: number; annualSavingGbp: number; rate: number }): number | null {
+  const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
+  const closed = discountedPaybackClosedFormYears(args);
+  if (closed === null || closed === 0) return closed;
+  let k = Math.max(1, Math.ceil(closed));
+  while (k > 1 && s * annuityFactor(r, k - 1) >= c0) k -= 1;
+  while (s * annuityFactor(r, k) < c0) k += 1;
+  const before = s * annuityFactor(r, k - 1);
+  const inYear = s * annuityFactor(r, k) - before;
+  return k - 1 + (c0 - before) / inYear;
+}
