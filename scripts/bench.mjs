@@ -1,0 +1,79 @@
+// `npm run bench`: starts a private Postgres, the fakes and the app on bench ports, runs every
+// scripts/bench/*.bench.ts in turn and merges the JSON object each prints last into bench/results.json.
+import { readdirSync, mkdirSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { spawnSync } from 'node:child_process';
+import {
+  ROOT, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
+} from './lib/services.mjs';
+import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
+
+const port = Number(process.env.AIRTALLY_BENCH_PORT ?? 4398);
+const pgPort = Number(process.env.AIRTALLY_BENCH_PG_PORT ?? 54349);
+const smtpPort = Number(process.env.AIRTALLY_BENCH_SMTP_PORT ?? 54345);
+const mailWebPort = Number(process.env.AIRTALLY_BENCH_MAIL_WEB_PORT ?? 54346);
+const dataDir = process.env.AIRTALLY_BENCH_DATA_DIR ?? join(ROOT, '.data', 'bench');
+const outDir = join(ROOT, '.data', 'bench-dist');
+const only = process.argv.slice(2);
+
+let pg;
+async function finish(code) {
+  await stopChildren();
+  pg?.stop();
+  process.exit(code);
+}
+process.on('SIGINT', () => void finish(130));
+
+try {
+  ensureNodeModules();
+  pg = await startPostgres({ dataDir, port: pgPort, database: 'postgres' });
+  recreateDatabase(pg, 'airtally_bench');
+  const origin = `http://127.0.0.1:${port}`;
+  const env = {
+    ...process.env,
+    DATABASE_URL: pg.url.replace(/\/postgres$/, '/airtally_bench'),
+    PUBLIC_ORIGIN: origin,
+    APP_URL: origin,
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(smtpPort),
+    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
+    NODE_ENV: 'production',
+  };
+  prepareDatabase(env);
+  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
+  await waitForPort(smtpPort, 20_000, 'The mail fake');
+  buildApp(outDir);
+  await serveApp(outDir, port, env);
+
+  const resultsFile = join(ROOT, 'bench', 'results.json');
+  mkdirSync(join(ROOT, 'bench'), { recursive: true });
+  const results = existsSync(resultsFile) ? JSON.parse(readFileSync(resultsFile, 'utf8')) : {};
+  const benches = readdirSync(join(ROOT, 'scripts', 'bench'))
+    .filter((f) => f.endsWith('.bench.ts'))
+    .filter((f) => only.length === 0 || only.some((o) => f.includes(o)))
+    .sort();
+  let failed = false;
+  for (const file of benches) {
+    step(`Benchmark ${file}`);
+    const run = spawnSync(join(ROOT, 'node_modules', '.bin', 'tsx'), [join('scripts', 'bench', file)], {
+      cwd: ROOT, env: { ...env, BENCH_DIST_DIR: outDir }, stdio: ['ignore', 'pipe', 'inherit'], maxBuffer: 64 * 1024 * 1024,
+    });
+    const out = run.stdout.toString();
+    process.stdout.write(out);
+    const last = out.trim().split('\n').filter((l) => l.trim().startsWith('{')).pop();
+    if (run.status !== 0 || !last) {
+      failed = true;
+      console.error(`${file} failed (exit ${run.status})`);
+      continue;
+    }
+    Object.assign(results, JSON.parse(last));
+  }
+  results.measured_at = new Date().toISOString();
+  writeFileSync(resultsFile, `${JSON.stringify(results, null, 2)}\n`);
+  step(`Figures written to bench/results.json`);
+  console.log(JSON.stringify(results, null, 2));
+  await finish(failed ? 1 : 0);
+} catch (error) {
+  console.error(error instanceof Error ? error.stack : error);
+  await finish(1);
+}
