@@ -1,16 +1,29 @@
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { FileMigrationProvider, Migrator, type Kysely } from 'kysely';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { Migrator, type Kysely, type Migration, type MigrationProvider } from 'kysely';
 
 const MIGRATIONS_DIR = path.join(path.dirname(fileURLToPath(import.meta.url)), 'migrations');
 
+/**
+ * Loads every timestamped file in db/migrations. Kysely's own FileMigrationProvider imports
+ * natively, which cannot load .ts under vitest; importing from here lets tsx and vitest compile them.
+ */
+const folderProvider: MigrationProvider = {
+  async getMigrations() {
+    const files = (await fs.readdir(MIGRATIONS_DIR)).filter((f) => /\.(ts|js|mjs)$/.test(f) && !f.endsWith('.d.ts')).sort();
+    const migrations: Record<string, Migration> = {};
+    for (const file of files) {
+      const module = (await import(pathToFileURL(path.join(MIGRATIONS_DIR, file)).href)) as Migration;
+      migrations[file.replace(/\.(ts|js|mjs)$/, '')] = { up: module.up, ...(module.down ? { down: module.down } : {}) };
+    }
+    return migrations;
+  },
+};
+
 /** A Kysely migrator over the timestamped files in db/migrations. */
 export function createMigrator(db: Kysely<any>): Migrator {
-  return new Migrator({
-    db,
-    provider: new FileMigrationProvider({ fs, path, migrationFolder: MIGRATIONS_DIR }),
-  });
+  return new Migrator({ db, provider: folderProvider });
 }
 
 /** Runs all pending migrations; throws with the failing migration's name when one fails. */
