@@ -1,5 +1,5 @@
 /** Helpers the app uses to show, edit and check an assumption set. */
-import { EngineInputError } from './errors';
+import { EngineInputError, requireRange } from './errors';
 import type { Assumed, AssumptionKind, AssumptionSet, SourceStatus } from './types';
 
 /** One assumed value flattened for display, with its path for editing (e.g. 'finance.discountRate'). */
@@ -65,7 +65,85 @@ export function withAssumptionValue(set: AssumptionSet, path: string, value: unk
   return copy;
 }
 
-/** Throws EngineInputError naming the first out-of-range value of the set. */
+/** Throws EngineInputError naming the first out-of-range value of the set (path prefixed 'assumptions.'). */
 export function validateAssumptionSet(set: AssumptionSet): void {
-  void set;
+  const r = (path: string, value: number, min: number, max: number): void => {
+    requireRange(`assumptions.${path}`, value, min, max);
+  };
+  if (typeof set.version !== 'string' || set.version === '') throw new EngineInputError('assumptions.version', 'must be a non-empty text');
+  r('air.outdoorCo2Ppm', set.air.outdoorCo2Ppm.value, 250, 1000);
+  r('air.atmosphericPressureKpa', set.air.atmosphericPressureKpa.value, 80, 110);
+  for (const [use, met] of Object.entries(set.occupancy.pupilMetByUse.value)) r(`occupancy.pupilMetByUse.${use}`, met, 1, 4);
+  for (const [age, d] of Object.entries(set.occupancy.pupilMetAdjustByAge.value)) r(`occupancy.pupilMetAdjustByAge.${age}`, d, -1, 1);
+  r('occupancy.adultMet', set.occupancy.adultMet.value, 1, 4);
+  const tt = set.occupancy.timetable.value;
+  if (tt.length === 0) throw new EngineInputError('assumptions.occupancy.timetable', 'needs at least one period');
+  tt.forEach((seg, i) => {
+    const path = `occupancy.timetable.${i}`;
+    r(`${path}.startMinute`, seg.startMinute, 0, 1440);
+    r(`${path}.endMinute`, seg.endMinute, seg.startMinute + 1, 1440);
+    r(`${path}.occupancyFraction`, seg.occupancyFraction, 0, 1);
+    const prev = tt[i - 1];
+    if (prev && prev.endMinute !== seg.startMinute) {
+      throw new EngineInputError(`assumptions.${path}.startMinute`, `must start when the previous period ends (${prev.endMinute})`);
+    }
+  });
+  for (const [season, s] of Object.entries(set.seasons.value)) {
+    const path = `seasons.${season}`;
+    if (s.months.length === 0) throw new EngineInputError(`assumptions.${path}.months`, 'needs at least one month');
+    for (const m of s.months) r(`${path}.months`, m, 1, 12);
+    r(`${path}.schoolDays`, s.schoolDays, 0, 366);
+    r(`${path}.indoorTempC`, s.indoorTempC, 10, 30);
+    r(`${path}.windowOpenFractionOccupied`, s.windowOpenFractionOccupied, 0, 1);
+    r(`${path}.windowOpenFractionEmpty`, s.windowOpenFractionEmpty, 0, 1);
+  }
+  for (const [code, reg] of Object.entries(set.climate.regions.value)) {
+    if (reg.monthlyMeanTempC.length !== 12) throw new EngineInputError(`assumptions.climate.regions.${code}.monthlyMeanTempC`, 'needs twelve months');
+    reg.monthlyMeanTempC.forEach((t, i) => r(`climate.regions.${code}.monthlyMeanTempC.${i}`, t, -30, 40));
+    for (const [season, w] of Object.entries(reg.windSpeedMs)) r(`climate.regions.${code}.windSpeedMs.${season}`, w, 0, 30);
+  }
+  r('climate.daytimeOffsetK', set.climate.daytimeOffsetK.value, -5, 10);
+  r('windows.dischargeCoefficient', set.windows.dischargeCoefficient.value, 0.1, 1);
+  r('windows.openingHeightM', set.windows.openingHeightM.value, 0.1, 5);
+  for (const [t, f] of Object.entries(set.windows.effectiveOpeningFactor.value)) r(`windows.effectiveOpeningFactor.${t}`, f, 0, 1);
+  r('windows.crossWindDeltaCp', set.windows.crossWindDeltaCp.value, 0, 1.5);
+  r('windows.siteWindFactor', set.windows.siteWindFactor.value, 0, 1.5);
+  r('windows.windowUseWithMechanical', set.windows.windowUseWithMechanical.value, 0, 1);
+  r('infiltration.kpDivisor', set.infiltration.kpDivisor.value, 5, 50);
+  r('infiltration.envelopeAreaPerFloorArea', set.infiltration.envelopeAreaPerFloorArea.value, 0, 10);
+  r('mechanical.defaultSupplyLpsPerPerson', set.mechanical.defaultSupplyLpsPerPerson.value, 0, 50);
+  for (const p of set.criteria.packs.value) {
+    r(`criteria.packs.${p.id}.meanLimitPpm`, p.meanLimitPpm, 100, 10000);
+    if (p.maxLimitPpm !== null) r(`criteria.packs.${p.id}.maxLimitPpm`, p.maxLimitPpm, 100, 10000);
+    if (p.maxMinutesCap !== null) r(`criteria.packs.${p.id}.maxMinutesCap`, p.maxMinutesCap, 0, 1440);
+  }
+  r('criteria.newBuildFromYear', set.criteria.newBuildFromYear.value, 1900, 2100);
+  const bands = set.risk.bandUpperPupilHours.value;
+  r('risk.bandUpperPupilHours.0', bands[0], 0, 1e9);
+  r('risk.bandUpperPupilHours.1', bands[1], bands[0], 1e9);
+  r('risk.bandUpperPupilHours.2', bands[2], bands[1], 1e9);
+  r('risk.scoreHalfPupilHours', set.risk.scoreHalfPupilHours.value, 1, 1e9);
+  r('energy.heatingIndoorTempC', set.energy.heatingIndoorTempC.value, 10, 30);
+  r('energy.heatingCutoffTempC', set.energy.heatingCutoffTempC.value, 0, 30);
+  r('energy.airHeatCapacityWPerLpsK', set.energy.airHeatCapacityWPerLpsK.value, 1, 1.4);
+  for (const [f, e] of Object.entries(set.energy.heatGeneratorEfficiency.value)) r(`energy.heatGeneratorEfficiency.${f}`, e, 0.3, 6);
+  for (const [f, v] of Object.entries(set.finance.fuelPricesGbpPerKwh.value)) r(`finance.fuelPricesGbpPerKwh.${f}`, v, 0, 2);
+  for (const [f, v] of Object.entries(set.finance.carbonFactorsKgCo2ePerKwh.value)) r(`finance.carbonFactorsKgCo2ePerKwh.${f}`, v, 0, 2);
+  r('finance.electricityPriceGbpPerKwh', set.finance.electricityPriceGbpPerKwh.value, 0, 2);
+  r('finance.electricityKgCo2ePerKwh', set.finance.electricityKgCo2ePerKwh.value, 0, 2);
+  r('finance.discountRate', set.finance.discountRate.value, 0, 0.2);
+  r('finance.appraisalYears', set.finance.appraisalYears.value, 1, 60);
+  set.retrofit.unitCatalogue.value.forEach((u, i) => {
+    const path = `retrofit.unitCatalogue.${i}`;
+    r(`${path}.nominalFlowLps`, u.nominalFlowLps, 1, 5000);
+    r(`${path}.heatRecoveryEfficiency`, u.heatRecoveryEfficiency, 0, 0.99);
+    r(`${path}.specificFanPowerWPerLps`, u.specificFanPowerWPerLps, 0, 5);
+    r(`${path}.installedCostGbp`, u.installedCostGbp, 0, 1e6);
+    r(`${path}.annualMaintenanceGbp`, u.annualMaintenanceGbp, 0, 1e5);
+    r(`${path}.lifeYears`, u.lifeYears, 1, 60);
+    r(`${path}.soundDbA`, u.soundDbA, 0, 100);
+  });
+  r('retrofit.soundLimitDbA', set.retrofit.soundLimitDbA.value, 0, 100);
+  r('retrofit.maxUnitsPerRoom', set.retrofit.maxUnitsPerRoom.value, 1, 20);
+  r('retrofit.windowOpenFractionWithUnits', set.retrofit.windowOpenFractionWithUnits.value, 0, 1);
 }

@@ -40,8 +40,8 @@ export function schoolDayHours(timetable: readonly TimetableSegment[]): number {
 }
 
 /**
- * Occupied heating degree-hours, K·h a year:
- * DH_occ = Σ_months days_m · h_day · max(0, θ_i − θ_e,m) for months with θ_e,m < θ_cutoff,
+ * Occupied heating degree-hours by season, K·h a year:
+ * DH_occ = Σ_months days_m · h_day · (θ_i − θ_e,m) for months with θ_e,m < θ_cutoff,
  * where θ_e,m is the month's mean plus the school-hours offset and days_m the season's school days
  * shared equally among its months.
  * Method: occupied degree-hours in place of degree-days for schools (domain reference §5.2, [CP]);
@@ -54,19 +54,19 @@ export function occupiedHeatingDegreeHours(args: {
   indoorTempC: number;
   cutoffTempC: number;
   daytimeOffsetK: number;
-}): number {
-  let total = 0;
+}): Record<Season, number> {
+  const out: Record<Season, number> = { winter: 0, mid: 0, summer: 0 };
   for (const season of ['winter', 'mid', 'summer'] as const) {
     const profile = args.seasons[season];
     const daysPerMonth = profile.schoolDays / profile.months.length;
     for (const m of profile.months) {
       const outdoor = (args.region.monthlyMeanTempC[m - 1] ?? 0) + args.daytimeOffsetK;
       if (outdoor < args.cutoffTempC && outdoor < args.indoorTempC) {
-        total += daysPerMonth * args.dayHours * (args.indoorTempC - outdoor);
+        out[season] += daysPerMonth * args.dayHours * (args.indoorTempC - outdoor);
       }
     }
   }
-  return total;
+  return out;
 }
 
 /** Occupied hours a year in months where heating runs (for fan run time), h. */

@@ -494,6 +494,8 @@ export interface RoomAssessment {
   roomCode: string;
   assumptionsVersion: string;
   isTeachingRoom: boolean;
+  pupils: number;
+  /** Pupils plus adults. */
   occupants: number;
   volumeM3: number;
   ventilationClass: 'natural' | 'mechanical';
