@@ -1,0 +1,165 @@
+/** Shapes the portfolio API returns; islands import these types through src/lib/client. */
+import type { Weights } from './portfolio.schemas';
+
+export type { Weights };
+
+/** The weights a trust ranks with, and whether someone chose them. */
+export interface WeightSettings {
+  weights: Weights;
+  /** True when nobody has saved weights and the engine's defaults apply. */
+  isDefault: boolean;
+  savedAt: string | null;
+  savedByEmail: string | null;
+}
+
+/** One room on the priorities list. */
+export interface PriorityRow {
+  roomId: string;
+  /** Place in the trust under the weights in use, 1 = do first. */
+  rank: number;
+  /** Weighted score 0–1 (higher = do sooner). */
+  score: number;
+  schoolId: string;
+  schoolName: string;
+  blockId: string | null;
+  blockName: string | null;
+  roomCode: string;
+  roomName: string;
+  pupils: number;
+  ventilationType: string;
+  worstSeason: string;
+  meanCo2Ppm: number;
+  peakCo2Ppm: number;
+  criteriaMet: boolean;
+  /** 1 (least concern) – 4 (most). */
+  riskBand: number;
+  riskBandLabel: string;
+  reason: string;
+  pupilHoursAbove: number;
+  unitsRecommended: string;
+  unitCount: number;
+  capitalCostGbp: number | null;
+  annualSavingGbp: number | null;
+  simplePaybackYears: number | null;
+  npvGbp: number | null;
+}
+
+export interface PrioritiesPage {
+  rows: PriorityRow[];
+  total: number;
+  page: number;
+  pageSize: number;
+  weights: Weights;
+  /** True when the weights came from the request (a preview), not the trust's saved ones. */
+  preview: boolean;
+}
+
+/** One installed unit on the finance page: the room's per-unit money lines. */
+export interface FinanceUnitRow {
+  roomId: string;
+  roomCode: string;
+  roomName: string;
+  blockName: string | null;
+  unitIndex: number;
+  unitCount: number;
+  modelName: string;
+  capitalCostGbp: number;
+  annualSavingKwh: number;
+  annualSavingGbp: number;
+  annualSavingKgCo2e: number;
+  simplePaybackYears: number | null;
+  discountedPaybackYears: number | null;
+  npvGbp: number;
+  /** Capital per tonne CO2e saved over the unit's life; null when the unit saves no carbon. */
+  capitalPerTonneCo2eGbp: number | null;
+  heatingRenewal: HeatingRenewalFlag | null;
+}
+
+/** A block whose fossil-fuel heating is near the end of its typical life. */
+export interface HeatingRenewalFlag {
+  fuel: string;
+  installedYear: number;
+  expectedEndYear: number;
+}
+
+export interface MoneyTotals {
+  units: number;
+  capitalCostGbp: number;
+  annualSavingKwh: number;
+  annualSavingGbp: number;
+  annualSavingKgCo2e: number;
+  npvGbp: number;
+  simplePaybackYears: number | null;
+  capitalPerTonneCo2eGbp: number | null;
+}
+
+export interface FinanceSchool {
+  schoolId: string;
+  schoolName: string;
+  units: FinanceUnitRow[];
+  subtotal: MoneyTotals;
+}
+
+/** One case of the sensitivity table: the programme's payback and NPV under changed prices or rate. */
+export interface SensitivityCase {
+  energyPriceChangePct: number;
+  discountRate: number;
+  annualSavingGbp: number;
+  simplePaybackYears: number | null;
+  discountedPaybackYears: number | null;
+  npvGbp: number;
+}
+
+export interface FinanceReport {
+  schools: FinanceSchool[];
+  totals: MoneyTotals;
+  baseline: {
+    discountRate: number;
+    appraisalYears: number;
+    assumptionsVersion: string | null;
+    runFinishedAt: string | null;
+    words: string;
+  };
+  heatingRenewalRule: { plantLifeYears: number; horizonYears: number; fuels: string[]; words: string };
+  sensitivity: { byEnergyPrice: SensitivityCase[]; byDiscountRate: SensitivityCase[] };
+}
+
+/** Counts of rooms per school in bands of worst-season occupied mean CO2. */
+export interface Co2BySchool {
+  schoolId: string;
+  schoolName: string;
+  below1000: number;
+  from1000to1500: number;
+  from1500to2000: number;
+  above2000: number;
+}
+
+export interface ScatterPoint {
+  roomId: string;
+  label: string;
+  riskScore: number;
+  simplePaybackYears: number;
+  capitalCostGbp: number;
+  riskBand: number;
+}
+
+export interface CumulativePoint {
+  rank: number;
+  cumulativeCapitalGbp: number;
+  cumulativePupilHoursRemoved: number;
+}
+
+export interface Dashboard {
+  headline: {
+    roomsInRegister: number;
+    roomsAssessed: number;
+    roomsFailing: number;
+    pupilsInFailingRooms: number;
+    capitalAllUnitsGbp: number;
+    annualSavingGbp: number;
+    lastRunFinishedAt: string | null;
+  };
+  co2BySchool: Co2BySchool[];
+  scatter: { points: ScatterPoint[]; totalWithRetrofit: number; shown: number };
+  cumulative: { points: CumulativePoint[]; totalCapitalGbp: number; totalPupilHoursRemoved: number };
+}
