@@ -10,3 +10,14 @@ export type { AssumptionEntry } from './assumption-tools';
 export { EngineInputError } from './errors';
 export { RISK_BAND_LABELS } from './risk';
 export type * from './types';
+
+// Formula modules, exported for reports, the what-if panel and tests.
+export * as co2 from './co2-mass-balance';
+export * as windows from './window-airflow';
+export * as infiltration from './infiltration';
+export * as energy from './energy';
+export * as finance from './finance';
+export * as comfort from './comfort';
+export * as calibration from './calibration';
+export { CRITERIA_PACKS, applyPack, en16798DesignAirflowLps } from './criteria';
+export { CLIMATE_REGION_DATA } from './climate-regions';
