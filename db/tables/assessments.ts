@@ -19,6 +19,37 @@ export interface AssessmentRunsTable {
   created_at: Generated<Date>;
   started_at: Timestamp | null;
   finished_at: Timestamp | null;
+  /** The pg-boss job working the run (to tell a crashed worker from a slow one). */
+  job_id: string | null;
+  /** Last room (in id order) of the last committed chunk: a resumed run carries on after it. */
+  resume_after_room_id: string | null;
+  /** Rooms the engine could not assess: [{ roomId, roomCode, field, message }]. */
+  problems: ColumnType<RunProblem[], string | undefined, string>;
+  updated_at: Generated<Date>;
+}
+
+/** A room a run skipped, with the engine's reason. */
+export interface RunProblem {
+  roomId: string;
+  roomCode: string;
+  field: string;
+  message: string;
+}
+
+/** One version of a trust's assumption set; the unit catalogue is part of `values`. Never updated, only added. */
+export interface AssumptionSetsTable {
+  id: Generated<string>;
+  trust_id: string;
+  /** 1, 2, 3 … within the trust. */
+  version: number;
+  /** The version string the engine records in each result, e.g. 'airtally-default-2026.1+trust.3'. */
+  label: string;
+  /** The full AssumptionSet JSON. */
+  values: Json<unknown>;
+  change_summary: Generated<string>;
+  created_by_user_id: string | null;
+  created_by_email: string | null;
+  created_at: Generated<Date>;
 }
 
 /** One room's result in one run; `is_current` marks the result the views read. */
@@ -57,8 +88,9 @@ export interface RoomResultsTable {
   detail: Json<unknown>;
 }
 
-/** Tables of the assessments feature: add assumption sets and the unit catalogue here. */
+/** Tables of the assessments feature: runs, per-room results and versioned assumption sets. */
 export interface AssessmentsTables {
   assessment_runs: AssessmentRunsTable;
   room_results: RoomResultsTable;
+  assumption_sets: AssumptionSetsTable;
 }

@@ -1,0 +1,100 @@
+import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, rankRooms, toRankInput, type RankInput } from '../../engine';
+import type { RunProblem } from '../../../../db/tables/assessments';
+import { getDb, getPool } from '../db/client';
+import { getAssumptionSetById } from './assumptions.repository';
+import { readRoomChunk } from './engine-input.repository';
+import { toResultRow, type ResultRow } from './result-row';
+import { commitChunk, deleteNonCurrentResults, flipRunCurrent } from './results.repository';
+import { getRun, markFailed, markRunning, noteRetry } from './runs.repository';
+
+export interface ExecuteOptions {
+  /** Rooms per chunk; by default a twentieth of the run, between 100 and 2,000. */
+  chunkSize?: number;
+  /** Called after each committed chunk with the rooms done so far (progress hooks; tests use it to stop a run midway). */
+  afterChunk?: (roomsDone: number) => void | Promise<void>;
+}
+
+/** Rooms per chunk: small runs still show progress, big runs write in large batches. */
+export const defaultChunkSize = (roomsTotal: number) => Math.min(2000, Math.max(100, Math.ceil(roomsTotal / 20)));
+
+/**
+ * Works one run to the end, resuming after the last committed chunk when an earlier attempt stopped.
+ * Each chunk reads rooms, assesses them without curves, and writes its results (not yet current) with
+ * the run's progress in one transaction; at the end the run is flipped current in one transaction.
+ * Throws on any unexpected error and leaves the run resumable: the caller decides to retry or fail it.
+ */
+export async function executeRun(runId: string, options: ExecuteOptions = {}): Promise<void> {
+  const db = getDb();
+  const run = await getRun(db, runId, null);
+  if (!run || run.status === 'succeeded' || run.status === 'failed') return;
+  const stored = run.assumptionSetId ? await getAssumptionSetById(db, run.trustId, run.assumptionSetId) : null;
+  if (!stored) {
+    await markFailed(db, runId, 'The assumption set this run was started with no longer exists. Start a new run.');
+    return;
+  }
+  if (!(await markRunning(db, runId))) return;
+
+  const scope = { trustId: run.trustId, schoolId: run.schoolId };
+  const chunkSize = options.chunkSize ?? defaultChunkSize(run.roomsTotal);
+  const resumedAfterRoomId = run.resumeAfterRoomId;
+  const rankInputs: RankInput[] = [];
+  let cursor = resumedAfterRoomId;
+  let roomsDone = run.roomsDone;
+  for (;;) {
+    const rooms = await readRoomChunk(db, scope, cursor, chunkSize);
+    if (rooms.length === 0) break;
+    const rows: ResultRow[] = [];
+    const problems: RunProblem[] = [];
+    for (const room of rooms) {
+      try {
+        const assessment = assessRoom(room.input, stored.set, { withCurve: false });
+        rows.push(toResultRow(runId, room, assessment));
+        rankInputs.push(toRankInput(`${runId}:${room.roomId}`, assessment));
+      } catch (error) {
+        if (!(error instanceof EngineInputError)) throw error;
+        problems.push({ roomId: room.roomId, roomCode: room.roomCode, field: error.field, message: error.message });
+      }
+    }
+    cursor = rooms[rooms.length - 1]!.roomId;
+    await commitChunk(getPool(), runId, rows, { roomsDone: rooms.length, lastRoomId: cursor, problems });
+    roomsDone += rooms.length;
+    await options.afterChunk?.(roomsDone);
+  }
+
+  await flipRunCurrent(db, {
+    runId,
+    trustId: run.trustId,
+    schoolId: run.schoolId,
+    rankInputs,
+    resumedAfterRoomId,
+    rank: (rows) => rankRooms(rows, DEFAULT_RANK_WEIGHTS),
+  });
+}
+
+/** Plain words for an unexpected error, for the run's `error` field. */
+const describe = (error: unknown) => (error instanceof Error ? error.message : String(error));
+
+/**
+ * One attempt of the queue's job: work the run; on error either leave it for the queue's retry (which
+ * resumes it) or, on the last attempt, fail it cleanly and remove its half-written rows.
+ */
+export async function attemptRun(runId: string, attempt: { retryCount: number; retryLimit: number }, options: ExecuteOptions = {}): Promise<void> {
+  const db = getDb();
+  try {
+    await executeRun(runId, options);
+  } catch (error) {
+    if (attempt.retryCount >= attempt.retryLimit) {
+      await failRun(runId, `The run stopped with an error: ${describe(error)}`);
+    } else {
+      await noteRetry(db, runId, describe(error));
+    }
+    throw error;
+  }
+}
+
+/** Fails a run and deletes the results it wrote (none of them ever became current). */
+export async function failRun(runId: string, message: string): Promise<void> {
+  const db = getDb();
+  await markFailed(db, runId, message);
+  await deleteNonCurrentResults(db, runId);
+}

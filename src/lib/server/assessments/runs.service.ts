@@ -1,0 +1,118 @@
+import { recordAudit, type AuditEntry } from '../audit/audit.repository';
+import type { ActiveTrust } from '../auth/context';
+import { getDb } from '../db/client';
+import { forbidden, notFound } from '../http/errors';
+import { getCurrentAssumptionSet } from './assumptions.repository';
+import type { StartRunBody } from './assessments.schemas';
+import { countRoomsInScope } from './engine-input.repository';
+import { enqueueRun, getQueue, jobState } from './queue';
+import { failRun } from './run-executor';
+import { findActiveRun, getRun, insertRun, listRuns, setRunJob, type Run } from './runs.repository';
+
+type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
+
+/** The run status the API returns. */
+export interface RunStatusView {
+  id: string;
+  scope: 'trust' | 'school';
+  schoolId: string | null;
+  schoolName: string | null;
+  status: Run['status'];
+  roomsDone: number;
+  roomsTotal: number;
+  startedAt: string | null;
+  finishedAt: string | null;
+  createdAt: string;
+  startedByEmail: string | null;
+  assumptionsVersion: string | null;
+  error?: string;
+  problems: Run['problems'];
+}
+
+export const toStatusView = (run: Run): RunStatusView => ({
+  id: run.id,
+  scope: run.scope,
+  schoolId: run.schoolId,
+  schoolName: run.schoolName,
+  status: run.status,
+  roomsDone: Math.min(run.roomsDone, run.roomsTotal),
+  roomsTotal: run.roomsTotal,
+  startedAt: run.startedAt,
+  finishedAt: run.finishedAt,
+  createdAt: run.createdAt,
+  startedByEmail: run.startedByEmail,
+  assumptionsVersion: run.assumptionsVersion,
+  ...(run.error ? { error: run.error } : {}),
+  problems: run.problems,
+});
+
+/**
+ * Queues an assessment of the trust or one school under the trust's current assumption set. A run of the
+ * same scope that is still queued or running is returned instead of starting a second one.
+ */
+export async function startRun(trust: ActiveTrust, actor: Actor, body: StartRunBody): Promise<{ id: string; alreadyRunning: boolean }> {
+  const db = getDb();
+  const schoolId = body.scope === 'school' ? body.schoolId : null;
+  if (schoolId === null && trust.schoolIds !== null) throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
+  if (schoolId !== null) {
+    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', trust.id).where('id', '=', schoolId).executeTakeFirst();
+    if (!school || (trust.schoolIds !== null && !trust.schoolIds.includes(schoolId))) throw notFound('That school');
+  }
+  await getQueue();
+  const active = await findActiveRun(db, trust.id, schoolId);
+  if (active) return { id: active.id, alreadyRunning: true };
+
+  const assumptions = await getCurrentAssumptionSet(db, trust.id);
+  const roomsTotal = await countRoomsInScope(db, { trustId: trust.id, schoolId });
+  const id = await db.transaction().execute(async (trx) => {
+    const runId = await insertRun(trx, {
+      trustId: trust.id,
+      schoolId,
+      roomsTotal,
+      assumptionSetId: assumptions.id,
+      assumptionsVersion: assumptions.label,
+      startedByUserId: actor.actorUserId,
+      startedByEmail: actor.actorEmail,
+    });
+    await recordAudit(trx, {
+      ...actor,
+      trustId: trust.id,
+      action: 'assessment.run_started',
+      entityType: 'assessment_run',
+      entityId: runId,
+      summary: `Assessment of ${schoolId ? 'one school' : 'the whole trust'} started (${roomsTotal} rooms, assumptions ${assumptions.label})`,
+      after: { scope: body.scope, schoolId, roomsTotal, assumptionsVersion: assumptions.label },
+    });
+    return runId;
+  });
+  const jobId = await enqueueRun(id);
+  await setRunJob(db, id, jobId);
+  return { id, alreadyRunning: false };
+}
+
+/**
+ * A run's status. A run still marked queued or running whose job pg-boss has given up on (its worker died
+ * on the last attempt) is failed here, cleanly, so nobody waits for it forever.
+ */
+export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunStatusView> {
+  const db = getDb();
+  let run = await getRun(db, id, trust.id);
+  if (!run) throw notFound('That assessment run');
+  if ((run.status === 'queued' || run.status === 'running') && run.jobId) {
+    const state = await jobState(run.jobId);
+    if (state === null || state === 'failed' || state === 'cancelled') {
+      run = (await getRun(db, id, trust.id))!;
+      if (run.status === 'queued' || run.status === 'running') {
+        await failRun(id, 'The worker stopped before the run finished and its retries are used up. Start a new run.');
+        run = (await getRun(db, id, trust.id))!;
+      }
+    }
+  }
+  return toStatusView(run);
+}
+
+/** The trust's recent runs, newest first. */
+export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
+  await getQueue();
+  return (await listRuns(getDb(), trust.id, limit)).map(toStatusView);
+}
