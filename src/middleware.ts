@@ -1,9 +1,46 @@
 import { defineMiddleware } from 'astro:middleware';
+import { getAuth } from './lib/server/auth/auth';
+import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
+import { getDb } from './lib/server/db/client';
 
-// Foundation stage: no sign-in yet, every request reads the demo trust. The sign-in feature
-// replaces this with the session, active trust and role.
+/** Paths under /app that a signed-in person without a usable trust may still open. */
+const WITHOUT_TRUST = ['/app/account'];
+
+/**
+ * Puts the signed-in person and the trust they act in on Astro.locals, then guards the app pages:
+ * anonymous visitors go to sign-in, people without a usable trust go to their account page.
+ * API routes guard themselves (requireTrust / requirePermission answer 401/403 as JSON).
+ */
 export const onRequest = defineMiddleware(async (context, next) => {
   context.locals.user = null;
-  context.locals.trust = { id: 'demo-trust', name: 'Demo trust', role: 'viewer', schoolIds: null };
+  context.locals.trust = null;
+  const path = context.url.pathname;
+  // better-auth reads its own session; static assets need none.
+  if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
+
+  const session = await getAuth().api.getSession({ headers: context.request.headers });
+  if (session) {
+    const { user } = session;
+    context.locals.user = { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified };
+    const usable = (await listMemberships(getDb(), user.id)).filter((m) => !m.ended);
+    const activeId = session.session.activeOrganizationId ?? null;
+    let active = usable.find((m) => m.trustId === activeId);
+    // With a single usable trust, people land in it without choosing.
+    if (!active && usable.length === 1) active = usable[0];
+    if ((active?.trustId ?? null) !== activeId) await setSessionTrust(getDb(), session.session.id, active?.trustId ?? null);
+    if (active) {
+      context.locals.trust = { id: active.trustId, name: active.trustName, role: active.role, schoolIds: active.schoolIds };
+    }
+  }
+
+  if (path === '/app' || path.startsWith('/app/')) {
+    if (!context.locals.user) {
+      const nextPath = `${path}${context.url.search}`;
+      return context.redirect(`/sign-in?next=${encodeURIComponent(nextPath)}`, 303);
+    }
+    if (!context.locals.trust && !WITHOUT_TRUST.some((p) => path === p || path.startsWith(`${p}/`))) {
+      return context.redirect('/app/account?notice=no-trust', 303);
+    }
+  }
   return next();
 });

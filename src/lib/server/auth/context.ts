@@ -16,3 +16,11 @@ export interface ActiveTrust {
   role: Role;
   schoolIds: string[] | null;
 }
+
+/** How each role is named to people (pages, e-mails). */
+export const ROLE_LABELS: Record<Role, string> = {
+  trust_admin: 'Trust admin',
+  estates_manager: 'Estates manager',
+  finance_lead: 'Finance lead',
+  viewer: 'Viewer',
+};

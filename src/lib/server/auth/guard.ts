@@ -1,5 +1,6 @@
 import { forbidden, unauthenticated } from '../http/errors';
-import type { ActiveTrust } from './context';
+import { emailUnverified } from './auth.errors';
+import type { ActiveTrust, SessionUser } from './context';
 import { can, type Action, type Resource } from './permissions';
 
 /** The active trust of a signed-in member; 401 without a session, 403 without a trust. */
@@ -32,4 +33,14 @@ export function requirePermission<R extends Resource>(locals: App.Locals, resour
   const trust = requireTrust(locals);
   if (!can(trust.role, resource, action)) throw forbidden(ACTION_WORDS[action] ?? `${action} ${resource}`);
   return trust;
+}
+
+/**
+ * The signed-in person, provided they have confirmed their e-mail address (needed to invite people
+ * or start a paid plan); 401 when signed out, 403 `email_unverified` otherwise.
+ */
+export function requireVerifiedEmail(locals: App.Locals): SessionUser {
+  if (!locals.user) throw unauthenticated();
+  if (!locals.user.emailVerified) throw emailUnverified(locals.user.email);
+  return locals.user;
 }

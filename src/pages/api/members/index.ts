@@ -1,0 +1,21 @@
+import { InviteSchema } from '../../../lib/server/auth/auth.schemas';
+import { requirePermission, requireVerifiedEmail } from '../../../lib/server/auth/guard';
+import { inviteMember, listMembers } from '../../../lib/server/auth/members.service';
+import { getDb } from '../../../lib/server/db/client';
+import { json, parseJson } from '../../../lib/server/http/respond';
+import { route } from '../../../lib/server/http/route';
+
+/** The trust's members and pending invitations. */
+export const GET = route(async ({ locals }) => {
+  const trust = requirePermission(locals, 'members', 'read');
+  return json(await listMembers(getDb(), trust));
+});
+
+/** Invites someone by e-mail with a role (the inviter's address must be confirmed). */
+export const POST = route(async ({ locals, request }) => {
+  const trust = requirePermission(locals, 'members', 'invite');
+  const user = requireVerifiedEmail(locals);
+  const input = await parseJson(request, InviteSchema);
+  const invitation = await inviteMember(getDb(), { user, trust, headers: request.headers }, input);
+  return json({ invitation }, 201);
+});

@@ -1,0 +1,44 @@
+// Reading the local SMTP fake's inbox (maildev 3: GET /api/email) in tests.
+
+const INBOX_URL = (process.env.MAIL_INBOX_URL ?? 'http://127.0.0.1:54336').replace(/\/$/, '');
+
+/** One received message as maildev reports it. */
+export interface ReceivedMail {
+  id: string;
+  subject: string;
+  text: string;
+  html: string;
+  to: { address: string; name?: string }[];
+  date: string;
+}
+
+/** Every message in the inbox, oldest first. */
+export async function listMail(): Promise<ReceivedMail[]> {
+  const response = await fetch(`${INBOX_URL}/api/email`);
+  if (!response.ok) throw new Error(`The mail inbox answered ${response.status}`);
+  return (await response.json()) as ReceivedMail[];
+}
+
+/** Waits for the newest message to `to` whose subject contains `subjectIncludes` (case-insensitive). */
+export async function waitForMail(to: string, subjectIncludes = '', timeoutMs = 10_000): Promise<ReceivedMail> {
+  const deadline = Date.now() + timeoutMs;
+  const wanted = to.toLowerCase();
+  for (;;) {
+    const found = (await listMail())
+      .filter((m) => m.to.some((r) => r.address.toLowerCase() === wanted))
+      .filter((m) => m.subject.toLowerCase().includes(subjectIncludes.toLowerCase()));
+    const newest = found[found.length - 1];
+    if (newest) return newest;
+    if (Date.now() > deadline) throw new Error(`No e-mail to ${to} about "${subjectIncludes}" arrived within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+/** The first link in a message's plain text whose path starts with `pathPrefix` (e.g. '/reset-password'). */
+export function linkIn(mail: ReceivedMail, pathPrefix: string): URL {
+  for (const match of mail.text.matchAll(/https?:\/\/[^\s<>"]+/g)) {
+    const url = new URL(match[0]);
+    if (url.pathname.startsWith(pathPrefix)) return url;
+  }
+  throw new Error(`No ${pathPrefix} link in the e-mail "${mail.subject}"`);
+}

@@ -1,0 +1,69 @@
+// Signing in against the running app, for integration and browser tests of every feature.
+import { randomUUID } from 'node:crypto';
+
+/** The app under test (scripts/test.mjs sets APP_URL). */
+export const APP_URL = (process.env.APP_URL ?? 'http://127.0.0.1:4399').replace(/\/$/, '');
+
+/** The demo accounts' shared password (db/seed/demo-accounts.ts). */
+export const DEMO_PASSWORD = 'airtally-demo-2026';
+
+/** The seeded demo account for each role in the demo trust ('demo-trust'). */
+export const DEMO_ACCOUNTS = {
+  trust_admin: 'trust.admin@demo.airtally.test',
+  estates_manager: 'estates@demo.airtally.test',
+  finance_lead: 'finance@demo.airtally.test',
+  viewer: 'viewer@demo.airtally.test',
+} as const;
+
+export type DemoRole = keyof typeof DEMO_ACCOUNTS;
+
+/** Turns a response's Set-Cookie headers into a Cookie header value (name=value pairs). */
+export function cookieFrom(response: Response): string {
+  return response.headers
+    .getSetCookie()
+    .map((line) => line.split(';')[0] ?? '')
+    .filter((pair) => pair.includes('=') && !pair.endsWith('='))
+    .join('; ');
+}
+
+/**
+ * Calls the app. `cookie` is sent as the Cookie header; a string body is sent as JSON; the Origin
+ * header is set like a browser's, so better-auth's and Astro's origin checks pass.
+ */
+export async function api(path: string, init: RequestInit & { cookie?: string } = {}): Promise<Response> {
+  const { cookie, headers: given, ...rest } = init;
+  const headers = new Headers(given);
+  if (cookie) headers.set('cookie', cookie);
+  if (!headers.has('origin')) headers.set('origin', APP_URL);
+  if (typeof rest.body === 'string' && !headers.has('content-type')) headers.set('content-type', 'application/json');
+  return fetch(`${APP_URL}${path}`, { redirect: 'manual', ...rest, headers });
+}
+
+/** Signs in with e-mail and password; resolves to the Cookie header of the new session. */
+export async function signIn(email: string, password: string = DEMO_PASSWORD): Promise<string> {
+  const response = await api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email, password }) });
+  if (!response.ok) throw new Error(`Sign-in as ${email} failed: ${response.status} ${await response.text()}`);
+  const cookie = cookieFrom(response);
+  if (!cookie) throw new Error(`Sign-in as ${email} set no session cookie`);
+  return cookie;
+}
+
+/** A unique address for a throwaway test user. */
+export function uniqueEmail(label = 'user'): string {
+  return `${label}-${randomUUID().slice(0, 8)}@test.airtally.test`;
+}
+
+/**
+ * Signs up a fresh user who names a new trust (and so is its trust admin), for cross-trust tests.
+ * The new trust has no schools.
+ */
+export async function createOtherTrust(): Promise<{ cookie: string; trustId: string; email: string }> {
+  const email = uniqueEmail('other-trust');
+  const response = await api('/api/account/sign-up', {
+    method: 'POST',
+    body: JSON.stringify({ name: 'Other Trust Admin', email, password: DEMO_PASSWORD, trustName: `Other Test Trust ${email.slice(12, 20)}` }),
+  });
+  if (response.status !== 201) throw new Error(`Sign-up failed: ${response.status} ${await response.text()}`);
+  const body = (await response.json()) as { trust: { id: string } };
+  return { cookie: cookieFrom(response), trustId: body.trust.id, email };
+}
