@@ -1,0 +1,41 @@
+// The shape of the authorisation matrix. Each feature adds its own file next to this one,
+// exporting `entries: MatrixEntry[]`; authorisation-matrix.test.ts loads every file in this folder.
+
+/** Who asks: nobody, each demo role in the demo trust, and the trust admin of another trust. */
+export const ACTORS = ['anonymous', 'viewer', 'finance_lead', 'estates_manager', 'trust_admin', 'other_trust'] as const;
+export type Actor = (typeof ACTORS)[number];
+
+/** Ids the entries can use, read from the demo trust before the matrix runs. */
+export interface MatrixContext {
+  /** A school of the demo trust. */
+  demoSchoolId: string;
+  /** A room of the demo trust. */
+  demoRoomId: string;
+  /** The other trust's id (its admin is the `other_trust` actor). */
+  otherTrustId: string;
+  /** A fresh e-mail address, different on every call. */
+  uniqueEmail: () => string;
+}
+
+type Resolvable<T> = T | ((ctx: MatrixContext) => T);
+
+export interface MatrixEntry {
+  /** The route file under src/pages/api, e.g. 'schools/[id].ts'. */
+  file: string;
+  method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  /** The concrete path to call, e.g. '/api/schools/…'. */
+  path: Resolvable<string>;
+  /** JSON body for writes. Prefer bodies and ids that change nothing (unknown ids, invalid input). */
+  body?: Resolvable<unknown>;
+  /** The status each actor must get. */
+  expect: Record<Actor, number>;
+  /** Why the statuses are what they are, when not obvious. */
+  note?: string;
+}
+
+/** Everyone gets the same status. */
+export const all = (status: number): Record<Actor, number> =>
+  Object.fromEntries(ACTORS.map((a) => [a, status])) as Record<Actor, number>;
+
+/** 401 for anonymous callers, `status` for every signed-in actor. */
+export const signedIn = (status: number): Record<Actor, number> => ({ ...all(status), anonymous: 401 });
