@@ -7,11 +7,13 @@ import {
   ROOT, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
 } from './lib/services.mjs';
 import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
+import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
 
 const port = Number(process.env.AIRTALLY_BENCH_PORT ?? 4398);
 const pgPort = Number(process.env.AIRTALLY_BENCH_PG_PORT ?? 54349);
 const smtpPort = Number(process.env.AIRTALLY_BENCH_SMTP_PORT ?? 54345);
 const mailWebPort = Number(process.env.AIRTALLY_BENCH_MAIL_WEB_PORT ?? 54346);
+const paymentsPort = Number(process.env.AIRTALLY_BENCH_PAYMENTS_PORT ?? 54347);
 const dataDir = process.env.AIRTALLY_BENCH_DATA_DIR ?? join(ROOT, '.data', 'bench');
 const outDir = join(ROOT, '.data', 'bench-dist');
 const only = process.argv.slice(2);
@@ -39,6 +41,8 @@ try {
     MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
     NODE_ENV: 'production',
   };
+  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
+  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: false, retryBaseMs: 1000 }));
   prepareDatabase(env);
   startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
   await waitForPort(smtpPort, 20_000, 'The mail fake');

@@ -3,11 +3,13 @@
 import { join } from 'node:path';
 import { ROOT, ensureNodeModules, startPostgres, startMailFake, stopChildren, step, waitForPort } from './lib/services.mjs';
 import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
+import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
 
 const port = Number(process.env.PORT ?? 4321);
 const pgPort = Number(process.env.AIRTALLY_PG_PORT ?? 54329);
 const smtpPort = Number(process.env.AIRTALLY_SMTP_PORT ?? 54325);
 const mailWebPort = Number(process.env.AIRTALLY_MAIL_WEB_PORT ?? 54326);
+const paymentsPort = Number(process.env.AIRTALLY_PAYMENTS_PORT ?? 54327);
 const dataDir = process.env.AIRTALLY_DATA_DIR ?? join(ROOT, '.data', 'dev');
 const outDir = join(ROOT, 'dist');
 
@@ -37,6 +39,8 @@ try {
     MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
     NODE_ENV: 'production',
   };
+  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
+  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: true, retryBaseMs: 2000 }));
   prepareDatabase(env);
   startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
   await waitForPort(smtpPort, 20_000, 'The mail fake');

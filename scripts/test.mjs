@@ -7,11 +7,13 @@ import {
   ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
 } from './lib/services.mjs';
 import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
+import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
 
 const port = Number(process.env.AIRTALLY_TEST_PORT ?? 4399);
 const pgPort = Number(process.env.AIRTALLY_TEST_PG_PORT ?? 54339);
 const smtpPort = Number(process.env.AIRTALLY_TEST_SMTP_PORT ?? 54335);
 const mailWebPort = Number(process.env.AIRTALLY_TEST_MAIL_WEB_PORT ?? 54336);
+const paymentsPort = Number(process.env.AIRTALLY_TEST_PAYMENTS_PORT ?? 54337);
 const dataDir = process.env.AIRTALLY_TEST_DATA_DIR ?? join(ROOT, '.data', 'test');
 const outDir = process.env.AIRTALLY_TEST_DIST_DIR ?? join(ROOT, '.data', 'test-dist');
 const vitestArgs = process.argv.slice(2);
@@ -45,6 +47,8 @@ try {
     MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
     NODE_ENV: 'production',
   };
+  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
+  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: false, retryBaseMs: 300 }));
   prepareDatabase(env);
   startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
   await waitForPort(smtpPort, 20_000, 'The mail fake');
