@@ -19,9 +19,9 @@ export function equivalentAnnualCostGbp(args: { capitalGbp: number; rate: number
   return args.capitalGbp / annuityFactor(args.rate, args.years);
 }
 
-/** Simple payback C0/S, years; 0 with no capital; null ("never") when S ≤ 0. */
+/** Simple payback C0/S, years; 0 with no capital and no loss; null ("never") when S ≤ 0 (or S < 0 with no capital). */
 export function simplePaybackYears(capitalGbp: number, annualSavingGbp: number): number | null {
-  if (capitalGbp <= 0) return 0;
+  if (capitalGbp <= 0) return annualSavingGbp >= 0 ? 0 : null;
   if (!(annualSavingGbp > 0)) return null;
   return capitalGbp / annualSavingGbp;
 }
@@ -29,7 +29,7 @@ export function simplePaybackYears(capitalGbp: number, annualSavingGbp: number):
 /** Closed-form discounted payback for a level saving: −ln(1 − r·C0/S)/ln(1+r), years; null when r·C0/S ≥ 1 or S ≤ 0. */
 export function discountedPaybackClosedFormYears(args: { capitalGbp: number; annualSavingGbp: number; rate: number }): number | null {
   const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
-  if (c0 <= 0) return 0;
+  if (c0 <= 0) return s >= 0 ? 0 : null;
   if (!(s > 0)) return null;
   if (r === 0) return c0 / s;
   const x = (r * c0) / s;

@@ -1,0 +1,143 @@
+import { describe, expect, it } from 'vitest';
+import { assessRoom, DEFAULT_ASSUMPTIONS, EngineInputError } from '~/lib/engine/index';
+import { exampleOneAssumptions, exampleOneRoom, typicalClassroom } from './helpers';
+
+const ex1 = exampleOneAssumptions();
+
+describe('assessRoom reproduces worked example 1 through the entry point', () => {
+  it('case A, 155 L/s: occupied mean 1139.5 ppm in every season (check 4, §1.6)', () => {
+    const a = assessRoom(exampleOneRoom(155), ex1);
+    for (const s of ['winter', 'mid', 'summer'] as const) {
+      expect(a.seasons[s].ventilation).toEqual({ windowLps: 0, infiltrationLps: 0, mechanicalLps: 155, totalLps: 155 });
+      expect(Math.abs(a.seasons[s].occupiedMeanCo2Ppm - 1139.5)).toBeLessThanOrEqual(0.5);
+      expect(Math.abs(a.seasons[s].generationLps - 0.148319)).toBeLessThanOrEqual(1e-6); // check 13
+    }
+  });
+
+  it('case A curve passes 1342.4 ppm at 10:00 and peaks at 1375.7 ppm (§1.6 table)', () => {
+    const w = assessRoom(exampleOneRoom(155), ex1).seasons.winter;
+    expect(Math.abs((w.curve.find((p) => p.minute === 600)?.co2Ppm ?? 0) - 1342.4)).toBeLessThanOrEqual(0.1);
+    expect(Math.abs(w.peakCo2Ppm - 1375.7)).toBeLessThanOrEqual(0.1);
+  });
+
+  it('case A meets the BB101 refurbishment mechanical criterion (1350 mean, 2000 for 20 min) and needs no retrofit', () => {
+    const a = assessRoom(exampleOneRoom(155), ex1);
+    expect(a.criterion.packId).toBe('bb101_2018_refurb_mechanical');
+    expect(a.criteriaMet).toBe(true);
+    expect(a.retrofit).toBeNull();
+  });
+
+  it('case B, 40 L/s: mean 2773.6 ppm and 205.0 min above 2000 ppm, so it fails (checks 5 and 8)', () => {
+    const w = assessRoom(exampleOneRoom(40), ex1).seasons.winter;
+    expect(Math.abs(w.occupiedMeanCo2Ppm - 2773.6)).toBeLessThanOrEqual(0.5);
+    expect(Math.abs(w.longestRunAboveMaxMinutes - 205.0)).toBeLessThanOrEqual(0.2);
+    expect(w.criterionMet).toBe(false);
+  });
+
+  it('case B counts 26,580 pupil-hours a year above 1350 ppm and bands it "Stale most days"', () => {
+    // Hand derivation (§1.3, §1.6): C_ss = 420 + 148319/40 = 4127.975 ppm, λ = 3.6·40/168 = 0.857143 h⁻¹;
+    // L1 crosses 1350 ppm at t* = ln(3707.975/2777.975)/λ = 20.213 min; the break bottoms at ≈ 2874 ppm and
+    // lunch at ≈ 1768 ppm, both above 1350, so the rest of the occupied day is above: 39.787 + 4·60 = 279.787 min.
+    // Every season is identical here: 30 pupils × 279.787/60 h × 190 days = 26,579.7 pupil-hours ≥ 10,000 (top band).
+    const a = assessRoom(exampleOneRoom(40), ex1);
+    expect(a.risk.thresholdPpm).toBe(1350);
+    expect(Math.abs(a.risk.pupilHoursPerYearAbove - 26579.7)).toBeLessThanOrEqual(1);
+    expect(a.risk.band).toBe('very_stale');
+    expect(a.risk.reason).toBe(
+      '30 pupils, 0 m² openable window and 40 l/s mechanical supply: winter mean 2,774 ppm, over 2,000 ppm for 205 minutes in a row; about 26,580 pupil-hours a year above 1,350 ppm.',
+    );
+  });
+
+  it('case B sizes one Wall unit 150 for the 120 l/s still needed', () => {
+    // Hand: required outdoor air 10^6·0.148319/(1350 − 420) = 159.48 L/s; less the existing 40 L/s → ceil(119.48) = 120 L/s.
+    // Cheapest ≥ 120 L/s in the default catalogue: Wall unit 150 £5,500 (2 × Sill 60 £5,600; Cassette 100 + Sill 60 £7,300).
+    const r = assessRoom(exampleOneRoom(40), ex1).retrofit;
+    expect(r).not.toBeNull();
+    expect(r?.requiredSupplyLps).toBe(120);
+    expect(r?.units).toEqual([{ modelId: 'wall-150', modelName: 'Wall unit 150', count: 1 }]);
+    expect(r?.capitalCostGbp).toBe(5500);
+    // With 190 L/s in total the steady state is 420 + 148319/190 = 1200.6 ppm < 1350: no pupil-hours remain above.
+    expect(Math.abs((r?.pupilHoursRemovedPerYear ?? 0) - 26579.7)).toBeLessThanOrEqual(1);
+    // 26,579.7 pupil-hours / £5.5k = 4,832.7 per £1,000
+    expect(Math.abs((r?.pupilHoursRemovedPer1000Gbp ?? 0) - 4832.7)).toBeLessThanOrEqual(0.5);
+  });
+});
+
+describe('assessRoom on a typical classroom under the default set', () => {
+  const a = assessRoom(typicalClassroom(), DEFAULT_ASSUMPTIONS);
+
+  it('records the assumption version, the cautions and the defaults it used', () => {
+    expect(a.assumptionsVersion).toBe(DEFAULT_ASSUMPTIONS.version);
+    expect(a.cautions.join(' ')).toMatch(/not a design/);
+    expect(a.defaultsUsed.some((d) => d.startsWith('block.airPermeabilityM3hM2 → 20'))).toBe(true);
+    expect(a.airPermeabilityM3hM2).toBe(20); // system-built default
+  });
+
+  it('derives infiltration from the default permeability: 20 × 56 / 168 / 20 × 168 / 3.6 = 15.56 l/s (§4.3)', () => {
+    expect(Math.abs(a.seasons.winter.ventilation.infiltrationLps - 15.5556)).toBeLessThanOrEqual(0.001);
+  });
+
+  it('opens windows less in winter than in summer, so winter CO2 is worst', () => {
+    expect(a.seasons.winter.ventilation.windowLps).toBeLessThan(a.seasons.summer.ventilation.windowLps);
+    expect(a.worstSeason).toBe('winter');
+  });
+
+  it('is plain JSON', () => {
+    expect(JSON.parse(JSON.stringify(a))).toEqual(a);
+  });
+
+  it('says in words when better air costs energy compared with today', () => {
+    expect(a.retrofit).not.toBeNull();
+    if (a.retrofit && a.retrofit.vsToday.annualExtraCostGbp > 0) expect(a.retrofit.comparisonWithToday).toMatch(/^Better air costs energy/);
+  });
+
+  it('leaves curves out when asked, for batch runs', () => {
+    const b = assessRoom(typicalClassroom(), DEFAULT_ASSUMPTIONS, { withCurve: false });
+    expect(b.seasons.winter.curve).toEqual([]);
+    expect(b.seasons.winter.occupiedMeanCo2Ppm).toBe(a.seasons.winter.occupiedMeanCo2Ppm);
+  });
+
+  it('uses EN 16798-1 Category II when the set chooses the European categories (check 15: 1220 ppm)', () => {
+    const set = structuredClone(DEFAULT_ASSUMPTIONS);
+    set.criteria.family.value = 'en16798_1';
+    const en = assessRoom(typicalClassroom(), set);
+    expect(en.criterion.packId).toBe('en16798_cat_II');
+    expect(en.criterion.meanLimitPpm).toBe(1220);
+    expect(en.criterion.maxLimitPpm).toBeNull();
+  });
+
+  it('gives no retrofit for rooms that are not teaching rooms', () => {
+    const office = typicalClassroom();
+    office.room.use = 'office';
+    expect(assessRoom(office, DEFAULT_ASSUMPTIONS).retrofit).toBeNull();
+  });
+});
+
+describe('invalid input', () => {
+  const cases: [string, (i: ReturnType<typeof typicalClassroom>) => void][] = [
+    ['room.floorAreaM2', (i) => (i.room.floorAreaM2 = 0)],
+    ['room.ceilingHeightM', (i) => (i.room.ceilingHeightM = Number.NaN)],
+    ['room.pupils', (i) => (i.room.pupils = -1)],
+    ['room.openableAreaM2', (i) => (i.room.openableAreaM2 = 1000)],
+    ['room.use', (i) => ((i.room as { use: string }).use = 'ballroom')],
+    ['room.orientationDeg', (i) => (i.room.orientationDeg = 400)],
+    ['block.airPermeabilityM3hM2', (i) => (i.block.airPermeabilityM3hM2 = 0)],
+    ['school.climateRegion', (i) => ((i.school as { climateRegion: string }).climateRegion = 'atlantis')],
+    ['school.boilerEfficiency', (i) => (i.school.boilerEfficiency = 10)],
+  ];
+  for (const [field, spoil] of cases) {
+    it(`rejects a bad ${field} with an EngineInputError naming it`, () => {
+      const input = typicalClassroom();
+      spoil(input);
+      let error: unknown;
+      try {
+        assessRoom(input, DEFAULT_ASSUMPTIONS);
+      } catch (e) {
+        error = e;
+      }
+      expect(error).toBeInstanceOf(EngineInputError);
+      expect((error as EngineInputError).field).toBe(field);
+      expect((error as EngineInputError).message).toContain(field);
+    });
+  }
+});

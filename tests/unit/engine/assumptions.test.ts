@@ -1,0 +1,74 @@
+import { describe, expect, it } from 'vitest';
+import { DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue } from '~/lib/engine/index';
+
+const STATUSES = ['confirmed', 'secondary', 'from_memory', 'common_practice'];
+
+describe('the default assumption set', () => {
+  const entries = listAssumptions(DEFAULT_ASSUMPTIONS);
+
+  it('gives every value a source, a status tag, a kind, a label and a unit', () => {
+    expect(entries.length).toBeGreaterThan(40);
+    for (const e of entries) {
+      expect(e.source.length, e.path).toBeGreaterThan(5);
+      expect(STATUSES, e.path).toContain(e.status);
+      expect(['technical', 'financial'], e.path).toContain(e.kind);
+      expect(e.label.length, e.path).toBeGreaterThan(2);
+      expect(e.unit.length, e.path).toBeGreaterThan(0);
+    }
+  });
+
+  it('uses the values the brief and domain reference fix: 420 ppm outdoors, 3.5 % discount rate (Green Book, confirmed)', () => {
+    const get = (path: string) => entries.find((e) => e.path === path);
+    expect(get('air.outdoorCo2Ppm')?.value).toBe(420);
+    expect(get('finance.discountRate')).toMatchObject({ value: 0.035, status: 'confirmed', kind: 'financial' });
+    expect(get('finance.electricityPriceGbpPerKwh')?.kind).toBe('financial');
+    expect(get('windows.dischargeCoefficient')?.kind).toBe('technical');
+  });
+
+  it('has a timetable like worked example 1, 09:00 to 15:15', () => {
+    const tt = DEFAULT_ASSUMPTIONS.occupancy.timetable.value;
+    expect(tt[0]?.startMinute).toBe(540);
+    expect(tt[tt.length - 1]?.endMinute).toBe(915);
+  });
+
+  it('ships three to four generic unit models named by us', () => {
+    const models = DEFAULT_ASSUMPTIONS.retrofit.unitCatalogue.value;
+    expect(models.length).toBeGreaterThanOrEqual(3);
+    expect(models.length).toBeLessThanOrEqual(4);
+  });
+
+  it('passes its own validation', () => {
+    expect(() => validateAssumptionSet(DEFAULT_ASSUMPTIONS)).not.toThrow();
+  });
+});
+
+describe('editing an assumption set', () => {
+  it('replaces one value, sets the new version and notes the edit, leaving the default untouched', () => {
+    const edited = withAssumptionValue(DEFAULT_ASSUMPTIONS, 'finance.discountRate', 0.03, 'trust-7-v2');
+    expect(edited.finance.discountRate.value).toBe(0.03);
+    expect(edited.finance.discountRate.note).toMatch(/^Edited/);
+    expect(edited.version).toBe('trust-7-v2');
+    expect(DEFAULT_ASSUMPTIONS.finance.discountRate.value).toBe(0.035);
+  });
+
+  it('rejects an unknown path, naming it', () => {
+    expect(() => withAssumptionValue(DEFAULT_ASSUMPTIONS, 'finance.nope', 1, 'x')).toThrow(EngineInputError);
+  });
+
+  it('rejects an out-of-range value on validation, naming the path', () => {
+    const bad = withAssumptionValue(DEFAULT_ASSUMPTIONS, 'finance.discountRate', 0.5, 'x');
+    try {
+      validateAssumptionSet(bad);
+      expect.unreachable();
+    } catch (e) {
+      expect((e as EngineInputError).field).toBe('assumptions.finance.discountRate');
+    }
+  });
+
+  it('rejects a timetable with a gap', () => {
+    const bad = structuredClone(DEFAULT_ASSUMPTIONS);
+    const second = bad.occupancy.timetable.value[1];
+    if (second) second.startMinute = 605;
+    expect(() => validateAssumptionSet(bad)).toThrow(/previous period ends/);
+  });
+});
