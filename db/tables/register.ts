@@ -1,2 +1,42 @@
-/** Tables of the register imports and saved column mappings feature (owned by that feature; add table interfaces here). */
-export interface RegisterTables {}
+import type { ColumnType, Generated } from 'kysely';
+import type { Json } from './json';
+
+type CreatedAt = ColumnType<Date, never, never>;
+type UpdatedAt = ColumnType<Date, never, Date | undefined>;
+
+/** One uploaded register file: its preview, problems and, once committed or cancelled, its outcome. */
+export interface RegisterImportsTable {
+  id: Generated<string>;
+  trust_id: string;
+  created_by_user_id: string | null;
+  created_by_email: string | null;
+  file_name: string;
+  file_kind: 'xlsx' | 'csv';
+  file_size_bytes: number;
+  status: Generated<'previewed' | 'committed' | 'cancelled' | 'failed'>;
+  header: Json<unknown> | null;
+  summary: Json<unknown>;
+  problems: Json<unknown>;
+  problem_count: Generated<number>;
+  missing_rooms: Json<unknown>;
+  rows_gz: Buffer | null;
+  outcome: Json<unknown> | null;
+  committed_by_email: string | null;
+  committed_at: Date | null;
+  created_at: CreatedAt;
+  updated_at: UpdatedAt;
+}
+
+/** A header text (normalised) the trust has mapped to a register field. */
+export interface RegisterColumnMappingsTable {
+  trust_id: string;
+  header_key: string;
+  field: string;
+  updated_at: Generated<Date>;
+}
+
+/** Tables of the register imports and saved column mappings feature. */
+export interface RegisterTables {
+  register_imports: RegisterImportsTable;
+  register_column_mappings: RegisterColumnMappingsTable;
+}

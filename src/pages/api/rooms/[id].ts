@@ -1,10 +1,13 @@
+import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { getRoom } from '../../../lib/server/estate/estate.repository';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
-import { json } from '../../../lib/server/http/respond';
+import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
+import { RoomPatchSchema } from '../../../lib/server/register/register.schemas';
+import { deleteRoom, updateRoom } from '../../../lib/server/register/rooms.service';
 
 /** One room with every attribute. */
 export const GET = route(async ({ locals, params }) => {
@@ -13,4 +16,21 @@ export const GET = route(async ({ locals, params }) => {
   const room = await getRoom(getDb(), trust, id);
   if (!room) throw notFound('That room');
   return json({ room });
+});
+
+/** Changes some attributes of a room; the whole room is re-checked as on import. */
+export const PATCH = route(async ({ locals, params, request }) => {
+  const trust = requirePermission(locals, 'register', 'update');
+  const id = IdParamSchema.parse(params.id);
+  const patch = await parseJson(request, RoomPatchSchema);
+  const result = await updateRoom(getDb(), trust, actorOf(locals), id, patch);
+  return json({ ...result, room: await getRoom(getDb(), trust, id) });
+});
+
+/** Deletes a room. */
+export const DELETE = route(async ({ locals, params }) => {
+  const trust = requirePermission(locals, 'register', 'delete');
+  const id = IdParamSchema.parse(params.id);
+  await deleteRoom(getDb(), trust, actorOf(locals), id);
+  return new Response(null, { status: 204 });
 });

@@ -1,10 +1,13 @@
+import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { getSchool } from '../../../lib/server/estate/estate.repository';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
-import { json } from '../../../lib/server/http/respond';
+import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
+import { SchoolPatchSchema } from '../../../lib/server/register/register.schemas';
+import { updateSchool } from '../../../lib/server/register/rooms.service';
 
 /** One school with its blocks. */
 export const GET = route(async ({ locals, params }) => {
@@ -13,4 +16,13 @@ export const GET = route(async ({ locals, params }) => {
   const school = await getSchool(getDb(), trust, id);
   if (!school) throw notFound('That school');
   return json({ school });
+});
+
+/** Changes a school's attributes. */
+export const PATCH = route(async ({ locals, params, request }) => {
+  const trust = requirePermission(locals, 'register', 'update');
+  const id = IdParamSchema.parse(params.id);
+  const patch = await parseJson(request, SchoolPatchSchema);
+  await updateSchool(getDb(), trust, actorOf(locals), id, patch);
+  return json({ school: await getSchool(getDb(), trust, id) });
 });

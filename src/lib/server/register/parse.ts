@@ -1,0 +1,65 @@
+import { AppError } from '../http/errors';
+import { REGISTER_COLUMNS } from './columns';
+import { applyMapping, detectHeader, HEADER_SEARCH_ROWS, type DetectedHeader, type SavedMappings } from './headers';
+import type { ReadRows } from './plan';
+import { readCsv, readXlsx, type SheetRow, type SheetStream } from './reader';
+import { classifyRow, parseRow, type ParsedRow } from './rows';
+import { cellText, type CellValue } from './values';
+import type { ImportOptions } from './register.schemas';
+
+/** What reading a register file gives: the sheet used, its header, and the rows with cells read. */
+export interface ReadRegister {
+  sheetName: string;
+  header: DetectedHeader;
+  /** The first rows as text, for the header-row picker when detection is unsure. */
+  topRows: string[][];
+  read: ReadRows;
+}
+
+const topText = (rows: SheetRow[]) => rows.slice(0, 15).map((r) => r.values.slice(0, 24).map((v) => cellText(v ?? null)));
+
+/** Reads an .xlsx or .csv upload, finds its header and reads every data row (no database). */
+export async function readRegisterFile(buf: Buffer, kind: 'xlsx' | 'csv', saved: SavedMappings, options: ImportOptions = {}): Promise<ReadRegister> {
+  const sheets: AsyncIterable<SheetStream> = kind === 'xlsx' ? readXlsx(buf) : readCsv(buf);
+  let firstTop: string[][] = [];
+  for await (const sheet of sheets) {
+    const iterator = sheet.rows[Symbol.asyncIterator]();
+    const head: SheetRow[] = [];
+    while (head.length < HEADER_SEARCH_ROWS) {
+      const next = await iterator.next();
+      if (next.done) break;
+      head.push(next.value);
+    }
+    // Rows are numbered as the spreadsheet shows them; gaps (empty rows) are filled so indexes match.
+    const grid: CellValue[][] = [];
+    for (const r of head) grid[r.rowNumber - 1] = r.values;
+    for (let i = 0; i < grid.length; i++) grid[i] ??= [];
+    if (firstTop.length === 0) firstTop = topText(head);
+    let header = detectHeader(grid, saved, options.headerRow);
+    if (!header) {
+      // Not this sheet (e.g. a guide or a cover sheet): drain it and try the next.
+      for (let n = await iterator.next(); !n.done; n = await iterator.next());
+      continue;
+    }
+    if (options.mapping) header = { ...header, columns: applyMapping(header.columns, options.mapping) };
+    const firstDataRow = header.row + header.rowCount;
+    const rows: ParsedRow[] = [];
+    let skipped = 0;
+    const take = (row: SheetRow) => {
+      if (row.rowNumber < firstDataRow) return;
+      const kindOfRow = classifyRow(row.values, header.columns);
+      if (kindOfRow === 'blank') return;
+      if (kindOfRow === 'subtotal') {
+        skipped++;
+        return;
+      }
+      rows.push(parseRow(row.rowNumber, row.values, header.columns));
+    };
+    for (const row of head) take(row);
+    for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);
+    return { sheetName: sheet.name, header, topRows: topText(head), read: { rows, skipped } };
+  }
+  throw new AppError(400, 'header_not_found',
+    `We could not find the header row (the row naming the columns, such as ${REGISTER_COLUMNS.slice(0, 5).map((c) => `"${c.header}"`).join(', ')}). Pick the header row, or start from our template.`,
+    { topRows: firstTop });
+}

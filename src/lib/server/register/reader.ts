@@ -1,0 +1,155 @@
+import { Readable } from 'node:stream';
+import ExcelJS from 'exceljs';
+import { badRequest } from '../http/errors';
+import { plainCellValue, type CellValue } from './values';
+import { inspectXlsx, type MergedRange } from './zip-guard';
+
+/** The most rows a register may have; larger files are refused before they are read. */
+export const MAX_ROWS = 200_000;
+/** The largest upload we accept, in bytes. */
+export const MAX_FILE_BYTES = 20 * 1024 * 1024;
+
+/** One row as read: its row number as the spreadsheet shows it, and its cells from column A. */
+export interface SheetRow {
+  rowNumber: number;
+  values: CellValue[];
+}
+
+/** A worksheet being read: its name and its rows in order. */
+export interface SheetStream {
+  name: string;
+  rows: AsyncIterable<SheetRow>;
+}
+
+export const tooManyRows = () =>
+  badRequest(`This file has more than ${MAX_ROWS.toLocaleString('en-GB')} rows. Split it into smaller files (for example one per school) and import them one by one.`);
+
+/** Copies each merged range's top-left value into the rest of the range, row by row as rows arrive. */
+class MergeFiller {
+  private readonly byRow = new Map<number, MergedRange[]>();
+  private readonly topValues = new Map<MergedRange, CellValue>();
+  constructor(merges: MergedRange[]) {
+    for (const m of merges) {
+      for (let r = m.top; r <= m.bottom && r - m.top < 5000; r++) {
+        const list = this.byRow.get(r) ?? [];
+        list.push(m);
+        this.byRow.set(r, list);
+      }
+    }
+  }
+  fill(row: SheetRow): void {
+    for (const m of this.byRow.get(row.rowNumber) ?? []) {
+      if (row.rowNumber === m.top) this.topValues.set(m, row.values[m.left] ?? null);
+      const value = this.topValues.get(m) ?? null;
+      for (let c = m.left; c <= m.right; c++) if (!(row.rowNumber === m.top && c === m.left)) row.values[c] = value;
+    }
+  }
+}
+
+/** Streams the worksheets of an .xlsx (exceljs's streaming reader, cached shared strings and styles). */
+export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
+  const facts = inspectXlsx(buf);
+  for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > MAX_ROWS + 50) throw tooManyRows();
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([buf]), {
+    sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'emit',
+  });
+  try {
+    for await (const worksheet of reader) {
+      const ws = worksheet as unknown as { id: number; name?: string } & AsyncIterable<{ number: number; values: unknown[] }>;
+      const merges = facts.sheets.get(`xl/worksheets/sheet${ws.id}.xml`)?.merges ?? [];
+      const filler = merges.length ? new MergeFiller(merges) : null;
+      async function* rows(): AsyncGenerator<SheetRow> {
+        for await (const row of ws) {
+          if (row.number > MAX_ROWS + 50) throw tooManyRows();
+          // exceljs row.values is 1-based (index 0 unused).
+          const raw = row.values;
+          const values: CellValue[] = new Array(Math.max(0, raw.length - 1));
+          for (let i = 1; i < raw.length; i++) values[i - 1] = plainCellValue(raw[i]);
+          const sheetRow = { rowNumber: row.number, values };
+          filler?.fill(sheetRow);
+          yield sheetRow;
+        }
+      }
+      yield { name: ws.name ?? `Sheet ${ws.id}`, rows: rows() };
+    }
+  } catch (error) {
+    if (error instanceof Error && error.name === 'AppError') throw error;
+    throw badRequest(`We could not read this workbook (${error instanceof Error ? error.message : 'unknown reason'}). Open it in your spreadsheet program, save it again as .xlsx and retry.`);
+  }
+}
+
+/** Decodes CSV bytes: UTF-8 (with or without BOM), falling back to Windows-1252 for older exports. */
+export function decodeCsv(buf: Buffer): string {
+  if (buf.subarray(0, 512).includes(0)) {
+    throw badRequest('This file is not a CSV text file (it contains binary data). If it is a workbook, give it an .xlsx name.');
+  }
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true }).decode(buf);
+  } catch {
+    text = new TextDecoder('windows-1252').decode(buf);
+  }
+  return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+}
+
+/** The CSV delimiter: comma, semicolon or tab, whichever the first lines use most. */
+export function sniffDelimiter(text: string): string {
+  const head = text.slice(0, 8192).split(/\r?\n/).slice(0, 10).join('\n');
+  const counts = [',', ';', '\t'].map((d) => ({ d, n: head.split(d).length }));
+  counts.sort((a, b) => b.n - a.n);
+  return counts[0]?.d ?? ',';
+}
+
+/** Parses CSV text (RFC 4180 quoting, any line ending) into rows of strings. */
+export function* parseCsv(text: string, delimiter = sniffDelimiter(text)): Generator<string[]> {
+  let row: string[] = [];
+  let field = '';
+  let quoted = false;
+  let i = 0;
+  const n = text.length;
+  while (i < n) {
+    const ch = text[i];
+    if (quoted) {
+      if (ch === '"') {
+        if (text[i + 1] === '"') {
+          field += '"';
+          i += 2;
+          continue;
+        }
+        quoted = false;
+      } else field += ch;
+      i++;
+      continue;
+    }
+    if (ch === '"' && field === '') quoted = true;
+    else if (ch === delimiter) {
+      row.push(field);
+      field = '';
+    } else if (ch === '\n' || ch === '\r') {
+      row.push(field);
+      yield row;
+      row = [];
+      field = '';
+      if (ch === '\r' && text[i + 1] === '\n') i++;
+    } else field += ch;
+    i++;
+  }
+  if (field !== '' || row.length > 0) {
+    row.push(field);
+    yield row;
+  }
+}
+
+/** Reads a CSV upload as one sheet. */
+export async function* readCsv(buf: Buffer): AsyncGenerator<SheetStream> {
+  const text = decodeCsv(buf);
+  async function* rows(): AsyncGenerator<SheetRow> {
+    let rowNumber = 0;
+    for (const values of parseCsv(text)) {
+      rowNumber++;
+      if (rowNumber > MAX_ROWS + 50) throw tooManyRows();
+      yield { rowNumber, values };
+    }
+  }
+  yield { name: 'CSV', rows: rows() };
+}

@@ -1,0 +1,130 @@
+import { inflateRawSync } from 'node:zlib';
+import { badRequest } from '../http/errors';
+
+/** A zip entry as its central directory describes it. */
+interface ZipEntry {
+  name: string;
+  method: number;
+  compressedSize: number;
+  uncompressedSize: number;
+  dataStart: number;
+}
+
+/** Largest size any one part of a workbook may unpack to; a real 200,000-row sheet stays well under it. */
+export const MAX_ENTRY_BYTES = 400 * 1024 * 1024;
+
+const notXlsx = (why: string) =>
+  badRequest(`This file is not an Excel workbook we can read: ${why}. Save it from your spreadsheet program as .xlsx (or .csv) and upload it again.`);
+
+function readCentralDirectory(buf: Buffer): ZipEntry[] {
+  const min = Math.max(0, buf.length - 65_557);
+  let eocd = -1;
+  for (let i = buf.length - 22; i >= min; i--) {
+    if (buf.readUInt32LE(i) === 0x06054b50) {
+      eocd = i;
+      break;
+    }
+  }
+  if (eocd < 0) throw notXlsx('it seems to be cut short (the end of the zip archive is missing; was the upload or download interrupted?)');
+  const count = buf.readUInt16LE(eocd + 10);
+  const dirSize = buf.readUInt32LE(eocd + 12);
+  const dirOffset = buf.readUInt32LE(eocd + 16);
+  if (dirOffset === 0xffffffff || count === 0xffff) throw notXlsx('it uses a zip format for very large archives, far larger than a room register');
+  if (dirOffset + dirSize > eocd) throw notXlsx('it seems to be cut short or damaged (its table of contents points past the end of the file)');
+  const entries: ZipEntry[] = [];
+  let p = dirOffset;
+  for (let n = 0; n < count; n++) {
+    if (p + 46 > buf.length || buf.readUInt32LE(p) !== 0x02014b50) throw notXlsx('its table of contents is damaged');
+    const method = buf.readUInt16LE(p + 10);
+    const compressedSize = buf.readUInt32LE(p + 20);
+    const uncompressedSize = buf.readUInt32LE(p + 24);
+    const nameLength = buf.readUInt16LE(p + 28);
+    const extraLength = buf.readUInt16LE(p + 30);
+    const commentLength = buf.readUInt16LE(p + 32);
+    const localOffset = buf.readUInt32LE(p + 42);
+    const name = buf.toString('utf8', p + 46, p + 46 + nameLength);
+    if (localOffset + 30 > buf.length || buf.readUInt32LE(localOffset) !== 0x04034b50) throw notXlsx(`the part "${name}" is missing or damaged`);
+    const dataStart = localOffset + 30 + buf.readUInt16LE(localOffset + 26) + buf.readUInt16LE(localOffset + 28);
+    if (dataStart + compressedSize > buf.length) throw notXlsx(`it seems to be cut short (the part "${name}" runs past the end of the file)`);
+    entries.push({ name, method, compressedSize, uncompressedSize, dataStart });
+    p += 46 + nameLength + extraLength + commentLength;
+  }
+  return entries;
+}
+
+function inflateEntry(buf: Buffer, entry: ZipEntry): Buffer {
+  const data = buf.subarray(entry.dataStart, entry.dataStart + entry.compressedSize);
+  if (entry.method === 0) return data;
+  if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
+  try {
+    return inflateRawSync(data, { maxOutputLength: MAX_ENTRY_BYTES });
+  } catch (error) {
+    if (error instanceof RangeError || (error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE') {
+      throw notXlsx(`the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`);
+    }
+    throw notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`);
+  }
+}
+
+/** A merged range, 1-based rows and 0-based columns, as the sheet's XML lists it. */
+export interface MergedRange {
+  top: number;
+  left: number;
+  bottom: number;
+  right: number;
+}
+
+/** What the guard learned about a workbook that passed: worksheets' merged ranges and row counts. */
+export interface WorkbookFacts {
+  sheets: Map<string, { merges: MergedRange[]; lastRow: number | null }>;
+}
+
+function decodeRef(ref: string): { row: number; col: number } {
+  const m = /^([A-Z]+)(\d+)$/.exec(ref);
+  if (!m) return { row: 0, col: 0 };
+  let col = 0;
+  for (const ch of m[1] ?? '') col = col * 26 + (ch.charCodeAt(0) - 64);
+  return { row: Number(m[2]), col: col - 1 };
+}
+
+function sheetFacts(xml: Buffer): { merges: MergedRange[]; lastRow: number | null } {
+  const head = xml.toString('utf8', 0, Math.min(xml.length, 4096));
+  const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
+  const merges: MergedRange[] = [];
+  const start = xml.lastIndexOf('<mergeCells');
+  if (start >= 0) {
+    const tail = xml.toString('utf8', start, Math.min(xml.length, start + 2_000_000));
+    for (const m of tail.matchAll(/<mergeCell ref="([A-Z]+\d+):([A-Z]+\d+)"/g)) {
+      const a = decodeRef(m[1] ?? '');
+      const b = decodeRef(m[2] ?? '');
+      merges.push({ top: a.row, left: a.col, bottom: b.row, right: b.col });
+    }
+  }
+  return { merges, lastRow: dim ? Number(dim[1]) : null };
+}
+
+/**
+ * Checks that an upload is a whole, sane .xlsx before the spreadsheet library sees it: a zip,
+ * not cut short, every part unpacking within a sane size, and holding a workbook. Reads the
+ * merged ranges on the way (the streaming reader does not report them).
+ */
+export function inspectXlsx(buf: Buffer): WorkbookFacts {
+  if (buf.length >= 4 && buf.readUInt32BE(0) === 0xd0cf11e0) {
+    throw badRequest('This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.');
+  }
+  if (buf.length < 4 || buf.readUInt32LE(0) !== 0x04034b50) {
+    const looksLikeText = buf.length > 0 && !buf.subarray(0, 512).includes(0);
+    throw notXlsx(looksLikeText ? 'it contains plain text, not a workbook (if it is a CSV file, give it a .csv name)' : 'it is not a zip-based .xlsx file (perhaps a PDF or a picture renamed)');
+  }
+  const entries = readCentralDirectory(buf);
+  if (!entries.some((e) => e.name === 'xl/workbook.xml')) {
+    throw notXlsx('it is a zip archive but holds no Excel workbook (perhaps a Word document or another program\'s file renamed)');
+  }
+  const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
+  for (const entry of entries) {
+    if (!/\.(xml|rels)$/.test(entry.name)) continue;
+    const xml = inflateEntry(buf, entry);
+    if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name)) sheets.set(entry.name, sheetFacts(xml));
+  }
+  return { sheets };
+}

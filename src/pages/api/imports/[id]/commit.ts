@@ -1,0 +1,16 @@
+import { actorOf } from '../../../../lib/server/audit/audit.repository';
+import { requirePermission } from '../../../../lib/server/auth/guard';
+import { getDb } from '../../../../lib/server/db/client';
+import { IdParamSchema } from '../../../../lib/server/estate/estate.schemas';
+import { json, parseJson } from '../../../../lib/server/http/respond';
+import { route } from '../../../../lib/server/http/route';
+import { commitImport } from '../../../../lib/server/register/import.service';
+import { CommitBodySchema } from '../../../../lib/server/register/register.schemas';
+
+/** Commits a previewed import's valid rows in one transaction ({ rows: "valid" }), or cancels it ({ rows: "none" }). */
+export const POST = route(async ({ locals, params, request }) => {
+  const trust = requirePermission(locals, 'register', 'import');
+  const id = IdParamSchema.parse(params.id);
+  const body = await parseJson(request, CommitBodySchema);
+  return json({ id, outcome: await commitImport(getDb(), trust, actorOf(locals), id, body) });
+});
