@@ -1,0 +1,109 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import ExcelJS from 'exceljs';
+import { sql } from 'kysely';
+import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { createDb } from '../../src/lib/server/db/client';
+import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+
+const db = createDb(process.env.DATABASE_URL!);
+
+// The required header, typed out from the export's specification (not imported from the code under test).
+const REQUIRED_HEADER = [
+  'Rank', 'School', 'Block', 'Room code', 'Risk band', 'Daily mean CO2 (ppm)', 'Peak CO2 (ppm)', 'Units recommended',
+  'Capital cost (GBP)', 'Annual saving (GBP)', 'Simple payback (years)', 'NPV (GBP)',
+];
+
+async function runTrust(cookie: string): Promise<void> {
+  const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
+  expect(response.status).toBe(202);
+  const { id } = (await response.json()) as { id: string };
+  for (let i = 0; i < 200; i += 1) {
+    const status = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
+    if (status.status === 'succeeded') return;
+    if (status.status === 'failed') throw new Error('run failed');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error('run did not finish');
+}
+
+async function download(cookie: string): Promise<ExcelJS.Workbook> {
+  const response = await api('/api/exports/results.xlsx', { cookie });
+  expect(response.status).toBe(200);
+  expect(response.headers.get('content-type')).toContain('spreadsheetml');
+  const book = new ExcelJS.Workbook();
+  await book.xlsx.load(Buffer.from(await response.arrayBuffer()) as never);
+  return book;
+}
+
+const rowValues = (row: ExcelJS.Row) => (row.values as unknown[]).slice(1);
+
+describe('results export (.xlsx)', () => {
+  let estates: string;
+  let roomId: string;
+  let originalCode: string;
+  beforeAll(async () => {
+    estates = await signIn(DEMO_ACCOUNTS.estates_manager);
+    // A room code that a spreadsheet would run as a formula if written as-is.
+    const room = await db.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').select(['rooms.id', 'rooms.code']).where('schools.trust_id', '=', DEMO_TRUST.id).orderBy('rooms.code').limit(1).executeTakeFirstOrThrow();
+    roomId = room.id;
+    originalCode = room.code;
+    await db.updateTable('rooms').set({ code: '=HYPERLINK("http://example.invalid","x")' }).where('id', '=', roomId).execute();
+    await runTrust(estates);
+  });
+  afterAll(async () => {
+    await db.updateTable('rooms').set({ code: originalCode }).where('id', '=', roomId).execute();
+    await db.destroy();
+  });
+
+  it('has a Results sheet whose header starts with exactly the required columns, one row per current result by rank', async () => {
+    const book = await download(await signIn(DEMO_ACCOUNTS.viewer));
+    const results = book.getWorksheet('Results')!;
+    expect(rowValues(results.getRow(1)).slice(0, REQUIRED_HEADER.length)).toEqual(REQUIRED_HEADER);
+    const current = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).executeTakeFirstOrThrow();
+    expect(results.actualRowCount - 1).toBe(current.n);
+    const ranks = Array.from({ length: current.n }, (_, i) => results.getRow(i + 2).getCell(1).value);
+    expect(ranks).toEqual(Array.from({ length: current.n }, (_, i) => i + 1));
+    // Rank 1 matches the database's rank-1 row.
+    const top = await db.selectFrom('room_results').innerJoin('rooms', 'rooms.id', 'room_results.room_id').select(['rooms.code', 'room_results.mean_co2_ppm']).where('room_results.trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).where('rank', '=', 1).executeTakeFirstOrThrow();
+    const first = results.getRow(2);
+    expect(String(first.getCell(4).value).replace(/^'/, '')).toBe(top.code);
+    expect(first.getCell(6).value).toBe(Math.round(top.mean_co2_ppm));
+  });
+
+  it('writes formula-like text as text with a leading apostrophe', async () => {
+    const book = await download(estates);
+    const results = book.getWorksheet('Results')!;
+    let found = false;
+    results.eachRow((row) => {
+      const cell = row.getCell(4);
+      if (typeof cell.value === 'string' && cell.value.includes('HYPERLINK')) {
+        found = true;
+        expect(cell.value).toBe(`'=HYPERLINK("http://example.invalid","x")`);
+        expect(cell.formula).toBeUndefined();
+      }
+    });
+    expect(found).toBe(true);
+  });
+
+  it('has a Notes sheet with the cautions and the assumptions used, each with its source and status', async () => {
+    const book = await download(estates);
+    const notes = book.getWorksheet('Notes')!;
+    const lines: unknown[][] = [];
+    notes.eachRow((row) => lines.push(rowValues(row)));
+    const text = lines.map((l) => l.join(' | ')).join('\n');
+    expect(text).toMatch(/Screening estimates for prioritising, not a design/);
+    expect(text).toMatch(/competent, licensed engineer/);
+    expect(text).toMatch(/Assumptions used: /);
+    const outdoor = lines.find((l) => l[0] === 'Outdoor CO2');
+    expect(outdoor?.[1]).toBe(420);
+    expect(outdoor?.[2]).toBe('ppm');
+    expect(String(outdoor?.[3])).toMatch(/NOAA|Mauna Loa/);
+    expect(outdoor?.[4]).toBe('common practice');
+    const criteria = lines.find((l) => l[0] === 'CO2 criteria packs');
+    expect(criteria?.[6]).toBe('Yes');
+  });
+
+  it('returns 401 without a session', async () => {
+    expect((await api('/api/exports/results.xlsx')).status).toBe(401);
+  });
+});
