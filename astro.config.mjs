@@ -11,7 +11,16 @@ export default defineConfig({
   integrations: [react()],
   outDir: process.env.AIRTALLY_DIST_DIR ?? './dist',
   server: { host: '127.0.0.1', port: Number(process.env.PORT ?? 4321) },
-  security: { checkOrigin: true },
+  // Astro rebuilds the request URL from the Host header only for allowed domains (otherwise it uses
+  // "localhost" and its origin check refuses every form post). Loopback on any port, plus the public host.
+  security: {
+    checkOrigin: true,
+    allowedDomains: [
+      { hostname: '127.0.0.1' },
+      { hostname: 'localhost' },
+      ...(process.env.PUBLIC_ORIGIN ? [{ hostname: new URL(process.env.PUBLIC_ORIGIN).hostname }] : []),
+    ],
+  },
   vite: {
     plugins: [tailwindcss()],
     ssr: { external: ['pg', 'pg-boss', 'exceljs', 'nodemailer', 'stripe', 'pg-copy-streams'] },

@@ -30,7 +30,7 @@ export function cookieFrom(response: Response): string {
  * Calls the app. `cookie` is sent as the Cookie header; a string body is sent as JSON; the Origin
  * header is set like a browser's, so better-auth's and Astro's origin checks pass.
  */
-export async function api(path: string, init: RequestInit & { cookie?: string } = {}): Promise<Response> {
+export async function api(path: string, init: RequestInit & { cookie?: string | undefined } = {}): Promise<Response> {
   const { cookie, headers: given, ...rest } = init;
   const headers = new Headers(given);
   if (cookie) headers.set('cookie', cookie);

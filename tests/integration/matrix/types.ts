@@ -26,7 +26,7 @@ export interface MatrixEntry {
   /** The concrete path to call, e.g. '/api/schools/…'. */
   path: Resolvable<string>;
   /** JSON body for writes. Prefer bodies and ids that change nothing (unknown ids, invalid input). */
-  body?: Resolvable<unknown>;
+  body?: ((ctx: MatrixContext) => unknown) | Record<string, unknown> | unknown[] | string | number | boolean | null;
   /** The status each actor must get. */
   expect: Record<Actor, number>;
   /** Why the statuses are what they are, when not obvious. */
