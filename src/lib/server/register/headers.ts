@@ -4,7 +4,7 @@ import { cellText, type CellValue } from './values';
 // Unit words dropped from a header before matching, so "Floor area (m²)" and "GIA sqm" match.
 const UNIT_TOKENS = new Set([
   'm2', 'm', 'sqm', 'sq', 'mm', 'cm', 'ls', 'l', 's', 'lps', 'm3', 'h', 'hr', 'm3h', 'pa', '50', 'deg', 'degrees', 'ft', 'ft2', 'sqft',
-  'metres', 'meters', 'litres', 'sec', 'per', 'at', 'in', 'a', 'the', 'of', 'no', 'number', 'm3hm2', 'sqmetres',
+  'metres', 'meters', 'litres', 'sec', 'per', 'at', '50pa', 'sqmetres2', 'in', 'a', 'the', 'of', 'no', 'number', 'm3hm2', 'sqmetres',
 ]);
 const KEEP_NO = new Set(['room no', 'no of pupils', 'no of adults']);
 
@@ -106,22 +106,21 @@ export const HEADER_SEARCH_ROWS = 30;
 export function detectHeader(rows: CellValue[][], saved: SavedMappings = new Map(), forcedRow?: number): DetectedHeader | null {
   const texts = rows.slice(0, HEADER_SEARCH_ROWS).map((r) => r.map((v) => cellText(v)));
   let best: DetectedHeader | null = null;
-  let bestScore = 0;
+  let bestScore = -1;
   const consider = (row: number, rowCount: 1 | 2) => {
     const slice = texts.slice(row - 1, row - 1 + rowCount);
     if (slice.length < rowCount) return;
     const columns = mapColumns(slice, saved);
     const s = score(columns);
-    if (s > bestScore || (forcedRow !== undefined && best === null)) {
+    // Ties go to the earlier candidate; single rows are tried before pairs, so a pair must score higher.
+    if (s > bestScore) {
       best = { row, rowCount, confident: false, columns };
       bestScore = s;
     }
   };
   const rowsToTry = forcedRow !== undefined ? [forcedRow] : texts.map((_, i) => i + 1);
-  for (const row of rowsToTry) {
-    consider(row, 1);
-    consider(row, 2);
-  }
+  for (const row of rowsToTry) consider(row, 1);
+  for (const row of rowsToTry) consider(row, 2);
   if (!best) return null;
   const found: DetectedHeader = best;
   const fields = new Set(found.columns.map((c) => c.field));

@@ -32,7 +32,7 @@ export function cellText(value: CellValue): string {
   if (value === null) return '';
   if (value instanceof Date) return value.toISOString().slice(0, 10);
   const text = String(value).replace(/\u00a0/g, ' ').trim();
-  return text.startsWith("'") && FORMULA_START.test(text.slice(1)) ? text.slice(1) : text;
+  return text.startsWith("'") && FORMULA_START.test(text.slice(1)) ? text.slice(1).trim() : text;
 }
 
 /** Text written to an exported cell so that no spreadsheet program runs it as a formula. */

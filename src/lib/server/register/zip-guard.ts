@@ -11,7 +11,7 @@ interface ZipEntry {
 }
 
 /** Largest size any one part of a workbook may unpack to; a real 200,000-row sheet stays well under it. */
-export const MAX_ENTRY_BYTES = 400 * 1024 * 1024;
+export const MAX_ENTRY_BYTES = 256 * 1024 * 1024;
 
 const notXlsx = (why: string) =>
   badRequest(`This file is not an Excel workbook we can read: ${why}. Save it from your spreadsheet program as .xlsx (or .csv) and upload it again.`);

@@ -8,6 +8,7 @@ import { bulkRooms } from '../../../lib/server/register/rooms.service';
 
 /** The same change to many rooms ({ action: "update", ids, changes }) or their deletion ({ action: "delete", ids }); all or none. */
 export const POST = route(async ({ locals, request }) => {
+  requirePermission(locals, 'register', 'update');
   const body = await parseJson(request, RoomBulkSchema);
   const trust = requirePermission(locals, 'register', body.action === 'delete' ? 'delete' : 'update');
   return json(await bulkRooms(getDb(), trust, actorOf(locals), body));
