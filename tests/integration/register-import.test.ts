@@ -1,5 +1,7 @@
 import ExcelJS from 'exceljs';
-import { sql } from 'kysely';
+import { Kysely, PostgresDialect, sql } from 'kysely';
+import pg from 'pg';
+import type { Database } from '../../db/database';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
 import { testDb } from '../helpers/db';
@@ -208,13 +210,19 @@ describe('an import interrupted mid-commit', () => {
     const preview = await previewImport(db, trust, actor, { fileName: 'interrupted.xlsx', bytes: await tidyRegister(rows) });
     expect(preview.summary.roomsToCreate).toBe(40);
     const before = await estateState(other.trustId);
+    // A pool of its own whose clients tolerate being killed, so the cut connection does not crash the runner.
+    const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 2 });
+    pool.on('error', () => {});
+    pool.on('connect', (client) => client.on('error', () => {}));
+    const fragile = new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
     let writtenInsideTransaction = 0;
-    await expect(commitImport(db, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
+    await expect(commitImport(fragile, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
       writtenInsideTransaction = (await trx.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id')
         .where('schools.trust_id', '=', other.trustId).select(sql<number>`count(*)::int`.as('n')).executeTakeFirstOrThrow()).n;
       // Kill our own connection, as a crash or a network cut would.
       await sql`SELECT pg_terminate_backend(pg_backend_pid())`.execute(trx);
     })).rejects.toThrow();
+    await fragile.destroy().catch(() => {});
     expect(writtenInsideTransaction).toBe(40);
     expect(await estateState(other.trustId)).toEqual(before);
     const stored = await db.selectFrom('register_imports').select('status').where('id', '=', preview.id).executeTakeFirstOrThrow();
