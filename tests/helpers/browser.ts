@@ -20,7 +20,14 @@ export async function launchBrowser(): Promise<BrowserContext> {
     baseURL: APP_URL,
     viewport: { width: 1280, height: 900 },
   });
-  context.on('close', () => rmSync(userDataDir, { recursive: true, force: true }));
+  // Chromium may still be flushing its cache when 'close' fires: retry, and never fail a test over a temp folder.
+  context.on('close', () => {
+    try {
+      rmSync(userDataDir, { recursive: true, force: true, maxRetries: 5, retryDelay: 200 });
+    } catch {
+      /* the OS cleans /tmp; a leftover profile folder is harmless */
+    }
+  });
   return context;
 }
 
