@@ -9,7 +9,8 @@ export interface ReceivedMail {
   text: string;
   html: string;
   to: { address: string; name?: string }[];
-  date: string;
+  /** When maildev received it (ISO 8601). */
+  time: string;
 }
 
 /** Every message in the inbox, oldest first. */

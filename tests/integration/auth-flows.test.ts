@@ -1,0 +1,252 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { createDb } from '../../src/lib/server/db/client';
+import { linkIn, waitForMail } from '../helpers/mail';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, api, cookieFrom, createOtherTrust, signIn, uniqueEmail } from '../helpers/session';
+
+const db = createDb(process.env.DATABASE_URL ?? '');
+afterAll(async () => {
+  await db.destroy();
+});
+
+const json = async <T>(response: Response) => (await response.json()) as T;
+interface AccountBody {
+  user: { email: string; emailVerified: boolean };
+  trust: { id: string; role: string; schoolIds: string[] | null } | null;
+}
+
+describe('sign-up', () => {
+  it('signs a new user straight in as trust admin of the trust they named, and audits it', async () => {
+    const { cookie, trustId, email } = await createOtherTrust();
+    const account = await json<AccountBody>(await api('/api/account', { cookie }));
+    expect(account.user.email).toBe(email);
+    expect(account.user.emailVerified).toBe(false);
+    expect(account.trust).toMatchObject({ id: trustId, role: 'trust_admin', schoolIds: null });
+    const trustRow = await db.selectFrom('trusts').select(['id', 'name']).where('id', '=', trustId).executeTakeFirst();
+    expect(trustRow?.name).toMatch(/^Other Test Trust/);
+    const actions = await db.selectFrom('audit_events').select('action').where('actor_email', '=', email).execute();
+    expect(actions.map((a) => a.action).sort()).toEqual(['account.signed_up', 'trust.created']);
+  });
+
+  it('refuses an address that already has an account with 4xx and a message', async () => {
+    const response = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'Dup', email: DEMO_ACCOUNTS.viewer, password: DEMO_PASSWORD, trustName: 'Duplicate Trust' }),
+    });
+    expect(response.status).toBeGreaterThanOrEqual(400);
+    expect(response.status).toBeLessThan(500);
+    const body = await json<{ error: { message: string } }>(response);
+    expect(body.error.message).toMatch(/already exists/);
+  });
+
+  it('keeps an unverified user from inviting until the e-mailed link confirms the address', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const before = await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }) });
+    expect(before.status).toBe(403);
+    expect((await json<{ error: { code: string } }>(before)).error.code).toBe('email_unverified');
+
+    const mail = await waitForMail(email, 'Confirm your e-mail');
+    const link = linkIn(mail, '/verify-email');
+    const page = await api(`${link.pathname}${link.search}`, { cookie });
+    expect(page.status).toBe(200);
+    expect(await page.text()).toContain('your e-mail address is confirmed');
+
+    const after = await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }) });
+    expect(after.status).toBe(201);
+    const tampered = await api(`${link.pathname}?token=${link.searchParams.get('token')}x`, { cookie });
+    expect(tampered.status).toBe(400);
+    expect(await tampered.text()).toContain('expired or has already been used');
+  });
+});
+
+describe('invitations', () => {
+  it('invites by e-mail, the link accepts, and the invited role applies', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const email = uniqueEmail('invitee');
+    const invite = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'estates_manager' }) });
+    expect(invite.status).toBe(201);
+
+    const mail = await waitForMail(email, 'invited you');
+    expect(mail.subject).toContain('Brackenmoor Valley Learning Trust');
+    expect(mail.html).toContain('Accept the invitation');
+    const link = linkIn(mail, '/accept-invitation');
+    const invitationId = link.searchParams.get('id') ?? '';
+    const page = await api(`${link.pathname}${link.search}`);
+    expect(page.status).toBe(200);
+    expect(await page.text()).toContain('as <strong>estates manager</strong>');
+
+    const signUp = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'New Estates Colleague', email, password: DEMO_PASSWORD, invitationId }),
+    });
+    expect(signUp.status).toBe(201);
+    const cookie = cookieFrom(signUp);
+    const account = await json<AccountBody>(await api('/api/account', { cookie }));
+    expect(account.trust).toMatchObject({ id: 'demo-trust', role: 'estates_manager' });
+    // An estates manager reads the estate but may not invite.
+    expect((await api('/api/schools', { cookie })).status).toBe(200);
+    expect((await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer' }) })).status).toBe(403);
+
+    const again = await api('/api/account/accept-invitation', { method: 'POST', cookie, body: JSON.stringify({ invitationId }) });
+    expect(again.status).toBe(409);
+    expect((await json<{ error: { code: string; message: string } }>(again)).error.code).toBe('invitation_used');
+    const usedPage = await api(`${link.pathname}${link.search}`);
+    expect(await usedPage.text()).toContain('already been used');
+
+    const audit = await db.selectFrom('audit_events').select(['action', 'actor_email']).where('trust_id', '=', 'demo-trust').where('summary', 'like', `%${email}%`).execute();
+    expect(audit.map((a) => a.action).sort()).toEqual(['member.invited', 'member.joined']);
+  });
+
+  it('refuses an invitation with a role that does not exist', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const response = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'owner' }) });
+    expect(response.status).toBe(400);
+    expect((await json<{ error: { message: string } }>(response)).error.message).toContain('trust_admin');
+  });
+
+  it('refuses an expired invitation with a clear message', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const email = uniqueEmail('late');
+    const invite = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
+    await db.updateTable('invitation').set({ expiresAt: new Date(Date.now() - 60_000) }).where('id', '=', invite.invitation.id).execute();
+    const response = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'Late', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }),
+    });
+    expect(response.status).toBe(409);
+    expect((await json<{ error: { code: string } }>(response)).error.code).toBe('invitation_expired');
+  });
+});
+
+describe('members', () => {
+  it('never removes or demotes the last trust admin', async () => {
+    const { cookie } = await createOtherTrust();
+    const { members } = await json<{ members: { id: string; role: string }[] }>(await api('/api/members', { cookie }));
+    expect(members).toHaveLength(1);
+    const self = members[0]!;
+    const demote = await api(`/api/members/${self.id}`, { method: 'PATCH', cookie, body: JSON.stringify({ role: 'viewer' }) });
+    expect(demote.status).toBe(409);
+    expect((await json<{ error: { code: string } }>(demote)).error.code).toBe('last_trust_admin');
+    const remove = await api(`/api/members/${self.id}`, { method: 'DELETE', cookie });
+    expect(remove.status).toBe(409);
+    const row = await db.selectFrom('member').select('role').where('id', '=', self.id).executeTakeFirst();
+    expect(row?.role).toBe('trust_admin');
+  });
+
+  it('lists only the active trust’s members, and hides another trust’s member as 404', async () => {
+    const other = await createOtherTrust();
+    const list = await json<{ members: { email: string }[] }>(await api('/api/members', { cookie: other.cookie }));
+    expect(list.members.map((m) => m.email)).toEqual([other.email]);
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const { members } = await json<{ members: { id: string; email: string }[] }>(await api('/api/members', { cookie: admin }));
+    const viewer = members.find((m) => m.email === DEMO_ACCOUNTS.viewer)!;
+    const attempt = await api(`/api/members/${viewer.id}`, { method: 'DELETE', cookie: other.cookie });
+    expect(attempt.status).toBe(404);
+    expect(await db.selectFrom('member').select('id').where('id', '=', viewer.id).executeTakeFirst()).toBeDefined();
+  });
+
+  it('limits a member to chosen schools, ends access on the end date, and audits the role change', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const email = uniqueEmail('consultant');
+    const invite = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
+    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Consultant', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }) });
+    const cookie = cookieFrom(signUp);
+    const { members } = await json<{ members: { id: string; email: string }[] }>(await api('/api/members', { cookie: admin }));
+    const memberId = members.find((m) => m.email === email)!.id;
+    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').orderBy('name').executeTakeFirstOrThrow();
+
+    const limit = await api(`/api/members/${memberId}`, { method: 'PATCH', cookie: admin, body: JSON.stringify({ role: 'finance_lead', schoolIds: [school.id] }) });
+    expect(limit.status).toBe(200);
+    const account = await json<AccountBody>(await api('/api/account', { cookie }));
+    expect(account.trust).toMatchObject({ role: 'finance_lead', schoolIds: [school.id] });
+    const audit = await db.selectFrom('audit_events').select(['action', 'before', 'after']).where('entity_id', '=', memberId).where('action', '=', 'member.role_changed').executeTakeFirst();
+    expect(audit?.before).toMatchObject({ role: 'viewer' });
+    expect(audit?.after).toMatchObject({ role: 'finance_lead' });
+
+    const today = new Date().toISOString().slice(0, 10);
+    expect((await api(`/api/members/${memberId}`, { method: 'PATCH', cookie: admin, body: JSON.stringify({ accessEndsOn: today }) })).status).toBe(200);
+    expect((await api('/api/schools', { cookie })).status).toBe(403);
+    const page = await api('/app/schools', { cookie });
+    expect(page.status).toBe(303);
+    expect(page.headers.get('location')).toBe('/app/account?notice=no-trust');
+  });
+});
+
+describe('password reset', () => {
+  // Each test uses a fresh account, so the only reset e-mail to it is the one asked for here.
+  async function requestReset(email: string): Promise<string> {
+    const response = await api('/api/auth/request-password-reset', { method: 'POST', body: JSON.stringify({ email, redirectTo: '/reset-password' }) });
+    expect(response.status).toBe(200);
+    const mail = await waitForMail(email, 'new Airtally password');
+    return linkIn(mail, '/reset-password').searchParams.get('token') ?? '';
+  }
+
+  it('resets the password through the e-mailed link, once only', async () => {
+    const { email } = await createOtherTrust();
+    const token = await requestReset(email);
+    const newPassword = 'a-brand-new-password-1';
+    const form = new URLSearchParams({ token, password: newPassword, confirm: newPassword });
+    const reset = await api('/reset-password', { method: 'POST', body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    expect(reset.status).toBe(200);
+    expect(await reset.text()).toContain('Your password has been changed');
+    await expect(signIn(email, DEMO_PASSWORD)).rejects.toThrow(/401/);
+    expect(await signIn(email, newPassword)).toContain('session_token');
+
+    const reused = await api('/api/auth/reset-password', { method: 'POST', body: JSON.stringify({ token, newPassword: 'yet-another-password-2' }) });
+    expect(reused.status).toBe(400);
+  });
+
+  it('refuses an expired reset link with a clear message', async () => {
+    const { email } = await createOtherTrust();
+    const token = await requestReset(email);
+    await db.updateTable('verification').set({ expiresAt: new Date(Date.now() - 1000) }).where('identifier', '=', `reset-password:${token}`).execute();
+    const form = new URLSearchParams({ token, password: 'another-password-3', confirm: 'another-password-3' });
+    const reset = await api('/reset-password', { method: 'POST', body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    expect(reset.status).toBe(400);
+    expect(await reset.text()).toContain('expired or has already been used');
+  });
+});
+
+describe('brute force', () => {
+  it('refuses the sixth wrong password within a minute with 429, even when it is right', async () => {
+    const { email } = await createOtherTrust();
+    const attempt = (password: string) => api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email, password }) });
+    const statuses: number[] = [];
+    for (let i = 0; i < 5; i += 1) statuses.push((await attempt(`wrong-password-${i}`)).status);
+    expect(statuses).toEqual([401, 401, 401, 401, 401]);
+    const sixth = await attempt(DEMO_PASSWORD);
+    expect(sixth.status).toBe(429);
+    expect(Number(sixth.headers.get('retry-after'))).toBeGreaterThan(0);
+    expect((await json<{ error: { code: string } }>(sixth)).error.code).toBe('too_many_attempts');
+  });
+});
+
+describe('sessions and cookies', () => {
+  it('sets an httpOnly, SameSite=Lax session cookie and signs out everywhere', async () => {
+    const response = await api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email: DEMO_ACCOUNTS.finance_lead, password: DEMO_PASSWORD }) });
+    const setCookie = response.headers.getSetCookie().find((c) => c.includes('session_token')) ?? '';
+    expect(setCookie).toMatch(/HttpOnly/i);
+    expect(setCookie).toMatch(/SameSite=Lax/i);
+    expect(setCookie).toMatch(/Max-Age=\d+/);
+    const first = cookieFrom(response);
+    const second = await signIn(DEMO_ACCOUNTS.finance_lead);
+    const revoke = await api('/api/auth/revoke-sessions', { method: 'POST', cookie: second, body: '{}' });
+    expect(revoke.status).toBe(200);
+    expect((await api('/api/account', { cookie: first })).status).toBe(401);
+    expect((await api('/api/account', { cookie: second })).status).toBe(401);
+  });
+
+  it('refuses a cross-site sign-in request', async () => {
+    const response = await api('/api/auth/sign-in/email', {
+      method: 'POST',
+      headers: { origin: 'http://attacker.example' },
+      body: JSON.stringify({ email: DEMO_ACCOUNTS.viewer, password: DEMO_PASSWORD }),
+    });
+    expect(response.status).toBe(403);
+  });
+
+  it('sends anonymous visitors of an app page to sign-in with the page to return to', async () => {
+    const response = await api('/app/schools?page=2');
+    expect(response.status).toBe(303);
+    expect(response.headers.get('location')).toBe(`/sign-in?next=${encodeURIComponent('/app/schools?page=2')}`);
+  });
+});
