@@ -1,5 +1,6 @@
 import { defineMiddleware } from 'astro:middleware';
 import { getAuth } from './lib/server/auth/auth';
+import { billingWriteGate } from './lib/server/billing/write-gate';
 import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
 import { getDb } from './lib/server/db/client';
 
@@ -42,5 +43,8 @@ export const onRequest = defineMiddleware(async (context, next) => {
       return context.redirect('/app/account?notice=no-trust', 303);
     }
   }
+  // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
+  const readOnly = await billingWriteGate(context.locals, context.request);
+  if (readOnly) return readOnly;
   return next();
 });

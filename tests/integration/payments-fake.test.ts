@@ -3,7 +3,6 @@
 import http from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
-// @ts-expect-error plain .mjs script without type declarations
 import { startPaymentsFake } from '../../scripts/payments-fake/server.mjs';
 
 const KEY = 'sk_test_fake_suite';

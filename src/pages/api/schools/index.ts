@@ -1,11 +1,27 @@
+import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
+import { syncQuantity } from '../../../lib/server/billing/billing.service';
+import { paymentProvider, providerConfigured } from '../../../lib/server/billing/provider';
 import { getDb } from '../../../lib/server/db/client';
 import { listSchools } from '../../../lib/server/estate/estate.repository';
-import { json } from '../../../lib/server/http/respond';
+import { NewSchoolSchema, createSchool } from '../../../lib/server/estate/schools.service';
+import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
 /** The trust's schools with block, room and pupil counts. */
 export const GET = route(async ({ locals }) => {
   const trust = requirePermission(locals, 'estate', 'read');
   return json({ schools: await listSchools(getDb(), trust) });
+});
+
+/** Adds a school (402 beyond the free plan); on the paid plan the subscription quantity follows, prorated. */
+export const POST = route(async ({ locals, request }) => {
+  const trust = requirePermission(locals, 'register', 'create');
+  const input = await parseJson(request, NewSchoolSchema);
+  const school = await createSchool(getDb(), trust, actorOf(locals), input);
+  if (providerConfigured()) {
+    // The school exists either way; a provider hiccup is caught up the next time the billing page loads.
+    await syncQuantity(getDb(), paymentProvider(), trust.id, actorOf(locals)).catch((error: unknown) => console.error('Subscription quantity not updated', error));
+  }
+  return json({ school }, 201);
 });

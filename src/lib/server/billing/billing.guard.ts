@@ -1,0 +1,15 @@
+import { authConfig } from '../auth/auth-config';
+import { requirePermission } from '../auth/guard';
+import { unauthenticated } from '../http/errors';
+import type { BillingRequest } from './billing.service';
+
+/** A trust admin's billing request (403 for every other role, 401 when signed out). */
+export function requireBillingManager(locals: App.Locals): BillingRequest {
+  const trust = requirePermission(locals, 'billing', 'manage');
+  if (!locals.user) throw unauthenticated();
+  return {
+    trust: { id: trust.id, name: trust.name },
+    actor: { actorUserId: locals.user.id, actorEmail: locals.user.email },
+    origin: authConfig().origin,
+  };
+}

@@ -1,0 +1,90 @@
+import type { Kysely } from 'kysely';
+import type Stripe from 'stripe';
+import type { Database } from '../../../../db/database';
+import { badRequest } from '../http/errors';
+import { webhookSecret } from './provider';
+import { applySubscriptionState, readSubscription, trustForCustomer, type SubscriptionState } from './subscription-sync';
+import { notifyPaymentFailed } from './notify';
+
+/** Where an event's object points: its subscription, customer and (when stated) trust. */
+interface EventSubject {
+  subscriptionId: string | null;
+  customerId: string | null;
+  trustId: string | null;
+}
+
+const idOf = (value: unknown): string | null => {
+  if (typeof value === 'string') return value;
+  if (value && typeof value === 'object' && 'id' in value && typeof value.id === 'string') return value.id;
+  return null;
+};
+
+/** Finds the subscription an event is about, whatever kind of object it carries. */
+export function subjectOf(event: Stripe.Event): EventSubject {
+  const object = event.data.object as unknown as Record<string, unknown> & { object?: string; metadata?: Record<string, string> };
+  switch (object.object) {
+    case 'subscription':
+      return { subscriptionId: idOf(object['id']), customerId: idOf(object['customer']), trustId: object.metadata?.['trust_id'] ?? null };
+    case 'invoice': {
+      const invoice = object as unknown as Stripe.Invoice;
+      const details = invoice.parent?.subscription_details;
+      return { subscriptionId: idOf(details?.subscription), customerId: idOf(invoice.customer), trustId: details?.metadata?.['trust_id'] ?? null };
+    }
+    case 'checkout.session': {
+      const session = object as unknown as Stripe.Checkout.Session;
+      return { subscriptionId: idOf(session.subscription), customerId: idOf(session.customer), trustId: session.metadata?.['trust_id'] ?? session.client_reference_id ?? null };
+    }
+    default:
+      return { subscriptionId: null, customerId: idOf(object['customer']), trustId: object.metadata?.['trust_id'] ?? null };
+  }
+}
+
+/** Verifies the provider's signature on the raw body; anything wrong is a 400 and nothing changes. */
+export function verifyEvent(stripe: Stripe, rawBody: string, signature: string | null): Stripe.Event {
+  if (!signature) throw badRequest('The Stripe-Signature header is missing; the event was ignored.');
+  try {
+    return stripe.webhooks.constructEvent(rawBody, signature, webhookSecret());
+  } catch {
+    throw badRequest('The webhook signature does not match this server\'s signing secret (or is too old); the event was ignored.');
+  }
+}
+
+/**
+ * Handles one provider event: stores it once (a replay is recognised by its id and changes nothing),
+ * then brings the trust's subscription up to date from the provider's current object, so events
+ * arriving late or out of order cannot leave an old state behind. Payment failures e-mail the admins.
+ */
+export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: Stripe.Event): Promise<{ duplicate: boolean }> {
+  const seen = await db.selectFrom('payment_events').select('id').where('id', '=', event.id).executeTakeFirst();
+  if (seen) return { duplicate: true };
+  const subject = subjectOf(event);
+  const state: SubscriptionState | null = subject.subscriptionId ? await readSubscription(stripe, subject.subscriptionId) : null;
+  const outcome = await db.transaction().execute(async (trx) => {
+    const trustId = subject.trustId ?? state?.trustId ?? (subject.customerId ? await trustForCustomer(trx, subject.customerId) : null);
+    const known = trustId ? await trx.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst() : undefined;
+    const inserted = await trx
+      .insertInto('payment_events')
+      .values({
+        id: event.id,
+        type: event.type,
+        trust_id: known ? trustId : null,
+        object_id: idOf((event.data.object as unknown as Record<string, unknown>)['id']),
+        provider_created_at: new Date(event.created * 1000),
+        payload: JSON.stringify(event),
+      })
+      .onConflict((oc) => oc.column('id').doNothing())
+      .returning('id')
+      .executeTakeFirst();
+    if (!inserted) return { duplicate: true, trustId: null };
+    if (state && known) {
+      await applySubscriptionState(trx, { ...state, trustId: known.id }, { actorUserId: null, actorEmail: 'payment provider' }, `provider event ${event.type}`);
+    }
+    return { duplicate: false, trustId: known ? known.id : null };
+  });
+  if (!outcome.duplicate && outcome.trustId && event.type === 'invoice.payment_failed') {
+    await notifyPaymentFailed(db, outcome.trustId, event.data.object as Stripe.Invoice).catch((error: unknown) => {
+      console.error('Could not send the payment-failed e-mail', error);
+    });
+  }
+  return { duplicate: outcome.duplicate };
+}

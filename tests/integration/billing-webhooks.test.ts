@@ -1,0 +1,147 @@
+// The webhook endpoint and payment failures: signatures, replays, events out of order, and the
+// grace period → read-only → paid again cycle, against the running app and the payments fake.
+import { afterAll, describe, expect, it } from 'vitest';
+import Stripe from 'stripe';
+import { api } from '../helpers/session';
+import { testDb } from '../helpers/db';
+import { waitForMail } from '../helpers/mail';
+import { addSchool, billingOf, fakeAdmin, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
+
+const db = testDb();
+afterAll(() => db.destroy());
+
+type ErrorBody = { error: { code: string; message: string } };
+
+const postWebhook = (payload: string, signature?: string) =>
+  api('/api/billing/webhook', {
+    method: 'POST',
+    body: payload,
+    headers: { 'content-type': 'application/json', ...(signature ? { 'stripe-signature': signature } : {}) },
+  });
+
+const sign = (payload: string, secret = process.env.STRIPE_WEBHOOK_SECRET ?? '') =>
+  Stripe.webhooks.generateTestHeaderString({ payload, secret });
+
+async function countRows(trustId: string) {
+  const events = await db.selectFrom('payment_events').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+  const audit = await db.selectFrom('audit_events').select((eb) => eb.fn.countAll<number>().as('n')).where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+  const account = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', trustId).executeTakeFirst();
+  return { events: Number(events.n), audit: Number(audit.n), account };
+}
+
+describe('webhook signatures', () => {
+  it('answers 400 and stores nothing for a missing, wrong or tampered signature', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const [latest] = (await stripe.events.list({ limit: 1 })).data;
+    const payload = JSON.stringify({ ...latest, id: `evt_forged_${Date.now()}` });
+    const before = await countRows(trustId);
+
+    const missing = await postWebhook(payload);
+    expect(missing.status).toBe(400);
+    expect(((await missing.json()) as ErrorBody).error.message).toMatch(/Stripe-Signature header is missing/);
+    expect((await postWebhook(payload, sign(payload, 'whsec_not_ours'))).status).toBe(400);
+    const validForOther = sign(payload);
+    expect((await postWebhook(payload.replace('"livemode":false', '"livemode":true'), validForOther)).status).toBe(400);
+
+    expect(await countRows(trustId)).toEqual(before);
+  });
+
+  it('accepts a correctly signed event', async () => {
+    const [latest] = (await provider().events.list({ limit: 1 })).data;
+    const payload = JSON.stringify({ ...latest, id: `evt_signed_${Date.now()}` });
+    const response = await postWebhook(payload, sign(payload));
+    expect(response.status).toBe(200);
+    expect(await response.json()).toEqual({ received: true, duplicate: false });
+  });
+});
+
+describe('replays and order', () => {
+  it('stores each event once: a replayed event changes nothing', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const events = await stripe.events.list({ type: 'customer.subscription.created', limit: 5 });
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+    const created = events.data.find((e) => (e.data.object as Stripe.Subscription).id === subscriptionId)!;
+    await waitUntil('the event is stored', async () => Boolean(await db.selectFrom('payment_events').select('id').where('id', '=', created.id).executeTakeFirst()));
+    const before = await countRows(trustId);
+
+    await fakeAdmin(`/_fake/events/${created.id}/redeliver`);
+    const payload = JSON.stringify(created);
+    const again = await postWebhook(payload, sign(payload));
+    expect(await again.json()).toEqual({ received: true, duplicate: true });
+
+    expect(await countRows(trustId)).toEqual(before);
+  });
+
+  it('ends in the provider\'s current state when events arrive in reverse order', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+    const sub = await stripe.subscriptions.retrieve(subscriptionId);
+
+    // Changes made at the provider (as in its own dashboard), so only the webhooks tell the app.
+    await fakeAdmin('/_fake/webhooks/hold');
+    try {
+      await stripe.subscriptions.update(subscriptionId, { items: [{ id: sub.items.data[0]!.id, quantity: 4 }] });
+      await stripe.subscriptions.update(subscriptionId, { items: [{ id: sub.items.data[0]!.id, quantity: 6 }] });
+      await stripe.subscriptions.update(subscriptionId, { cancel_at_period_end: true });
+    } finally {
+      const { released } = await fakeAdmin<{ released: string[] }>('/_fake/webhooks/release', { order: 'reverse' });
+      expect(released.length).toBeGreaterThanOrEqual(3);
+    }
+    const last = await waitUntil('every released event is stored', async () => {
+      const rows = await db.selectFrom('payment_events').select('type').where('trust_id', '=', trustId).where('type', '=', 'customer.subscription.updated').execute();
+      return rows.length >= 3 ? rows : undefined;
+    });
+    expect(last.length).toBeGreaterThanOrEqual(3);
+    const { billing } = await billingOf(cookie);
+    expect([billing.quantity, billing.cancelAtPeriodEnd]).toEqual([6, true]);
+  });
+});
+
+describe('payment failure', () => {
+  it('e-mails the admins, gives a grace period, goes read-only, and is writable again once paid', async () => {
+    const { cookie, trustId, email } = await verifiedTrust();
+    await upgrade(cookie);
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+
+    // The trial ends and the first charge fails: grace period, full use, banner, e-mail.
+    await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
+    const grace = await waitUntil('the grace period starts', async () => {
+      const body = await billingOf(cookie);
+      return body.billing.mode === 'grace' ? body.billing : undefined;
+    });
+    const graceDays = (new Date(grace.graceEndsAt!).getTime() - Date.now()) / 86_400_000;
+    expect(graceDays).toBeGreaterThan(13.9);
+    expect(graceDays).toBeLessThanOrEqual(14);
+    const mail = await waitForMail(email, 'payment failed');
+    expect(mail.text).toMatch(/did not go through/);
+    expect(mail.text).toMatch(/Nothing is deleted/);
+    expect((await addSchool(cookie)).status).toBe(201);
+    const page = await (await api('/app/schools', { cookie })).text();
+    expect(page).toContain('data-mode="grace"');
+
+    // The provider's retries fail too: the subscription is unpaid and the trust read-only.
+    for (let attempt = 0; attempt < 3; attempt += 1) await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
+    await waitUntil('read-only mode', async () => (await billingOf(cookie)).billing.mode === 'read_only');
+    const refused = await addSchool(cookie);
+    expect(refused.status).toBe(402);
+    expect(((await refused.json()) as ErrorBody).error.code).toBe('read_only');
+    const schoolsBefore = await db.selectFrom('schools').select('id').where('trust_id', '=', trustId).execute();
+    expect((await api('/api/schools', { cookie })).status).toBe(200);
+    expect((await api('/api/rooms', { cookie })).status).toBe(200);
+    expect((await api('/api/exports/register.csv', { cookie })).status).toBe(200);
+    expect(await (await api('/app/schools', { cookie })).text()).toContain('data-mode="read_only"');
+
+    // A later payment succeeds: writable again, and nothing was lost.
+    await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'succeed' });
+    await waitUntil('writable again', async () => (await billingOf(cookie)).billing.mode === 'ok');
+    expect((await addSchool(cookie)).status).toBe(201);
+    const schoolsAfter = await db.selectFrom('schools').select('id').where('trust_id', '=', trustId).execute();
+    expect(schoolsAfter.length).toBe(schoolsBefore.length + 1);
+  });
+});

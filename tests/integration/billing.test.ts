@@ -1,0 +1,181 @@
+// Plans, checkout and plan limits against the running app, real Postgres and the payments fake.
+import { afterAll, describe, expect, it } from 'vitest';
+import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
+import { testDb } from '../helpers/db';
+import { addSchool, billingOf, payOnCheckoutPage, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
+
+const db = testDb();
+afterAll(() => db.destroy());
+
+type ErrorBody = { error: { code: string; message: string; details: unknown } };
+
+describe('plans', () => {
+  it('starts a new trust on the free plan with one school and a room limit', async () => {
+    const { cookie } = await createOtherTrust();
+    const { billing } = await billingOf(cookie);
+    expect(billing).toMatchObject({ plan: 'free', status: 'none', limits: { maxSchools: 1, maxRooms: 60 } });
+  });
+
+  it('answers 402 with what to do when a second school would exceed the free plan, and adds nothing', async () => {
+    const { cookie, trustId } = await createOtherTrust();
+    expect((await addSchool(cookie)).status).toBe(201);
+    const refused = await addSchool(cookie);
+    expect(refused.status).toBe(402);
+    const body = (await refused.json()) as ErrorBody;
+    expect(body.error.code).toBe('payment_required');
+    expect(body.error.message).toMatch(/covers 1 school/);
+    expect(body.error.message).toMatch(/upgrade.*Settings → Billing/i);
+    const schools = await db.selectFrom('schools').select('id').where('trust_id', '=', trustId).execute();
+    expect(schools).toHaveLength(1);
+  });
+
+  it('keeps the demo trust on the paid plan, in our records and at the provider, one seat per school', async () => {
+    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const { billing, upcoming } = await billingOf(cookie);
+    const schools = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').execute();
+    expect(billing.plan).toBe('per_school');
+    expect(billing.quantity).toBe(schools.length);
+    const sub = await provider().subscriptions.retrieve(await subscriptionIdOf(db, 'demo-trust'));
+    expect(sub.items.data[0]!.quantity).toBe(schools.length);
+    // £24 per school per month, the price the plan is sold at.
+    expect(upcoming?.amountDuePence).toBe(2400 * schools.length);
+  });
+});
+
+describe('upgrade through hosted checkout', () => {
+  it('refuses checkout until the trust admin has confirmed their e-mail', async () => {
+    const { cookie } = await createOtherTrust();
+    const response = await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' });
+    expect(response.status).toBe(403);
+    expect(((await response.json()) as ErrorBody).error.code).toBe('email_unverified');
+  });
+
+  it('leaves the trust on the free plan when the card is declined', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    const { url } = (await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as { url: string };
+    const declined = await payOnCheckoutPage(url, '4000 0000 0000 0002');
+    expect(declined.status).toBe(402);
+    expect(await declined.text()).toContain('Your card was declined.');
+    await new Promise((r) => setTimeout(r, 500));
+    expect((await billingOf(cookie)).billing.plan).toBe('free');
+    const events = await db.selectFrom('payment_events').select('type').where('trust_id', '=', trustId).execute();
+    expect(events.map((e) => e.type)).not.toContain('checkout.session.completed');
+  });
+
+  it('activates the paid plan with a 30-day trial once the provider confirms, and audits the change', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    const before = Date.now();
+    const { billing } = await upgrade(cookie);
+    expect(billing).toMatchObject({ plan: 'per_school', status: 'trialing', interval: 'month', quantity: 1, mode: 'ok' });
+    const trialDays = (new Date(billing.trialEnd!).getTime() - before) / 86_400_000;
+    expect(trialDays).toBeGreaterThan(29.9);
+    expect(trialDays).toBeLessThan(30.1);
+    const audit = await db.selectFrom('audit_events').select(['action', 'summary']).where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
+    expect(audit.some((a) => /from Single School \(free\) to Whole Estate monthly, 1 school, trialing/.test(a.summary))).toBe(true);
+    // Once paid, the free plan's one-school limit no longer applies.
+    expect((await addSchool(cookie)).status).toBe(201);
+    expect((await addSchool(cookie)).status).toBe(201);
+  });
+
+  it('refuses a second checkout while the trust is already on the paid plan', async () => {
+    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const response = await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' });
+    expect(response.status).toBe(409);
+  });
+});
+
+describe('subscription quantity follows the schools', () => {
+  it('raises the quantity when a school is added, prorated for the rest of the period', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+    // End the trial so the subscription is charged and prorations apply.
+    const { fakeAdmin } = await import('./billing-fixture');
+    await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'succeed' });
+    await waitUntil('the trial ends', async () => (await billingOf(cookie)).billing.status === 'active');
+
+    expect((await addSchool(cookie)).status).toBe(201);
+    expect((await addSchool(cookie)).status).toBe(201);
+    const sub = await stripe.subscriptions.retrieve(subscriptionId);
+    expect(sub.items.data[0]!.quantity).toBe(2);
+    const { billing } = await billingOf(cookie);
+    expect([billing.schoolCount, billing.quantity]).toEqual([2, 2]);
+
+    const preview = await stripe.invoices.createPreview({ subscription: subscriptionId });
+    const proration = preview.lines.data.filter((l) => l.parent?.subscription_item_details?.proration).reduce((sum, l) => sum + l.amount, 0);
+    // One school added at the very start of a monthly period costs (almost) one month: £24.
+    expect(proration).toBeGreaterThan(2380);
+    expect(proration).toBeLessThanOrEqual(2400);
+    const audit = await db.selectFrom('audit_events').select('summary').where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
+    expect(audit.some((a) => /to Whole Estate monthly, 2 schools, active \(school count is now 2\)/.test(a.summary))).toBe(true);
+  });
+});
+
+describe('managing the subscription', () => {
+  it('switches to yearly, cancels at period end and resumes, each read back from the provider', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+
+    const yearly = await api('/api/billing/period', { method: 'POST', cookie, body: JSON.stringify({ interval: 'year' }) });
+    expect(yearly.status).toBe(200);
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.price.recurring?.interval).toBe('year');
+    expect((await billingOf(cookie)).billing.interval).toBe('year');
+
+    const notConfirmed = await api('/api/billing/cancel', { method: 'POST', cookie, body: '{}' });
+    expect(notConfirmed.status).toBe(400);
+    const cancel = await api('/api/billing/cancel', { method: 'POST', cookie, body: JSON.stringify({ atPeriodEnd: true }) });
+    expect(cancel.status).toBe(200);
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).cancel_at_period_end).toBe(true);
+    const cancelling = await billingOf(cookie);
+    expect([cancelling.billing.cancelAtPeriodEnd, cancelling.billing.plan, cancelling.upcoming]).toEqual([true, 'per_school', null]);
+
+    const resume = await api('/api/billing/resume', { method: 'POST', cookie });
+    expect(resume.status).toBe(200);
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).cancel_at_period_end).toBe(false);
+
+    const invoices = (await (await api('/api/billing/invoices', { cookie })).json()) as { invoices: { status: string }[] };
+    expect(invoices.invoices.length).toBeGreaterThan(0);
+    const actions = await db.selectFrom('audit_events').select('summary').where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
+    expect(actions.map((a) => a.summary).join('\n')).toMatch(/yearly[\s\S]*cancels at period end[\s\S]*resumed by a trust admin/);
+  });
+});
+
+describe('only trust admins manage billing', () => {
+  const writes: [string, string, string | undefined][] = [
+    ['POST', '/api/billing/checkout', '{}'],
+    ['POST', '/api/billing/period', JSON.stringify({ interval: 'year' })],
+    ['POST', '/api/billing/cancel', JSON.stringify({ atPeriodEnd: true })],
+    ['POST', '/api/billing/resume', undefined],
+    ['GET', '/api/billing', undefined],
+    ['GET', '/api/billing/invoices', undefined],
+  ];
+  for (const role of ['viewer', 'finance_lead', 'estates_manager'] as const) {
+    it(`answers 403 to the ${role.replace('_', ' ')} on every billing call and changes nothing`, async () => {
+      const cookie = await signIn(DEMO_ACCOUNTS[role]);
+      const before = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', 'demo-trust').executeTakeFirstOrThrow();
+      for (const [method, path, body] of writes) {
+        const response = await api(path, { method, cookie, ...(body ? { body } : {}) });
+        expect(response.status, `${method} ${path}`).toBe(403);
+      }
+      const after = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', 'demo-trust').executeTakeFirstOrThrow();
+      expect(after).toEqual(before);
+      const page = await api('/app/settings/billing', { cookie });
+      expect(page.status).toBe(200);
+      const html = await page.text();
+      expect(html).toContain('Only trust admins can change it.');
+      expect(html).not.toContain('Continue to payment');
+      expect(html).not.toContain('Cancel at the end of the period');
+    });
+  }
+
+  it('refuses a form post to the billing page from a viewer', async () => {
+    const cookie = await signIn(DEMO_ACCOUNTS.viewer);
+    const response = await api('/app/settings/billing', {
+      method: 'POST', cookie, headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'action=cancel',
+    });
+    expect(response.status).toBe(403);
+  });
+});
