@@ -3,10 +3,13 @@
  * discounting convention of the HM Treasury Green Book).
  */
 
-/** Annuity factor AF(r, n) = (1 − (1+r)^−n)/r; AF(0, n) = n. r 0–0.5, n ≥ 0 years. */
+/**
+ * Annuity factor AF(r, n) = (1 − (1+r)^−n)/r; AF(0, n) = n. r 0–0.5, n ≥ 0 years.
+ * Evaluated as −expm1(−n·log1p(r))/r so that very small rates keep full precision.
+ */
 export function annuityFactor(rate: number, years: number): number {
   if (rate === 0) return years;
-  return (1 - (1 + rate) ** -years) / rate;
+  return -Math.expm1(-years * Math.log1p(rate)) / rate;
 }
 
 /** NPV of a level annual saving: −C0 + S·AF(r, n), £. */
@@ -34,7 +37,7 @@ export function discountedPaybackClosedFormYears(args: { capitalGbp: number; ann
   if (r === 0) return c0 / s;
   const x = (r * c0) / s;
   if (x >= 1) return null;
-  return -Math.log(1 - x) / Math.log(1 + r);
+  return -Math.log1p(-x) / Math.log1p(r);
 }
 
 /**
@@ -46,9 +49,12 @@ export function discountedPaybackYears(args: { capitalGbp: number; annualSavingG
   const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
   const closed = discountedPaybackClosedFormYears(args);
   if (closed === null || closed === 0) return closed;
+  if (!Number.isFinite(closed)) return null;
+  // Beyond a millennium the year-by-year search is pointless; the closed form is as good an answer.
+  if (closed > 1000) return closed;
   let k = Math.max(1, Math.ceil(closed));
   while (k > 1 && s * annuityFactor(r, k - 1) >= c0) k -= 1;
-  while (s * annuityFactor(r, k) < c0) k += 1;
+  while (s * annuityFactor(r, k) < c0 && k < 1002) k += 1;
   const before = s * annuityFactor(r, k - 1);
   const inYear = s * annuityFactor(r, k) - before;
   return k - 1 + (c0 - before) / inYear;
