@@ -158,6 +158,8 @@ describe('members', () => {
     expect(limit.status).toBe(200);
     const account = await json<AccountBody>(await api('/api/account', { cookie }));
     expect(account.trust).toMatchObject({ role: 'finance_lead', schoolIds: [school.id] });
+    const visible = await json<{ schools: { id: string }[] }>(await api('/api/schools', { cookie }));
+    expect(visible.schools.map((s) => s.id)).toEqual([school.id]);
     const audit = await db.selectFrom('audit_events').select(['action', 'before', 'after']).where('entity_id', '=', memberId).where('action', '=', 'member.role_changed').executeTakeFirst();
     expect(audit?.before).toMatchObject({ role: 'viewer' });
     expect(audit?.after).toMatchObject({ role: 'finance_lead' });
@@ -248,5 +250,33 @@ describe('sessions and cookies', () => {
     const response = await api('/app/schools?page=2');
     expect(response.status).toBe(303);
     expect(response.headers.get('location')).toBe(`/sign-in?next=${encodeURIComponent('/app/schools?page=2')}`);
+  });
+});
+
+describe('several trusts', () => {
+  it('lets a member of two trusts switch between them, and asks them to choose after a fresh sign-in', async () => {
+    const other = await createOtherTrust();
+    const verify = linkIn(await waitForMail(other.email, 'Confirm your e-mail'), '/verify-email');
+    expect((await api(`${verify.pathname}${verify.search}`, { cookie: other.cookie })).status).toBe(200);
+
+    const email = uniqueEmail('two-trusts');
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const first = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
+    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Two Trusts', email, password: DEMO_PASSWORD, invitationId: first.invitation.id }) });
+    const cookie = cookieFrom(signUp);
+    const second = await api('/api/members', { method: 'POST', cookie: other.cookie, body: JSON.stringify({ email, role: 'finance_lead' }) });
+    expect(second.status).toBe(201);
+    const secondId = (await json<{ invitation: { id: string } }>(second)).invitation.id;
+    expect((await api('/api/account/accept-invitation', { method: 'POST', cookie, body: JSON.stringify({ invitationId: secondId }) })).status).toBe(200);
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ id: other.trustId, role: 'finance_lead' });
+
+    const switched = await api('/api/account/active-trust', { method: 'POST', cookie, body: JSON.stringify({ trustId: 'demo-trust' }) });
+    expect(switched.status).toBe(200);
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ id: 'demo-trust', role: 'viewer' });
+
+    const fresh = await signIn(email);
+    expect((await json<AccountBody>(await api('/api/account', { cookie: fresh }))).trust).toBeNull();
+    const page = await api('/app/schools', { cookie: fresh });
+    expect(page.headers.get('location')).toBe('/app/account?notice=no-trust');
   });
 });
