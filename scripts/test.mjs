@@ -2,9 +2,8 @@
 // then every vitest project (unit, integration against the real services, browser tests).
 import { join } from 'node:path';
 import { existsSync, readFileSync, rmSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
 import {
-  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
+  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startChild, startMailFake, startPostgres, step, stopChildren, waitForPort,
 } from './lib/services.mjs';
 import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
 import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
@@ -58,12 +57,14 @@ try {
   step('Running vitest (unit, integration, browser)');
   const resultsFile = join(dataDir, 'vitest-results.json');
   rmSync(resultsFile, { force: true });
-  const result = spawnSync(
+  // Asynchronous, so Ctrl-C and SIGTERM still reach our handler and stop the services.
+  const vitest = startChild(
+    'vitest',
     join(ROOT, 'node_modules', '.bin', 'vitest'),
     ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
-    { cwd: ROOT, stdio: 'inherit', env },
+    { env },
   );
-  let code = result.status ?? 1;
+  let code = await new Promise((resolveExit) => vitest.on('exit', (status) => resolveExit(status ?? 1)));
   if (existsSync(resultsFile)) {
     const summary = JSON.parse(readFileSync(resultsFile, 'utf8'));
     const passed = summary.numPassedTests ?? 0;
