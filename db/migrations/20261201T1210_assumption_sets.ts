@@ -26,11 +26,22 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('problems', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`))
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
+  // Result details are ~7 kB of JSON each: lz4 compresses them several times faster than the default pglz,
+  // and a low toast_tuple_target moves them out of the row, so flipping is_current and rank rewrites only
+  // a ~300-byte row and reuses the stored detail.
+  await sql`ALTER TABLE room_results SET (toast_tuple_target = 256)`.execute(db);
+  await sql`DO $$ BEGIN ALTER TABLE room_results ALTER COLUMN detail SET COMPRESSION lz4;
+            EXCEPTION WHEN feature_not_supported OR invalid_parameter_value THEN NULL; END $$`.execute(db);
+  // Deleting a room cascades to its results of every run; without this the cascade scans room_results.
+  await sql`CREATE INDEX room_results_room_all_idx ON room_results (room_id)`.execute(db);
   await sql`CREATE INDEX assessment_runs_active_idx ON assessment_runs (trust_id) WHERE status IN ('queued', 'running')`.execute(db);
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
   await sql`DROP INDEX IF EXISTS assessment_runs_active_idx`.execute(db);
+  await sql`DROP INDEX IF EXISTS room_results_room_all_idx`.execute(db);
+  await sql`ALTER TABLE room_results ALTER COLUMN detail SET COMPRESSION default`.execute(db);
+  await sql`ALTER TABLE room_results RESET (toast_tuple_target)`.execute(db);
   await db.schema.alterTable('assessment_runs').dropColumn('job_id').dropColumn('resume_after_room_id').dropColumn('problems').dropColumn('updated_at').execute();
   await db.schema.dropTable('assumption_sets').execute();
 }

@@ -24,6 +24,7 @@ function field(value: string | number | boolean | null): string {
   if (value === null) return '\\N';
   if (typeof value === 'boolean') return value ? 't' : 'f';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '\\N';
+  if (!/[\\\t\n\r]/.test(value)) return value;
   return value.replace(/[\\\t\n\r]/g, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r'));
 }
 

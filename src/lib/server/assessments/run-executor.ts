@@ -1,11 +1,11 @@
-import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, rankRooms, toRankInput, type RankInput } from '../../engine';
+import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, rankRooms, toRankInput, type AssumptionSet, type RankInput } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import { getDb, getPool } from '../db/client';
 import { getAssumptionSetById } from './assumptions.repository';
 import { readRoomChunk } from './engine-input.repository';
 import { toResultRow, type ResultRow } from './result-row';
 import { commitChunk, deleteNonCurrentResults, flipRunCurrent } from './results.repository';
-import { getRun, markFailed, markRunning, noteRetry } from './runs.repository';
+import { getRun, markFailed, markRunning, noteRetry, type Run } from './runs.repository';
 
 export interface ExecuteOptions {
   /** Rooms per chunk; by default a twentieth of the run, between 100 and 2,000. */
@@ -34,33 +34,9 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
   }
   if (!(await markRunning(db, runId))) return;
 
-  const scope = { trustId: run.trustId, schoolId: run.schoolId };
   const chunkSize = options.chunkSize ?? defaultChunkSize(run.roomsTotal);
   const resumedAfterRoomId = run.resumeAfterRoomId;
-  const rankInputs: RankInput[] = [];
-  let cursor = resumedAfterRoomId;
-  let roomsDone = run.roomsDone;
-  for (;;) {
-    const rooms = await readRoomChunk(db, scope, cursor, chunkSize);
-    if (rooms.length === 0) break;
-    const rows: ResultRow[] = [];
-    const problems: RunProblem[] = [];
-    for (const room of rooms) {
-      try {
-        const assessment = assessRoom(room.input, stored.set, { withCurve: false });
-        rows.push(toResultRow(runId, room, assessment));
-        rankInputs.push(toRankInput(`${runId}:${room.roomId}`, assessment));
-      } catch (error) {
-        if (!(error instanceof EngineInputError)) throw error;
-        problems.push({ roomId: room.roomId, roomCode: room.roomCode, field: error.field, message: error.message });
-      }
-    }
-    cursor = rooms[rooms.length - 1]!.roomId;
-    await commitChunk(getPool(), runId, rows, { roomsDone: rooms.length, lastRoomId: cursor, problems });
-    roomsDone += rooms.length;
-    await options.afterChunk?.(roomsDone);
-  }
-
+  const rankInputs = await assessAndWrite(run, stored.set, chunkSize, options.afterChunk);
   await flipRunCurrent(db, {
     runId,
     trustId: run.trustId,
@@ -69,6 +45,53 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
     resumedAfterRoomId,
     rank: (rows) => rankRooms(rows, DEFAULT_RANK_WEIGHTS),
   });
+}
+
+/**
+ * Reads, assesses and commits the run's rooms chunk by chunk after its resume point; returns the rank
+ * inputs of the rooms assessed in this attempt. One chunk's COPY runs in Postgres while the next chunk is
+ * read and assessed here, so on two cores the engine's time hides behind the database's; commits stay
+ * strictly in order, one at a time, so the resume point always matches what is written.
+ */
+async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, afterChunk: ExecuteOptions['afterChunk']): Promise<RankInput[]> {
+  const db = getDb();
+  const scope = { trustId: run.trustId, schoolId: run.schoolId };
+  const rankInputs: RankInput[] = [];
+  let cursor = run.resumeAfterRoomId;
+  let roomsDone = run.roomsDone;
+  let pending: Promise<void> = Promise.resolve();
+  try {
+    for (;;) {
+      const rooms = await readRoomChunk(db, scope, cursor, chunkSize);
+      if (rooms.length === 0) break;
+      const rows: ResultRow[] = [];
+      const problems: RunProblem[] = [];
+      for (const room of rooms) {
+        try {
+          const assessment = assessRoom(room.input, set, { withCurve: false });
+          rows.push(toResultRow(run.id, room, assessment));
+          rankInputs.push(toRankInput(`${run.id}:${room.roomId}`, assessment));
+        } catch (error) {
+          if (!(error instanceof EngineInputError)) throw error;
+          problems.push({ roomId: room.roomId, roomCode: room.roomCode, field: error.field, message: error.message });
+        }
+      }
+      cursor = rooms[rooms.length - 1]!.roomId;
+      await pending;
+      const chunk = { roomsDone: rooms.length, lastRoomId: cursor, problems };
+      pending = commitChunk(getPool(), run.id, rows, chunk).then(async () => {
+        roomsDone += chunk.roomsDone;
+        await afterChunk?.(roomsDone);
+      });
+      pending.catch(() => undefined); // observed by the next `await pending`
+    }
+    await pending;
+  } catch (error) {
+    // Let a commit in flight land before the caller decides to retry or clean up.
+    await pending.catch(() => undefined);
+    throw error;
+  }
+  return rankInputs;
 }
 
 /** Plain words for an unexpected error, for the run's `error` field. */

@@ -1,0 +1,100 @@
+import { sql } from 'kysely';
+import { assessRoom, EngineInputError, type AssumptionSet, type RoomAssessment, type RoomAssessmentInput } from '../../engine';
+import type { ActiveTrust } from '../auth/context';
+import { getDb } from '../db/client';
+import { badRequest, notFound } from '../http/errors';
+import { getCurrentAssumptionSet } from './assumptions.repository';
+import type { WhatIfBody } from './assessments.schemas';
+import { readEngineRoom } from './engine-input.repository';
+
+/** The room's place in the latest current results, if it has been assessed. */
+export interface LatestResult {
+  runId: string;
+  rank: number | null;
+  rankedRooms: number;
+  finishedAt: string | null;
+  assumptionsVersion: string | null;
+}
+
+/** A room assessed now (with curves) under the trust's current assumptions, plus its latest stored result. */
+export interface RoomAssessmentView {
+  assessment: RoomAssessment;
+  assumptionsLabel: string;
+  latest: LatestResult | null;
+}
+
+function assessOrExplain(input: RoomAssessmentInput, set: AssumptionSet): RoomAssessment {
+  try {
+    return assessRoom(input, set, { withCurve: true });
+  } catch (error) {
+    if (error instanceof EngineInputError) throw badRequest(`This room cannot be assessed: ${error.message}`, { field: error.field });
+    throw error;
+  }
+}
+
+async function latestResult(trustId: string, roomId: string): Promise<LatestResult | null> {
+  const { rows } = await sql<{ run_id: string; rank: number | null; finished_at: Date | null; assumptions_version: string | null; ranked: number }>`
+    SELECT rr.run_id, rr.rank, ar.finished_at, ar.assumptions_version,
+      (SELECT count(*)::int FROM room_results x WHERE x.trust_id = rr.trust_id AND x.is_current) AS ranked
+    FROM room_results rr JOIN assessment_runs ar ON ar.id = rr.run_id
+    WHERE rr.room_id = ${roomId}::uuid AND rr.trust_id = ${trustId} AND rr.is_current`.execute(getDb());
+  const r = rows[0];
+  return r ? { runId: r.run_id, rank: r.rank, rankedRooms: r.ranked, finishedAt: r.finished_at?.toISOString() ?? null, assumptionsVersion: r.assumptions_version } : null;
+}
+
+/** The room page's assessment: computed now, so it reflects the register as it is; null when the room is not in scope. */
+export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Promise<RoomAssessmentView | null> {
+  const db = getDb();
+  const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
+  if (!room) return null;
+  const stored = await getCurrentAssumptionSet(db, trust.id);
+  const assessment = assessOrExplain(room.input, stored.set);
+  return { assessment: { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] }, assumptionsLabel: stored.label, latest: await latestResult(trust.id, roomId) };
+}
+
+/** The answer of a what-if: the room today and with the changes, both under the current assumptions. Nothing is saved. */
+export interface WhatIfAnswer {
+  current: RoomAssessment;
+  whatIf: RoomAssessment;
+  changes: string[];
+}
+
+/**
+ * Re-assesses the room with more or fewer pupils, a different openable window area, or heat-recovery units
+ * added from the catalogue (the room is then judged as mechanically ventilated with the units' supply on top of
+ * any it has). Reads only; writes nothing.
+ */
+export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBody): Promise<WhatIfAnswer> {
+  const db = getDb();
+  const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
+  if (!room) throw notFound('That room');
+  const { set } = await getCurrentAssumptionSet(db, trust.id);
+  const changed: RoomAssessmentInput = structuredClone(room.input);
+  const changes: string[] = [];
+  if (body.pupils !== undefined) {
+    changes.push(`Pupils ${room.input.room.pupils} → ${body.pupils}`);
+    changed.room.pupils = body.pupils;
+  }
+  if (body.openableAreaM2 !== undefined) {
+    if (body.openableAreaM2 > changed.room.glazingAreaM2) {
+      throw badRequest(`Openable area cannot exceed the glazing area (${changed.room.glazingAreaM2} m²).`, { field: 'openableAreaM2' });
+    }
+    changes.push(`Openable window area ${room.input.room.openableAreaM2} m² → ${body.openableAreaM2} m²`);
+    changed.room.openableAreaM2 = body.openableAreaM2;
+  }
+  if (body.addUnits && body.addUnits.length > 0) {
+    const catalogue = set.retrofit.unitCatalogue.value;
+    let addedLps = 0;
+    for (const line of body.addUnits) {
+      const model = catalogue.find((m) => m.id === line.modelId);
+      if (!model) throw badRequest(`There is no unit model "${line.modelId}" in the trust's catalogue.`, { field: 'addUnits.modelId' });
+      addedLps += model.nominalFlowLps * line.count;
+      changes.push(`Add ${line.count} × ${model.name} (${model.nominalFlowLps * line.count} l/s)`);
+    }
+    const mechanical = set.mechanical.ventilationClass.value[room.input.room.ventilationType] === 'mechanical';
+    const existingLps = mechanical ? (room.input.room.mechanicalSupplyLps ?? 0) : 0;
+    changed.room.ventilationType = 'heat_recovery_unit';
+    changed.room.mechanicalSupplyLps = existingLps + addedLps;
+  }
+  return { current: assessOrExplain(room.input, set), whatIf: assessOrExplain(changed, set), changes };
+}

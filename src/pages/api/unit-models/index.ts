@@ -1,0 +1,21 @@
+import { actorOf } from '../../../lib/server/audit/audit.repository';
+import { requirePermission } from '../../../lib/server/auth/guard';
+import { UnitCatalogueSchema } from '../../../lib/server/assessments/assessments.schemas';
+import { getAssumptionsView, saveUnitCatalogue } from '../../../lib/server/assessments/assumptions.service';
+import { json, parseJson } from '../../../lib/server/http/respond';
+import { route } from '../../../lib/server/http/route';
+
+/** The trust's catalogue of generic heat-recovery unit models (part of the current assumption set). */
+export const GET = route(async ({ locals }) => {
+  const trust = requirePermission(locals, 'assumptions', 'read');
+  const view = await getAssumptionsView(trust);
+  return json({ models: view.catalogue, version: view.version, label: view.label });
+});
+
+/** Replaces the catalogue as a new assumption version (technical fields vs costs are checked per role). */
+export const PUT = route(async ({ locals, request }) => {
+  const trust = requirePermission(locals, 'assumptions', 'read');
+  const body = await parseJson(request, UnitCatalogueSchema);
+  const saved = await saveUnitCatalogue(trust, actorOf(locals), body);
+  return json({ id: saved.id, version: saved.version, label: saved.label }, 201);
+});
