@@ -159,14 +159,25 @@ export function renderCheckoutPage(session, catalog, state, errorMessage = null)
 </main></body></html>`;
 }
 
-/** A read-only view of an invoice (the hosted invoice URL). */
-export function renderInvoicePage(invoice) {
+/** The hosted invoice page: the lines, and for an unpaid invoice a card form to pay it. */
+export function renderInvoicePage(invoice, errorMessage = null) {
   const rows = invoice.lines.data.map((l) => `<tr><td>${escapeHtml(l.description)}</td><td style="text-align:right">${money(l.amount, l.currency)}</td></tr>`).join('');
+  const payForm = invoice.status !== 'open' ? '' : `
+<form method="post" action="/invoices/${escapeHtml(invoice.id)}" style="margin-top:1.5rem">
+  ${errorMessage ? `<p role="alert" data-testid="invoice-error" style="background:#fde8e6;padding:.5rem .7rem;border-radius:6px">${escapeHtml(errorMessage)}</p>` : ''}
+  <h2 style="font-size:1.1rem">Pay ${money(invoice.amount_remaining, invoice.currency)} now</h2>
+  <label for="cardNumber">Card number</label><br><input id="cardNumber" name="cardNumber" inputmode="numeric" placeholder="4242 4242 4242 4242" required style="width:100%;padding:.5rem;box-sizing:border-box"><br>
+  <label for="expiry">Expiry (MM / YY)</label><br><input id="expiry" name="expiry" placeholder="12 / 34" required style="padding:.5rem"><br>
+  <label for="cvc">CVC</label><br><input id="cvc" name="cvc" placeholder="123" required style="padding:.5rem"><br>
+  <button type="submit" style="margin-top:.8rem;padding:.6rem 1rem;font-weight:700;color:#fff;background:#245c4f;border:0;border-radius:6px">Pay invoice</button>
+  <p style="font-size:.85rem;color:#4f5955">Test cards: 4242 4242 4242 4242 succeeds; 4000 0000 0000 0002 is declined. The card becomes the subscription's card for later renewals.</p>
+</form>`;
   return `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Invoice ${escapeHtml(invoice.number)}</title>
 <style>body{font:16px/1.5 system-ui,sans-serif;max-width:36rem;margin:2rem auto;padding:0 1rem}table{width:100%;border-collapse:collapse}td{padding:.3rem 0;border-bottom:1px solid #ddd}</style></head>
 <body><p>Test mode: local payments fake.</p><h1>Invoice ${escapeHtml(invoice.number)}</h1>
-<p>Status: <strong>${escapeHtml(invoice.status)}</strong> · issued ${new Date(invoice.created * 1000).toISOString().slice(0, 10)}</p>
+<p>Status: <strong data-testid="invoice-status">${invoice.status === 'open' ? 'unpaid' : escapeHtml(invoice.status)}</strong> · issued ${new Date(invoice.created * 1000).toISOString().slice(0, 10)}</p>
 <table>${rows}<tr><td><strong>Total</strong></td><td style="text-align:right"><strong>${money(invoice.total, invoice.currency)}</strong></td></tr></table>
+${invoice.status === 'paid' ? '<p>Paid. Thank you: you can close this page and go back to the site.</p>' : ''}${payForm}
 </body></html>`;
 }
 

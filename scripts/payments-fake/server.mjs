@@ -110,6 +110,7 @@ export async function startPaymentsFake(options = {}) {
     ['GET', /^\/v1\/invoices$/, (_, __, q) => list('/v1/invoices', subs.listInvoices(q), q)],
     ['POST', /^\/v1\/invoices\/create_preview$/, (_, body) => subs.previewInvoice(body)],
     ['GET', /^\/v1\/invoices\/([^/]+)$/, ([id]) => subs.getInvoice(id)],
+    ['POST', /^\/v1\/invoices\/([^/]+)\/pay$/, ([id], body) => subs.payInvoice(id, body.payment_method)],
     ['GET', /^\/v1\/events\/([^/]+)$/, ([id]) => state.events[id] ?? (() => { throw missing('event', id); })()],
     ['GET', /^\/v1\/events$/, (_, __, q) => list('/v1/events', Object.values(state.events).filter((e) => !q.type || e.type === q.type).reverse(), q)],
   ];
@@ -214,9 +215,21 @@ export async function startPaymentsFake(options = {}) {
         }
       }
     }
-    if (invoiceMatch && req.method === 'GET') {
-      const invoice = state.invoices[invoiceMatch[1]];
-      if (invoice) return html(res, 200, renderInvoicePage(invoice));
+    const invoice = invoiceMatch ? state.invoices[invoiceMatch[1]] : null;
+    if (invoice && req.method === 'GET') return html(res, 200, renderInvoicePage(invoice));
+    if (invoice && req.method === 'POST') {
+      // The hosted invoice page's card form: pay an overdue invoice with a (new) card.
+      const form = Object.fromEntries(new URLSearchParams(raw));
+      try {
+        const pm = catalog.createCardPaymentMethod(form.cardNumber, { customer: invoice.customer });
+        subs.payInvoice(invoice.id, pm.id);
+        save();
+        return html(res, 200, renderInvoicePage(invoice));
+      } catch (error) {
+        if (!(error instanceof ApiError)) throw error;
+        save();
+        return html(res, 402, renderInvoicePage(invoice, checkoutErrorMessage(error)));
+      }
     }
     return html(res, 404, '<!doctype html><title>Not found</title><p>Not found.</p>');
   }

@@ -372,6 +372,21 @@ export function createSubscriptions(ctx, catalog) {
     return sub;
   }
 
+  /** Pays an open invoice with a card (which becomes the subscription's default); a paid renewal reactivates it. */
+  function payInvoice(id, paymentMethodId) {
+    const inv = getInvoice(id);
+    if (inv.status !== 'open') throw invalid(`Invoice ${id} is ${inv.status}; only open invoices can be paid.`);
+    const sub = getSubscription(inv.parent.subscription_details.subscription);
+    const before = snapshot(sub);
+    if (paymentMethodId) sub.default_payment_method = catalog.paymentMethodFromToken(paymentMethodId, sub.customer).id;
+    const paid = collect(sub, inv);
+    if (!paid) throw new ApiError(402, { type: 'card_error', code: 'card_declined', decline_code: 'generic_decline', message: 'Your card was declined.' });
+    const stillOpen = Object.values(state.invoices).some((i) => i.parent?.subscription_details?.subscription === sub.id && i.status === 'open');
+    if (!stillOpen && (sub.status === 'past_due' || sub.status === 'unpaid')) sub.status = 'active';
+    emitUpdated(sub, before);
+    return inv;
+  }
+
   /** The invoice the subscription will produce at the end of the current period (nothing is stored). */
   function previewInvoice(params) {
     const sub = params.subscription
@@ -430,6 +445,6 @@ export function createSubscriptions(ctx, catalog) {
 
   return {
     getSubscription, viewSubscription, createSubscription, updateSubscription, cancelSubscription, renew,
-    previewInvoice, getInvoice, listInvoices, listSubscriptions,
+    previewInvoice, getInvoice, listInvoices, listSubscriptions, payInvoice,
   };
 }

@@ -6,7 +6,8 @@ import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, signInInBrowser } from '../helpers/browser';
 import { APP_URL, DEMO_ACCOUNTS } from '../helpers/session';
-import { verifiedTrust } from '../integration/billing-fixture';
+import { fakeAdmin, verifiedTrust } from '../integration/billing-fixture';
+import { testDb } from '../helpers/db';
 
 const SHOTS = join(process.cwd(), '.data', 'screenshots');
 
@@ -21,7 +22,7 @@ describe('billing in Chromium', () => {
   });
 
   it('upgrades a trust through the hosted checkout: declined card first, then the test card', async () => {
-    const { email } = await verifiedTrust();
+    const { email, trustId } = await verifiedTrust();
     const page = await browser.newPage();
     await signInInBrowser(page, email);
     await page.goto(`${APP_URL}/app/settings/billing`);
@@ -50,6 +51,17 @@ describe('billing in Chromium', () => {
     expect(await page.getByTestId('plan-standing').textContent()).toMatch(/^Free trial until /);
     expect(await page.getByTestId('plan-interval').textContent()).toMatch(/^Yearly/);
     await page.screenshot({ path: join(SHOTS, 'billing-paid.png'), fullPage: true });
+
+    // The trial ends and the first charge fails: every page of the app shows the grace banner.
+    const db = testDb();
+    const { provider_subscription_id: subscriptionId } = await db.selectFrom('billing_accounts').select('provider_subscription_id').where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+    await db.destroy();
+    await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
+    await expect.poll(async () => {
+      await page.goto(`${APP_URL}/app/schools`);
+      return page.getByTestId('billing-banner').getAttribute('data-mode', { timeout: 1000 }).catch(() => null);
+    }, { timeout: 15_000 }).toBe('grace');
+    await page.screenshot({ path: join(SHOTS, 'billing-grace-banner.png') });
     await page.close();
   });
 

@@ -137,8 +137,12 @@ describe('payment failure', () => {
     expect((await api('/api/exports/register.csv', { cookie })).status).toBe(200);
     expect(await (await api('/app/schools', { cookie })).text()).toContain('data-mode="read_only"');
 
-    // A later payment succeeds: writable again, and nothing was lost.
-    await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'succeed' });
+    // The billing page links the overdue invoice; paying it with another card makes the trust writable again.
+    const billingPage = await (await api('/app/settings/billing', { cookie })).text();
+    const invoiceUrl = /href="([^"]+\/invoices\/in_[^"]+)"[^>]*data-testid="pay-overdue"/.exec(billingPage)?.[1];
+    expect(invoiceUrl).toBeDefined();
+    const paid = await fetch(invoiceUrl!, { method: 'POST', body: new URLSearchParams({ cardNumber: '4242 4242 4242 4242', expiry: '12/34', cvc: '123' }) });
+    expect(paid.status).toBe(200);
     await waitUntil('writable again', async () => (await billingOf(cookie)).billing.mode === 'ok');
     expect((await addSchool(cookie)).status).toBe(201);
     const schoolsAfter = await db.selectFrom('schools').select('id').where('trust_id', '=', trustId).execute();

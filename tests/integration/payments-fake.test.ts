@@ -226,6 +226,23 @@ describe('payments fake: subscription changes', () => {
     expect((await stripe.invoices.retrieve(open.data[0]!.id)).status).toBe('paid');
   });
 
+  it('pays an overdue invoice on the hosted invoice page: a declined card changes nothing, the test card reactivates', async () => {
+    const { sub } = await activeSubscription(1);
+    for (let i = 0; i < 4; i += 1) await admin(`/_fake/subscriptions/${sub.id}/renew`, { outcome: 'fail' });
+    expect((await stripe.subscriptions.retrieve(sub.id)).status).toBe('unpaid');
+    const [open] = (await stripe.invoices.list({ subscription: sub.id, status: 'open' })).data;
+    const pay = (card: string) => fetch(open!.hosted_invoice_url!, { method: 'POST', body: new URLSearchParams({ cardNumber: card, expiry: '12/34', cvc: '123' }) });
+    const declined = await pay('4000 0000 0000 0002');
+    expect(declined.status).toBe(402);
+    expect((await stripe.subscriptions.retrieve(sub.id)).status).toBe('unpaid');
+    const paid = await pay('4242 4242 4242 4242');
+    expect(paid.status).toBe(200);
+    expect(await paid.text()).toContain('Paid. Thank you');
+    const after = await stripe.subscriptions.retrieve(sub.id);
+    expect(after.status).toBe('active');
+    expect((await stripe.invoices.retrieve(open!.id!)).status).toBe('paid');
+  });
+
   it('ends a subscription set to cancel when its period ends', async () => {
     const { sub } = await activeSubscription(1);
     await stripe.subscriptions.update(sub.id, { cancel_at_period_end: true });
