@@ -17,6 +17,17 @@ import { fileTooLarge } from './register.errors';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
+/** Logs how long each step took to stderr when AIRTALLY_IMPORT_TIMINGS is set (the benchmark sets it). */
+function stepTimer(name: string): (step: string) => void {
+  if (!process.env.AIRTALLY_IMPORT_TIMINGS) return () => {};
+  let last = performance.now();
+  return (step) => {
+    const now = performance.now();
+    console.error(`[${name}] ${step}: ${((now - last) / 1000).toFixed(2)} s`);
+    last = now;
+  };
+}
+
 /** Problems kept and returned per import; the counts in the summary stay exact beyond it. */
 export const MAX_PROBLEMS_KEPT = 10_000;
 
@@ -54,10 +65,13 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
   if (upload.bytes.length > MAX_FILE_BYTES) throw fileTooLarge(upload.bytes.length);
   if (upload.bytes.length === 0) throw badRequest('The file is empty. Choose the register file again.');
   const kind = fileKindOf(upload.fileName);
+  const mark = stepTimer('preview');
   const saved = await loadSavedMappings(db, trust.id);
   const file = await readRegisterFile(upload.bytes, kind, saved, options);
+  mark('read and check cells');
   const snapshot = await loadSnapshot(db, trust);
   const plan = planImport(file.read, file.header.columns, snapshot);
+  mark('compare with the estate');
   const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
   const header = { row: file.header.row, rowCount: file.header.rowCount, confident: file.header.confident, columns: file.header.columns };
 
@@ -78,7 +92,7 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
       problems: JSON.stringify(problems),
       problem_count: plan.problems.length,
       missing_rooms: JSON.stringify(plan.missingRooms),
-      rows_gz: gzipSync(JSON.stringify({ columns: file.header.columns, read: file.read }), { level: 1 }),
+      rows_gz: encodeRows(file.header.columns, file.read),
     }).returning('id').executeTakeFirstOrThrow();
     await recordAudit(trx, {
       trustId: trust.id, ...actor, action: 'import.previewed', entityType: 'import', entityId: row.id,
@@ -86,12 +100,42 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
     });
     return row.id;
   });
+  mark('store the preview');
   return {
     id, status: 'previewed', fileName: upload.fileName, sheetName: file.sheetName, header, topRows: file.topRows,
     summary: plan.summary, problems, problemsTruncated: plan.problems.length > problems.length, missingRooms: plan.missingRooms,
   };
 }
 
+
+/**
+ * The read rows, kept compactly until commit: each row an array of its mapped fields' values,
+ * problems listed once, all as gzip-compressed JSON.
+ */
+export function encodeRows(columns: DetectedHeader['columns'], read: ReadRows): Buffer {
+  const fields = columns.filter((c) => c.field).map((c) => c.field as RegisterField);
+  const rows = read.rows.map((r) => [r.rowNumber, ...fields.map((f) => r.values[f] ?? null)]);
+  const problems = read.rows.flatMap((r) => r.problems);
+  return gzipSync(JSON.stringify({ columns, fields, skipped: read.skipped, rows, problems }), { level: 1 });
+}
+
+/** The inverse of encodeRows. */
+export function decodeRows(gz: Buffer): { columns: DetectedHeader['columns']; read: ReadRows } {
+  const stored = JSON.parse(gunzipSync(gz).toString('utf8')) as {
+    columns: DetectedHeader['columns']; fields: RegisterField[]; skipped: number; rows: (string | number | null)[][]; problems: ImportProblem[];
+  };
+  const problemsByRow = new Map<number, ImportProblem[]>();
+  for (const p of stored.problems) problemsByRow.set(p.row, [...(problemsByRow.get(p.row) ?? []), p]);
+  const rows = stored.rows.map((cells) => {
+    const rowNumber = cells[0] as number;
+    const values: Partial<Record<RegisterField, string | number | null>> = {};
+    stored.fields.forEach((f, i) => {
+      values[f] = cells[i + 1] ?? null;
+    });
+    return { rowNumber, values, problems: problemsByRow.get(rowNumber) ?? [] };
+  });
+  return { columns: stored.columns, read: { rows, skipped: stored.skipped } };
+}
 
 /** Outcome of a commit or cancel, as stored on the import and answered to the client. */
 export interface ImportOutcome {
@@ -127,10 +171,14 @@ export async function commitImport(
       await recordAudit(trx, { ...audit, action: 'import.cancelled', summary: `Cancelled the import of ${found.file_name}; nothing was changed` });
       return outcome;
     }
-    const stored = JSON.parse(gunzipSync(found.rows_gz).toString('utf8')) as { columns: DetectedHeader['columns']; read: ReadRows };
+    const mark = stepTimer('commit');
+    const stored = decodeRows(found.rows_gz);
+    mark('unpack the stored rows');
     const plan = planImport(stored.read, stored.columns, await loadSnapshot(trx, trust));
+    mark('compare with the estate again');
     await assertWithinPlan(trx, trust.id, { schools: plan.summary.schoolsToCreate, rooms: plan.summary.roomsToCreate });
     const { roomsDeleted } = await applyPlan(trx, trust.id, actor, plan, body.deleteMissing);
+    mark('write schools, blocks, rooms and audit');
     const outcome: ImportOutcome = {
       status: 'committed', schoolsCreated: plan.summary.schoolsToCreate, blocksCreated: plan.summary.blocksToCreate,
       roomsCreated: plan.summary.roomsToCreate, roomsChanged: plan.summary.roomsToChange, roomsUnchanged: plan.summary.roomsUnchanged,

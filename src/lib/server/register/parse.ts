@@ -3,7 +3,7 @@ import { REGISTER_COLUMNS } from './columns';
 import { applyMapping, detectHeader, HEADER_SEARCH_ROWS, type DetectedHeader, type SavedMappings } from './headers';
 import type { ReadRows } from './plan';
 import { readCsv, readXlsx, type SheetRow, type SheetStream } from './reader';
-import { classifyRow, parseRow, type ParsedRow } from './rows';
+import { classifyRow, compileColumns, parseRow, type ParsedRow } from './rows';
 import { cellText, type CellValue } from './values';
 import type { ImportOptions } from './register.schemas';
 
@@ -43,17 +43,18 @@ export async function readRegisterFile(buf: Buffer, kind: 'xlsx' | 'csv', saved:
     }
     if (options.mapping) header = { ...header, columns: applyMapping(header.columns, options.mapping) };
     const firstDataRow = header.row + header.rowCount;
+    const compiled = compileColumns(header.columns);
     const rows: ParsedRow[] = [];
     let skipped = 0;
     const take = (row: SheetRow) => {
       if (row.rowNumber < firstDataRow) return;
-      const kindOfRow = classifyRow(row.values, header.columns);
+      const kindOfRow = classifyRow(row.values, compiled);
       if (kindOfRow === 'blank') return;
       if (kindOfRow === 'subtotal') {
         skipped++;
         return;
       }
-      rows.push(parseRow(row.rowNumber, row.values, header.columns));
+      rows.push(parseRow(row.rowNumber, row.values, compiled));
     };
     for (const row of head) take(row);
     for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);

@@ -48,7 +48,7 @@ class MergeFiller {
 
 /** Streams the worksheets of an .xlsx (exceljs's streaming reader, cached shared strings and styles). */
 export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
-  const facts = inspectXlsx(buf);
+  const facts = await inspectXlsx(buf);
   for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > MAX_ROWS + 50) throw tooManyRows();
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([buf]), {
     sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'emit',

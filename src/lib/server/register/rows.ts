@@ -26,58 +26,73 @@ export interface ParsedRow {
 /** What a row is: nothing, a total line to skip, or a room. */
 export type RowKind = 'blank' | 'subtotal' | 'room';
 
-function parseCell(field: RegisterField, value: CellValue, header: string): Parsed<string | number> {
+type CellParser = (value: CellValue) => Parsed<string | number>;
+
+function parserFor(field: RegisterField, header: string): CellParser {
   const column = columnOf(field);
   switch (column.kind) {
-    case 'text':
-      return parseText(value);
-    case 'integer':
-      return parseWholeNumber(value);
-    case 'year':
-      return parseYear(value);
-    case 'orientation':
-      return parseOrientation(value);
-    case 'number':
-      return parseQuantity(value, column.quantity ?? 'count', headerScale(header, field));
+    case 'text': return parseText;
+    case 'integer': return parseWholeNumber;
+    case 'year': return parseYear;
+    case 'orientation': return parseOrientation;
+    case 'number': {
+      const quantity = column.quantity ?? 'count';
+      const scale = headerScale(header, field);
+      return (v) => parseQuantity(v, quantity, scale);
+    }
     case 'enum':
       switch (field) {
-        case 'schoolPhase': return parseEnum(value, SCHOOL_PHASES);
-        case 'use': return parseEnum(value, ROOM_USES);
-        case 'ageGroup': return parseEnum(value, AGE_GROUPS);
-        case 'windowType': return parseEnum(value, WINDOW_TYPES);
-        case 'ventilationType': return parseEnum(value, VENTILATION_TYPES);
-        default: return parseText(value);
+        case 'schoolPhase': return (v) => parseEnum(v, SCHOOL_PHASES);
+        case 'use': return (v) => parseEnum(v, ROOM_USES);
+        case 'ageGroup': return (v) => parseEnum(v, AGE_GROUPS);
+        case 'windowType': return (v) => parseEnum(v, WINDOW_TYPES);
+        case 'ventilationType': return (v) => parseEnum(v, VENTILATION_TYPES);
+        default: return parseText;
       }
   }
+}
+
+/** A mapped column with its cell reader, worked out once per file rather than once per cell. */
+export interface CompiledColumn {
+  index: number;
+  field: RegisterField;
+  header: string;
+  letter: string;
+  parse: CellParser;
+}
+
+/** The mapped columns of a header, each with its reader. */
+export function compileColumns(columns: DetectedColumn[]): CompiledColumn[] {
+  return columns.filter((c) => c.field).map((c) => ({
+    index: c.index, field: c.field as RegisterField, header: c.header, letter: c.letter, parse: parserFor(c.field as RegisterField, c.header),
+  }));
 }
 
 const TOTAL_WORDS = /\b(sub-?total|totals?|grand total|sum)\b/i;
 
 /** Blank rows and total lines ("Subtotal", "Total") carry no room and are skipped. */
-export function classifyRow(values: CellValue[], columns: DetectedColumn[]): RowKind {
-  const texts = columns.filter((c) => c.field).map((c) => cellText(values[c.index] ?? null));
-  if (texts.every((t) => t === '')) return 'blank';
+export function classifyRow(values: CellValue[], columns: CompiledColumn[]): RowKind {
+  if (columns.every((c) => cellText(values[c.index] ?? null) === '')) return 'blank';
   const codeColumn = columns.find((c) => c.field === 'code');
   const code = codeColumn ? cellText(values[codeColumn.index] ?? null) : '';
-  if (values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v)) && (code === '' || TOTAL_WORDS.test(code))) return 'subtotal';
-  return 'room';
+  if (code !== '' && !TOTAL_WORDS.test(code)) return 'room';
+  return values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v)) ? 'subtotal' : 'room';
 }
 
 /** Reads every mapped cell of a data row; unreadable cells become errors, placeholders warnings. */
-export function parseRow(rowNumber: number, cells: CellValue[], columns: DetectedColumn[]): ParsedRow {
+export function parseRow(rowNumber: number, cells: CellValue[], columns: CompiledColumn[]): ParsedRow {
   const row: ParsedRow = { rowNumber, values: {}, problems: [] };
   for (const column of columns) {
-    if (!column.field) continue;
     const raw = cells[column.index] ?? null;
-    const parsed = parseCell(column.field, raw, column.header);
-    const problem = (severity: 'error' | 'warning', message: string) =>
-      row.problems.push({ row: rowNumber, column: column.header, columnLetter: column.letter, value: cellText(raw), severity, message });
+    const parsed = column.parse(raw);
     if (!parsed.ok) {
-      problem('error', `${columnOf(column.field).header}: ${parsed.message}.`);
+      row.problems.push({ row: rowNumber, column: column.header, columnLetter: column.letter, value: cellText(raw), severity: 'error', message: `${columnOf(column.field).header}: ${parsed.message}.` });
       continue;
     }
     row.values[column.field] = parsed.value;
-    if (parsed.placeholder) problem('warning', `"${cellText(raw)}" is a placeholder; the cell is read as blank.`);
+    if (parsed.placeholder) {
+      row.problems.push({ row: rowNumber, column: column.header, columnLetter: column.letter, value: cellText(raw), severity: 'warning', message: `"${cellText(raw)}" is a placeholder; the cell is read as blank.` });
+    }
   }
   return row;
 }

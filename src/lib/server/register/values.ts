@@ -44,13 +44,15 @@ const PLACEHOLDERS = new Set(['tbc', 'tba', 'tbd', 'tbconfirmed', 'tobeconfirmed
 
 /** True for the "TBC", "n/a", "?" and dash placeholders surveyors leave in unfinished cells. */
 export function isPlaceholder(text: string): boolean {
+  if (text.length > 20) return false;
   const t = text.toLowerCase().replace(/\s+/g, '');
   return PLACEHOLDERS.has(t) || PLACEHOLDERS.has(text.toLowerCase().trim());
 }
 
 /** Reads a free-text cell; blank and placeholders become null. */
 export function parseText(value: CellValue): Parsed<string> {
-  const text = cellText(value).replace(/\s+/g, ' ');
+  let text = cellText(value);
+  if (/\s\s|[\t\n\r]/.test(text)) text = text.replace(/\s+/g, ' ');
   if (text === '') return blank();
   if (isPlaceholder(text)) return blank(true);
   return { ok: true, value: text };

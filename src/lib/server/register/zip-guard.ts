@@ -1,4 +1,4 @@
-import { inflateRawSync } from 'node:zlib';
+import { createInflateRaw, inflateRawSync } from 'node:zlib';
 import { badRequest } from '../http/errors';
 
 /** A zip entry as its central directory describes it. */
@@ -87,20 +87,57 @@ function decodeRef(ref: string): { row: number; col: number } {
   return { row: Number(m[2]), col: col - 1 };
 }
 
-function sheetFacts(xml: Buffer): { merges: MergedRange[]; lastRow: number | null } {
-  const head = xml.toString('utf8', 0, Math.min(xml.length, 4096));
-  const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
-  const merges: MergedRange[] = [];
-  const start = xml.lastIndexOf('<mergeCells');
-  if (start >= 0) {
-    const tail = xml.toString('utf8', start, Math.min(xml.length, start + 2_000_000));
-    for (const m of tail.matchAll(/<mergeCell ref="([A-Z]+\d+):([A-Z]+\d+)"/g)) {
-      const a = decodeRef(m[1] ?? '');
-      const b = decodeRef(m[2] ?? '');
-      merges.push({ top: a.row, left: a.col, bottom: b.row, right: b.col });
-    }
+function parseMerges(xml: string, merges: MergedRange[]): void {
+  for (const m of xml.matchAll(/<mergeCell ref="([A-Z]+\d+):([A-Z]+\d+)"/g)) {
+    const a = decodeRef(m[1] ?? '');
+    const b = decodeRef(m[2] ?? '');
+    merges.push({ top: a.row, left: a.col, bottom: b.row, right: b.col });
   }
-  return { merges, lastRow: dim ? Number(dim[1]) : null };
+}
+
+/**
+ * Unpacks a worksheet chunk by chunk (never whole, so memory stays flat), refusing it past
+ * MAX_ENTRY_BYTES, and picks out its declared size and merged ranges on the way.
+ */
+async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: MergedRange[]; lastRow: number | null }> {
+  const data = buf.subarray(entry.dataStart, entry.dataStart + entry.compressedSize);
+  if (entry.method === 0) {
+    const text = data.toString('utf8');
+    const merges: MergedRange[] = [];
+    parseMerges(text.slice(text.lastIndexOf('<mergeCells')), merges);
+    return { merges, lastRow: Number(/<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(text.slice(0, 4096))?.[1] ?? 0) || null };
+  }
+  if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
+  return new Promise((resolve, reject) => {
+    const inflate = createInflateRaw();
+    let total = 0;
+    let head = '';
+    let tail = '';
+    let inMerges = false;
+    const merges: MergedRange[] = [];
+    inflate.on('data', (chunk: Buffer) => {
+      total += chunk.length;
+      if (total > MAX_ENTRY_BYTES) {
+        inflate.destroy();
+        reject(notXlsx(`the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`));
+        return;
+      }
+      const text = tail + chunk.toString('latin1');
+      if (head.length < 4096) head += text.slice(0, 4096);
+      if (!inMerges && text.includes('<mergeCells')) inMerges = true;
+      if (inMerges) {
+        const cut = text.lastIndexOf('>') + 1;
+        parseMerges(text.slice(0, cut), merges);
+        tail = text.slice(cut);
+      } else tail = text.slice(-32);
+    });
+    inflate.on('error', () => reject(notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`)));
+    inflate.on('end', () => {
+      const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
+      resolve({ merges, lastRow: dim ? Number(dim[1]) : null });
+    });
+    inflate.end(data);
+  });
 }
 
 /**
@@ -108,7 +145,7 @@ function sheetFacts(xml: Buffer): { merges: MergedRange[]; lastRow: number | nul
  * not cut short, every part unpacking within a sane size, and holding a workbook. Reads the
  * merged ranges on the way (the streaming reader does not report them).
  */
-export function inspectXlsx(buf: Buffer): WorkbookFacts {
+export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
   if (buf.length >= 4 && buf.readUInt32BE(0) === 0xd0cf11e0) {
     throw badRequest('This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.');
   }
@@ -122,9 +159,8 @@ export function inspectXlsx(buf: Buffer): WorkbookFacts {
   }
   const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
   for (const entry of entries) {
-    if (!/\.(xml|rels)$/.test(entry.name)) continue;
-    const xml = inflateEntry(buf, entry);
-    if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name)) sheets.set(entry.name, sheetFacts(xml));
+    if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name)) sheets.set(entry.name, await sheetFacts(buf, entry));
+    else if (/\.(xml|rels)$/.test(entry.name)) inflateEntry(buf, entry);
   }
   return { sheets };
 }

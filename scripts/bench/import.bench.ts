@@ -1,0 +1,116 @@
+// Register import benchmark: generates a 100,000-room register (.xlsx, shared strings as Excel writes
+// them), then measures (a) exceljs's streaming reader reading it and doing nothing else and (b) our
+// whole import — read, validate, preview, commit — in this process, against the bench database.
+// Prints one JSON object as the last line (scripts/bench.mjs merges it into bench/results.json).
+import { mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import { Readable } from 'node:stream';
+import ExcelJS from 'exceljs';
+import { sql } from 'kysely';
+import { label } from '../../src/lib/engine/vocabulary';
+import { getDb } from '../../src/lib/server/db/client';
+import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
+import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
+
+const ROOMS = Number(process.env.BENCH_IMPORT_ROOMS ?? 100_000);
+const SCHOOLS = 50;
+const BLOCKS_PER_SCHOOL = 4;
+const TRUST_ID = `bench-import-${Date.now()}`;
+const DIR = join(process.cwd(), '.data', 'bench-import');
+const FILE = join(DIR, 'register-100k.xlsx');
+const log = (message: string) => console.error(`[import.bench] ${message}`);
+
+/** Deterministic PRNG (mulberry32) so every run writes the same register. */
+function prng(seed: number) {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = Math.imul(a ^ (a >>> 15), 1 | a);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ (t + Math.imul(t ^ (t >>> 14), 71 | t));
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+async function writeRegister(): Promise<void> {
+  mkdirSync(DIR, { recursive: true });
+  const random = prng(20261201);
+  const pick = <T>(items: readonly T[]) => items[Math.floor(random() * items.length)]!;
+  const round = (n: number, dp: number) => Math.round(n * 10 ** dp) / 10 ** dp;
+  const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: FILE, useSharedStrings: true, useStyles: true });
+  const ws = wb.addWorksheet('Rooms');
+  ws.addRow(REGISTER_COLUMNS.map((c) => c.header)).commit();
+  const uses = ['classroom', 'classroom', 'classroom', 'science_lab', 'ict_room', 'hall', 'library', 'office'];
+  const vents = ['natural_single_sided', 'natural_single_sided', 'natural_cross', 'mechanical_extract', 'heat_recovery_unit', 'hybrid'];
+  const compass = ['N', 'NE', 'E', 'SE', 'S', 'SW', 'W', 'NW'];
+  const perSchool = Math.ceil(ROOMS / SCHOOLS);
+  for (let i = 0; i < ROOMS; i++) {
+    const s = Math.floor(i / perSchool);
+    const b = i % BLOCKS_PER_SCHOOL;
+    const floor = round(40 + random() * 40, 1);
+    const glazing = round(floor * (0.1 + random() * 0.1), 2);
+    ws.addRow([
+      `Bench School ${String(s + 1).padStart(3, '0')}`, s % 2 ? 'Secondary' : 'Primary', `Block ${String.fromCharCode(65 + b)}`, 1900 + (s * 7 + b * 13) % 120,
+      `R${String(i + 1).padStart(6, '0')}`, `Room ${i + 1}`, label(pick(uses)), floor, round(2.4 + random() * 1.2, 2), Math.floor(20 + random() * 12), 1 + Math.floor(random() * 2),
+      s % 2 ? 'Secondary' : 'Primary', random() < 0.5 ? pick(compass) : Math.floor(random() * 360), glazing, round(glazing * (0.1 + random() * 0.3), 2),
+      label(pick(['side_hung', 'top_hung', 'sliding_sash', 'tilt_and_turn'])), label(pick(vents)), random() < 0.2 ? Math.round(100 + random() * 300) : null,
+      round(3 + (s % 10) + b, 1), random() < 0.1 ? 'Surveyed 2026' : null,
+    ]).commit();
+  }
+  ws.commit();
+  await wb.commit();
+}
+
+/** (a) The floor: exceljs's streaming reader over the same bytes, with the same options, doing nothing with the rows. */
+async function rawRead(bytes: Buffer): Promise<number> {
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
+    sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'emit',
+  });
+  let rows = 0;
+  for await (const worksheet of reader) for await (const _row of worksheet as unknown as AsyncIterable<unknown>) rows++;
+  return rows;
+}
+
+process.env.AIRTALLY_IMPORT_TIMINGS ??= '1';
+const db = getDb();
+try {
+  log(`writing a ${ROOMS.toLocaleString('en-GB')}-room register`);
+  await writeRegister();
+  const bytes = readFileSync(FILE);
+  log(`file is ${(bytes.length / 1024 / 1024).toFixed(1)} MB`);
+
+  await db.insertInto('trusts').values({ id: TRUST_ID, name: 'Import Bench Trust', slug: TRUST_ID }).execute();
+  // The bench trust is on the paid plan, so plan limits do not stop a 100,000-room import.
+  await sql`INSERT INTO billing_accounts (trust_id, plan, status) VALUES (${TRUST_ID}, 'per_school', 'active')`.execute(db);
+  const trust = { id: TRUST_ID, name: 'Import Bench Trust', role: 'trust_admin' as const, schoolIds: null };
+  const actor = { actorUserId: null, actorEmail: 'bench@bench.airtally.test' };
+
+  // Warm-up of the reader on a first pass, so neither measurement pays for module loading and JIT alone.
+  await rawRead(bytes);
+
+  const t0 = performance.now();
+  const rawRows = await rawRead(bytes);
+  const rawSeconds = (performance.now() - t0) / 1000;
+  log(`(a) raw stream read: ${rawRows} rows in ${rawSeconds.toFixed(2)} s; peak RSS so far ${Math.round(process.resourceUsage().maxRSS / 1024)} MB`);
+
+  const t1 = performance.now();
+  const preview = await previewImport(db, trust, actor, { fileName: 'register-100k.xlsx', bytes });
+  const tPreview = performance.now();
+  const outcome = await commitImport(db, trust, actor, preview.id, { rows: 'valid', deleteMissing: false });
+  const fullSeconds = (performance.now() - t1) / 1000;
+  log(`(b) full import: preview ${((tPreview - t1) / 1000).toFixed(2)} s, commit ${((performance.now() - tPreview) / 1000).toFixed(2)} s, total ${fullSeconds.toFixed(2)} s`);
+  log(`summary ${JSON.stringify(preview.summary)}; outcome ${JSON.stringify(outcome)}`);
+  if (outcome.roomsCreated !== ROOMS) throw new Error(`expected ${ROOMS} rooms created, got ${outcome.roomsCreated}`);
+
+  const peakRssMb = process.resourceUsage().maxRSS / 1024;
+  await sql`DELETE FROM trusts WHERE id = ${TRUST_ID}`.execute(db);
+  rmSync(FILE, { force: true });
+  console.log(JSON.stringify({
+    import_rows_per_s: Math.round(ROOMS / fullSeconds),
+    import_ratio_vs_raw_read: Math.round((fullSeconds / rawSeconds) * 100) / 100,
+    import_peak_rss_mb: Math.round(peakRssMb),
+    import_raw_read_s: Math.round(rawSeconds * 100) / 100,
+    import_full_s: Math.round(fullSeconds * 100) / 100,
+  }));
+} finally {
+  await db.destroy();
+}
