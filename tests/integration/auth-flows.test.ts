@@ -52,6 +52,8 @@ describe('sign-up', () => {
 
     const after = await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }) });
     expect(after.status).toBe(201);
+    const verified = await db.selectFrom('user').select('emailVerified').where('email', '=', email).executeTakeFirst();
+    expect(verified?.emailVerified).toBe(true);
     const tampered = await api(`${link.pathname}?token=${link.searchParams.get('token')}x`, { cookie });
     expect(tampered.status).toBe(400);
     expect(await tampered.text()).toContain('expired or has already been used');
@@ -192,6 +194,8 @@ describe('password reset', () => {
     expect(await reset.text()).toContain('Your password has been changed');
     await expect(signIn(email, DEMO_PASSWORD)).rejects.toThrow(/401/);
     expect(await signIn(email, newPassword)).toContain('session_token');
+    const audited = await db.selectFrom('audit_events').select('action').where('actor_email', '=', email).where('action', '=', 'account.password_reset').execute();
+    expect(audited).toHaveLength(1);
 
     const reused = await api('/api/auth/reset-password', { method: 'POST', body: JSON.stringify({ token, newPassword: 'yet-another-password-2' }) });
     expect(reused.status).toBe(400);

@@ -1,6 +1,7 @@
 import { betterAuth, type BetterAuthOptions } from 'better-auth';
 import { organization } from 'better-auth/plugins';
 import type { Kysely } from 'kysely';
+import { recordAudit } from '../audit/audit.repository';
 import { getDb } from '../db/client';
 import { sendMail } from '../mail/mailer';
 import { invitationMail, passwordResetMail, verificationMail } from '../mail/templates';
@@ -61,12 +62,18 @@ export function createAuthOptions(db: Kysely<any>) {
       sendResetPassword: async ({ user, token }) => {
         await sendMail(passwordResetMail(user, `${config.origin}/reset-password?token=${encodeURIComponent(token)}`));
       },
+      onPasswordReset: async ({ user }) => {
+        await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: 'account.password_reset', entityType: 'user', entityId: user.id, summary: `${user.email} chose a new password through the e-mailed link` });
+      },
     },
     emailVerification: {
       sendOnSignUp: true,
       expiresIn: 24 * 3600,
       sendVerificationEmail: async ({ user, token }) => {
         await sendMail(verificationMail(user, `${config.origin}/verify-email?token=${encodeURIComponent(token)}`));
+      },
+      afterEmailVerification: async (user) => {
+        await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: 'account.email_verified', entityType: 'user', entityId: user.id, summary: `${user.email} confirmed their e-mail address` });
       },
     },
     session: { expiresIn: config.sessionSeconds, updateAge: 24 * 3600 },
