@@ -29,7 +29,7 @@ export async function startPaymentsFake(options = {}) {
   const apiKey = options.apiKey ?? process.env.PAYMENTS_FAKE_API_KEY ?? null;
   let publicUrl = options.publicUrl ?? process.env.PAYMENTS_FAKE_PUBLIC_URL ?? `http://127.0.0.1:${port}`;
   const log = options.log ?? ((line) => console.log(`[payments-fake] ${line}`));
-  const { state, save } = createStore(options.stateFile ?? process.env.PAYMENTS_FAKE_STATE_FILE ?? null);
+  const { state, save, flush } = createStore(options.stateFile ?? process.env.PAYMENTS_FAKE_STATE_FILE ?? null);
   const webhooks = createWebhooks({
     state,
     save,
@@ -262,6 +262,7 @@ export async function startPaymentsFake(options = {}) {
     state,
     close: () =>
       new Promise((resolve) => {
+        flush();
         server.close(() => resolve());
         server.closeAllConnections();
       }),

@@ -30,14 +30,22 @@ export function createStore(file) {
     state.idempotency = saved.idempotency ?? {};
   }
   let timer = null;
-  const save = () => {
-    if (!file) return;
-    clearTimeout(timer);
-    timer = setTimeout(() => {
-      mkdirSync(dirname(file), { recursive: true });
-      writeFileSync(`${file}.tmp`, JSON.stringify(state));
-      renameSync(`${file}.tmp`, file);
-    }, 50);
+  const write = () => {
+    timer = null;
+    mkdirSync(dirname(file), { recursive: true });
+    writeFileSync(`${file}.tmp`, JSON.stringify(state));
+    renameSync(`${file}.tmp`, file);
   };
-  return { state, save };
+  /** Schedules a write (changes come in bursts; one write covers them). */
+  const save = () => {
+    if (!file || timer) return;
+    timer = setTimeout(write, 50);
+  };
+  /** Writes any scheduled change now (on shutdown). */
+  const flush = () => {
+    if (!file || !timer) return;
+    clearTimeout(timer);
+    write();
+  };
+  return { state, save, flush };
 }
