@@ -39,6 +39,16 @@ export function subjectOf(event: Stripe.Event): EventSubject {
   }
 }
 
+/** The subscription as the provider has it, or null when the provider no longer knows it (nothing to update). */
+async function readSubscriptionIfExists(stripe: Stripe, subscriptionId: string): Promise<SubscriptionState | null> {
+  try {
+    return await readSubscription(stripe, subscriptionId);
+  } catch (error) {
+    if ((error as { code?: string }).code === 'resource_missing') return null;
+    throw error;
+  }
+}
+
 /** Verifies the provider's signature on the raw body; anything wrong is a 400 and nothing changes. */
 export function verifyEvent(stripe: Stripe, rawBody: string, signature: string | null): Stripe.Event {
   if (!signature) throw badRequest('The Stripe-Signature header is missing; the event was ignored.');
@@ -58,7 +68,7 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
   const seen = await db.selectFrom('payment_events').select('id').where('id', '=', event.id).executeTakeFirst();
   if (seen) return { duplicate: true };
   const subject = subjectOf(event);
-  const state: SubscriptionState | null = subject.subscriptionId ? await readSubscription(stripe, subject.subscriptionId) : null;
+  const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
   const outcome = await db.transaction().execute(async (trx) => {
     const trustId = subject.trustId ?? state?.trustId ?? (subject.customerId ? await trustForCustomer(trx, subject.customerId) : null);
     const known = trustId ? await trx.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst() : undefined;
