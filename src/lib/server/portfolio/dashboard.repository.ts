@@ -15,16 +15,14 @@ const scopeSql = (trust: ActiveTrust) =>
     ? sql`rr.trust_id = ${trust.id} AND rr.is_current AND rr.school_id = ANY(${trust.schoolIds}::uuid[])`
     : sql`rr.trust_id = ${trust.id} AND rr.is_current`;
 
-/** Everything the dashboard shows. */
-export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard> {
-  await ensureRanks(db, trust.id);
+/** The trust's headline figures: rooms, failing rooms and their pupils, capital and saving of every recommended unit. */
+export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard['headline']> {
   const scope = scopeSql(trust);
   const roomScope = trust.schoolIds
     ? sql`s.trust_id = ${trust.id} AND s.id = ANY(${trust.schoolIds}::uuid[])`
     : sql`s.trust_id = ${trust.id}`;
   const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
-
-  const [headline, register, lastRun, co2, scatter, scatterTotal, cumulative] = await Promise.all([
+  const [headline, register, lastRun] = await Promise.all([
     sql<{ assessed: number; failing: number; pupils_failing: number; capital: number; saving: number }>`
       SELECT count(*)::int AS assessed,
         count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
@@ -41,6 +39,27 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
       .orderBy('finished_at', 'desc')
       .limit(1)
       .executeTakeFirst(),
+  ]);
+  const h = headline.rows[0]!;
+  return {
+    roomsInRegister: register.rows[0]?.n ?? 0,
+    roomsAssessed: h.assessed,
+    roomsFailing: h.failing,
+    pupilsInFailingRooms: h.pupils_failing,
+    capitalAllUnitsGbp: h.capital,
+    annualSavingGbp: h.saving,
+    lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
+  };
+}
+
+/** Everything the dashboard shows. */
+export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard> {
+  await ensureRanks(db, trust.id);
+  const scope = scopeSql(trust);
+  const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
+
+  const [headline, co2, scatter, scatterTotal, cumulative] = await Promise.all([
+    headlineFigures(db, trust),
     sql<{ school_id: string; school_name: string; b1: number; b2: number; b3: number; b4: number }>`
       SELECT rr.school_id, s.name AS school_name,
         count(*) FILTER (WHERE rr.mean_co2_ppm < 1000)::int AS b1,
@@ -73,7 +92,6 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
       ORDER BY rn`.execute(db),
   ]);
 
-  const h = headline.rows[0]!;
   const co2BySchool: Co2BySchool[] = co2.rows.map((r) => ({
     schoolId: r.school_id,
     schoolName: r.school_name,
@@ -93,15 +111,7 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
   const curve: CumulativePoint[] = cumulative.rows.map((r) => ({ rank: Number(r.rank), cumulativeCapitalGbp: r.cc, cumulativePupilHoursRemoved: r.ch }));
   const last = curve[curve.length - 1];
   return {
-    headline: {
-      roomsInRegister: register.rows[0]?.n ?? 0,
-      roomsAssessed: h.assessed,
-      roomsFailing: h.failing,
-      pupilsInFailingRooms: h.pupils_failing,
-      capitalAllUnitsGbp: h.capital,
-      annualSavingGbp: h.saving,
-      lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
-    },
+    headline,
     co2BySchool,
     scatter: { points, totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0, shown: points.length },
     cumulative: { points: curve, totalCapitalGbp: last?.cumulativeCapitalGbp ?? 0, totalPupilHoursRemoved: last?.cumulativePupilHoursRemoved ?? 0 },

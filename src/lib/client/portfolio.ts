@@ -1,0 +1,120 @@
+/** Data fetching for the portfolio islands: one QueryClient shared by every island on a page, and typed hooks. */
+import { keepPreviousData, QueryClient, useMutation, useQuery } from '@tanstack/react-query';
+import type { Dashboard, PrioritiesPage, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
+
+export type { Co2BySchool, CumulativePoint, Dashboard, PrioritiesPage, PriorityRow, ScatterPoint, SensitivityCase, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
+
+/** Shared by all islands of a page (islands are separate React roots, the module is loaded once). */
+export const queryClient = new QueryClient({
+  defaultOptions: { queries: { staleTime: 30_000, retry: 1, refetchOnWindowFocus: false } },
+});
+
+/** An API error with the message our routes return ({ error: { code, message } }). */
+export class ApiError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+/** Fetches JSON from our API; a non-2xx answer becomes an ApiError with the server's message. */
+export async function fetchJson<T>(path: string, init: RequestInit = {}): Promise<T> {
+  const response = await fetch(path, { credentials: 'same-origin', ...init, headers: { accept: 'application/json', ...init.headers } });
+  if (!response.ok) {
+    let code = 'http_error';
+    let message = `The server answered ${response.status}.`;
+    try {
+      const body = (await response.json()) as { error?: { code?: string; message?: string } };
+      code = body.error?.code ?? code;
+      message = body.error?.message ?? message;
+    } catch {
+      // Not our JSON shape: keep the generic message.
+    }
+    throw new ApiError(response.status, code, message);
+  }
+  return (await response.json()) as T;
+}
+
+/** What the priorities table asks for: filters, sort, page and (optionally) preview weights. */
+export interface PrioritiesParams {
+  page: number;
+  pageSize: number;
+  sort: string;
+  dir: 'asc' | 'desc';
+  schoolId?: string | undefined;
+  blockId?: string | undefined;
+  band?: number | undefined;
+  ventilationType?: string | undefined;
+  criteriaMet?: boolean | undefined;
+  weights?: Weights | null | undefined;
+}
+
+/** The query string of a priorities request (shared with the export link). */
+export function prioritiesSearch(p: Omit<PrioritiesParams, 'page' | 'pageSize'> & { page?: number | undefined; pageSize?: number | undefined }): string {
+  const q = new URLSearchParams();
+  if (p.page) q.set('page', String(p.page));
+  if (p.pageSize) q.set('pageSize', String(p.pageSize));
+  q.set('sort', p.sort);
+  q.set('dir', p.dir);
+  if (p.schoolId) q.set('schoolId', p.schoolId);
+  if (p.blockId) q.set('blockId', p.blockId);
+  if (p.band) q.set('band', String(p.band));
+  if (p.ventilationType) q.set('ventilationType', p.ventilationType);
+  if (p.criteriaMet !== undefined) q.set('criteriaMet', String(p.criteriaMet));
+  if (p.weights) {
+    q.set('wRisk', String(p.weights.risk));
+    q.set('wCost', String(p.weights.costEffectiveness));
+    q.set('wPayback', String(p.weights.payback));
+  }
+  return q.toString();
+}
+
+/** A page of ranked rooms; the previous page stays on screen while the next loads. */
+export function usePriorities(params: PrioritiesParams) {
+  return useQuery({
+    queryKey: ['priorities', params],
+    queryFn: () => fetchJson<PrioritiesPage>(`/api/priorities?${prioritiesSearch(params)}`),
+    placeholderData: keepPreviousData,
+  });
+}
+
+/** The trust's saved ranking weights. */
+export function useWeights() {
+  return useQuery({ queryKey: ['weights'], queryFn: () => fetchJson<WeightSettings>('/api/priorities/weights') });
+}
+
+/** Saves the trust's ranking weights, then refreshes the weights and the list. */
+export function useSaveWeights() {
+  return useMutation({
+    mutationFn: (weights: Weights) =>
+      fetchJson<WeightSettings>('/api/priorities/weights', { method: 'PUT', headers: { 'content-type': 'application/json' }, body: JSON.stringify(weights) }),
+    onSuccess: (saved) => {
+      queryClient.setQueryData(['weights'], saved);
+      void queryClient.invalidateQueries({ queryKey: ['priorities'] });
+    },
+  });
+}
+
+/** The dashboard's figures and chart data. */
+export function useDashboard() {
+  return useQuery({ queryKey: ['dashboard'], queryFn: () => fetchJson<Dashboard>('/api/dashboard') });
+}
+
+/** Starts a trust-wide assessment and resolves when it has finished (polling its status). */
+export async function runTrustAssessment(onProgress: (done: number, total: number) => void): Promise<void> {
+  const { id } = await fetchJson<{ id: string }>('/api/assessments', {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ scope: 'trust' }),
+  });
+  for (;;) {
+    const run = await fetchJson<{ status: string; roomsDone: number; roomsTotal: number; error?: string | null }>(`/api/assessments/${id}`);
+    onProgress(run.roomsDone, run.roomsTotal);
+    if (run.status === 'succeeded') return;
+    if (run.status === 'failed') throw new Error(run.error ?? 'The assessment failed.');
+    await new Promise((resolve) => setTimeout(resolve, 800));
+  }
+}
