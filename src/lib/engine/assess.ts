@@ -21,6 +21,7 @@ import {
   requiredOutdoorAirLps,
   retrofitMoney,
   unitLines,
+  type UnitChoice,
 } from './retrofit';
 import { assessRisk, pupilHoursPerYear } from './risk';
 import type {
@@ -58,7 +59,13 @@ interface Prepared {
   occupiedHours: number;
   totalSchoolDays: number;
   regions: Map<ClimateRegion, RegionDerived>;
-  generation: Map<string, number>;
+  generation: Map<string, Map<number, number>>;
+  /** Unit choices by required supply (whole l/s): the catalogue and limits are fixed for the set. */
+  unitChoices: Map<number, UnitChoice | null>;
+  /** Sorted thresholds reported for a pair of criterion and retrofit-target packs. */
+  thresholds: Map<string, Map<string, number[]>>;
+  /** Reused segment objects for the mass balance (the engine is synchronous). */
+  segments: DaySegment[];
 }
 
 interface RegionDerived {
@@ -85,6 +92,9 @@ function prepare(set: AssumptionSet): Prepared {
     totalSchoolDays: seasons.winter.schoolDays + seasons.mid.schoolDays + seasons.summer.schoolDays,
     regions: new Map(),
     generation: new Map(),
+    unitChoices: new Map(),
+    thresholds: new Map(),
+    segments: timetable.map((t) => ({ startMinute: t.startMinute, endMinute: t.endMinute, generationLps: 0, flowLps: 0, occupancyFraction: t.occupancyFraction })),
   };
   preparedCache.set(set, prepared);
   return prepared;
@@ -124,11 +134,15 @@ function regionDerived(set: AssumptionSet, p: Prepared, code: ClimateRegion): Re
 }
 
 function perPersonGeneration(set: AssumptionSet, p: Prepared, ageGroup: RoomAssessmentInput['room']['ageGroup'], met: number): number {
-  const key = `${ageGroup}|${met}`;
-  const hit = p.generation.get(key);
+  let byMet = p.generation.get(ageGroup);
+  if (!byMet) {
+    byMet = new Map();
+    p.generation.set(ageGroup, byMet);
+  }
+  const hit = byMet.get(met);
   if (hit !== undefined) return hit;
   const value = generationPerPersonLps(set.occupancy.generationTable.value, ageGroup, met);
-  p.generation.set(key, value);
+  byMet.set(met, value);
   return value;
 }
 
@@ -140,19 +154,14 @@ interface SeasonFlows {
   mechanicalLps: number;
 }
 
-function daySegments(timetable: readonly TimetableSegment[], generationLps: number, flows: SeasonFlows): DaySegment[] {
-  const out: DaySegment[] = new Array<DaySegment>(timetable.length);
+/** Fill the set's reusable segments for one day (valid until the next call). */
+function daySegments(p: Prepared, generationLps: number, flows: SeasonFlows): DaySegment[] {
+  const out = p.segments;
   const base = flows.infiltrationLps + flows.mechanicalLps;
-  for (let i = 0; i < timetable.length; i++) {
-    const s = timetable[i] as TimetableSegment;
-    const occupied = s.occupancyFraction > 0;
-    out[i] = {
-      startMinute: s.startMinute,
-      endMinute: s.endMinute,
-      generationLps: generationLps * s.occupancyFraction,
-      flowLps: base + (occupied ? flows.windowOccupiedLps : flows.windowEmptyLps),
-      occupancyFraction: s.occupancyFraction,
-    };
+  for (let i = 0; i < out.length; i++) {
+    const seg = out[i] as DaySegment;
+    seg.generationLps = generationLps * seg.occupancyFraction;
+    seg.flowLps = base + (seg.occupancyFraction > 0 ? flows.windowOccupiedLps : flows.windowEmptyLps);
   }
   return out;
 }
@@ -241,10 +250,19 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
   // --- Criteria --------------------------------------------------------------------------------
   const criterion = applyPack(choosePack(set, ventilationClass, buildStatus), outdoorCo2);
   const target = applyPack(choosePack(set, 'mechanical', buildStatus), outdoorCo2);
-  const thresholdList: number[] = [criterion.meanLimitPpm, target.meanLimitPpm, ...set.criteria.referenceThresholdsPpm.value];
-  if (criterion.maxLimitPpm !== null) thresholdList.push(criterion.maxLimitPpm);
-  if (target.maxLimitPpm !== null) thresholdList.push(target.maxLimitPpm);
-  const thresholds = sortedUnique(thresholdList);
+  let byTarget = p.thresholds.get(criterion.packId);
+  if (!byTarget) {
+    byTarget = new Map();
+    p.thresholds.set(criterion.packId, byTarget);
+  }
+  let thresholds = byTarget.get(target.packId);
+  if (!thresholds) {
+    const list: number[] = [criterion.meanLimitPpm, target.meanLimitPpm, ...set.criteria.referenceThresholdsPpm.value];
+    if (criterion.maxLimitPpm !== null) list.push(criterion.maxLimitPpm);
+    if (target.maxLimitPpm !== null) list.push(target.maxLimitPpm);
+    thresholds = sortedUnique(list);
+    byTarget.set(target.packId, thresholds);
+  }
 
   // --- CO2 per season --------------------------------------------------------------------------
   const seasonFlows: Record<Season, SeasonFlows> = {} as Record<Season, SeasonFlows>;
@@ -279,7 +297,7 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
     seasonGen[season] = generationLps;
     const curve: CurvePoint[] | null = withCurve ? [] : null;
     const day = simulateDay({
-      segments: daySegments(p.timetable, generationLps, flows),
+      segments: daySegments(p, generationLps, flows),
       volumeM3,
       outdoorCo2Ppm: outdoorCo2,
       startPpm: outdoorCo2,
@@ -497,10 +515,15 @@ function assessRetrofit(args: {
   const winter = seasonFlows.winter;
   const needTotal = requiredOutdoorAirLps({ generationLps: seasonGen.winter, outdoorCo2Ppm: outdoorCo2, meanLimitPpm: target.meanLimitPpm, maxLimitPpm: target.maxLimitPpm });
   const requiredSupplyLps = needTotal === null ? Number.POSITIVE_INFINITY : Math.max(0, Math.ceil(needTotal - winter.infiltrationLps - winter.mechanicalLps));
-  const choice =
-    Number.isFinite(requiredSupplyLps) && requiredSupplyLps > 0
-      ? chooseUnits({ requiredSupplyLps, catalogue: set.retrofit.unitCatalogue.value, soundLimitDbA: set.retrofit.soundLimitDbA.value, maxUnits: set.retrofit.maxUnitsPerRoom.value })
-      : null;
+  let choice: UnitChoice | null = null;
+  if (Number.isFinite(requiredSupplyLps) && requiredSupplyLps > 0) {
+    const cached = p.unitChoices.get(requiredSupplyLps);
+    if (cached !== undefined) choice = cached;
+    else {
+      choice = chooseUnits({ requiredSupplyLps, catalogue: set.retrofit.unitCatalogue.value, soundLimitDbA: set.retrofit.soundLimitDbA.value, maxUnits: set.retrofit.maxUnitsPerRoom.value });
+      p.unitChoices.set(requiredSupplyLps, choice);
+    }
+  }
 
   const efficiency = school.boilerEfficiency ?? set.energy.heatGeneratorEfficiency.value[fuel];
   const fuelPrice = school.fuelPriceGbpPerKwh ?? fin.fuelPricesGbpPerKwh.value[fuel];
@@ -590,12 +613,18 @@ function assessRetrofit(args: {
       mechanicalLps: today.mechanicalLps + choice.flowLps,
     };
     withUnitsFlows[season] = flows;
+    // Exact shortcut: the day starts at outdoor CO2 and each segment moves monotonically towards its steady state,
+    // so if even the fully occupied steady state (lowest flow: occupied or empty windows) stays at or below the
+    // threshold, CO2 never exceeds it.
+    const lowestFlow = flows.infiltrationLps + flows.mechanicalLps + Math.min(flows.windowOccupiedLps, flows.windowEmptyLps);
+    const threshold = args.criterion.riskThresholdPpm;
+    if (outdoorCo2 + (1e6 * seasonGen[season]) / lowestFlow <= threshold) continue;
     const day = simulateDay({
-      segments: daySegments(p.timetable, seasonGen[season], flows),
+      segments: daySegments(p, seasonGen[season], flows),
       volumeM3: args.volumeM3,
       outdoorCo2Ppm: outdoorCo2,
       startPpm: outdoorCo2,
-      thresholdsPpm: [args.criterion.riskThresholdPpm],
+      thresholdsPpm: [threshold],
     });
     afterPupilHours += (room.pupils * (day.thresholds[0]?.occupiedMinutesOver ?? 0) * profiles[season].schoolDays) / 60;
   }
@@ -609,7 +638,7 @@ function assessRetrofit(args: {
     if (dh <= 0) continue;
     const t = meanDayFlowLps(p.timetable, seasonFlows[season]);
     const w = withUnitsFlows[season];
-    const wNatural = meanDayFlowLps(p.timetable, { ...w, mechanicalLps: seasonFlows[season].mechanicalLps });
+    const wNatural = meanDayFlowLps(p.timetable, w) - choice.flowLps;
     todayHeat += (rhoCp * t * dh) / 1000;
     withHeat += (rhoCp * (wNatural + choice.flowLps * (1 - perf.heatRecoveryEfficiency)) * dh) / 1000;
   }
@@ -630,8 +659,18 @@ function assessRetrofit(args: {
   });
   if (supplyTempC < 16) notes.push(`Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`);
 
+  // Every field written out (no spread): V8 builds this object on its fast path.
   return {
-    ...money,
+    capitalCostGbp: money.capitalCostGbp,
+    annualHeatRecoveredKwh: money.annualHeatRecoveredKwh,
+    annualFuelSavedKwh: money.annualFuelSavedKwh,
+    annualFanKwh: money.annualFanKwh,
+    annualMaintenanceGbp: money.annualMaintenanceGbp,
+    annualNetSavingGbp: money.annualNetSavingGbp,
+    annualNetSavingKgCo2e: money.annualNetSavingKgCo2e,
+    simplePaybackYears: money.simplePaybackYears,
+    discountedPaybackYears: money.discountedPaybackYears,
+    npvGbp: money.npvGbp,
     targetPackId: target.packId,
     requiredSupplyLps,
     installedSupplyLps: choice.flowLps,

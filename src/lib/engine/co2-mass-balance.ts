@@ -54,6 +54,12 @@ export function timeToThresholdH(args: { startPpm: number; steadyPpm: number; ac
   return Math.log((steadyPpm - startPpm) / (steadyPpm - thresholdPpm)) / achPerH;
 }
 
+const SCRATCH_SIZE = 32;
+const SCRATCH_RUN_START = new Float64Array(SCRATCH_SIZE);
+const SCRATCH_LONGEST = new Float64Array(SCRATCH_SIZE);
+const SCRATCH_OVER = new Float64Array(SCRATCH_SIZE);
+const SCRATCH_OCC_OVER = new Float64Array(SCRATCH_SIZE);
+
 /** One period of constant occupancy and ventilation, ready for the mass balance. */
 export interface DaySegment {
   startMinute: number;
@@ -91,10 +97,18 @@ export function simulateDay(args: {
 }): DayResult {
   const { segments, volumeM3, outdoorCo2Ppm, thresholdsPpm } = args;
   const nTh = thresholdsPpm.length;
-  const runStart: number[] = new Array<number>(nTh).fill(Number.NaN);
-  const longest: number[] = new Array<number>(nTh).fill(0);
-  const over: number[] = new Array<number>(nTh).fill(0);
-  const occOver: number[] = new Array<number>(nTh).fill(0);
+  // Reused scratch space: the engine is synchronous, so one set of buffers serves every call.
+  const big = nTh > SCRATCH_SIZE;
+  const runStart = big ? new Float64Array(nTh) : SCRATCH_RUN_START;
+  const longest = big ? new Float64Array(nTh) : SCRATCH_LONGEST;
+  const over = big ? new Float64Array(nTh) : SCRATCH_OVER;
+  const occOver = big ? new Float64Array(nTh) : SCRATCH_OCC_OVER;
+  for (let i = 0; i < nTh; i++) {
+    runStart[i] = Number.NaN;
+    longest[i] = 0;
+    over[i] = 0;
+    occOver[i] = 0;
+  }
   const curve = args.curve ?? null;
   const step = args.curveStepMinutes ?? 5;
   let nextSample = segments.length > 0 ? (segments[0] as DaySegment).startMinute : 0;
@@ -110,7 +124,17 @@ export function simulateDay(args: {
     const lambda = (3.6 * seg.flowLps) / volumeM3;
     const steady = seg.flowLps > 0 ? outdoorCo2Ppm + (1e6 * seg.generationLps) / seg.flowLps : Number.POSITIVE_INFINITY;
     const rise = (3600 * 1000 * seg.generationLps) / volumeM3; // ppm/h when Q = 0
-    const { endPpm, meanPpm } = segmentEndAndMean({ startPpm: c, steadyPpm: steady, achPerH: lambda, hours, risePpmPerH: rise });
+    let endPpm: number;
+    let meanPpm: number;
+    if (lambda > 0) {
+      const x = lambda * hours;
+      const decay = Math.exp(-x);
+      endPpm = steady + (c - steady) * decay;
+      meanPpm = steady + ((c - steady) * (1 - decay)) / x;
+    } else {
+      endPpm = c + rise * hours;
+      meanPpm = c + (rise * hours) / 2;
+    }
 
     if (curve) {
       while (nextSample <= seg.endMinute + 1e-9 && (nextSample < seg.endMinute || seg === segments[segments.length - 1])) {

@@ -36,16 +36,19 @@ export function pmvPpd(args: { airTempC: number; radiantTempC: number; airSpeedM
   const p2 = p1 * 3.96;
   const p3 = p1 * 100;
   const p4 = p1 * taa;
-  const p5 = 308.7 - 0.028 * mw + p2 * (tra / 100) ** 4;
+  const tra100 = tra / 100;
+  const tra4 = tra100 * tra100 * tra100 * tra100;
+  const p5 = 308.7 - 0.028 * mw + p2 * tra4;
   let xn = tcla / 100;
   let xf = tcla / 50;
   let hc = hcf;
   let n = 0;
   while (Math.abs(xn - xf) > 0.00015) {
     xf = (xf + xn) / 2;
-    const hcn = 2.38 * Math.abs(100 * xf - taa) ** 0.25;
+    const hcn = 2.38 * Math.sqrt(Math.sqrt(Math.abs(100 * xf - taa))); // |Δ|^0.25
     hc = hcf > hcn ? hcf : hcn;
-    xn = (p5 + p4 * hc - p2 * xf ** 4) / (100 + p3 * hc);
+    const xf2 = xf * xf;
+    xn = (p5 + p4 * hc - p2 * xf2 * xf2) / (100 + p3 * hc);
     if (++n > 150) throw new EngineInputError('comfort', 'PMV iteration did not converge');
   }
   const tcl = 100 * xn - 273;
@@ -53,7 +56,8 @@ export function pmvPpd(args: { airTempC: number; radiantTempC: number; airSpeedM
   const hl2 = mw > 58.15 ? 0.42 * (mw - 58.15) : 0;
   const hl3 = 1.7 * 0.00001 * m * (5867 - pa);
   const hl4 = 0.0014 * m * (34 - ta);
-  const hl5 = 3.96 * fcl * (xn ** 4 - (tra / 100) ** 4);
+  const xn2 = xn * xn;
+  const hl5 = 3.96 * fcl * (xn2 * xn2 - tra4);
   const hl6 = fcl * hc * (tcl - ta);
   const ts = 0.303 * Math.exp(-0.036 * m) + 0.028;
   const pmv = ts * (mw - hl1 - hl2 - hl3 - hl4 - hl5 - hl6);
@@ -62,7 +66,8 @@ export function pmvPpd(args: { airTempC: number; radiantTempC: number; airSpeedM
 
 /** PPD = 100 − 95·exp(−0.03353·PMV⁴ − 0.2179·PMV²), % (ISO 7730:2005). */
 export function ppdFromPmv(pmv: number): number {
-  return 100 - 95 * Math.exp(-0.03353 * pmv ** 4 - 0.2179 * pmv ** 2);
+  const p2 = pmv * pmv;
+  return 100 - 95 * Math.exp(-0.03353 * p2 * p2 - 0.2179 * p2);
 }
 
 /**

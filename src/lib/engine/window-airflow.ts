@@ -78,14 +78,15 @@ export function windowAirflowLps(args: {
   if (area <= 0) return 0;
   const deltaTK = args.indoorTempC - args.outdoorTempC;
   const meanTempK = 273.15 + (args.indoorTempC + args.outdoorTempC) / 2;
-  const common = { dischargeCoefficient: args.dischargeCoefficient, openingHeightM: args.openingHeightM, deltaTK, meanTempK };
+  const cd = args.dischargeCoefficient;
+  // Stack term of Warren & Parkins: Cd·(A/3)·sqrt(g·h·|ΔT|/T_mean)
+  const stack = cd * (area / 3) * Math.sqrt((G * args.openingHeightM * Math.abs(deltaTK)) / meanTempK);
   if (args.cross) {
-    const wind = crossWindM3s({ dischargeCoefficient: args.dischargeCoefficient, windwardAreaM2: area / 2, leewardAreaM2: area / 2, windSpeedMs: args.windSpeedMs, deltaCp: args.deltaCp });
-    const stack = singleSidedStackM3s({ ...common, areaM2: area });
+    const wind = crossWindM3s({ dischargeCoefficient: cd, windwardAreaM2: area / 2, leewardAreaM2: area / 2, windSpeedMs: args.windSpeedMs, deltaCp: args.deltaCp });
     return 1000 * Math.max(wind, stack);
   }
   if (args.method === 'de_gids_phaff') {
     return 1000 * deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeedMs, openingHeightM: args.openingHeightM, deltaTK }).flowM3s;
   }
-  return 1000 * warrenParkinsM3s({ ...common, areaM2: area, windSpeedMs: args.windSpeedMs });
+  return 1000 * Math.max(0.025 * area * args.windSpeedMs, stack);
 }
