@@ -29,6 +29,27 @@ describe('plans', () => {
     expect(schools).toHaveLength(1);
   });
 
+  it('answers 402 when a room would take the free plan past its 60 rooms', async () => {
+    const { cookie, trustId } = await createOtherTrust();
+    const created = (await (await addSchool(cookie)).json()) as { school: { id: string } };
+    const schoolId = created.school.id;
+    // Fixture: 60 rooms written straight to the database (the limit), then one more through the API.
+    await db
+      .insertInto('rooms')
+      .values(Array.from({ length: 60 }, (_, i) => ({ school_id: schoolId, code: `R${i + 1}`, floor_area_m2: 55, ceiling_height_m: 2.7, age_group: 'primary', ventilation_type: 'natural_single_sided' })))
+      .execute();
+    const room = {
+      schoolId, blockId: null, code: 'R61', name: 'One too many', use: 'classroom', floorAreaM2: 55, ceilingHeightM: 2.7, pupils: 28, adults: 1,
+      ageGroup: 'primary', orientationDeg: 180, glazingAreaM2: 8, openableAreaM2: 2, windowType: 'side_hung', ventilationType: 'natural_single_sided',
+      mechanicalSupplyLps: null, notes: null,
+    };
+    const refused = await api('/api/rooms', { method: 'POST', cookie, body: JSON.stringify(room) });
+    expect(refused.status).toBe(402);
+    expect(((await refused.json()) as ErrorBody).error.message).toMatch(/up to 60 rooms; this would make 61/);
+    const rooms = await db.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').select('rooms.id').where('schools.trust_id', '=', trustId).execute();
+    expect(rooms).toHaveLength(60);
+  });
+
   it('keeps the demo trust on the paid plan, in our records and at the provider, one seat per school', async () => {
     const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
     const { billing, upcoming } = await billingOf(cookie);

@@ -7,6 +7,7 @@ import { conflict } from '../http/errors';
 import { countEstate, getBillingAccount, type BillingAccount } from './billing.repository';
 import type { BillingOverview, InvoiceSummary } from './billing.schemas';
 import { planPrices } from './catalogue';
+import { paymentProvider, providerConfigured } from './provider';
 import { FREE_PLAN, PER_SCHOOL_PLAN, planName, type BillingInterval } from './plans';
 import { billingStanding } from './standing';
 import { syncSubscription } from './subscription-sync';
@@ -141,6 +142,20 @@ export async function syncQuantity(db: Kysely<Database>, stripe: Stripe, trustId
     await stripe.subscriptions.update(account.subscriptionId, { items: [{ id: item.id, quantity: wanted }], proration_behavior: 'create_prorations' });
   }
   await syncSubscription(db, stripe, account.subscriptionId, actor, `school count is now ${wanted}`);
+}
+
+/**
+ * Call after a write that added or removed schools (school form, register import): brings the
+ * subscription quantity in line. Never throws: the school change stands, and the billing page
+ * catches the quantity up on its next visit if the provider was unreachable.
+ */
+export async function followSchoolCount(db: Kysely<Database>, trustId: string, actor: Actor): Promise<void> {
+  if (!providerConfigured()) return;
+  try {
+    await syncQuantity(db, paymentProvider(), trustId, actor);
+  } catch (error) {
+    console.error('Subscription quantity not updated; the billing page will retry', error);
+  }
 }
 
 /** The trust's invoices, newest first. */

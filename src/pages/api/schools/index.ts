@@ -1,7 +1,6 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
-import { syncQuantity } from '../../../lib/server/billing/billing.service';
-import { paymentProvider, providerConfigured } from '../../../lib/server/billing/provider';
+import { followSchoolCount } from '../../../lib/server/billing/billing.service';
 import { getDb } from '../../../lib/server/db/client';
 import { listSchools } from '../../../lib/server/estate/estate.repository';
 import { NewSchoolSchema, createSchool } from '../../../lib/server/estate/schools.service';
@@ -19,9 +18,6 @@ export const POST = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'register', 'create');
   const input = await parseJson(request, NewSchoolSchema);
   const school = await createSchool(getDb(), trust, actorOf(locals), input);
-  if (providerConfigured()) {
-    // The school exists either way; a provider hiccup is caught up the next time the billing page loads.
-    await syncQuantity(getDb(), paymentProvider(), trust.id, actorOf(locals)).catch((error: unknown) => console.error('Subscription quantity not updated', error));
-  }
+  await followSchoolCount(getDb(), trust.id, actorOf(locals));
   return json({ school }, 201);
 });
