@@ -58,6 +58,11 @@ function sameShape(previous: unknown, next: unknown): boolean {
   return typeof previous === typeof next;
 }
 
+/** 403 unless the role may change some kind of assumption (checked before the body is read). */
+export function requireAssumptionEditor(trust: ActiveTrust): void {
+  if (!can(trust.role, 'assumptions', 'edit_technical') && !can(trust.role, 'assumptions', 'edit_financial')) throw forbidden('change assumptions');
+}
+
 function requireKind(trust: ActiveTrust, kind: 'technical' | 'financial', what: string): void {
   const action = kind === 'technical' ? 'edit_technical' : 'edit_financial';
   if (!can(trust.role, 'assumptions', action)) throw forbidden(`change ${kind} assumptions (${what})`);

@@ -1,7 +1,7 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { AssumptionEditSchema } from '../../../lib/server/assessments/assessments.schemas';
-import { editAssumptions, getAssumptionsView } from '../../../lib/server/assessments/assumptions.service';
+import { editAssumptions, getAssumptionsView, requireAssumptionEditor } from '../../../lib/server/assessments/assumptions.service';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
@@ -14,6 +14,7 @@ export const GET = route(async ({ locals }) => {
 /** Saves changed values as a new version; each value's kind decides which role may change it. */
 export const PATCH = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
+  requireAssumptionEditor(trust);
   const body = await parseJson(request, AssumptionEditSchema);
   const saved = await editAssumptions(trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);

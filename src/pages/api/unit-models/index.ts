@@ -1,7 +1,7 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { UnitCatalogueSchema } from '../../../lib/server/assessments/assessments.schemas';
-import { getAssumptionsView, saveUnitCatalogue } from '../../../lib/server/assessments/assumptions.service';
+import { getAssumptionsView, requireAssumptionEditor, saveUnitCatalogue } from '../../../lib/server/assessments/assumptions.service';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
@@ -15,6 +15,7 @@ export const GET = route(async ({ locals }) => {
 /** Replaces the catalogue as a new assumption version (technical fields vs costs are checked per role). */
 export const PUT = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
+  requireAssumptionEditor(trust);
   const body = await parseJson(request, UnitCatalogueSchema);
   const saved = await saveUnitCatalogue(trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);
