@@ -6,7 +6,7 @@
 import { validateAssumptionSet } from './assumption-tools';
 import { occupiedHeatingDegreeHours, schoolDayHours, seasonOutdoorTempC } from './climate-regions';
 import { simulateDay, type DaySegment } from './co2-mass-balance';
-import { adaptiveMaxTempC, glazingProxy, overheatingIndex, pmvPpd, draughtRatePct } from './comfort';
+import { adaptiveMaxTempC, coldDowndraughtSpeedMs, draughtRatePct, glazingProxy, overheatingIndex, pmvPpd } from './comfort';
 import { applyPack, buildStatusOf, choosePack } from './criteria';
 import { supplyTempAfterRecoveryC } from './energy';
 import { formatGbp, formatInt } from './format';
@@ -442,9 +442,14 @@ function assessComfort(
     met: clamp(pupilMet, 0.8, 4),
     clo: c.winterClothingClo.value,
   });
-  const drTemp = clamp(ti, 20, 26);
-  const draught = draughtRatePct({ localAirTempC: drTemp, localAirSpeedMs: clamp(c.winterAirSpeedMs.value, 0, 0.5), turbulencePct: c.draughtTurbulencePct.value });
-  const concern = pmv < -0.5 ? 'Feels cool in winter: cold glazing lowers the radiant temperature' : draught > 20 ? 'Draught risk in winter' : null;
+  // Draught at the first desks: the larger of the general occupied-zone air speed and the cold downdraught
+  // off the glazing (height: glazed area over the façade width of a square room, at most the ceiling height).
+  const glazingHeightM = Math.min(room.glazingAreaM2 / side, room.ceilingHeightM);
+  const downdraughtSpeedMs = coldDowndraughtSpeedMs({ surfaceDeltaTK: ti - glazingSurfaceTempC, surfaceHeightM: glazingHeightM, distanceM: c.deskDistanceFromWindowM.value });
+  const localSpeed = clamp(Math.max(c.winterAirSpeedMs.value, downdraughtSpeedMs), 0, 0.5);
+  const draught = draughtRatePct({ localAirTempC: clamp(ti, 20, 26), localAirSpeedMs: localSpeed, turbulencePct: c.draughtTurbulencePct.value });
+  const concern =
+    pmv < -0.5 ? 'Feels cool in winter: cold glazing lowers the radiant temperature' : draught > 20 ? 'Draught risk near the windows in winter' : null;
 
   // Summer: §9.3 screening index.
   const facing = glazingProxy({ glazingAreaM2: room.glazingAreaM2, floorAreaM2: room.floorAreaM2, orientationDeg: room.orientationDeg, crossVentilated: cross });
@@ -475,7 +480,7 @@ function assessComfort(
   const adaptiveMax = adaptiveMaxTempC(summerMeanC, c.adaptiveCategoryOffsetK.value);
   const predicted = summerMeanC + index.deltaTK;
   return {
-    winter: { airTempC, meanRadiantTempC, glazingSurfaceTempC, pmv, ppdPct, draughtRatePct: draught, concern },
+    winter: { airTempC, meanRadiantTempC, glazingSurfaceTempC, pmv, ppdPct, downdraughtSpeedMs, draughtRatePct: draught, concern },
     summer: {
       solarGainW: index.solarGainW,
       internalGainW: index.internalGainW,

@@ -1,6 +1,6 @@
 /** Helpers the app uses to show, edit and check an assumption set. */
 import { EngineInputError, requireRange } from './errors';
-import type { Assumed, AssumptionKind, AssumptionSet, SourceStatus } from './types';
+import type { Assumed, AssumptionKind, AssumptionSet, SourceStatus, UnitModel } from './types';
 
 /** One assumed value flattened for display, with its path for editing (e.g. 'finance.discountRate'). */
 export interface AssumptionEntry {
@@ -14,6 +14,22 @@ export interface AssumptionEntry {
   flagged: boolean;
   note: string | null;
 }
+
+/**
+ * Who edits each field of a catalogue unit model: flows, efficiency, fan power, life and sound are technical
+ * (estates managers); installed cost and maintenance are financial (finance leads).
+ */
+export const UNIT_MODEL_FIELD_KIND: Record<keyof UnitModel, AssumptionKind | 'identity'> = {
+  id: 'identity',
+  name: 'identity',
+  nominalFlowLps: 'technical',
+  heatRecoveryEfficiency: 'technical',
+  specificFanPowerWPerLps: 'technical',
+  installedCostGbp: 'financial',
+  annualMaintenanceGbp: 'financial',
+  lifeYears: 'technical',
+  soundDbA: 'technical',
+};
 
 function isAssumed(x: unknown): x is Assumed<unknown> {
   return typeof x === 'object' && x !== null && 'value' in x && 'status' in x && 'kind' in x && 'source' in x;
@@ -143,6 +159,11 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     r(`${path}.lifeYears`, u.lifeYears, 1, 60);
     r(`${path}.soundDbA`, u.soundDbA, 0, 100);
   });
+  r('comfort.deskDistanceFromWindowM', set.comfort.deskDistanceFromWindowM.value, 0, 10);
+  r('comfort.winterAirSpeedMs', set.comfort.winterAirSpeedMs.value, 0, 0.5);
+  r('comfort.draughtTurbulencePct', set.comfort.draughtTurbulencePct.value, 10, 60);
+  r('comfort.winterClothingClo', set.comfort.winterClothingClo.value, 0, 2);
+  r('comfort.winterRelativeHumidityPct', set.comfort.winterRelativeHumidityPct.value, 0, 100);
   r('retrofit.soundLimitDbA', set.retrofit.soundLimitDbA.value, 0, 100);
   r('retrofit.maxUnitsPerRoom', set.retrofit.maxUnitsPerRoom.value, 1, 20);
   r('retrofit.windowOpenFractionWithUnits', set.retrofit.windowOpenFractionWithUnits.value, 0, 1);

@@ -209,6 +209,7 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     winterRelativeHumidityPct: a(40, '%', 'Winter relative humidity', 'Heated UK classrooms in winter', 'common_practice', T),
     winterAirSpeedMs: a(0.1, 'm/s', 'Occupied-zone air speed in winter', 'Keep ≤ 0.15 m/s in the heating season', 'common_practice', T),
     draughtTurbulencePct: a(40, '%', 'Turbulence intensity for the draught rate', 'ISO 7730 default when unknown', 'from_memory', T),
+    deskDistanceFromWindowM: a(1, 'm', 'Distance of the first desks from the windows', 'Typical classroom layout', 'common_practice', T),
     insideSurfaceResistanceM2KW: a(0.13, 'm²·K/W', 'Inside surface resistance', 'BS EN ISO 6946 horizontal heat flow', 'from_memory', T),
     summerNightOpenFraction: a(0, '-', 'Windows open at night in summer', 'Windows usually shut overnight for security', 'common_practice', T),
     adaptiveCategoryOffsetK: a(3, 'K', 'Adaptive upper limit above comfort temperature (Category II)', 'EN 16798-1 / CIBSE TM52: T_max = 0.33·T_rm + 18.8 + 3', 'confirmed', T),

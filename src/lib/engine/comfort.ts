@@ -83,6 +83,19 @@ export function draughtRatePct(args: { localAirTempC: number; localAirSpeedMs: n
   return dr > 100 ? 100 : dr;
 }
 
+/**
+ * Maximum cold downdraught speed near the floor from a cold vertical surface (Heiselberg 1994, Building and
+ * Environment 29(3); coefficients from memory): with ΔT surface-to-room K and surface height H m,
+ *   x < 0.4 m: 0.055·sqrt(ΔT·H);  0.4–2 m: 0.095·sqrt(ΔT·H)/(x + 1.32);  x > 2 m: 0.028·sqrt(ΔT·H)   [m/s]
+ * x = distance from the surface, m (≥ 0).
+ */
+export function coldDowndraughtSpeedMs(args: { surfaceDeltaTK: number; surfaceHeightM: number; distanceM: number }): number {
+  const root = Math.sqrt(Math.max(0, args.surfaceDeltaTK) * Math.max(0, args.surfaceHeightM));
+  if (args.distanceM < 0.4) return 0.055 * root;
+  if (args.distanceM <= 2) return (0.095 * root) / (args.distanceM + 1.32);
+  return 0.028 * root;
+}
+
 /** Adaptive upper limit T_max = 0.33·T_rm + 18.8 + offset (Cat II offset 3 K → +21.8), °C. CIBSE TM52 / EN 16798-1. */
 export function adaptiveMaxTempC(runningMeanC: number, categoryOffsetK: number): number {
   return 0.33 * runningMeanC + 18.8 + categoryOffsetK;

@@ -44,12 +44,12 @@ export interface RoomInput {
   /** 0–50 adults at design occupancy. */
   adults: number;
   ageGroup: AgeGroup;
-  /** Bearing of the main glazed façade, 0 = north, clockwise, [0, 360). Null: summer solar gain uses the
+  /** Bearing of the main glazed façade, 0 = north, clockwise, 0–360. Null: summer solar gain uses the
    *  assumption set's irradiance for an unknown orientation and the glazing proxy is not evaluated. */
   orientationDeg: number | null;
   /** Total glazed area, 0–floor area × 3 m². */
   glazingAreaM2: number;
-  /** Openable window area (free area of the openable sashes), 0–glazing area m² (0 allowed: no windows open). */
+  /** Openable window area (free area of the openable sashes), 0–floor area m² (0: no windows open). */
   openableAreaM2: number;
   windowType: WindowType;
   /** Total solar energy transmittance of the glazing, 0.05–0.9. Null: assumptions.comfort.defaultGlazingGValue. */
@@ -291,6 +291,8 @@ export interface AssumptionSet {
     winterRelativeHumidityPct: Assumed<number>;
     winterAirSpeedMs: Assumed<number>;
     draughtTurbulencePct: Assumed<number>;
+    /** Distance of the first desks from the glazing, m. */
+    deskDistanceFromWindowM: Assumed<number>;
     insideSurfaceResistanceM2KW: Assumed<number>;
     /** Window opening at night in summer, fraction of openable area. */
     summerNightOpenFraction: Assumed<number>;
@@ -416,6 +418,9 @@ export interface ComfortResult {
     glazingSurfaceTempC: number;
     pmv: number;
     ppdPct: number;
+    /** Cold downdraught off the glazing at the first desks (Heiselberg 1994), m/s. */
+    downdraughtSpeedMs: number;
+    /** ISO 7730 draught rate at the first desks, %. */
     draughtRatePct: number;
     /** Screening labels: 'ok' or the reason for concern. */
     concern: string | null;

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   adaptiveMaxTempC,
+  coldDowndraughtSpeedMs,
   dailyWeightedExceedance,
   draughtRatePct,
   facingOf,
@@ -32,7 +33,7 @@ describe('PMV/PPD against ISO 7730:2005 validation rows', () => {
     expect(Math.abs(r.ppdPct - 16.9)).toBeLessThanOrEqual(0.5);
   });
 
-  it('row 12 of the reference list (27/27 °C, 1.6 met) gives PMV 1.17 and PPD 33.9 % (check 28: ISO 7730 Annex D)', () => {
+  it('27/27 °C, 0.1 m/s, 60 %, 1.6 met, 0.5 clo gives PMV 1.17 and PPD 33.9 % (check 28: ISO 7730 Annex D)', () => {
     const r = pmvPpd({ airTempC: 27, radiantTempC: 27, airSpeedMs: 0.1, relativeHumidityPct: 60, met: 1.6, clo: 0.5 });
     expect(Math.abs(r.pmv - 1.17)).toBeLessThanOrEqual(0.1);
     expect(Math.abs(r.ppdPct - 33.9)).toBeLessThanOrEqual(0.5);
@@ -60,6 +61,20 @@ describe('draught rate (ISO 7730:2005)', () => {
   }
   it('20 °C, 0.15 m/s, Tu 40 % gives 18.0 % (check 29)', () => {
     expect(Math.abs(draughtRatePct({ localAirTempC: 20, localAirSpeedMs: 0.15, turbulencePct: 40 }) - 18.0)).toBeLessThanOrEqual(0.1);
+  });
+});
+
+describe('cold downdraught off glazing (Heiselberg 1994, coefficients from memory)', () => {
+  it('meets itself at 0.4 m and 2 m, as the published ranges do', () => {
+    // Hand: 0.095/(0.4 + 1.32) = 0.05523 ≈ 0.055; 0.095/(2 + 1.32) = 0.02861 ≈ 0.028 (per sqrt(ΔT·H)).
+    const args = { surfaceDeltaTK: 4, surfaceHeightM: 1 }; // sqrt(4·1) = 2
+    expect(Math.abs(coldDowndraughtSpeedMs({ ...args, distanceM: 0.39 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 0.4 }))).toBeLessThanOrEqual(0.0011);
+    expect(Math.abs(coldDowndraughtSpeedMs({ ...args, distanceM: 2 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 2.01 }))).toBeLessThanOrEqual(0.0013);
+  });
+
+  it('gives 0.1122 m/s one metre from 1.5 m of glazing 5 K colder than the room', () => {
+    // Hand: sqrt(5·1.5) = 2.7386; 0.095·2.7386/(1 + 1.32) = 0.11214 m/s
+    expect(Math.abs(coldDowndraughtSpeedMs({ surfaceDeltaTK: 5, surfaceHeightM: 1.5, distanceM: 1 }) - 0.11214)).toBeLessThanOrEqual(1e-5);
   });
 });
 
