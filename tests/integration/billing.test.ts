@@ -2,7 +2,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 import { testDb } from '../helpers/db';
-import { addSchool, billingOf, payOnCheckoutPage, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
+import { addSchool, billingOf, fakeAdmin, payOnCheckoutPage, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
 
 const db = testDb();
 afterAll(() => db.destroy());
@@ -112,7 +112,6 @@ describe('subscription quantity follows the schools', () => {
     const stripe = provider();
     const subscriptionId = await subscriptionIdOf(db, trustId);
     // End the trial so the subscription is charged and prorations apply.
-    const { fakeAdmin } = await import('./billing-fixture');
     await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'succeed' });
     await waitUntil('the trial ends', async () => (await billingOf(cookie)).billing.status === 'active');
 
@@ -161,6 +160,24 @@ describe('managing the subscription', () => {
     expect(invoices.invoices.length).toBeGreaterThan(0);
     const actions = await db.selectFrom('audit_events').select('summary').where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
     expect(actions.map((a) => a.summary).join('\n')).toMatch(/yearly[\s\S]*cancels at period end[\s\S]*resumed by a trust admin/);
+  });
+});
+
+describe('the end of a cancelled subscription', () => {
+  it('returns the trust to the free plan when the period ends, keeping every school', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    for (let i = 0; i < 3; i += 1) expect((await addSchool(cookie)).status).toBe(201);
+    expect((await api('/api/billing/cancel', { method: 'POST', cookie, body: JSON.stringify({ atPeriodEnd: true }) })).status).toBe(200);
+    await fakeAdmin(`/_fake/subscriptions/${await subscriptionIdOf(db, trustId)}/renew`);
+    const { billing } = await waitUntil('the provider ends the subscription', async () => {
+      const body = await billingOf(cookie);
+      return body.billing.plan === 'free' ? body : undefined;
+    });
+    expect([billing.status, billing.schoolCount]).toEqual(['canceled', 3]);
+    expect((await api('/api/schools', { cookie })).status).toBe(200);
+    // Beyond the free plan's limit: nothing is deleted, but no more schools can be added.
+    expect((await addSchool(cookie)).status).toBe(402);
   });
 });
 
