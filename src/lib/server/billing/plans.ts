@@ -3,10 +3,14 @@
  * learns them through the catalogue the app creates (see catalogue.ts), found again by lookup key.
  */
 
+/** Our plan ids, as stored in billing_accounts.plan. */
 export const PLAN_IDS = ['free', 'per_school'] as const;
+/** One of PLAN_IDS. */
 export type PlanId = (typeof PLAN_IDS)[number];
 
+/** How often the per-school plan is billed (the provider's recurring intervals we sell). */
 export const BILLING_INTERVALS = ['month', 'year'] as const;
+/** One of BILLING_INTERVALS. */
 export type BillingInterval = (typeof BILLING_INTERVALS)[number];
 
 /** The free plan: one school, a capped room register, no payment details. */
