@@ -212,6 +212,29 @@ describe('password reset', () => {
   });
 });
 
+describe('account page', () => {
+  it('changes the password, signs out the other sessions and audits the change', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const elsewhere = await signIn(email);
+    const form = new URLSearchParams({ action: 'change-password', currentPassword: DEMO_PASSWORD, newPassword: 'changed-password-4' });
+    const response = await api('/app/account', { method: 'POST', cookie, body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    expect(response.status).toBe(303);
+    expect(response.headers.get('location')).toBe('/app/account?notice=password-changed');
+    expect((await api('/api/account', { cookie: elsewhere })).status).toBe(401);
+    expect(await signIn(email, 'changed-password-4')).toContain('session_token');
+    const audit = await db.selectFrom('audit_events').select('action').where('actor_email', '=', email).where('action', '=', 'account.password_changed').execute();
+    expect(audit).toHaveLength(1);
+  });
+
+  it('says so when the current password is wrong', async () => {
+    const { cookie } = await createOtherTrust();
+    const form = new URLSearchParams({ action: 'change-password', currentPassword: 'not-my-password', newPassword: 'changed-password-5' });
+    const response = await api('/app/account', { method: 'POST', cookie, body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    expect(response.status).toBe(400);
+    expect(await response.text()).toContain('Your current password is not right');
+  });
+});
+
 describe('brute force', () => {
   it('refuses the sixth wrong password within a minute with 429, even when it is right', async () => {
     const { email } = await createOtherTrust();
@@ -239,6 +262,8 @@ describe('sessions and cookies', () => {
     expect(revoke.status).toBe(200);
     expect((await api('/api/account', { cookie: first })).status).toBe(401);
     expect((await api('/api/account', { cookie: second })).status).toBe(401);
+    const audit = await db.selectFrom('audit_events').select('action').where('actor_email', '=', DEMO_ACCOUNTS.finance_lead).where('action', '=', 'account.signed_out_everywhere').execute();
+    expect(audit).toHaveLength(1);
   });
 
   it('refuses a cross-site sign-in request', async () => {

@@ -7,6 +7,10 @@ const adminOnly = (adminStatus: number, otherTrust: number) => ({
 /** Sign-in, account and members API. The other trust's admin has not confirmed their e-mail address. */
 export const entries: MatrixEntry[] = [
   { file: 'auth/[...all].ts', method: 'GET', path: '/api/auth/get-session', expect: all(200), note: 'better-auth answers null for anonymous callers' },
+  {
+    file: 'auth/[...all].ts', method: 'GET', path: '/api/auth/organization/get-full-organization?organizationId=demo-trust', expect: all(404),
+    note: 'the organization plugin is reachable only through our member and account routes',
+  },
   { file: 'account/index.ts', method: 'GET', path: '/api/account', expect: signedIn(200) },
   { file: 'account/sign-up.ts', method: 'POST', path: '/api/account/sign-up', body: { email: 'not-an-address' }, expect: all(400), note: 'public; invalid input' },
   {

@@ -1,4 +1,5 @@
 import { betterAuth, type BetterAuthOptions } from 'better-auth';
+import { createAuthMiddleware } from 'better-auth/api';
 import { organization } from 'better-auth/plugins';
 import type { Kysely } from 'kysely';
 import { recordAudit } from '../audit/audit.repository';
@@ -13,6 +14,24 @@ import { ROLE_LABELS } from './context';
 export const CLIENT_IP_HEADER = 'x-airtally-client-ip';
 
 const INVITATION_SECONDS = 7 * 24 * 3600;
+
+/** Account writes that better-auth performs itself, audited after they succeed. */
+const AUDITED_ACCOUNT_WRITES: Record<string, { action: string; summary: string }> = {
+  '/change-password': { action: 'account.password_changed', summary: 'changed their password' },
+  '/revoke-sessions': { action: 'account.signed_out_everywhere', summary: 'signed out on every device' },
+  '/revoke-other-sessions': { action: 'account.signed_out_elsewhere', summary: 'signed out on their other devices' },
+  '/revoke-session': { action: 'account.session_revoked', summary: 'signed out one device' },
+};
+
+/** Records the audited account writes (see AUDITED_ACCOUNT_WRITES) for API and page callers alike. */
+function auditAccountWrites(db: Kysely<any>) {
+  return createAuthMiddleware(async (ctx) => {
+    const write = AUDITED_ACCOUNT_WRITES[ctx.path];
+    const user = ctx.context.session?.user;
+    if (!write || !user || ctx.context.returned instanceof Error) return;
+    await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: write.action, entityType: 'user', entityId: user.id, summary: `${user.email} ${write.summary}` });
+  });
+}
 
 /**
  * better-auth's organization plugin, with trusts as organisations: the plugin's organisation model is
@@ -77,6 +96,7 @@ export function createAuthOptions(db: Kysely<any>) {
       },
     },
     session: { expiresIn: config.sessionSeconds, updateAge: 24 * 3600 },
+    hooks: { after: auditAccountWrites(db) },
     rateLimit: {
       enabled: true,
       storage: 'memory',

@@ -16,6 +16,11 @@ async function emailOf(request: Request): Promise<string> {
 
 /** better-auth's endpoints (sign-in, sign-out, sessions, password reset, organisations) under /api/auth. */
 export const ALL: APIRoute = async ({ request, clientAddress }) => {
+  // Trusts and members are served by our own routes (/api/members, /api/account), which apply membership
+  // end dates, school limits and the audit trail; the organization plugin answers only server-side calls.
+  if (new URL(request.url).pathname.startsWith('/api/auth/organization/')) {
+    return json({ error: { code: 'not_found', message: 'Use /api/members and /api/account for trusts and members.', details: null } }, 404);
+  }
   const clientIp = clientIpOf(request, clientAddress);
   const headers = new Headers(request.headers);
   headers.set(CLIENT_IP_HEADER, clientIp);
