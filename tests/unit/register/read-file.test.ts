@@ -138,3 +138,11 @@ function zipOf(entries: { name: string; data: Buffer; declaredSize?: number }[])
   end.writeUInt32LE(dir.length, 12); end.writeUInt32LE(offset, 16);
   return Buffer.concat([...locals, dir, end]);
 }
+
+describe('refusing registers that are too long', () => {
+  it('refuses more than 200,000 rows with a message saying how to split the file', async () => {
+    const lines = ['School,Room code,Floor area (m2),Ceiling height (m)'];
+    for (let i = 0; i < 200_100; i++) lines.push(`Oak,R${i},50,2.7`);
+    await expect(readRegisterFile(Buffer.from(lines.join('\n')), 'csv', new Map())).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/more than 200,000 rows.*Split/) });
+  });
+});
