@@ -3,7 +3,8 @@
  * occupancy → ventilation (windows, infiltration, mechanical) → CO2 per season → criteria → risk →
  * comfort → retrofit. Pure: no I/O, no clock, no randomness.
  */
-import { validateAssumptionSet } from './assumption-tools';
+import { completeAssumptionSet, validateAssumptionSet } from './assumption-tools';
+import { DEFAULT_ASSUMPTIONS } from './assumptions';
 import { occupiedHeatingDegreeHours, schoolDayHours, seasonOutdoorTempC } from './climate-regions';
 import { simulateDay, type DaySegment } from './co2-mass-balance';
 import { adaptiveMaxTempC, coldDowndraughtSpeedMs, draughtRatePct, glazingProxy, overheatingIndex, pmvPpd } from './comfort';
@@ -53,6 +54,10 @@ const SEASONS: readonly Season[] = ['winter', 'mid', 'summer'];
 
 /** What an assumption set implies once, shared by every room assessed under it. */
 interface Prepared {
+  /** The set with any assumption missing from an older stored version filled from the defaults. */
+  set: AssumptionSet;
+  /** Paths filled that way, reported with each result. */
+  filled: string[];
   timetable: readonly TimetableSegment[];
   dayHours: number;
   /** Occupancy-weighted hours of the day (lesson time at full occupancy), h. */
@@ -77,15 +82,18 @@ interface RegionDerived {
 
 const preparedCache = new WeakMap<AssumptionSet, Prepared>();
 
-function prepare(set: AssumptionSet): Prepared {
-  const cached = preparedCache.get(set);
+function prepare(given: AssumptionSet): Prepared {
+  const cached = preparedCache.get(given);
   if (cached) return cached;
+  const { set, filled } = completeAssumptionSet(given, DEFAULT_ASSUMPTIONS);
   validateAssumptionSet(set);
   const timetable = set.occupancy.timetable.value;
   let occupiedMinutes = 0;
   for (const s of timetable) occupiedMinutes += (s.endMinute - s.startMinute) * s.occupancyFraction;
   const seasons = set.seasons.value;
   const prepared: Prepared = {
+    set,
+    filled: filled.map((path) => `assumptions.${path} → Airtally default (not in this stored set)`),
     timetable,
     dayHours: schoolDayHours(timetable),
     occupiedHours: occupiedMinutes / 60,
@@ -96,7 +104,7 @@ function prepare(set: AssumptionSet): Prepared {
     thresholds: new Map(),
     segments: timetable.map((t) => ({ startMinute: t.startMinute, endMinute: t.endMinute, generationLps: 0, flowLps: 0, occupancyFraction: t.occupancyFraction })),
   };
-  preparedCache.set(set, prepared);
+  preparedCache.set(given, prepared);
   return prepared;
 }
 
@@ -189,10 +197,10 @@ function sortedUnique(values: number[]): number[] {
 export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSet, options: AssessOptions = {}): RoomAssessment {
   validateRoomInput(input);
   const p = prepare(assumptions);
-  const set = assumptions;
+  const set = p.set;
   const { room, block, school } = input;
   const withCurve = options.withCurve !== false;
-  const defaultsUsed: string[] = [];
+  const defaultsUsed: string[] = p.filled.length > 0 ? [...p.filled] : [];
 
   // --- Room geometry and occupancy -------------------------------------------------------------
   const volumeM3 = room.floorAreaM2 * room.ceilingHeightM;

@@ -35,6 +35,35 @@ function isAssumed(x: unknown): x is Assumed<unknown> {
   return typeof x === 'object' && x !== null && 'value' in x && 'status' in x && 'kind' in x && 'source' in x;
 }
 
+/**
+ * A set stored by an earlier engine version may lack assumptions added since. This returns the set with every
+ * missing assumption (or group) taken from `defaults`, and the paths it filled. Values present are kept as they are.
+ */
+export function completeAssumptionSet(set: AssumptionSet, defaults: AssumptionSet): { set: AssumptionSet; filled: string[] } {
+  const filled: string[] = [];
+  const merge = (node: Record<string, unknown>, base: Record<string, unknown>, path: string): Record<string, unknown> => {
+    let out = node;
+    for (const [key, baseValue] of Object.entries(base)) {
+      const here = node[key];
+      const childPath = path ? `${path}.${key}` : key;
+      if (here === undefined || here === null) {
+        if (out === node) out = { ...node };
+        out[key] = structuredClone(baseValue);
+        filled.push(childPath);
+      } else if (!isAssumed(baseValue) && typeof baseValue === 'object' && baseValue !== null && typeof here === 'object' && !Array.isArray(here)) {
+        const merged = merge(here as Record<string, unknown>, baseValue as Record<string, unknown>, childPath);
+        if (merged !== here) {
+          if (out === node) out = { ...node };
+          out[key] = merged;
+        }
+      }
+    }
+    return out;
+  };
+  const completed = merge(set as unknown as Record<string, unknown>, defaults as unknown as Record<string, unknown>, '') as unknown as AssumptionSet;
+  return { set: completed, filled };
+}
+
 /** Every assumed value of the set in a flat list, in declaration order. */
 export function listAssumptions(set: AssumptionSet): AssumptionEntry[] {
   const out: AssumptionEntry[] = [];

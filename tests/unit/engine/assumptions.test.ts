@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue } from '~/lib/engine/index';
+import { assessRoom, completeAssumptionSet, DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue } from '~/lib/engine/index';
+import { typicalClassroom } from './helpers';
 
 const STATUSES = ['confirmed', 'secondary', 'from_memory', 'common_practice'];
 
@@ -70,5 +71,26 @@ describe('editing an assumption set', () => {
     const second = bad.occupancy.timetable.value[1];
     if (second) second.startMinute = 605;
     expect(() => validateAssumptionSet(bad)).toThrow(/previous period ends/);
+  });
+});
+
+describe('sets stored by an earlier engine version', () => {
+  it('are completed from the defaults, and the result says which assumptions were filled', () => {
+    const old = structuredClone(DEFAULT_ASSUMPTIONS) as unknown as { comfort: Record<string, unknown>; version: string };
+    delete old.comfort.deskDistanceFromWindowM;
+    old.version = 'stored-2026-11';
+    const { set, filled } = completeAssumptionSet(old as unknown as typeof DEFAULT_ASSUMPTIONS, DEFAULT_ASSUMPTIONS);
+    expect(filled).toEqual(['comfort.deskDistanceFromWindowM']);
+    expect(set.comfort.deskDistanceFromWindowM.value).toBe(DEFAULT_ASSUMPTIONS.comfort.deskDistanceFromWindowM.value);
+    const a = assessRoom(typicalClassroom(), old as unknown as typeof DEFAULT_ASSUMPTIONS);
+    expect(a.assumptionsVersion).toBe('stored-2026-11');
+    expect(a.defaultsUsed[0]).toMatch(/^assumptions\.comfort\.deskDistanceFromWindowM → Airtally default/);
+  });
+
+  it('keep their own values', () => {
+    const edited = withAssumptionValue(DEFAULT_ASSUMPTIONS, 'air.outdoorCo2Ppm', 450, 'v2');
+    const { set, filled } = completeAssumptionSet(edited, DEFAULT_ASSUMPTIONS);
+    expect(filled).toEqual([]);
+    expect(set.air.outdoorCo2Ppm.value).toBe(450);
   });
 });
