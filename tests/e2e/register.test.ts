@@ -78,6 +78,21 @@ describe('the register page in Chromium', () => {
     await page.close();
   });
 
+  it('edits a block on the schools and blocks tab', async () => {
+    const page = await browser.newPage();
+    await page.goto(`${APP_URL}/app/register`);
+    await page.getByRole('tab', { name: 'Schools and blocks' }).click();
+    await page.getByTestId('blocks-table').waitFor();
+    await page.getByRole('button', { name: 'Edit Year built of block Main' }).click();
+    await page.getByRole('textbox', { name: 'Year built of block Main' }).fill('1972');
+    await page.keyboard.press('Enter');
+    await expect.poll(async () => page.getByRole('status').first().textContent()).toBe('Saved.');
+    const schools = (await (await api('/api/schools', { cookie: trust.cookie })).json()) as { schools: { id: string }[] };
+    const school = (await (await api(`/api/schools/${schools.schools[0]!.id}`, { cookie: trust.cookie })).json()) as { school: { blocks: { name: string; yearBuilt: number }[] } };
+    expect(school.school.blocks.find((b) => b.name === 'Main')?.yearBuilt).toBe(1972);
+    await page.close();
+  });
+
   it('shows a viewer the register and exports, but no import or edit controls', async () => {
     const viewerBrowser = await launchBrowser();
     const page = await viewerBrowser.newPage();

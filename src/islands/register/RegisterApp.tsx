@@ -4,14 +4,15 @@ import { registerQueryClient } from '../../lib/client/register';
 import { ImportHistory } from './ImportHistory';
 import { ImportPanel } from './ImportPanel';
 import { RoomsTable } from './RoomsTable';
+import { SchoolsEditor } from './SchoolsEditor';
 import type { RegisterOptions, RegisterPermissions, SchoolOption } from './types';
 
-type Tab = 'rooms' | 'import' | 'history';
+type Tab = 'rooms' | 'schools' | 'import' | 'history';
 
 /** The register page: the rooms table, the import (for those who may import) and the import history. */
 export default function RegisterApp(props: { schools: SchoolOption[]; options: RegisterOptions; can: RegisterPermissions }) {
   const [tab, setTab] = useState<Tab>('rooms');
-  const tabs: [Tab, string][] = [['rooms', 'Rooms'], ...(props.can.canImport ? [['import', 'Import a register'] as [Tab, string]] : []), ['history', 'Import history']];
+  const tabs: [Tab, string][] = [['rooms', 'Rooms'], ['schools', 'Schools and blocks'], ...(props.can.canImport ? [['import', 'Import a register'] as [Tab, string]] : []), ['history', 'Import history']];
   return (
     <QueryClientProvider client={registerQueryClient}>
       <div role="tablist" aria-label="Register" className="flex gap-1 border-b border-line">
@@ -25,6 +26,7 @@ export default function RegisterApp(props: { schools: SchoolOption[]; options: R
       </div>
       <div role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`} className="pt-4">
         {tab === 'rooms' && <RoomsTable schools={props.schools} options={props.options} can={props.can} />}
+        {tab === 'schools' && <SchoolsEditor schools={props.schools} options={props.options} can={props.can} />}
         {tab === 'import' && <ImportPanel options={props.options} />}
         {tab === 'history' && <ImportHistory />}
       </div>

@@ -15,6 +15,9 @@ export interface RegisterOptions {
   ventilationTypes: Option[];
   ageGroups: Option[];
   windowTypes: Option[];
+  phases: Option[];
+  climateRegions: Option[];
+  constructionTypes: Option[];
   /** Register fields with their template headers, for the column-mapping step. */
   fields: Option[];
 }

@@ -139,3 +139,28 @@ export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteM
 
 /** The same checks the server runs on an edit, so the editor can say what is wrong before sending. */
 export { physicalChecks, RoomFieldsSchema } from '../server/register/register.schemas';
+
+/** A school with its blocks, as GET /api/schools/[id] answers. */
+export type { School, Block } from '../server/estate/estate.types';
+
+/** One school with its blocks. */
+export function useSchool(id: string | undefined) {
+  return useQuery({
+    queryKey: ['register', 'school', id],
+    enabled: Boolean(id),
+    queryFn: () => apiFetch<{ school: import('../server/estate/estate.types').School }>(`/api/schools/${id}`),
+  });
+}
+
+/** Changes a school or a block, adds or deletes a block; refetches the school afterwards. */
+export function useEstateEdit(schoolId: string | undefined) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (edit: { kind: 'school' | 'block'; id: string; changes: Record<string, unknown> } | { kind: 'newBlock'; name: string } | { kind: 'deleteBlock'; id: string }) => {
+      if (edit.kind === 'newBlock') return apiFetch('/api/blocks', { method: 'POST', body: { schoolId, name: edit.name } });
+      if (edit.kind === 'deleteBlock') return apiFetch(`/api/blocks/${edit.id}`, { method: 'DELETE' });
+      return apiFetch(`/api/${edit.kind === 'school' ? 'schools' : 'blocks'}/${edit.id}`, { method: 'PATCH', body: edit.changes });
+    },
+    onSettled: () => client.invalidateQueries({ queryKey: ['register'] }),
+  });
+}
