@@ -6,6 +6,7 @@
  */
 import type { ClimateRegion, ClimateRegionData, Season, SeasonProfile, TimetableSegment } from './types';
 
+/** Source line shared by every region of the table. */
 export const CLIMATE_SOURCE = 'Approximate Met Office 1991–2020 regional climate averages (recalled, not checked)';
 
 function region(name: string, temps: number[], winter: number, mid: number, summer: number): ClimateRegionData {

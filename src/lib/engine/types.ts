@@ -15,6 +15,7 @@ import type {
   WindowType,
 } from './vocabulary';
 
+/** The vocabulary types, re-exported for callers of the engine. */
 export type {
   AgeGroup,
   ClimateRegion,
@@ -125,6 +126,7 @@ export interface Assumed<T> {
   note?: string;
 }
 
+/** The three representative seasons of the school year. */
 export type Season = 'winter' | 'mid' | 'summer';
 
 /** One period of the school day with constant occupancy and window state. Minutes are minutes after midnight. */
@@ -352,6 +354,7 @@ export interface ThresholdExceedance {
   occupiedMinutesOver: number;
 }
 
+/** One sample of the CO2 curve. */
 export interface CurvePoint {
   /** Minutes after midnight. */
   minute: number;
@@ -401,6 +404,7 @@ export interface AppliedCriterion {
 /** Four bands of our own naming, least to most concern. */
 export type RiskBand = 'fresh' | 'stuffy' | 'stale' | 'very_stale';
 
+/** How much poor air pupils breathe in this room, banded, with the reason in words. */
 export interface RiskResult {
   pupilHoursPerYearAbove: number;
   thresholdPpm: number;
@@ -411,6 +415,7 @@ export interface RiskResult {
   reason: string;
 }
 
+/** Winter comfort, summer overheating and the glazing proxy of a room. */
 export interface ComfortResult {
   winter: {
     airTempC: number;
@@ -459,12 +464,14 @@ export interface RetrofitMoney {
   npvGbp: number;
 }
 
+/** One model of unit and how many of it. */
 export interface RetrofitUnitLine {
   modelId: string;
   modelName: string;
   count: number;
 }
 
+/** The heat-recovery retrofit of a room: units, money for the room (fields of RetrofitMoney) and per unit, and the comparison with today. */
 export interface RetrofitResult extends RetrofitMoney {
   targetPackId: string;
   requiredSupplyLps: number;
@@ -545,6 +552,7 @@ export interface RankInput {
   capitalCostGbp: number | null;
 }
 
+/** A ranked room with its place, score and reason. */
 export interface RankedRow extends RankInput {
   rank: number;
   /** Weighted score 0–1 and its three normalised parts. */
