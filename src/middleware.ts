@@ -19,7 +19,9 @@ export const onRequest = defineMiddleware(async (context, next) => {
   // better-auth reads its own session; static assets need none.
   if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
 
-  const session = await getAuth().api.getSession({ headers: context.request.headers });
+  // returnHeaders: when better-auth extends the session it re-issues the cookie, which we pass on below.
+  const { headers: sessionHeaders, response: session } = await getAuth().api.getSession({ headers: context.request.headers, returnHeaders: true });
+  const refreshedCookies = sessionHeaders?.getSetCookie() ?? [];
   if (session) {
     const { user } = session;
     context.locals.user = { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified };
@@ -40,11 +42,24 @@ export const onRequest = defineMiddleware(async (context, next) => {
       return context.redirect(`/sign-in?next=${encodeURIComponent(nextPath)}`, 303);
     }
     if (!context.locals.trust && !WITHOUT_TRUST.some((p) => path === p || path.startsWith(`${p}/`))) {
-      return context.redirect('/app/account?notice=no-trust', 303);
+      return withCookies(context.redirect('/app/account?notice=no-trust', 303), refreshedCookies);
     }
   }
   // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
   const readOnly = await billingWriteGate(context.locals, context.request);
   if (readOnly) return readOnly;
-  return next();
+  return withCookies(await next(), refreshedCookies);
 });
+
+/** Adds re-issued session cookies to a response (copying it when its headers are immutable). */
+function withCookies(response: Response, cookies: string[]): Response {
+  if (cookies.length === 0) return response;
+  try {
+    for (const cookie of cookies) response.headers.append('set-cookie', cookie);
+    return response;
+  } catch {
+    const copy = new Response(response.body, response);
+    for (const cookie of cookies) copy.headers.append('set-cookie', cookie);
+    return copy;
+  }
+}
