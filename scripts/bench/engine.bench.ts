@@ -15,7 +15,7 @@ import {
 } from '../../src/lib/engine/vocabulary';
 
 const ROOMS = 20_000;
-const ROUNDS = 5;
+const ROUNDS = 10;
 
 /** Small deterministic PRNG (mulberry32) so every run measures the same rooms. */
 function prng(seed: number): () => number {
