@@ -136,6 +136,11 @@ describe('payment failure', () => {
     expect((await api('/api/rooms', { cookie })).status).toBe(200);
     expect((await api('/api/exports/register.csv', { cookie })).status).toBe(200);
     expect(await (await api('/app/schools', { cookie })).text()).toContain('data-mode="read_only"');
+    const invite = await api('/app/settings/members', {
+      method: 'POST', cookie, headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'action=invite&email=colleague%40test.airtally.test&role=viewer',
+    });
+    expect(invite.status).toBe(402);
+    expect(await invite.text()).toContain('nothing has been deleted');
 
     // The billing page links the overdue invoice; paying it with another card makes the trust writable again.
     const billingPage = await (await api('/app/settings/billing', { cookie })).text();

@@ -110,19 +110,20 @@ export async function changeInterval(db: Kysely<Database>, stripe: Stripe, req: 
   const sub = await stripe.subscriptions.retrieve(subscriptionId);
   const item = sub.items.data[0];
   if (!item) throw conflict('The subscription has no plan item to change.');
-  if (item.price.recurring?.interval !== interval) {
-    const prices = await planPrices(stripe);
-    await stripe.subscriptions.update(subscriptionId, { items: [{ id: item.id, price: prices[interval] }], proration_behavior: 'create_prorations' });
-  }
-  await syncSubscription(db, stripe, subscriptionId, req.actor, `billing period set to ${interval === 'year' ? 'yearly' : 'monthly'} by a trust admin`);
+  const prices = await planPrices(stripe);
+  const change = item.price.recurring?.interval === interval
+    ? undefined
+    : () => stripe.subscriptions.update(subscriptionId, { items: [{ id: item.id, price: prices[interval] }], proration_behavior: 'create_prorations' });
+  await syncSubscription(db, stripe, req.trust.id, subscriptionId, req.actor, `billing period set to ${interval === 'year' ? 'yearly' : 'monthly'} by a trust admin`, change);
   return billingOverview(db, req.trust.id);
 }
 
 /** Cancels at the end of the paid period (true) or takes that back (false). Data is never deleted. */
 export async function setCancelAtPeriodEnd(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, cancel: boolean): Promise<BillingOverview> {
   const { subscriptionId } = await liveSubscription(db, req.trust.id);
-  await stripe.subscriptions.update(subscriptionId, { cancel_at_period_end: cancel });
-  await syncSubscription(db, stripe, subscriptionId, req.actor, cancel ? 'cancelled at period end by a trust admin' : 'resumed by a trust admin');
+  await syncSubscription(db, stripe, req.trust.id, subscriptionId, req.actor, cancel ? 'cancelled at period end by a trust admin' : 'resumed by a trust admin', () =>
+    stripe.subscriptions.update(subscriptionId, { cancel_at_period_end: cancel }),
+  );
   return billingOverview(db, req.trust.id);
 }
 
@@ -135,13 +136,14 @@ export async function syncQuantity(db: Kysely<Database>, stripe: Stripe, trustId
   if (!account.subscriptionId || !CHANGEABLE.has(account.status)) return;
   const wanted = billableSchools((await countEstate(db, trustId)).schools);
   if (account.quantity === wanted) return;
-  const sub = await stripe.subscriptions.retrieve(account.subscriptionId);
+  const subscriptionId = account.subscriptionId;
+  const sub = await stripe.subscriptions.retrieve(subscriptionId);
   const item = sub.items.data[0];
   if (!item) return;
-  if (item.quantity !== wanted) {
-    await stripe.subscriptions.update(account.subscriptionId, { items: [{ id: item.id, quantity: wanted }], proration_behavior: 'create_prorations' });
-  }
-  await syncSubscription(db, stripe, account.subscriptionId, actor, `school count is now ${wanted}`);
+  const change = item.quantity === wanted
+    ? undefined
+    : () => stripe.subscriptions.update(subscriptionId, { items: [{ id: item.id, quantity: wanted }], proration_behavior: 'create_prorations' });
+  await syncSubscription(db, stripe, trustId, subscriptionId, actor, `school count is now ${wanted}`, change);
 }
 
 /**

@@ -123,8 +123,35 @@ function planSnapshot(a: BillingAccount) {
   return { plan: a.plan, status: a.status, interval: a.interval, quantity: a.quantity, cancelAtPeriodEnd: a.cancelAtPeriodEnd, paymentFailedAt: a.paymentFailedAt };
 }
 
-/** Reads a subscription from the provider and stores it in one transaction. */
-export async function syncSubscription(db: Kysely<Database>, stripe: Stripe, subscriptionId: string, actor: Actor, reason: string): Promise<BillingAccount | null> {
-  const state = await readSubscription(stripe, subscriptionId);
-  return db.transaction().execute((trx) => applySubscriptionState(trx, state, actor, reason));
+/**
+ * Runs `fn` in a transaction holding the trust's billing row lock. Every change to a trust's billing
+ * state (admin actions, webhooks) goes through it and reads the provider inside the lock, so the
+ * last writer always stored the freshest provider state, and an admin's own change is audited as theirs.
+ */
+export async function withBillingLock<T>(db: Kysely<Database>, trustId: string, fn: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+  return db.transaction().execute(async (trx) => {
+    await trx.insertInto('billing_accounts').values({ trust_id: trustId }).onConflict((oc) => oc.column('trust_id').doNothing()).execute();
+    await sql`SELECT 1 FROM billing_accounts WHERE trust_id = ${trustId} FOR UPDATE`.execute(trx);
+    return fn(trx);
+  });
+}
+
+/**
+ * Optionally changes the subscription at the provider (`change`), then reads it back and stores it,
+ * all under the trust's billing lock.
+ */
+export async function syncSubscription(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  trustId: string,
+  subscriptionId: string,
+  actor: Actor,
+  reason: string,
+  change?: () => Promise<unknown>,
+): Promise<BillingAccount | null> {
+  return withBillingLock(db, trustId, async (trx) => {
+    if (change) await change();
+    const state = await readSubscription(stripe, subscriptionId);
+    return applySubscriptionState(trx, { ...state, trustId }, actor, reason);
+  });
 }

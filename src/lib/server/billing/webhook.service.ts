@@ -1,9 +1,9 @@
-import type { Kysely } from 'kysely';
+import type { Kysely, Transaction } from 'kysely';
 import type Stripe from 'stripe';
 import type { Database } from '../../../../db/database';
 import { badRequest } from '../http/errors';
 import { webhookSecret } from './provider';
-import { applySubscriptionState, readSubscription, trustForCustomer, type SubscriptionState } from './subscription-sync';
+import { applySubscriptionState, readSubscription, trustForCustomer, withBillingLock, type SubscriptionState } from './subscription-sync';
 import { notifyPaymentFailed } from './notify';
 
 /** Where an event's object points: its subscription, customer and (when stated) trust. */
@@ -68,16 +68,14 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
   const seen = await db.selectFrom('payment_events').select('id').where('id', '=', event.id).executeTakeFirst();
   if (seen) return { duplicate: true };
   const subject = subjectOf(event);
-  const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
-  const outcome = await db.transaction().execute(async (trx) => {
-    const trustId = subject.trustId ?? state?.trustId ?? (subject.customerId ? await trustForCustomer(trx, subject.customerId) : null);
-    const known = trustId ? await trx.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst() : undefined;
+  const trustId = await resolveTrust(db, stripe, subject);
+  const store = async (trx: Transaction<Database> | Kysely<Database>) => {
     const inserted = await trx
       .insertInto('payment_events')
       .values({
         id: event.id,
         type: event.type,
-        trust_id: known ? trustId : null,
+        trust_id: trustId,
         object_id: idOf((event.data.object as unknown as Record<string, unknown>)['id']),
         provider_created_at: new Date(event.created * 1000),
         payload: JSON.stringify(event),
@@ -85,16 +83,29 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
       .onConflict((oc) => oc.column('id').doNothing())
       .returning('id')
       .executeTakeFirst();
-    if (!inserted) return { duplicate: true, trustId: null };
-    if (state && known) {
-      await applySubscriptionState(trx, { ...state, trustId: known.id }, { actorUserId: null, actorEmail: 'payment provider' }, `provider event ${event.type}`);
-    }
-    return { duplicate: false, trustId: known ? known.id : null };
+    return Boolean(inserted);
+  };
+  if (!trustId) return { duplicate: !(await store(db)) };
+  const stored = await withBillingLock(db, trustId, async (trx) => {
+    if (!(await store(trx))) return false;
+    // Read inside the lock: whatever order events come in, the last one stores the freshest state.
+    const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
+    if (state) await applySubscriptionState(trx, { ...state, trustId }, { actorUserId: null, actorEmail: 'payment provider' }, `provider event ${event.type}`);
+    return true;
   });
-  if (!outcome.duplicate && outcome.trustId && event.type === 'invoice.payment_failed') {
-    await notifyPaymentFailed(db, outcome.trustId, event.data.object as Stripe.Invoice).catch((error: unknown) => {
+  if (stored && event.type === 'invoice.payment_failed') {
+    await notifyPaymentFailed(db, trustId, event.data.object as Stripe.Invoice).catch((error: unknown) => {
       console.error('Could not send the payment-failed e-mail', error);
     });
   }
-  return { duplicate: outcome.duplicate };
+  return { duplicate: !stored };
+}
+
+/** The trust an event belongs to (stated in metadata, or found by customer), if it is one of ours. */
+async function resolveTrust(db: Kysely<Database>, stripe: Stripe, subject: EventSubject): Promise<string | null> {
+  let trustId = subject.trustId ?? (subject.customerId ? await trustForCustomer(db, subject.customerId) : null);
+  if (!trustId && subject.subscriptionId) trustId = (await readSubscriptionIfExists(stripe, subject.subscriptionId))?.trustId ?? null;
+  if (!trustId) return null;
+  const known = await db.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst();
+  return known ? known.id : null;
 }
