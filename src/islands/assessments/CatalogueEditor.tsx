@@ -25,12 +25,12 @@ const COLUMNS: { key: keyof Model; label: string; kind: 'technical' | 'financial
   { key: 'id', label: 'Id', kind: 'technical' },
   { key: 'name', label: 'Name', kind: 'technical' },
   { key: 'nominalFlowLps', label: 'Flow (l/s)', kind: 'technical', step: '1' },
-  { key: 'heatRecoveryEfficiency', label: 'Heat recovery (0–1)', kind: 'technical', step: '0.01' },
-  { key: 'specificFanPowerWPerLps', label: 'SFP (W per l/s)', kind: 'technical', step: '0.05' },
+  { key: 'heatRecoveryEfficiency', label: 'Heat recovery (0–1)', kind: 'technical', step: 'any' },
+  { key: 'specificFanPowerWPerLps', label: 'SFP (W per l/s)', kind: 'technical', step: 'any' },
   { key: 'soundDbA', label: 'Sound (dB(A))', kind: 'technical', step: '1' },
   { key: 'lifeYears', label: 'Life (years)', kind: 'technical', step: '1' },
-  { key: 'installedCostGbp', label: 'Installed cost (£)', kind: 'financial', step: '50' },
-  { key: 'annualMaintenanceGbp', label: 'Maintenance (£/year)', kind: 'financial', step: '5' },
+  { key: 'installedCostGbp', label: 'Installed cost (£)', kind: 'financial', step: 'any' },
+  { key: 'annualMaintenanceGbp', label: 'Maintenance (£/year)', kind: 'financial', step: 'any' },
 ];
 
 function Editor({ models: initial, canTechnical, canFinancial }: Props) {

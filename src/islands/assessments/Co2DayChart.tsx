@@ -47,22 +47,21 @@ export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
         xName: 'Time',
         yName: c.label,
         title: c.label,
-        stroke: colours[i % colours.length],
+        stroke: colours[i % colours.length] ?? '#1f6f6b',
         marker: { enabled: false },
-        tooltip: { renderer: ({ datum }: { datum: { minute: number; co2Ppm: number } }) => ({ content: `${clock(datum.minute)}: ${Math.round(datum.co2Ppm).toLocaleString('en-GB')} ppm` }) },
       })),
-      axes: [
-        { type: 'number', position: 'bottom', nice: false, label: { formatter: ({ value }: { value: number }) => clock(value) }, title: { text: 'Time of day' } },
-        {
+      axes: {
+        x: { type: 'number', position: 'bottom', nice: false, label: { formatter: ({ value }: { value: number }) => clock(value) }, title: { text: 'Time of day' } },
+        y: {
           type: 'number',
           position: 'left',
           min: 0,
           title: { text: 'CO2 (ppm)' },
           crossLines: limits.map((l) => ({ type: 'line' as const, value: l.ppm, stroke: dark ? '#f08a83' : '#a1302b', lineDash: [6, 4], label: { text: l.label, position: 'top-right' as const } })),
         },
-      ],
+      },
       legend: { position: 'bottom' },
-    } as unknown as AgCartesianChartOptions;
+    };
   }, [curves, limits, dark]);
   return <AgCharts options={options} style={{ height: '100%' }} />;
 }

@@ -34,7 +34,7 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
       </div>
       {data.status === 'succeeded' && (
         <p className="mt-2 text-sm" role="status">
-          Finished in {seconds(data)}. <a href="/app/priorities">See the priorities</a> or <a href="/api/exports/results.xlsx">download the results (.xlsx)</a>.
+          Finished in {seconds(data)}. <a href="/app/priorities" className="underline">See the priorities</a> or <a href="/api/exports/results.xlsx" className="underline">download the results (.xlsx)</a>.
           {data.problems.length > 0 && ` ${data.problems.length} room(s) could not be assessed: see below.`}
         </p>
       )}

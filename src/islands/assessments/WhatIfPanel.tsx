@@ -95,7 +95,7 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
         </label>
         <label className="text-sm">
           <span className="block text-ink-muted">Openable window area (m², up to {glazingAreaM2})</span>
-          <input name="openableAreaM2" type="number" min={0} max={glazingAreaM2} step={0.05} value={openableText} onChange={(e) => setOpenableText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+          <input name="openableAreaM2" type="number" min={0} max={glazingAreaM2} step="any" value={openableText} onChange={(e) => setOpenableText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
         </label>
         <div className="flex gap-2 text-sm">
           <label className="flex-1">

@@ -1,0 +1,135 @@
+import { mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { createDb } from '../../src/lib/server/db/client';
+import { launchBrowser } from '../helpers/browser';
+import { APP_URL, DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+
+// The assessments pages in Chromium: start a run and watch it finish, a room's results with its chart and
+// what-if, and the assumptions page.
+
+const AXE = readFileSync(join(process.cwd(), 'node_modules', 'axe-core', 'axe.min.js'), 'utf8');
+const SHOTS = join(process.cwd(), '.data', 'screens');
+const db = createDb(process.env.DATABASE_URL!);
+
+async function seriousViolations(page: Page): Promise<string[]> {
+  await page.addScriptTag({ content: AXE });
+  const violations = await page.evaluate(async () => {
+    type V = { id: string; impact: string | null; help: string; nodes: { target: string[] }[] };
+    const result = await (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: V[] }> } }).axe.run(document, { resultTypes: ['violations'] });
+    return result.violations;
+  });
+  return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(', ')}`);
+}
+
+async function signedInPage(email: string): Promise<{ page: Page; context: BrowserContext }> {
+  const context = await launchBrowser();
+  const cookie = await signIn(email);
+  const url = new URL(APP_URL);
+  await context.addCookies(
+    cookie.split('; ').map((pair) => {
+      const at = pair.indexOf('=');
+      return { name: pair.slice(0, at), value: pair.slice(at + 1), domain: url.hostname, path: '/', httpOnly: true, sameSite: 'Lax' as const };
+    }),
+  );
+  return { page: await context.newPage(), context };
+}
+
+describe('assessments pages in Chromium', () => {
+  const contexts: BrowserContext[] = [];
+  beforeAll(async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    // Results to show on the room page, whichever test runs first.
+    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const { id } = (await (await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) })).json()) as { id: string };
+    for (let i = 0; i < 150; i += 1) {
+      const { status } = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
+      if (status === 'succeeded' || status === 'failed') break;
+      await new Promise((r) => setTimeout(r, 200));
+    }
+  });
+  afterAll(async () => {
+    for (const c of contexts) await c.close();
+    await db.destroy();
+  });
+
+  it('an estates manager starts a run of the whole trust and sees the progress bar reach the end', async () => {
+    const { page, context } = await signedInPage(DEMO_ACCOUNTS.estates_manager);
+    contexts.push(context);
+    await page.goto('/app/assessments');
+    await page.getByRole('button', { name: 'Run assessment' }).click();
+    const progress = page.locator('[data-testid="run-progress"][data-status="succeeded"]');
+    await progress.waitFor({ timeout: 45_000 });
+    await expect(page.getByRole('progressbar').getAttribute('aria-valuenow')).resolves.toBe('100');
+    await expect(page.getByRole('status').textContent()).resolves.toMatch(/Finished in/);
+    await page.locator('[data-testid="runs-table"] tbody tr').first().getByText('Finished').waitFor();
+    await page.screenshot({ path: join(SHOTS, 'assessments-run.png'), fullPage: true });
+    expect(await seriousViolations(page)).toEqual([]);
+  });
+
+  it('a viewer sees the runs but no button to start one', async () => {
+    const { page, context } = await signedInPage(DEMO_ACCOUNTS.viewer);
+    contexts.push(context);
+    await page.goto('/app/assessments');
+    await page.locator('[data-testid="runs-table"]').waitFor();
+    expect(await page.getByRole('button', { name: 'Run assessment' }).count()).toBe(0);
+  });
+
+  it('a room page shows the CO2 chart, the reason, the retrofit and the cautions, and answers a what-if', async () => {
+    const room = await db
+      .selectFrom('room_results').innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+      .select(['rooms.id', 'rooms.pupils'])
+      .where('room_results.trust_id', '=', DEMO_TRUST.id).where('room_results.is_current', '=', true).where('room_results.unit_count', '>', 0)
+      .orderBy('room_results.rank').limit(1).executeTakeFirstOrThrow();
+    const { page, context } = await signedInPage(DEMO_ACCOUNTS.viewer);
+    contexts.push(context);
+    const chartErrors: string[] = [];
+    page.on('console', (m) => {
+      if ((m.type() === 'error' || m.type() === 'warning') && m.text().includes('AG Charts')) chartErrors.push(m.text());
+    });
+    await page.goto(`/app/rooms/${room.id}`);
+    await page.locator('[data-testid="room-attributes"]').waitFor();
+    await page.locator('[data-testid="co2-chart"] canvas').first().waitFor({ timeout: 20_000 });
+    expect((await page.locator('[data-testid="risk-reason"]').textContent())!.length).toBeGreaterThan(20);
+    await expect(page.locator('[data-testid="units-recommended"]').textContent()).resolves.toMatch(/\d+ × /);
+    await expect(page.locator('[data-testid="comparison-today"]').isVisible()).resolves.toBe(true);
+    await expect(page.getByRole('note', { name: 'Caution' }).first().textContent()).resolves.toMatch(/Screening estimates, not a design/);
+
+    // The panel hydrates when scrolled into view (client:visible); Astro drops `ssr` once it has.
+    await page.getByRole('heading', { name: 'What if…' }).scrollIntoViewIfNeeded();
+    await page.locator('astro-island[component-url*="WhatIfPanel"]:not([ssr])').waitFor({ timeout: 20_000 });
+    await page.getByLabel('Pupils').fill(String(room.pupils + 5));
+    await page.getByRole('button', { name: 'Show what changes' }).click();
+    const result = page.locator('[data-testid="what-if-result"]');
+    await page.locator('[data-testid="what-if-result"], [role="alert"]').first().waitFor({ timeout: 20_000 });
+    await page.screenshot({ path: join(SHOTS, 'room-what-if.png'), fullPage: true });
+    expect(await page.locator('[role="alert"]').allTextContents()).toEqual([]);
+    await expect(result.textContent()).resolves.toContain(`Pupils ${room.pupils} → ${room.pupils + 5}`);
+    await page.locator('[data-testid="what-if-result"] canvas').first().waitFor({ timeout: 20_000 });
+    await page.screenshot({ path: join(SHOTS, 'room-results.png'), fullPage: true });
+    expect(chartErrors).toEqual([]);
+    expect(await seriousViolations(page)).toEqual([]);
+  });
+
+  it('the assumptions page shows sources and status tags, flags the criteria conflict, and offers editing by role', async () => {
+    const { page, context } = await signedInPage(DEMO_ACCOUNTS.finance_lead);
+    contexts.push(context);
+    await page.goto('/app/settings/assumptions');
+    await page.locator('astro-island[component-url*="CatalogueEditor"]').scrollIntoViewIfNeeded();
+    await page.locator('astro-island[component-url*="CatalogueEditor"]:not([ssr])').waitFor({ timeout: 20_000 });
+    const criteria = page.locator('tr[data-path="criteria.packs"]');
+    await expect(criteria.textContent()).resolves.toMatch(/Flagged/);
+    await expect(page.locator('tr[data-path="finance.discountRate"]').textContent()).resolves.toMatch(/Green Book.*confirmed/s);
+    // A finance lead's editor lists only financial values.
+    const options = await page.locator('[data-testid="assumption-editor"] select[name="path"] option').allTextContents();
+    expect(options.length).toBeGreaterThan(0);
+    for (const o of options) expect(o).toMatch(/\(financial\)$/);
+    // Costs are editable, flows are not.
+    await expect(page.getByLabel('Installed cost (£) of Wall unit 150').isEnabled()).resolves.toBe(true);
+    await expect(page.getByLabel('Flow (l/s) of Wall unit 150').isEnabled()).resolves.toBe(false);
+    await page.screenshot({ path: join(SHOTS, 'assumptions.png'), fullPage: true });
+    expect(await seriousViolations(page)).toEqual([]);
+  });
+});
