@@ -87,6 +87,19 @@ export interface MembershipSchoolsTable {
   school_id: string;
 }
 
+/** Limits chosen when inviting someone, applied to the membership on acceptance. */
+export interface InvitationLimitsTable {
+  invitation_id: string;
+  limited_to_schools: Generated<boolean>;
+  access_ends_on: ColumnType<string | null, string | null | undefined, string | null>;
+}
+
+/** The schools an invitation's membership will be limited to. */
+export interface InvitationSchoolsTable {
+  invitation_id: string;
+  school_id: string;
+}
+
 /** Tables of the sign-in, sessions, members and invitations (better-auth) plus membership limits feature. */
 export interface AuthTables {
   user: UserTable;
@@ -97,4 +110,6 @@ export interface AuthTables {
   invitation: InvitationTable;
   membership_limits: MembershipLimitsTable;
   membership_schools: MembershipSchoolsTable;
+  invitation_limits: InvitationLimitsTable;
+  invitation_schools: InvitationSchoolsTable;
 }

@@ -98,6 +98,30 @@ describe('invitations', () => {
     expect(audit.map((a) => a.action).sort()).toEqual(['member.invited', 'member.joined']);
   });
 
+  it('carries school limits and an end date chosen when inviting onto the membership', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const email = uniqueEmail('head-teacher');
+    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').orderBy('name', 'desc').executeTakeFirstOrThrow();
+    const tomorrow = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
+    const invite = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer', schoolIds: [school.id], accessEndsOn: tomorrow }) });
+    expect(invite.status).toBe(201);
+    const { invitation } = await json<{ invitation: { id: string } }>(invite);
+    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Head Teacher', email, password: DEMO_PASSWORD, invitationId: invitation.id }) });
+    const cookie = cookieFrom(signUp);
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ role: 'viewer', schoolIds: [school.id] });
+    const { members } = await json<{ members: { email: string; accessEndsOn: string | null }[] }>(await api('/api/members', { cookie: admin }));
+    expect(members.find((m) => m.email === email)?.accessEndsOn).toBe(tomorrow);
+  });
+
+  it('refuses invitation limits naming another trust’s school or a past end date', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const past = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer', accessEndsOn: '2020-01-31' }) });
+    expect(past.status).toBe(400);
+    expect((await json<{ error: { message: string } }>(past)).error.message).toContain('after today');
+    const foreign = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer', schoolIds: ['00000000-0000-4000-8000-000000000000'] }) });
+    expect(foreign.status).toBe(400);
+  });
+
   it('refuses an invitation with a role that does not exist', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
     const response = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'owner' }) });

@@ -1,4 +1,4 @@
-import type { Kysely } from 'kysely';
+import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import { recordAudit } from '../audit/audit.repository';
 import { getAuth } from './auth';
@@ -63,10 +63,32 @@ export async function signUp(db: Kysely<Database>, input: SignUpInput, requestHe
   return { headers, user: { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified }, trust };
 }
 
+/** Copies the limits chosen when inviting (schools, end date) onto the new membership. */
+async function applyInvitationLimits(db: Kysely<Database>, invitationId: string, memberId: string): Promise<void> {
+  const limits = await db
+    .selectFrom('invitation_limits')
+    .select(['limited_to_schools', sql<string | null>`to_char(access_ends_on, 'YYYY-MM-DD')`.as('access_ends_on')])
+    .where('invitation_id', '=', invitationId)
+    .executeTakeFirst();
+  if (!limits) return;
+  await db.transaction().execute(async (trx) => {
+    await trx
+      .insertInto('membership_limits')
+      .values({ member_id: memberId, limited_to_schools: limits.limited_to_schools, access_ends_on: limits.access_ends_on })
+      .execute();
+    await trx
+      .insertInto('membership_schools')
+      .columns(['member_id', 'school_id'])
+      .expression(trx.selectFrom('invitation_schools').select([sql<string>`${memberId}`.as('member_id'), 'school_id']).where('invitation_id', '=', invitationId))
+      .execute();
+  });
+}
+
 /** Accepts an invitation for the signed-in person and makes its trust their active one. */
 export async function acceptInvitation(db: Kysely<Database>, invitationId: string, user: { id: string; email: string }, requestHeaders: Headers) {
   const invitation = await checkInvitation(db, invitationId, user.email);
   const result = await authCall(() => getAuth().api.acceptInvitation({ body: { invitationId }, headers: requestHeaders }));
+  if (result?.member) await applyInvitationLimits(db, invitationId, result.member.id);
   await recordAudit(db, {
     trustId: invitation.trustId, actorUserId: user.id, actorEmail: user.email, action: 'member.joined', entityType: 'member',
     entityId: result?.member.id ?? null, summary: `${user.email} accepted the invitation and joined as ${invitation.role}`, after: { role: invitation.role },

@@ -27,17 +27,26 @@ export const SignInSchema = z.object({ email, password: z.string().min(1, 'Enter
 
 export const RoleSchema = z.enum(ROLES, { message: `Role must be one of: ${ROLES.join(', ')}.` });
 
-/** An invitation to join the active trust. */
-export const InviteSchema = z.object({ email, role: RoleSchema });
-export type InviteInput = z.infer<typeof InviteSchema>;
-
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2027-07-31.');
+const schoolIds = z.array(z.string().uuid('School ids must be valid ids.')).max(500);
+
+/** An invitation to join the active trust, optionally limited to schools (null = all) and to an end date. */
+export const InviteSchema = z.object({
+  email,
+  role: RoleSchema,
+  schoolIds: schoolIds.nullable().optional(),
+  accessEndsOn: isoDate
+    .refine((d) => d > new Date().toISOString().slice(0, 10), 'The end date must be after today.')
+    .nullable()
+    .optional(),
+});
+export type InviteInput = z.infer<typeof InviteSchema>;
 
 /** Changes to one membership: role, school limits (null = all schools), end date (null = none). */
 export const MemberUpdateSchema = z
   .object({
     role: RoleSchema.optional(),
-    schoolIds: z.array(z.string().uuid('School ids must be valid ids.')).max(500).nullable().optional(),
+    schoolIds: schoolIds.nullable().optional(),
     accessEndsOn: isoDate.nullable().optional(),
   })
   .refine((v) => v.role !== undefined || v.schoolIds !== undefined || v.accessEndsOn !== undefined, {

@@ -26,6 +26,10 @@ export interface InvitationView {
   email: string;
   role: Role;
   expiresAt: string;
+  /** Schools the membership will be limited to; null = all. */
+  schoolIds: string[] | null;
+  /** ISO date on which the membership's access will end, or null. */
+  accessEndsOn: string | null;
 }
 
 /** Who acts, and in which trust. */
@@ -52,19 +56,28 @@ export async function listMembers(db: Kysely<Database>, trust: ActiveTrust): Pro
     .orderBy('u.name')
     .execute();
   const invitations = await db
-    .selectFrom('invitation')
-    .select(['id', 'email', 'role', 'expiresAt'])
-    .where('organizationId', '=', trust.id)
-    .where('status', '=', 'pending')
-    .where('expiresAt', '>', new Date())
-    .orderBy('createdAt', 'desc')
+    .selectFrom('invitation as i')
+    .leftJoin('invitation_limits as l', 'l.invitation_id', 'i.id')
+    .select([
+      'i.id', 'i.email', 'i.role', 'i.expiresAt',
+      sql<boolean>`coalesce(l.limited_to_schools, false)`.as('limited'),
+      sql<string[]>`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM invitation_schools s WHERE s.invitation_id = i.id), '{}')`.as('schoolIds'),
+      sql<string | null>`to_char(l.access_ends_on, 'YYYY-MM-DD')`.as('accessEndsOn'),
+    ])
+    .where('i.organizationId', '=', trust.id)
+    .where('i.status', '=', 'pending')
+    .where('i.expiresAt', '>', new Date())
+    .orderBy('i.createdAt', 'desc')
     .execute();
   return {
     members: members.map((m) => ({
       id: m.id, userId: m.userId, name: m.name, email: m.email, role: m.role as Role, joinedAt: new Date(m.createdAt).toISOString(),
       schoolIds: m.limited ? m.schoolIds : null, accessEndsOn: m.accessEndsOn, ended: m.ended,
     })),
-    invitations: invitations.map((i) => ({ id: i.id, email: i.email, role: i.role as Role, expiresAt: new Date(i.expiresAt).toISOString() })),
+    invitations: invitations.map((i) => ({
+      id: i.id, email: i.email, role: i.role as Role, expiresAt: new Date(i.expiresAt).toISOString(),
+      schoolIds: i.limited ? i.schoolIds : null, accessEndsOn: i.accessEndsOn,
+    })),
   };
 }
 
@@ -80,16 +93,40 @@ async function assertAnotherAdminRemains(db: Kysely<Database>, trust: ActiveTrus
   if (!admins.some((m) => m.id !== memberId)) throw lastTrustAdmin();
 }
 
-/** Invites someone by e-mail with a role; the plugin sends the e-mail through our mailer. */
+/** 400 unless every school id belongs to the trust. */
+async function assertSchoolsInTrust(db: Kysely<Database>, trust: ActiveTrust, schoolIds: string[]): Promise<void> {
+  if (schoolIds.length === 0) return;
+  const known = await db.selectFrom('schools').select('id').where('trust_id', '=', trust.id).where('id', 'in', schoolIds).execute();
+  if (known.length !== new Set(schoolIds).size) throw badRequest('Every school must belong to this trust.', { field: 'schoolIds' });
+}
+
+/**
+ * Invites someone by e-mail with a role, optionally limited to schools and an end date (applied when
+ * they accept); the plugin sends the e-mail through our mailer.
+ */
 export async function inviteMember(db: Kysely<Database>, actor: Actor, input: InviteInput): Promise<InvitationView> {
+  const schoolIds = input.schoolIds ?? null;
+  const accessEndsOn = input.accessEndsOn ?? null;
+  if (schoolIds) await assertSchoolsInTrust(db, actor.trust, schoolIds);
   const invitation = await authCall(() =>
     getAuth().api.createInvitation({ body: { email: input.email, role: input.role, organizationId: actor.trust.id, resend: true }, headers: actor.headers }),
   );
-  await recordAudit(db, {
-    trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email, action: 'member.invited', entityType: 'invitation',
-    entityId: invitation.id, summary: `${actor.user.email} invited ${input.email} as ${input.role}`, after: { email: input.email, role: input.role },
+  await db.transaction().execute(async (trx) => {
+    await trx.deleteFrom('invitation_schools').where('invitation_id', '=', invitation.id).execute();
+    await trx.deleteFrom('invitation_limits').where('invitation_id', '=', invitation.id).execute();
+    if (schoolIds || accessEndsOn) {
+      await trx.insertInto('invitation_limits').values({ invitation_id: invitation.id, limited_to_schools: schoolIds !== null, access_ends_on: accessEndsOn }).execute();
+      if (schoolIds?.length) {
+        await trx.insertInto('invitation_schools').values([...new Set(schoolIds)].map((school_id) => ({ invitation_id: invitation.id, school_id }))).execute();
+      }
+    }
+    await recordAudit(trx, {
+      trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email, action: 'member.invited', entityType: 'invitation',
+      entityId: invitation.id, summary: `${actor.user.email} invited ${input.email} as ${input.role}`,
+      after: { email: input.email, role: input.role, schoolIds, accessEndsOn },
+    });
   });
-  return { id: invitation.id, email: invitation.email, role: input.role, expiresAt: new Date(invitation.expiresAt).toISOString() };
+  return { id: invitation.id, email: invitation.email, role: input.role, expiresAt: new Date(invitation.expiresAt).toISOString(), schoolIds, accessEndsOn };
 }
 
 /** Withdraws a pending invitation of the active trust. */
@@ -109,10 +146,7 @@ export async function updateMember(db: Kysely<Database>, actor: Actor, memberId:
   const demotes = change.role !== undefined && change.role !== 'trust_admin' && before.role === 'trust_admin';
   const ends = change.accessEndsOn != null && before.role === 'trust_admin';
   if (demotes || ends) await assertAnotherAdminRemains(db, actor.trust, memberId);
-  if (change.schoolIds) {
-    const known = await db.selectFrom('schools').select('id').where('trust_id', '=', actor.trust.id).where('id', 'in', change.schoolIds.length ? change.schoolIds : ['00000000-0000-0000-0000-000000000000']).execute();
-    if (known.length !== new Set(change.schoolIds).size) throw badRequest('Every school must belong to this trust.', { field: 'schoolIds' });
-  }
+  if (change.schoolIds) await assertSchoolsInTrust(db, actor.trust, change.schoolIds);
   if (change.role !== undefined && change.role !== before.role) {
     await authCall(() => getAuth().api.updateMemberRole({ body: { memberId, role: change.role!, organizationId: actor.trust.id }, headers: actor.headers }));
   }
