@@ -57,7 +57,7 @@ export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
           position: 'left',
           min: 0,
           title: { text: 'CO2 (ppm)' },
-          crossLines: limits.map((l) => ({ type: 'line' as const, value: l.ppm, stroke: dark ? '#f08a83' : '#a1302b', lineDash: [6, 4], label: { text: l.label, position: 'top-right' as const } })),
+          crossLines: limits.map((l, i) => ({ type: 'line' as const, value: l.ppm, stroke: dark ? '#f08a83' : '#a1302b', lineDash: [6, 4], label: { text: l.label, position: i === 0 ? ('bottom-right' as const) : ('top-right' as const) } })),
         },
       },
       legend: { position: 'bottom' },

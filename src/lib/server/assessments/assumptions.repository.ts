@@ -29,6 +29,20 @@ export interface AssumptionVersionSummary {
 /** The version string results record: the shipped defaults it started from, plus the trust's version number. */
 export const versionLabel = (version: number) => `${DEFAULT_ASSUMPTIONS.version}+trust.${version}`;
 
+const isPlainObject = (x: unknown): x is Record<string, unknown> => typeof x === 'object' && x !== null && !Array.isArray(x);
+
+/**
+ * A stored set with any assumption added to the engine's defaults since it was saved filled in from the
+ * defaults, so versions saved by an older release still run. Stored values always win; an assumed value
+ * (an object with `value`) is taken whole, never merged inside.
+ */
+export function withNewDefaults(stored: unknown, defaults: unknown): unknown {
+  if (!isPlainObject(stored) || !isPlainObject(defaults) || 'value' in defaults) return stored;
+  const out: Record<string, unknown> = { ...stored };
+  for (const [key, fallback] of Object.entries(defaults)) out[key] = key in stored ? withNewDefaults(stored[key], fallback) : fallback;
+  return out;
+}
+
 type Row = Database['assumption_sets'] extends infer T ? { [K in keyof T]: unknown } : never;
 
 const toStored = (row: Row): StoredAssumptionSet => ({
@@ -36,7 +50,7 @@ const toStored = (row: Row): StoredAssumptionSet => ({
   trustId: row.trust_id as string,
   version: row.version as number,
   label: row.label as string,
-  set: row.values as AssumptionSet,
+  set: withNewDefaults(row.values, DEFAULT_ASSUMPTIONS) as AssumptionSet,
   changeSummary: row.change_summary as string,
   createdByEmail: row.created_by_email as string | null,
   createdAt: (row.created_at as Date).toISOString(),
