@@ -19,7 +19,10 @@ export interface RegisterImportsTable {
   problems: Json<unknown>;
   problem_count: Generated<number>;
   missing_rooms: Json<unknown>;
+  /** What the commit will write (the import plan), gzip-compressed JSON; cleared once committed or cancelled. */
   rows_gz: Buffer | null;
+  /** Counts and latest change times of the trust's schools, blocks and rooms when the preview was made. */
+  estate_fingerprint: string | null;
   outcome: Json<unknown> | null;
   committed_by_email: string | null;
   committed_at: Date | null;

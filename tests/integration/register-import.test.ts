@@ -138,6 +138,17 @@ describe('importing a register through the API', () => {
     expect((await commit(admin.cookie, body.id, { rows: 'valid' })).status).toBe(409);
   });
 
+  it('refuses to commit a preview when the register changed since (409), and writes nothing', async () => {
+    const { body } = await upload(admin.cookie, 'stale.xlsx', await tidyRegister([roomRow('Fernhill Primary', 'STALE1')]));
+    const room = (await estateState(admin.trustId)).rooms[0]!;
+    expect((await api(`/api/rooms/${room.id}`, { method: 'PATCH', cookie: admin.cookie, body: JSON.stringify({ adults: room.adults + 1 }) })).status).toBe(200);
+    const before = await estateState(admin.trustId);
+    const refused = await commit(admin.cookie, body.id, { rows: 'valid' });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.message).toMatch(/changed since this preview/);
+    expect(await estateState(admin.trustId)).toEqual(before);
+  });
+
   it('refuses, at commit, an import that would go beyond the free plan (402) and writes nothing', async () => {
     const before = await estateState(admin.trustId);
     const { body } = await upload(admin.cookie, 'two schools.xlsx', await tidyRegister([roomRow('Second School', 'A1')]));

@@ -8,10 +8,11 @@ import { badRequest, conflict, notFound } from '../http/errors';
 import type { RegisterField } from './columns';
 import type { DetectedHeader } from './headers';
 import { readRegisterFile } from './parse';
-import { planImport, type ImportPlan, type ImportSummary, type ReadRows } from './plan';
+import { planImport, type ImportPlan, type ImportSummary, type Ref, type RoomWrite } from './plan';
+import type { RoomFields } from './register.schemas';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import { applyPlan, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
+import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -69,7 +70,7 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
   const saved = await loadSavedMappings(db, trust.id);
   const file = await readRegisterFile(upload.bytes, kind, saved, options);
   mark('read and check cells');
-  const snapshot = await loadSnapshot(db, trust);
+  const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
   const plan = planImport(file.read, file.header.columns, snapshot);
   mark('compare with the estate');
   const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
@@ -92,7 +93,8 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
       problems: JSON.stringify(problems),
       problem_count: plan.problems.length,
       missing_rooms: JSON.stringify(plan.missingRooms),
-      rows_gz: encodeRows(file.header.columns, file.read),
+      rows_gz: encodePlan(plan),
+      estate_fingerprint: fingerprint,
     }).returning('id').executeTakeFirstOrThrow();
     await recordAudit(trx, {
       trustId: trust.id, ...actor, action: 'import.previewed', entityType: 'import', entityId: row.id,
@@ -108,33 +110,29 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
 }
 
 
-/**
- * The read rows, kept compactly until commit: each row an array of its mapped fields' values,
- * problems listed once, all as gzip-compressed JSON.
- */
-export function encodeRows(columns: DetectedHeader['columns'], read: ReadRows): Buffer {
-  const fields = columns.filter((c) => c.field).map((c) => c.field as RegisterField);
-  const rows = read.rows.map((r) => [r.rowNumber, ...fields.map((f) => r.values[f] ?? null)]);
-  const problems = read.rows.flatMap((r) => r.problems);
-  return gzipSync(JSON.stringify({ columns, fields, skipped: read.skipped, rows, problems }), { level: 1 });
+type StoredPlan = Omit<ImportPlan, 'problems' | 'summary' | 'roomWrites'> & { summary: ImportSummary; roomWrites: unknown[][] };
+const FIELD_ORDER = ['code', 'name', 'use', 'floorAreaM2', 'ceilingHeightM', 'pupils', 'adults', 'ageGroup', 'orientationDeg',
+  'glazingAreaM2', 'openableAreaM2', 'windowType', 'ventilationType', 'mechanicalSupplyLps', 'notes'] as const;
+
+/** The plan as the commit needs it, compactly: each room write an array, as gzip-compressed JSON. */
+export function encodePlan(plan: ImportPlan): Buffer {
+  const { problems: _problems, roomWrites, ...rest } = plan;
+  const writes = roomWrites.map((w) => [w.rowNumber, w.roomId, w.school, w.block, ...FIELD_ORDER.map((f) => w.fields[f]), w.roomId ? w.before : null, w.roomId ? w.after : null]);
+  return gzipSync(JSON.stringify({ ...rest, roomWrites: writes } satisfies StoredPlan), { level: 1 });
 }
 
-/** The inverse of encodeRows. */
-export function decodeRows(gz: Buffer): { columns: DetectedHeader['columns']; read: ReadRows } {
-  const stored = JSON.parse(gunzipSync(gz).toString('utf8')) as {
-    columns: DetectedHeader['columns']; fields: RegisterField[]; skipped: number; rows: (string | number | null)[][]; problems: ImportProblem[];
-  };
-  const problemsByRow = new Map<number, ImportProblem[]>();
-  for (const p of stored.problems) problemsByRow.set(p.row, [...(problemsByRow.get(p.row) ?? []), p]);
-  const rows = stored.rows.map((cells) => {
-    const rowNumber = cells[0] as number;
-    const values: Partial<Record<RegisterField, string | number | null>> = {};
-    stored.fields.forEach((f, i) => {
-      values[f] = cells[i + 1] ?? null;
-    });
-    return { rowNumber, values, problems: problemsByRow.get(rowNumber) ?? [] };
+/** The inverse of encodePlan. */
+export function decodePlan(gz: Buffer): ImportPlan {
+  const stored = JSON.parse(gunzipSync(gz).toString('utf8')) as StoredPlan;
+  const roomWrites: RoomWrite[] = stored.roomWrites.map((a) => {
+    const fields = Object.fromEntries(FIELD_ORDER.map((f, i) => [f, a[4 + i]])) as unknown as RoomFields;
+    const n = 4 + FIELD_ORDER.length;
+    return {
+      rowNumber: a[0] as number, roomId: a[1] as string | null, school: a[2] as Ref, block: a[3] as Ref | null, fields,
+      before: (a[n] as RoomWrite['before']) ?? null, after: (a[n + 1] as RoomWrite['after']) ?? fields,
+    };
   });
-  return { columns: stored.columns, read: { rows, skipped: stored.skipped } };
+  return { ...stored, roomWrites, problems: [] };
 }
 
 /** Outcome of a commit or cancel, as stored on the import and answered to the client. */
@@ -153,14 +151,14 @@ export interface ImportOutcome {
 export type CommitHook = (trx: Kysely<Database>) => Promise<void>;
 
 /**
- * Applies a previewed import in one transaction, re-comparing with the estate as it is now so a
- * change made since the preview is not overwritten blindly. "none" cancels; nothing is written then.
+ * Applies a previewed import in one transaction, provided the estate is still as it was at the
+ * preview (otherwise 409: a change made since is never overwritten blindly). "none" cancels.
  */
 export async function commitImport(
   db: Kysely<Database>, trust: ActiveTrust, actor: Actor, importId: string, body: CommitBody, beforeCommit?: CommitHook,
 ): Promise<ImportOutcome> {
   return db.transaction().execute(async (trx) => {
-    const found = await trx.selectFrom('register_imports').select(['id', 'status', 'rows_gz', 'file_name'])
+    const found = await trx.selectFrom('register_imports').select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
       .where('id', '=', importId).where('trust_id', '=', trust.id).forUpdate().executeTakeFirst();
     if (!found) throw notFound('That import');
     if (found.status !== 'previewed' || !found.rows_gz) throw conflict(`This import is already ${found.status}; upload the file again to import it.`);
@@ -172,10 +170,13 @@ export async function commitImport(
       return outcome;
     }
     const mark = stepTimer('commit');
-    const stored = decodeRows(found.rows_gz);
-    mark('unpack the stored rows');
-    const plan = planImport(stored.read, stored.columns, await loadSnapshot(trx, trust));
-    mark('compare with the estate again');
+    // One commit at a time per trust, so two imports cannot both pass the check below and then clash.
+    await sql`SELECT pg_advisory_xact_lock(hashtext(${`register:${trust.id}`}))`.execute(trx);
+    if (found.estate_fingerprint !== await estateFingerprint(trx, trust)) {
+      throw conflict('The register has changed since this preview (someone edited, added or imported rooms). Upload the file again to see an up-to-date preview.');
+    }
+    const plan = decodePlan(found.rows_gz);
+    mark('check the estate is as previewed and unpack the plan');
     await assertWithinPlan(trx, trust.id, { schools: plan.summary.schoolsToCreate, rooms: plan.summary.roomsToCreate });
     const { roomsDeleted } = await applyPlan(trx, trust.id, actor, plan, body.deleteMissing);
     mark('write schools, blocks, rooms and audit');

@@ -14,10 +14,12 @@ type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /** Room columns in the order the bulk writer sends them. */
 const ROOM_COLUMNS = [
-  ['code', 'text'], ['name', 'text'], ['use', 'text'], ['floor_area_m2', 'float8'], ['ceiling_height_m', 'float8'], ['pupils', 'int4'],
-  ['adults', 'int4'], ['age_group', 'text'], ['orientation_deg', 'int4'], ['glazing_area_m2', 'float8'], ['openable_area_m2', 'float8'],
-  ['window_type', 'text'], ['ventilation_type', 'text'], ['mechanical_supply_lps', 'float8'], ['notes', 'text'],
-] as const;
+  ['code', 'text', 'code'], ['name', 'text', 'name'], ['use', 'text', 'use'], ['floor_area_m2', 'float8', 'floorAreaM2'],
+  ['ceiling_height_m', 'float8', 'ceilingHeightM'], ['pupils', 'int4', 'pupils'], ['adults', 'int4', 'adults'], ['age_group', 'text', 'ageGroup'],
+  ['orientation_deg', 'int4', 'orientationDeg'], ['glazing_area_m2', 'float8', 'glazingAreaM2'], ['openable_area_m2', 'float8', 'openableAreaM2'],
+  ['window_type', 'text', 'windowType'], ['ventilation_type', 'text', 'ventilationType'], ['mechanical_supply_lps', 'float8', 'mechanicalSupplyLps'],
+  ['notes', 'text', 'notes'],
+] as const satisfies readonly (readonly [string, string, keyof RoomFields])[];
 
 /** Database row → the room's register fields. */
 export function roomFieldsOf(r: {
@@ -48,6 +50,20 @@ export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSn
     rooms: rooms.map((r) => ({ id: r.id, schoolId: r.school_id, blockId: r.block_id, fields: roomFieldsOf(r) })),
     defaultClimateRegion,
   };
+}
+
+/**
+ * A cheap fingerprint of the trust's estate: how many schools, blocks and rooms, and when each
+ * last changed. Any insert, update or delete since the preview changes it.
+ */
+export async function estateFingerprint(db: Db, trust: ActiveTrust): Promise<string> {
+  const { rows } = await sql<{ f: string }>`
+    SELECT concat_ws('|',
+      (SELECT count(*) || '@' || coalesce(max(updated_at)::text, '') FROM schools WHERE ${inTrustScope(trust)}),
+      (SELECT count(*) || '@' || coalesce(max(b.updated_at)::text, '') FROM blocks b JOIN schools ON schools.id = b.school_id WHERE ${inTrustScope(trust)}),
+      (SELECT count(*) || '@' || coalesce(max(r.updated_at)::text, '') FROM rooms r JOIN schools ON schools.id = r.school_id WHERE ${inTrustScope(trust)})
+    ) AS f`.execute(db);
+  return rows[0]?.f ?? '';
 }
 
 /** The trust's remembered header → field mappings. */
@@ -105,29 +121,47 @@ export async function applyPlan(
     audit.push({ ...base, action: 'block.updated', entityType: 'block', entityId: c.id, summary: `Changed block ${c.name}`, before: c.before, after: c.after });
   }
 
-  // Rooms: one INSERT … ON CONFLICT per chunk, the columns sent as arrays (unnest), not row by row.
-  for (let start = 0; start < plan.roomWrites.length; start += ROOM_CHUNK) {
-    const chunk = plan.roomWrites.slice(start, start + ROOM_CHUNK);
-    const arrays: unknown[][] = [chunk.map((w) => resolve(w.school, schoolIds)), chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null))];
-    const keys: (keyof RoomFields)[] = ['code', 'name', 'use', 'floorAreaM2', 'ceilingHeightM', 'pupils', 'adults', 'ageGroup', 'orientationDeg',
-      'glazingAreaM2', 'openableAreaM2', 'windowType', 'ventilationType', 'mechanicalSupplyLps', 'notes'];
-    for (const key of keys) arrays.push(chunk.map((w) => w.fields[key]));
+  // Rooms: new ones by a plain multi-row INSERT, changed ones by one UPDATE … FROM per chunk; the
+  // columns travel as arrays (unnest), never row by row.
+  const keys = ROOM_COLUMNS.map(([, , key]) => key);
+  const typed = (values: unknown[], type: string) => sql`${values}::${sql.raw(type)}[]`;
+  const creates = plan.roomWrites.filter((w) => !w.roomId);
+  const updates = plan.roomWrites.filter((w) => w.roomId);
+  // Chunks are sent without waiting for the previous one: the connection queues them in order, and
+  // the next chunk's arrays are built while the database works on the last.
+  const inserted: Promise<void>[] = [];
+  const createdIds = new Map<string, string>();
+  for (let start = 0; start < creates.length; start += ROOM_CHUNK) {
+    const chunk = creates.slice(start, start + ROOM_CHUNK);
+    const args = [
+      typed(chunk.map((w) => resolve(w.school, schoolIds)), 'uuid'),
+      typed(chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null)), 'uuid'),
+      ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
+    ];
     const columnList = sql.raw(['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', '));
-    const unnestArgs = sql.join(arrays.map((values, i) => {
-      const type = i === 0 || i === 1 ? 'uuid' : ROOM_COLUMNS[i - 2]?.[1] ?? 'text';
-      return sql`${values}::${sql.raw(type)}[]`;
-    }));
-    const updates = sql.raw(['block_id', ...ROOM_COLUMNS.map(([c]) => c)].filter((c) => c !== 'code').map((c) => `${c} = excluded.${c}`).join(', '));
-    const rows = await sql<{ id: string; code: string; school_id: string }>`
-      INSERT INTO rooms (${columnList}) SELECT * FROM unnest(${unnestArgs})
-      ON CONFLICT (school_id, code) DO UPDATE SET ${updates}
-      RETURNING id, code, school_id`.execute(trx);
-    const idByKey = new Map(rows.rows.map((r) => [`${r.school_id}|${r.code}`, r.id]));
+    inserted.push(sql<{ id: string; code: string; school_id: string }>`
+      INSERT INTO rooms (${columnList}) SELECT * FROM unnest(${sql.join(args)}) RETURNING id, code, school_id`.execute(trx)
+      .then((result) => {
+        for (const r of result.rows) createdIds.set(`${r.school_id}|${r.code}`, r.id);
+      }));
+  }
+  await Promise.all(inserted);
+  for (const w of creates) {
+    const id = createdIds.get(`${resolve(w.school, schoolIds)}|${w.fields.code}`) ?? null;
+    audit.push({ ...base, action: 'room.created', entityType: 'room', entityId: id, summary: `Created room ${w.fields.code} from a register import (row ${w.rowNumber})`, after: w.fields });
+  }
+  for (let start = 0; start < updates.length; start += ROOM_CHUNK) {
+    const chunk = updates.slice(start, start + ROOM_CHUNK);
+    const args = [
+      typed(chunk.map((w) => w.roomId), 'uuid'),
+      typed(chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null)), 'uuid'),
+      ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
+    ];
+    const names = ['id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)];
+    const assignments = sql.raw(names.slice(1).map((c) => `${c} = u.${c}`).join(', '));
+    await sql`UPDATE rooms SET ${assignments} FROM unnest(${sql.join(args)}) AS u(${sql.raw(names.join(', '))}) WHERE rooms.id = u.id`.execute(trx);
     for (const w of chunk) {
-      const id = idByKey.get(`${resolve(w.school, schoolIds)}|${w.fields.code}`) ?? w.roomId;
-      audit.push(w.roomId
-        ? { ...base, action: 'room.updated', entityType: 'room', entityId: id, summary: `Changed room ${w.fields.code} from a register import (row ${w.rowNumber})`, before: w.before, after: w.after }
-        : { ...base, action: 'room.created', entityType: 'room', entityId: id, summary: `Created room ${w.fields.code} from a register import (row ${w.rowNumber})`, after: w.fields });
+      audit.push({ ...base, action: 'room.updated', entityType: 'room', entityId: w.roomId, summary: `Changed room ${w.fields.code} from a register import (row ${w.rowNumber})`, before: w.before, after: w.after });
     }
   }
 
@@ -140,7 +174,9 @@ export async function applyPlan(
       audit.push({ ...base, action: 'room.deleted', entityType: 'room', entityId: r.id, summary: `Deleted room ${r.code} of ${r.schoolName}: not in the imported register`, before: r });
     }
   }
-  for (let start = 0; start < audit.length; start += AUDIT_CHUNK) await recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK));
+  const written: Promise<void>[] = [];
+  for (let start = 0; start < audit.length; start += AUDIT_CHUNK) written.push(recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK)));
+  await Promise.all(written);
   return { roomsDeleted };
 }
 
