@@ -1,4 +1,4 @@
-import { EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue, type AssumptionEntry, type AssumptionSet, type UnitModel } from '../../engine';
+import { DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue, type AssumptionEntry, type AssumptionSet, type UnitModel } from '../../engine';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { can } from '../auth/permissions';
@@ -26,6 +26,11 @@ export interface AssumptionsView {
   versions: AssumptionVersionSummary[];
 }
 
+/** The declaration order of the shipped defaults (JSONB does not keep key order, so stored sets are re-sorted). */
+const CANONICAL_ORDER = new Map(listAssumptions(DEFAULT_ASSUMPTIONS).map((e, i) => [e.path, i]));
+export const inCanonicalOrder = (entries: AssumptionEntry[]) =>
+  [...entries].sort((a, b) => (CANONICAL_ORDER.get(a.path) ?? Infinity) - (CANONICAL_ORDER.get(b.path) ?? Infinity));
+
 export async function getAssumptionsView(trust: ActiveTrust): Promise<AssumptionsView> {
   const db = getDb();
   const current = await getCurrentAssumptionSet(db, trust.id);
@@ -35,7 +40,7 @@ export async function getAssumptionsView(trust: ActiveTrust): Promise<Assumption
     label: current.label,
     createdAt: current.createdAt,
     createdByEmail: current.createdByEmail,
-    entries: listAssumptions(current.set),
+    entries: inCanonicalOrder(listAssumptions(current.set)),
     catalogue: current.set.retrofit.unitCatalogue.value,
     versions: await listAssumptionVersions(db, trust.id),
   };

@@ -6,6 +6,7 @@ import type { Database } from '../../../../db/database';
 import { ENGINE_CAUTIONS, listAssumptions, RISK_BAND_LABELS } from '../../engine';
 import type { ActiveTrust } from '../auth/context';
 import { getAssumptionSetById } from './assumptions.repository';
+import { inCanonicalOrder } from './assumptions.service';
 import { RISK_BANDS_BY_NUMBER } from './result-row';
 
 /** The first columns of the Results sheet, in this order (the brief of the export; more may follow). */
@@ -116,7 +117,7 @@ async function writeNotes(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJ
     const stored = await getAssumptionSetById(db, trust.id, id);
     if (!stored) continue;
     line([`Assumptions used: ${stored.label}`, `version ${stored.version} of ${stored.createdAt.slice(0, 10)}`, null, stored.changeSummary]);
-    for (const entry of listAssumptions(stored.set)) {
+    for (const entry of inCanonicalOrder(listAssumptions(stored.set))) {
       const value = typeof entry.value === 'number' || typeof entry.value === 'string' ? entry.value : JSON.stringify(entry.value);
       const shown = typeof value === 'string' && value.length > 32_000 ? `${value.slice(0, 32_000)}…` : value;
       line([entry.label, shown, entry.unit, entry.source, STATUS_WORDS[entry.status], entry.kind, entry.flagged ? 'Yes' : '', entry.note ?? '']);
