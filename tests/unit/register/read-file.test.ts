@@ -82,6 +82,13 @@ describe('reading a messy survey spreadsheet', () => {
     expect(plan.missingRooms).toEqual([{ id: 'r3', schoolName: 'OAK SCHOOL', code: 'GONE', name: 'Room A1' }]);
   });
 
+  it('refuses new schools to a member limited to some schools', async () => {
+    const file = await readRegisterFile(await tidyRegister([roomRow('Not Mine School', 'A1')]), 'xlsx', new Map());
+    const plan = planImport(file.read, file.header.columns, { ...emptyEstate, canCreateSchools: false });
+    expect(plan.summary).toMatchObject({ roomsToCreate: 0, schoolsToCreate: 0, rowsRejected: 1 });
+    expect(plan.problems).toContainEqual(expect.objectContaining({ row: 2, column: 'School', severity: 'error', message: expect.stringMatching(/not one of the schools your membership covers/) }));
+  });
+
   it('asks for the phase of a new school', async () => {
     const { plan } = await preview(await tidyRegister([roomRow('New School', 'A1', { 'School phase': null })]));
     expect(plan.problems).toContainEqual(expect.objectContaining({ row: 2, column: 'School phase', severity: 'error' }));

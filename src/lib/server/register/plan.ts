@@ -11,6 +11,8 @@ export interface EstateSnapshot {
   rooms: { id: string; schoolId: string; blockId: string | null; fields: RoomFields }[];
   /** Region given to schools the import creates (the trust's most common one). */
   defaultClimateRegion: ClimateRegion;
+  /** False for members limited to some schools: they may only import rooms of those schools. */
+  canCreateSchools?: boolean;
 }
 
 /** A school or block reference: an existing id, or the key of one this import creates. */
@@ -155,8 +157,9 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const sk = nameKey(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
     const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
-    if (!existingSchool && !phase) error('schoolPhase', `"${schoolName}" is a new school; give its phase (e.g. Primary) so Airtally can create it.`);
-    if (!existingSchool && phase && !warnedNewSchool.has(sk)) {
+    if (!existingSchool && estate.canCreateSchools === false) error('school', `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`);
+    else if (!existingSchool && !phase) error('schoolPhase', `"${schoolName}" is a new school; give its phase (e.g. Primary) so Airtally can create it.`);
+    if (!existingSchool && phase && estate.canCreateSchools !== false && !warnedNewSchool.has(sk)) {
       warnedNewSchool.add(sk);
       problem(row, 'school', 'warning', `"${schoolName}" is not in Airtally yet and will be created (climate region set to the trust's usual one; check it on the school page).`);
     }

@@ -49,6 +49,7 @@ export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSn
     blocks: blocks.map((b) => ({ id: b.id, schoolId: b.school_id, name: b.name, yearBuilt: b.year_built, airPermeabilityM3hM2: b.air_permeability_m3h_m2 })),
     rooms: rooms.map((r) => ({ id: r.id, schoolId: r.school_id, blockId: r.block_id, fields: roomFieldsOf(r) })),
     defaultClimateRegion,
+    canCreateSchools: trust.schoolIds === null,
   };
 }
 
