@@ -23,7 +23,8 @@ const folderProvider: MigrationProvider = {
 
 /** A Kysely migrator over the timestamped files in db/migrations. */
 export function createMigrator(db: Kysely<any>): Migrator {
-  return new Migrator({ db, provider: folderProvider });
+  // Features add migrations in parallel branches; a database that already ran a later one must still accept them.
+  return new Migrator({ db, provider: folderProvider, allowUnorderedMigrations: true });
 }
 
 /** Runs all pending migrations; throws with the failing migration's name when one fails. */
