@@ -23,6 +23,23 @@ export interface PortfolioRanksTable {
   school_id: string;
   rank: number;
   score: number;
+  /** Filter and sort keys copied from room_results when the ranks are built. */
+  block_id: string | null;
+  school_name: string | null;
+  ventilation_type: string | null;
+  risk_band: number | null;
+  criteria_met: boolean | null;
+  pupils: number | null;
+  mean_co2_ppm: number | null;
+  peak_co2_ppm: number | null;
+  unit_count: number | null;
+  capital_cost_gbp: number | null;
+  simple_payback_years: number | null;
+  npv_gbp: number | null;
+  pupil_hours_above: number | null;
+  score_risk: number | null;
+  score_cost_effectiveness: number | null;
+  score_payback: number | null;
 }
 
 /** Tables of the saved ranking weights and other portfolio settings feature. */

@@ -25,7 +25,8 @@ const round = (v: number | null, digits = 0) => (v === null ? null : Number(v.to
 
 /** Builds the workbook for the current view; resolves to its bytes. */
 export async function exportPriorities(db: Kysely<Database>, trust: ActiveTrust, query: PrioritiesQuery, now = new Date()): Promise<Buffer> {
-  const weights = query.weights ?? (await ensureRanks(db, trust.id));
+  const weights = query.weights ?? (await ensureRanks(db, trust.id)).weights;
+  if (query.weights) await ensureRanks(db, trust.id);
   const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0);
 
   const sink = new PassThrough();

@@ -12,43 +12,42 @@ import { ensureRanks, rankOrderSql, weightedScoreSql } from './ranking.repositor
 export const BAND_BY_NUMBER: Record<number, RiskBand> = { 1: 'fresh', 2: 'stuffy', 3: 'stale', 4: 'very_stale' };
 export const bandLabel = (band: number) => RISK_BAND_LABELS[BAND_BY_NUMBER[band] ?? 'fresh'];
 
+/** Sort keys as columns of the ranked set `pr` (portfolio_ranks or the preview ranking over it). */
 const SORT_SQL: Record<PrioritySortKey, RawBuilder<unknown>> = {
   rank: sql`pr.rank`,
-  school: sql`s.name`,
-  pupils: sql`rr.pupils`,
-  meanCo2Ppm: sql`rr.mean_co2_ppm`,
-  peakCo2Ppm: sql`rr.peak_co2_ppm`,
-  riskBand: sql`rr.risk_band`,
-  unitCount: sql`rr.unit_count`,
-  capitalCostGbp: sql`rr.capital_cost_gbp`,
-  simplePaybackYears: sql`rr.simple_payback_years`,
-  npvGbp: sql`rr.npv_gbp`,
+  school: sql`pr.school_name`,
+  pupils: sql`pr.pupils`,
+  meanCo2Ppm: sql`pr.mean_co2_ppm`,
+  peakCo2Ppm: sql`pr.peak_co2_ppm`,
+  riskBand: sql`pr.risk_band`,
+  unitCount: sql`pr.unit_count`,
+  capitalCostGbp: sql`pr.capital_cost_gbp`,
+  simplePaybackYears: sql`pr.simple_payback_years`,
+  npvGbp: sql`pr.npv_gbp`,
 };
 
-/** WHERE conditions on room_results (alias rr) for the trust, the member's schools and the filters. */
-export function filterSql(trust: ActiveTrust, filter: PriorityFilter, schoolColumn = sql`rr.school_id`) {
-  const parts = [sql`rr.trust_id = ${trust.id}`, sql`rr.is_current`];
-  if (trust.schoolIds) parts.push(sql`rr.school_id = ANY(${trust.schoolIds}::uuid[])`);
-  if (filter.schoolId) parts.push(sql`${schoolColumn} = ${filter.schoolId}::uuid`);
-  if (filter.blockId) parts.push(sql`rr.block_id = ${filter.blockId}::uuid`);
-  if (filter.band !== undefined) parts.push(sql`rr.risk_band = ${filter.band}`);
-  if (filter.ventilationType) parts.push(sql`rr.ventilation_type = ${filter.ventilationType}`);
-  if (filter.criteriaMet !== undefined) parts.push(sql`rr.criteria_met = ${filter.criteriaMet}`);
+/** WHERE conditions on the ranked set `pr` for the trust, the member's schools and the filters. */
+export function filterSql(trust: ActiveTrust, filter: PriorityFilter) {
+  const parts = [sql`pr.trust_id = ${trust.id}`];
+  if (trust.schoolIds) parts.push(sql`pr.school_id = ANY(${trust.schoolIds}::uuid[])`);
+  if (filter.schoolId) parts.push(sql`pr.school_id = ${filter.schoolId}::uuid`);
+  if (filter.blockId) parts.push(sql`pr.block_id = ${filter.blockId}::uuid`);
+  if (filter.band !== undefined) parts.push(sql`pr.risk_band = ${filter.band}`);
+  if (filter.ventilationType) parts.push(sql`pr.ventilation_type = ${filter.ventilationType}`);
+  if (filter.criteriaMet !== undefined) parts.push(sql`pr.criteria_met = ${filter.criteriaMet}`);
   return sql.join(parts, sql` AND `);
 }
 
 /**
- * The ranked rooms of the trust: with the saved weights through portfolio_ranks (indexed), with preview
- * weights ranked on the fly. Either way a room's rank is its place in the whole trust.
+ * The ranked rooms of the trust as `pr`: portfolio_ranks itself under the saved weights (indexed), or the same
+ * rows re-ranked on the fly under preview weights. Either way a room's rank is its place in the whole trust.
  */
 export function rankedSource(trust: ActiveTrust, preview: Weights | null) {
-  if (!preview) {
-    return sql`room_results rr JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id`;
-  }
-  return sql`room_results rr JOIN (
-      SELECT rr.room_id, row_number() OVER (ORDER BY ${rankOrderSql(preview)})::int AS rank, ${weightedScoreSql(preview)} AS score
-      FROM room_results rr WHERE rr.trust_id = ${trust.id} AND rr.is_current
-    ) pr ON pr.room_id = rr.room_id`;
+  if (!preview) return sql`portfolio_ranks pr`;
+  return sql`(
+      SELECT p.*, row_number() OVER (ORDER BY ${rankOrderSql(preview, 'p')})::int AS preview_rank, ${weightedScoreSql(preview, 'p')} AS preview_score
+      FROM portfolio_ranks p WHERE p.trust_id = ${trust.id}
+    ) pr`;
 }
 
 interface Row {
@@ -106,7 +105,7 @@ const toPriorityRow = (r: Row): PriorityRow => ({
   npvGbp: r.npv_gbp,
 });
 
-/** Selects priority rows in the requested order; `limit` null = all (exports). */
+/** Selects priority rows in the requested order; ranked set first (narrow), then the page's result rows. */
 export async function selectPriorityRows(
   db: Kysely<Database>,
   trust: ActiveTrust,
@@ -115,37 +114,52 @@ export async function selectPriorityRows(
   offset: number,
 ): Promise<PriorityRow[]> {
   const preview = query.weights;
-  const schoolColumn = preview ? sql`rr.school_id` : sql`pr.school_id`;
+  const rank = preview ? sql`pr.preview_rank` : sql`pr.rank`;
+  const score = preview ? sql`pr.preview_score` : sql`pr.score`;
   const dir = query.dir === 'desc' ? sql`DESC` : sql`ASC`;
-  const order = query.sort === 'rank' ? sql`pr.rank ${dir}` : sql`${SORT_SQL[query.sort]} ${dir} NULLS LAST, pr.rank ASC`;
+  const sortKey = query.sort === 'rank' ? rank : SORT_SQL[query.sort];
+  const order = query.sort === 'rank' ? sql`${rank} ${dir}` : sql`${sortKey} ${dir} NULLS LAST, ${rank} ASC`;
   const page = limit === null ? sql`` : sql`LIMIT ${limit} OFFSET ${offset}`;
   const result = await sql<Row>`
-    SELECT rr.room_id, pr.rank, pr.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
+    WITH page AS (
+      SELECT pr.room_id, ${rank} AS rank, ${score} AS score, row_number() OVER (ORDER BY ${order}) AS position
+      FROM (SELECT pr.* FROM ${rankedSource(trust, preview)} WHERE ${filterSql(trust, query)} ORDER BY ${order} ${page}) pr
+    )
+    SELECT rr.room_id, page.rank, page.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
       r.code AS room_code, r.name AS room_name, rr.pupils, rr.ventilation_type, rr.worst_season, rr.mean_co2_ppm,
       rr.peak_co2_ppm, rr.criteria_met, rr.risk_band, rr.reason, rr.pupil_hours_above, rr.units_recommended,
       rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp
-    FROM ${rankedSource(trust, preview)}
+    FROM page
+      JOIN room_results rr ON rr.room_id = page.room_id AND rr.is_current AND rr.trust_id = ${trust.id}
       JOIN schools s ON s.id = rr.school_id
       JOIN rooms r ON r.id = rr.room_id
       LEFT JOIN blocks b ON b.id = rr.block_id
-    WHERE ${filterSql(trust, query, schoolColumn)}
-    ORDER BY ${order}
-    ${page}`.execute(db);
+    ORDER BY page.position`.execute(db);
   return result.rows.map(toPriorityRow);
 }
 
-/** Number of current room results matching the filters. */
-export async function countPriorityRows(db: Kysely<Database>, trust: ActiveTrust, filter: PriorityFilter): Promise<number> {
-  const result = await sql<{ n: number }>`SELECT count(*)::int AS n FROM room_results rr WHERE ${filterSql(trust, filter)}`.execute(db);
-  return result.rows[0]?.n ?? 0;
+/** Counts survive until the trust's results change (the stamp is part of the key). */
+const countCache = new Map<string, number>();
+const COUNT_CACHE_MAX = 500;
+
+/** Number of ranked rooms matching the filters. */
+export async function countPriorityRows(db: Kysely<Database>, trust: ActiveTrust, filter: PriorityFilter, stamp: string): Promise<number> {
+  const key = JSON.stringify([trust.id, trust.schoolIds, stamp, filter.schoolId, filter.blockId, filter.band, filter.ventilationType, filter.criteriaMet]);
+  const cached = countCache.get(key);
+  if (cached !== undefined) return cached;
+  const result = await sql<{ n: number }>`SELECT count(*)::int AS n FROM portfolio_ranks pr WHERE ${filterSql(trust, filter)}`.execute(db);
+  const n = result.rows[0]?.n ?? 0;
+  if (countCache.size >= COUNT_CACHE_MAX) countCache.delete(countCache.keys().next().value!);
+  countCache.set(key, n);
+  return n;
 }
 
 /** One page of the priorities list. */
 export async function listPriorities(db: Kysely<Database>, trust: ActiveTrust, query: PrioritiesQuery): Promise<PrioritiesPage> {
-  const weights = query.weights ?? (await ensureRanks(db, trust.id));
+  const state = await ensureRanks(db, trust.id);
   const [rows, total] = await Promise.all([
     selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize),
-    countPriorityRows(db, trust, query),
+    countPriorityRows(db, trust, query, state.stamp),
   ]);
-  return { rows, total, page: query.page, pageSize: query.pageSize, weights, preview: query.weights !== null };
+  return { rows, total, page: query.page, pageSize: query.pageSize, weights: query.weights ?? state.weights, preview: query.weights !== null };
 }

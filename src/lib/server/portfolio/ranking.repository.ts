@@ -16,15 +16,17 @@ export function normaliseWeights(w: Weights): Weights {
   return { risk: w.risk / sum, costEffectiveness: w.costEffectiveness / sum, payback: w.payback / sum };
 }
 
-/** SQL for a room's weighted score under `w` (alias `rr` = room_results). */
-export function weightedScoreSql(w: Weights) {
+/** SQL for a room's weighted score under `w`, on a table alias with the three score columns (room_results or portfolio_ranks). */
+export function weightedScoreSql(w: Weights, alias = 'rr') {
   const n = normaliseWeights(w);
-  return sql<number>`(${n.risk}::float8 * rr.score_risk + ${n.costEffectiveness}::float8 * rr.score_cost_effectiveness + ${n.payback}::float8 * rr.score_payback)`;
+  const t = sql.raw(alias);
+  return sql<number>`(${n.risk}::float8 * ${t}.score_risk + ${n.costEffectiveness}::float8 * ${t}.score_cost_effectiveness + ${n.payback}::float8 * ${t}.score_payback)`;
 }
 
 /** Order of the ranking: score, then more pupil-hours of poor air, then a stable id. */
-export function rankOrderSql(w: Weights) {
-  return sql`${weightedScoreSql(w)} DESC, rr.pupil_hours_above DESC, rr.room_id ASC`;
+export function rankOrderSql(w: Weights, alias = 'rr') {
+  const t = sql.raw(alias);
+  return sql`${weightedScoreSql(w, alias)} DESC, ${t}.pupil_hours_above DESC, ${t}.room_id ASC`;
 }
 
 const sameWeights = (a: Weights, b: Weights) =>
@@ -49,38 +51,77 @@ function runsStampSql(trustId: string) {
   return sql<string>`(SELECT coalesce(max(finished_at)::text, '') || ':' || count(*) FROM assessment_runs WHERE trust_id = ${trustId} AND status = 'succeeded')`;
 }
 
+/** The trust's ranks as built: the weights they use and the results stamp they were built from. */
+export interface RankState {
+  weights: Weights;
+  stamp: string;
+}
+
+/**
+ * How long a process trusts its last check that a trust's ranks are fresh, ms. A run that finishes in
+ * another process shows in the list at most this much later; saving weights here clears it at once.
+ */
+const FRESH_FOR_MS = 2000;
+const checked = new Map<string, { state: RankState; at: number }>();
+
+/** Forgets the freshness check of a trust's ranks (after its weights change). */
+export function forgetRankState(trustId: string): void {
+  checked.delete(trustId);
+}
+
 /**
  * Makes portfolio_ranks match the trust's saved weights and current results, rebuilding it when stale.
- * Returns the weights the ranks use.
+ * One round trip when nothing changed, none when checked in the last FRESH_FOR_MS.
  */
-export async function ensureRanks(db: Kysely<Database>, trustId: string): Promise<Weights> {
-  const state = await db
-    .selectNoFrom((eb) => [
-      eb.selectFrom('portfolio_settings').select('ranked_weights').where('trust_id', '=', trustId).as('ranked_weights'),
-      eb.selectFrom('portfolio_settings').select('ranked_stamp').where('trust_id', '=', trustId).as('ranked_stamp'),
-      runsStampSql(trustId).as('stamp'),
-    ])
-    .executeTakeFirstOrThrow();
-  const { weights } = await getWeightSettings(db, trustId);
-  const ranked = state.ranked_weights as Weights | null;
-  if (ranked && state.ranked_stamp === state.stamp && sameWeights(ranked, weights)) return weights;
-  await rebuildRanks(db, trustId, weights);
-  return weights;
+export async function ensureRanks(db: Kysely<Database>, trustId: string): Promise<RankState> {
+  const recent = checked.get(trustId);
+  if (recent && Date.now() - recent.at < FRESH_FOR_MS) return recent.state;
+  const state = await checkRanks(db, trustId);
+  if (checked.size > 1000) checked.clear();
+  checked.set(trustId, { state, at: Date.now() });
+  return state;
+}
+
+async function checkRanks(db: Kysely<Database>, trustId: string): Promise<RankState> {
+  const state = await sql<{
+    weight_risk: number | null;
+    weight_cost_effectiveness: number | null;
+    weight_payback: number | null;
+    ranked_weights: Weights | null;
+    ranked_stamp: string | null;
+    stamp: string;
+  }>`
+    SELECT ps.weight_risk, ps.weight_cost_effectiveness, ps.weight_payback, ps.ranked_weights, ps.ranked_stamp, ${runsStampSql(trustId)} AS stamp
+    FROM (SELECT 1) one LEFT JOIN portfolio_settings ps ON ps.trust_id = ${trustId}`.execute(db);
+  const row = state.rows[0]!;
+  const weights: Weights =
+    row.weight_risk === null || row.weight_cost_effectiveness === null || row.weight_payback === null
+      ? { ...DEFAULT_RANK_WEIGHTS }
+      : { risk: row.weight_risk, costEffectiveness: row.weight_cost_effectiveness, payback: row.weight_payback };
+  if (row.ranked_weights && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights, weights)) return { weights, stamp: row.stamp };
+  const stamp = await rebuildRanks(db, trustId, weights);
+  return { weights, stamp };
 }
 
 /** Rebuilds the trust's ranks under `weights` in one transaction; concurrent rebuilds wait for each other. */
-async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weights): Promise<void> {
-  await db.transaction().execute(async (trx) => {
+async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weights): Promise<string> {
+  return db.transaction().execute(async (trx) => {
     await sql`SELECT pg_advisory_xact_lock(hashtext(${`portfolio_ranks:${trustId}`}))`.execute(trx);
     const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
     const current = await trx.selectFrom('portfolio_settings').select(['ranked_weights', 'ranked_stamp']).where('trust_id', '=', trustId).executeTakeFirst();
-    if (current?.ranked_stamp === stampRow.stamp && current.ranked_weights && sameWeights(current.ranked_weights as Weights, weights)) return;
+    if (current?.ranked_stamp === stampRow.stamp && current.ranked_weights && sameWeights(current.ranked_weights as Weights, weights)) return stampRow.stamp;
     await trx.deleteFrom('portfolio_ranks').where('trust_id', '=', trustId).execute();
     await sql`
-      INSERT INTO portfolio_ranks (trust_id, room_id, school_id, rank, score)
-      SELECT rr.trust_id, rr.room_id, rr.school_id, row_number() OVER (ORDER BY ${rankOrderSql(weights)}), ${weightedScoreSql(weights)}
-      FROM room_results rr
+      INSERT INTO portfolio_ranks (trust_id, room_id, school_id, rank, score, block_id, school_name, ventilation_type, risk_band,
+        criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp, simple_payback_years, npv_gbp,
+        pupil_hours_above, score_risk, score_cost_effectiveness, score_payback)
+      SELECT rr.trust_id, rr.room_id, rr.school_id, row_number() OVER (ORDER BY ${rankOrderSql(weights)}), ${weightedScoreSql(weights)},
+        rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
+        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.score_risk,
+        rr.score_cost_effectiveness, rr.score_payback
+      FROM room_results rr JOIN schools s ON s.id = rr.school_id
       WHERE rr.trust_id = ${trustId} AND rr.is_current`.execute(trx);
+    await sql`ANALYZE portfolio_ranks`.execute(trx);
     await trx
       .insertInto('portfolio_settings')
       .values({ trust_id: trustId, ranked_weights: JSON.stringify(weights), ranked_stamp: stampRow.stamp, ranked_at: new Date() })
@@ -88,6 +129,7 @@ async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weig
         oc.column('trust_id').doUpdateSet({ ranked_weights: JSON.stringify(weights), ranked_stamp: stampRow.stamp, ranked_at: new Date() }),
       )
       .execute();
+    return stampRow.stamp;
   });
 }
 
@@ -123,6 +165,7 @@ export async function saveWeights(
       after: weights,
     });
   });
+  forgetRankState(trustId);
   await ensureRanks(db, trustId);
   return getWeightSettings(db, trustId);
 }
