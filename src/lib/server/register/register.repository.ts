@@ -95,24 +95,32 @@ export async function applyPlan(
   const blockIds = new Map<string, string>();
   const resolve = (ref: Ref, ids: Map<string, string>) => ('id' in ref ? ref.id : ids.get(ref.newKey) ?? null);
 
-  for (const s of plan.newSchools) {
-    const { id } = await trx.insertInto('schools').values({ trust_id: trustId, name: s.name, phase: s.phase, climate_region: s.climateRegion })
-      .returning('id').executeTakeFirstOrThrow();
-    schoolIds.set(s.key, id);
-    audit.push({ ...base, action: 'school.created', entityType: 'school', entityId: id, summary: `Created school ${s.name} from a register import`, after: s });
+  if (plan.newSchools.length) {
+    const created = await trx.insertInto('schools')
+      .values(plan.newSchools.map((s) => ({ trust_id: trustId, name: s.name, phase: s.phase, climate_region: s.climateRegion })))
+      .returning(['id', 'name']).execute();
+    const idByName = new Map(created.map((r) => [r.name, r.id]));
+    for (const s of plan.newSchools) {
+      const id = idByName.get(s.name) ?? null;
+      if (id) schoolIds.set(s.key, id);
+      audit.push({ ...base, action: 'school.created', entityType: 'school', entityId: id, summary: `Created school ${s.name} from a register import`, after: s });
+    }
   }
   for (const c of plan.schoolChanges) {
     await trx.updateTable('schools').set({ phase: c.after.phase }).where('id', '=', c.id).execute();
     audit.push({ ...base, action: 'school.updated', entityType: 'school', entityId: c.id, summary: `Changed the phase of ${c.name}`, before: c.before, after: c.after });
   }
-  for (const b of plan.newBlocks) {
-    const schoolId = resolve(b.school, schoolIds);
-    if (!schoolId) continue;
-    const { id } = await trx.insertInto('blocks')
-      .values({ school_id: schoolId, name: b.name, year_built: b.yearBuilt, air_permeability_m3h_m2: b.airPermeabilityM3hM2 })
-      .returning('id').executeTakeFirstOrThrow();
-    blockIds.set(b.key, id);
-    audit.push({ ...base, action: 'block.created', entityType: 'block', entityId: id, summary: `Created block ${b.name} from a register import`, after: b });
+  const blocksToCreate = plan.newBlocks.map((b) => ({ b, schoolId: resolve(b.school, schoolIds) })).filter((x) => x.schoolId);
+  if (blocksToCreate.length) {
+    const created = await trx.insertInto('blocks')
+      .values(blocksToCreate.map(({ b, schoolId }) => ({ school_id: schoolId as string, name: b.name, year_built: b.yearBuilt, air_permeability_m3h_m2: b.airPermeabilityM3hM2 })))
+      .returning(['id', 'school_id', 'name']).execute();
+    const idByKey = new Map(created.map((r) => [`${r.school_id}|${r.name}`, r.id]));
+    for (const { b, schoolId } of blocksToCreate) {
+      const id = idByKey.get(`${schoolId}|${b.name}`) ?? null;
+      if (id) blockIds.set(b.key, id);
+      audit.push({ ...base, action: 'block.created', entityType: 'block', entityId: id, summary: `Created block ${b.name} from a register import`, after: b });
+    }
   }
   for (const c of plan.blockChanges) {
     await trx.updateTable('blocks').set({
@@ -128,9 +136,6 @@ export async function applyPlan(
   const typed = (values: unknown[], type: string) => sql`${values}::${sql.raw(type)}[]`;
   const creates = plan.roomWrites.filter((w) => !w.roomId);
   const updates = plan.roomWrites.filter((w) => w.roomId);
-  // Chunks are sent without waiting for the previous one: the connection queues them in order, and
-  // the next chunk's arrays are built while the database works on the last.
-  const inserted: Promise<void>[] = [];
   const createdIds = new Map<string, string>();
   for (let start = 0; start < creates.length; start += ROOM_CHUNK) {
     const chunk = creates.slice(start, start + ROOM_CHUNK);
@@ -140,13 +145,10 @@ export async function applyPlan(
       ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
     ];
     const columnList = sql.raw(['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', '));
-    inserted.push(sql<{ id: string; code: string; school_id: string }>`
-      INSERT INTO rooms (${columnList}) SELECT * FROM unnest(${sql.join(args)}) RETURNING id, code, school_id`.execute(trx)
-      .then((result) => {
-        for (const r of result.rows) createdIds.set(`${r.school_id}|${r.code}`, r.id);
-      }));
+    const result = await sql<{ id: string; code: string; school_id: string }>`
+      INSERT INTO rooms (${columnList}) SELECT * FROM unnest(${sql.join(args)}) RETURNING id, code, school_id`.execute(trx);
+    for (const r of result.rows) createdIds.set(`${r.school_id}|${r.code}`, r.id);
   }
-  await Promise.all(inserted);
   for (const w of creates) {
     const id = createdIds.get(`${resolve(w.school, schoolIds)}|${w.fields.code}`) ?? null;
     audit.push({ ...base, action: 'room.created', entityType: 'room', entityId: id, summary: `Created room ${w.fields.code} from a register import (row ${w.rowNumber})`, after: w.fields });
@@ -175,9 +177,7 @@ export async function applyPlan(
       audit.push({ ...base, action: 'room.deleted', entityType: 'room', entityId: r.id, summary: `Deleted room ${r.code} of ${r.schoolName}: not in the imported register`, before: r });
     }
   }
-  const written: Promise<void>[] = [];
-  for (let start = 0; start < audit.length; start += AUDIT_CHUNK) written.push(recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK)));
-  await Promise.all(written);
+  for (let start = 0; start < audit.length; start += AUDIT_CHUNK) await recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK));
   return { roomsDeleted };
 }
 
