@@ -115,6 +115,7 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
     let tail = '';
     let inMerges = false;
     const merges: MergedRange[] = [];
+    let carry = Buffer.alloc(0);
     inflate.on('data', (chunk: Buffer) => {
       total += chunk.length;
       if (total > MAX_ENTRY_BYTES) {
@@ -122,14 +123,28 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
         reject(notXlsx(`the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`));
         return;
       }
-      const text = tail + chunk.toString('latin1');
-      if (head.length < 4096) head += text.slice(0, 4096);
-      if (!inMerges && text.includes('<mergeCells')) inMerges = true;
-      if (inMerges) {
+      if (head.length < 4096) head += chunk.toString('latin1', 0, 4096);
+      // Only text from <mergeCells> on is decoded; the rows before it are counted, not read.
+      const bytes = carry.length ? Buffer.concat([carry, chunk]) : chunk;
+      if (!inMerges) {
+        const at = bytes.indexOf('<mergeCells');
+        if (at < 0) {
+          carry = Buffer.from(bytes.subarray(Math.max(0, bytes.length - 16)));
+          return;
+        }
+        inMerges = true;
+        tail = '';
+        carry = Buffer.alloc(0);
+        const text = bytes.toString('latin1', at);
         const cut = text.lastIndexOf('>') + 1;
         parseMerges(text.slice(0, cut), merges);
         tail = text.slice(cut);
-      } else tail = text.slice(-32);
+        return;
+      }
+      const text = tail + chunk.toString('latin1');
+      const cut = text.lastIndexOf('>') + 1;
+      parseMerges(text.slice(0, cut), merges);
+      tail = text.slice(cut);
     });
     inflate.on('error', () => reject(notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`)));
     inflate.on('end', () => {
