@@ -27,7 +27,7 @@ function caption(kind: DashboardChartKind, d: Dashboard): string {
     case 'co2':
       return 'Rooms in each school by their worst season\'s mean CO₂ over the school day. The longer the amber and red parts of a bar, the more rooms in that school have stale air.';
     case 'scatter':
-      return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years energy savings take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}`;
+      return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years energy savings take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back on energy alone are not plotted.` : ''}`;
     case 'cumulative':
       return `Capital spent (across) against the pupil-hours of poor air removed each year (up) if rooms are done in ranked order. A steep start means the first rooms on the list do most good per pound. All ${formatGbp(d.cumulative.totalCapitalGbp)} removes about ${formatInteger(d.cumulative.totalPupilHoursRemoved)} pupil-hours a year.`;
   }
@@ -120,6 +120,12 @@ function Figure({ kind, bandLabels }: Props) {
         <Skeleton lines={5} label={`Loading ${TITLES[kind].toLowerCase()}`} />
       ) : query.isError ? (
         <ErrorState message={query.error.message} onRetry={() => void query.refetch()} />
+      ) : kind === 'scatter' && query.data.scatter.points.length === 0 && query.data.scatter.neverPayBack > 0 ? (
+        <EmptyState title="No recommended unit pays back on energy alone.">
+          Under the current energy prices all {formatInteger(query.data.scatter.neverPayBack)} rooms with recommended units cost more to run
+          than the heat they save, so there is no payback to plot. Rank them by need on the <a className="underline" href="/app/priorities">priorities page</a>; the
+          finance page shows how prices would change this.
+        </EmptyState>
       ) : !hasData(kind, query.data) ? (
         <EmptyState title="Nothing to chart yet.">
           {query.data.headline.roomsInRegister === 0 ? <a className="underline" href="/app/register">Import your register</a> : <a className="underline" href="/app/assessments">Run an assessment</a>}
@@ -131,7 +137,7 @@ function Figure({ kind, bandLabels }: Props) {
           <div className="mt-3"><LazyChart data={chartData(kind, query.data, bandLabels)} heightPx={kind === 'co2' ? Math.max(260, 60 + query.data.co2BySchool.length * 44) : 320} /></div>
           <details className="mt-3 text-sm">
             <summary className="cursor-pointer font-semibold text-brand">Show these figures as a table</summary>
-            <div className="mt-2 overflow-x-auto"><TableAlternative kind={kind} d={query.data} bandLabels={bandLabels} /></div>
+            <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label={`${TITLES[kind]}: figures`}><TableAlternative kind={kind} d={query.data} bandLabels={bandLabels} /></div>
           </details>
         </>
       )}

@@ -288,7 +288,7 @@ function Priorities(props: PrioritiesProps) {
         </EmptyState>
       ) : (
         <div className="rounded-card border border-line bg-surface">
-          <div className="overflow-x-auto" aria-busy={query.isFetching}>
+          <div className="overflow-x-auto" aria-busy={query.isFetching} tabIndex={0} role="region" aria-label="Ranked rooms">
             <table className="w-full text-left text-sm" data-testid="priorities-table">
               <caption className="sr-only">
                 Assessed rooms ranked for retrofit, {preview ? 'with the weights you are trying out' : "with the trust's saved weights"}; sorted by {sort.id}.

@@ -84,7 +84,7 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
         ],
         axes: {
           x: { type: 'number', position: 'bottom', title: { text: 'Capital spent, in ranked order (£)' }, label: { formatter: ({ value }) => gbp(Number(value)) } },
-          y: { type: 'number', position: 'left', title: { text: 'Pupil-hours removed a year' } },
+          y: { type: 'number', position: 'left', title: { text: 'Pupil-hours removed a year' }, label: { formatter: ({ value }) => Math.round(Number(value)).toLocaleString('en-GB') } },
         },
         legend: { enabled: false },
       };

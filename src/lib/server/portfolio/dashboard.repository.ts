@@ -76,7 +76,9 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
         JOIN rooms r ON r.id = rr.room_id JOIN schools s ON s.id = rr.school_id
       WHERE ${scope} AND ${retrofitted} AND rr.simple_payback_years IS NOT NULL
       ORDER BY pr.rank LIMIT ${SCATTER_MAX_POINTS}`.execute(db),
-    sql<{ n: number }>`SELECT count(*)::int AS n FROM room_results rr WHERE ${scope} AND ${retrofitted} AND rr.simple_payback_years IS NOT NULL`.execute(db),
+    sql<{ n: number; never: number }>`SELECT count(*) FILTER (WHERE rr.simple_payback_years IS NOT NULL)::int AS n,
+      count(*) FILTER (WHERE rr.simple_payback_years IS NULL)::int AS never
+      FROM room_results rr WHERE ${scope} AND ${retrofitted}`.execute(db),
     sql<{ rank: number; cc: number; ch: number }>`
       WITH ordered AS (
         SELECT pr.rank,
@@ -113,7 +115,7 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
   return {
     headline,
     co2BySchool,
-    scatter: { points, totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0, shown: points.length },
+    scatter: { points, totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0, shown: points.length, neverPayBack: scatterTotal.rows[0]?.never ?? 0 },
     cumulative: { points: curve, totalCapitalGbp: last?.cumulativeCapitalGbp ?? 0, totalPupilHoursRemoved: last?.cumulativePupilHoursRemoved ?? 0 },
   };
 }

@@ -160,6 +160,7 @@ export interface Dashboard {
     lastRunFinishedAt: string | null;
   };
   co2BySchool: Co2BySchool[];
-  scatter: { points: ScatterPoint[]; totalWithRetrofit: number; shown: number };
+  /** Rooms with units that pay back; `neverPayBack` counts those whose units never do (not plotted). */
+  scatter: { points: ScatterPoint[]; totalWithRetrofit: number; shown: number; neverPayBack: number };
   cumulative: { points: CumulativePoint[]; totalCapitalGbp: number; totalPupilHoursRemoved: number };
 }
