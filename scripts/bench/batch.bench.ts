@@ -110,7 +110,7 @@ async function ioFloor(templateLine: (roomId: string) => string): Promise<number
     const client = await getPool().connect();
     try {
       await client.query('BEGIN');
-      await copyLines(client, copyResultsSql('bench_results_scratch'), rooms.map((r) => templateLine(r.roomId)));
+      await copyLines(client, copyResultsSql('bench_results_scratch'), (function* () { for (const r of rooms) yield templateLine(r.roomId); })());
       await client.query('COMMIT');
     } finally {
       client.release();
@@ -129,8 +129,10 @@ async function fullBatch(): Promise<number> {
     assumptionSetId: assumptions.id, assumptionsVersion: assumptions.label, startedByUserId: null, startedByEmail: 'bench',
   });
   const started = performance.now();
-  await executeRun(runId, { chunkSize: CHUNK });
+  let lastChunkAt = started;
+  await executeRun(runId, { chunkSize: CHUNK, afterChunk: () => void (lastChunkAt = performance.now()) });
   const seconds = (performance.now() - started) / 1000;
+  log(`chunks written in ${((lastChunkAt - started) / 1000).toFixed(2)} s, flip (rank + make current) ${((performance.now() - lastChunkAt) / 1000).toFixed(2)} s`);
   const run = await getRun(db, runId, TRUST_ID);
   if (run?.status !== 'succeeded') throw new Error(`bench run ended ${run?.status}: ${run?.error}`);
   const current = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', TRUST_ID).where('is_current', '=', true).executeTakeFirstOrThrow();

@@ -40,10 +40,14 @@ export function toCopyLine(r: ResultRow): string {
 }
 
 /** Streams COPY text lines into `copySql` on a client that is already inside a transaction. */
-export async function copyLines(client: pg.PoolClient, copySql: string, lines: string[]): Promise<void> {
-  if (lines.length === 0) return;
+export async function copyLines(client: pg.PoolClient, copySql: string, lines: Iterable<string>): Promise<void> {
   const target = client.query(copyStreams.from(copySql));
   await pipeline(Readable.from(lines), target);
+}
+
+/** Result rows as COPY lines, made one at a time as the stream asks for them. */
+function* copyLinesOf(rows: ResultRow[]): Generator<string> {
+  for (const row of rows) yield toCopyLine(row);
 }
 
 /**
@@ -59,7 +63,7 @@ export async function commitChunk(
   const client = await pool.connect();
   try {
     await client.query('BEGIN');
-    await copyLines(client, copyResultsSql(), rows.map(toCopyLine));
+    if (rows.length > 0) await copyLines(client, copyResultsSql(), copyLinesOf(rows));
     await client.query(
       `UPDATE assessment_runs SET rooms_done = rooms_done + $2, rooms_total = GREATEST(rooms_total, rooms_done + $2),
          resume_after_room_id = $3, problems = problems || $4::jsonb, updated_at = now()
