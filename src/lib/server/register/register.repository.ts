@@ -136,22 +136,25 @@ export async function applyPlan(
   const typed = (values: unknown[], type: string) => sql`${values}::${sql.raw(type)}[]`;
   const creates = plan.roomWrites.filter((w) => !w.roomId);
   const updates = plan.roomWrites.filter((w) => w.roomId);
-  const createdIds = new Map<string, string>();
+  // New rooms and their audit events in one statement per chunk: the database writes each
+  // room.created event from the row it has just inserted, so the values travel only once.
+  const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', ins.${c}`).join(', ')})`);
   for (let start = 0; start < creates.length; start += ROOM_CHUNK) {
     const chunk = creates.slice(start, start + ROOM_CHUNK);
     const args = [
+      typed(chunk.map((w) => w.rowNumber), 'int4'),
       typed(chunk.map((w) => resolve(w.school, schoolIds)), 'uuid'),
       typed(chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null)), 'uuid'),
       ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
     ];
-    const columnList = sql.raw(['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', '));
-    const result = await sql<{ id: string; code: string; school_id: string }>`
-      INSERT INTO rooms (${columnList}) SELECT * FROM unnest(${sql.join(args)}) RETURNING id, code, school_id`.execute(trx);
-    for (const r of result.rows) createdIds.set(`${r.school_id}|${r.code}`, r.id);
-  }
-  for (const w of creates) {
-    const id = createdIds.get(`${resolve(w.school, schoolIds)}|${w.fields.code}`) ?? null;
-    audit.push({ ...base, action: 'room.created', entityType: 'room', entityId: id, summary: `Created room ${w.fields.code} from a register import (row ${w.rowNumber})`, after: w.fields });
+    const columns = ['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', ');
+    await sql`
+      WITH src AS (SELECT * FROM unnest(${sql.join(args)}) AS u(row_number, ${sql.raw(columns)})),
+      ins AS (INSERT INTO rooms (${sql.raw(columns)}) SELECT ${sql.raw(columns)} FROM src RETURNING *)
+      INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, after)
+      SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', ins.id::text,
+        'Created room ' || ins.code || ' from a register import (row ' || src.row_number || ')', ${roomJson}
+      FROM ins JOIN src ON src.school_id = ins.school_id AND src.code = ins.code`.execute(trx);
   }
   for (let start = 0; start < updates.length; start += ROOM_CHUNK) {
     const chunk = updates.slice(start, start + ROOM_CHUNK);
