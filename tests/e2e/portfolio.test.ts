@@ -163,6 +163,7 @@ describe('portfolio pages in Chromium', () => {
     expect(await page.locator('[data-testid="baseline-words"]').textContent()).toContain('discount rate');
     expect(await page.locator('[data-testid="sensitivity-energy"] tbody tr').count()).toBe(7);
     expect(await page.getByRole('button', { name: 'Re-run assessment' }).count()).toBe(1);
+    expect(await page.getByRole('link', { name: 'Change financial assumptions' }).getAttribute('href')).toBe('/app/settings/assumptions');
     await page.locator('[data-testid="chart-sensitivity"]').scrollIntoViewIfNeeded();
     await page.locator('[data-testid="chart-sensitivity"] canvas').first().waitFor({ timeout: 20_000 });
     await page.screenshot({ path: join(SHOTS, 'finance-light.png') });

@@ -2,6 +2,7 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import { DEFAULT_ASSUMPTIONS } from '../../engine/assumptions';
+import { getAssumptionSetById } from '../assessments/assumptions.repository';
 import { simplePaybackYears } from '../../engine/finance';
 import type { RetrofitMoney, RetrofitUnitLine } from '../../engine/types';
 import type { ActiveTrust } from '../auth/context';
@@ -109,7 +110,7 @@ export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, qu
       ORDER BY s.name, b.name NULLS LAST, r.code`.execute(db),
     db
       .selectFrom('assessment_runs')
-      .select(['finished_at', 'assumptions_version'])
+      .select(['finished_at', 'assumptions_version', 'assumption_set_id'])
       .where('trust_id', '=', trust.id)
       .where('status', '=', 'succeeded')
       .orderBy('finished_at', 'desc')
@@ -134,7 +135,9 @@ export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, qu
   }
   for (const entry of schools.values()) entry.school.subtotal = finish(entry.sum);
 
-  const finance = DEFAULT_ASSUMPTIONS.finance;
+  // The baseline is the assumption set the latest run used, so the sensitivity matches the rows above it.
+  const runSet = lastRun?.assumption_set_id ? await getAssumptionSetById(db, trust.id, lastRun.assumption_set_id) : null;
+  const finance = (runSet?.set ?? DEFAULT_ASSUMPTIONS).finance;
   const baseline = { discountRate: finance.discountRate.value, appraisalYears: finance.appraisalYears.value };
   const runWhen = lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null;
   return {
