@@ -353,6 +353,9 @@ function Priorities(props: PrioritiesProps) {
               </select>
             </label>
             {query.isFetching && <span role="status" className="text-ink-muted">Updating…</span>}
+            <p className="basis-full text-xs text-ink-muted">
+              Payback “Never”: on energy alone the units cost more to run than the heat they recover; they are recommended for the air, not the bill.
+            </p>
             {query.isError && query.data && (
               <span role="alert" className="text-danger">
                 {query.error.message} <button type="button" className="underline" onClick={() => void query.refetch()}>Try again</button>
