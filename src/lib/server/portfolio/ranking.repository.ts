@@ -76,13 +76,17 @@ export function forgetRankState(trustId: string): void {
 export async function ensureRanks(db: Kysely<Database>, trustId: string): Promise<RankState> {
   const recent = checked.get(trustId);
   if (recent && Date.now() - recent.at < FRESH_FOR_MS) return recent.state;
-  const state = await checkRanks(db, trustId);
+  const state = await checkRanks(db, trustId, { wait: false });
   if (checked.size > 1000) checked.clear();
   checked.set(trustId, { state, at: Date.now() });
   return state;
 }
 
-async function checkRanks(db: Kysely<Database>, trustId: string): Promise<RankState> {
+/**
+ * Reads the trust's rank state and rebuilds stale ranks. With `wait: false`, a reader that finds another
+ * request already rebuilding gets the previous ranks (and their weights) instead of waiting for it.
+ */
+async function checkRanks(db: Kysely<Database>, trustId: string, options: { wait: boolean }): Promise<RankState> {
   const state = await sql<{
     weight_risk: number | null;
     weight_cost_effectiveness: number | null;
@@ -99,14 +103,26 @@ async function checkRanks(db: Kysely<Database>, trustId: string): Promise<RankSt
       ? { ...DEFAULT_RANK_WEIGHTS }
       : { risk: row.weight_risk, costEffectiveness: row.weight_cost_effectiveness, payback: row.weight_payback };
   if (row.ranked_weights && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights, weights)) return { weights, stamp: row.stamp };
-  const stamp = await rebuildRanks(db, trustId, weights);
+  const previous = row.ranked_weights && row.ranked_stamp ? { weights: row.ranked_weights, stamp: row.ranked_stamp } : null;
+  const stamp = await rebuildRanks(db, trustId, weights, options.wait || previous === null);
+  if (stamp === null) return previous!;
   return { weights, stamp };
 }
 
-/** Rebuilds the trust's ranks under `weights` in one transaction; concurrent rebuilds wait for each other. */
-async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weights): Promise<string> {
+/**
+ * Rebuilds the trust's ranks under `weights` in one transaction (readers see the old ranks until it commits).
+ * One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the
+ * caller gets null at once.
+ */
+async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weights, wait: boolean): Promise<string | null> {
   return db.transaction().execute(async (trx) => {
-    await sql`SELECT pg_advisory_xact_lock(hashtext(${`portfolio_ranks:${trustId}`}))`.execute(trx);
+    const lockKey = `portfolio_ranks:${trustId}`;
+    if (wait) {
+      await sql`SELECT pg_advisory_xact_lock(hashtext(${lockKey}))`.execute(trx);
+    } else {
+      const got = await sql<{ ok: boolean }>`SELECT pg_try_advisory_xact_lock(hashtext(${lockKey})) AS ok`.execute(trx);
+      if (!got.rows[0]?.ok) return null;
+    }
     const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
     const current = await trx.selectFrom('portfolio_settings').select(['ranked_weights', 'ranked_stamp']).where('trust_id', '=', trustId).executeTakeFirst();
     if (current?.ranked_stamp === stampRow.stamp && current.ranked_weights && sameWeights(current.ranked_weights as Weights, weights)) return stampRow.stamp;
@@ -166,6 +182,7 @@ export async function saveWeights(
     });
   });
   forgetRankState(trustId);
-  await ensureRanks(db, trustId);
+  // The person who saved sees the list in their new order: wait for any rebuild already running.
+  await checkRanks(db, trustId, { wait: true });
   return getWeightSettings(db, trustId);
 }
