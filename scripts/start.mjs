@@ -41,7 +41,7 @@ try {
   };
   // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
   Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: true, retryBaseMs: 2000 }));
-  prepareDatabase(env);
+  prepareDatabase({ ...env, AIRTALLY_SEED_ASSESSMENT: '1' });
   startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
   await waitForPort(smtpPort, 20_000, 'The mail fake');
   buildApp(outDir);

@@ -3,6 +3,8 @@ import { createDb } from '../../src/lib/server/db/client';
 import { seedDemoEstate } from '../../db/seed/seed';
 import { seedDemoAccounts } from '../../db/seed/demo-accounts';
 import { seedDemoBilling } from '../../db/seed/demo-billing';
+import { seedDemoAssessment } from '../../db/seed/demo-assessment';
+import { getPool } from '../../src/lib/server/db/client';
 
 const db = createDb(process.env.DATABASE_URL ?? '');
 try {
@@ -11,9 +13,12 @@ try {
   const accounts = await seedDemoAccounts(db);
   console.log(accounts ? `Demo accounts created: ${accounts}.` : 'Demo accounts already present.');
   console.log(`Demo subscription: ${await seedDemoBilling(db)}.`);
+  // `npm start` asks for a first assessment so the demo opens on results; tests start from none.
+  if (process.env.AIRTALLY_SEED_ASSESSMENT === '1') console.log(`Demo assessment: ${await seedDemoAssessment(db)}.`);
 } catch (error) {
   console.error(error instanceof Error ? error.message : error);
   process.exitCode = 1;
 } finally {
   await db.destroy();
+  if (process.env.AIRTALLY_SEED_ASSESSMENT === '1') await getPool().end();
 }

@@ -1,0 +1,36 @@
+import type { Kysely } from 'kysely';
+import type { Database } from '../database';
+import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
+import { countRoomsInScope } from '../../src/lib/server/assessments/engine-input.repository';
+import { executeRun } from '../../src/lib/server/assessments/run-executor';
+import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
+import { DEMO_TRUST } from './demo-trust';
+
+/**
+ * Assesses the demo estate once, so a first `npm start` opens on ranked results rather than an empty
+ * dashboard. Runs the same executor the batch queue uses, in this process. Skipped when the demo trust
+ * already has a succeeded run.
+ */
+export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> {
+  const done = await db
+    .selectFrom('assessment_runs')
+    .select('id')
+    .where('trust_id', '=', DEMO_TRUST.id)
+    .where('status', '=', 'succeeded')
+    .executeTakeFirst();
+  if (done) return 'already assessed';
+  const assumptions = await getCurrentAssumptionSet(db, DEMO_TRUST.id);
+  const roomsTotal = await countRoomsInScope(db, { trustId: DEMO_TRUST.id, schoolId: null });
+  const runId = await insertRun(db, {
+    trustId: DEMO_TRUST.id,
+    schoolId: null,
+    roomsTotal,
+    assumptionSetId: assumptions.id,
+    assumptionsVersion: assumptions.label,
+    startedByUserId: null,
+    startedByEmail: null,
+  });
+  await executeRun(runId);
+  const run = await getRun(db, runId, DEMO_TRUST.id);
+  return `${run?.status ?? 'unknown'} (${roomsTotal} rooms)`;
+}
