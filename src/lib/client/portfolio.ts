@@ -1,6 +1,7 @@
 /** Data fetching for the portfolio islands: one QueryClient shared by every island on a page, and typed hooks. */
 import { keepPreviousData, QueryClient, useMutation, useQuery } from '@tanstack/react-query';
 import type { Dashboard, PrioritiesPage, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
+import { apiFetch } from './api';
 
 export type { Co2BySchool, CumulativePoint, Dashboard, PrioritiesPage, PriorityRow, ScatterPoint, SensitivityCase, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
 
@@ -9,34 +10,7 @@ export const queryClient = new QueryClient({
   defaultOptions: { queries: { staleTime: 30_000, retry: 1, refetchOnWindowFocus: false } },
 });
 
-/** An API error with the message our routes return ({ error: { code, message } }). */
-export class ApiError extends Error {
-  constructor(
-    readonly status: number,
-    readonly code: string,
-    message: string,
-  ) {
-    super(message);
-  }
-}
-
-/** Fetches JSON from our API; a non-2xx answer becomes an ApiError with the server's message. */
-export async function fetchJson<T>(path: string, init: RequestInit = {}): Promise<T> {
-  const response = await fetch(path, { credentials: 'same-origin', ...init, headers: { accept: 'application/json', ...init.headers } });
-  if (!response.ok) {
-    let code = 'http_error';
-    let message = `The server answered ${response.status}.`;
-    try {
-      const body = (await response.json()) as { error?: { code?: string; message?: string } };
-      code = body.error?.code ?? code;
-      message = body.error?.message ?? message;
-    } catch {
-      // Not our JSON shape: keep the generic message.
-    }
-    throw new ApiError(response.status, code, message);
-  }
-  return (await response.json()) as T;
-}
+export { ApiError } from './api';
 
 /** What the priorities table asks for: filters, sort, page and (optionally) preview weights. */
 export interface PrioritiesParams {
@@ -76,21 +50,21 @@ export function prioritiesSearch(p: Omit<PrioritiesParams, 'page' | 'pageSize'> 
 export function usePriorities(params: PrioritiesParams) {
   return useQuery({
     queryKey: ['priorities', params],
-    queryFn: () => fetchJson<PrioritiesPage>(`/api/priorities?${prioritiesSearch(params)}`),
+    queryFn: () => apiFetch<PrioritiesPage>(`/api/priorities?${prioritiesSearch(params)}`),
     placeholderData: keepPreviousData,
   });
 }
 
 /** The trust's saved ranking weights. */
 export function useWeights() {
-  return useQuery({ queryKey: ['weights'], queryFn: () => fetchJson<WeightSettings>('/api/priorities/weights') });
+  return useQuery({ queryKey: ['weights'], queryFn: () => apiFetch<WeightSettings>('/api/priorities/weights') });
 }
 
 /** Saves the trust's ranking weights, then refreshes the weights and the list. */
 export function useSaveWeights() {
   return useMutation({
     mutationFn: (weights: Weights) =>
-      fetchJson<WeightSettings>('/api/priorities/weights', { method: 'PUT', headers: { 'content-type': 'application/json' }, body: JSON.stringify(weights) }),
+      apiFetch<WeightSettings>('/api/priorities/weights', { method: 'PUT', body: weights }),
     onSuccess: (saved) => {
       queryClient.setQueryData(['weights'], saved);
       void queryClient.invalidateQueries({ queryKey: ['priorities'] });
@@ -100,18 +74,14 @@ export function useSaveWeights() {
 
 /** The dashboard's figures and chart data. */
 export function useDashboard() {
-  return useQuery({ queryKey: ['dashboard'], queryFn: () => fetchJson<Dashboard>('/api/dashboard') });
+  return useQuery({ queryKey: ['dashboard'], queryFn: () => apiFetch<Dashboard>('/api/dashboard') });
 }
 
 /** Starts a trust-wide assessment and resolves when it has finished (polling its status). */
 export async function runTrustAssessment(onProgress: (done: number, total: number) => void): Promise<void> {
-  const { id } = await fetchJson<{ id: string }>('/api/assessments', {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ scope: 'trust' }),
-  });
+  const { id } = await apiFetch<{ id: string }>('/api/assessments', { method: 'POST', body: { scope: 'trust' } });
   for (;;) {
-    const run = await fetchJson<{ status: string; roomsDone: number; roomsTotal: number; error?: string | null }>(`/api/assessments/${id}`);
+    const run = await apiFetch<{ status: string; roomsDone: number; roomsTotal: number; error?: string | null }>(`/api/assessments/${id}`);
     onProgress(run.roomsDone, run.roomsTotal);
     if (run.status === 'succeeded') return;
     if (run.status === 'failed') throw new Error(run.error ?? 'The assessment failed.');
