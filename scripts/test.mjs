@@ -41,6 +41,8 @@ try {
     TEST_ADMIN_DATABASE_URL: pg.adminUrl,
     PUBLIC_ORIGIN: origin,
     APP_URL: origin,
+    // Every test signs in from loopback; the per-account brute-force guard stays as in production.
+    AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS: '5000',
     SMTP_HOST: '127.0.0.1',
     SMTP_PORT: String(smtpPort),
     MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,

@@ -9,6 +9,11 @@ const AuthEnvSchema = z.object({
   AUTH_SESSION_SECONDS: z.coerce.number().int().positive().default(7 * 24 * 3600),
   /** Set to "true" only behind a reverse proxy that overwrites X-Forwarded-For. */
   AUTH_TRUST_PROXY: z.enum(['true', 'false']).default('false'),
+  /**
+   * Sign-in attempts per minute from one client address, whatever the account (the per-account brute-force
+   * guard is separate and always on). The test run raises it: hundreds of sign-ins come from loopback there.
+   */
+  AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS: z.coerce.number().int().positive().default(60),
 });
 
 // Used only when BETTER_AUTH_SECRET is unset and the app is served from this machine's loopback address.
@@ -20,6 +25,7 @@ export interface AuthConfig {
   secureCookies: boolean;
   sessionSeconds: number;
   trustProxy: boolean;
+  signInPerMinutePerAddress: number;
 }
 
 /** True for http(s)://localhost, 127.0.0.1 and [::1]. */
@@ -45,6 +51,7 @@ export function authConfig(): AuthConfig {
     secureCookies: !loopback,
     sessionSeconds: env.AUTH_SESSION_SECONDS,
     trustProxy: env.AUTH_TRUST_PROXY === 'true',
+    signInPerMinutePerAddress: env.AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS,
   };
   return cached;
 }

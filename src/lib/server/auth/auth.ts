@@ -101,9 +101,9 @@ export function createAuthOptions(db: Kysely<any>) {
       enabled: true,
       storage: 'memory',
       window: 60,
-      max: 200,
+      max: Math.max(200, config.signInPerMinutePerAddress * 2),
       customRules: {
-        '/sign-in/email': { window: 60, max: 60 },
+        '/sign-in/email': { window: 60, max: config.signInPerMinutePerAddress },
         '/request-password-reset': { window: 60, max: 10 },
         '/send-verification-email': { window: 60, max: 10 },
       },

@@ -3,18 +3,23 @@
  * (sign-up, forgotten password, sign-in page), where better-auth's own HTTP rate limiter does not run.
  * In this process's memory: a single server process is how Airtally is deployed.
  */
+import { authConfig } from './auth-config';
+
 const hits = new Map<string, number[]>();
 
-/** Limits of each form, per client address. */
-export const FORM_LIMITS = {
-  signUp: { max: 60, windowMs: 60_000 },
-  passwordReset: { max: 10, windowMs: 60_000 },
-  signIn: { max: 120, windowMs: 60_000 },
-} as const;
+/** Limits of each form, per client address; sign-in and sign-up follow the configured per-address budget. */
+export function formLimits() {
+  const perAddress = authConfig().signInPerMinutePerAddress;
+  return {
+    signUp: { max: Math.max(60, perAddress), windowMs: 60_000 },
+    passwordReset: { max: 10, windowMs: 60_000 },
+    signIn: { max: Math.max(120, perAddress * 2), windowMs: 60_000 },
+  } as const;
+}
 
 /** Counts one request; returns the seconds to wait when the budget is spent, else 0. */
-export function takeRequest(form: keyof typeof FORM_LIMITS, clientIp: string, now = Date.now()): number {
-  const { max, windowMs } = FORM_LIMITS[form];
+export function takeRequest(form: keyof ReturnType<typeof formLimits>, clientIp: string, now = Date.now()): number {
+  const { max, windowMs } = formLimits()[form];
   const key = `${form}|${clientIp}`;
   const recent = (hits.get(key) ?? []).filter((t) => now - t < windowMs);
   if (recent.length >= max) {
