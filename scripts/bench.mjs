@@ -4,10 +4,9 @@ import { readdirSync, mkdirSync, readFileSync, writeFileSync, existsSync } from 
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import {
-  ROOT, ensureNodeModules, recreateDatabase, startMailFake, startPostgres, step, stopChildren, waitForPort,
+  ROOT, ensureNodeModules, recreateDatabase, startPostgres, step, stopChildren,
 } from './lib/services.mjs';
-import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
-import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
+import { startStack } from './lib/app.mjs';
 
 const port = Number(process.env.AIRTALLY_BENCH_PORT ?? 4398);
 const pgPort = Number(process.env.AIRTALLY_BENCH_PG_PORT ?? 54349);
@@ -31,23 +30,10 @@ try {
   pg = await startPostgres({ dataDir, port: pgPort, database: 'postgres' });
   recreateDatabase(pg, 'airtally_bench');
   const origin = `http://127.0.0.1:${port}`;
-  const env = {
-    ...process.env,
-    DATABASE_URL: pg.url.replace(/\/postgres$/, '/airtally_bench'),
-    PUBLIC_ORIGIN: origin,
-    APP_URL: origin,
-    SMTP_HOST: '127.0.0.1',
-    SMTP_PORT: String(smtpPort),
-    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
-    NODE_ENV: 'production',
-  };
-  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
-  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: false, retryBaseMs: 1000 }));
-  prepareDatabase(env);
-  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
-  await waitForPort(smtpPort, 20_000, 'The mail fake');
-  buildApp(outDir);
-  await serveApp(outDir, port, env);
+  const { env } = await startStack({
+    databaseUrl: pg.url.replace(/\/postgres$/, '/airtally_bench'), origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    payments: { persist: false, retryBaseMs: 1000 },
+  });
 
   const resultsFile = join(ROOT, 'bench', 'results.json');
   mkdirSync(join(ROOT, 'bench'), { recursive: true });

@@ -1,9 +1,8 @@
 // `npm start`: installs what is missing, starts PostgreSQL and the local fakes on loopback,
 // migrates and seeds the demo trust, builds and serves Airtally. Ctrl-C stops everything.
 import { join } from 'node:path';
-import { ROOT, ensureNodeModules, startPostgres, startMailFake, stopChildren, step, waitForPort } from './lib/services.mjs';
-import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
-import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
+import { ROOT, ensureNodeModules, startPostgres, stopChildren, step } from './lib/services.mjs';
+import { startStack } from './lib/app.mjs';
 
 const port = Number(process.env.PORT ?? 4321);
 const pgPort = Number(process.env.AIRTALLY_PG_PORT ?? 54329);
@@ -30,22 +29,12 @@ try {
   ensureNodeModules();
   pg = await startPostgres({ dataDir, port: pgPort, database: 'airtally' });
   const origin = process.env.PUBLIC_ORIGIN ?? `http://127.0.0.1:${port}`;
-  const env = {
-    ...process.env,
-    DATABASE_URL: pg.url,
-    PUBLIC_ORIGIN: origin,
-    SMTP_HOST: '127.0.0.1',
-    SMTP_PORT: String(smtpPort),
-    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
-    NODE_ENV: 'production',
-  };
-  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
-  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: true, retryBaseMs: 2000 }));
-  prepareDatabase({ ...env, AIRTALLY_SEED_ASSESSMENT: '1' });
-  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
-  await waitForPort(smtpPort, 20_000, 'The mail fake');
-  buildApp(outDir);
-  const app = await serveApp(outDir, port, env);
+  const { app } = await startStack({
+    databaseUrl: pg.url, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    payments: { persist: true, retryBaseMs: 2000 },
+    // The first start assesses the demo estate so it opens on results.
+    seedEnv: { AIRTALLY_SEED_ASSESSMENT: '1' },
+  });
   step(`Ready: ${origin}  (demo inbox: http://127.0.0.1:${mailWebPort})  Ctrl-C stops everything.`);
   app.on('exit', (code) => void shutdown(code ?? 1));
 } catch (error) {

@@ -3,10 +3,9 @@
 import { join } from 'node:path';
 import { existsSync, readFileSync, rmSync } from 'node:fs';
 import {
-  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startChild, startMailFake, startPostgres, step, stopChildren, waitForPort,
+  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startChild, startPostgres, step, stopChildren,
 } from './lib/services.mjs';
-import { buildApp, prepareDatabase, serveApp } from './lib/app.mjs';
-import { startPaymentsFakeChild } from './payments-fake/launch.mjs';
+import { startStack } from './lib/app.mjs';
 
 const port = Number(process.env.AIRTALLY_TEST_PORT ?? 4399);
 const pgPort = Number(process.env.AIRTALLY_TEST_PG_PORT ?? 54339);
@@ -35,26 +34,15 @@ try {
   recreateDatabase(pg, database);
   const databaseUrl = pg.url.replace(/\/postgres$/, `/${database}`);
   const origin = `http://127.0.0.1:${port}`;
-  const env = {
-    ...process.env,
-    DATABASE_URL: databaseUrl,
-    TEST_ADMIN_DATABASE_URL: pg.adminUrl,
-    PUBLIC_ORIGIN: origin,
-    APP_URL: origin,
-    // Every test signs in from loopback; the per-account brute-force guard stays as in production.
-    AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS: '5000',
-    SMTP_HOST: '127.0.0.1',
-    SMTP_PORT: String(smtpPort),
-    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
-    NODE_ENV: 'production',
-  };
-  // Payments fake before the seed: the demo trust's subscription is created in it through the SDK.
-  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, persist: false, retryBaseMs: 300 }));
-  prepareDatabase(env);
-  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
-  await waitForPort(smtpPort, 20_000, 'The mail fake');
-  buildApp(outDir);
-  await serveApp(outDir, port, env);
+  const { env } = await startStack({
+    databaseUrl, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    payments: { persist: false, retryBaseMs: 300 },
+    extraEnv: {
+      TEST_ADMIN_DATABASE_URL: pg.adminUrl,
+      // Every test signs in from loopback; the per-account brute-force guard stays as in production.
+      AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS: '5000',
+    },
+  });
 
   step('Running vitest (unit, integration, browser)');
   const resultsFile = join(dataDir, 'vitest-results.json');

@@ -1,7 +1,8 @@
 // Shared steps of `npm start` and `npm test`: prepare the database, build and serve the app.
 import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { ROOT, run, step, startChild, waitForPort } from './services.mjs';
+import { ROOT, run, step, startChild, startMailFake, waitForPort } from './services.mjs';
+import { startPaymentsFakeChild } from '../payments-fake/launch.mjs';
 
 const TSX = join(ROOT, 'node_modules', '.bin', 'tsx');
 
@@ -44,4 +45,30 @@ export async function serveApp(outDir, port, env) {
   });
   await waitForPort(port, 60_000, 'The Airtally server');
   return child;
+}
+
+/**
+ * Starts everything the app needs around a running Postgres, then the app itself: the payments fake
+ * (before the seed, which creates the demo subscription in it), migrations and seed, the mail fake,
+ * the build and the server. Returns the environment the app got and the app's child process.
+ */
+export async function startStack({ databaseUrl, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir, payments, extraEnv = {}, seedEnv = {} }) {
+  const env = {
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    PUBLIC_ORIGIN: origin,
+    APP_URL: origin,
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(smtpPort),
+    MAIL_INBOX_URL: `http://127.0.0.1:${mailWebPort}`,
+    NODE_ENV: 'production',
+    ...extraEnv,
+  };
+  Object.assign(env, await startPaymentsFakeChild({ port: paymentsPort, appOrigin: origin, dataDir, ...payments }));
+  prepareDatabase({ ...env, ...seedEnv });
+  startMailFake({ smtpPort, webPort: mailWebPort, dataDir });
+  await waitForPort(smtpPort, 20_000, 'The mail fake');
+  buildApp(outDir);
+  const app = await serveApp(outDir, port, env);
+  return { env, app };
 }
