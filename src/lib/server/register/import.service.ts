@@ -72,7 +72,11 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
   mark('read and check cells');
   const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
   const plan = planImport(file.read, file.header.columns, snapshot);
+  // The read rows are not needed past here; letting them go keeps peak memory down on big files.
+  file.read.rows = [];
   mark('compare with the estate');
+  const rowsGz = encodePlan(plan);
+  plan.roomWrites = [];
   const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
   const header = { row: file.header.row, rowCount: file.header.rowCount, confident: file.header.confident, columns: file.header.columns };
 
@@ -93,7 +97,7 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
       problems: JSON.stringify(problems),
       problem_count: plan.problems.length,
       missing_rooms: JSON.stringify(plan.missingRooms),
-      rows_gz: encodePlan(plan),
+      rows_gz: rowsGz,
       estate_fingerprint: fingerprint,
     }).returning('id').executeTakeFirstOrThrow();
     await recordAudit(trx, {
@@ -117,21 +121,33 @@ const FIELD_ORDER = ['code', 'name', 'use', 'floorAreaM2', 'ceilingHeightM', 'pu
 /** The plan as the commit needs it, compactly: each room write an array, as gzip-compressed JSON. */
 export function encodePlan(plan: ImportPlan): Buffer {
   const { problems: _problems, roomWrites, ...rest } = plan;
-  const writes = roomWrites.map((w) => [w.rowNumber, w.roomId, w.school, w.block, ...FIELD_ORDER.map((f) => w.fields[f]), w.roomId ? w.before : null, w.roomId ? w.after : null]);
+  const writes = new Array<unknown[]>(roomWrites.length);
+  for (let i = 0; i < roomWrites.length; i++) {
+    const w = roomWrites[i]!;
+    const a: unknown[] = [w.rowNumber, w.roomId, w.school, w.block];
+    for (const f of FIELD_ORDER) a.push(w.fields[f]);
+    a.push(w.roomId ? w.before : null, w.roomId ? w.after : null);
+    writes[i] = a;
+  }
   return gzipSync(JSON.stringify({ ...rest, roomWrites: writes } satisfies StoredPlan), { level: 1 });
 }
 
 /** The inverse of encodePlan. */
 export function decodePlan(gz: Buffer): ImportPlan {
   const stored = JSON.parse(gunzipSync(gz).toString('utf8')) as StoredPlan;
-  const roomWrites: RoomWrite[] = stored.roomWrites.map((a) => {
-    const fields = Object.fromEntries(FIELD_ORDER.map((f, i) => [f, a[4 + i]])) as unknown as RoomFields;
-    const n = 4 + FIELD_ORDER.length;
-    return {
-      rowNumber: a[0] as number, roomId: a[1] as string | null, school: a[2] as Ref, block: a[3] as Ref | null, fields,
-      before: (a[n] as RoomWrite['before']) ?? null, after: (a[n + 1] as RoomWrite['after']) ?? fields,
+  const n = 4 + FIELD_ORDER.length;
+  const roomWrites = new Array<RoomWrite>(stored.roomWrites.length);
+  for (let r = 0; r < roomWrites.length; r++) {
+    const a = stored.roomWrites[r]!;
+    const fields = {} as Record<string, unknown>;
+    for (let i = 0; i < FIELD_ORDER.length; i++) fields[FIELD_ORDER[i]!] = a[4 + i];
+    roomWrites[r] = {
+      rowNumber: a[0] as number, roomId: a[1] as string | null, school: a[2] as Ref, block: a[3] as Ref | null, fields: fields as unknown as RoomFields,
+      before: (a[n] as RoomWrite['before']) ?? null, after: (a[n + 1] as RoomWrite['after']) ?? (fields as unknown as RoomFields),
     };
-  });
+    // The stored array is not needed once its write is rebuilt.
+    stored.roomWrites[r] = [];
+  }
   return { ...stored, roomWrites, problems: [] };
 }
 

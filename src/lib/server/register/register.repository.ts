@@ -136,9 +136,10 @@ export async function applyPlan(
   const typed = (values: unknown[], type: string) => sql`${values}::${sql.raw(type)}[]`;
   const creates = plan.roomWrites.filter((w) => !w.roomId);
   const updates = plan.roomWrites.filter((w) => w.roomId);
-  // New rooms and their audit events in one statement per chunk: the database writes each
-  // room.created event from the row it has just inserted, so the values travel only once.
-  const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', ins.${c}`).join(', ')})`);
+  // New rooms and their audit events in one statement per chunk: each new room's id is drawn up
+  // front, so the room and its room.created event are both written from the same source row
+  // (the values travel only once, and no join back from the inserted rows is needed).
+  const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', src.${c}`).join(', ')})`);
   for (let start = 0; start < creates.length; start += ROOM_CHUNK) {
     const chunk = creates.slice(start, start + ROOM_CHUNK);
     const args = [
@@ -149,12 +150,12 @@ export async function applyPlan(
     ];
     const columns = ['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', ');
     await sql`
-      WITH src AS (SELECT * FROM unnest(${sql.join(args)}) AS u(row_number, ${sql.raw(columns)})),
-      ins AS (INSERT INTO rooms (${sql.raw(columns)}) SELECT ${sql.raw(columns)} FROM src RETURNING *)
+      WITH src AS MATERIALIZED (SELECT gen_random_uuid() AS id, * FROM unnest(${sql.join(args)}) AS u(row_number, ${sql.raw(columns)})),
+      ins AS (INSERT INTO rooms (id, ${sql.raw(columns)}) SELECT id, ${sql.raw(columns)} FROM src)
       INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, after)
-      SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', ins.id::text,
-        'Created room ' || ins.code || ' from a register import (row ' || src.row_number || ')', ${roomJson}
-      FROM ins JOIN src ON src.school_id = ins.school_id AND src.code = ins.code`.execute(trx);
+      SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', src.id::text,
+        'Created room ' || src.code || ' from a register import (row ' || src.row_number || ')', ${roomJson}
+      FROM src`.execute(trx);
   }
   for (let start = 0; start < updates.length; start += ROOM_CHUNK) {
     const chunk = updates.slice(start, start + ROOM_CHUNK);

@@ -42,9 +42,13 @@ export function guardFormula(text: string): string {
 
 const PLACEHOLDERS = new Set(['tbc', 'tba', 'tbd', 'tbconfirmed', 'tobeconfirmed', 'na', 'n/a', 'unknown', 'notknown', 'nk', '?', '??', '-', '--', '–', '—', 'x', 'none given']);
 
+const PLACEHOLDER_FIRST = new Set([...PLACEHOLDERS].map((p) => p.charAt(0)));
+
 /** True for the "TBC", "n/a", "?" and dash placeholders surveyors leave in unfinished cells. */
 export function isPlaceholder(text: string): boolean {
   if (text.length > 20) return false;
+  // Every placeholder starts with one of these characters; most cells are ruled out here cheaply.
+  if (!PLACEHOLDER_FIRST.has(text.trimStart().charAt(0).toLowerCase())) return false;
   const t = text.toLowerCase().replace(/\s+/g, '');
   return PLACEHOLDERS.has(t) || PLACEHOLDERS.has(text.toLowerCase().trim());
 }
