@@ -61,10 +61,12 @@ export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
       async function* rows(): AsyncGenerator<SheetRow> {
         for await (const row of ws) {
           if (row.number > MAX_ROWS + 50) throw tooManyRows();
-          // exceljs row.values is 1-based (index 0 unused).
-          const raw = row.values;
-          const values: CellValue[] = new Array(Math.max(0, raw.length - 1));
-          for (let i = 1; i < raw.length; i++) values[i - 1] = plainCellValue(raw[i]);
+          // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
+          // shifted down in place rather than copied.
+          const values = row.values as CellValue[];
+          const length = values.length;
+          for (let i = 1; i < length; i++) values[i - 1] = plainCellValue(values[i]);
+          if (length > 0) values.length = length - 1;
           const sheetRow = { rowNumber: row.number, values };
           filler?.fill(sheetRow);
           yield sheetRow;

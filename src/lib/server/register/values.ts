@@ -241,8 +241,23 @@ function enumIndex(codes: readonly string[]): Map<string, string> {
   return index;
 }
 
+const enumResultCache = new Map<readonly string[], Map<string, Parsed<string>>>();
+/** Distinct short cell texts remembered per list of codes; a register repeats the same few words in a column. */
+const ENUM_CACHE_LIMIT = 2000;
+
 /** Reads one of our codes from its code, its label or a common synonym ("MVHR", "natural - single sided"). */
 export function parseEnum<T extends string>(value: CellValue, codes: readonly T[]): Parsed<T> {
+  if (typeof value !== 'string' || value.length > 64) return readEnum(value, codes);
+  let cache = enumResultCache.get(codes);
+  if (!cache) enumResultCache.set(codes, (cache = new Map()));
+  const known = cache.get(value);
+  if (known) return known as Parsed<T>;
+  const parsed = readEnum(value, codes);
+  if (cache.size < ENUM_CACHE_LIMIT) cache.set(value, parsed);
+  return parsed;
+}
+
+function readEnum<T extends string>(value: CellValue, codes: readonly T[]): Parsed<T> {
   const text = cellText(value);
   if (text === '') return blank();
   if (isPlaceholder(text)) return blank(true);
