@@ -3,7 +3,7 @@
 // both in this process. The scratch table has room_results' physical layout (compression, toast target)
 // but no indexes or constraints, so the floor is the cheapest way to move the same bytes. Prints one JSON object as the last line (scripts/bench.mjs merges it).
 import { sql } from 'kysely';
-import { assessRoom } from '../../src/lib/engine';
+import { assessRoom, DEFAULT_RANK_WEIGHTS, rankRooms } from '../../src/lib/engine';
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { countRoomsInScope, readRoomChunk } from '../../src/lib/server/assessments/engine-input.repository';
@@ -137,7 +137,35 @@ async function fullBatch(): Promise<number> {
   if (run?.status !== 'succeeded') throw new Error(`bench run ended ${run?.status}: ${run?.error}`);
   const current = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', TRUST_ID).where('is_current', '=', true).executeTakeFirstOrThrow();
   if (current.n + run.problems.length !== ROOMS) throw new Error(`expected ${ROOMS} current results, found ${current.n}`);
+  await checkRanksMatchEngine();
   return seconds;
+}
+
+/** The stored ranks and component scores (computed in SQL at the flip) must equal the engine's rankRooms over the same rows. */
+async function checkRanksMatchEngine(): Promise<void> {
+  const { rows } = await sql<{
+    run_id: string; room_id: string; pupils: number; risk_score: number; pupil_hours_above: number; criteria_met: boolean;
+    pupil_hours_removed_per_1000_gbp: number | null; simple_payback_years: number | null; capital_cost_gbp: number | null;
+    rank: number; score_risk: number; score_cost_effectiveness: number; score_payback: number;
+  }>`SELECT run_id, room_id, pupils, risk_score, pupil_hours_above, criteria_met, pupil_hours_removed_per_1000_gbp,
+       simple_payback_years, capital_cost_gbp, rank, score_risk, score_cost_effectiveness, score_payback
+     FROM room_results WHERE trust_id = ${TRUST_ID} AND is_current`.execute(getDb());
+  const stored = new Map(rows.map((r) => [`${r.run_id}:${r.room_id}`, r]));
+  const ranked = rankRooms(
+    rows.map((r) => ({
+      roomId: `${r.run_id}:${r.room_id}`, roomCode: r.room_id, pupils: r.pupils, riskScore: r.risk_score, riskBand: 'fresh' as const,
+      pupilHoursPerYearAbove: r.pupil_hours_above, thresholdPpm: 0, criteriaMet: r.criteria_met, hasRetrofit: r.capital_cost_gbp !== null,
+      pupilHoursRemovedPer1000Gbp: r.pupil_hours_removed_per_1000_gbp, simplePaybackYears: r.simple_payback_years, capitalCostGbp: r.capital_cost_gbp,
+    })),
+    DEFAULT_RANK_WEIGHTS,
+  );
+  for (const e of ranked) {
+    const s = stored.get(e.roomId)!;
+    if (s.rank !== e.rank || s.score_risk !== e.parts.risk || s.score_cost_effectiveness !== e.parts.costEffectiveness || s.score_payback !== e.parts.payback) {
+      throw new Error(`stored rank of ${e.roomId} (${s.rank}) differs from the engine's (${e.rank})`);
+    }
+  }
+  log(`stored ranks match rankRooms for ${ranked.length} rooms`);
 }
 
 async function main(): Promise<void> {

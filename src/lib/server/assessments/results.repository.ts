@@ -1,12 +1,12 @@
-import { sql, type Kysely, type Transaction } from 'kysely';
+import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
 import { pipeline } from 'node:stream/promises';
 import { Readable } from 'node:stream';
 import copyStreams from 'pg-copy-streams';
 import type { Database } from '../../../../db/database';
-import type { RankInput, RankedRow } from '../../engine';
+import type { RankWeights } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
-import { RISK_BANDS_BY_NUMBER, type ResultRow } from './result-row';
+import type { ResultRow } from './result-row';
 
 const COPY_COLUMNS = [
   'run_id', 'room_id', 'trust_id', 'school_id', 'block_id', 'ventilation_type', 'pupils', 'is_current', 'worst_season',
@@ -79,64 +79,29 @@ export async function commitChunk(
   }
 }
 
-/** Rank inputs rebuilt from stored result rows (for rows written by an earlier attempt or another run). */
-async function loadRankInputs(trx: Transaction<Database>, where: ReturnType<typeof sql>): Promise<RankInput[]> {
-  const { rows } = await sql<{
-    room_id: string;
-    run_id: string;
-    code: string;
-    pupils: number;
-    risk_score: number;
-    risk_band: number;
-    pupil_hours_above: number;
-    threshold_ppm: number | null;
-    criteria_met: boolean;
-    unit_count: number;
-    pupil_hours_removed_per_1000_gbp: number | null;
-    simple_payback_years: number | null;
-    capital_cost_gbp: number | null;
-    has_retrofit: boolean;
-  }>`
-    SELECT r.room_id, r.run_id, rooms.code, r.pupils, r.risk_score, r.risk_band, r.pupil_hours_above,
-      (r.detail->'risk'->>'thresholdPpm')::float8 AS threshold_ppm, r.criteria_met, r.unit_count,
-      r.pupil_hours_removed_per_1000_gbp, r.simple_payback_years, r.capital_cost_gbp,
-      (r.detail->'retrofit') IS NOT NULL AND (r.detail->'retrofit') <> 'null'::jsonb AS has_retrofit
-    FROM room_results r JOIN rooms ON rooms.id = r.room_id
-    WHERE ${where}`.execute(trx);
-  return rows.map((r) => ({
-    roomId: `${r.run_id}:${r.room_id}`,
-    roomCode: r.code,
-    pupils: r.pupils,
-    riskScore: r.risk_score,
-    riskBand: RISK_BANDS_BY_NUMBER[r.risk_band - 1] ?? 'fresh',
-    pupilHoursPerYearAbove: r.pupil_hours_above,
-    thresholdPpm: r.threshold_ppm ?? 0,
-    criteriaMet: r.criteria_met,
-    hasRetrofit: r.has_retrofit,
-    pupilHoursRemovedPer1000Gbp: r.pupil_hours_removed_per_1000_gbp,
-    simplePaybackYears: r.simple_payback_years,
-    capitalCostGbp: r.capital_cost_gbp,
-  }));
-}
-
 export interface FlipInput {
   runId: string;
   trustId: string;
   schoolId: string | null;
-  /** Rank inputs of this run's rooms assessed in this attempt; their roomId is `${runId}:${roomId}`. */
-  rankInputs: RankInput[];
-  /** Set when this attempt resumed a run: rows up to this room id were written by an earlier attempt. */
-  resumedAfterRoomId: string | null;
-  rank: (rows: RankInput[]) => RankedRow[];
+  /** The weights the stored rank uses (the engine's defaults). */
+  weights: RankWeights;
 }
 
 /**
  * Makes the run's results the current ones in ONE transaction: older current results of the rooms in scope
  * stop being current, this run's become current, and every current result of the trust is re-ranked with
- * the default weights. Views therefore never see a mix of two runs of the same rooms. Returns false when
+ * the given weights. Views therefore never see a mix of two runs of the same rooms. Returns false when
  * the run was no longer running (another attempt finished or failed it), and then changes nothing.
+ *
+ * The rank is computed here in SQL over the stored scores, with exactly the engine's rule (rankRooms in
+ * src/lib/engine/ranking.ts): each part normalised by the best value among the rows, the weighted sum
+ * divided by the sum of the weights, highest first; ties by pupil-hours above, then `${runId}:${roomId}`
+ * (uuids compare as their lowercase text does). The float8 arithmetic is done in the same order as the
+ * engine's, so scores and ties come out identical; the rank reasons the engine also writes are not stored.
  */
 export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Promise<boolean> {
+  const w = input.weights;
+  const wSum = w.risk + w.costEffectiveness + w.payback;
   return db.transaction().execute(async (trx) => {
     // One flip at a time per trust, so two runs finishing together rank against each other's final state.
     await sql`SELECT pg_advisory_xact_lock(hashtext(${`assessment-flip:${input.trustId}`}))`.execute(trx);
@@ -147,34 +112,39 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
     await sql`UPDATE room_results SET is_current = false
               WHERE is_current AND trust_id = ${input.trustId} AND ${inScope} AND run_id <> ${input.runId}::uuid`.execute(trx);
 
-    const others = await loadRankInputs(trx, sql`r.is_current AND r.trust_id = ${input.trustId} AND r.run_id <> ${input.runId}::uuid`);
-    const resumed =
-      input.resumedAfterRoomId === null
-        ? []
-        : await loadRankInputs(trx, sql`r.run_id = ${input.runId}::uuid AND r.room_id <= ${input.resumedAfterRoomId}::uuid`);
-    const ranked = input.rank([...input.rankInputs, ...resumed, ...others]);
-
-    const runIds: string[] = [];
-    const roomIds: string[] = [];
-    const ranks: number[] = [];
-    const risk: number[] = [];
-    const costEffectiveness: number[] = [];
-    const payback: number[] = [];
-    for (const row of ranked) {
-      const [runId, roomId] = row.roomId.split(':') as [string, string];
-      runIds.push(runId);
-      roomIds.push(roomId);
-      ranks.push(row.rank);
-      risk.push(row.parts.risk);
-      costEffectiveness.push(row.parts.costEffectiveness);
-      payback.push(row.parts.payback);
-    }
+    // The ranking sort fits in memory (about 100 bytes a room).
+    await sql`SET LOCAL work_mem = '64MB'`.execute(trx);
+    // Every row of this run (all attempts) plus the trust's other current results, ranked together.
     await sql`
+      WITH pool AS (
+        SELECT run_id, room_id, risk_score, pupil_hours_above, pupil_hours_removed_per_1000_gbp AS ce, simple_payback_years AS pb
+        FROM room_results
+        WHERE run_id = ${input.runId}::uuid OR (is_current AND trust_id = ${input.trustId} AND run_id <> ${input.runId}::uuid)
+      ), best AS (
+        SELECT max(risk_score) AS max_risk, max(ce) AS max_ce, min(pb) AS min_pb FROM pool
+      ), parts AS (
+        SELECT p.run_id, p.room_id, p.pupil_hours_above,
+          CASE WHEN b.max_risk > 0 THEN p.risk_score / b.max_risk ELSE 0::float8 END AS risk,
+          CASE WHEN b.max_ce > 0 AND p.ce IS NOT NULL THEN p.ce / b.max_ce ELSE 0::float8 END AS ce,
+          CASE WHEN p.pb IS NULL THEN 0::float8 WHEN p.pb <= 0 THEN 1::float8
+               WHEN b.min_pb IS NOT NULL THEN LEAST(1::float8, b.min_pb / p.pb) ELSE 0::float8 END AS pb
+        FROM pool p CROSS JOIN best b
+      ), ranked AS (
+        SELECT run_id, room_id, risk, ce, pb,
+          row_number() OVER (
+            ORDER BY (${w.risk}::float8 * risk + ${w.costEffectiveness}::float8 * ce + ${w.payback}::float8 * pb) / ${wSum}::float8 DESC,
+              pupil_hours_above DESC, run_id, room_id
+          )::int AS rank
+        FROM parts
+      )
       UPDATE room_results r SET is_current = true, rank = v.rank, score_risk = v.risk,
-        score_cost_effectiveness = v.cost_effectiveness, score_payback = v.payback
-      FROM unnest(${runIds}::uuid[], ${roomIds}::uuid[], ${ranks}::int[], ${risk}::float8[], ${costEffectiveness}::float8[], ${payback}::float8[])
-        AS v(run_id, room_id, rank, risk, cost_effectiveness, payback)
-      WHERE r.run_id = v.run_id AND r.room_id = v.room_id`.execute(trx);
+        score_cost_effectiveness = v.ce, score_payback = v.pb
+      -- Applied in the order the rows were written (run, room), so the heap and indexes are walked forward, not at random.
+      FROM (SELECT * FROM ranked ORDER BY run_id, room_id) v
+      -- Another run's current row whose rank and scores are unchanged is left alone.
+      WHERE r.run_id = v.run_id AND r.room_id = v.room_id
+        AND NOT (r.is_current AND r.rank IS NOT DISTINCT FROM v.rank AND r.score_risk = v.risk
+                 AND r.score_cost_effectiveness = v.ce AND r.score_payback = v.pb)`.execute(trx);
 
     await trx
       .updateTable('assessment_runs')

@@ -1,4 +1,4 @@
-import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, rankRooms, toRankInput, type AssumptionSet, type RankInput } from '../../engine';
+import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, type AssumptionSet } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import { getDb, getPool } from '../db/client';
 import { getAssumptionSetById } from './assumptions.repository';
@@ -35,28 +35,18 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
   if (!(await markRunning(db, runId))) return;
 
   const chunkSize = options.chunkSize ?? defaultChunkSize(run.roomsTotal);
-  const resumedAfterRoomId = run.resumeAfterRoomId;
-  const rankInputs = await assessAndWrite(run, stored.set, chunkSize, options.afterChunk);
-  await flipRunCurrent(db, {
-    runId,
-    trustId: run.trustId,
-    schoolId: run.schoolId,
-    rankInputs,
-    resumedAfterRoomId,
-    rank: (rows) => rankRooms(rows, DEFAULT_RANK_WEIGHTS),
-  });
+  await assessAndWrite(run, stored.set, chunkSize, options.afterChunk);
+  await flipRunCurrent(db, { runId, trustId: run.trustId, schoolId: run.schoolId, weights: DEFAULT_RANK_WEIGHTS });
 }
 
 /**
- * Reads, assesses and commits the run's rooms chunk by chunk after its resume point; returns the rank
- * inputs of the rooms assessed in this attempt. One chunk's COPY runs in Postgres while the next chunk is
+ * Reads, assesses and commits the run's rooms chunk by chunk after its resume point. One chunk's COPY runs in Postgres while the next chunk is
  * read and assessed here, so on two cores the engine's time hides behind the database's; commits stay
  * strictly in order, one at a time, so the resume point always matches what is written.
  */
-async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, afterChunk: ExecuteOptions['afterChunk']): Promise<RankInput[]> {
+async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, afterChunk: ExecuteOptions['afterChunk']): Promise<void> {
   const db = getDb();
   const scope = { trustId: run.trustId, schoolId: run.schoolId };
-  const rankInputs: RankInput[] = [];
   let cursor = run.resumeAfterRoomId;
   let roomsDone = run.roomsDone;
   let pending: Promise<void> = Promise.resolve();
@@ -70,7 +60,6 @@ async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, a
         try {
           const assessment = assessRoom(room.input, set, { withCurve: false });
           rows.push(toResultRow(run.id, room, assessment));
-          rankInputs.push(toRankInput(`${run.id}:${room.roomId}`, assessment));
         } catch (error) {
           if (!(error instanceof EngineInputError)) throw error;
           problems.push({ roomId: room.roomId, roomCode: room.roomCode, field: error.field, message: error.message });
@@ -91,7 +80,6 @@ async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, a
     await pending.catch(() => undefined);
     throw error;
   }
-  return rankInputs;
 }
 
 /** Plain words for an unexpected error, for the run's `error` field. */
