@@ -24,7 +24,8 @@ function field(value: string | number | boolean | null): string {
   if (value === null) return '\\N';
   if (typeof value === 'boolean') return value ? 't' : 'f';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '\\N';
-  if (!/[\\\t\n\r]/.test(value)) return value;
+  // indexOf is several times quicker than a regex test over a room's ~7 kB detail JSON, which has none of these.
+  if (value.indexOf('\\') === -1 && value.indexOf('\t') === -1 && value.indexOf('\n') === -1 && value.indexOf('\r') === -1) return value;
   return value.replace(/[\\\t\n\r]/g, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r'));
 }
 
@@ -45,9 +46,24 @@ export async function copyLines(client: pg.PoolClient, copySql: string, lines: I
   await pipeline(Readable.from(lines), target);
 }
 
-/** Result rows as COPY lines, made one at a time as the stream asks for them. */
+/**
+ * Result rows as COPY text, made as the stream asks for it, a few dozen lines (about 256 kB) at a time so
+ * the stream handles tens of pieces per chunk rather than one per room.
+ */
 function* copyLinesOf(rows: ResultRow[]): Generator<string> {
-  for (const row of rows) yield toCopyLine(row);
+  let batch: string[] = [];
+  let length = 0;
+  for (const row of rows) {
+    const line = toCopyLine(row);
+    batch.push(line);
+    length += line.length;
+    if (length >= 256 * 1024) {
+      yield batch.join('');
+      batch = [];
+      length = 0;
+    }
+  }
+  if (batch.length > 0) yield batch.join('');
 }
 
 /**
