@@ -11,6 +11,7 @@ import { toResultRow } from '../../src/lib/server/assessments/result-row';
 import { copyLines, copyResultsSql, toCopyLine } from '../../src/lib/server/assessments/results.repository';
 import { executeRun } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
+import { prng } from './prng';
 
 const ROOMS = Number(process.env.BENCH_BATCH_ROOMS ?? 100_000);
 const SCHOOLS = 50;
@@ -18,16 +19,6 @@ const CHUNK = 2000;
 const TRUST_ID = `bench-trust-${Date.now()}`;
 const log = (message: string) => console.error(`[batch.bench] ${message}`);
 
-/** Deterministic PRNG (mulberry32) so every run generates the same estate. */
-function prng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ (t + Math.imul(t ^ (t >>> 14), 71 | t));
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 async function generateEstate(): Promise<void> {
   const db = getDb();

@@ -13,21 +13,11 @@ import {
   VENTILATION_TYPES,
   WINDOW_TYPES,
 } from '../../src/lib/engine/vocabulary';
+import { prng } from './prng';
 
 const ROOMS = 20_000;
 const ROUNDS = 10;
 
-/** Small deterministic PRNG (mulberry32) so every run measures the same rooms. */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function pick<T>(rand: () => number, list: readonly T[]): T {
   return list[Math.floor(rand() * list.length)] as T;

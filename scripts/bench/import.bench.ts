@@ -11,6 +11,7 @@ import { label } from '../../src/lib/engine/vocabulary';
 import { getDb } from '../../src/lib/server/db/client';
 import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
+import { prng } from './prng';
 
 const ROOMS = Number(process.env.BENCH_IMPORT_ROOMS ?? 100_000);
 const SCHOOLS = 50;
@@ -20,16 +21,6 @@ const DIR = join(process.cwd(), '.data', 'bench-import');
 const FILE = join(DIR, 'register-100k.xlsx');
 const log = (message: string) => console.error(`[import.bench] ${message}`);
 
-/** Deterministic PRNG (mulberry32) so every run writes the same register. */
-function prng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ (t + Math.imul(t ^ (t >>> 14), 71 | t));
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 async function writeRegister(): Promise<void> {
   mkdirSync(DIR, { recursive: true });
