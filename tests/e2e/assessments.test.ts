@@ -1,41 +1,19 @@
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import type { BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_TRUST } from '../../db/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
-import { launchBrowser } from '../helpers/browser';
-import { APP_URL, DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
+import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 // The assessments pages in Chromium: start a run and watch it finish, a room's results with its chart and
 // what-if, and the assumptions page.
 
-const AXE = readFileSync(join(process.cwd(), 'node_modules', 'axe-core', 'axe.min.js'), 'utf8');
 const SHOTS = join(process.cwd(), '.data', 'screens');
 const db = createDb(process.env.DATABASE_URL!);
 
-async function seriousViolations(page: Page): Promise<string[]> {
-  await page.addScriptTag({ content: AXE });
-  const violations = await page.evaluate(async () => {
-    type V = { id: string; impact: string | null; help: string; nodes: { target: string[] }[] };
-    const result = await (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: V[] }> } }).axe.run(document, { resultTypes: ['violations'] });
-    return result.violations;
-  });
-  return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(', ')}`);
-}
 
-async function signedInPage(email: string): Promise<{ page: Page; context: BrowserContext }> {
-  const context = await launchBrowser();
-  const cookie = await signIn(email);
-  const url = new URL(APP_URL);
-  await context.addCookies(
-    cookie.split('; ').map((pair) => {
-      const at = pair.indexOf('=');
-      return { name: pair.slice(0, at), value: pair.slice(at + 1), domain: url.hostname, path: '/', httpOnly: true, sameSite: 'Lax' as const };
-    }),
-  );
-  return { page: await context.newPage(), context };
-}
 
 describe('assessments pages in Chromium', () => {
   const contexts: BrowserContext[] = [];
@@ -56,7 +34,7 @@ describe('assessments pages in Chromium', () => {
   });
 
   it('an estates manager starts a run of the whole trust and sees the progress bar reach the end', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.estates_manager);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.estates_manager);
     contexts.push(context);
     await page.goto('/app/assessments');
     await page.getByRole('button', { name: 'Run assessment' }).click();
@@ -66,11 +44,11 @@ describe('assessments pages in Chromium', () => {
     await expect(page.getByRole('status').textContent()).resolves.toMatch(/Finished in/);
     await page.locator('[data-testid="runs-table"] tbody tr').first().getByText('Finished').waitFor();
     await page.screenshot({ path: join(SHOTS, 'assessments-run.png'), fullPage: true });
-    expect(await seriousViolations(page)).toEqual([]);
+    expect(await seriousAxeViolations(page)).toEqual([]);
   });
 
   it('a viewer sees the runs but no button to start one', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.viewer);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);
     contexts.push(context);
     await page.goto('/app/assessments');
     await page.locator('[data-testid="runs-table"]').waitFor();
@@ -83,7 +61,7 @@ describe('assessments pages in Chromium', () => {
       .select(['rooms.id', 'rooms.pupils'])
       .where('room_results.trust_id', '=', DEMO_TRUST.id).where('room_results.is_current', '=', true).where('room_results.unit_count', '>', 0)
       .orderBy('room_results.rank').limit(1).executeTakeFirstOrThrow();
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.viewer);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);
     contexts.push(context);
     const chartErrors: string[] = [];
     page.on('console', (m) => {
@@ -110,11 +88,11 @@ describe('assessments pages in Chromium', () => {
     await page.locator('[data-testid="what-if-result"] canvas').first().waitFor({ timeout: 20_000 });
     await page.screenshot({ path: join(SHOTS, 'room-results.png'), fullPage: true });
     expect(chartErrors).toEqual([]);
-    expect(await seriousViolations(page)).toEqual([]);
+    expect(await seriousAxeViolations(page)).toEqual([]);
   });
 
   it('the assumptions page shows sources and status tags, flags the criteria conflict, and offers editing by role', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.finance_lead);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.finance_lead);
     contexts.push(context);
     await page.goto('/app/settings/assumptions');
     await page.locator('astro-island[component-url*="CatalogueEditor"]').scrollIntoViewIfNeeded();
@@ -130,6 +108,6 @@ describe('assessments pages in Chromium', () => {
     await expect(page.getByLabel('Installed cost (£) of Wall unit 150').isEnabled()).resolves.toBe(true);
     await expect(page.getByLabel('Flow (l/s) of Wall unit 150').isEnabled()).resolves.toBe(false);
     await page.screenshot({ path: join(SHOTS, 'assumptions.png'), fullPage: true });
-    expect(await seriousViolations(page)).toEqual([]);
+    expect(await seriousAxeViolations(page)).toEqual([]);
   });
 });

@@ -1,30 +1,14 @@
-import { readFileSync, mkdirSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import type { BrowserContext, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser } from '../helpers/browser';
+import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
 import { APP_URL, DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 
 // The portfolio pages in Chromium over the demo trust, after a real assessment run of the whole trust.
 
-const AXE = readFileSync(join(process.cwd(), 'node_modules', 'axe-core', 'axe.min.js'), 'utf8');
 const SHOTS = join(process.cwd(), '.data', 'screens');
 
-interface AxeViolation { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }
-
-/** Serious and critical axe-core violations on the page as it is now. */
-async function seriousViolations(page: Page): Promise<string[]> {
-  await page.addScriptTag({ content: AXE });
-  const violations = await page.evaluate(async () => {
-    const result = await (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } }).axe.run(document, {
-      resultTypes: ['violations'],
-    });
-    return result.violations;
-  });
-  return violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(', ')}`);
-}
 
 async function setTheme(page: Page, theme: 'light' | 'dark') {
   await page.evaluate((t) => {
@@ -33,22 +17,6 @@ async function setTheme(page: Page, theme: 'light' | 'dark') {
   }, theme);
 }
 
-/**
- * A page signed in as `email`: the session cookie from the API goes into the browser (each test uses
- * its own browser context so sessions do not mix).
- */
-async function signedInPage(email: string): Promise<{ page: Page; context: BrowserContext }> {
-  const context = await launchBrowser();
-  const cookie = await signIn(email);
-  const url = new URL(APP_URL);
-  await context.addCookies(
-    cookie.split('; ').map((pair) => {
-      const at = pair.indexOf('=');
-      return { name: pair.slice(0, at), value: pair.slice(at + 1), domain: url.hostname, path: '/', httpOnly: true, sameSite: 'Lax' as const };
-    }),
-  );
-  return { page: await context.newPage(), context };
-}
 
 /** Room ids of the table's rows, top to bottom. */
 const tableOrder = (page: Page) => page.locator('[data-testid="priorities-table"] tbody tr').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-room-id')));
@@ -83,7 +51,7 @@ describe('portfolio pages in Chromium', () => {
   });
 
   it('shows a viewer the ranked list without the save button, with running totals of what is ticked', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.viewer);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);
     await page.goto(`${APP_URL}/app/priorities`);
     await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();
     expect(await page.getByRole('button', { name: "Save as the trust's weights" }).count()).toBe(0);
@@ -107,7 +75,7 @@ describe('portfolio pages in Chromium', () => {
   });
 
   it('re-ranks without a reload when an estates manager moves the sliders, and saves the weights', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.estates_manager);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.estates_manager);
     await page.goto(`${APP_URL}/app/priorities`);
     await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();
     const before = await tableOrder(page);
@@ -141,21 +109,21 @@ describe('portfolio pages in Chromium', () => {
   });
 
   it('has no serious or critical accessibility violations on the portfolio pages, light or dark', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.trust_admin);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.trust_admin);
     for (const path of ['/app', '/app/priorities', '/app/finance']) {
       for (const theme of ['light', 'dark'] as const) {
         await page.goto(`${APP_URL}${path}`);
         await setTheme(page, theme);
         if (path === '/app/priorities') await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();
         if (path === '/app') await page.locator('[data-testid="chart-co2"]').first().waitFor();
-        expect(await seriousViolations(page), `${path} (${theme})`).toEqual([]);
+        expect(await seriousAxeViolations(page), `${path} (${theme})`).toEqual([]);
       }
     }
     await context.close();
   });
 
   it('shows a finance lead the money per unit, the baseline in words and the sensitivity with its chart', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.finance_lead);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.finance_lead);
     await page.goto(`${APP_URL}/app/finance`);
     const report = (await (await api('/api/finance', { cookie: await signIn(DEMO_ACCOUNTS.finance_lead) })).json()) as { totals: { units: number }; schools: { units: unknown[] }[] };
     expect(report.totals.units).toBeGreaterThan(0);
@@ -175,7 +143,7 @@ describe('portfolio pages in Chromium', () => {
   });
 
   it('shows the dashboard figures and loads each chart only when it scrolls into view, with a table alternative', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.trust_admin);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.trust_admin);
     const chartRequests: string[] = [];
     page.on('request', (r) => r.url().includes('PortfolioChart') && chartRequests.push(r.url()));
     await page.setViewportSize({ width: 900, height: 500 });
@@ -203,7 +171,7 @@ describe('portfolio pages in Chromium', () => {
 
   it("tells another trust's admin what to do next on its empty portfolio", async () => {
     const other = await createOtherTrust();
-    const { page, context } = await signedInPage(other.email);
+    const { page, context } = await openSignedInPage(other.email);
     for (const path of ['/app', '/app/priorities', '/app/finance']) {
       await page.goto(`${APP_URL}${path}`);
       expect(await page.getByRole('link', { name: 'Import your register' }).count(), path).toBeGreaterThan(0);
@@ -212,7 +180,7 @@ describe('portfolio pages in Chromium', () => {
   });
 
   it('fits a tablet held upright', async () => {
-    const { page, context } = await signedInPage(DEMO_ACCOUNTS.estates_manager);
+    const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.estates_manager);
     await page.setViewportSize({ width: 768, height: 1024 });
     await page.goto(`${APP_URL}/app/priorities`);
     await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();

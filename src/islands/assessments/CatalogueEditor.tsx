@@ -1,19 +1,10 @@
 /** Edit the trust's unit catalogue: technical fields for estates managers, costs for finance leads, both for admins. */
 import { QueryClientProvider } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
+import type { UnitModel } from '../../lib/engine';
 import { assessmentsQueryClient, useSaveCatalogue } from '../../lib/client/assessments';
 
-interface Model {
-  id: string;
-  name: string;
-  nominalFlowLps: number;
-  heatRecoveryEfficiency: number;
-  specificFanPowerWPerLps: number;
-  installedCostGbp: number;
-  annualMaintenanceGbp: number;
-  lifeYears: number;
-  soundDbA: number;
-}
+type Model = UnitModel;
 
 interface Props {
   models: Model[];
