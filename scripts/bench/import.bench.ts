@@ -8,7 +8,7 @@ import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
 import { label } from '../../src/lib/engine/vocabulary';
-import { getDb } from '../../src/lib/server/db/client';
+import { getDb, getPool } from '../../src/lib/server/db/client';
 import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
 import { prng } from './prng';
@@ -86,7 +86,7 @@ try {
   const t1 = performance.now();
   const preview = await previewImport(db, trust, actor, { fileName: 'register-100k.xlsx', bytes });
   const tPreview = performance.now();
-  const outcome = await commitImport(db, trust, actor, preview.id, { rows: 'valid', deleteMissing: false });
+  const outcome = await commitImport(getPool(), trust, actor, preview.id, { rows: 'valid', deleteMissing: false });
   const fullSeconds = (performance.now() - t1) / 1000;
   log(`(b) full import: preview ${((tPreview - t1) / 1000).toFixed(2)} s, commit ${((performance.now() - tPreview) / 1000).toFixed(2)} s, total ${fullSeconds.toFixed(2)} s`);
   log(`summary ${JSON.stringify(preview.summary)}; outcome ${JSON.stringify(outcome)}`);

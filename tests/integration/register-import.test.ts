@@ -1,7 +1,6 @@
 import ExcelJS from 'exceljs';
-import { Kysely, PostgresDialect, sql } from 'kysely';
+import { sql } from 'kysely';
 import pg from 'pg';
-import type { Database } from '../../db/database';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
 import { testDb } from '../helpers/db';
@@ -84,6 +83,40 @@ describe('importing a register through the API', () => {
       await commit(admin.cookie, body.id, { rows: 'valid', deleteMissing: true });
     }
     expect(await estateState(admin.trustId)).toEqual(before);
+  });
+
+  it('applies changed values and a move to a new block, and audits each change with its before and after', async () => {
+    const exported = Buffer.from(await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer());
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(exported as any);
+    const sheet = wb.getWorksheet('Rooms')!;
+    const headers = (sheet.getRow(1).values as unknown[]).map(String);
+    const col = (header: string) => headers.indexOf(header);
+    const [first, second] = [sheet.getRow(2), sheet.getRow(3)];
+    const firstCode = String(first.getCell(col('Room code')).value);
+    const secondCode = String(second.getCell(col('Room code')).value);
+    first.getCell(col('Pupils')).value = 17;
+    second.getCell(col('Block')).value = 'Annexe Z';
+    const changed = Buffer.from(await wb.xlsx.writeBuffer());
+    const before = await estateState(admin.trustId);
+
+    const { body } = await upload(admin.cookie, 'changed.xlsx', changed);
+    expect(body.summary).toMatchObject({ roomsToCreate: 0, roomsToChange: 2, blocksToCreate: 1, rowsRejected: 0 });
+    const done = await commit(admin.cookie, body.id, { rows: 'valid', deleteMissing: false });
+    expect(done.body.outcome).toMatchObject({ status: 'committed', roomsChanged: 2, blocksCreated: 1 });
+
+    const after = await estateState(admin.trustId);
+    const annexe = after.blocks.find((b) => b.name === 'Annexe Z')!;
+    expect(after.rooms.find((r) => r.code === firstCode)).toMatchObject({ pupils: 17 });
+    expect(after.rooms.find((r) => r.code === secondCode)).toMatchObject({ block_id: annexe.id });
+    expect(after.rooms).toHaveLength(before.rooms.length);
+    expect(after.auditCount - before.auditCount).toBe(2 + 1);
+    const firstId = after.rooms.find((r) => r.code === firstCode)!.id;
+    const audit = await db.selectFrom('audit_events').select(['action', 'summary', 'before', 'after'])
+      .where('entity_id', '=', firstId).where('action', '=', 'room.updated').orderBy('id', 'desc').executeTakeFirstOrThrow();
+    expect(audit.summary).toMatch(new RegExp(`Changed room ${firstCode} from a register import \\(row 2\\)`));
+    expect(audit.after).toEqual({ pupils: 17 });
+    expect(audit.before).toEqual({ pupils: before.rooms.find((r) => r.code === firstCode)!.pupils });
   });
 
   it('writes formula-like text so no spreadsheet runs it, and reads it back unchanged', async () => {
@@ -225,15 +258,14 @@ describe('an import interrupted mid-commit', () => {
     const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 2 });
     pool.on('error', () => {});
     pool.on('connect', (client) => client.on('error', () => {}));
-    const fragile = new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
     let writtenInsideTransaction = 0;
-    await expect(commitImport(fragile, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
+    await expect(commitImport(pool, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
       writtenInsideTransaction = (await trx.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id')
         .where('schools.trust_id', '=', other.trustId).select(sql<number>`count(*)::int`.as('n')).executeTakeFirstOrThrow()).n;
       // Kill our own connection, as a crash or a network cut would.
       await sql`SELECT pg_terminate_backend(pg_backend_pid())`.execute(trx);
     })).rejects.toThrow();
-    await fragile.destroy().catch(() => {});
+    await pool.end().catch(() => {});
     expect(writtenInsideTransaction).toBe(40);
     expect(await estateState(other.trustId)).toEqual(before);
     const stored = await db.selectFrom('register_imports').select('status').where('id', '=', preview.id).executeTakeFirstOrThrow();

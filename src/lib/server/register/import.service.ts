@@ -1,5 +1,7 @@
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { sql, type Kysely } from 'kysely';
+import type pg from 'pg';
+import { withConnection } from '../db/client';
 import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
@@ -8,11 +10,10 @@ import { badRequest, conflict, notFound } from '../http/errors';
 import type { RegisterField } from './columns';
 import type { DetectedHeader } from './headers';
 import { readRegisterFile } from './parse';
-import { planImport, type ImportPlan, type ImportSummary, type Ref, type RoomWrite } from './plan';
-import type { RoomFields } from './register.schemas';
+import { planImport, type ImportPlan, type ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
+import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings, stagedRoomLine, type StoredPlan } from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -114,41 +115,22 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
 }
 
 
-type StoredPlan = Omit<ImportPlan, 'problems' | 'summary' | 'roomWrites'> & { summary: ImportSummary; roomWrites: unknown[][] };
-const FIELD_ORDER = ['code', 'name', 'use', 'floorAreaM2', 'ceilingHeightM', 'pupils', 'adults', 'ageGroup', 'orientationDeg',
-  'glazingAreaM2', 'openableAreaM2', 'windowType', 'ventilationType', 'mechanicalSupplyLps', 'notes'] as const;
-
-/** The plan as the commit needs it, compactly: each room write an array, as gzip-compressed JSON. */
+/**
+ * The plan as the commit needs it, gzip-compressed: one line of JSON with everything but the room
+ * writes, then the room writes as COPY text lines, ready to stream into the commit's staging table.
+ */
 export function encodePlan(plan: ImportPlan): Buffer {
   const { problems: _problems, roomWrites, ...rest } = plan;
-  const writes = new Array<unknown[]>(roomWrites.length);
-  for (let i = 0; i < roomWrites.length; i++) {
-    const w = roomWrites[i]!;
-    const a: unknown[] = [w.rowNumber, w.roomId, w.school, w.block];
-    for (const f of FIELD_ORDER) a.push(w.fields[f]);
-    a.push(w.roomId ? w.before : null, w.roomId ? w.after : null);
-    writes[i] = a;
-  }
-  return gzipSync(JSON.stringify({ ...rest, roomWrites: writes } satisfies StoredPlan), { level: 1 });
+  const parts: string[] = [JSON.stringify(rest satisfies StoredPlan), '\n'];
+  for (const w of roomWrites) parts.push(stagedRoomLine(w));
+  return gzipSync(parts.join(''), { level: 1 });
 }
 
-/** The inverse of encodePlan. */
-export function decodePlan(gz: Buffer): ImportPlan {
-  const stored = JSON.parse(gunzipSync(gz).toString('utf8')) as StoredPlan;
-  const n = 4 + FIELD_ORDER.length;
-  const roomWrites = new Array<RoomWrite>(stored.roomWrites.length);
-  for (let r = 0; r < roomWrites.length; r++) {
-    const a = stored.roomWrites[r]!;
-    const fields = {} as Record<string, unknown>;
-    for (let i = 0; i < FIELD_ORDER.length; i++) fields[FIELD_ORDER[i]!] = a[4 + i];
-    roomWrites[r] = {
-      rowNumber: a[0] as number, roomId: a[1] as string | null, school: a[2] as Ref, block: a[3] as Ref | null, fields: fields as unknown as RoomFields,
-      before: (a[n] as RoomWrite['before']) ?? null, after: (a[n + 1] as RoomWrite['after']) ?? (fields as unknown as RoomFields),
-    };
-    // The stored array is not needed once its write is rebuilt.
-    stored.roomWrites[r] = [];
-  }
-  return { ...stored, roomWrites, problems: [] };
+/** The inverse of encodePlan: the plan without its room writes, and the room writes as COPY text. */
+export function decodePlan(gz: Buffer): { plan: StoredPlan; roomLines: Buffer } {
+  const bytes = gunzipSync(gz);
+  const end = bytes.indexOf(10);
+  return { plan: JSON.parse(bytes.toString('utf8', 0, end)) as StoredPlan, roomLines: bytes.subarray(end + 1) };
 }
 
 /** Outcome of a commit or cancel, as stored on the import and answered to the client. */
@@ -171,9 +153,9 @@ export type CommitHook = (trx: Kysely<Database>) => Promise<void>;
  * preview (otherwise 409: a change made since is never overwritten blindly). "none" cancels.
  */
 export async function commitImport(
-  db: Kysely<Database>, trust: ActiveTrust, actor: Actor, importId: string, body: CommitBody, beforeCommit?: CommitHook,
+  pool: pg.Pool, trust: ActiveTrust, actor: Actor, importId: string, body: CommitBody, beforeCommit?: CommitHook,
 ): Promise<ImportOutcome> {
-  return db.transaction().execute(async (trx) => {
+  return withConnection(pool, (db, client) => db.transaction().execute(async (trx) => {
     const found = await trx.selectFrom('register_imports').select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
       .where('id', '=', importId).where('trust_id', '=', trust.id).forUpdate().executeTakeFirst();
     if (!found) throw notFound('That import');
@@ -191,10 +173,10 @@ export async function commitImport(
     if (found.estate_fingerprint !== await estateFingerprint(trx, trust)) {
       throw conflict('The register has changed since this preview (someone edited, added or imported rooms). Upload the file again to see an up-to-date preview.');
     }
-    const plan = decodePlan(found.rows_gz);
+    const { plan, roomLines } = decodePlan(found.rows_gz);
     mark('check the estate is as previewed and unpack the plan');
     await assertWithinPlan(trx, trust.id, { schools: plan.summary.schoolsToCreate, rooms: plan.summary.roomsToCreate });
-    const { roomsDeleted } = await applyPlan(trx, trust.id, actor, plan, body.deleteMissing);
+    const { roomsDeleted } = await applyPlan(trx, client, trust.id, actor, plan, roomLines, body.deleteMissing);
     mark('write schools, blocks, rooms and audit');
     const outcome: ImportOutcome = {
       status: 'committed', schoolsCreated: plan.summary.schoolsToCreate, blocksCreated: plan.summary.blocksToCreate,
@@ -211,7 +193,7 @@ export async function commitImport(
     });
     if (beforeCommit) await beforeCommit(trx);
     return outcome;
-  });
+  }));
 }
 
 /** One line of the import history. */

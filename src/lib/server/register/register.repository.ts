@@ -1,4 +1,6 @@
 import { sql, type Kysely, type Transaction } from 'kysely';
+import type pg from 'pg';
+import { copyLine, copyLines } from '../db/copy';
 import type { Database } from '../../../../db/database';
 import type { ClimateRegion, SchoolPhase } from '../../engine/vocabulary';
 import type { AuditEntry } from '../audit/audit.repository';
@@ -6,13 +8,13 @@ import type { ActiveTrust } from '../auth/context';
 import { inTrustScope } from '../estate/estate.repository';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
-import type { EstateSnapshot, ImportPlan, Ref } from './plan';
+import type { EstateSnapshot, ImportPlan, Ref, RoomWrite } from './plan';
 import type { RoomFields } from './register.schemas';
 
 type Db = Kysely<Database> | Transaction<Database>;
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
-/** Room columns in the order the bulk writer sends them. */
+/** Room columns in the order the bulk writer stages them. */
 const ROOM_COLUMNS = [
   ['code', 'text', 'code'], ['name', 'text', 'name'], ['use', 'text', 'use'], ['floor_area_m2', 'float8', 'floorAreaM2'],
   ['ceiling_height_m', 'float8', 'ceilingHeightM'], ['pupils', 'int4', 'pupils'], ['adults', 'int4', 'adults'], ['age_group', 'text', 'ageGroup'],
@@ -83,11 +85,36 @@ export async function saveMappings(db: Db, trustId: string, pairs: { headerKey: 
 }
 
 const AUDIT_CHUNK = 5000;
-const ROOM_CHUNK = 5000;
 
-/** Writes an import plan: new schools and blocks, school and block changes, rooms upserted in bulk, all audited. */
+/** The columns of a staged room write, in the order of its COPY line (see stagedRoomLine). */
+const STAGED_COLUMNS = ['row_number', 'room_id', 'school_id', 'school_key', 'block_id', 'block_key', ...ROOM_COLUMNS.map(([c]) => c), 'before', 'after'];
+
+/**
+ * One room write as a line of COPY text for the commit's staging table: the row number, the room
+ * (null when new), its school and block as an id or the key of one the import creates, the room's
+ * fields, and for a changed room the changed values before and after as JSON (for the audit trail).
+ */
+export function stagedRoomLine(w: RoomWrite): string {
+  const values: (string | number | null)[] = [
+    w.rowNumber, w.roomId,
+    'id' in w.school ? w.school.id : null, 'newKey' in w.school ? w.school.newKey : null,
+    w.block && 'id' in w.block ? w.block.id : null, w.block && 'newKey' in w.block ? w.block.newKey : null,
+  ];
+  for (const [, , key] of ROOM_COLUMNS) values.push(w.fields[key] as string | number | null);
+  values.push(w.roomId ? JSON.stringify(w.before) : null, w.roomId ? JSON.stringify(w.after) : null);
+  return copyLine(values);
+}
+
+/** An import plan as stored between preview and commit: everything but the room writes, which travel as COPY text. */
+export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems'>;
+
+/**
+ * Writes an import plan: new schools and blocks, school and block changes, rooms upserted in bulk,
+ * all audited. The room writes (COPY text from stagedRoomLine) are streamed into a temporary table
+ * and applied from there by a few set-based statements, never row by row.
+ */
 export async function applyPlan(
-  trx: Transaction<Database>, trustId: string, actor: Actor, plan: ImportPlan, deleteMissing: boolean,
+  trx: Transaction<Database>, client: pg.PoolClient, trustId: string, actor: Actor, plan: StoredPlan, roomLines: Buffer, deleteMissing: boolean,
 ): Promise<{ roomsDeleted: number }> {
   const audit: AuditEntry[] = [];
   const base = { trustId, ...actor };
@@ -130,45 +157,42 @@ export async function applyPlan(
     audit.push({ ...base, action: 'block.updated', entityType: 'block', entityId: c.id, summary: `Changed block ${c.name}`, before: c.before, after: c.after });
   }
 
-  // Rooms: new ones by a plain multi-row INSERT, changed ones by one UPDATE … FROM per chunk; the
-  // columns travel as arrays (unnest), never row by row.
-  const keys = ROOM_COLUMNS.map(([, , key]) => key);
-  const typed = (values: unknown[], type: string) => sql`${values}::${sql.raw(type)}[]`;
-  const creates = plan.roomWrites.filter((w) => !w.roomId);
-  const updates = plan.roomWrites.filter((w) => w.roomId);
-  // New rooms and their audit events in one statement per chunk: each new room's id is drawn up
-  // front, so the room and its room.created event are both written from the same source row
-  // (the values travel only once, and no join back from the inserted rows is needed).
-  const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', src.${c}`).join(', ')})`);
-  for (let start = 0; start < creates.length; start += ROOM_CHUNK) {
-    const chunk = creates.slice(start, start + ROOM_CHUNK);
-    const args = [
-      typed(chunk.map((w) => w.rowNumber), 'int4'),
-      typed(chunk.map((w) => resolve(w.school, schoolIds)), 'uuid'),
-      typed(chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null)), 'uuid'),
-      ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
-    ];
-    const columns = ['school_id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)].join(', ');
-    await sql`
-      WITH src AS MATERIALIZED (SELECT gen_random_uuid() AS id, * FROM unnest(${sql.join(args)}) AS u(row_number, ${sql.raw(columns)})),
-      ins AS (INSERT INTO rooms (id, ${sql.raw(columns)}) SELECT id, ${sql.raw(columns)} FROM src)
-      INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, after)
-      SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', src.id::text,
-        'Created room ' || src.code || ' from a register import (row ' || src.row_number || ')', ${roomJson}
-      FROM src`.execute(trx);
-  }
-  for (let start = 0; start < updates.length; start += ROOM_CHUNK) {
-    const chunk = updates.slice(start, start + ROOM_CHUNK);
-    const args = [
-      typed(chunk.map((w) => w.roomId), 'uuid'),
-      typed(chunk.map((w) => (w.block ? resolve(w.block, blockIds) : null)), 'uuid'),
-      ...ROOM_COLUMNS.map(([, type], i) => typed(chunk.map((w) => w.fields[keys[i]!]), type)),
-    ];
-    const names = ['id', 'block_id', ...ROOM_COLUMNS.map(([c]) => c)];
-    const assignments = sql.raw(names.slice(1).map((c) => `${c} = u.${c}`).join(', '));
-    await sql`UPDATE rooms SET ${assignments} FROM unnest(${sql.join(args)}) AS u(${sql.raw(names.join(', '))}) WHERE rooms.id = u.id`.execute(trx);
-    for (const w of chunk) {
-      audit.push({ ...base, action: 'room.updated', entityType: 'room', entityId: w.roomId, summary: `Changed room ${w.fields.code} from a register import (row ${w.rowNumber})`, before: w.before, after: w.after });
+  if (roomLines.length > 0) {
+    const roomColumns = ROOM_COLUMNS.map(([c]) => c);
+    const columnTypes = ROOM_COLUMNS.map(([c, type]) => `${c} ${type}`).join(', ');
+    await sql`CREATE TEMP TABLE import_rows (
+        id uuid NOT NULL DEFAULT gen_random_uuid(), row_number int4, room_id uuid, school_id uuid, school_key text, block_id uuid, block_key text,
+        ${sql.raw(columnTypes)}, before text, after text
+      ) ON COMMIT DROP`.execute(trx);
+    const pieces = function* () {
+      for (let at = 0; at < roomLines.length; at += 256 * 1024) yield roomLines.subarray(at, at + 256 * 1024);
+    };
+    await copyLines(client, `COPY import_rows (${STAGED_COLUMNS.join(', ')}) FROM STDIN`, pieces());
+    // Schools and blocks this import created, by the keys the staged rows name them with.
+    const created = (ids: Map<string, string>) => sql`unnest(${[...ids.keys()]}::text[], ${[...ids.values()]}::uuid[])`;
+    const resolved = sql`import_rows r
+      LEFT JOIN ${created(schoolIds)} AS s(key, id) ON s.key = r.school_key
+      LEFT JOIN ${created(blockIds)} AS b(key, id) ON b.key = r.block_key`;
+    const pick = sql.raw(roomColumns.map((c) => `r.${c}`).join(', '));
+    if (plan.summary.roomsToCreate > 0) {
+      await sql`INSERT INTO rooms (id, school_id, block_id, ${sql.raw(roomColumns.join(', '))})
+        SELECT r.id, coalesce(r.school_id, s.id), coalesce(r.block_id, b.id), ${pick} FROM ${resolved} WHERE r.room_id IS NULL`.execute(trx);
+      const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', ${c}`).join(', ')})`);
+      await sql`INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, after)
+        SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', id::text,
+          'Created room ' || code || ' from a register import (row ' || row_number || ')', ${roomJson}
+        FROM import_rows WHERE room_id IS NULL ORDER BY row_number`.execute(trx);
+    }
+    if (plan.summary.roomsToChange > 0) {
+      // Statistics, so the join to rooms goes by primary key rather than scanning every trust's rooms.
+      await sql`ANALYZE import_rows`.execute(trx);
+      const assignments = sql.raw(roomColumns.map((c) => `${c} = r.${c}`).join(', '));
+      await sql`UPDATE rooms SET block_id = coalesce(r.block_id, b.id), ${assignments}
+        FROM ${resolved} WHERE rooms.id = r.room_id`.execute(trx);
+      await sql`INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, before, after)
+        SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.updated', 'room', room_id::text,
+          'Changed room ' || code || ' from a register import (row ' || row_number || ')', before::jsonb, after::jsonb
+        FROM import_rows WHERE room_id IS NOT NULL ORDER BY row_number`.execute(trx);
     }
   }
 

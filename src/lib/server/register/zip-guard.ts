@@ -109,7 +109,7 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
   }
   if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
   return new Promise((resolve, reject) => {
-    const inflate = createInflateRaw();
+    const inflate = createInflateRaw({ chunkSize: 1024 * 1024 });
     let total = 0;
     let head = '';
     let tail = '';
