@@ -1,6 +1,7 @@
 // Register import benchmark: generates a 100,000-room register (.xlsx, shared strings as Excel writes
 // them), then measures (a) exceljs's streaming reader reading it and doing nothing else and (b) our
-// whole import — read, validate, preview, commit — in this process, against the bench database.
+// whole import — read, validate, preview, commit — in this process, against the bench database; and (c) the
+// database write floor: PostgreSQL alone writing the same rooms and audit events set-based (see databaseWriteFloor).
 // Prints one JSON object as the last line (scripts/bench.mjs merges it into bench/results.json).
 import { mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
@@ -61,6 +62,32 @@ async function rawRead(bytes: Buffer): Promise<number> {
   return rows;
 }
 
+/**
+ * The least time PostgreSQL alone needs to write what the import writes: the same 100,000 rooms (new
+ * ids and codes, same schools and blocks, so the same indexes, foreign keys and checks) and one audit
+ * event each, by two INSERT … SELECT statements from a temporary table that is already in the
+ * database, then rolled back. No import that reads the file first and commits after can beat
+ * raw read + this floor; import_floor_ratio_vs_raw_read is that bound.
+ */
+async function databaseWriteFloor(): Promise<number> {
+  let seconds = 0;
+  await db.transaction().execute(async (trx) => {
+    await sql`CREATE TEMP TABLE floor_rooms ON COMMIT DROP AS
+      SELECT r.* FROM rooms r JOIN schools s ON s.id = r.school_id WHERE s.trust_id = ${TRUST_ID}`.execute(trx);
+    await sql`UPDATE floor_rooms SET id = gen_random_uuid(), code = code || '-floor'`.execute(trx);
+    const t0 = performance.now();
+    await sql`INSERT INTO rooms SELECT * FROM floor_rooms`.execute(trx);
+    await sql`INSERT INTO audit_events (trust_id, actor_email, action, entity_type, entity_id, summary, after)
+      SELECT ${TRUST_ID}, 'bench@bench.airtally.test', 'room.created', 'room', id::text, 'Created room ' || code, to_jsonb(floor_rooms) FROM floor_rooms`.execute(trx);
+    seconds = (performance.now() - t0) / 1000;
+    throw new Rollback();
+  }).catch((error) => {
+    if (!(error instanceof Rollback)) throw error;
+  });
+  return seconds;
+}
+class Rollback extends Error {}
+
 process.env.AIRTALLY_IMPORT_TIMINGS ??= '1';
 const db = getDb();
 try {
@@ -93,6 +120,8 @@ try {
   if (outcome.roomsCreated !== ROOMS) throw new Error(`expected ${ROOMS} rooms created, got ${outcome.roomsCreated}`);
 
   const peakRssMb = process.resourceUsage().maxRSS / 1024;
+  const dbFloorSeconds = await databaseWriteFloor();
+  log(`database write floor (rooms and their audit events, set-based from a temporary table): ${dbFloorSeconds.toFixed(2)} s`);
   await sql`DELETE FROM trusts WHERE id = ${TRUST_ID}`.execute(db);
   rmSync(FILE, { force: true });
   console.log(JSON.stringify({
@@ -101,6 +130,8 @@ try {
     import_peak_rss_mb: Math.round(peakRssMb),
     import_raw_read_s: Math.round(rawSeconds * 100) / 100,
     import_full_s: Math.round(fullSeconds * 100) / 100,
+    import_db_write_floor_s: Math.round(dbFloorSeconds * 100) / 100,
+    import_floor_ratio_vs_raw_read: Math.round(((rawSeconds + dbFloorSeconds) / rawSeconds) * 100) / 100,
   }));
 } finally {
   await db.destroy();

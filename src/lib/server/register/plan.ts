@@ -94,6 +94,13 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     });
   };
 
+  // A register names the same few schools and blocks on every row: each distinct name is keyed once.
+  const keys = new Map<string, string>();
+  const keyOf = (name: string) => {
+    let key = keys.get(name);
+    if (key === undefined) keys.set(name, (key = nameKey(name)));
+    return key;
+  };
   const schoolsByKey = new Map(estate.schools.map((s) => [nameKey(s.name), s]));
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
   const roomsByKey = new Map(estate.rooms.map((r) => [`${r.schoolId}|${r.fields.code}`, r]));
@@ -106,7 +113,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const school = row.values.school;
     if (typeof school !== 'string') continue;
     const phase = row.values.schoolPhase;
-    const sk = nameKey(school);
+    const sk = keyOf(school);
     if (!schoolNameOf.has(sk)) schoolNameOf.set(sk, school);
     if (typeof phase === 'string') {
       const seen = phaseOf.get(sk);
@@ -115,7 +122,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     }
     const block = row.values.block;
     if (typeof block === 'string') {
-      const bk = `${sk}|${nameKey(block)}`;
+      const bk = `${sk}|${keyOf(block)}`;
       const year = typeof row.values.yearBuilt === 'number' ? row.values.yearBuilt : null;
       const perm = typeof row.values.airPermeabilityM3hM2 === 'number' ? row.values.airPermeabilityM3hM2 : null;
       const seen = blockAttrs.get(bk);
@@ -154,7 +161,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       rejected++;
       continue;
     }
-    const sk = nameKey(schoolName);
+    const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
     const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
     if (!existingSchool && estate.canCreateSchools === false) error('school', `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`);
@@ -171,8 +178,8 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
 
     const existingRoom = existingSchool ? roomsByKey.get(`${existingSchool.id}|${code}`) ?? null : null;
     const blockName = typeof row.values.block === 'string' ? row.values.block : null;
-    const blockKey = blockName ? `${sk}|${nameKey(blockName)}` : null;
-    const existingBlock = blockName && existingSchool ? blocksByKey.get(`${existingSchool.id}|${nameKey(blockName)}`) ?? null : null;
+    const blockKey = blockName ? `${sk}|${keyOf(blockName)}` : null;
+    const existingBlock = blockName && existingSchool ? blocksByKey.get(`${existingSchool.id}|${keyOf(blockName)}`) ?? null : null;
 
     // Start from the room as it stands (columns missing from the file keep their values), else from blanks.
     const draft: Record<string, unknown> = existingRoom ? { ...existingRoom.fields } : { name: '', pupils: 0, adults: 0, orientationDeg: null, windowType: null, mechanicalSupplyLps: null, notes: null };
@@ -294,7 +301,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     if (Object.keys(after).length) blockChanges.push({ id: block.id, name: block.name, before, after });
   }
 
-  const schoolIdsInFile = new Set(read.rows.map((r) => (typeof r.values.school === 'string' ? schoolsByKey.get(nameKey(r.values.school))?.id : undefined)).filter(Boolean));
+  const schoolIdsInFile = new Set([...schoolNameOf.keys()].map((sk) => schoolsByKey.get(sk)?.id).filter(Boolean));
   const schoolNames = new Map(estate.schools.map((s) => [s.id, s.name]));
   const missingRooms = estate.rooms
     .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.has(`${r.schoolId}|${r.fields.code}`))
