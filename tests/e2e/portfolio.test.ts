@@ -128,6 +128,11 @@ describe('portfolio pages in Chromium', () => {
     const report = (await (await api('/api/finance', { cookie: await signIn(DEMO_ACCOUNTS.finance_lead) })).json()) as { totals: { units: number }; schools: { units: unknown[] }[] };
     expect(report.totals.units).toBeGreaterThan(0);
     expect(await page.locator('[data-testid="finance-school-table"] tbody tr').count()).toBe(report.totals.units);
+    // Schools are folded to their subtotals; opening one shows its units.
+    const firstSchool = page.locator('[data-testid="finance-school"]').first();
+    expect(await firstSchool.locator('tbody tr').first().isVisible()).toBe(false);
+    await firstSchool.locator('summary').click();
+    expect(await firstSchool.locator('tbody tr').first().isVisible()).toBe(true);
     expect(await page.locator('[data-testid="baseline-words"]').textContent()).toContain('discount rate');
     expect(await page.locator('[data-testid="sensitivity-energy"] tbody tr').count()).toBe(7);
     expect(await page.getByRole('button', { name: 'Re-run assessment' }).count()).toBe(1);
