@@ -20,6 +20,8 @@ export interface BillingAccountsTable {
   cancel_at_period_end: Generated<boolean>;
   /** When the first unpaid renewal failed; the grace period counts from here. Null when paid up. */
   payment_failed_at: Date | null;
+  /** The checkout page last started and perhaps still open at the provider; closed when checkout starts again. */
+  open_checkout_session_id: string | null;
   created_at: CreatedAt;
   updated_at: UpdatedAt;
 }

@@ -98,6 +98,44 @@ describe('upgrade through hosted checkout', () => {
     expect((await addSchool(cookie)).status).toBe(201);
   });
 
+  it('closes the earlier checkout page when checkout starts again, so only one can be paid', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    const start = async () => ((await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as { url: string }).url;
+    const first = await start();
+    const second = await start();
+    const stale = await payOnCheckoutPage(first, '4242 4242 4242 4242');
+    expect(stale.status).toBe(402);
+    expect(await stale.text()).toContain('This checkout session is expired');
+    expect((await payOnCheckoutPage(second, '4242 4242 4242 4242')).status).toBe(303);
+    await waitUntil('the webhook puts the trust on the paid plan', async () => (await billingOf(cookie)).billing.plan === 'per_school');
+    const account = await db.selectFrom('billing_accounts').select(['provider_customer_id', 'open_checkout_session_id']).where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+    expect((await provider().subscriptions.list({ customer: account.provider_customer_id!, status: 'all' })).data).toHaveLength(1);
+    expect(account.open_checkout_session_id).toBeNull();
+  });
+
+  it('cancels a second subscription paid through another checkout page, and keeps the first', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const kept = await subscriptionIdOf(db, trustId);
+    // A checkout page opened before the first payment was confirmed (our API now refuses to open one, so it is made at the provider).
+    const stripe = provider();
+    const held = await stripe.subscriptions.retrieve(kept);
+    const session = await stripe.checkout.sessions.create({
+      mode: 'subscription', customer: held.customer as string, client_reference_id: trustId,
+      line_items: [{ price: held.items.data[0]!.price.id, quantity: 1 }],
+      subscription_data: { metadata: { trust_id: trustId } }, metadata: { trust_id: trustId },
+      success_url: 'http://127.0.0.1/ok', cancel_url: 'http://127.0.0.1/cancelled',
+    });
+    expect((await payOnCheckoutPage(session.url!, '4242 4242 4242 4242')).status).toBe(303);
+    const audit = await waitUntil('the second subscription is cancelled', () =>
+      db.selectFrom('audit_events').select(['entity_id', 'summary']).where('trust_id', '=', trustId).where('action', '=', 'billing.duplicate_cancelled').executeTakeFirst());
+    expect(audit.entity_id).not.toBe(kept);
+    expect((await stripe.subscriptions.retrieve(audit.entity_id!)).status).toBe('canceled');
+    expect((await stripe.subscriptions.retrieve(kept)).status).toBe('trialing');
+    expect(await subscriptionIdOf(db, trustId)).toBe(kept);
+    expect((await billingOf(cookie)).billing).toMatchObject({ plan: 'per_school', status: 'trialing' });
+  });
+
   it('refuses a second checkout while the trust is already on the paid plan', async () => {
     const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
     const response = await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' });

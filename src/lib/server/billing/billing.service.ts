@@ -10,7 +10,7 @@ import { planPrices } from './catalogue';
 import { paymentProvider, providerConfigured } from './provider';
 import { FREE_PLAN, PER_SCHOOL_PLAN, planName, type BillingInterval } from './plans';
 import { billingStanding } from './standing';
-import { syncSubscription } from './subscription-sync';
+import { syncSubscription, withBillingLock } from './subscription-sync';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
@@ -68,32 +68,49 @@ async function ensureCustomer(db: Kysely<Database>, stripe: Stripe, req: Billing
 /**
  * Starts the upgrade to the per-school plan: a hosted checkout session for one seat per school,
  * with the 30-day trial when the trust has never subscribed. Returns the page to send the admin to.
+ * Under the trust's billing lock, the checkout page started before (another tab, another admin) is
+ * closed at the provider first, so only the newest page can be paid and a trust cannot end up
+ * with two subscriptions.
  */
 export async function startCheckout(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, interval: BillingInterval): Promise<{ url: string }> {
-  const account = await getBillingAccount(db, req.trust.id);
-  if (billingStanding(account).effectivePlan === 'per_school') {
-    throw conflict(`This trust is already on the ${PER_SCHOOL_PLAN.name} plan. Change its billing period or cancellation here instead.`);
-  }
-  const customerId = await ensureCustomer(db, stripe, req, account);
-  const prices = await planPrices(stripe);
-  const { schools } = await countEstate(db, req.trust.id);
-  const firstSubscription = account.subscriptionId === null;
-  const session = await stripe.checkout.sessions.create({
-    mode: 'subscription',
-    customer: customerId,
-    client_reference_id: req.trust.id,
-    line_items: [{ price: prices[interval], quantity: billableSchools(schools) }],
-    subscription_data: { metadata: { trust_id: req.trust.id }, ...(firstSubscription ? { trial_period_days: PER_SCHOOL_PLAN.trialDays } : {}) },
-    metadata: { trust_id: req.trust.id },
-    success_url: `${req.origin}/app/settings/billing?checkout=success`,
-    cancel_url: `${req.origin}/app/settings/billing?checkout=cancelled`,
+  return withBillingLock(db, req.trust.id, async (trx) => {
+    const account = await getBillingAccount(trx, req.trust.id);
+    if (billingStanding(account).effectivePlan === 'per_school') {
+      throw conflict(`This trust is already on the ${PER_SCHOOL_PLAN.name} plan. Change its billing period or cancellation here instead.`);
+    }
+    const customerId = await ensureCustomer(trx, stripe, req, account);
+    const prices = await planPrices(stripe);
+    const { schools } = await countEstate(trx, req.trust.id);
+    const previous = await trx.selectFrom('billing_accounts').select('open_checkout_session_id').where('trust_id', '=', req.trust.id).executeTakeFirst();
+    if (previous?.open_checkout_session_id) await expireIfOpen(stripe, previous.open_checkout_session_id);
+    const firstSubscription = account.subscriptionId === null;
+    const session = await stripe.checkout.sessions.create({
+      mode: 'subscription',
+      customer: customerId,
+      client_reference_id: req.trust.id,
+      line_items: [{ price: prices[interval], quantity: billableSchools(schools) }],
+      subscription_data: { metadata: { trust_id: req.trust.id }, ...(firstSubscription ? { trial_period_days: PER_SCHOOL_PLAN.trialDays } : {}) },
+      metadata: { trust_id: req.trust.id },
+      success_url: `${req.origin}/app/settings/billing?checkout=success`,
+      cancel_url: `${req.origin}/app/settings/billing?checkout=cancelled`,
+    });
+    if (!session.url) throw new Error('The payment provider returned a checkout session without a URL');
+    await trx.updateTable('billing_accounts').set({ open_checkout_session_id: session.id }).where('trust_id', '=', req.trust.id).execute();
+    await recordAudit(trx, {
+      trustId: req.trust.id, ...req.actor, action: 'billing.checkout_started', entityType: 'subscription', entityId: null,
+      summary: `Upgrade to ${PER_SCHOOL_PLAN.name} (${interval === 'year' ? 'yearly' : 'monthly'}, ${billableSchools(schools)} schools) started at checkout`,
+    });
+    return { url: session.url };
   });
-  if (!session.url) throw new Error('The payment provider returned a checkout session without a URL');
-  await recordAudit(db, {
-    trustId: req.trust.id, ...req.actor, action: 'billing.checkout_started', entityType: 'subscription', entityId: null,
-    summary: `Upgrade to ${PER_SCHOOL_PLAN.name} (${interval === 'year' ? 'yearly' : 'monthly'}, ${billableSchools(schools)} schools) started at checkout`,
+}
+
+/** Closes a checkout page at the provider unless it is already paid or closed. */
+async function expireIfOpen(stripe: Stripe, sessionId: string): Promise<void> {
+  const session = await stripe.checkout.sessions.retrieve(sessionId).catch((error: unknown) => {
+    if ((error as { code?: string }).code === 'resource_missing') return null;
+    throw error;
   });
-  return { url: session.url };
+  if (session?.status === 'open') await stripe.checkout.sessions.expire(sessionId);
 }
 
 async function liveSubscription(db: Kysely<Database>, trustId: string): Promise<{ account: BillingAccount; subscriptionId: string }> {

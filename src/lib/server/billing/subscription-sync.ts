@@ -9,7 +9,7 @@ type Db = Kysely<Database> | Transaction<Database>;
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /** Subscription statuses in which the trust is (still) on the paid plan. */
-const LIVE = new Set(['trialing', 'active', 'past_due', 'unpaid']);
+export const LIVE = new Set(['trialing', 'active', 'past_due', 'unpaid']);
 
 /** What we store about a subscription, read from the provider's object (never from event order). */
 export interface SubscriptionState {

@@ -3,7 +3,9 @@ import type Stripe from 'stripe';
 import type { Database } from '../../../../db/database';
 import { badRequest } from '../http/errors';
 import { webhookSecret } from './provider';
-import { applySubscriptionState, readSubscription, trustForCustomer, withBillingLock, type SubscriptionState } from './subscription-sync';
+import { recordAudit } from '../audit/audit.repository';
+import { getBillingAccount } from './billing.repository';
+import { applySubscriptionState, LIVE, readSubscription, trustForCustomer, withBillingLock, type SubscriptionState } from './subscription-sync';
 import { notifyPaymentFailed } from './notify';
 
 /** Where an event's object points: its subscription, customer and (when stated) trust. */
@@ -88,8 +90,12 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
   if (!trustId) return { duplicate: !(await store(db)) };
   const stored = await withBillingLock(db, trustId, async (trx) => {
     if (!(await store(trx))) return false;
+    if (event.type === 'checkout.session.completed') {
+      await trx.updateTable('billing_accounts').set({ open_checkout_session_id: null }).where('trust_id', '=', trustId).execute();
+    }
     // Read inside the lock: whatever order events come in, the last one stores the freshest state.
     const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
+    if (state && LIVE.has(state.status) && (await cancelIfSecondSubscription(trx, stripe, trustId, state.subscriptionId))) return true;
     if (state) await applySubscriptionState(trx, { ...state, trustId }, { actorUserId: null, actorEmail: 'payment provider' }, `provider event ${event.type}`);
     return true;
   });
@@ -99,6 +105,25 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
     });
   }
   return { duplicate: !stored };
+}
+
+/**
+ * A trust has one subscription. When a second live one appears (two checkout pages paid one after
+ * the other before the first confirmation arrived) while the one we hold is still live at the
+ * provider, the newcomer is cancelled there straight away, the trust keeps the subscription it had,
+ * and the audit trail says so.
+ */
+async function cancelIfSecondSubscription(trx: Transaction<Database>, stripe: Stripe, trustId: string, subscriptionId: string): Promise<boolean> {
+  const account = await getBillingAccount(trx, trustId);
+  if (!account.subscriptionId || account.subscriptionId === subscriptionId || !LIVE.has(account.status)) return false;
+  const held = await readSubscriptionIfExists(stripe, account.subscriptionId);
+  if (!held || !LIVE.has(held.status)) return false;
+  await stripe.subscriptions.cancel(subscriptionId);
+  await recordAudit(trx, {
+    trustId, actorUserId: null, actorEmail: 'payment provider', action: 'billing.duplicate_cancelled', entityType: 'subscription', entityId: subscriptionId,
+    summary: `Cancelled a second subscription (${subscriptionId}) from another checkout; the trust keeps its subscription ${account.subscriptionId}. Refund any first payment it took.`,
+  });
+  return true;
 }
 
 /** The trust an event belongs to (stated in metadata, or found by customer), if it is one of ours. */
