@@ -3,6 +3,7 @@
  * number here is fictional and exists only to show the product; it is generated deterministically
  * (fixed-seed PRNG) so every machine gets the same estate.
  */
+import { prng } from './prng';
 
 export const DEMO_TRUST = { id: 'demo-trust', name: 'Brackenmoor Valley Learning Trust', slug: 'brackenmoor-valley' } as const;
 
@@ -145,18 +146,6 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     ],
   },
 ];
-
-/** Mulberry32: a tiny fixed-seed PRNG so the demo estate is identical on every machine. */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 export interface DemoRoom {
   blockName: string;

@@ -4,7 +4,8 @@
  */
 import { CrossLinesModule, LegendModule, LineSeriesModule, ModuleRegistry, NumberAxisModule, type AgCartesianChartOptions } from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo } from 'react';
+import { useDarkTheme } from '../use-dark-theme';
 
 ModuleRegistry.registerModules([LineSeriesModule, NumberAxisModule, LegendModule, CrossLinesModule]);
 
@@ -21,16 +22,6 @@ export interface Co2DayChartProps {
 
 const clock = (minute: number) => `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(Math.round(minute % 60)).padStart(2, '0')}`;
 const SEASON_COLOURS = { light: ['#1f6f6b', '#8a5a12', '#a1302b'], dark: ['#5cc3ba', '#e7b35f', '#f08a83'] };
-
-function useDarkTheme(): boolean {
-  const [dark, setDark] = useState(() => document.documentElement.classList.contains('dark'));
-  useEffect(() => {
-    const observer = new MutationObserver(() => setDark(document.documentElement.classList.contains('dark')));
-    observer.observe(document.documentElement, { attributes: true, attributeFilter: ['class'] });
-    return () => observer.disconnect();
-  }, []);
-  return dark;
-}
 
 export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
   const dark = useDarkTheme();

@@ -13,21 +13,10 @@ import {
   type AgCartesianChartOptions,
 } from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
-import { useEffect, useState } from 'react';
 import type { ChartData } from '../chart-data';
+import { useDarkTheme } from '../../use-dark-theme';
 
 ModuleRegistry.registerModules([BarSeriesModule, LineSeriesModule, ScatterSeriesModule, CategoryAxisModule, NumberAxisModule, LegendModule]);
-
-/** Follows the page's light/dark class so the chart theme matches. */
-function useDarkTheme(): boolean {
-  const [dark, setDark] = useState(() => document.documentElement.classList.contains('dark'));
-  useEffect(() => {
-    const observer = new MutationObserver(() => setDark(document.documentElement.classList.contains('dark')));
-    observer.observe(document.documentElement, { attributes: true, attributeFilter: ['class'] });
-    return () => observer.disconnect();
-  }, []);
-  return dark;
-}
 
 const gbp = (v: number) => `£${Math.round(v).toLocaleString('en-GB')}`;
 const BAND_COLOURS: Record<'light' | 'dark', [string, string, string, string]> = { light: ['#2f6f4f', '#6e7d1c', '#9b5a06', '#a1302b'], dark: ['#7fcfa3', '#c8d46b', '#f0b45e', '#f08a83'] };

@@ -4,7 +4,7 @@ import type { Database } from '../../../../db/database';
 import type { RankWeights } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import type { ResultRow } from './result-row';
-import { copyField, copyLines, copyPieces } from '../db/copy';
+import { copyLine, copyLines, copyPieces } from '../db/copy';
 
 const COPY_COLUMNS = [
   'run_id', 'room_id', 'trust_id', 'school_id', 'block_id', 'ventilation_type', 'pupils', 'is_current', 'worst_season',
@@ -19,13 +19,13 @@ export const copyResultsSql = (table = 'room_results') => `COPY ${table} (${COPY
 
 /** One result row as a line of COPY text, not yet current. */
 export function toCopyLine(r: ResultRow): string {
-  return [
+  return copyLine([
     r.runId, r.roomId, r.trustId, r.schoolId, r.blockId, r.ventilationType, r.pupils, false, r.worstSeason,
     r.meanCo2Ppm, r.peakCo2Ppm, r.criteriaMet, r.riskBand, r.riskScore, r.pupilHoursAbove, r.reason,
     r.unitsRecommended, r.unitCount, r.capitalCostGbp, r.annualSavingGbp, r.annualSavingKwh, r.annualSavingKgCo2e,
     r.simplePaybackYears, r.discountedPaybackYears, r.npvGbp, r.pupilHoursRemovedPer1000Gbp,
     r.capitalPerTonneCo2eGbp, r.detailJson,
-  ].map(copyField).join('\t') + '\n';
+  ]);
 }
 
 /**

@@ -15,6 +15,8 @@ export interface BillingAccount extends BillingSnapshot {
   currentPeriodEnd: Date | null;
   trialEnd: Date | null;
   cancelAtPeriodEnd: boolean;
+  /** The checkout page last started, perhaps still open at the provider. */
+  openCheckoutSessionId: string | null;
 }
 
 /** The account of a trust; a trust without a row is on the free plan with no provider customer. */
@@ -23,7 +25,7 @@ export async function getBillingAccount(db: Db, trustId: string): Promise<Billin
   if (!row) {
     return {
       trustId, plan: 'free', status: 'none', paymentFailedAt: null, interval: null, customerId: null, subscriptionId: null,
-      quantity: 0, currentPeriodEnd: null, trialEnd: null, cancelAtPeriodEnd: false,
+      quantity: 0, currentPeriodEnd: null, trialEnd: null, cancelAtPeriodEnd: false, openCheckoutSessionId: null,
     };
   }
   return {
@@ -38,6 +40,7 @@ export async function getBillingAccount(db: Db, trustId: string): Promise<Billin
     currentPeriodEnd: row.current_period_end,
     trialEnd: row.trial_end,
     cancelAtPeriodEnd: row.cancel_at_period_end,
+    openCheckoutSessionId: row.open_checkout_session_id,
   };
 }
 

@@ -81,8 +81,7 @@ export async function startCheckout(db: Kysely<Database>, stripe: Stripe, req: B
     const customerId = await ensureCustomer(trx, stripe, req, account);
     const prices = await planPrices(stripe);
     const { schools } = await countEstate(trx, req.trust.id);
-    const previous = await trx.selectFrom('billing_accounts').select('open_checkout_session_id').where('trust_id', '=', req.trust.id).executeTakeFirst();
-    if (previous?.open_checkout_session_id) await expireIfOpen(stripe, previous.open_checkout_session_id);
+    if (account.openCheckoutSessionId) await expireIfOpen(stripe, account.openCheckoutSessionId);
     const firstSubscription = account.subscriptionId === null;
     const session = await stripe.checkout.sessions.create({
       mode: 'subscription',

@@ -4,7 +4,7 @@ import type pg from 'pg';
 import copyStreams from 'pg-copy-streams';
 
 /** A value in COPY text format: backslash, tab, newline and carriage return escaped; null as \N. */
-export function copyField(value: string | number | boolean | null | undefined): string {
+function copyField(value: string | number | boolean | null | undefined): string {
   if (value === null || value === undefined) return '\\N';
   if (typeof value === 'boolean') return value ? 't' : 'f';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '\\N';
@@ -15,6 +15,9 @@ export function copyField(value: string | number | boolean | null | undefined): 
 
 /** One row as a line of COPY text. */
 export const copyLine = (values: readonly (string | number | boolean | null | undefined)[]): string => values.map(copyField).join('\t') + '\n';
+
+/** About how much COPY text goes to the stream at a time. */
+const PIECE_BYTES = 256 * 1024;
 
 /**
  * Items as COPY text in pieces of about 256 kB, each line made as the stream asks for it, so the
@@ -27,13 +30,18 @@ export function* copyPieces<T>(items: Iterable<T>, toLine: (item: T) => string):
     const line = toLine(item);
     batch.push(line);
     length += line.length;
-    if (length >= 256 * 1024) {
+    if (length >= PIECE_BYTES) {
       yield batch.join('');
       batch = [];
       length = 0;
     }
   }
   if (batch.length > 0) yield batch.join('');
+}
+
+/** COPY text already made (bytes) in pieces of 256 kB; a piece may end mid-line, which COPY allows. */
+export function* bytePieces(bytes: Buffer): Generator<Buffer> {
+  for (let at = 0; at < bytes.length; at += PIECE_BYTES) yield bytes.subarray(at, at + PIECE_BYTES);
 }
 
 /** Streams COPY text (strings or bytes) into `copySql` on a client that is already inside a transaction. */

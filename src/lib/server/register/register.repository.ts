@@ -1,6 +1,6 @@
 import { sql, type Kysely, type Transaction } from 'kysely';
 import type pg from 'pg';
-import { copyLine, copyLines } from '../db/copy';
+import { bytePieces, copyLine, copyLines } from '../db/copy';
 import type { Database } from '../../../../db/database';
 import type { ClimateRegion, SchoolPhase } from '../../engine/vocabulary';
 import type { AuditEntry } from '../audit/audit.repository';
@@ -164,10 +164,7 @@ export async function applyPlan(
         id uuid NOT NULL DEFAULT gen_random_uuid(), row_number int4, room_id uuid, school_id uuid, school_key text, block_id uuid, block_key text,
         ${sql.raw(columnTypes)}, before text, after text
       ) ON COMMIT DROP`.execute(trx);
-    const pieces = function* () {
-      for (let at = 0; at < roomLines.length; at += 256 * 1024) yield roomLines.subarray(at, at + 256 * 1024);
-    };
-    await copyLines(client, `COPY import_rows (${STAGED_COLUMNS.join(', ')}) FROM STDIN`, pieces());
+    await copyLines(client, `COPY import_rows (${STAGED_COLUMNS.join(', ')}) FROM STDIN`, bytePieces(roomLines));
     // Schools and blocks this import created, by the keys the staged rows name them with.
     const created = (ids: Map<string, string>) => sql`unnest(${[...ids.keys()]}::text[], ${[...ids.values()]}::uuid[])`;
     const resolved = sql`import_rows r

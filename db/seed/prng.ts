@@ -1,4 +1,7 @@
-/** Mulberry32: a tiny fixed-seed PRNG, so every benchmark run generates the same rooms. Returns values in [0, 1). */
+/**
+ * Mulberry32: a tiny fixed-seed PRNG, so the demo estate and the benchmarks' generated rooms are the
+ * same on every machine and every run. Returns values in [0, 1).
+ */
 export function prng(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
