@@ -6,6 +6,8 @@ const money = new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'GBP
 export const formatInteger = (value: number) => integer.format(value);
 export const formatNumber = (value: number) => oneDecimal.format(value);
 export const formatGbp = (value: number) => money.format(value);
+/** A count with its noun, singular for one: "1 room", "3 rooms" (nouns whose plural adds an s). */
+export const formatCount = (value: number, noun: string) => `${integer.format(value)} ${noun}${value === 1 ? '' : 's'}`;
 
 /** A bearing as degrees with its nearest compass point, e.g. "225° (SW)". */
 export function formatBearing(deg: number | null): string {

@@ -2,6 +2,7 @@ import { useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { commitRegisterImport, uploadRegister, type ImportOutcome, type ImportPreview } from '../../lib/client/register';
 import type { RegisterOptions } from './types';
+import { formatCount } from '../../lib/format';
 
 const SUMMARY_LABELS: [keyof ImportPreview['summary'], string][] = [
   ['schoolsToCreate', 'Schools to create'], ['blocksToCreate', 'Blocks to create'], ['roomsToCreate', 'Rooms to create'],
@@ -98,7 +99,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
       {outcome && (
         <div role="status" className="rounded-card bg-brand-soft p-4" data-testid="import-outcome">
           {outcome.status === 'cancelled' ? 'Import cancelled; nothing was changed.'
-            : `Imported: ${outcome.roomsCreated} rooms created, ${outcome.roomsChanged} changed, ${outcome.roomsDeleted} deleted, ${outcome.schoolsCreated} schools and ${outcome.blocksCreated} blocks created; ${outcome.rowsRejected} rows were left out.`}
+            : `Imported: ${formatCount(outcome.roomsCreated, 'room')} created, ${outcome.roomsChanged} changed, ${outcome.roomsDeleted} deleted, ${formatCount(outcome.schoolsCreated, 'school')} and ${formatCount(outcome.blocksCreated, 'block')} created; ${formatCount(outcome.rowsRejected, 'row')} left out.`}
         </div>
       )}
 
@@ -151,7 +152,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
 
           <div>
             <div className="flex items-center gap-4">
-              <h4 className="font-semibold">{preview.summary.errors} errors, {preview.summary.warnings} warnings</h4>
+              <h4 className="font-semibold">{formatCount(preview.summary.errors, 'error')}, {formatCount(preview.summary.warnings, 'warning')}</h4>
               <label className="text-sm"><input type="checkbox" checked={showWarnings} onChange={(e) => setShowWarnings(e.target.checked)} /> Show warnings</label>
             </div>
             {problems.length > 0 && (
