@@ -186,7 +186,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
 
           <div className="flex flex-wrap gap-3">
             <button type="button" className="rounded-control bg-brand px-4 py-2 font-semibold text-white" onClick={() => void finish('valid')}>
-              {errors > 0 ? `Import the ${preview.summary.roomsToCreate + preview.summary.roomsToChange} changes from valid rows; leave out ${preview.summary.rowsRejected} rows with errors` : `Import ${preview.summary.roomsToCreate + preview.summary.roomsToChange} changes`}
+              {errors > 0 ? `Import the ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')} from valid rows; leave out ${formatCount(preview.summary.rowsRejected, 'row')} with errors` : `Import ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')}`}
             </button>
             <button type="button" className="rounded-control border border-line px-4 py-2" onClick={() => void finish('none')}>Cancel (change nothing)</button>
           </div>
