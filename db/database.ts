@@ -7,7 +7,13 @@ import type { PortfolioTables } from './tables/portfolio';
 import type { RegisterTables } from './tables/register';
 
 /** The whole schema as Kysely sees it, assembled from each feature's tables in db/tables/. */
-export interface Database extends EstateTables, AuthTables, RegisterTables, AssessmentsTables, BillingTables, PortfolioTables {}
+export interface Database
+  extends EstateTables,
+    AuthTables,
+    RegisterTables,
+    AssessmentsTables,
+    BillingTables,
+    PortfolioTables {}
 
 export type SchoolRow = Selectable<SchoolsTable>;
 export type NewSchool = Insertable<SchoolsTable>;

@@ -11,7 +11,9 @@ const MIGRATIONS_DIR = path.join(path.dirname(fileURLToPath(import.meta.url)), '
  */
 const folderProvider: MigrationProvider = {
   async getMigrations() {
-    const files = (await fs.readdir(MIGRATIONS_DIR)).filter((f) => /\.(ts|js|mjs)$/.test(f) && !f.endsWith('.d.ts')).sort();
+    const files = (await fs.readdir(MIGRATIONS_DIR))
+      .filter((f) => /\.(ts|js|mjs)$/.test(f) && !f.endsWith('.d.ts'))
+      .sort();
     const migrations: Record<string, Migration> = {};
     for (const file of files) {
       const module = (await import(pathToFileURL(path.join(MIGRATIONS_DIR, file)).href)) as Migration;

@@ -3,9 +3,7 @@
 import { readdirSync, mkdirSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
-import {
-  ROOT, ensureNodeModules, recreateDatabase, startPostgres, step, stopChildren,
-} from './lib/services.mjs';
+import { ROOT, ensureNodeModules, recreateDatabase, startPostgres, step, stopChildren } from './lib/services.mjs';
 import { startStack } from './lib/app.mjs';
 
 const port = Number(process.env.AIRTALLY_BENCH_PORT ?? 4398);
@@ -31,7 +29,14 @@ try {
   recreateDatabase(pg, 'airtally_bench');
   const origin = `http://127.0.0.1:${port}`;
   const { env } = await startStack({
-    databaseUrl: pg.url.replace(/\/postgres$/, '/airtally_bench'), origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    databaseUrl: pg.url.replace(/\/postgres$/, '/airtally_bench'),
+    origin,
+    port,
+    smtpPort,
+    mailWebPort,
+    paymentsPort,
+    dataDir,
+    outDir,
     payments: { persist: false, retryBaseMs: 1000 },
   });
 
@@ -46,11 +51,18 @@ try {
   for (const file of benches) {
     step(`Benchmark ${file}`);
     const run = spawnSync(join(ROOT, 'node_modules', '.bin', 'tsx'), [join('scripts', 'bench', file)], {
-      cwd: ROOT, env: { ...env, BENCH_DIST_DIR: outDir }, stdio: ['ignore', 'pipe', 'inherit'], maxBuffer: 64 * 1024 * 1024,
+      cwd: ROOT,
+      env: { ...env, BENCH_DIST_DIR: outDir },
+      stdio: ['ignore', 'pipe', 'inherit'],
+      maxBuffer: 64 * 1024 * 1024,
     });
     const out = run.stdout.toString();
     process.stdout.write(out);
-    const last = out.trim().split('\n').filter((l) => l.trim().startsWith('{')).pop();
+    const last = out
+      .trim()
+      .split('\n')
+      .filter((l) => l.trim().startsWith('{'))
+      .pop();
     if (run.status !== 0 || !last) {
       failed = true;
       console.error(`${file} failed (exit ${run.status})`);

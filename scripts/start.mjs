@@ -30,7 +30,14 @@ try {
   pg = await startPostgres({ dataDir, port: pgPort, database: 'airtally' });
   const origin = process.env.PUBLIC_ORIGIN ?? `http://127.0.0.1:${port}`;
   const { app } = await startStack({
-    databaseUrl: pg.url, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    databaseUrl: pg.url,
+    origin,
+    port,
+    smtpPort,
+    mailWebPort,
+    paymentsPort,
+    dataDir,
+    outDir,
     payments: { persist: true, retryBaseMs: 2000 },
     // The first start assesses the demo estate so it opens on results.
     seedEnv: { AIRTALLY_SEED_ASSESSMENT: '1' },

@@ -3,7 +3,14 @@
 import { join } from 'node:path';
 import { existsSync, readFileSync, rmSync } from 'node:fs';
 import {
-  ROOT, ensureChromium, ensureNodeModules, recreateDatabase, startChild, startPostgres, step, stopChildren,
+  ROOT,
+  ensureChromium,
+  ensureNodeModules,
+  recreateDatabase,
+  startChild,
+  startPostgres,
+  step,
+  stopChildren,
 } from './lib/services.mjs';
 import { startStack } from './lib/app.mjs';
 
@@ -35,7 +42,14 @@ try {
   const databaseUrl = pg.url.replace(/\/postgres$/, `/${database}`);
   const origin = `http://127.0.0.1:${port}`;
   const { env } = await startStack({
-    databaseUrl, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir,
+    databaseUrl,
+    origin,
+    port,
+    smtpPort,
+    mailWebPort,
+    paymentsPort,
+    dataDir,
+    outDir,
     payments: { persist: false, retryBaseMs: 300 },
     extraEnv: {
       TEST_ADMIN_DATABASE_URL: pg.adminUrl,

@@ -20,7 +20,10 @@ export const onRequest = defineMiddleware(async (context, next) => {
   if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
 
   // returnHeaders: when better-auth extends the session it re-issues the cookie, which we pass on below.
-  const { headers: sessionHeaders, response: session } = await getAuth().api.getSession({ headers: context.request.headers, returnHeaders: true });
+  const { headers: sessionHeaders, response: session } = await getAuth().api.getSession({
+    headers: context.request.headers,
+    returnHeaders: true,
+  });
   const refreshedCookies = sessionHeaders?.getSetCookie() ?? [];
   if (session) {
     const { user } = session;
@@ -30,9 +33,15 @@ export const onRequest = defineMiddleware(async (context, next) => {
     let active = usable.find((m) => m.trustId === activeId);
     // With a single usable trust, people land in it without choosing.
     if (!active && usable.length === 1) active = usable[0];
-    if ((active?.trustId ?? null) !== activeId) await setSessionTrust(getDb(), session.session.id, active?.trustId ?? null);
+    if ((active?.trustId ?? null) !== activeId)
+      await setSessionTrust(getDb(), session.session.id, active?.trustId ?? null);
     if (active) {
-      context.locals.trust = { id: active.trustId, name: active.trustName, role: active.role, schoolIds: active.schoolIds };
+      context.locals.trust = {
+        id: active.trustId,
+        name: active.trustName,
+        role: active.role,
+        schoolIds: active.schoolIds,
+      };
     }
   }
 

@@ -4,14 +4,51 @@ import { sql, type Kysely } from 'kysely';
 // Lists of codes are copied here on purpose: a migration must never import app code.
 
 const PHASES = ['nursery', 'primary', 'secondary', 'all_through', 'special', 'further_education'];
-const ROOM_USES = ['classroom', 'science_lab', 'practical', 'ict_room', 'music_room', 'hall', 'sports_hall', 'library', 'office', 'staff_room', 'other'];
+const ROOM_USES = [
+  'classroom',
+  'science_lab',
+  'practical',
+  'ict_room',
+  'music_room',
+  'hall',
+  'sports_hall',
+  'library',
+  'office',
+  'staff_room',
+  'other',
+];
 const AGE_GROUPS = ['early_years', 'primary', 'secondary', 'sixth_form', 'adult'];
 const WINDOW_TYPES = ['side_hung', 'top_hung', 'bottom_hung', 'sliding_sash', 'tilt_and_turn', 'pivot', 'fixed'];
-const VENTILATION_TYPES = ['natural_single_sided', 'natural_cross', 'mechanical_extract', 'mechanical_supply_extract', 'heat_recovery_unit', 'hybrid'];
+const VENTILATION_TYPES = [
+  'natural_single_sided',
+  'natural_cross',
+  'mechanical_extract',
+  'mechanical_supply_extract',
+  'heat_recovery_unit',
+  'hybrid',
+];
 const FUELS = ['gas', 'oil', 'lpg', 'electric', 'heat_pump', 'biomass', 'district_heat'];
-const CONSTRUCTION = ['solid_masonry', 'cavity_masonry', 'system_built', 'timber_frame', 'steel_frame', 'concrete_frame', 'modular'];
+const CONSTRUCTION = [
+  'solid_masonry',
+  'cavity_masonry',
+  'system_built',
+  'timber_frame',
+  'steel_frame',
+  'concrete_frame',
+  'modular',
+];
 const HEATING_TYPES = ['wet_radiators', 'underfloor', 'warm_air', 'electric_panels', 'heat_pump_wet', 'none'];
-const REGIONS = ['london_south_east', 'south_west', 'east_anglia', 'midlands', 'north_west', 'north_east', 'wales', 'scotland', 'northern_ireland'];
+const REGIONS = [
+  'london_south_east',
+  'south_west',
+  'east_anglia',
+  'midlands',
+  'north_west',
+  'north_east',
+  'wales',
+  'scotland',
+  'northern_ireland',
+];
 
 const inList = (column: string, values: string[]) =>
   sql.raw(`${column} IN (${values.map((v) => `'${v}'`).join(', ')})`);
@@ -48,8 +85,14 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('schools_phase_known', inList('phase', PHASES))
     .addCheckConstraint('schools_region_known', inList('climate_region', REGIONS))
     .addCheckConstraint('schools_fuel_known', inList('heating_fuel', FUELS))
-    .addCheckConstraint('schools_fuel_price_range', sql`fuel_price_gbp_per_kwh IS NULL OR (fuel_price_gbp_per_kwh > 0 AND fuel_price_gbp_per_kwh < 5)`)
-    .addCheckConstraint('schools_boiler_efficiency_range', sql`boiler_efficiency IS NULL OR (boiler_efficiency > 0 AND boiler_efficiency <= 1)`)
+    .addCheckConstraint(
+      'schools_fuel_price_range',
+      sql`fuel_price_gbp_per_kwh IS NULL OR (fuel_price_gbp_per_kwh > 0 AND fuel_price_gbp_per_kwh < 5)`,
+    )
+    .addCheckConstraint(
+      'schools_boiler_efficiency_range',
+      sql`boiler_efficiency IS NULL OR (boiler_efficiency > 0 AND boiler_efficiency <= 1)`,
+    )
     .addUniqueConstraint('schools_name_unique_in_trust', ['trust_id', 'name'])
     .addUniqueConstraint('schools_reference_unique_in_trust', ['trust_id', 'reference_number'])
     .execute();
@@ -69,11 +112,23 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addCheckConstraint('blocks_name_present', sql`length(trim(name)) > 0`)
     .addCheckConstraint('blocks_year_built_range', sql`year_built IS NULL OR year_built BETWEEN 1700 AND 2100`)
-    .addCheckConstraint('blocks_construction_known', sql`construction_type IS NULL OR ${inList('construction_type', CONSTRUCTION)}`)
-    .addCheckConstraint('blocks_air_permeability_range', sql`air_permeability_m3h_m2 IS NULL OR (air_permeability_m3h_m2 > 0 AND air_permeability_m3h_m2 <= 100)`)
-    .addCheckConstraint('blocks_heating_type_known', sql`heating_type IS NULL OR ${inList('heating_type', HEATING_TYPES)}`)
+    .addCheckConstraint(
+      'blocks_construction_known',
+      sql`construction_type IS NULL OR ${inList('construction_type', CONSTRUCTION)}`,
+    )
+    .addCheckConstraint(
+      'blocks_air_permeability_range',
+      sql`air_permeability_m3h_m2 IS NULL OR (air_permeability_m3h_m2 > 0 AND air_permeability_m3h_m2 <= 100)`,
+    )
+    .addCheckConstraint(
+      'blocks_heating_type_known',
+      sql`heating_type IS NULL OR ${inList('heating_type', HEATING_TYPES)}`,
+    )
     .addCheckConstraint('blocks_heating_fuel_known', sql`heating_fuel IS NULL OR ${inList('heating_fuel', FUELS)}`)
-    .addCheckConstraint('blocks_heating_installed_range', sql`heating_installed_year IS NULL OR heating_installed_year BETWEEN 1900 AND 2100`)
+    .addCheckConstraint(
+      'blocks_heating_installed_range',
+      sql`heating_installed_year IS NULL OR heating_installed_year BETWEEN 1900 AND 2100`,
+    )
     .addUniqueConstraint('blocks_name_unique_in_school', ['school_id', 'name'])
     .addUniqueConstraint('blocks_id_school', ['id', 'school_id'])
     .execute();
@@ -114,9 +169,18 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('rooms_occupancy_not_negative', sql`pupils >= 0 AND adults >= 0`)
     .addCheckConstraint('rooms_orientation_range', sql`orientation_deg IS NULL OR orientation_deg BETWEEN 0 AND 359`)
     .addCheckConstraint('rooms_glazing_not_negative', sql`glazing_area_m2 >= 0`)
-    .addCheckConstraint('rooms_openable_within_glazing', sql`openable_area_m2 >= 0 AND openable_area_m2 <= glazing_area_m2`)
-    .addCheckConstraint('rooms_g_value_range', sql`glazing_g_value IS NULL OR (glazing_g_value > 0 AND glazing_g_value <= 1)`)
-    .addCheckConstraint('rooms_mechanical_supply_not_negative', sql`mechanical_supply_lps IS NULL OR mechanical_supply_lps >= 0`)
+    .addCheckConstraint(
+      'rooms_openable_within_glazing',
+      sql`openable_area_m2 >= 0 AND openable_area_m2 <= glazing_area_m2`,
+    )
+    .addCheckConstraint(
+      'rooms_g_value_range',
+      sql`glazing_g_value IS NULL OR (glazing_g_value > 0 AND glazing_g_value <= 1)`,
+    )
+    .addCheckConstraint(
+      'rooms_mechanical_supply_not_negative',
+      sql`mechanical_supply_lps IS NULL OR mechanical_supply_lps >= 0`,
+    )
     .execute();
 
   await db.schema.createIndex('blocks_school_idx').on('blocks').column('school_id').execute();
@@ -137,7 +201,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('after', 'jsonb')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('audit_events_trust_time_idx').on('audit_events').columns(['trust_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('audit_events_trust_time_idx')
+    .on('audit_events')
+    .columns(['trust_id', 'created_at'])
+    .execute();
 
   for (const table of ['trusts', 'schools', 'blocks', 'rooms']) {
     await sql`CREATE TRIGGER ${sql.raw(`${table}_set_updated_at`)} BEFORE UPDATE ON ${sql.table(table)}

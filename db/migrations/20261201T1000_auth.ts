@@ -33,9 +33,13 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await sql`ALTER TABLE "member" ADD CONSTRAINT member_one_per_trust UNIQUE ("organizationId", "userId")`.execute(db);
   await sql`ALTER TABLE "member" ADD CONSTRAINT member_role_known CHECK (role IN (${roleList}))`.execute(db);
-  await sql`ALTER TABLE "invitation" ADD CONSTRAINT invitation_role_known CHECK (role IS NULL OR role IN (${roleList}))`.execute(db);
+  await sql`ALTER TABLE "invitation" ADD CONSTRAINT invitation_role_known CHECK (role IS NULL OR role IN (${roleList}))`.execute(
+    db,
+  );
   // A session whose trust is deleted simply has no active trust.
-  await sql`ALTER TABLE "session" ADD CONSTRAINT session_active_trust_fk FOREIGN KEY ("activeOrganizationId") REFERENCES trusts (id) ON DELETE SET NULL`.execute(db);
+  await sql`ALTER TABLE "session" ADD CONSTRAINT session_active_trust_fk FOREIGN KEY ("activeOrganizationId") REFERENCES trusts (id) ON DELETE SET NULL`.execute(
+    db,
+  );
 
   // Limits on a membership: the date access ends, and whether it is limited to chosen schools.
   await db.schema

@@ -14,7 +14,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('file_kind', 'text', (c) => c.notNull().check(sql`file_kind IN ('xlsx', 'csv')`))
     .addColumn('file_size_bytes', 'integer', (c) => c.notNull())
     .addColumn('status', 'text', (c) =>
-      c.notNull().defaultTo('previewed').check(sql`status IN ('previewed', 'committed', 'cancelled', 'failed')`))
+      c.notNull().defaultTo('previewed').check(sql`status IN ('previewed', 'committed', 'cancelled', 'failed')`),
+    )
     .addColumn('header', 'jsonb')
     .addColumn('summary', 'jsonb', (c) => c.notNull())
     .addColumn('problems', 'jsonb', (c) => c.notNull().defaultTo(sql`'[]'::jsonb`))
@@ -28,7 +29,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('register_imports_trust_created_idx').on('register_imports').columns(['trust_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('register_imports_trust_created_idx')
+    .on('register_imports')
+    .columns(['trust_id', 'created_at'])
+    .execute();
   await sql`CREATE TRIGGER register_imports_set_updated_at BEFORE UPDATE ON register_imports
     FOR EACH ROW EXECUTE FUNCTION set_updated_at()`.execute(db);
 

@@ -11,7 +11,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('trust_id', 'text', (c) => c.notNull().references('trusts.id').onDelete('cascade'))
     .addColumn('scope', 'text', (c) => c.notNull().check(sql`scope IN ('trust', 'school')`))
     .addColumn('school_id', 'uuid', (c) => c.references('schools.id').onDelete('cascade'))
-    .addColumn('status', 'text', (c) => c.notNull().defaultTo('queued').check(sql`status IN ('queued', 'running', 'succeeded', 'failed')`))
+    .addColumn('status', 'text', (c) =>
+      c.notNull().defaultTo('queued').check(sql`status IN ('queued', 'running', 'succeeded', 'failed')`),
+    )
     .addColumn('rooms_done', 'integer', (c) => c.notNull().defaultTo(0))
     .addColumn('rooms_total', 'integer', (c) => c.notNull().defaultTo(0))
     .addColumn('assumption_set_id', 'text')
@@ -24,7 +26,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('finished_at', 'timestamptz')
     .addCheckConstraint('assessment_runs_school_scope', sql`(scope = 'school') = (school_id IS NOT NULL)`)
     .execute();
-  await db.schema.createIndex('assessment_runs_trust_created_idx').on('assessment_runs').columns(['trust_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('assessment_runs_trust_created_idx')
+    .on('assessment_runs')
+    .columns(['trust_id', 'created_at'])
+    .execute();
 
   await db.schema
     .createTable('room_results')
@@ -64,8 +70,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addPrimaryKeyConstraint('room_results_pk', ['run_id', 'room_id'])
     .execute();
   await sql`CREATE INDEX room_results_current_rank_idx ON room_results (trust_id, rank) WHERE is_current`.execute(db);
-  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id, rank) WHERE is_current`.execute(db);
-  await sql`CREATE INDEX room_results_current_payback_idx ON room_results (trust_id, simple_payback_years) WHERE is_current`.execute(db);
+  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id, rank) WHERE is_current`.execute(
+    db,
+  );
+  await sql`CREATE INDEX room_results_current_payback_idx ON room_results (trust_id, simple_payback_years) WHERE is_current`.execute(
+    db,
+  );
   await sql`CREATE INDEX room_results_room_idx ON room_results (room_id) WHERE is_current`.execute(db);
 }
 

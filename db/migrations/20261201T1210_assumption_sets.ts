@@ -34,7 +34,9 @@ export async function up(db: Kysely<any>): Promise<void> {
             EXCEPTION WHEN feature_not_supported OR invalid_parameter_value THEN NULL; END $$`.execute(db);
   // Deleting a room cascades to its results of every run; without this the cascade scans room_results.
   await sql`CREATE INDEX room_results_room_all_idx ON room_results (room_id)`.execute(db);
-  await sql`CREATE INDEX assessment_runs_active_idx ON assessment_runs (trust_id) WHERE status IN ('queued', 'running')`.execute(db);
+  await sql`CREATE INDEX assessment_runs_active_idx ON assessment_runs (trust_id) WHERE status IN ('queued', 'running')`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
@@ -42,6 +44,12 @@ export async function down(db: Kysely<any>): Promise<void> {
   await sql`DROP INDEX IF EXISTS room_results_room_all_idx`.execute(db);
   await sql`ALTER TABLE room_results ALTER COLUMN detail SET COMPRESSION default`.execute(db);
   await sql`ALTER TABLE room_results RESET (toast_tuple_target)`.execute(db);
-  await db.schema.alterTable('assessment_runs').dropColumn('job_id').dropColumn('resume_after_room_id').dropColumn('problems').dropColumn('updated_at').execute();
+  await db.schema
+    .alterTable('assessment_runs')
+    .dropColumn('job_id')
+    .dropColumn('resume_after_room_id')
+    .dropColumn('problems')
+    .dropColumn('updated_at')
+    .execute();
   await db.schema.dropTable('assumption_sets').execute();
 }

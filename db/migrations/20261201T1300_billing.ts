@@ -20,7 +20,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addCheckConstraint('billing_accounts_plan_known', sql`plan IN ('free', 'per_school')`)
-    .addCheckConstraint('billing_accounts_interval_known', sql`billing_interval IS NULL OR billing_interval IN ('month', 'year')`)
+    .addCheckConstraint(
+      'billing_accounts_interval_known',
+      sql`billing_interval IS NULL OR billing_interval IN ('month', 'year')`,
+    )
     .addCheckConstraint('billing_accounts_quantity_not_negative', sql`quantity >= 0`)
     .execute();
   await sql`CREATE TRIGGER billing_accounts_updated_at BEFORE UPDATE ON billing_accounts
@@ -36,7 +39,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('received_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('payload', 'jsonb', (c) => c.notNull())
     .execute();
-  await db.schema.createIndex('payment_events_trust_idx').on('payment_events').columns(['trust_id', 'received_at']).execute();
+  await db.schema
+    .createIndex('payment_events_trust_idx')
+    .on('payment_events')
+    .columns(['trust_id', 'received_at'])
+    .execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

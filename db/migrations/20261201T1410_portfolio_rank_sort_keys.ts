@@ -27,8 +27,11 @@ export async function up(db: Kysely<any>): Promise<void> {
   // Ranks are derived data: clear them so the next read rebuilds them with the new columns filled.
   await sql`DELETE FROM portfolio_ranks`.execute(db);
   await sql`UPDATE portfolio_settings SET ranked_weights = NULL, ranked_stamp = NULL`.execute(db);
-  for (const [name, type] of COLUMNS) await db.schema.alterTable('portfolio_ranks').addColumn(name, sql.raw(type)).execute();
-  await sql`CREATE INDEX portfolio_ranks_payback_idx ON portfolio_ranks (trust_id, simple_payback_years, rank)`.execute(db);
+  for (const [name, type] of COLUMNS)
+    await db.schema.alterTable('portfolio_ranks').addColumn(name, sql.raw(type)).execute();
+  await sql`CREATE INDEX portfolio_ranks_payback_idx ON portfolio_ranks (trust_id, simple_payback_years, rank)`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -35,8 +35,8 @@ export async function seedDemoBilling(db: Kysely<Database>): Promise<string> {
     metadata: { trust_id: DEMO_TRUST.id },
   });
   const state = await readSubscription(stripe, subscription.id);
-  await db.transaction().execute((trx) =>
-    applySubscriptionState(trx, state, { actorUserId: null, actorEmail: null }, 'demo data'),
-  );
+  await db
+    .transaction()
+    .execute((trx) => applySubscriptionState(trx, state, { actorUserId: null, actorEmail: null }, 'demo data'));
   return `created ${subscription.id} for ${billableSchools(schools)} schools`;
 }

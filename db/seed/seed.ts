@@ -69,7 +69,13 @@ export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
     }
     await trx
       .insertInto('audit_events')
-      .values({ trust_id: DEMO_TRUST.id, action: 'seed', entity_type: 'trust', entity_id: DEMO_TRUST.id, summary: 'Demo estate created' })
+      .values({
+        trust_id: DEMO_TRUST.id,
+        action: 'seed',
+        entity_type: 'trust',
+        entity_id: DEMO_TRUST.id,
+        summary: 'Demo estate created',
+      })
       .execute();
   });
   return true;

@@ -20,25 +20,45 @@ const CHUNK = 2000;
 const TRUST_ID = `bench-trust-${Date.now()}`;
 const log = (message: string) => console.error(`[batch.bench] ${message}`);
 
-
 async function generateEstate(): Promise<void> {
   const db = getDb();
   const random = prng(20261201);
   const between = (lo: number, hi: number) => lo + (hi - lo) * random();
   const pick = <T>(items: readonly T[]) => items[Math.floor(random() * items.length)]!;
   await db.insertInto('trusts').values({ id: TRUST_ID, name: 'Bench Trust', slug: TRUST_ID }).execute();
-  const regions = ['london_south_east', 'south_west', 'east_anglia', 'midlands', 'north_west', 'north_east', 'wales', 'scotland', 'northern_ireland'] as const;
+  const regions = [
+    'london_south_east',
+    'south_west',
+    'east_anglia',
+    'midlands',
+    'north_west',
+    'north_east',
+    'wales',
+    'scotland',
+    'northern_ireland',
+  ] as const;
   const blocks: { id: string; schoolId: string }[] = [];
   for (let s = 0; s < SCHOOLS; s += 1) {
     const school = await db
       .insertInto('schools')
-      .values({ trust_id: TRUST_ID, name: `Bench School ${s + 1}`, phase: s % 3 === 0 ? 'primary' : 'secondary', climate_region: regions[s % regions.length]!, heating_fuel: 'gas' })
+      .values({
+        trust_id: TRUST_ID,
+        name: `Bench School ${s + 1}`,
+        phase: s % 3 === 0 ? 'primary' : 'secondary',
+        climate_region: regions[s % regions.length]!,
+        heating_fuel: 'gas',
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     for (let b = 0; b < 2; b += 1) {
       const block = await db
         .insertInto('blocks')
-        .values({ school_id: school.id, name: `Block ${b + 1}`, year_built: Math.round(between(1950, 2020)), construction_type: pick(['cavity_masonry', 'system_built', 'solid_masonry']) })
+        .values({
+          school_id: school.id,
+          name: `Block ${b + 1}`,
+          year_built: Math.round(between(1950, 2020)),
+          construction_type: pick(['cavity_masonry', 'system_built', 'solid_masonry']),
+        })
         .returning('id')
         .executeTakeFirstOrThrow();
       blocks.push({ id: block.id, schoolId: school.id });
@@ -50,11 +70,30 @@ async function generateEstate(): Promise<void> {
     const floor = Number(between(45, 70).toFixed(1));
     const glazing = Number((floor * between(0.15, 0.3)).toFixed(1));
     const openable = Number(Math.min(glazing, floor * between(0.01, 0.06)).toFixed(2));
-    const vent = pick(['natural_single_sided', 'natural_single_sided', 'natural_cross', 'mechanical_supply_extract'] as const);
+    const vent = pick([
+      'natural_single_sided',
+      'natural_single_sided',
+      'natural_cross',
+      'mechanical_supply_extract',
+    ] as const);
     lines.push(
       [
-        block.schoolId, block.id, `R${String(i).padStart(6, '0')}`, `Room ${i}`, 'classroom', floor, Number(between(2.4, 3.2).toFixed(2)),
-        Math.round(between(20, 32)), 1, 'secondary', pick([0, 90, 180, 270]), glazing, openable, 'side_hung', '\\N', vent,
+        block.schoolId,
+        block.id,
+        `R${String(i).padStart(6, '0')}`,
+        `Room ${i}`,
+        'classroom',
+        floor,
+        Number(between(2.4, 3.2).toFixed(2)),
+        Math.round(between(20, 32)),
+        1,
+        'secondary',
+        pick([0, 90, 180, 270]),
+        glazing,
+        openable,
+        'side_hung',
+        '\\N',
+        vent,
         vent === 'mechanical_supply_extract' ? Math.round(between(80, 200)) : '\\N',
       ].join('\t') + '\n',
     );
@@ -92,7 +131,9 @@ async function withPeakRss<T>(work: () => Promise<T>): Promise<{ result: T; peak
 async function ioFloor(templateLine: (roomId: string) => string): Promise<number> {
   const db = getDb();
   await sql`DROP TABLE IF EXISTS bench_results_scratch`.execute(db);
-  await sql`CREATE TABLE bench_results_scratch (LIKE room_results INCLUDING DEFAULTS INCLUDING COMPRESSION) WITH (toast_tuple_target = 256)`.execute(db);
+  await sql`CREATE TABLE bench_results_scratch (LIKE room_results INCLUDING DEFAULTS INCLUDING COMPRESSION) WITH (toast_tuple_target = 256)`.execute(
+    db,
+  );
   const started = performance.now();
   let cursor: string | null = null;
   for (;;) {
@@ -102,7 +143,13 @@ async function ioFloor(templateLine: (roomId: string) => string): Promise<number
     const client = await getPool().connect();
     try {
       await client.query('BEGIN');
-      await copyLines(client, copyResultsSql('bench_results_scratch'), (function* () { for (const r of rooms) yield templateLine(r.roomId); })());
+      await copyLines(
+        client,
+        copyResultsSql('bench_results_scratch'),
+        (function* () {
+          for (const r of rooms) yield templateLine(r.roomId);
+        })(),
+      );
       await client.query('COMMIT');
     } finally {
       client.release();
@@ -117,18 +164,31 @@ async function fullBatch(): Promise<number> {
   const db = getDb();
   const assumptions = await getCurrentAssumptionSet(db, TRUST_ID);
   const runId = await insertRun(db, {
-    trustId: TRUST_ID, schoolId: null, roomsTotal: await countRoomsInScope(db, { trustId: TRUST_ID, schoolId: null }),
-    assumptionSetId: assumptions.id, assumptionsVersion: assumptions.label, startedByUserId: null, startedByEmail: 'bench',
+    trustId: TRUST_ID,
+    schoolId: null,
+    roomsTotal: await countRoomsInScope(db, { trustId: TRUST_ID, schoolId: null }),
+    assumptionSetId: assumptions.id,
+    assumptionsVersion: assumptions.label,
+    startedByUserId: null,
+    startedByEmail: 'bench',
   });
   const started = performance.now();
   let lastChunkAt = started;
   await executeRun(runId, { chunkSize: CHUNK, afterChunk: () => void (lastChunkAt = performance.now()) });
   const seconds = (performance.now() - started) / 1000;
-  log(`chunks written in ${((lastChunkAt - started) / 1000).toFixed(2)} s, flip (rank + make current) ${((performance.now() - lastChunkAt) / 1000).toFixed(2)} s`);
+  log(
+    `chunks written in ${((lastChunkAt - started) / 1000).toFixed(2)} s, flip (rank + make current) ${((performance.now() - lastChunkAt) / 1000).toFixed(2)} s`,
+  );
   const run = await getRun(db, runId, TRUST_ID);
   if (run?.status !== 'succeeded') throw new Error(`bench run ended ${run?.status}: ${run?.error}`);
-  const current = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', TRUST_ID).where('is_current', '=', true).executeTakeFirstOrThrow();
-  if (current.n + run.problems.length !== ROOMS) throw new Error(`expected ${ROOMS} current results, found ${current.n}`);
+  const current = await db
+    .selectFrom('room_results')
+    .select(sql<number>`count(*)::int`.as('n'))
+    .where('trust_id', '=', TRUST_ID)
+    .where('is_current', '=', true)
+    .executeTakeFirstOrThrow();
+  if (current.n + run.problems.length !== ROOMS)
+    throw new Error(`expected ${ROOMS} current results, found ${current.n}`);
   await checkRanksMatchEngine();
   return seconds;
 }
@@ -136,24 +196,48 @@ async function fullBatch(): Promise<number> {
 /** The stored ranks and component scores (computed in SQL at the flip) must equal the engine's rankRooms over the same rows. */
 async function checkRanksMatchEngine(): Promise<void> {
   const { rows } = await sql<{
-    run_id: string; room_id: string; pupils: number; risk_score: number; pupil_hours_above: number; criteria_met: boolean;
-    pupil_hours_removed_per_1000_gbp: number | null; simple_payback_years: number | null; capital_cost_gbp: number | null;
-    rank: number; score_risk: number; score_cost_effectiveness: number; score_payback: number;
+    run_id: string;
+    room_id: string;
+    pupils: number;
+    risk_score: number;
+    pupil_hours_above: number;
+    criteria_met: boolean;
+    pupil_hours_removed_per_1000_gbp: number | null;
+    simple_payback_years: number | null;
+    capital_cost_gbp: number | null;
+    rank: number;
+    score_risk: number;
+    score_cost_effectiveness: number;
+    score_payback: number;
   }>`SELECT run_id, room_id, pupils, risk_score, pupil_hours_above, criteria_met, pupil_hours_removed_per_1000_gbp,
        simple_payback_years, capital_cost_gbp, rank, score_risk, score_cost_effectiveness, score_payback
      FROM room_results WHERE trust_id = ${TRUST_ID} AND is_current`.execute(getDb());
   const stored = new Map(rows.map((r) => [`${r.run_id}:${r.room_id}`, r]));
   const ranked = rankRooms(
     rows.map((r) => ({
-      roomId: `${r.run_id}:${r.room_id}`, roomCode: r.room_id, pupils: r.pupils, riskScore: r.risk_score, riskBand: 'fresh' as const,
-      pupilHoursPerYearAbove: r.pupil_hours_above, thresholdPpm: 0, criteriaMet: r.criteria_met, hasRetrofit: r.capital_cost_gbp !== null,
-      pupilHoursRemovedPer1000Gbp: r.pupil_hours_removed_per_1000_gbp, simplePaybackYears: r.simple_payback_years, capitalCostGbp: r.capital_cost_gbp,
+      roomId: `${r.run_id}:${r.room_id}`,
+      roomCode: r.room_id,
+      pupils: r.pupils,
+      riskScore: r.risk_score,
+      riskBand: 'fresh' as const,
+      pupilHoursPerYearAbove: r.pupil_hours_above,
+      thresholdPpm: 0,
+      criteriaMet: r.criteria_met,
+      hasRetrofit: r.capital_cost_gbp !== null,
+      pupilHoursRemovedPer1000Gbp: r.pupil_hours_removed_per_1000_gbp,
+      simplePaybackYears: r.simple_payback_years,
+      capitalCostGbp: r.capital_cost_gbp,
     })),
     DEFAULT_RANK_WEIGHTS,
   );
   for (const e of ranked) {
     const s = stored.get(e.roomId)!;
-    if (s.rank !== e.rank || s.score_risk !== e.parts.risk || s.score_cost_effectiveness !== e.parts.costEffectiveness || s.score_payback !== e.parts.payback) {
+    if (
+      s.rank !== e.rank ||
+      s.score_risk !== e.parts.risk ||
+      s.score_cost_effectiveness !== e.parts.costEffectiveness ||
+      s.score_payback !== e.parts.payback
+    ) {
       throw new Error(`stored rank of ${e.roomId} (${s.rank}) differs from the engine's (${e.rank})`);
     }
   }
@@ -166,7 +250,11 @@ async function main(): Promise<void> {
   const db = getDb();
   const assumptions = await getCurrentAssumptionSet(db, TRUST_ID);
   const [sample] = await readRoomChunk(db, { trustId: TRUST_ID, schoolId: null }, null, 1);
-  const template = toResultRow('00000000-0000-0000-0000-000000000000', sample!, assessRoom(sample!.input, assumptions.set, { withCurve: false }));
+  const template = toResultRow(
+    '00000000-0000-0000-0000-000000000000',
+    sample!,
+    assessRoom(sample!.input, assumptions.set, { withCurve: false }),
+  );
   const templateLine = (roomId: string) => toCopyLine({ ...template, roomId });
 
   log('I/O floor (read rooms + COPY result rows)');

@@ -18,7 +18,6 @@ import { prng } from '../../db/seed/prng';
 const ROOMS = 20_000;
 const ROUNDS = 10;
 
-
 function pick<T>(rand: () => number, list: readonly T[]): T {
   return list[Math.floor(rand() * list.length)] as T;
 }
@@ -29,7 +28,8 @@ function buildRooms(n: number): RoomAssessmentInput[] {
   for (let i = 0; i < n; i++) {
     const floor = 30 + rand() * 90;
     const glazing = floor * (0.05 + rand() * 0.35);
-    const ventilation = rand() < 0.75 ? pick(rand, ['natural_single_sided', 'natural_cross'] as const) : pick(rand, VENTILATION_TYPES);
+    const ventilation =
+      rand() < 0.75 ? pick(rand, ['natural_single_sided', 'natural_cross'] as const) : pick(rand, VENTILATION_TYPES);
     rooms.push({
       room: {
         code: `R${i}`,
@@ -70,7 +70,8 @@ function buildRooms(n: number): RoomAssessmentInput[] {
 const rooms = buildRooms(ROOMS);
 let sink = 0;
 // Warm-up so the JIT has compiled the hot path before timing.
-for (let i = 0; i < 2000; i++) sink += assessRoom(rooms[i] as RoomAssessmentInput, DEFAULT_ASSUMPTIONS, { withCurve: false }).risk.score;
+for (let i = 0; i < 2000; i++)
+  sink += assessRoom(rooms[i] as RoomAssessmentInput, DEFAULT_ASSUMPTIONS, { withCurve: false }).risk.score;
 
 // Best of several rounds: on a shared machine the fastest round is the one least disturbed by other work.
 const rates: number[] = [];
@@ -86,5 +87,7 @@ for (let round = 0; round < ROUNDS; round++) {
 }
 if (!Number.isFinite(sink)) throw new Error('non-finite result');
 const best = Math.max(...rates);
-process.stderr.write(`engine: wall-clock rounds ${rates.map(Math.round).join(', ')} rooms/s; per CPU-second ${cpuRates.map(Math.round).join(', ')}\n`);
+process.stderr.write(
+  `engine: wall-clock rounds ${rates.map(Math.round).join(', ')} rooms/s; per CPU-second ${cpuRates.map(Math.round).join(', ')}\n`,
+);
 process.stdout.write(`${JSON.stringify({ engine_rooms_per_s: Math.round(best) })}\n`);

@@ -22,7 +22,6 @@ const DIR = join(process.cwd(), '.data', 'bench-import');
 const FILE = join(DIR, 'register-100k.xlsx');
 const log = (message: string) => console.error(`[import.bench] ${message}`);
 
-
 async function writeRegister(): Promise<void> {
   mkdirSync(DIR, { recursive: true });
   const random = prng(20261201);
@@ -32,7 +31,14 @@ async function writeRegister(): Promise<void> {
   const ws = wb.addWorksheet('Rooms');
   ws.addRow(REGISTER_COLUMNS.map((c) => c.header)).commit();
   const uses = ['classroom', 'classroom', 'classroom', 'science_lab', 'ict_room', 'hall', 'library', 'office'];
-  const vents = ['natural_single_sided', 'natural_single_sided', 'natural_cross', 'mechanical_extract', 'heat_recovery_unit', 'hybrid'];
+  const vents = [
+    'natural_single_sided',
+    'natural_single_sided',
+    'natural_cross',
+    'mechanical_extract',
+    'heat_recovery_unit',
+    'hybrid',
+  ];
   const compass = ['N', 'NE', 'E', 'SE', 'S', 'SW', 'W', 'NW'];
   const perSchool = Math.ceil(ROOMS / SCHOOLS);
   for (let i = 0; i < ROOMS; i++) {
@@ -41,11 +47,26 @@ async function writeRegister(): Promise<void> {
     const floor = round(40 + random() * 40, 1);
     const glazing = round(floor * (0.1 + random() * 0.1), 2);
     ws.addRow([
-      `Bench School ${String(s + 1).padStart(3, '0')}`, s % 2 ? 'Secondary' : 'Primary', `Block ${String.fromCharCode(65 + b)}`, 1900 + (s * 7 + b * 13) % 120,
-      `R${String(i + 1).padStart(6, '0')}`, `Room ${i + 1}`, label(pick(uses)), floor, round(2.4 + random() * 1.2, 2), Math.floor(20 + random() * 12), 1 + Math.floor(random() * 2),
-      s % 2 ? 'Secondary' : 'Primary', random() < 0.5 ? pick(compass) : Math.floor(random() * 360), glazing, round(glazing * (0.1 + random() * 0.3), 2),
-      label(pick(['side_hung', 'top_hung', 'sliding_sash', 'tilt_and_turn'])), label(pick(vents)), random() < 0.2 ? Math.round(100 + random() * 300) : null,
-      round(3 + (s % 10) + b, 1), random() < 0.1 ? 'Surveyed 2026' : null,
+      `Bench School ${String(s + 1).padStart(3, '0')}`,
+      s % 2 ? 'Secondary' : 'Primary',
+      `Block ${String.fromCharCode(65 + b)}`,
+      1900 + ((s * 7 + b * 13) % 120),
+      `R${String(i + 1).padStart(6, '0')}`,
+      `Room ${i + 1}`,
+      label(pick(uses)),
+      floor,
+      round(2.4 + random() * 1.2, 2),
+      Math.floor(20 + random() * 12),
+      1 + Math.floor(random() * 2),
+      s % 2 ? 'Secondary' : 'Primary',
+      random() < 0.5 ? pick(compass) : Math.floor(random() * 360),
+      glazing,
+      round(glazing * (0.1 + random() * 0.3), 2),
+      label(pick(['side_hung', 'top_hung', 'sliding_sash', 'tilt_and_turn'])),
+      label(pick(vents)),
+      random() < 0.2 ? Math.round(100 + random() * 300) : null,
+      round(3 + (s % 10) + b, 1),
+      random() < 0.1 ? 'Surveyed 2026' : null,
     ]).commit();
   }
   ws.commit();
@@ -55,7 +76,11 @@ async function writeRegister(): Promise<void> {
 /** (a) The floor: exceljs's streaming reader over the same bytes, with the same options, doing nothing with the rows. */
 async function rawRead(bytes: Buffer): Promise<number> {
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
-    sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'emit',
+    sharedStrings: 'cache',
+    styles: 'cache',
+    hyperlinks: 'ignore',
+    worksheets: 'emit',
+    entries: 'emit',
   });
   let rows = 0;
   for await (const worksheet of reader) for await (const _row of worksheet as unknown as AsyncIterable<unknown>) rows++;
@@ -71,19 +96,24 @@ async function rawRead(bytes: Buffer): Promise<number> {
  */
 async function databaseWriteFloor(): Promise<number> {
   let seconds = 0;
-  await db.transaction().execute(async (trx) => {
-    await sql`CREATE TEMP TABLE floor_rooms ON COMMIT DROP AS
+  await db
+    .transaction()
+    .execute(async (trx) => {
+      await sql`CREATE TEMP TABLE floor_rooms ON COMMIT DROP AS
       SELECT r.* FROM rooms r JOIN schools s ON s.id = r.school_id WHERE s.trust_id = ${TRUST_ID}`.execute(trx);
-    await sql`UPDATE floor_rooms SET id = gen_random_uuid(), code = code || '-floor'`.execute(trx);
-    const t0 = performance.now();
-    await sql`INSERT INTO rooms SELECT * FROM floor_rooms`.execute(trx);
-    await sql`INSERT INTO audit_events (trust_id, actor_email, action, entity_type, entity_id, summary, after)
-      SELECT ${TRUST_ID}, 'bench@bench.airtally.test', 'room.created', 'room', id::text, 'Created room ' || code, to_jsonb(floor_rooms) FROM floor_rooms`.execute(trx);
-    seconds = (performance.now() - t0) / 1000;
-    throw new Rollback();
-  }).catch((error) => {
-    if (!(error instanceof Rollback)) throw error;
-  });
+      await sql`UPDATE floor_rooms SET id = gen_random_uuid(), code = code || '-floor'`.execute(trx);
+      const t0 = performance.now();
+      await sql`INSERT INTO rooms SELECT * FROM floor_rooms`.execute(trx);
+      await sql`INSERT INTO audit_events (trust_id, actor_email, action, entity_type, entity_id, summary, after)
+      SELECT ${TRUST_ID}, 'bench@bench.airtally.test', 'room.created', 'room', id::text, 'Created room ' || code, to_jsonb(floor_rooms) FROM floor_rooms`.execute(
+        trx,
+      );
+      seconds = (performance.now() - t0) / 1000;
+      throw new Rollback();
+    })
+    .catch((error) => {
+      if (!(error instanceof Rollback)) throw error;
+    });
   return seconds;
 }
 class Rollback extends Error {}
@@ -98,7 +128,9 @@ try {
 
   await db.insertInto('trusts').values({ id: TRUST_ID, name: 'Import Bench Trust', slug: TRUST_ID }).execute();
   // The bench trust is on the paid plan, so plan limits do not stop a 100,000-room import.
-  await sql`INSERT INTO billing_accounts (trust_id, plan, status) VALUES (${TRUST_ID}, 'per_school', 'active')`.execute(db);
+  await sql`INSERT INTO billing_accounts (trust_id, plan, status) VALUES (${TRUST_ID}, 'per_school', 'active')`.execute(
+    db,
+  );
   const trust = { id: TRUST_ID, name: 'Import Bench Trust', role: 'trust_admin' as const, schoolIds: null };
   const actor = { actorUserId: null, actorEmail: 'bench@bench.airtally.test' };
 
@@ -108,31 +140,39 @@ try {
   const t0 = performance.now();
   const rawRows = await rawRead(bytes);
   const rawSeconds = (performance.now() - t0) / 1000;
-  log(`(a) raw stream read: ${rawRows} rows in ${rawSeconds.toFixed(2)} s; peak RSS so far ${Math.round(process.resourceUsage().maxRSS / 1024)} MB`);
+  log(
+    `(a) raw stream read: ${rawRows} rows in ${rawSeconds.toFixed(2)} s; peak RSS so far ${Math.round(process.resourceUsage().maxRSS / 1024)} MB`,
+  );
 
   const t1 = performance.now();
   const preview = await previewImport(db, trust, actor, { fileName: 'register-100k.xlsx', bytes });
   const tPreview = performance.now();
   const outcome = await commitImport(getPool(), trust, actor, preview.id, { rows: 'valid', deleteMissing: false });
   const fullSeconds = (performance.now() - t1) / 1000;
-  log(`(b) full import: preview ${((tPreview - t1) / 1000).toFixed(2)} s, commit ${((performance.now() - tPreview) / 1000).toFixed(2)} s, total ${fullSeconds.toFixed(2)} s`);
+  log(
+    `(b) full import: preview ${((tPreview - t1) / 1000).toFixed(2)} s, commit ${((performance.now() - tPreview) / 1000).toFixed(2)} s, total ${fullSeconds.toFixed(2)} s`,
+  );
   log(`summary ${JSON.stringify(preview.summary)}; outcome ${JSON.stringify(outcome)}`);
   if (outcome.roomsCreated !== ROOMS) throw new Error(`expected ${ROOMS} rooms created, got ${outcome.roomsCreated}`);
 
   const peakRssMb = process.resourceUsage().maxRSS / 1024;
   const dbFloorSeconds = await databaseWriteFloor();
-  log(`database write floor (rooms and their audit events, set-based from a temporary table): ${dbFloorSeconds.toFixed(2)} s`);
+  log(
+    `database write floor (rooms and their audit events, set-based from a temporary table): ${dbFloorSeconds.toFixed(2)} s`,
+  );
   await sql`DELETE FROM trusts WHERE id = ${TRUST_ID}`.execute(db);
   rmSync(FILE, { force: true });
-  console.log(JSON.stringify({
-    import_rows_per_s: Math.round(ROOMS / fullSeconds),
-    import_ratio_vs_raw_read: Math.round((fullSeconds / rawSeconds) * 100) / 100,
-    import_peak_rss_mb: Math.round(peakRssMb),
-    import_raw_read_s: Math.round(rawSeconds * 100) / 100,
-    import_full_s: Math.round(fullSeconds * 100) / 100,
-    import_db_write_floor_s: Math.round(dbFloorSeconds * 100) / 100,
-    import_floor_ratio_vs_raw_read: Math.round(((rawSeconds + dbFloorSeconds) / rawSeconds) * 100) / 100,
-  }));
+  console.log(
+    JSON.stringify({
+      import_rows_per_s: Math.round(ROOMS / fullSeconds),
+      import_ratio_vs_raw_read: Math.round((fullSeconds / rawSeconds) * 100) / 100,
+      import_peak_rss_mb: Math.round(peakRssMb),
+      import_raw_read_s: Math.round(rawSeconds * 100) / 100,
+      import_full_s: Math.round(fullSeconds * 100) / 100,
+      import_db_write_floor_s: Math.round(dbFloorSeconds * 100) / 100,
+      import_floor_ratio_vs_raw_read: Math.round(((rawSeconds + dbFloorSeconds) / rawSeconds) * 100) / 100,
+    }),
+  );
 } finally {
   await db.destroy();
 }

@@ -13,15 +13,29 @@ import { insertAssessedRooms } from '../../tests/integration/portfolio-fixture';
 const APP_URL = (process.env.APP_URL ?? '').replace(/\/$/, '');
 const DIST = process.env.BENCH_DIST_DIR ?? '';
 const DATABASE_URL = process.env.DATABASE_URL ?? '';
-if (!APP_URL || !DIST || !DATABASE_URL) throw new Error('Run through `npm run bench` (APP_URL and BENCH_DIST_DIR are needed).');
+if (!APP_URL || !DIST || !DATABASE_URL)
+  throw new Error('Run through `npm run bench` (APP_URL and BENCH_DIST_DIR are needed).');
 const CLIENT = join(DIST, 'client');
 const log = (message: string) => console.error(`[page-weight.bench] ${message}`);
 
 /** The signed-in pages of the app (others' pages are measured too when they exist). */
-const PAGES = ['/app', '/app/priorities', '/app/finance', '/app/schools', '/app/register', '/app/assessments', '/app/settings', '/app/account'];
+const PAGES = [
+  '/app',
+  '/app/priorities',
+  '/app/finance',
+  '/app/schools',
+  '/app/register',
+  '/app/assessments',
+  '/app/settings',
+  '/app/account',
+];
 
 function cookieFrom(response: Response): string {
-  return response.headers.getSetCookie().map((l) => l.split(';')[0] ?? '').filter((p) => p.includes('=') && !p.endsWith('=')).join('; ');
+  return response.headers
+    .getSetCookie()
+    .map((l) => l.split(';')[0] ?? '')
+    .filter((p) => p.includes('=') && !p.endsWith('='))
+    .join('; ');
 }
 
 /**
@@ -33,13 +47,24 @@ async function signUpWithResults(): Promise<string> {
   const response = await fetch(`${APP_URL}/api/account/sign-up`, {
     method: 'POST',
     headers: { 'content-type': 'application/json', origin: APP_URL },
-    body: JSON.stringify({ name: 'Bench Admin', email, password: 'bench-password-2026', trustName: 'Bench Page Weight Trust' }),
+    body: JSON.stringify({
+      name: 'Bench Admin',
+      email,
+      password: 'bench-password-2026',
+      trustName: 'Bench Page Weight Trust',
+    }),
   });
   if (response.status !== 201) throw new Error(`Bench sign-up failed: ${response.status} ${await response.text()}`);
   const { trust } = (await response.json()) as { trust: { id: string } };
   const db = createDb(DATABASE_URL);
   try {
-    await insertAssessedRooms(db, { trustId: trust.id, createTrust: false, schools: 3, roomsPerSchool: 30, label: 'Page Weight' });
+    await insertAssessedRooms(db, {
+      trustId: trust.id,
+      createTrust: false,
+      schools: 3,
+      roomsPerSchool: 30,
+      label: 'Page Weight',
+    });
   } finally {
     await db.destroy();
   }
@@ -115,11 +140,17 @@ for (const path of PAGES) {
   const bytes = [...files].reduce((s, f) => s + gzBytes(f), 0) + (inline ? gzipSync(inline, { level: 9 }).length : 0);
   const chart = [...files].some((f) => /PortfolioChart/.test(f) || readFileSync(f, 'utf8').includes('ag-charts'));
   perPage[path] = { kb: Math.round((bytes / 1024) * 10) / 10, chart, files: files.size };
-  log(`${path}: ${perPage[path]!.kb} KB gzipped in ${files.size} files${chart ? ' (charts)' : ''}: ${[...files].map((f) => relative(CLIENT, f)).join(', ')}`);
+  log(
+    `${path}: ${perPage[path]!.kb} KB gzipped in ${files.size} files${chart ? ' (charts)' : ''}: ${[...files].map((f) => relative(CLIENT, f)).join(', ')}`,
+  );
 }
 
-const plain = Object.values(perPage).filter((p) => !p.chart).map((p) => p.kb);
-const charted = Object.values(perPage).filter((p) => p.chart).map((p) => p.kb);
+const plain = Object.values(perPage)
+  .filter((p) => !p.chart)
+  .map((p) => p.kb);
+const charted = Object.values(perPage)
+  .filter((p) => p.chart)
+  .map((p) => p.kb);
 console.log(
   JSON.stringify({
     page_js_kb_max: plain.length ? Math.max(...plain) : 0,

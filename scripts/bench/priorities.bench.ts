@@ -20,7 +20,10 @@ interface AutocannonResult {
   requests: { average: number; total: number };
 }
 interface AutocannonInstance extends PromiseLike<AutocannonResult> {
-  on(event: 'response', listener: (client: unknown, statusCode: number, bytes: number, responseTimeMs: number) => void): void;
+  on(
+    event: 'response',
+    listener: (client: unknown, statusCode: number, bytes: number, responseTimeMs: number) => void,
+  ): void;
 }
 const autocannon = createRequire(import.meta.url)('autocannon') as (options: {
   url: string;
@@ -34,7 +37,11 @@ const ROOMS_PER_SCHOOL = 1000;
 const log = (message: string) => console.error(`[priorities.bench] ${message}`);
 
 function cookieFrom(response: Response): string {
-  return response.headers.getSetCookie().map((l) => l.split(';')[0] ?? '').filter((p) => p.includes('=') && !p.endsWith('=')).join('; ');
+  return response.headers
+    .getSetCookie()
+    .map((l) => l.split(';')[0] ?? '')
+    .filter((p) => p.includes('=') && !p.endsWith('='))
+    .join('; ');
 }
 
 /** Signs up a bench user, who becomes trust admin of a new, empty trust. */
@@ -43,7 +50,12 @@ async function signUpBenchTrust(): Promise<{ cookie: string; trustId: string }> 
   const response = await fetch(`${APP_URL}/api/account/sign-up`, {
     method: 'POST',
     headers: { 'content-type': 'application/json', origin: APP_URL },
-    body: JSON.stringify({ name: 'Bench Admin', email, password: 'bench-password-2026', trustName: 'Bench Portfolio Trust' }),
+    body: JSON.stringify({
+      name: 'Bench Admin',
+      email,
+      password: 'bench-password-2026',
+      trustName: 'Bench Portfolio Trust',
+    }),
   });
   if (response.status !== 201) throw new Error(`Bench sign-up failed: ${response.status} ${await response.text()}`);
   const body = (await response.json()) as { trust: { id: string } };
@@ -66,7 +78,13 @@ async function load(name: string, path: string, cookie: string) {
   times.sort((a, b) => a - b);
   const bad = result.non2xx + result.errors + result.timeouts;
   if (bad > 0) throw new Error(`${name}: ${bad} failed requests of ${result.requests.total}`);
-  const summary = { name, p50Ms: percentile(times, 50), p95Ms: percentile(times, 95), rps: result.requests.average, requests: result.requests.total };
+  const summary = {
+    name,
+    p50Ms: percentile(times, 50),
+    p95Ms: percentile(times, 95),
+    rps: result.requests.average,
+    requests: result.requests.total,
+  };
   log(JSON.stringify(summary));
   return { summary, times };
 }
@@ -75,7 +93,14 @@ const db = createDb(DATABASE_URL);
 try {
   const { cookie, trustId } = await signUpBenchTrust();
   const started = Date.now();
-  const fixture = await insertAssessedRooms(db, { trustId, createTrust: false, schools: SCHOOLS, roomsPerSchool: ROOMS_PER_SCHOOL, label: 'Bench', seed: 0.17 });
+  const fixture = await insertAssessedRooms(db, {
+    trustId,
+    createTrust: false,
+    schools: SCHOOLS,
+    roomsPerSchool: ROOMS_PER_SCHOOL,
+    label: 'Bench',
+    seed: 0.17,
+  });
   log(`inserted ${SCHOOLS * ROOMS_PER_SCHOOL} assessed rooms in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   // Steady state: statistics and visibility maps up to date, so autovacuum does not run during the load.
   await sql`VACUUM ANALYZE rooms, room_results, schools, blocks`.execute(db);
@@ -91,12 +116,14 @@ try {
     const t = Date.now();
     const response = await fetch(`${APP_URL}${path}`, { headers: { cookie } });
     const body = (await response.json()) as { total?: number };
-    if (response.status !== 200) throw new Error(`${name}: warm-up answered ${response.status} ${JSON.stringify(body)}`);
+    if (response.status !== 200)
+      throw new Error(`${name}: warm-up answered ${response.status} ${JSON.stringify(body)}`);
     log(`warm-up ${name}: ${Date.now() - t} ms, total ${body.total}`);
   }
   await sql`VACUUM ANALYZE portfolio_ranks`.execute(db);
   // A few seconds of unmeasured load so the server's JIT and Postgres's caches are warm for every scenario.
-  for (const [, path] of scenarios) await autocannon({ url: `${APP_URL}${path}`, connections: 20, duration: 2, headers: { cookie } });
+  for (const [, path] of scenarios)
+    await autocannon({ url: `${APP_URL}${path}`, connections: 20, duration: 2, headers: { cookie } });
   const runs = [];
   for (const [name, path] of scenarios) runs.push(await load(name, path, cookie));
   const all = runs.flatMap((r) => r.times).sort((a, b) => a - b);

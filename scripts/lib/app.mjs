@@ -26,14 +26,18 @@ function newestMtime(path) {
 /** Builds the Astro app into `outDir` unless a build newer than every source already exists. */
 export function buildApp(outDir, { force = false } = {}) {
   const stamp = join(outDir, '.build-stamp');
-  const sources = ['src', 'db', 'public', 'astro.config.mjs', 'package-lock.json', 'tsconfig.json'].map((p) => join(ROOT, p));
+  const sources = ['src', 'db', 'public', 'astro.config.mjs', 'package-lock.json', 'tsconfig.json'].map((p) =>
+    join(ROOT, p),
+  );
   const newestSource = Math.max(...sources.map(newestMtime));
   if (!force && existsSync(stamp) && statSync(stamp).mtimeMs >= newestSource) {
     step('App build is up to date');
     return;
   }
   step('Building the app (astro build)');
-  run(join(ROOT, 'node_modules', '.bin', 'astro'), ['build', '--silent'], { env: { ...process.env, AIRTALLY_DIST_DIR: outDir } });
+  run(join(ROOT, 'node_modules', '.bin', 'astro'), ['build', '--silent'], {
+    env: { ...process.env, AIRTALLY_DIST_DIR: outDir },
+  });
   writeFileSync(stamp, new Date().toISOString());
 }
 
@@ -52,7 +56,19 @@ export async function serveApp(outDir, port, env) {
  * (before the seed, which creates the demo subscription in it), migrations and seed, the mail fake,
  * the build and the server. Returns the environment the app got and the app's child process.
  */
-export async function startStack({ databaseUrl, origin, port, smtpPort, mailWebPort, paymentsPort, dataDir, outDir, payments, extraEnv = {}, seedEnv = {} }) {
+export async function startStack({
+  databaseUrl,
+  origin,
+  port,
+  smtpPort,
+  mailWebPort,
+  paymentsPort,
+  dataDir,
+  outDir,
+  payments,
+  extraEnv = {},
+  seedEnv = {},
+}) {
   const env = {
     ...process.env,
     DATABASE_URL: databaseUrl,

@@ -106,8 +106,16 @@ export async function startPostgres({ dataDir, port, database }) {
     writeFileSync(pwFile, 'airtally\n');
     if (IS_ROOT) execFileSync('chown', ['postgres:postgres', pwFile]);
     const [cmd, args] = asPostgresUser(join(bin, 'initdb'), [
-      '-D', pgData, '-E', 'UTF8', '--locale=C.UTF-8', '-U', 'airtally', `--pwfile=${pwFile}`,
-      '--auth-local=trust', '--auth-host=scram-sha-256',
+      '-D',
+      pgData,
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
+      '-U',
+      'airtally',
+      `--pwfile=${pwFile}`,
+      '--auth-local=trust',
+      '--auth-host=scram-sha-256',
     ]);
     run(cmd, args, { stdio: ['ignore', 'ignore', 'inherit'] });
   }
@@ -119,8 +127,15 @@ export async function startPostgres({ dataDir, port, database }) {
   if (!(await isPortOpen(port))) {
     step(`Starting PostgreSQL on 127.0.0.1:${port}`);
     const [cmd, args] = asPostgresUser(join(bin, 'pg_ctl'), [
-      '-D', pgData, '-l', logFile, '-w', '-t', '60',
-      '-o', `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'}`,
+      '-D',
+      pgData,
+      '-l',
+      logFile,
+      '-w',
+      '-t',
+      '60',
+      '-o',
+      `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'}`,
       'start',
     ]);
     run(cmd, args, { stdio: ['ignore', 'ignore', 'inherit'] });
@@ -150,7 +165,9 @@ export async function startPostgres({ dataDir, port, database }) {
 
 /** Drops and recreates a database so a test run starts from nothing. */
 export function recreateDatabase(pg, database) {
-  run(pg.psql, [pg.adminUrl, '-qc', `DROP DATABASE IF EXISTS "${database}" WITH (FORCE)`], { stdio: ['ignore', 'ignore', 'inherit'] });
+  run(pg.psql, [pg.adminUrl, '-qc', `DROP DATABASE IF EXISTS "${database}" WITH (FORCE)`], {
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
   run(pg.psql, [pg.adminUrl, '-qc', `CREATE DATABASE "${database}"`], { stdio: ['ignore', 'ignore', 'inherit'] });
 }
 
@@ -213,8 +230,22 @@ export async function stopChildren() {
 export function startMailFake({ smtpPort, webPort, dataDir }) {
   const mailDir = join(dataDir, 'mail');
   mkdirSync(mailDir, { recursive: true });
-  return startChild('maildev', join(ROOT, 'node_modules', '.bin', 'maildev'), [
-    '--smtp', String(smtpPort), '--web', String(webPort), '--ip', '127.0.0.1', '--web-ip', '127.0.0.1',
-    '--mail-directory', mailDir, '--silent',
-  ], { quiet: true });
+  return startChild(
+    'maildev',
+    join(ROOT, 'node_modules', '.bin', 'maildev'),
+    [
+      '--smtp',
+      String(smtpPort),
+      '--web',
+      String(webPort),
+      '--ip',
+      '127.0.0.1',
+      '--web-ip',
+      '127.0.0.1',
+      '--mail-directory',
+      mailDir,
+      '--silent',
+    ],
+    { quiet: true },
+  );
 }

@@ -8,11 +8,16 @@ import { newId, now } from './store.mjs';
  * 4000…9995 is declined for insufficient funds; 4000…0341 is accepted but every later charge fails.
  */
 const TEST_CARDS = {
-  '4242424242424242': { brand: 'visa', behaviour: 'ok' },
-  '5555555555554444': { brand: 'mastercard', behaviour: 'ok' },
-  '4000000000000002': { brand: 'visa', behaviour: 'decline', declineCode: 'generic_decline' },
-  '4000000000009995': { brand: 'visa', behaviour: 'decline', declineCode: 'insufficient_funds', message: 'Your card has insufficient funds.' },
-  '4000000000000341': { brand: 'visa', behaviour: 'charge_fails' },
+  4242424242424242: { brand: 'visa', behaviour: 'ok' },
+  5555555555554444: { brand: 'mastercard', behaviour: 'ok' },
+  4000000000000002: { brand: 'visa', behaviour: 'decline', declineCode: 'generic_decline' },
+  4000000000009995: {
+    brand: 'visa',
+    behaviour: 'decline',
+    declineCode: 'insufficient_funds',
+    message: 'Your card has insufficient funds.',
+  },
+  4000000000000341: { brand: 'visa', behaviour: 'charge_fails' },
 };
 
 /** Payment-method tokens the provider's docs use in tests, mapped to a card number. */
@@ -31,7 +36,10 @@ export function createCatalog(ctx) {
     const digits = String(number ?? '').replace(/\D/g, '');
     const card = TEST_CARDS[digits];
     if (!card) {
-      const error = declined('incorrect_number', 'Your card number is incorrect. In test mode use a test card such as 4242 4242 4242 4242.');
+      const error = declined(
+        'incorrect_number',
+        'Your card number is incorrect. In test mode use a test card such as 4242 4242 4242 4242.',
+      );
       error.body.code = 'incorrect_number';
       delete error.body.decline_code;
       throw error;
@@ -41,7 +49,14 @@ export function createCatalog(ctx) {
       id: newId('pm'),
       object: 'payment_method',
       type: 'card',
-      card: { brand: card.brand, last4: digits.slice(-4), exp_month: expMonth, exp_year: expYear, country: 'GB', funding: 'credit' },
+      card: {
+        brand: card.brand,
+        last4: digits.slice(-4),
+        exp_month: expMonth,
+        exp_year: expYear,
+        country: 'GB',
+        funding: 'credit',
+      },
       billing_details: { email: null, name: null },
       customer,
       created: now(),
@@ -130,10 +145,12 @@ export function createCatalog(ctx) {
     if (!productId) throw invalid('Missing required param: product.', 'product');
     if (!state.products[productId]) throw missing('product', productId, 'product');
     const unitAmount = int(params.unit_amount);
-    if (unitAmount === undefined || Number.isNaN(unitAmount) || unitAmount < 0) throw invalid('unit_amount must be a non-negative integer.', 'unit_amount');
+    if (unitAmount === undefined || Number.isNaN(unitAmount) || unitAmount < 0)
+      throw invalid('unit_amount must be a non-negative integer.', 'unit_amount');
     if (!params.currency) throw invalid('Missing required param: currency.', 'currency');
     const interval = params.recurring?.interval;
-    if (interval && !['day', 'week', 'month', 'year'].includes(interval)) throw invalid('recurring[interval] must be day, week, month or year.', 'recurring[interval]');
+    if (interval && !['day', 'week', 'month', 'year'].includes(interval))
+      throw invalid('recurring[interval] must be day, week, month or year.', 'recurring[interval]');
     if (params.lookup_key) {
       const holder = Object.values(state.prices).find((p) => p.lookup_key === params.lookup_key);
       if (holder && params.transfer_lookup_key !== 'true') {
@@ -149,7 +166,15 @@ export function createCatalog(ctx) {
       currency: params.currency.toLowerCase(),
       unit_amount: unitAmount,
       unit_amount_decimal: String(unitAmount),
-      recurring: interval ? { interval, interval_count: int(params.recurring.interval_count) ?? 1, usage_type: 'licensed', meter: null, trial_period_days: null } : null,
+      recurring: interval
+        ? {
+            interval,
+            interval_count: int(params.recurring.interval_count) ?? 1,
+            usage_type: 'licensed',
+            meter: null,
+            trial_period_days: null,
+          }
+        : null,
       type: interval ? 'recurring' : 'one_time',
       lookup_key: params.lookup_key ?? null,
       nickname: params.nickname ?? null,
@@ -180,8 +205,15 @@ export function createCatalog(ctx) {
   }
 
   return {
-    createCardPaymentMethod, paymentMethodFromToken, createCustomer, updateCustomer, getCustomer,
-    createProduct, createPrice, getPrice, listPrices,
+    createCardPaymentMethod,
+    paymentMethodFromToken,
+    createCustomer,
+    updateCustomer,
+    getCustomer,
+    createProduct,
+    createPrice,
+    getPrice,
+    listPrices,
   };
 }
 

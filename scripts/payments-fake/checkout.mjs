@@ -22,9 +22,11 @@ export function createCheckout(ctx, catalog, subscriptions) {
     let currency = null;
     const items = lineItems.map((li, index) => {
       const price = catalog.getPrice(li.price, `line_items[${index}][price]`);
-      if (!price.recurring) throw invalid('In subscription mode every line item needs a recurring price.', `line_items[${index}][price]`);
+      if (!price.recurring)
+        throw invalid('In subscription mode every line item needs a recurring price.', `line_items[${index}][price]`);
       const quantity = int(li.quantity) ?? 1;
-      if (Number.isNaN(quantity) || quantity < 1) throw invalid('Quantity must be a positive integer.', `line_items[${index}][quantity]`);
+      if (Number.isNaN(quantity) || quantity < 1)
+        throw invalid('Quantity must be a positive integer.', `line_items[${index}][quantity]`);
       amountTotal += price.unit_amount * quantity;
       currency = price.currency;
       return { price: price.id, quantity };
@@ -62,7 +64,8 @@ export function createCheckout(ctx, catalog, subscriptions) {
 
   function expireSession(id) {
     const session = getSession(id);
-    if (session.status !== 'open') throw invalid(`Only open checkout sessions can be expired; this one is ${session.status}.`);
+    if (session.status !== 'open')
+      throw invalid(`Only open checkout sessions can be expired; this one is ${session.status}.`);
     session.status = 'expired';
     session.url = null;
     ctx.emit('checkout.session.expired', session);
@@ -110,16 +113,23 @@ export function createCheckout(ctx, catalog, subscriptions) {
   return { getSession, createSession, expireSession, completeSession };
 }
 
-const escapeHtml = (s) => String(s ?? '').replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]);
-const money = (pence, currency) => `${currency === 'gbp' ? '£' : `${String(currency).toUpperCase()} `}${(pence / 100).toFixed(2)}`;
+const escapeHtml = (s) =>
+  String(s ?? '').replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c],
+  );
+const money = (pence, currency) =>
+  `${currency === 'gbp' ? '£' : `${String(currency).toUpperCase()} `}${(pence / 100).toFixed(2)}`;
 
 /** The hosted checkout page: what is being bought, a card form, and the test cards to use. */
 export function renderCheckoutPage(session, catalog, state, errorMessage = null) {
-  const rows = session._items.map((item) => {
-    const price = catalog.getPrice(item.price);
-    const product = state.products[price.product]?.name ?? 'Subscription';
-    return `<tr><td>${escapeHtml(product)}</td><td>${item.quantity} × ${money(price.unit_amount, price.currency)} / ${price.recurring.interval}</td><td>${money(price.unit_amount * item.quantity, price.currency)}</td></tr>`;
-  }).join('');
+  const rows = session._items
+    .map((item) => {
+      const price = catalog.getPrice(item.price);
+      const product = state.products[price.product]?.name ?? 'Subscription';
+      return `<tr><td>${escapeHtml(product)}</td><td>${item.quantity} × ${money(price.unit_amount, price.currency)} / ${price.recurring.interval}</td><td>${money(price.unit_amount * item.quantity, price.currency)}</td></tr>`;
+    })
+    .join('');
   const trialDays = Number(session._subscriptionData?.trial_period_days ?? 0);
   const customer = session.customer ? state.customers[session.customer] : null;
   const email = customer?.email ?? session.customer_email ?? '';
@@ -144,7 +154,10 @@ export function renderCheckoutPage(session, catalog, state, errorMessage = null)
   <h1 style="font-size:1.3rem">Subscribe</h1>
   <table>${rows}</table>
   ${trialDays ? `<p><strong>${trialDays}-day free trial.</strong> Nothing is charged today; the first payment is taken when the trial ends.</p>` : `<p>Due today: <strong>${money(session.amount_total, session.currency)}</strong></p>`}
-  ${closed ? `<p class="error" role="alert">This checkout session is ${escapeHtml(session.status)}. Go back to the site and start again.</p>` : `
+  ${
+    closed
+      ? `<p class="error" role="alert">This checkout session is ${escapeHtml(session.status)}. Go back to the site and start again.</p>`
+      : `
   <form method="post" action="/checkout/${escapeHtml(session.id)}">
     ${errorMessage ? `<p class="error" role="alert" data-testid="checkout-error">${escapeHtml(errorMessage)}</p>` : ''}
     <label for="email">E-mail</label><input id="email" name="email" type="email" value="${escapeHtml(email)}" required>
@@ -155,14 +168,23 @@ export function renderCheckoutPage(session, catalog, state, errorMessage = null)
     <button type="submit">${trialDays ? 'Start trial' : 'Pay and subscribe'}</button>
     <p class="hint">Test cards: 4242 4242 4242 4242 succeeds; 4000 0000 0000 0002 is declined; 4000 0000 0000 0341 is accepted but later renewals fail.</p>
   </form>
-  ${session.cancel_url ? `<p><a href="${escapeHtml(session.cancel_url)}">Cancel and go back</a></p>` : ''}`}
+  ${session.cancel_url ? `<p><a href="${escapeHtml(session.cancel_url)}">Cancel and go back</a></p>` : ''}`
+  }
 </main></body></html>`;
 }
 
 /** The hosted invoice page: the lines, and for an unpaid invoice a card form to pay it. */
 export function renderInvoicePage(invoice, errorMessage = null) {
-  const rows = invoice.lines.data.map((l) => `<tr><td>${escapeHtml(l.description)}</td><td style="text-align:right">${money(l.amount, l.currency)}</td></tr>`).join('');
-  const payForm = invoice.status !== 'open' ? '' : `
+  const rows = invoice.lines.data
+    .map(
+      (l) =>
+        `<tr><td>${escapeHtml(l.description)}</td><td style="text-align:right">${money(l.amount, l.currency)}</td></tr>`,
+    )
+    .join('');
+  const payForm =
+    invoice.status !== 'open'
+      ? ''
+      : `
 <form method="post" action="/invoices/${escapeHtml(invoice.id)}" style="margin-top:1.5rem">
   ${errorMessage ? `<p role="alert" data-testid="invoice-error" style="background:#fde8e6;padding:.5rem .7rem;border-radius:6px">${escapeHtml(errorMessage)}</p>` : ''}
   <h2 style="font-size:1.1rem">Pay ${money(invoice.amount_remaining, invoice.currency)} now</h2>

@@ -10,7 +10,12 @@ export class ApiError extends Error {
 
 /** 404 for an id the store does not hold. */
 export const missing = (kind, id, param = 'id') =>
-  new ApiError(404, { type: 'invalid_request_error', code: 'resource_missing', param, message: `No such ${kind}: '${id}'` });
+  new ApiError(404, {
+    type: 'invalid_request_error',
+    code: 'resource_missing',
+    param,
+    message: `No such ${kind}: '${id}'`,
+  });
 
 /** 400 for a bad or missing parameter. */
 export const invalid = (message, param) =>

@@ -56,7 +56,15 @@ export async function startPaymentsFake(options = {}) {
   /** Finds any stored object by its id prefix, for `expand[]`. */
   function byId(id) {
     if (typeof id !== 'string') return null;
-    const table = [['cus_', 'customers'], ['sub_', 'subscriptions'], ['in_', 'invoices'], ['price_', 'prices'], ['prod_', 'products'], ['pm_', 'payment_methods'], ['cs_', 'checkout_sessions']];
+    const table = [
+      ['cus_', 'customers'],
+      ['sub_', 'subscriptions'],
+      ['in_', 'invoices'],
+      ['price_', 'prices'],
+      ['prod_', 'products'],
+      ['pm_', 'payment_methods'],
+      ['cs_', 'checkout_sessions'],
+    ];
     const hit = table.find(([prefix]) => id.startsWith(prefix));
     const object = hit ? state[hit[1]][id] : null;
     return object ? out(object) : null;
@@ -93,9 +101,28 @@ export async function startPaymentsFake(options = {}) {
     ['POST', /^\/v1\/customers$/, (_, body) => catalog.createCustomer(body)],
     ['GET', /^\/v1\/customers\/([^/]+)$/, ([id]) => catalog.getCustomer(id)],
     ['POST', /^\/v1\/customers\/([^/]+)$/, ([id], body) => catalog.updateCustomer(id, body)],
-    ['GET', /^\/v1\/customers$/, (_, __, q) => list('/v1/customers', Object.values(state.customers).filter((c) => !q.email || c.email === q.email).reverse(), q)],
+    [
+      'GET',
+      /^\/v1\/customers$/,
+      (_, __, q) =>
+        list(
+          '/v1/customers',
+          Object.values(state.customers)
+            .filter((c) => !q.email || c.email === q.email)
+            .reverse(),
+          q,
+        ),
+    ],
     ['POST', /^\/v1\/products$/, (_, body) => catalog.createProduct(body)],
-    ['GET', /^\/v1\/products\/([^/]+)$/, ([id]) => state.products[id] ?? (() => { throw missing('product', id); })()],
+    [
+      'GET',
+      /^\/v1\/products\/([^/]+)$/,
+      ([id]) =>
+        state.products[id] ??
+        (() => {
+          throw missing('product', id);
+        })(),
+    ],
     ['POST', /^\/v1\/prices$/, (_, body) => catalog.createPrice(body)],
     ['GET', /^\/v1\/prices$/, (_, __, q) => list('/v1/prices', catalog.listPrices(q), q)],
     ['GET', /^\/v1\/prices\/([^/]+)$/, ([id]) => catalog.getPrice(id, 'id')],
@@ -111,23 +138,50 @@ export async function startPaymentsFake(options = {}) {
     ['POST', /^\/v1\/invoices\/create_preview$/, (_, body) => subs.previewInvoice(body)],
     ['GET', /^\/v1\/invoices\/([^/]+)$/, ([id]) => subs.getInvoice(id)],
     ['POST', /^\/v1\/invoices\/([^/]+)\/pay$/, ([id], body) => subs.payInvoice(id, body.payment_method)],
-    ['GET', /^\/v1\/events\/([^/]+)$/, ([id]) => state.events[id] ?? (() => { throw missing('event', id); })()],
-    ['GET', /^\/v1\/events$/, (_, __, q) => list('/v1/events', Object.values(state.events).filter((e) => !q.type || e.type === q.type).reverse(), q)],
+    [
+      'GET',
+      /^\/v1\/events\/([^/]+)$/,
+      ([id]) =>
+        state.events[id] ??
+        (() => {
+          throw missing('event', id);
+        })(),
+    ],
+    [
+      'GET',
+      /^\/v1\/events$/,
+      (_, __, q) =>
+        list(
+          '/v1/events',
+          Object.values(state.events)
+            .filter((e) => !q.type || e.type === q.type)
+            .reverse(),
+          q,
+        ),
+    ],
   ];
 
   /** Test helpers: simulate time passing for one subscription, hold/reorder/replay deliveries. */
   const ADMIN_ROUTES = [
     // Ends the current period (or retries the open renewal invoice); body outcome=succeed|fail.
     ['POST', /^\/_fake\/subscriptions\/([^/]+)\/renew$/, ([id], body) => subs.renew(id, body.outcome)],
-    ['GET', /^\/_fake\/deliveries$/, (_, __, q) => ({ deliveries: webhooks.deliveries.filter((d) => !q.event || d.event === q.event) })],
+    [
+      'GET',
+      /^\/_fake\/deliveries$/,
+      (_, __, q) => ({ deliveries: webhooks.deliveries.filter((d) => !q.event || d.event === q.event) }),
+    ],
     ['POST', /^\/_fake\/webhooks\/hold$/, () => (webhooks.hold(), { held: true })],
     ['POST', /^\/_fake\/webhooks\/release$/, (_, body) => ({ released: webhooks.release(body.order) })],
-    ['POST', /^\/_fake\/events\/([^/]+)\/redeliver$/, async ([id]) => {
-      const event = state.events[id];
-      if (!event) throw missing('event', id);
-      await webhooks.redeliver(event);
-      return { redelivered: id };
-    }],
+    [
+      'POST',
+      /^\/_fake\/events\/([^/]+)\/redeliver$/,
+      async ([id]) => {
+        const event = state.events[id];
+        if (!event) throw missing('event', id);
+        await webhooks.redeliver(event);
+        return { redelivered: id };
+      },
+    ],
   ];
 
   function authorised(req) {
@@ -140,7 +194,12 @@ export async function startPaymentsFake(options = {}) {
   }
 
   function send(res, status, body, headers = {}) {
-    res.writeHead(status, { 'content-type': 'application/json', 'stripe-version': API_VERSION, 'request-id': headers['request-id'] ?? newId('req'), ...headers });
+    res.writeHead(status, {
+      'content-type': 'application/json',
+      'stripe-version': API_VERSION,
+      'request-id': headers['request-id'] ?? newId('req'),
+      ...headers,
+    });
     res.end(JSON.stringify(body));
   }
 
@@ -153,7 +212,17 @@ export async function startPaymentsFake(options = {}) {
   async function handleApi(req, res, url, raw) {
     const requestId = newId('req');
     if (!authorised(req)) {
-      return send(res, 401, { error: { type: 'invalid_request_error', message: 'Invalid API Key provided. Pass your test secret key as a Bearer token.' } }, { 'request-id': requestId });
+      return send(
+        res,
+        401,
+        {
+          error: {
+            type: 'invalid_request_error',
+            message: 'Invalid API Key provided. Pass your test secret key as a Bearer token.',
+          },
+        },
+        { 'request-id': requestId },
+      );
     }
     const query = parseForm(url.search.slice(1));
     const contentType = req.headers['content-type'] ?? '';
@@ -163,29 +232,60 @@ export async function startPaymentsFake(options = {}) {
     if (idempotencyKey) {
       const previous = state.idempotency[idempotencyKey];
       if (previous && previous.fingerprint !== fingerprint) {
-        return send(res, 400, { error: { type: 'idempotency_error', message: `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idempotencyKey}' if you meant to execute a different request.` } }, { 'request-id': requestId });
+        return send(
+          res,
+          400,
+          {
+            error: {
+              type: 'idempotency_error',
+              message: `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idempotencyKey}' if you meant to execute a different request.`,
+            },
+          },
+          { 'request-id': requestId },
+        );
       }
-      if (previous) return send(res, previous.status, previous.body, { 'idempotent-replayed': 'true', 'original-request': previous.requestId, 'request-id': requestId });
+      if (previous)
+        return send(res, previous.status, previous.body, {
+          'idempotent-replayed': 'true',
+          'original-request': previous.requestId,
+          'request-id': requestId,
+        });
     }
     const routes = url.pathname.startsWith('/_fake/') ? ADMIN_ROUTES : API_ROUTES;
-    const match = routes.map(([method, pattern, handler]) => [method, pattern.exec(url.pathname), handler]).find(([method, m]) => m && method === req.method);
+    const match = routes
+      .map(([method, pattern, handler]) => [method, pattern.exec(url.pathname), handler])
+      .find(([method, m]) => m && method === req.method);
     let status = 200;
     let result;
     try {
-      if (!match) throw new ApiError(404, { type: 'invalid_request_error', message: `Unrecognized request URL (${req.method}: ${url.pathname}). This payments fake supports only the endpoints Airtally uses.` });
-      const object = await webhooks.withRequest({ id: requestId, idempotency_key: idempotencyKey ?? null }, () => match[2](match[1].slice(1), body, query));
+      if (!match)
+        throw new ApiError(404, {
+          type: 'invalid_request_error',
+          message: `Unrecognized request URL (${req.method}: ${url.pathname}). This payments fake supports only the endpoints Airtally uses.`,
+        });
+      const object = await webhooks.withRequest({ id: requestId, idempotency_key: idempotencyKey ?? null }, () =>
+        match[2](match[1].slice(1), body, query),
+      );
       result = expand(out(await object), [].concat(body.expand ?? [], query.expand ?? []));
     } catch (error) {
       if (!(error instanceof ApiError)) {
         log(`internal error on ${req.method} ${url.pathname}: ${error instanceof Error ? error.stack : error}`);
-        return send(res, 500, { error: { type: 'api_error', message: 'The payments fake failed; see its log.' } }, { 'request-id': requestId });
+        return send(
+          res,
+          500,
+          { error: { type: 'api_error', message: 'The payments fake failed; see its log.' } },
+          { 'request-id': requestId },
+        );
       }
       status = error.status;
       result = { error: { ...error.body, request_log_url: null } };
     }
     if (idempotencyKey) state.idempotency[idempotencyKey] = { fingerprint, status, body: result, requestId };
     save();
-    return send(res, status, result, { 'request-id': requestId, ...(idempotencyKey ? { 'idempotency-key': idempotencyKey } : {}) });
+    return send(res, status, result, {
+      'request-id': requestId,
+      ...(idempotencyKey ? { 'idempotency-key': idempotencyKey } : {}),
+    });
   }
 
   function html(res, status, page, headers = {}) {
@@ -198,7 +298,8 @@ export async function startPaymentsFake(options = {}) {
     const invoiceMatch = /^\/invoices\/([^/]+)$/.exec(url.pathname);
     if (checkoutMatch) {
       const session = state.checkout_sessions[checkoutMatch[1]];
-      if (!session) return html(res, 404, '<!doctype html><title>Not found</title><p>This checkout session does not exist.</p>');
+      if (!session)
+        return html(res, 404, '<!doctype html><title>Not found</title><p>This checkout session does not exist.</p>');
       if (req.method === 'GET') return html(res, 200, renderCheckoutPage(session, catalog, state));
       if (req.method === 'POST') {
         const form = Object.fromEntries(new URLSearchParams(raw));
@@ -239,11 +340,21 @@ export async function startPaymentsFake(options = {}) {
     try {
       const raw = await readBody(req);
       if (url.pathname === '/health') return send(res, 200, { ok: true });
-      if (url.pathname.startsWith('/v1/') || url.pathname.startsWith('/_fake/')) return await handleApi(req, res, url, raw);
+      if (url.pathname.startsWith('/v1/') || url.pathname.startsWith('/_fake/'))
+        return await handleApi(req, res, url, raw);
       return await handlePage(req, res, url, raw);
     } catch (error) {
       log(`internal error: ${error instanceof Error ? error.stack : error}`);
-      if (!res.headersSent) send(res, 500, { error: { type: 'api_error', message: error instanceof SyntaxError ? 'The request body is not valid.' : 'The payments fake failed; see its log.' } });
+      if (!res.headersSent)
+        send(res, 500, {
+          error: {
+            type: 'api_error',
+            message:
+              error instanceof SyntaxError
+                ? 'The request body is not valid.'
+                : 'The payments fake failed; see its log.',
+          },
+        });
     }
   });
   await new Promise((resolve, reject) => {

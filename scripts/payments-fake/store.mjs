@@ -4,7 +4,16 @@ import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from '
 import { dirname } from 'node:path';
 import { randomBytes } from 'node:crypto';
 
-const COLLECTIONS = ['customers', 'products', 'prices', 'checkout_sessions', 'subscriptions', 'invoices', 'events', 'payment_methods'];
+const COLLECTIONS = [
+  'customers',
+  'products',
+  'prices',
+  'checkout_sessions',
+  'subscriptions',
+  'invoices',
+  'events',
+  'payment_methods',
+];
 const ALPHABET = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789';
 
 /** A provider-style id: prefix, underscore, 24 random base62 characters. */

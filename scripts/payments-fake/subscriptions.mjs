@@ -43,13 +43,22 @@ export function createSubscriptions(ctx, catalog) {
   function viewSubscription(sub) {
     const items = sub._items.map((item) => ({ ...item, price: priceOf(item) }));
     const { _items, _pending, ...rest } = sub;
-    return { ...rest, items: { object: 'list', data: items, has_more: false, total_count: items.length, url: `/v1/subscription_items?subscription=${sub.id}` } };
+    return {
+      ...rest,
+      items: {
+        object: 'list',
+        data: items,
+        has_more: false,
+        total_count: items.length,
+        url: `/v1/subscription_items?subscription=${sub.id}`,
+      },
+    };
   }
 
   function paymentMethodFor(sub) {
     const customer = catalog.getCustomer(sub.customer);
     const id = sub.default_payment_method ?? customer.invoice_settings.default_payment_method;
-    return id ? state.payment_methods[id] ?? null : null;
+    return id ? (state.payment_methods[id] ?? null) : null;
   }
 
   function line({ sub, item, amount, description, quantity, start, end, proration }) {
@@ -65,10 +74,20 @@ export function createSubscriptions(ctx, catalog) {
       metadata: {},
       quantity,
       period: { start, end },
-      pricing: { type: 'price_details', price_details: { price: price.id, product: price.product }, unit_amount_decimal: String(price.unit_amount) },
+      pricing: {
+        type: 'price_details',
+        price_details: { price: price.id, product: price.product },
+        unit_amount_decimal: String(price.unit_amount),
+      },
       parent: {
         type: 'subscription_item_details',
-        subscription_item_details: { subscription: sub.id, subscription_item: item.id, proration, invoice_item: null, proration_details: { credited_items: null } },
+        subscription_item_details: {
+          subscription: sub.id,
+          subscription_item: item.id,
+          proration,
+          invoice_item: null,
+          proration_details: { credited_items: null },
+        },
         invoice_item_details: null,
       },
       subscription: sub.id,
@@ -109,7 +128,11 @@ export function createSubscriptions(ctx, catalog) {
       metadata: {},
       next_payment_attempt: null,
       number: `FAKE-${String(invoiceSeq).padStart(5, '0')}`,
-      parent: { type: 'subscription_details', quote_details: null, subscription_details: { subscription: sub.id, metadata: { ...sub.metadata } } },
+      parent: {
+        type: 'subscription_details',
+        quote_details: null,
+        subscription_details: { subscription: sub.id, metadata: { ...sub.metadata } },
+      },
       period_start: start,
       period_end: end,
       starting_balance: 0,
@@ -121,7 +144,13 @@ export function createSubscriptions(ctx, catalog) {
       lines: null,
     };
     inv.hosted_invoice_url = `${ctx.publicUrl}/invoices/${inv.id}`;
-    inv.lines = { object: 'list', data: lines.map((l) => ({ ...l, invoice: inv.id })), has_more: false, total_count: lines.length, url: `/v1/invoices/${inv.id}/lines` };
+    inv.lines = {
+      object: 'list',
+      data: lines.map((l) => ({ ...l, invoice: inv.id })),
+      has_more: false,
+      total_count: lines.length,
+      url: `/v1/invoices/${inv.id}/lines`,
+    };
     state.invoices[inv.id] = inv;
     sub.latest_invoice = inv.id;
     ctx.emit('invoice.created', inv);
@@ -215,11 +244,22 @@ export function createSubscriptions(ctx, catalog) {
     }
     for (const [index, item] of items.entries()) {
       const price = catalog.getPrice(item.price, `items[${index}][price]`);
-      if (!price.recurring) throw invalid('The price specified is not a recurring price; subscriptions need recurring prices.', `items[${index}][price]`);
+      if (!price.recurring)
+        throw invalid(
+          'The price specified is not a recurring price; subscriptions need recurring prices.',
+          `items[${index}][price]`,
+        );
       const quantity = int(item.quantity) ?? 1;
-      if (Number.isNaN(quantity) || quantity < 0) throw invalid('Quantity must be a non-negative integer.', `items[${index}][quantity]`);
+      if (Number.isNaN(quantity) || quantity < 0)
+        throw invalid('Quantity must be a non-negative integer.', `items[${index}][quantity]`);
       sub._items.push({
-        id: newId('si'), object: 'subscription_item', created, metadata: {}, price: price.id, quantity, subscription: sub.id,
+        id: newId('si'),
+        object: 'subscription_item',
+        created,
+        metadata: {},
+        price: price.id,
+        quantity,
+        subscription: sub.id,
         current_period_start: created,
         current_period_end: trialEnd ?? addInterval(created, price.recurring.interval, price.recurring.interval_count),
       });
@@ -232,14 +272,30 @@ export function createSubscriptions(ctx, catalog) {
     const lines = sub._items.map((item) => {
       const price = priceOf(item);
       const amount = trialEnd ? 0 : price.unit_amount * item.quantity;
-      const description = trialEnd ? `Trial period for ${productName(price)}` : `${item.quantity} × ${productName(price)}`;
-      return line({ sub, item, amount, description, quantity: item.quantity, start: created, end: periodEnd(sub), proration: false });
+      const description = trialEnd
+        ? `Trial period for ${productName(price)}`
+        : `${item.quantity} × ${productName(price)}`;
+      return line({
+        sub,
+        item,
+        amount,
+        description,
+        quantity: item.quantity,
+        start: created,
+        end: periodEnd(sub),
+        proration: false,
+      });
     });
     const inv = invoice(sub, lines, { reason: 'subscription_create', start: created, end: created });
     if (inv.status === 'paid') sub.status = trialEnd ? 'trialing' : 'active';
     else if (params.payment_behavior === 'error_if_incomplete') {
       delete state.subscriptions[sub.id];
-      throw new ApiError(402, { type: 'card_error', code: 'card_declined', decline_code: 'generic_decline', message: 'Your card was declined.' });
+      throw new ApiError(402, {
+        type: 'card_error',
+        code: 'card_declined',
+        decline_code: 'generic_decline',
+        message: 'Your card was declined.',
+      });
     }
     ctx.emit('customer.subscription.created', viewSubscription(sub));
     return sub;
@@ -258,8 +314,26 @@ export function createSubscriptions(ctx, catalog) {
     const credit = -Math.round(oldPrice.unit_amount * oldQty * fraction);
     const charge = Math.round(newPrice.unit_amount * newQty * fraction);
     return [
-      line({ sub, item, amount: credit, description: `Unused time on ${oldQty} × ${productName(oldPrice)} after ${when}`, quantity: oldQty, start: at, end, proration: true }),
-      line({ sub, item, amount: charge, description: `Remaining time on ${newQty} × ${productName(newPrice)} after ${when}`, quantity: newQty, start: at, end, proration: true }),
+      line({
+        sub,
+        item,
+        amount: credit,
+        description: `Unused time on ${oldQty} × ${productName(oldPrice)} after ${when}`,
+        quantity: oldQty,
+        start: at,
+        end,
+        proration: true,
+      }),
+      line({
+        sub,
+        item,
+        amount: charge,
+        description: `Remaining time on ${newQty} × ${productName(newPrice)} after ${when}`,
+        quantity: newQty,
+        start: at,
+        end,
+        proration: true,
+      }),
     ];
   }
 
@@ -278,11 +352,18 @@ export function createSubscriptions(ctx, catalog) {
       sub.cancel_at_period_end = bool(params.cancel_at_period_end);
       sub.cancel_at = sub.cancel_at_period_end ? periodEnd(sub) : null;
       sub.canceled_at = sub.cancel_at_period_end ? at : null;
-      sub.cancellation_details = { comment: null, feedback: null, reason: sub.cancel_at_period_end ? 'cancellation_requested' : null };
+      sub.cancellation_details = {
+        comment: null,
+        feedback: null,
+        reason: sub.cancel_at_period_end ? 'cancellation_requested' : null,
+      };
     }
     const behaviour = params.proration_behavior ?? 'create_prorations';
     if (!['create_prorations', 'none', 'always_invoice'].includes(behaviour)) {
-      throw invalid('proration_behavior must be one of create_prorations, none or always_invoice.', 'proration_behavior');
+      throw invalid(
+        'proration_behavior must be one of create_prorations, none or always_invoice.',
+        'proration_behavior',
+      );
     }
     for (const [index, change] of (params.items ?? []).entries()) {
       const item = sub._items.find((i) => i.id === change.id);
@@ -290,7 +371,8 @@ export function createSubscriptions(ctx, catalog) {
       const oldPrice = priceOf(item);
       const newPrice = change.price ? catalog.getPrice(change.price, `items[${index}][price]`) : oldPrice;
       const newQty = change.quantity !== undefined ? int(change.quantity) : item.quantity;
-      if (Number.isNaN(newQty) || newQty < 0) throw invalid('Quantity must be a non-negative integer.', `items[${index}][quantity]`);
+      if (Number.isNaN(newQty) || newQty < 0)
+        throw invalid('Quantity must be a non-negative integer.', `items[${index}][quantity]`);
       if (newPrice.id === oldPrice.id && newQty === item.quantity) continue;
       const intervalChanges = newPrice.recurring.interval !== oldPrice.recurring.interval;
       const oldQty = item.quantity;
@@ -303,8 +385,23 @@ export function createSubscriptions(ctx, catalog) {
         item.current_period_start = at;
         item.current_period_end = addInterval(at, newPrice.recurring.interval, newPrice.recurring.interval_count);
         sub.billing_cycle_anchor = at;
-        lines.push(line({ sub, item, amount: newPrice.unit_amount * newQty, description: `${newQty} × ${productName(newPrice)}`, quantity: newQty, start: at, end: item.current_period_end, proration: false }));
-        const inv = invoice(sub, [...sub._pending.splice(0), ...lines], { reason: 'subscription_update', start: at, end: at });
+        lines.push(
+          line({
+            sub,
+            item,
+            amount: newPrice.unit_amount * newQty,
+            description: `${newQty} × ${productName(newPrice)}`,
+            quantity: newQty,
+            start: at,
+            end: item.current_period_end,
+            proration: false,
+          }),
+        );
+        const inv = invoice(sub, [...sub._pending.splice(0), ...lines], {
+          reason: 'subscription_update',
+          start: at,
+          end: at,
+        });
         if (inv.status !== 'paid') sub.status = 'past_due';
         if (sub.cancel_at_period_end) sub.cancel_at = periodEnd(sub);
         continue;
@@ -312,7 +409,11 @@ export function createSubscriptions(ctx, catalog) {
       if (behaviour === 'none') continue;
       const lines = prorationLines(sub, item, oldPrice, oldQty, newPrice, newQty, at);
       if (behaviour === 'always_invoice') {
-        const inv = invoice(sub, [...sub._pending.splice(0), ...lines], { reason: 'subscription_update', start: at, end: at });
+        const inv = invoice(sub, [...sub._pending.splice(0), ...lines], {
+          reason: 'subscription_update',
+          start: at,
+          end: at,
+        });
         if (inv.status !== 'paid') sub.status = 'past_due';
       } else {
         sub._pending.push(...lines);
@@ -343,7 +444,9 @@ export function createSubscriptions(ctx, catalog) {
   function renew(id, outcome) {
     const sub = getSubscription(id);
     const before = snapshot(sub);
-    const open = Object.values(state.invoices).find((i) => i.parent?.subscription_details?.subscription === sub.id && i.status === 'open');
+    const open = Object.values(state.invoices).find(
+      (i) => i.parent?.subscription_details?.subscription === sub.id && i.status === 'open',
+    );
     if (sub.status === 'canceled') throw invalid('A canceled subscription does not renew.');
     if (open) {
       const paid = collect(sub, open, outcome);
@@ -364,7 +467,18 @@ export function createSubscriptions(ctx, catalog) {
       const price = priceOf(item);
       item.current_period_start = end;
       item.current_period_end = addInterval(end, price.recurring.interval, price.recurring.interval_count);
-      lines.push(line({ sub, item, amount: price.unit_amount * item.quantity, description: `${item.quantity} × ${productName(price)}`, quantity: item.quantity, start: end, end: item.current_period_end, proration: false }));
+      lines.push(
+        line({
+          sub,
+          item,
+          amount: price.unit_amount * item.quantity,
+          description: `${item.quantity} × ${productName(price)}`,
+          quantity: item.quantity,
+          start: end,
+          end: item.current_period_end,
+          proration: false,
+        }),
+      );
     }
     const inv = invoice(sub, lines, { reason: 'subscription_cycle', start: end, end }, outcome);
     sub.status = inv.status === 'paid' ? 'active' : 'past_due';
@@ -380,8 +494,16 @@ export function createSubscriptions(ctx, catalog) {
     const before = snapshot(sub);
     if (paymentMethodId) sub.default_payment_method = catalog.paymentMethodFromToken(paymentMethodId, sub.customer).id;
     const paid = collect(sub, inv);
-    if (!paid) throw new ApiError(402, { type: 'card_error', code: 'card_declined', decline_code: 'generic_decline', message: 'Your card was declined.' });
-    const stillOpen = Object.values(state.invoices).some((i) => i.parent?.subscription_details?.subscription === sub.id && i.status === 'open');
+    if (!paid)
+      throw new ApiError(402, {
+        type: 'card_error',
+        code: 'card_declined',
+        decline_code: 'generic_decline',
+        message: 'Your card was declined.',
+      });
+    const stillOpen = Object.values(state.invoices).some(
+      (i) => i.parent?.subscription_details?.subscription === sub.id && i.status === 'open',
+    );
     if (!stillOpen && (sub.status === 'past_due' || sub.status === 'unpaid')) sub.status = 'active';
     emitUpdated(sub, before);
     return inv;
@@ -393,14 +515,29 @@ export function createSubscriptions(ctx, catalog) {
       ? getSubscription(params.subscription, 'subscription')
       : Object.values(state.subscriptions).find((s) => s.customer === params.customer && s.status !== 'canceled');
     if (!sub || sub.status === 'canceled' || sub.cancel_at_period_end) {
-      throw new ApiError(400, { type: 'invalid_request_error', code: 'invoice_upcoming_none', message: 'No upcoming invoices for customer' });
+      throw new ApiError(400, {
+        type: 'invalid_request_error',
+        code: 'invoice_upcoming_none',
+        message: 'No upcoming invoices for customer',
+      });
     }
     const end = periodEnd(sub);
     const lines = [...sub._pending];
     for (const item of sub._items) {
       const price = priceOf(item);
       const next = addInterval(end, price.recurring.interval, price.recurring.interval_count);
-      lines.push(line({ sub, item, amount: price.unit_amount * item.quantity, description: `${item.quantity} × ${productName(price)}`, quantity: item.quantity, start: end, end: next, proration: false }));
+      lines.push(
+        line({
+          sub,
+          item,
+          amount: price.unit_amount * item.quantity,
+          description: `${item.quantity} × ${productName(price)}`,
+          quantity: item.quantity,
+          start: end,
+          end: next,
+          proration: false,
+        }),
+      );
     }
     const total = lines.reduce((sum, l) => sum + l.amount, 0);
     return {
@@ -415,10 +552,20 @@ export function createSubscriptions(ctx, catalog) {
       created: end,
       currency: sub.currency,
       customer: sub.customer,
-      lines: { object: 'list', data: lines, has_more: false, total_count: lines.length, url: '/v1/invoices/upcoming/lines' },
+      lines: {
+        object: 'list',
+        data: lines,
+        has_more: false,
+        total_count: lines.length,
+        url: '/v1/invoices/upcoming/lines',
+      },
       livemode: false,
       next_payment_attempt: end,
-      parent: { type: 'subscription_details', quote_details: null, subscription_details: { subscription: sub.id, metadata: { ...sub.metadata } } },
+      parent: {
+        type: 'subscription_details',
+        quote_details: null,
+        subscription_details: { subscription: sub.id, metadata: { ...sub.metadata } },
+      },
       period_start: periodStart(sub),
       period_end: end,
       status: 'draft',
@@ -430,7 +577,8 @@ export function createSubscriptions(ctx, catalog) {
   function listInvoices(query) {
     let invoices = Object.values(state.invoices);
     if (query.customer) invoices = invoices.filter((i) => i.customer === query.customer);
-    if (query.subscription) invoices = invoices.filter((i) => i.parent?.subscription_details?.subscription === query.subscription);
+    if (query.subscription)
+      invoices = invoices.filter((i) => i.parent?.subscription_details?.subscription === query.subscription);
     if (query.status) invoices = invoices.filter((i) => i.status === query.status);
     return invoices.sort((a, b) => b.created - a.created || b.number.localeCompare(a.number));
   }
@@ -444,7 +592,16 @@ export function createSubscriptions(ctx, catalog) {
   }
 
   return {
-    getSubscription, viewSubscription, createSubscription, updateSubscription, cancelSubscription, renew,
-    previewInvoice, getInvoice, listInvoices, listSubscriptions, payInvoice,
+    getSubscription,
+    viewSubscription,
+    createSubscription,
+    updateSubscription,
+    cancelSubscription,
+    renew,
+    previewInvoice,
+    getInvoice,
+    listInvoices,
+    listSubscriptions,
+    payInvoice,
   };
 }

@@ -28,7 +28,10 @@ export function createWebhooks({ state, save, endpoint, apiVersion, retryBaseMs,
       object: 'event',
       api_version: apiVersion,
       created: now(),
-      data: { object: publicCopy(object), ...(previousAttributes ? { previous_attributes: publicCopy(previousAttributes) } : {}) },
+      data: {
+        object: publicCopy(object),
+        ...(previousAttributes ? { previous_attributes: publicCopy(previousAttributes) } : {}),
+      },
       livemode: false,
       pending_webhooks: endpoint.url ? 1 : 0,
       request: request ?? { id: null, idempotency_key: null },
@@ -44,7 +47,14 @@ export function createWebhooks({ state, save, endpoint, apiVersion, retryBaseMs,
 
   async function deliver(event, attempt) {
     const payload = JSON.stringify(event, null, 2);
-    const record = { event: event.id, type: event.type, attempt, at: new Date().toISOString(), status: null, error: null };
+    const record = {
+      event: event.id,
+      type: event.type,
+      attempt,
+      at: new Date().toISOString(),
+      status: null,
+      error: null,
+    };
     deliveries.push(record);
     try {
       const response = await fetch(endpoint.url, {

@@ -17,4 +17,5 @@ export function formatBearing(deg: number | null): string {
 }
 
 /** A value or a dash when it is missing. */
-export const orDash = (value: string | number | null | undefined) => (value === null || value === undefined || value === '' ? '—' : String(value));
+export const orDash = (value: string | number | null | undefined) =>
+  value === null || value === undefined || value === '' ? '—' : String(value);

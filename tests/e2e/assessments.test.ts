@@ -13,15 +13,15 @@ import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 const SHOTS = join(process.cwd(), '.data', 'screens');
 const db = createDb(process.env.DATABASE_URL!);
 
-
-
 describe('assessments pages in Chromium', () => {
   const contexts: BrowserContext[] = [];
   beforeAll(async () => {
     mkdirSync(SHOTS, { recursive: true });
     // Results to show on the room page, whichever test runs first.
     const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const { id } = (await (await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) })).json()) as { id: string };
+    const { id } = (await (
+      await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) })
+    ).json()) as { id: string };
     for (let i = 0; i < 150; i += 1) {
       const { status } = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
       if (status === 'succeeded' || status === 'failed') break;
@@ -57,15 +57,21 @@ describe('assessments pages in Chromium', () => {
 
   it('a room page shows the CO2 chart, the reason, the retrofit and the cautions, and answers a what-if', async () => {
     const room = await db
-      .selectFrom('room_results').innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+      .selectFrom('room_results')
+      .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
       .select(['rooms.id', 'rooms.pupils'])
-      .where('room_results.trust_id', '=', DEMO_TRUST.id).where('room_results.is_current', '=', true).where('room_results.unit_count', '>', 0)
-      .orderBy('room_results.rank').limit(1).executeTakeFirstOrThrow();
+      .where('room_results.trust_id', '=', DEMO_TRUST.id)
+      .where('room_results.is_current', '=', true)
+      .where('room_results.unit_count', '>', 0)
+      .orderBy('room_results.rank')
+      .limit(1)
+      .executeTakeFirstOrThrow();
     const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);
     contexts.push(context);
     const chartErrors: string[] = [];
     page.on('console', (m) => {
-      if ((m.type() === 'error' || m.type() === 'warning') && m.text().includes('AG Charts')) chartErrors.push(m.text());
+      if ((m.type() === 'error' || m.type() === 'warning') && m.text().includes('AG Charts'))
+        chartErrors.push(m.text());
     });
     await page.goto(`/app/rooms/${room.id}`);
     await page.locator('[data-testid="room-attributes"]').waitFor();
@@ -73,7 +79,9 @@ describe('assessments pages in Chromium', () => {
     expect((await page.locator('[data-testid="risk-reason"]').textContent())!.length).toBeGreaterThan(20);
     await expect(page.locator('[data-testid="units-recommended"]').textContent()).resolves.toMatch(/\d+ × /);
     await expect(page.locator('[data-testid="comparison-today"]').isVisible()).resolves.toBe(true);
-    await expect(page.getByRole('note', { name: 'Caution' }).first().textContent()).resolves.toMatch(/Screening estimates, not a design/);
+    await expect(page.getByRole('note', { name: 'Caution' }).first().textContent()).resolves.toMatch(
+      /Screening estimates, not a design/,
+    );
 
     // The panel hydrates when scrolled into view (client:visible); Astro drops `ssr` once it has.
     await page.getByRole('heading', { name: 'What if…' }).scrollIntoViewIfNeeded();
@@ -99,9 +107,13 @@ describe('assessments pages in Chromium', () => {
     await page.locator('astro-island[component-url*="CatalogueEditor"]:not([ssr])').waitFor({ timeout: 20_000 });
     const criteria = page.locator('tr[data-path="criteria.packs"]');
     await expect(criteria.textContent()).resolves.toMatch(/Flagged/);
-    await expect(page.locator('tr[data-path="finance.discountRate"]').textContent()).resolves.toMatch(/Green Book.*confirmed/s);
+    await expect(page.locator('tr[data-path="finance.discountRate"]').textContent()).resolves.toMatch(
+      /Green Book.*confirmed/s,
+    );
     // A finance lead's editor lists only financial values.
-    const options = await page.locator('[data-testid="assumption-editor"] select[name="path"] option').allTextContents();
+    const options = await page
+      .locator('[data-testid="assumption-editor"] select[name="path"] option')
+      .allTextContents();
     expect(options.length).toBeGreaterThan(0);
     for (const o of options) expect(o).toMatch(/\(financial\)$/);
     // Costs are editable, flows are not.

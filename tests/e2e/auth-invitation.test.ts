@@ -31,7 +31,9 @@ describe('inviting a colleague in Chromium', () => {
     const link = linkIn(await waitForMail(email, 'invited you'), '/accept-invitation');
     const invitee = await inviteeBrowser.newPage();
     await invitee.goto(link.href);
-    expect(await invitee.getByRole('heading', { level: 1 }).textContent()).toBe('Join Brackenmoor Valley Learning Trust');
+    expect(await invitee.getByRole('heading', { level: 1 }).textContent()).toBe(
+      'Join Brackenmoor Valley Learning Trust',
+    );
     await invitee.getByLabel('Your name').fill('Browser Invitee');
     await invitee.getByLabel('Password').fill('a-good-long-password');
     await invitee.getByRole('button', { name: 'Create account and join' }).click();

@@ -4,7 +4,12 @@ import { launchBrowser, signInInBrowser } from '../helpers/browser';
 import { APP_URL, DEMO_ACCOUNTS, type DemoRole } from '../helpers/session';
 
 // What each role may do on the members page, from the roles table in the product brief.
-const MAY_MANAGE_MEMBERS: Record<DemoRole, boolean> = { trust_admin: true, estates_manager: false, finance_lead: false, viewer: false };
+const MAY_MANAGE_MEMBERS: Record<DemoRole, boolean> = {
+  trust_admin: true,
+  estates_manager: false,
+  finance_lead: false,
+  viewer: false,
+};
 
 describe('signing in as each demo role in Chromium', () => {
   let browser: BrowserContext;

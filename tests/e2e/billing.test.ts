@@ -30,7 +30,10 @@ describe('billing in Chromium', () => {
     await page.screenshot({ path: join(SHOTS, 'billing-free.png'), fullPage: true });
 
     await page.getByLabel(/Yearly/).check();
-    await Promise.all([page.waitForURL(/\/checkout\/cs_test_/), page.getByRole('button', { name: 'Continue to payment' }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/checkout\/cs_test_/),
+      page.getByRole('button', { name: 'Continue to payment' }).click(),
+    ]);
     expect(await page.locator('body').textContent()).toContain('30-day free trial');
 
     await page.getByLabel('Card number').fill('4000 0000 0000 0002');
@@ -43,7 +46,10 @@ describe('billing in Chromium', () => {
     await page.getByLabel('Card number').fill('4242 4242 4242 4242');
     await page.getByLabel('Expiry (MM / YY)').fill('12 / 34');
     await page.getByLabel('CVC').fill('123');
-    await Promise.all([page.waitForURL(/\/app\/settings\/billing\?checkout=success/), page.getByRole('button', { name: 'Start trial' }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/app\/settings\/billing\?checkout=success/),
+      page.getByRole('button', { name: 'Start trial' }).click(),
+    ]);
 
     // The page refreshes itself until the provider's webhook has put the trust on the paid plan.
     await page.getByText('Whole Estate', { exact: true }).first().waitFor({ timeout: 20_000 });
@@ -54,13 +60,25 @@ describe('billing in Chromium', () => {
 
     // The trial ends and the first charge fails: every page of the app shows the grace banner.
     const db = testDb();
-    const { provider_subscription_id: subscriptionId } = await db.selectFrom('billing_accounts').select('provider_subscription_id').where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+    const { provider_subscription_id: subscriptionId } = await db
+      .selectFrom('billing_accounts')
+      .select('provider_subscription_id')
+      .where('trust_id', '=', trustId)
+      .executeTakeFirstOrThrow();
     await db.destroy();
     await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
-    await expect.poll(async () => {
-      await page.goto(`${APP_URL}/app/schools`);
-      return page.getByTestId('billing-banner').getAttribute('data-mode', { timeout: 1000 }).catch(() => null);
-    }, { timeout: 15_000 }).toBe('grace');
+    await expect
+      .poll(
+        async () => {
+          await page.goto(`${APP_URL}/app/schools`);
+          return page
+            .getByTestId('billing-banner')
+            .getAttribute('data-mode', { timeout: 1000 })
+            .catch(() => null);
+        },
+        { timeout: 15_000 },
+      )
+      .toBe('grace');
     await page.screenshot({ path: join(SHOTS, 'billing-grace-banner.png') });
     await page.close();
   });
@@ -72,7 +90,12 @@ describe('billing in Chromium', () => {
     await page.goto(`${APP_URL}/app/settings/billing`);
     expect(await page.getByTestId('plan-name').textContent()).toBe('Whole Estate');
     expect(await page.getByText('Only trust admins can change it.').count()).toBe(1);
-    expect(await page.getByRole('button').filter({ hasText: /payment|Cancel|Resume|Change period/ }).count()).toBe(0);
+    expect(
+      await page
+        .getByRole('button')
+        .filter({ hasText: /payment|Cancel|Resume|Change period/ })
+        .count(),
+    ).toBe(0);
     await page.close();
   });
 });

@@ -9,7 +9,6 @@ import { APP_URL, DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helper
 
 const SHOTS = join(process.cwd(), '.data', 'screens');
 
-
 async function setTheme(page: Page, theme: 'light' | 'dark') {
   await page.evaluate((t) => {
     localStorage.setItem('airtally-theme', t);
@@ -17,9 +16,11 @@ async function setTheme(page: Page, theme: 'light' | 'dark') {
   }, theme);
 }
 
-
 /** Room ids of the table's rows, top to bottom. */
-const tableOrder = (page: Page) => page.locator('[data-testid="priorities-table"] tbody tr').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-room-id')));
+const tableOrder = (page: Page) =>
+  page
+    .locator('[data-testid="priorities-table"] tbody tr')
+    .evaluateAll((rows) => rows.map((r) => r.getAttribute('data-room-id')));
 
 describe('portfolio pages in Chromium', () => {
   let managerCookie: string;
@@ -27,19 +28,34 @@ describe('portfolio pages in Chromium', () => {
   beforeAll(async () => {
     mkdirSync(SHOTS, { recursive: true });
     managerCookie = await signIn(DEMO_ACCOUNTS.estates_manager);
-    await api('/api/priorities/weights', { method: 'PUT', cookie: managerCookie, body: JSON.stringify({ risk: 0.6, costEffectiveness: 0.3, payback: 0.1 }) });
-    const start = await api('/api/assessments', { method: 'POST', cookie: managerCookie, body: JSON.stringify({ scope: 'trust' }) });
+    await api('/api/priorities/weights', {
+      method: 'PUT',
+      cookie: managerCookie,
+      body: JSON.stringify({ risk: 0.6, costEffectiveness: 0.3, payback: 0.1 }),
+    });
+    const start = await api('/api/assessments', {
+      method: 'POST',
+      cookie: managerCookie,
+      body: JSON.stringify({ scope: 'trust' }),
+    });
     expect(start.status).toBe(202);
     const { id } = (await start.json()) as { id: string };
     for (let i = 0; i < 240; i += 1) {
-      const run = (await (await api(`/api/assessments/${id}`, { cookie: managerCookie })).json()) as { status: string; error?: string };
+      const run = (await (await api(`/api/assessments/${id}`, { cookie: managerCookie })).json()) as {
+        status: string;
+        error?: string;
+      };
       if (run.status === 'succeeded') break;
       if (run.status === 'failed') throw new Error(`Assessment failed: ${run.error}`);
       await new Promise((r) => setTimeout(r, 500));
     }
   });
   afterAll(async () => {
-    await api('/api/priorities/weights', { method: 'PUT', cookie: managerCookie, body: JSON.stringify({ risk: 0.6, costEffectiveness: 0.3, payback: 0.1 }) });
+    await api('/api/priorities/weights', {
+      method: 'PUT',
+      cookie: managerCookie,
+      body: JSON.stringify({ risk: 0.6, costEffectiveness: 0.3, payback: 0.1 }),
+    });
   });
 
   it('sends anonymous visitors to sign in', async () => {
@@ -61,7 +77,9 @@ describe('portfolio pages in Chromium', () => {
     expect(await page.getByRole('note', { name: 'Caution' }).count()).toBeGreaterThan(0);
 
     // Tick the first two rooms: the totals are their capital and pupils as the API reports them.
-    const apiPage = (await (await api('/api/priorities?sort=rank&pageSize=2', { cookie: await signIn(DEMO_ACCOUNTS.viewer) })).json()) as { rows: { capitalCostGbp: number | null; pupils: number }[] };
+    const apiPage = (await (
+      await api('/api/priorities?sort=rank&pageSize=2', { cookie: await signIn(DEMO_ACCOUNTS.viewer) })
+    ).json()) as { rows: { capitalCostGbp: number | null; pupils: number }[] };
     await page.locator('[data-testid="priorities-table"] tbody tr').nth(0).getByRole('checkbox').check();
     await page.locator('[data-testid="priorities-table"] tbody tr').nth(1).getByRole('checkbox').check();
     const totals = await page.locator('[data-testid="selection-totals"]').textContent();
@@ -90,9 +108,12 @@ describe('portfolio pages in Chromium', () => {
     await page.getByLabel('Cost-effectiveness', { exact: false }).first().focus();
     await page.keyboard.press('Home');
 
-    const expected = (await (await api('/api/priorities?sort=rank&pageSize=50&wRisk=0&wCost=0&wPayback=1', { cookie: managerCookie })).json()) as { rows: { roomId: string }[] };
+    const expected = (await (
+      await api('/api/priorities?sort=rank&pageSize=50&wRisk=0&wCost=0&wPayback=1', { cookie: managerCookie })
+    ).json()) as { rows: { roomId: string }[] };
     await page.waitForFunction(
-      (first) => document.querySelector('[data-testid="priorities-table"] tbody tr')?.getAttribute('data-room-id') === first,
+      (first) =>
+        document.querySelector('[data-testid="priorities-table"] tbody tr')?.getAttribute('data-room-id') === first,
       expected.rows[0]!.roomId,
     );
     const after = await tableOrder(page);
@@ -114,7 +135,8 @@ describe('portfolio pages in Chromium', () => {
       for (const theme of ['light', 'dark'] as const) {
         await page.goto(`${APP_URL}${path}`);
         await setTheme(page, theme);
-        if (path === '/app/priorities') await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();
+        if (path === '/app/priorities')
+          await page.locator('[data-testid="priorities-table"] tbody tr').first().waitFor();
         if (path === '/app') await page.locator('[data-testid="chart-co2"]').first().waitFor();
         expect(await seriousAxeViolations(page), `${path} (${theme})`).toEqual([]);
       }
@@ -125,7 +147,10 @@ describe('portfolio pages in Chromium', () => {
   it('shows a finance lead the money per unit, the baseline in words and the sensitivity with its chart', async () => {
     const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.finance_lead);
     await page.goto(`${APP_URL}/app/finance`);
-    const report = (await (await api('/api/finance', { cookie: await signIn(DEMO_ACCOUNTS.finance_lead) })).json()) as { totals: { units: number }; schools: { units: unknown[] }[] };
+    const report = (await (await api('/api/finance', { cookie: await signIn(DEMO_ACCOUNTS.finance_lead) })).json()) as {
+      totals: { units: number };
+      schools: { units: unknown[] }[];
+    };
     expect(report.totals.units).toBeGreaterThan(0);
     expect(await page.locator('[data-testid="finance-school-table"] tbody tr').count()).toBe(report.totals.units);
     // Schools are folded to their subtotals; opening one shows its units.
@@ -136,7 +161,9 @@ describe('portfolio pages in Chromium', () => {
     expect(await page.locator('[data-testid="baseline-words"]').textContent()).toContain('discount rate');
     expect(await page.locator('[data-testid="sensitivity-energy"] tbody tr').count()).toBe(7);
     expect(await page.getByRole('button', { name: 'Re-run assessment' }).count()).toBe(1);
-    expect(await page.getByRole('link', { name: 'Change financial assumptions' }).getAttribute('href')).toBe('/app/settings/assumptions');
+    expect(await page.getByRole('link', { name: 'Change financial assumptions' }).getAttribute('href')).toBe(
+      '/app/settings/assumptions',
+    );
     await page.locator('[data-testid="chart-sensitivity"]').scrollIntoViewIfNeeded();
     await page.locator('[data-testid="chart-sensitivity"] canvas').first().waitFor({ timeout: 20_000 });
     await page.screenshot({ path: join(SHOTS, 'finance-light.png') });

@@ -8,7 +8,9 @@ const SHOTS = process.env.AIRTALLY_TEST_DATA_DIR ?? '/tmp';
 
 /** The room with that code, as the API has it now. */
 async function roomByCode(cookie: string, code: string) {
-  const page = (await (await api(`/api/rooms?q=${encodeURIComponent(code)}&pageSize=10`, { cookie })).json()) as { rows: { code: string; pupils: number; ventilationType: string }[] };
+  const page = (await (await api(`/api/rooms?q=${encodeURIComponent(code)}&pageSize=10`, { cookie })).json()) as {
+    rows: { code: string; pupils: number; ventilationType: string }[];
+  };
   return page.rows.find((r) => r.code === code);
 }
 
@@ -30,7 +32,13 @@ describe('the register page in Chromium', () => {
     await signInInBrowser(page, trust.email);
     await page.goto(`${APP_URL}/app/register`);
     await page.getByRole('tab', { name: 'Import a register' }).click();
-    await page.getByTestId('register-file').setInputFiles({ name: 'fernhill survey.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: await messyRegister() });
+    await page
+      .getByTestId('register-file')
+      .setInputFiles({
+        name: 'fernhill survey.xlsx',
+        mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+        buffer: await messyRegister(),
+      });
     await page.getByTestId('import-preview').waitFor();
     expect(await page.getByTestId('summary-roomsToCreate').textContent()).toBe('5');
     expect(await page.getByTestId('summary-rowsRejected').textContent()).toBe('5');
@@ -87,8 +95,12 @@ describe('the register page in Chromium', () => {
     await page.getByRole('textbox', { name: 'Year built of block Main' }).fill('1972');
     await page.keyboard.press('Enter');
     await expect.poll(async () => page.getByRole('status').first().textContent()).toBe('Saved.');
-    const schools = (await (await api('/api/schools', { cookie: trust.cookie })).json()) as { schools: { id: string }[] };
-    const school = (await (await api(`/api/schools/${schools.schools[0]!.id}`, { cookie: trust.cookie })).json()) as { school: { blocks: { name: string; yearBuilt: number }[] } };
+    const schools = (await (await api('/api/schools', { cookie: trust.cookie })).json()) as {
+      schools: { id: string }[];
+    };
+    const school = (await (await api(`/api/schools/${schools.schools[0]!.id}`, { cookie: trust.cookie })).json()) as {
+      school: { blocks: { name: string; yearBuilt: number }[] };
+    };
     expect(school.school.blocks.find((b) => b.name === 'Main')?.yearBuilt).toBe(1972);
     await page.close();
   });

@@ -6,8 +6,13 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { APP_URL, DEMO_PASSWORD, signIn } from './session';
 
 const FLAGS = [
-  '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
-  '--disable-background-networking', '--disable-component-update', '--disable-sync',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
 ];
 
 /** A fresh Chromium profile in a temporary folder; closing the context deletes the folder. */
@@ -53,23 +58,43 @@ export async function openSignedInPage(email: string): Promise<{ page: Page; con
   await context.addCookies(
     cookie.split('; ').map((pair) => {
       const at = pair.indexOf('=');
-      return { name: pair.slice(0, at), value: pair.slice(at + 1), domain: url.hostname, path: '/', httpOnly: true, sameSite: 'Lax' as const };
+      return {
+        name: pair.slice(0, at),
+        value: pair.slice(at + 1),
+        domain: url.hostname,
+        path: '/',
+        httpOnly: true,
+        sameSite: 'Lax' as const,
+      };
     }),
   );
   return { page: await context.newPage(), context };
 }
 
 const AXE_SOURCE = readFileSync(join(process.cwd(), 'node_modules', 'axe-core', 'axe.min.js'), 'utf8');
-interface AxeViolation { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }
+interface AxeViolation {
+  id: string;
+  impact: string | null;
+  help: string;
+  nodes: { target: string[] }[];
+}
 
 /** Serious and critical axe-core violations on the page as it is now, one readable line each. */
 export async function seriousAxeViolations(page: Page): Promise<string[]> {
   await page.addScriptTag({ content: AXE_SOURCE });
   const violations = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } }).axe;
+    const axe = (
+      window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } }
+    ).axe;
     return (await axe.run(document, { resultTypes: ['violations'] })).violations;
   });
   return violations
     .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(', ')}`);
+    .map(
+      (v) =>
+        `${v.id} (${v.impact}): ${v.help} at ${v.nodes
+          .slice(0, 3)
+          .map((n) => n.target.join(' '))
+          .join(', ')}`,
+    );
 }

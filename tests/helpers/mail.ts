@@ -30,7 +30,8 @@ export async function waitForMail(to: string, subjectIncludes = '', timeoutMs = 
       .filter((m) => m.subject.toLowerCase().includes(subjectIncludes.toLowerCase()));
     const newest = found[found.length - 1];
     if (newest) return newest;
-    if (Date.now() > deadline) throw new Error(`No e-mail to ${to} about "${subjectIncludes}" arrived within ${timeoutMs} ms`);
+    if (Date.now() > deadline)
+      throw new Error(`No e-mail to ${to} about "${subjectIncludes}" arrived within ${timeoutMs} ms`);
     await new Promise((r) => setTimeout(r, 200));
   }
 }

@@ -61,7 +61,12 @@ export async function createOtherTrust(): Promise<{ cookie: string; trustId: str
   const email = uniqueEmail('other-trust');
   const response = await api('/api/account/sign-up', {
     method: 'POST',
-    body: JSON.stringify({ name: 'Other Trust Admin', email, password: DEMO_PASSWORD, trustName: `Other Test Trust ${email.slice(12, 20)}` }),
+    body: JSON.stringify({
+      name: 'Other Trust Admin',
+      email,
+      password: DEMO_PASSWORD,
+      trustName: `Other Test Trust ${email.slice(12, 20)}`,
+    }),
   });
   if (response.status !== 201) throw new Error(`Sign-up failed: ${response.status} ${await response.text()}`);
   const body = (await response.json()) as { trust: { id: string } };

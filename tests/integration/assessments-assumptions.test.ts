@@ -5,21 +5,47 @@ import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL!);
 
-interface Entry { path: string; value: unknown; source: string; status: string; kind: string; flagged: boolean }
-interface View { version: number; label: string; entries: Entry[]; catalogue: { id: string; nominalFlowLps: number; installedCostGbp: number }[]; versions: { version: number }[] }
+interface Entry {
+  path: string;
+  value: unknown;
+  source: string;
+  status: string;
+  kind: string;
+  flagged: boolean;
+}
+interface View {
+  version: number;
+  label: string;
+  entries: Entry[];
+  catalogue: { id: string; nominalFlowLps: number; installedCostGbp: number }[];
+  versions: { version: number }[];
+}
 
 describe('assumption sets', () => {
-  const cookies: Record<keyof typeof DEMO_ACCOUNTS, string> = { trust_admin: '', estates_manager: '', finance_lead: '', viewer: '' };
+  const cookies: Record<keyof typeof DEMO_ACCOUNTS, string> = {
+    trust_admin: '',
+    estates_manager: '',
+    finance_lead: '',
+    viewer: '',
+  };
   let original: View;
   beforeAll(async () => {
-    for (const role of Object.keys(DEMO_ACCOUNTS) as (keyof typeof DEMO_ACCOUNTS)[]) cookies[role] = await signIn(DEMO_ACCOUNTS[role]);
+    for (const role of Object.keys(DEMO_ACCOUNTS) as (keyof typeof DEMO_ACCOUNTS)[])
+      cookies[role] = await signIn(DEMO_ACCOUNTS[role]);
     original = await view();
   });
   afterAll(async () => {
     // Put the values other test files rely on back (as a new version: history is never rewritten).
     const valueOf = (path: string) => original.entries.find((e) => e.path === path)!.value;
-    await patch('trust_admin', { changes: ['air.outdoorCo2Ppm', 'finance.discountRate'].map((path) => ({ path, value: valueOf(path) })), summary: 'Restore after test' });
-    await api('/api/unit-models', { method: 'PUT', cookie: cookies.trust_admin, body: JSON.stringify({ models: original.catalogue, summary: 'Restore after test' }) });
+    await patch('trust_admin', {
+      changes: ['air.outdoorCo2Ppm', 'finance.discountRate'].map((path) => ({ path, value: valueOf(path) })),
+      summary: 'Restore after test',
+    });
+    await api('/api/unit-models', {
+      method: 'PUT',
+      cookie: cookies.trust_admin,
+      body: JSON.stringify({ models: original.catalogue, summary: 'Restore after test' }),
+    });
     await db.destroy();
   });
 
@@ -28,8 +54,10 @@ describe('assumption sets', () => {
     expect(response.status).toBe(200);
     return (await response.json()) as View;
   }
-  const patch = (role: keyof typeof DEMO_ACCOUNTS, body: unknown) => api('/api/assumptions', { method: 'PATCH', cookie: cookies[role], body: JSON.stringify(body) });
-  const putCatalogue = (role: keyof typeof DEMO_ACCOUNTS, models: unknown) => api('/api/unit-models', { method: 'PUT', cookie: cookies[role], body: JSON.stringify({ models }) });
+  const patch = (role: keyof typeof DEMO_ACCOUNTS, body: unknown) =>
+    api('/api/assumptions', { method: 'PATCH', cookie: cookies[role], body: JSON.stringify(body) });
+  const putCatalogue = (role: keyof typeof DEMO_ACCOUNTS, models: unknown) =>
+    api('/api/unit-models', { method: 'PUT', cookie: cookies[role], body: JSON.stringify({ models }) });
 
   it('shows every value with its source, status and kind; the BB101 cap conflict is flagged', async () => {
     const v = await view();
@@ -43,15 +71,25 @@ describe('assumption sets', () => {
     expect(v.entries.find((e) => e.path === 'finance.discountRate')!.kind).toBe('financial');
   });
 
-  it('an estates manager\'s technical edit makes a new version, audited; a financial edit is 403', async () => {
+  it("an estates manager's technical edit makes a new version, audited; a financial edit is 403", async () => {
     const before = await view();
-    const ok = await patch('estates_manager', { changes: [{ path: 'air.outdoorCo2Ppm', value: 450 }], summary: 'Busy road outside' });
+    const ok = await patch('estates_manager', {
+      changes: [{ path: 'air.outdoorCo2Ppm', value: 450 }],
+      summary: 'Busy road outside',
+    });
     expect(ok.status).toBe(201);
     const after = await view();
     expect(after.version).toBe(before.version + 1);
     expect(after.versions.length).toBe(before.versions.length + 1);
     expect(after.entries.find((e) => e.path === 'air.outdoorCo2Ppm')!.value).toBe(450);
-    const audit = await db.selectFrom('audit_events').select(['action', 'actor_email', 'after']).where('trust_id', '=', DEMO_TRUST.id).where('action', '=', 'assumptions.changed').orderBy('created_at', 'desc').limit(1).executeTakeFirstOrThrow();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'actor_email', 'after'])
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .where('action', '=', 'assumptions.changed')
+      .orderBy('created_at', 'desc')
+      .limit(1)
+      .executeTakeFirstOrThrow();
     expect(audit.actor_email).toBe(DEMO_ACCOUNTS.estates_manager);
     expect(audit.after).toEqual({ 'air.outdoorCo2Ppm': 450 });
 
@@ -61,7 +99,9 @@ describe('assumption sets', () => {
   });
 
   it('a finance lead edits financial values but not technical ones; a viewer edits nothing', async () => {
-    expect((await patch('finance_lead', { changes: [{ path: 'finance.discountRate', value: 0.05 }] })).status).toBe(201);
+    expect((await patch('finance_lead', { changes: [{ path: 'finance.discountRate', value: 0.05 }] })).status).toBe(
+      201,
+    );
     expect((await view()).entries.find((e) => e.path === 'finance.discountRate')!.value).toBe(0.05);
     expect((await patch('finance_lead', { changes: [{ path: 'air.outdoorCo2Ppm', value: 430 }] })).status).toBe(403);
     expect((await patch('viewer', { changes: [{ path: 'air.outdoorCo2Ppm', value: 430 }] })).status).toBe(403);
@@ -70,23 +110,40 @@ describe('assumption sets', () => {
   it('rejects out-of-range values, a changed form and unknown paths with 400 naming the assumption', async () => {
     const range = await patch('trust_admin', { changes: [{ path: 'air.outdoorCo2Ppm', value: 5000 }] });
     expect(range.status).toBe(400);
-    expect(((await range.json()) as { error: { details: { path: string } } }).error.details.path).toBe('air.outdoorCo2Ppm');
+    expect(((await range.json()) as { error: { details: { path: string } } }).error.details.path).toBe(
+      'air.outdoorCo2Ppm',
+    );
     expect((await patch('trust_admin', { changes: [{ path: 'air.outdoorCo2Ppm', value: 'lots' }] })).status).toBe(400);
     expect((await patch('trust_admin', { changes: [{ path: 'air.nothingHere', value: 1 }] })).status).toBe(400);
   });
 
   it('a run records the assumption version it used', async () => {
     const current = await view();
-    const started = await api('/api/assessments', { method: 'POST', cookie: cookies.estates_manager, body: JSON.stringify({ scope: 'trust' }) });
+    const started = await api('/api/assessments', {
+      method: 'POST',
+      cookie: cookies.estates_manager,
+      body: JSON.stringify({ scope: 'trust' }),
+    });
     const { id } = (await started.json()) as { id: string };
-    const run = await db.selectFrom('assessment_runs').select(['assumptions_version', 'assumption_set_id']).where('id', '=', id).executeTakeFirstOrThrow();
+    const run = await db
+      .selectFrom('assessment_runs')
+      .select(['assumptions_version', 'assumption_set_id'])
+      .where('id', '=', id)
+      .executeTakeFirstOrThrow();
     expect(run.assumptions_version).toBe(current.label);
     for (let i = 0; i < 100; i += 1) {
-      const status = (await (await api(`/api/assessments/${id}`, { cookie: cookies.viewer })).json()) as { status: string };
+      const status = (await (await api(`/api/assessments/${id}`, { cookie: cookies.viewer })).json()) as {
+        status: string;
+      };
       if (status.status === 'succeeded') break;
       await new Promise((r) => setTimeout(r, 200));
     }
-    const detail = await db.selectFrom('room_results').select('detail').where('run_id', '=', id).limit(1).executeTakeFirstOrThrow();
+    const detail = await db
+      .selectFrom('room_results')
+      .select('detail')
+      .where('run_id', '=', id)
+      .limit(1)
+      .executeTakeFirstOrThrow();
     expect((detail.detail as { assumptionsVersion: string }).assumptionsVersion).toBe(current.label);
   });
 
@@ -101,7 +158,10 @@ describe('assumption sets', () => {
     const after = await view();
     expect(after.catalogue[0]!.nominalFlowLps).toBe(catalogue[0]!.nominalFlowLps + 10);
     expect(after.catalogue[0]!.installedCostGbp).toBe(catalogue[0]!.installedCostGbp - 100);
-    const added = [...cheaper, { ...cheaper[0]!, id: 'ceiling-200', name: 'Ceiling cassette 200', nominalFlowLps: 200 }];
+    const added = [
+      ...cheaper,
+      { ...cheaper[0]!, id: 'ceiling-200', name: 'Ceiling cassette 200', nominalFlowLps: 200 },
+    ];
     expect((await putCatalogue('finance_lead', added)).status).toBe(403);
     const bad = await putCatalogue('trust_admin', [{ ...cheaper[0]!, heatRecoveryEfficiency: 1.5 }]);
     expect(bad.status).toBe(400);

@@ -34,7 +34,15 @@ const countRows = async (runId: string, currentOnly = false) => {
   return (await q.executeTakeFirstOrThrow()).n;
 };
 const currentRunIds = async () =>
-  (await db.selectFrom('room_results').select('run_id').distinct().where('trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).execute()).map((r) => r.run_id);
+  (
+    await db
+      .selectFrom('room_results')
+      .select('run_id')
+      .distinct()
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .where('is_current', '=', true)
+      .execute()
+  ).map((r) => r.run_id);
 
 describe('a crashed assessment worker', () => {
   let previousRunId: string;
@@ -43,7 +51,11 @@ describe('a crashed assessment worker', () => {
   beforeAll(async () => {
     // A finished run through the API, so there are current results a crash must not disturb.
     const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
+    const response = await api('/api/assessments', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ scope: 'trust' }),
+    });
     previousRunId = ((await response.json()) as { id: string }).id;
     for (let i = 0; i < 200; i += 1) {
       const run = await getRun(db, previousRunId, DEMO_TRUST.id);
@@ -59,12 +71,18 @@ describe('a crashed assessment worker', () => {
   it('killed midway leaves the previous results current, and the resumed run completes without duplicates', async () => {
     expect(await currentRunIds()).toEqual([previousRunId]);
     const runId = await newRun();
-    const child = spawn(join(process.cwd(), 'node_modules', '.bin', 'tsx'), [join('tests', 'integration', 'assessments-crash-worker.ts'), runId], {
-      cwd: process.cwd(),
-      env: process.env,
-      stdio: 'ignore',
-    });
-    const exited = new Promise<NodeJS.Signals | null>((resolve) => child.on('exit', (_code, signal) => resolve(signal)));
+    const child = spawn(
+      join(process.cwd(), 'node_modules', '.bin', 'tsx'),
+      [join('tests', 'integration', 'assessments-crash-worker.ts'), runId],
+      {
+        cwd: process.cwd(),
+        env: process.env,
+        stdio: 'ignore',
+      },
+    );
+    const exited = new Promise<NodeJS.Signals | null>((resolve) =>
+      child.on('exit', (_code, signal) => resolve(signal)),
+    );
     // Kill the worker once it has committed at least two chunks (25 rooms each) but not the whole run.
     for (let i = 0; i < 300; i += 1) {
       const run = await getRun(db, runId, DEMO_TRUST.id);
@@ -101,7 +119,9 @@ describe('a crashed assessment worker', () => {
     const crash = () => {
       throw new Error('simulated worker fault');
     };
-    await expect(attemptRun(runId, { retryCount: 2, retryLimit: 2 }, { chunkSize: 25, afterChunk: crash })).rejects.toThrow('simulated worker fault');
+    await expect(
+      attemptRun(runId, { retryCount: 2, retryLimit: 2 }, { chunkSize: 25, afterChunk: crash }),
+    ).rejects.toThrow('simulated worker fault');
     const failed = (await getRun(db, runId, DEMO_TRUST.id))!;
     expect(failed.status).toBe('failed');
     expect(failed.error).toContain('simulated worker fault');
@@ -115,7 +135,9 @@ describe('a crashed assessment worker', () => {
     const crash = () => {
       throw new Error('transient fault');
     };
-    await expect(attemptRun(runId, { retryCount: 0, retryLimit: 2 }, { chunkSize: 25, afterChunk: crash })).rejects.toThrow('transient fault');
+    await expect(
+      attemptRun(runId, { retryCount: 0, retryLimit: 2 }, { chunkSize: 25, afterChunk: crash }),
+    ).rejects.toThrow('transient fault');
     const paused = (await getRun(db, runId, DEMO_TRUST.id))!;
     expect(paused.status).toBe('running');
     expect(paused.error).toContain('transient fault');

@@ -9,8 +9,18 @@ const db = createDb(process.env.DATABASE_URL!);
 
 // The required header, typed out from the export's specification (not imported from the code under test).
 const REQUIRED_HEADER = [
-  'Rank', 'School', 'Block', 'Room code', 'Risk band', 'Daily mean CO2 (ppm)', 'Peak CO2 (ppm)', 'Units recommended',
-  'Capital cost (GBP)', 'Annual saving (GBP)', 'Simple payback (years)', 'NPV (GBP)',
+  'Rank',
+  'School',
+  'Block',
+  'Room code',
+  'Risk band',
+  'Daily mean CO2 (ppm)',
+  'Peak CO2 (ppm)',
+  'Units recommended',
+  'Capital cost (GBP)',
+  'Annual saving (GBP)',
+  'Simple payback (years)',
+  'NPV (GBP)',
 ];
 
 async function runTrust(cookie: string): Promise<void> {
@@ -44,10 +54,21 @@ describe('results export (.xlsx)', () => {
   beforeAll(async () => {
     estates = await signIn(DEMO_ACCOUNTS.estates_manager);
     // A room code that a spreadsheet would run as a formula if written as-is.
-    const room = await db.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').select(['rooms.id', 'rooms.code']).where('schools.trust_id', '=', DEMO_TRUST.id).orderBy('rooms.code').limit(1).executeTakeFirstOrThrow();
+    const room = await db
+      .selectFrom('rooms')
+      .innerJoin('schools', 'schools.id', 'rooms.school_id')
+      .select(['rooms.id', 'rooms.code'])
+      .where('schools.trust_id', '=', DEMO_TRUST.id)
+      .orderBy('rooms.code')
+      .limit(1)
+      .executeTakeFirstOrThrow();
     roomId = room.id;
     originalCode = room.code;
-    await db.updateTable('rooms').set({ code: '=HYPERLINK("http://example.invalid","x")' }).where('id', '=', roomId).execute();
+    await db
+      .updateTable('rooms')
+      .set({ code: '=HYPERLINK("http://example.invalid","x")' })
+      .where('id', '=', roomId)
+      .execute();
     await runTrust(estates);
   });
   afterAll(async () => {
@@ -59,12 +80,24 @@ describe('results export (.xlsx)', () => {
     const book = await download(await signIn(DEMO_ACCOUNTS.viewer));
     const results = book.getWorksheet('Results')!;
     expect(rowValues(results.getRow(1)).slice(0, REQUIRED_HEADER.length)).toEqual(REQUIRED_HEADER);
-    const current = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).executeTakeFirstOrThrow();
+    const current = await db
+      .selectFrom('room_results')
+      .select(sql<number>`count(*)::int`.as('n'))
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .where('is_current', '=', true)
+      .executeTakeFirstOrThrow();
     expect(results.actualRowCount - 1).toBe(current.n);
     const ranks = Array.from({ length: current.n }, (_, i) => results.getRow(i + 2).getCell(1).value);
     expect(ranks).toEqual(Array.from({ length: current.n }, (_, i) => i + 1));
     // Rank 1 matches the database's rank-1 row.
-    const top = await db.selectFrom('room_results').innerJoin('rooms', 'rooms.id', 'room_results.room_id').select(['rooms.code', 'room_results.mean_co2_ppm']).where('room_results.trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).where('rank', '=', 1).executeTakeFirstOrThrow();
+    const top = await db
+      .selectFrom('room_results')
+      .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+      .select(['rooms.code', 'room_results.mean_co2_ppm'])
+      .where('room_results.trust_id', '=', DEMO_TRUST.id)
+      .where('is_current', '=', true)
+      .where('rank', '=', 1)
+      .executeTakeFirstOrThrow();
     const first = results.getRow(2);
     expect(String(first.getCell(4).value).replace(/^'/, '')).toBe(top.code);
     expect(first.getCell(6).value).toBe(Math.round(top.mean_co2_ppm));

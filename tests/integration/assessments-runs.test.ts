@@ -37,7 +37,12 @@ async function startRun(cookie: string, body: unknown): Promise<string> {
 }
 
 const currentRows = () =>
-  db.selectFrom('room_results').select(['run_id', 'room_id', 'school_id', 'rank', 'risk_band', 'score_risk']).where('trust_id', '=', DEMO_TRUST.id).where('is_current', '=', true).execute();
+  db
+    .selectFrom('room_results')
+    .select(['run_id', 'room_id', 'school_id', 'rank', 'risk_band', 'score_risk'])
+    .where('trust_id', '=', DEMO_TRUST.id)
+    .where('is_current', '=', true)
+    .execute();
 
 describe('assessment runs API', () => {
   let estates: string;
@@ -57,13 +62,19 @@ describe('assessment runs API', () => {
     expect(done.startedAt).not.toBeNull();
     expect(new Date(done.finishedAt!).getTime()).toBeGreaterThanOrEqual(new Date(done.startedAt!).getTime());
 
-    const written = await db.selectFrom('room_results').select(sql<number>`count(*)::int`.as('n')).where('run_id', '=', id).executeTakeFirstOrThrow();
+    const written = await db
+      .selectFrom('room_results')
+      .select(sql<number>`count(*)::int`.as('n'))
+      .where('run_id', '=', id)
+      .executeTakeFirstOrThrow();
     expect(written.n + done.problems.length).toBe(demoRoomCount);
     const current = await currentRows();
     expect(current.length).toBe(written.n);
     expect(new Set(current.map((r) => r.run_id))).toEqual(new Set([id]));
     // Ranks are 1..n without gaps or repeats; bands 1–4; component scores 0–1.
-    expect(current.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(Array.from({ length: current.length }, (_, i) => i + 1));
+    expect(current.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(
+      Array.from({ length: current.length }, (_, i) => i + 1),
+    );
     for (const row of current) {
       expect(row.risk_band).toBeGreaterThanOrEqual(1);
       expect(row.risk_band).toBeLessThanOrEqual(4);
@@ -76,7 +87,16 @@ describe('assessment runs API', () => {
     const row = await db
       .selectFrom('room_results')
       .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
-      .select(['room_results.pupils', 'rooms.pupils as room_pupils', 'room_results.ventilation_type', 'rooms.ventilation_type as room_vent', 'room_results.units_recommended', 'room_results.unit_count', 'room_results.detail', 'room_results.reason'])
+      .select([
+        'room_results.pupils',
+        'rooms.pupils as room_pupils',
+        'room_results.ventilation_type',
+        'rooms.ventilation_type as room_vent',
+        'room_results.units_recommended',
+        'room_results.unit_count',
+        'room_results.detail',
+        'room_results.reason',
+      ])
       .where('room_results.trust_id', '=', DEMO_TRUST.id)
       .where('room_results.is_current', '=', true)
       .where('room_results.unit_count', '>', 0)
@@ -91,9 +111,15 @@ describe('assessment runs API', () => {
     for (const season of Object.values(detail.seasons)) expect(season.curve).toEqual([]);
   });
 
-  it('a school run replaces only that school\'s current results and re-ranks the whole trust', async () => {
+  it("a school run replaces only that school's current results and re-ranks the whole trust", async () => {
     const before = await currentRows();
-    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', DEMO_TRUST.id).orderBy('name').limit(1).executeTakeFirstOrThrow();
+    const school = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .orderBy('name')
+      .limit(1)
+      .executeTakeFirstOrThrow();
     const id = await startRun(estates, { scope: 'school', schoolId: school.id });
     const done = await waitForRun(estates, id);
     expect(done.status, done.error).toBe('succeeded');
@@ -103,7 +129,9 @@ describe('assessment runs API', () => {
       if (row.school_id === school.id) expect(row.run_id).toBe(id);
       else expect(row.run_id).not.toBe(id);
     }
-    expect(after.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(Array.from({ length: after.length }, (_, i) => i + 1));
+    expect(after.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(
+      Array.from({ length: after.length }, (_, i) => i + 1),
+    );
   });
 
   it('lists recent runs newest first', async () => {
@@ -117,7 +145,11 @@ describe('assessment runs API', () => {
 
   it('returns 403 when a viewer starts a run, 401 without a session', async () => {
     const viewer = await signIn(DEMO_ACCOUNTS.viewer);
-    const forbidden = await api('/api/assessments', { method: 'POST', cookie: viewer, body: JSON.stringify({ scope: 'trust' }) });
+    const forbidden = await api('/api/assessments', {
+      method: 'POST',
+      cookie: viewer,
+      body: JSON.stringify({ scope: 'trust' }),
+    });
     expect(forbidden.status).toBe(403);
     expect(((await forbidden.json()) as { error: { code: string } }).error.code).toBe('forbidden');
     const anonymous = await api('/api/assessments', { method: 'POST', body: JSON.stringify({ scope: 'trust' }) });
@@ -125,18 +157,36 @@ describe('assessment runs API', () => {
   });
 
   it('returns 400 naming the problem for a bad scope', async () => {
-    const response = await api('/api/assessments', { method: 'POST', cookie: estates, body: JSON.stringify({ scope: 'school' }) });
+    const response = await api('/api/assessments', {
+      method: 'POST',
+      cookie: estates,
+      body: JSON.stringify({ scope: 'school' }),
+    });
     expect(response.status).toBe(400);
     const body = (await response.json()) as { error: { code: string; message: string } };
     expect(body.error.message).toMatch(/schoolId|scope/);
   });
 
-  it('hides one trust\'s runs and schools from another trust (404)', async () => {
-    const [run] = await db.selectFrom('assessment_runs').select('id').where('trust_id', '=', DEMO_TRUST.id).limit(1).execute();
-    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', DEMO_TRUST.id).limit(1).executeTakeFirstOrThrow();
+  it("hides one trust's runs and schools from another trust (404)", async () => {
+    const [run] = await db
+      .selectFrom('assessment_runs')
+      .select('id')
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .limit(1)
+      .execute();
+    const school = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .limit(1)
+      .executeTakeFirstOrThrow();
     const other = await createOtherTrust();
     expect((await api(`/api/assessments/${run!.id}`, { cookie: other.cookie })).status).toBe(404);
-    const post = await api('/api/assessments', { method: 'POST', cookie: other.cookie, body: JSON.stringify({ scope: 'school', schoolId: school.id }) });
+    const post = await api('/api/assessments', {
+      method: 'POST',
+      cookie: other.cookie,
+      body: JSON.stringify({ scope: 'school', schoolId: school.id }),
+    });
     expect(post.status).toBe(404);
     const list = (await (await api('/api/assessments', { cookie: other.cookie })).json()) as { runs: unknown[] };
     expect(list.runs).toEqual([]);

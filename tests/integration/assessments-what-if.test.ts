@@ -6,9 +6,24 @@ import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session
 
 const db = createDb(process.env.DATABASE_URL!);
 
-interface Season { occupiedMeanCo2Ppm: number; peakCo2Ppm: number; ventilation: { totalLps: number; mechanicalLps: number }; curve: unknown[] }
-interface Assessment { worstSeason: 'winter' | 'mid' | 'summer'; seasons: Record<string, Season>; risk: { pupilHoursPerYearAbove: number }; occupants: number; ventilationClass: string }
-interface Answer { current: Assessment; whatIf: Assessment; changes: string[] }
+interface Season {
+  occupiedMeanCo2Ppm: number;
+  peakCo2Ppm: number;
+  ventilation: { totalLps: number; mechanicalLps: number };
+  curve: unknown[];
+}
+interface Assessment {
+  worstSeason: 'winter' | 'mid' | 'summer';
+  seasons: Record<string, Season>;
+  risk: { pupilHoursPerYearAbove: number };
+  occupants: number;
+  ventilationClass: string;
+}
+interface Answer {
+  current: Assessment;
+  whatIf: Assessment;
+  changes: string[];
+}
 
 /** Counts of every table a what-if could conceivably write to. */
 const snapshot = async () => {
@@ -28,17 +43,24 @@ describe('what-if on a room', () => {
     viewer = await signIn(DEMO_ACCOUNTS.viewer);
     // A naturally ventilated classroom with pupils and some openable window.
     room = await db
-      .selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id')
+      .selectFrom('rooms')
+      .innerJoin('schools', 'schools.id', 'rooms.school_id')
       .select(['rooms.id', 'rooms.pupils', 'rooms.openable_area_m2', 'rooms.glazing_area_m2'])
-      .where('schools.trust_id', '=', DEMO_TRUST.id).where('rooms.use', '=', 'classroom').where('rooms.ventilation_type', '=', 'natural_single_sided')
-      .where('rooms.pupils', '>=', 20).where('rooms.openable_area_m2', '>', 0.5)
-      .orderBy('rooms.code').limit(1).executeTakeFirstOrThrow();
+      .where('schools.trust_id', '=', DEMO_TRUST.id)
+      .where('rooms.use', '=', 'classroom')
+      .where('rooms.ventilation_type', '=', 'natural_single_sided')
+      .where('rooms.pupils', '>=', 20)
+      .where('rooms.openable_area_m2', '>', 0.5)
+      .orderBy('rooms.code')
+      .limit(1)
+      .executeTakeFirstOrThrow();
   });
   afterAll(async () => {
     await db.destroy();
   });
 
-  const ask = (body: unknown, cookie = viewer, id = room.id) => api(`/api/rooms/${id}/what-if`, { method: 'POST', cookie, body: JSON.stringify(body) });
+  const ask = (body: unknown, cookie = viewer, id = room.id) =>
+    api(`/api/rooms/${id}/what-if`, { method: 'POST', cookie, body: JSON.stringify(body) });
 
   it('answers a viewer without writing anything', async () => {
     const before = await snapshot();
@@ -50,7 +72,9 @@ describe('what-if on a room', () => {
     // More pupils in the same room: more occupants and never less CO2.
     expect(answer.whatIf.occupants).toBe(answer.current.occupants + 10);
     for (const s of ['winter', 'mid', 'summer']) {
-      expect(answer.whatIf.seasons[s]!.occupiedMeanCo2Ppm).toBeGreaterThan(answer.current.seasons[s]!.occupiedMeanCo2Ppm);
+      expect(answer.whatIf.seasons[s]!.occupiedMeanCo2Ppm).toBeGreaterThan(
+        answer.current.seasons[s]!.occupiedMeanCo2Ppm,
+      );
       expect(answer.whatIf.seasons[s]!.curve.length).toBeGreaterThan(0);
     }
   });
@@ -62,14 +86,18 @@ describe('what-if on a room', () => {
     expect(answer.whatIf.ventilationClass).toBe('mechanical');
     // 2 × 150 l/s from the default catalogue's "Wall unit 150".
     expect(answer.whatIf.seasons.winter!.ventilation.mechanicalLps).toBe(300);
-    expect(answer.whatIf.seasons.winter!.occupiedMeanCo2Ppm).toBeLessThan(answer.current.seasons.winter!.occupiedMeanCo2Ppm);
+    expect(answer.whatIf.seasons.winter!.occupiedMeanCo2Ppm).toBeLessThan(
+      answer.current.seasons.winter!.occupiedMeanCo2Ppm,
+    );
   });
 
   it('more openable window never raises summer CO2', async () => {
     const response = await ask({ openableAreaM2: room.glazing_area_m2 });
     expect(response.status).toBe(200);
     const answer = (await response.json()) as Answer;
-    expect(answer.whatIf.seasons.summer!.occupiedMeanCo2Ppm).toBeLessThanOrEqual(answer.current.seasons.summer!.occupiedMeanCo2Ppm);
+    expect(answer.whatIf.seasons.summer!.occupiedMeanCo2Ppm).toBeLessThanOrEqual(
+      answer.current.seasons.summer!.occupiedMeanCo2Ppm,
+    );
   });
 
   it('returns 400 with a usable message for an unknown unit model, an empty request or an impossible window', async () => {
@@ -82,9 +110,11 @@ describe('what-if on a room', () => {
     expect(((await window.json()) as { error: { message: string } }).error.message).toMatch(/glazing/);
   });
 
-  it('returns 404 for another trust\'s room and 401 without a session', async () => {
+  it("returns 404 for another trust's room and 401 without a session", async () => {
     const other = await createOtherTrust();
     expect((await ask({ pupils: 5 }, other.cookie)).status).toBe(404);
-    expect((await api(`/api/rooms/${room.id}/what-if`, { method: 'POST', body: JSON.stringify({ pupils: 5 }) })).status).toBe(401);
+    expect(
+      (await api(`/api/rooms/${room.id}/what-if`, { method: 'POST', body: JSON.stringify({ pupils: 5 }) })).status,
+    ).toBe(401);
   });
 });

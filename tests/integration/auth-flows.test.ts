@@ -1,7 +1,15 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { createDb } from '../../src/lib/server/db/client';
 import { linkIn, waitForMail } from '../helpers/mail';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, api, cookieFrom, createOtherTrust, signIn, uniqueEmail } from '../helpers/session';
+import {
+  DEMO_ACCOUNTS,
+  DEMO_PASSWORD,
+  api,
+  cookieFrom,
+  createOtherTrust,
+  signIn,
+  uniqueEmail,
+} from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL ?? '');
 afterAll(async () => {
@@ -30,7 +38,12 @@ describe('sign-up', () => {
   it('refuses an address that already has an account with 4xx and a message', async () => {
     const response = await api('/api/account/sign-up', {
       method: 'POST',
-      body: JSON.stringify({ name: 'Dup', email: DEMO_ACCOUNTS.viewer, password: DEMO_PASSWORD, trustName: 'Duplicate Trust' }),
+      body: JSON.stringify({
+        name: 'Dup',
+        email: DEMO_ACCOUNTS.viewer,
+        password: DEMO_PASSWORD,
+        trustName: 'Duplicate Trust',
+      }),
     });
     expect(response.status).toBeGreaterThanOrEqual(400);
     expect(response.status).toBeLessThan(500);
@@ -40,7 +53,11 @@ describe('sign-up', () => {
 
   it('keeps an unverified user from inviting until the e-mailed link confirms the address', async () => {
     const { cookie, email } = await createOtherTrust();
-    const before = await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }) });
+    const before = await api('/api/members', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }),
+    });
     expect(before.status).toBe(403);
     expect((await json<{ error: { code: string } }>(before)).error.code).toBe('email_unverified');
 
@@ -50,7 +67,11 @@ describe('sign-up', () => {
     expect(page.status).toBe(200);
     expect(await page.text()).toContain('your e-mail address is confirmed');
 
-    const after = await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }) });
+    const after = await api('/api/members', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ email: uniqueEmail('colleague'), role: 'viewer' }),
+    });
     expect(after.status).toBe(201);
     const verified = await db.selectFrom('user').select('emailVerified').where('email', '=', email).executeTakeFirst();
     expect(verified?.emailVerified).toBe(true);
@@ -64,7 +85,11 @@ describe('invitations', () => {
   it('invites by e-mail, the link accepts, and the invited role applies', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
     const email = uniqueEmail('invitee');
-    const invite = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'estates_manager' }) });
+    const invite = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({ email, role: 'estates_manager' }),
+    });
     expect(invite.status).toBe(201);
 
     const mail = await waitForMail(email, 'invited you');
@@ -86,45 +111,95 @@ describe('invitations', () => {
     expect(account.trust).toMatchObject({ id: 'demo-trust', role: 'estates_manager' });
     // An estates manager reads the estate but may not invite.
     expect((await api('/api/schools', { cookie })).status).toBe(200);
-    expect((await api('/api/members', { method: 'POST', cookie, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer' }) })).status).toBe(403);
+    expect(
+      (
+        await api('/api/members', {
+          method: 'POST',
+          cookie,
+          body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer' }),
+        })
+      ).status,
+    ).toBe(403);
 
-    const again = await api('/api/account/accept-invitation', { method: 'POST', cookie, body: JSON.stringify({ invitationId }) });
+    const again = await api('/api/account/accept-invitation', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ invitationId }),
+    });
     expect(again.status).toBe(409);
     expect((await json<{ error: { code: string; message: string } }>(again)).error.code).toBe('invitation_used');
     const usedPage = await api(`${link.pathname}${link.search}`);
     expect(await usedPage.text()).toContain('already been used');
 
-    const audit = await db.selectFrom('audit_events').select(['action', 'actor_email']).where('trust_id', '=', 'demo-trust').where('summary', 'like', `%${email}%`).execute();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'actor_email'])
+      .where('trust_id', '=', 'demo-trust')
+      .where('summary', 'like', `%${email}%`)
+      .execute();
     expect(audit.map((a) => a.action).sort()).toEqual(['member.invited', 'member.joined']);
   });
 
   it('carries school limits and an end date chosen when inviting onto the membership', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
     const email = uniqueEmail('head-teacher');
-    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').orderBy('name', 'desc').executeTakeFirstOrThrow();
+    const school = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', 'demo-trust')
+      .orderBy('name', 'desc')
+      .executeTakeFirstOrThrow();
     const tomorrow = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
-    const invite = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer', schoolIds: [school.id], accessEndsOn: tomorrow }) });
+    const invite = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({ email, role: 'viewer', schoolIds: [school.id], accessEndsOn: tomorrow }),
+    });
     expect(invite.status).toBe(201);
     const { invitation } = await json<{ invitation: { id: string } }>(invite);
-    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Head Teacher', email, password: DEMO_PASSWORD, invitationId: invitation.id }) });
+    const signUp = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'Head Teacher', email, password: DEMO_PASSWORD, invitationId: invitation.id }),
+    });
     const cookie = cookieFrom(signUp);
-    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ role: 'viewer', schoolIds: [school.id] });
-    const { members } = await json<{ members: { email: string; accessEndsOn: string | null }[] }>(await api('/api/members', { cookie: admin }));
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({
+      role: 'viewer',
+      schoolIds: [school.id],
+    });
+    const { members } = await json<{ members: { email: string; accessEndsOn: string | null }[] }>(
+      await api('/api/members', { cookie: admin }),
+    );
     expect(members.find((m) => m.email === email)?.accessEndsOn).toBe(tomorrow);
   });
 
   it('refuses invitation limits naming another trust’s school or a past end date', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const past = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer', accessEndsOn: '2020-01-31' }) });
+    const past = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer', accessEndsOn: '2020-01-31' }),
+    });
     expect(past.status).toBe(400);
     expect((await json<{ error: { message: string } }>(past)).error.message).toContain('after today');
-    const foreign = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'viewer', schoolIds: ['00000000-0000-4000-8000-000000000000'] }) });
+    const foreign = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({
+        email: uniqueEmail('x'),
+        role: 'viewer',
+        schoolIds: ['00000000-0000-4000-8000-000000000000'],
+      }),
+    });
     expect(foreign.status).toBe(400);
   });
 
   it('refuses an invitation with a role that does not exist', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const response = await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email: uniqueEmail('x'), role: 'owner' }) });
+    const response = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({ email: uniqueEmail('x'), role: 'owner' }),
+    });
     expect(response.status).toBe(400);
     expect((await json<{ error: { message: string } }>(response)).error.message).toContain('trust_admin');
   });
@@ -132,8 +207,14 @@ describe('invitations', () => {
   it('refuses an expired invitation with a clear message', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
     const email = uniqueEmail('late');
-    const invite = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
-    await db.updateTable('invitation').set({ expiresAt: new Date(Date.now() - 60_000) }).where('id', '=', invite.invitation.id).execute();
+    const invite = await json<{ invitation: { id: string } }>(
+      await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }),
+    );
+    await db
+      .updateTable('invitation')
+      .set({ expiresAt: new Date(Date.now() - 60_000) })
+      .where('id', '=', invite.invitation.id)
+      .execute();
     const response = await api('/api/account/sign-up', {
       method: 'POST',
       body: JSON.stringify({ name: 'Late', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }),
@@ -149,7 +230,11 @@ describe('members', () => {
     const { members } = await json<{ members: { id: string; role: string }[] }>(await api('/api/members', { cookie }));
     expect(members).toHaveLength(1);
     const self = members[0]!;
-    const demote = await api(`/api/members/${self.id}`, { method: 'PATCH', cookie, body: JSON.stringify({ role: 'viewer' }) });
+    const demote = await api(`/api/members/${self.id}`, {
+      method: 'PATCH',
+      cookie,
+      body: JSON.stringify({ role: 'viewer' }),
+    });
     expect(demote.status).toBe(409);
     expect((await json<{ error: { code: string } }>(demote)).error.code).toBe('last_trust_admin');
     const remove = await api(`/api/members/${self.id}`, { method: 'DELETE', cookie });
@@ -163,7 +248,9 @@ describe('members', () => {
     const list = await json<{ members: { email: string }[] }>(await api('/api/members', { cookie: other.cookie }));
     expect(list.members.map((m) => m.email)).toEqual([other.email]);
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const { members } = await json<{ members: { id: string; email: string }[] }>(await api('/api/members', { cookie: admin }));
+    const { members } = await json<{ members: { id: string; email: string }[] }>(
+      await api('/api/members', { cookie: admin }),
+    );
     const viewer = members.find((m) => m.email === DEMO_ACCOUNTS.viewer)!;
     const attempt = await api(`/api/members/${viewer.id}`, { method: 'DELETE', cookie: other.cookie });
     expect(attempt.status).toBe(404);
@@ -173,25 +260,54 @@ describe('members', () => {
   it('limits a member to chosen schools, ends access on the end date, and audits the role change', async () => {
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
     const email = uniqueEmail('consultant');
-    const invite = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
-    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Consultant', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }) });
+    const invite = await json<{ invitation: { id: string } }>(
+      await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }),
+    );
+    const signUp = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'Consultant', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }),
+    });
     const cookie = cookieFrom(signUp);
-    const { members } = await json<{ members: { id: string; email: string }[] }>(await api('/api/members', { cookie: admin }));
+    const { members } = await json<{ members: { id: string; email: string }[] }>(
+      await api('/api/members', { cookie: admin }),
+    );
     const memberId = members.find((m) => m.email === email)!.id;
-    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').orderBy('name').executeTakeFirstOrThrow();
+    const school = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', 'demo-trust')
+      .orderBy('name')
+      .executeTakeFirstOrThrow();
 
-    const limit = await api(`/api/members/${memberId}`, { method: 'PATCH', cookie: admin, body: JSON.stringify({ role: 'finance_lead', schoolIds: [school.id] }) });
+    const limit = await api(`/api/members/${memberId}`, {
+      method: 'PATCH',
+      cookie: admin,
+      body: JSON.stringify({ role: 'finance_lead', schoolIds: [school.id] }),
+    });
     expect(limit.status).toBe(200);
     const account = await json<AccountBody>(await api('/api/account', { cookie }));
     expect(account.trust).toMatchObject({ role: 'finance_lead', schoolIds: [school.id] });
     const visible = await json<{ schools: { id: string }[] }>(await api('/api/schools', { cookie }));
     expect(visible.schools.map((s) => s.id)).toEqual([school.id]);
-    const audit = await db.selectFrom('audit_events').select(['action', 'before', 'after']).where('entity_id', '=', memberId).where('action', '=', 'member.role_changed').executeTakeFirst();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'before', 'after'])
+      .where('entity_id', '=', memberId)
+      .where('action', '=', 'member.role_changed')
+      .executeTakeFirst();
     expect(audit?.before).toMatchObject({ role: 'viewer' });
     expect(audit?.after).toMatchObject({ role: 'finance_lead' });
 
     const today = new Date().toISOString().slice(0, 10);
-    expect((await api(`/api/members/${memberId}`, { method: 'PATCH', cookie: admin, body: JSON.stringify({ accessEndsOn: today }) })).status).toBe(200);
+    expect(
+      (
+        await api(`/api/members/${memberId}`, {
+          method: 'PATCH',
+          cookie: admin,
+          body: JSON.stringify({ accessEndsOn: today }),
+        })
+      ).status,
+    ).toBe(200);
     expect((await api('/api/schools', { cookie })).status).toBe(403);
     const page = await api('/app/schools', { cookie });
     expect(page.status).toBe(303);
@@ -202,7 +318,10 @@ describe('members', () => {
 describe('password reset', () => {
   // Each test uses a fresh account, so the only reset e-mail to it is the one asked for here.
   async function requestReset(email: string): Promise<string> {
-    const response = await api('/api/auth/request-password-reset', { method: 'POST', body: JSON.stringify({ email, redirectTo: '/reset-password' }) });
+    const response = await api('/api/auth/request-password-reset', {
+      method: 'POST',
+      body: JSON.stringify({ email, redirectTo: '/reset-password' }),
+    });
     expect(response.status).toBe(200);
     const mail = await waitForMail(email, 'new Airtally password');
     return linkIn(mail, '/reset-password').searchParams.get('token') ?? '';
@@ -213,24 +332,44 @@ describe('password reset', () => {
     const token = await requestReset(email);
     const newPassword = 'a-brand-new-password-1';
     const form = new URLSearchParams({ token, password: newPassword, confirm: newPassword });
-    const reset = await api('/reset-password', { method: 'POST', body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const reset = await api('/reset-password', {
+      method: 'POST',
+      body: form.toString(),
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expect(reset.status).toBe(200);
     expect(await reset.text()).toContain('Your password has been changed');
     await expect(signIn(email, DEMO_PASSWORD)).rejects.toThrow(/401/);
     expect(await signIn(email, newPassword)).toContain('session_token');
-    const audited = await db.selectFrom('audit_events').select('action').where('actor_email', '=', email).where('action', '=', 'account.password_reset').execute();
+    const audited = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('actor_email', '=', email)
+      .where('action', '=', 'account.password_reset')
+      .execute();
     expect(audited).toHaveLength(1);
 
-    const reused = await api('/api/auth/reset-password', { method: 'POST', body: JSON.stringify({ token, newPassword: 'yet-another-password-2' }) });
+    const reused = await api('/api/auth/reset-password', {
+      method: 'POST',
+      body: JSON.stringify({ token, newPassword: 'yet-another-password-2' }),
+    });
     expect(reused.status).toBe(400);
   });
 
   it('refuses an expired reset link with a clear message', async () => {
     const { email } = await createOtherTrust();
     const token = await requestReset(email);
-    await db.updateTable('verification').set({ expiresAt: new Date(Date.now() - 1000) }).where('identifier', '=', `reset-password:${token}`).execute();
+    await db
+      .updateTable('verification')
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where('identifier', '=', `reset-password:${token}`)
+      .execute();
     const form = new URLSearchParams({ token, password: 'another-password-3', confirm: 'another-password-3' });
-    const reset = await api('/reset-password', { method: 'POST', body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const reset = await api('/reset-password', {
+      method: 'POST',
+      body: form.toString(),
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expect(reset.status).toBe(400);
     expect(await reset.text()).toContain('expired or has already been used');
   });
@@ -240,20 +379,43 @@ describe('account page', () => {
   it('changes the password, signs out the other sessions and audits the change', async () => {
     const { cookie, email } = await createOtherTrust();
     const elsewhere = await signIn(email);
-    const form = new URLSearchParams({ action: 'change-password', currentPassword: DEMO_PASSWORD, newPassword: 'changed-password-4' });
-    const response = await api('/app/account', { method: 'POST', cookie, body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const form = new URLSearchParams({
+      action: 'change-password',
+      currentPassword: DEMO_PASSWORD,
+      newPassword: 'changed-password-4',
+    });
+    const response = await api('/app/account', {
+      method: 'POST',
+      cookie,
+      body: form.toString(),
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expect(response.status).toBe(303);
     expect(response.headers.get('location')).toBe('/app/account?notice=password-changed');
     expect((await api('/api/account', { cookie: elsewhere })).status).toBe(401);
     expect(await signIn(email, 'changed-password-4')).toContain('session_token');
-    const audit = await db.selectFrom('audit_events').select('action').where('actor_email', '=', email).where('action', '=', 'account.password_changed').execute();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('actor_email', '=', email)
+      .where('action', '=', 'account.password_changed')
+      .execute();
     expect(audit).toHaveLength(1);
   });
 
   it('says so when the current password is wrong', async () => {
     const { cookie } = await createOtherTrust();
-    const form = new URLSearchParams({ action: 'change-password', currentPassword: 'not-my-password', newPassword: 'changed-password-5' });
-    const response = await api('/app/account', { method: 'POST', cookie, body: form.toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const form = new URLSearchParams({
+      action: 'change-password',
+      currentPassword: 'not-my-password',
+      newPassword: 'changed-password-5',
+    });
+    const response = await api('/app/account', {
+      method: 'POST',
+      cookie,
+      body: form.toString(),
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expect(response.status).toBe(400);
     expect(await response.text()).toContain('Your current password is not right');
   });
@@ -262,7 +424,8 @@ describe('account page', () => {
 describe('brute force', () => {
   it('refuses the sixth wrong password within a minute with 429, even when it is right', async () => {
     const { email } = await createOtherTrust();
-    const attempt = (password: string) => api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email, password }) });
+    const attempt = (password: string) =>
+      api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email, password }) });
     const statuses: number[] = [];
     for (let i = 0; i < 5; i += 1) statuses.push((await attempt(`wrong-password-${i}`)).status);
     expect(statuses).toEqual([401, 401, 401, 401, 401]);
@@ -275,7 +438,10 @@ describe('brute force', () => {
 
 describe('sessions and cookies', () => {
   it('sets an httpOnly, SameSite=Lax session cookie and signs out everywhere', async () => {
-    const response = await api('/api/auth/sign-in/email', { method: 'POST', body: JSON.stringify({ email: DEMO_ACCOUNTS.finance_lead, password: DEMO_PASSWORD }) });
+    const response = await api('/api/auth/sign-in/email', {
+      method: 'POST',
+      body: JSON.stringify({ email: DEMO_ACCOUNTS.finance_lead, password: DEMO_PASSWORD }),
+    });
     const setCookie = response.headers.getSetCookie().find((c) => c.includes('session_token')) ?? '';
     expect(setCookie).toMatch(/HttpOnly/i);
     expect(setCookie).toMatch(/SameSite=Lax/i);
@@ -286,7 +452,12 @@ describe('sessions and cookies', () => {
     expect(revoke.status).toBe(200);
     expect((await api('/api/account', { cookie: first })).status).toBe(401);
     expect((await api('/api/account', { cookie: second })).status).toBe(401);
-    const audit = await db.selectFrom('audit_events').select('action').where('actor_email', '=', DEMO_ACCOUNTS.finance_lead).where('action', '=', 'account.signed_out_everywhere').execute();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('actor_email', '=', DEMO_ACCOUNTS.finance_lead)
+      .where('action', '=', 'account.signed_out_everywhere')
+      .execute();
     expect(audit).toHaveLength(1);
   });
 
@@ -314,18 +485,45 @@ describe('several trusts', () => {
 
     const email = uniqueEmail('two-trusts');
     const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const first = await json<{ invitation: { id: string } }>(await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }));
-    const signUp = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ name: 'Two Trusts', email, password: DEMO_PASSWORD, invitationId: first.invitation.id }) });
+    const first = await json<{ invitation: { id: string } }>(
+      await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }),
+    );
+    const signUp = await api('/api/account/sign-up', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'Two Trusts', email, password: DEMO_PASSWORD, invitationId: first.invitation.id }),
+    });
     const cookie = cookieFrom(signUp);
-    const second = await api('/api/members', { method: 'POST', cookie: other.cookie, body: JSON.stringify({ email, role: 'finance_lead' }) });
+    const second = await api('/api/members', {
+      method: 'POST',
+      cookie: other.cookie,
+      body: JSON.stringify({ email, role: 'finance_lead' }),
+    });
     expect(second.status).toBe(201);
     const secondId = (await json<{ invitation: { id: string } }>(second)).invitation.id;
-    expect((await api('/api/account/accept-invitation', { method: 'POST', cookie, body: JSON.stringify({ invitationId: secondId }) })).status).toBe(200);
-    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ id: other.trustId, role: 'finance_lead' });
+    expect(
+      (
+        await api('/api/account/accept-invitation', {
+          method: 'POST',
+          cookie,
+          body: JSON.stringify({ invitationId: secondId }),
+        })
+      ).status,
+    ).toBe(200);
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({
+      id: other.trustId,
+      role: 'finance_lead',
+    });
 
-    const switched = await api('/api/account/active-trust', { method: 'POST', cookie, body: JSON.stringify({ trustId: 'demo-trust' }) });
+    const switched = await api('/api/account/active-trust', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ trustId: 'demo-trust' }),
+    });
     expect(switched.status).toBe(200);
-    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({ id: 'demo-trust', role: 'viewer' });
+    expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({
+      id: 'demo-trust',
+      role: 'viewer',
+    });
 
     const fresh = await signIn(email);
     expect((await json<AccountBody>(await api('/api/account', { cookie: fresh }))).trust).toBeNull();

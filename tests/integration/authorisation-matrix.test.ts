@@ -15,17 +15,24 @@ function apiRoutes(dir = API_DIR): { file: string; methods: string[] }[] {
     if (entry.isDirectory()) return apiRoutes(path);
     if (!/\.(ts|js|mjs)$/.test(entry.name)) return [];
     const source = readFileSync(path, 'utf8');
-    const methods = [...source.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE|ALL)\b/g)].map((m) => m[1] ?? '');
+    const methods = [
+      ...source.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE|ALL)\b/g),
+    ].map((m) => m[1] ?? '');
     return [{ file: relative(API_DIR, path).split('\\').join('/'), methods }];
   });
 }
 
 /** Every feature's matrix entries (tests/integration/matrix/*.ts except types.ts). */
 async function loadEntries(): Promise<MatrixEntry[]> {
-  const files = readdirSync(MATRIX_DIR).filter((f) => f.endsWith('.ts') && f !== 'types.ts').sort();
-  const modules = await Promise.all(files.map((f) => import(pathToFileURL(join(MATRIX_DIR, f)).href) as Promise<{ entries?: MatrixEntry[] }>));
+  const files = readdirSync(MATRIX_DIR)
+    .filter((f) => f.endsWith('.ts') && f !== 'types.ts')
+    .sort();
+  const modules = await Promise.all(
+    files.map((f) => import(pathToFileURL(join(MATRIX_DIR, f)).href) as Promise<{ entries?: MatrixEntry[] }>),
+  );
   return modules.flatMap((m, i) => {
-    if (!Array.isArray(m.entries)) throw new Error(`tests/integration/matrix/${files[i]} must export entries: MatrixEntry[]`);
+    if (!Array.isArray(m.entries))
+      throw new Error(`tests/integration/matrix/${files[i]} must export entries: MatrixEntry[]`);
     return m.entries;
   });
 }
@@ -51,11 +58,16 @@ describe('authorisation matrix', () => {
   let context: MatrixContext;
   beforeAll(async () => {
     cookies.anonymous = undefined;
-    for (const role of ['viewer', 'finance_lead', 'estates_manager', 'trust_admin'] as const) cookies[role] = await signIn(DEMO_ACCOUNTS[role]);
+    for (const role of ['viewer', 'finance_lead', 'estates_manager', 'trust_admin'] as const)
+      cookies[role] = await signIn(DEMO_ACCOUNTS[role]);
     const other = await createOtherTrust();
     cookies.other_trust = other.cookie;
-    const schools = (await (await api('/api/schools', { cookie: cookies.trust_admin })).json()) as { schools: { id: string }[] };
-    const rooms = (await (await api('/api/rooms?pageSize=1', { cookie: cookies.trust_admin })).json()) as { rows: { id: string }[] };
+    const schools = (await (await api('/api/schools', { cookie: cookies.trust_admin })).json()) as {
+      schools: { id: string }[];
+    };
+    const rooms = (await (await api('/api/rooms?pageSize=1', { cookie: cookies.trust_admin })).json()) as {
+      rows: { id: string }[];
+    };
     context = {
       demoSchoolId: schools.schools[0]!.id,
       demoRoomId: rooms.rows[0]!.id,
@@ -70,7 +82,8 @@ describe('authorisation matrix', () => {
       const actual = {} as Record<Actor, number>;
       for (const actor of ACTORS) {
         const path = typeof entry.path === 'function' ? entry.path(context) : entry.path;
-        const body = typeof entry.body === 'function' ? (entry.body as (c: MatrixContext) => unknown)(context) : entry.body;
+        const body =
+          typeof entry.body === 'function' ? (entry.body as (c: MatrixContext) => unknown)(context) : entry.body;
         const cookie = cookies[actor];
         const response = await api(path, {
           method: entry.method,

@@ -20,7 +20,10 @@ export function provider(): Stripe {
 export async function fakeAdmin<T = unknown>(path: string, body: Record<string, string> = {}): Promise<T> {
   const response = await fetch(`${process.env.PAYMENTS_FAKE_URL}${path}`, {
     method: 'POST',
-    headers: { authorization: `Bearer ${process.env.STRIPE_SECRET_KEY}`, 'content-type': 'application/x-www-form-urlencoded' },
+    headers: {
+      authorization: `Bearer ${process.env.STRIPE_SECRET_KEY}`,
+      'content-type': 'application/x-www-form-urlencoded',
+    },
     body: new URLSearchParams(body),
   });
   if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
@@ -28,7 +31,11 @@ export async function fakeAdmin<T = unknown>(path: string, body: Record<string, 
 }
 
 /** Polls until `check` returns a value (not undefined/false) or fails after `timeoutMs`. */
-export async function waitUntil<T>(what: string, check: () => Promise<T | undefined | false>, timeoutMs = 15_000): Promise<T> {
+export async function waitUntil<T>(
+  what: string,
+  check: () => Promise<T | undefined | false>,
+  timeoutMs = 15_000,
+): Promise<T> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const value = await check();
@@ -64,7 +71,11 @@ export async function billingOf(cookie: string): Promise<BillingBody> {
 let schoolSeq = 0;
 /** POST /api/schools with a valid new school. */
 export function addSchool(cookie: string, name = `Test School ${Date.now()}-${(schoolSeq += 1)}`) {
-  return api('/api/schools', { method: 'POST', cookie, body: JSON.stringify({ name, phase: 'primary', climateRegion: 'midlands' }) });
+  return api('/api/schools', {
+    method: 'POST',
+    cookie,
+    body: JSON.stringify({ name, phase: 'primary', climateRegion: 'midlands' }),
+  });
 }
 
 /** A fresh trust whose admin has confirmed their e-mail (needed to start a paid plan). */
@@ -79,7 +90,11 @@ export async function verifiedTrust(): Promise<{ cookie: string; trustId: string
 
 /** Submits the fake's hosted checkout form with a card number, as a browser would. */
 export function payOnCheckoutPage(url: string, cardNumber: string, email = 'payer@test.airtally.test') {
-  return fetch(url, { method: 'POST', redirect: 'manual', body: new URLSearchParams({ email, cardNumber, expiry: '12 / 34', cvc: '123', name: 'Test Payer' }) });
+  return fetch(url, {
+    method: 'POST',
+    redirect: 'manual',
+    body: new URLSearchParams({ email, cardNumber, expiry: '12 / 34', cvc: '123', name: 'Test Payer' }),
+  });
 }
 
 /** Starts checkout through the API and pays with the test card; resolves once the webhook made the plan paid. */
@@ -96,8 +111,15 @@ export async function upgrade(cookie: string, interval: 'month' | 'year' = 'mont
 }
 
 /** The provider subscription id stored for a trust. */
-export async function subscriptionIdOf(db: import('kysely').Kysely<import('../../db/database').Database>, trustId: string): Promise<string> {
-  const row = await db.selectFrom('billing_accounts').select('provider_subscription_id').where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+export async function subscriptionIdOf(
+  db: import('kysely').Kysely<import('../../db/database').Database>,
+  trustId: string,
+): Promise<string> {
+  const row = await db
+    .selectFrom('billing_accounts')
+    .select('provider_subscription_id')
+    .where('trust_id', '=', trustId)
+    .executeTakeFirstOrThrow();
   if (!row.provider_subscription_id) throw new Error('no subscription stored');
   return row.provider_subscription_id;
 }

@@ -5,7 +5,16 @@ import Stripe from 'stripe';
 import { api } from '../helpers/session';
 import { testDb } from '../helpers/db';
 import { waitForMail } from '../helpers/mail';
-import { addSchool, billingOf, fakeAdmin, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
+import {
+  addSchool,
+  billingOf,
+  fakeAdmin,
+  provider,
+  subscriptionIdOf,
+  upgrade,
+  verifiedTrust,
+  waitUntil,
+} from './billing-fixture';
 
 const db = testDb();
 afterAll(() => db.destroy());
@@ -23,9 +32,20 @@ const sign = (payload: string, secret = process.env.STRIPE_WEBHOOK_SECRET ?? '')
   Stripe.webhooks.generateTestHeaderString({ payload, secret });
 
 async function countRows(trustId: string) {
-  const events = await db.selectFrom('payment_events').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
-  const audit = await db.selectFrom('audit_events').select((eb) => eb.fn.countAll<number>().as('n')).where('trust_id', '=', trustId).executeTakeFirstOrThrow();
-  const account = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', trustId).executeTakeFirst();
+  const events = await db
+    .selectFrom('payment_events')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .executeTakeFirstOrThrow();
+  const audit = await db
+    .selectFrom('audit_events')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('trust_id', '=', trustId)
+    .executeTakeFirstOrThrow();
+  const account = await db
+    .selectFrom('billing_accounts')
+    .selectAll()
+    .where('trust_id', '=', trustId)
+    .executeTakeFirst();
   return { events: Number(events.n), audit: Number(audit.n), account };
 }
 
@@ -65,7 +85,9 @@ describe('replays and order', () => {
     const events = await stripe.events.list({ type: 'customer.subscription.created', limit: 5 });
     const subscriptionId = await subscriptionIdOf(db, trustId);
     const created = events.data.find((e) => (e.data.object as Stripe.Subscription).id === subscriptionId)!;
-    await waitUntil('the event is stored', async () => Boolean(await db.selectFrom('payment_events').select('id').where('id', '=', created.id).executeTakeFirst()));
+    await waitUntil('the event is stored', async () =>
+      Boolean(await db.selectFrom('payment_events').select('id').where('id', '=', created.id).executeTakeFirst()),
+    );
     const before = await countRows(trustId);
 
     await fakeAdmin(`/_fake/events/${created.id}/redeliver`);
@@ -76,7 +98,7 @@ describe('replays and order', () => {
     expect(await countRows(trustId)).toEqual(before);
   });
 
-  it('ends in the provider\'s current state when events arrive in reverse order', async () => {
+  it("ends in the provider's current state when events arrive in reverse order", async () => {
     const { cookie, trustId } = await verifiedTrust();
     await upgrade(cookie);
     const stripe = provider();
@@ -94,7 +116,12 @@ describe('replays and order', () => {
       expect(released.length).toBeGreaterThanOrEqual(3);
     }
     const last = await waitUntil('every released event is stored', async () => {
-      const rows = await db.selectFrom('payment_events').select('type').where('trust_id', '=', trustId).where('type', '=', 'customer.subscription.updated').execute();
+      const rows = await db
+        .selectFrom('payment_events')
+        .select('type')
+        .where('trust_id', '=', trustId)
+        .where('type', '=', 'customer.subscription.updated')
+        .execute();
       return rows.length >= 3 ? rows : undefined;
     });
     expect(last.length).toBeGreaterThanOrEqual(3);
@@ -126,7 +153,8 @@ describe('payment failure', () => {
     expect(page).toContain('data-mode="grace"');
 
     // The provider's retries fail too: the subscription is unpaid and the trust read-only.
-    for (let attempt = 0; attempt < 3; attempt += 1) await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
+    for (let attempt = 0; attempt < 3; attempt += 1)
+      await fakeAdmin(`/_fake/subscriptions/${subscriptionId}/renew`, { outcome: 'fail' });
     await waitUntil('read-only mode', async () => (await billingOf(cookie)).billing.mode === 'read_only');
     const refused = await addSchool(cookie);
     expect(refused.status).toBe(402);
@@ -137,7 +165,10 @@ describe('payment failure', () => {
     expect((await api('/api/exports/register.csv', { cookie })).status).toBe(200);
     expect(await (await api('/app/schools', { cookie })).text()).toContain('data-mode="read_only"');
     const invite = await api('/app/settings/members', {
-      method: 'POST', cookie, headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'action=invite&email=colleague%40test.airtally.test&role=viewer',
+      method: 'POST',
+      cookie,
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: 'action=invite&email=colleague%40test.airtally.test&role=viewer',
     });
     expect(invite.status).toBe(402);
     expect(await invite.text()).toContain('nothing has been deleted');
@@ -146,7 +177,10 @@ describe('payment failure', () => {
     const billingPage = await (await api('/app/settings/billing', { cookie })).text();
     const invoiceUrl = /href="([^"]+\/invoices\/in_[^"]+)"[^>]*data-testid="pay-overdue"/.exec(billingPage)?.[1];
     expect(invoiceUrl).toBeDefined();
-    const paid = await fetch(invoiceUrl!, { method: 'POST', body: new URLSearchParams({ cardNumber: '4242 4242 4242 4242', expiry: '12/34', cvc: '123' }) });
+    const paid = await fetch(invoiceUrl!, {
+      method: 'POST',
+      body: new URLSearchParams({ cardNumber: '4242 4242 4242 4242', expiry: '12/34', cvc: '123' }),
+    });
     expect(paid.status).toBe(200);
     await waitUntil('writable again', async () => (await billingOf(cookie)).billing.mode === 'ok');
     expect((await addSchool(cookie)).status).toBe(201);

@@ -2,7 +2,17 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 import { testDb } from '../helpers/db';
-import { addSchool, billingOf, fakeAdmin, payOnCheckoutPage, provider, subscriptionIdOf, upgrade, verifiedTrust, waitUntil } from './billing-fixture';
+import {
+  addSchool,
+  billingOf,
+  fakeAdmin,
+  payOnCheckoutPage,
+  provider,
+  subscriptionIdOf,
+  upgrade,
+  verifiedTrust,
+  waitUntil,
+} from './billing-fixture';
 
 const db = testDb();
 afterAll(() => db.destroy());
@@ -36,17 +46,45 @@ describe('plans', () => {
     // Fixture: 60 rooms written straight to the database (the limit), then one more through the API.
     await db
       .insertInto('rooms')
-      .values(Array.from({ length: 60 }, (_, i) => ({ school_id: schoolId, code: `R${i + 1}`, floor_area_m2: 55, ceiling_height_m: 2.7, age_group: 'primary', ventilation_type: 'natural_single_sided' })))
+      .values(
+        Array.from({ length: 60 }, (_, i) => ({
+          school_id: schoolId,
+          code: `R${i + 1}`,
+          floor_area_m2: 55,
+          ceiling_height_m: 2.7,
+          age_group: 'primary',
+          ventilation_type: 'natural_single_sided',
+        })),
+      )
       .execute();
     const room = {
-      schoolId, blockId: null, code: 'R61', name: 'One too many', use: 'classroom', floorAreaM2: 55, ceilingHeightM: 2.7, pupils: 28, adults: 1,
-      ageGroup: 'primary', orientationDeg: 180, glazingAreaM2: 8, openableAreaM2: 2, windowType: 'side_hung', ventilationType: 'natural_single_sided',
-      mechanicalSupplyLps: null, notes: null,
+      schoolId,
+      blockId: null,
+      code: 'R61',
+      name: 'One too many',
+      use: 'classroom',
+      floorAreaM2: 55,
+      ceilingHeightM: 2.7,
+      pupils: 28,
+      adults: 1,
+      ageGroup: 'primary',
+      orientationDeg: 180,
+      glazingAreaM2: 8,
+      openableAreaM2: 2,
+      windowType: 'side_hung',
+      ventilationType: 'natural_single_sided',
+      mechanicalSupplyLps: null,
+      notes: null,
     };
     const refused = await api('/api/rooms', { method: 'POST', cookie, body: JSON.stringify(room) });
     expect(refused.status).toBe(402);
     expect(((await refused.json()) as ErrorBody).error.message).toMatch(/up to 60 rooms; this would make 61/);
-    const rooms = await db.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').select('rooms.id').where('schools.trust_id', '=', trustId).execute();
+    const rooms = await db
+      .selectFrom('rooms')
+      .innerJoin('schools', 'schools.id', 'rooms.school_id')
+      .select('rooms.id')
+      .where('schools.trust_id', '=', trustId)
+      .execute();
     expect(rooms).toHaveLength(60);
   });
 
@@ -73,7 +111,9 @@ describe('upgrade through hosted checkout', () => {
 
   it('leaves the trust on the free plan when the card is declined', async () => {
     const { cookie, trustId } = await verifiedTrust();
-    const { url } = (await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as { url: string };
+    const { url } = (await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as {
+      url: string;
+    };
     const declined = await payOnCheckoutPage(url, '4000 0000 0000 0002');
     expect(declined.status).toBe(402);
     expect(await declined.text()).toContain('Your card was declined.');
@@ -87,12 +127,25 @@ describe('upgrade through hosted checkout', () => {
     const { cookie, trustId } = await verifiedTrust();
     const before = Date.now();
     const { billing } = await upgrade(cookie);
-    expect(billing).toMatchObject({ plan: 'per_school', status: 'trialing', interval: 'month', quantity: 1, mode: 'ok' });
+    expect(billing).toMatchObject({
+      plan: 'per_school',
+      status: 'trialing',
+      interval: 'month',
+      quantity: 1,
+      mode: 'ok',
+    });
     const trialDays = (new Date(billing.trialEnd!).getTime() - before) / 86_400_000;
     expect(trialDays).toBeGreaterThan(29.9);
     expect(trialDays).toBeLessThan(30.1);
-    const audit = await db.selectFrom('audit_events').select(['action', 'summary']).where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
-    expect(audit.some((a) => /from Single School \(free\) to Whole Estate monthly, 1 school, trialing/.test(a.summary))).toBe(true);
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'summary'])
+      .where('trust_id', '=', trustId)
+      .where('action', '=', 'billing.plan_changed')
+      .execute();
+    expect(
+      audit.some((a) => /from Single School \(free\) to Whole Estate monthly, 1 school, trialing/.test(a.summary)),
+    ).toBe(true);
     // Once paid, the free plan's one-school limit no longer applies.
     expect((await addSchool(cookie)).status).toBe(201);
     expect((await addSchool(cookie)).status).toBe(201);
@@ -100,20 +153,31 @@ describe('upgrade through hosted checkout', () => {
 
   it('closes the earlier checkout page when checkout starts again, so only one can be paid', async () => {
     const { cookie, trustId } = await verifiedTrust();
-    const start = async () => ((await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as { url: string }).url;
+    const start = async () =>
+      ((await (await api('/api/billing/checkout', { method: 'POST', cookie, body: '{}' })).json()) as { url: string })
+        .url;
     const first = await start();
     const second = await start();
     const stale = await payOnCheckoutPage(first, '4242 4242 4242 4242');
     expect(stale.status).toBe(402);
     expect(await stale.text()).toContain('This checkout session is expired');
     expect((await payOnCheckoutPage(second, '4242 4242 4242 4242')).status).toBe(303);
-    await waitUntil('the webhook puts the trust on the paid plan', async () => (await billingOf(cookie)).billing.plan === 'per_school');
+    await waitUntil(
+      'the webhook puts the trust on the paid plan',
+      async () => (await billingOf(cookie)).billing.plan === 'per_school',
+    );
     // The subscription's own events may come before the checkout's; the completed checkout closes the open page record.
     const account = await waitUntil('the completed checkout is recorded', async () => {
-      const row = await db.selectFrom('billing_accounts').select(['provider_customer_id', 'open_checkout_session_id']).where('trust_id', '=', trustId).executeTakeFirstOrThrow();
+      const row = await db
+        .selectFrom('billing_accounts')
+        .select(['provider_customer_id', 'open_checkout_session_id'])
+        .where('trust_id', '=', trustId)
+        .executeTakeFirstOrThrow();
       return row.open_checkout_session_id === null ? row : undefined;
     });
-    expect((await provider().subscriptions.list({ customer: account.provider_customer_id!, status: 'all' })).data).toHaveLength(1);
+    expect(
+      (await provider().subscriptions.list({ customer: account.provider_customer_id!, status: 'all' })).data,
+    ).toHaveLength(1);
   });
 
   it('cancels a second subscription paid through another checkout page, and keeps the first', async () => {
@@ -124,14 +188,24 @@ describe('upgrade through hosted checkout', () => {
     const stripe = provider();
     const held = await stripe.subscriptions.retrieve(kept);
     const session = await stripe.checkout.sessions.create({
-      mode: 'subscription', customer: held.customer as string, client_reference_id: trustId,
+      mode: 'subscription',
+      customer: held.customer as string,
+      client_reference_id: trustId,
       line_items: [{ price: held.items.data[0]!.price.id, quantity: 1 }],
-      subscription_data: { metadata: { trust_id: trustId } }, metadata: { trust_id: trustId },
-      success_url: 'http://127.0.0.1/ok', cancel_url: 'http://127.0.0.1/cancelled',
+      subscription_data: { metadata: { trust_id: trustId } },
+      metadata: { trust_id: trustId },
+      success_url: 'http://127.0.0.1/ok',
+      cancel_url: 'http://127.0.0.1/cancelled',
     });
     expect((await payOnCheckoutPage(session.url!, '4242 4242 4242 4242')).status).toBe(303);
     const audit = await waitUntil('the second subscription is cancelled', () =>
-      db.selectFrom('audit_events').select(['entity_id', 'summary']).where('trust_id', '=', trustId).where('action', '=', 'billing.duplicate_cancelled').executeTakeFirst());
+      db
+        .selectFrom('audit_events')
+        .select(['entity_id', 'summary'])
+        .where('trust_id', '=', trustId)
+        .where('action', '=', 'billing.duplicate_cancelled')
+        .executeTakeFirst(),
+    );
     expect(audit.entity_id).not.toBe(kept);
     expect((await stripe.subscriptions.retrieve(audit.entity_id!)).status).toBe('canceled');
     expect((await stripe.subscriptions.retrieve(kept)).status).toBe('trialing');
@@ -164,12 +238,21 @@ describe('subscription quantity follows the schools', () => {
     expect([billing.schoolCount, billing.quantity]).toEqual([2, 2]);
 
     const preview = await stripe.invoices.createPreview({ subscription: subscriptionId });
-    const proration = preview.lines.data.filter((l) => l.parent?.subscription_item_details?.proration).reduce((sum, l) => sum + l.amount, 0);
+    const proration = preview.lines.data
+      .filter((l) => l.parent?.subscription_item_details?.proration)
+      .reduce((sum, l) => sum + l.amount, 0);
     // One school added at the very start of a monthly period costs (almost) one month: £24.
     expect(proration).toBeGreaterThan(2380);
     expect(proration).toBeLessThanOrEqual(2400);
-    const audit = await db.selectFrom('audit_events').select('summary').where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
-    expect(audit.some((a) => /to Whole Estate monthly, 2 schools, active \(school count is now 2\)/.test(a.summary))).toBe(true);
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('summary')
+      .where('trust_id', '=', trustId)
+      .where('action', '=', 'billing.plan_changed')
+      .execute();
+    expect(
+      audit.some((a) => /to Whole Estate monthly, 2 schools, active \(school count is now 2\)/.test(a.summary)),
+    ).toBe(true);
   });
 });
 
@@ -180,27 +263,48 @@ describe('managing the subscription', () => {
     const stripe = provider();
     const subscriptionId = await subscriptionIdOf(db, trustId);
 
-    const yearly = await api('/api/billing/period', { method: 'POST', cookie, body: JSON.stringify({ interval: 'year' }) });
+    const yearly = await api('/api/billing/period', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ interval: 'year' }),
+    });
     expect(yearly.status).toBe(200);
     expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.price.recurring?.interval).toBe('year');
     expect((await billingOf(cookie)).billing.interval).toBe('year');
 
     const notConfirmed = await api('/api/billing/cancel', { method: 'POST', cookie, body: '{}' });
     expect(notConfirmed.status).toBe(400);
-    const cancel = await api('/api/billing/cancel', { method: 'POST', cookie, body: JSON.stringify({ atPeriodEnd: true }) });
+    const cancel = await api('/api/billing/cancel', {
+      method: 'POST',
+      cookie,
+      body: JSON.stringify({ atPeriodEnd: true }),
+    });
     expect(cancel.status).toBe(200);
     expect((await stripe.subscriptions.retrieve(subscriptionId)).cancel_at_period_end).toBe(true);
     const cancelling = await billingOf(cookie);
-    expect([cancelling.billing.cancelAtPeriodEnd, cancelling.billing.plan, cancelling.upcoming]).toEqual([true, 'per_school', null]);
+    expect([cancelling.billing.cancelAtPeriodEnd, cancelling.billing.plan, cancelling.upcoming]).toEqual([
+      true,
+      'per_school',
+      null,
+    ]);
 
     const resume = await api('/api/billing/resume', { method: 'POST', cookie });
     expect(resume.status).toBe(200);
     expect((await stripe.subscriptions.retrieve(subscriptionId)).cancel_at_period_end).toBe(false);
 
-    const invoices = (await (await api('/api/billing/invoices', { cookie })).json()) as { invoices: { status: string }[] };
+    const invoices = (await (await api('/api/billing/invoices', { cookie })).json()) as {
+      invoices: { status: string }[];
+    };
     expect(invoices.invoices.length).toBeGreaterThan(0);
-    const actions = await db.selectFrom('audit_events').select('summary').where('trust_id', '=', trustId).where('action', '=', 'billing.plan_changed').execute();
-    expect(actions.map((a) => a.summary).join('\n')).toMatch(/yearly[\s\S]*cancels at period end[\s\S]*resumed by a trust admin/);
+    const actions = await db
+      .selectFrom('audit_events')
+      .select('summary')
+      .where('trust_id', '=', trustId)
+      .where('action', '=', 'billing.plan_changed')
+      .execute();
+    expect(actions.map((a) => a.summary).join('\n')).toMatch(
+      /yearly[\s\S]*cancels at period end[\s\S]*resumed by a trust admin/,
+    );
   });
 });
 
@@ -209,7 +313,10 @@ describe('the end of a cancelled subscription', () => {
     const { cookie, trustId } = await verifiedTrust();
     await upgrade(cookie);
     for (let i = 0; i < 3; i += 1) expect((await addSchool(cookie)).status).toBe(201);
-    expect((await api('/api/billing/cancel', { method: 'POST', cookie, body: JSON.stringify({ atPeriodEnd: true }) })).status).toBe(200);
+    expect(
+      (await api('/api/billing/cancel', { method: 'POST', cookie, body: JSON.stringify({ atPeriodEnd: true }) }))
+        .status,
+    ).toBe(200);
     await fakeAdmin(`/_fake/subscriptions/${await subscriptionIdOf(db, trustId)}/renew`);
     const { billing } = await waitUntil('the provider ends the subscription', async () => {
       const body = await billingOf(cookie);
@@ -234,12 +341,20 @@ describe('only trust admins manage billing', () => {
   for (const role of ['viewer', 'finance_lead', 'estates_manager'] as const) {
     it(`answers 403 to the ${role.replace('_', ' ')} on every billing call and changes nothing`, async () => {
       const cookie = await signIn(DEMO_ACCOUNTS[role]);
-      const before = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', 'demo-trust').executeTakeFirstOrThrow();
+      const before = await db
+        .selectFrom('billing_accounts')
+        .selectAll()
+        .where('trust_id', '=', 'demo-trust')
+        .executeTakeFirstOrThrow();
       for (const [method, path, body] of writes) {
         const response = await api(path, { method, cookie, ...(body ? { body } : {}) });
         expect(response.status, `${method} ${path}`).toBe(403);
       }
-      const after = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', 'demo-trust').executeTakeFirstOrThrow();
+      const after = await db
+        .selectFrom('billing_accounts')
+        .selectAll()
+        .where('trust_id', '=', 'demo-trust')
+        .executeTakeFirstOrThrow();
       expect(after).toEqual(before);
       const page = await api('/app/settings/billing', { cookie });
       expect(page.status).toBe(200);
@@ -253,7 +368,10 @@ describe('only trust admins manage billing', () => {
   it('refuses a form post to the billing page from a viewer', async () => {
     const cookie = await signIn(DEMO_ACCOUNTS.viewer);
     const response = await api('/app/settings/billing', {
-      method: 'POST', cookie, headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'action=cancel',
+      method: 'POST',
+      cookie,
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: 'action=cancel',
     });
     expect(response.status).toBe(403);
   });

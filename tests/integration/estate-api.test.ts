@@ -3,10 +3,20 @@ import { DEMO_SCHOOLS, demoRooms } from '../../db/seed/demo-trust';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 // Expected values come from the demo scenario definition (db/seed/demo-trust.ts), not from the API.
-const expectedRooms = DEMO_SCHOOLS.flatMap((school, index) => demoRooms(school, index).map((room) => ({ ...room, school: school.name })));
+const expectedRooms = DEMO_SCHOOLS.flatMap((school, index) =>
+  demoRooms(school, index).map((room) => ({ ...room, school: school.name })),
+);
 
 interface RoomsPage {
-  rows: { id: string; code: string; schoolName: string; floorAreaM2: number; pupils: number; use: string; ventilationType: string }[];
+  rows: {
+    id: string;
+    code: string;
+    schoolName: string;
+    floorAreaM2: number;
+    pupils: number;
+    use: string;
+    ventilationType: string;
+  }[];
   total: number;
   page: number;
   pageSize: number;
@@ -30,7 +40,9 @@ describe('estate API', () => {
   });
 
   it('lists every seeded school with its room and pupil counts', async () => {
-    const { schools } = await getJson<{ schools: { name: string; roomCount: number; pupilCount: number; blockCount: number }[] }>('/api/schools');
+    const { schools } = await getJson<{
+      schools: { name: string; roomCount: number; pupilCount: number; blockCount: number }[];
+    }>('/api/schools');
     expect(schools.map((s) => s.name).sort()).toEqual(DEMO_SCHOOLS.map((s) => s.name).sort());
     for (const [index, school] of DEMO_SCHOOLS.entries()) {
       const rooms = demoRooms(school, index);
@@ -44,8 +56,14 @@ describe('estate API', () => {
   it('returns one school with its blocks', async () => {
     const { schools } = await getJson<{ schools: { id: string; name: string }[] }>('/api/schools');
     const target = schools.find((s) => s.name === 'Copperwick Academy')!;
-    const { school } = await getJson<{ school: { name: string; blocks: { name: string }[] } }>(`/api/schools/${target.id}`);
-    expect(school.blocks.map((b) => b.name).sort()).toEqual(DEMO_SCHOOLS.find((s) => s.name === 'Copperwick Academy')!.blocks.map((b) => b.name).sort());
+    const { school } = await getJson<{ school: { name: string; blocks: { name: string }[] } }>(
+      `/api/schools/${target.id}`,
+    );
+    expect(school.blocks.map((b) => b.name).sort()).toEqual(
+      DEMO_SCHOOLS.find((s) => s.name === 'Copperwick Academy')!
+        .blocks.map((b) => b.name)
+        .sort(),
+    );
   });
 
   it('pages through all rooms without losing or repeating any', async () => {
@@ -63,7 +81,10 @@ describe('estate API', () => {
 
   it('sorts rooms by floor area, largest first', async () => {
     const body = await getJson<RoomsPage>('/api/rooms?sort=floorAreaM2&dir=desc&pageSize=5');
-    const largest = [...expectedRooms].sort((a, b) => b.floorAreaM2 - a.floorAreaM2).slice(0, 5).map((r) => r.floorAreaM2);
+    const largest = [...expectedRooms]
+      .sort((a, b) => b.floorAreaM2 - a.floorAreaM2)
+      .slice(0, 5)
+      .map((r) => r.floorAreaM2);
     expect(body.rows.map((r) => r.floorAreaM2)).toEqual(largest);
   });
 

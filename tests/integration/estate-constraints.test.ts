@@ -34,9 +34,17 @@ describe('room constraints', () => {
 
   beforeAll(async () => {
     db = testDb();
-    const schools = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').orderBy('name').limit(2).execute();
+    const schools = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', 'demo-trust')
+      .orderBy('name')
+      .limit(2)
+      .execute();
     schoolId = schools[0]!.id;
-    otherSchoolBlockId = (await db.selectFrom('blocks').select('id').where('school_id', '=', schools[1]!.id).executeTakeFirstOrThrow()).id;
+    otherSchoolBlockId = (
+      await db.selectFrom('blocks').select('id').where('school_id', '=', schools[1]!.id).executeTakeFirstOrThrow()
+    ).id;
   });
   afterAll(async () => {
     await db.deleteFrom('rooms').where('code', 'like', 'T-%').execute();
@@ -50,7 +58,14 @@ describe('room constraints', () => {
 
   for (const [what, change, constraint] of IMPOSSIBLE_ROOMS) {
     it(`rejects a room with ${what}, with a message a person can act on`, async () => {
-      const error = await db.insertInto('rooms').values({ ...base(), ...change }).execute().then(() => null, (e: unknown) => e);
+      const error = await db
+        .insertInto('rooms')
+        .values({ ...base(), ...change })
+        .execute()
+        .then(
+          () => null,
+          (e: unknown) => e,
+        );
       expect(error).toMatchObject({ constraint });
       const appError = fromDatabaseError(error);
       expect(appError?.status).toBe(400);
@@ -61,12 +76,29 @@ describe('room constraints', () => {
   it('rejects a second room with the same code in the same school as a conflict', async () => {
     const room = base();
     await db.insertInto('rooms').values(room).execute();
-    const error = await db.insertInto('rooms').values({ ...base(), code: room.code }).execute().then(() => null, (e: unknown) => e);
-    expect(fromDatabaseError(error)).toMatchObject({ status: 409, message: expect.stringMatching(/unique within a school/) });
+    const error = await db
+      .insertInto('rooms')
+      .values({ ...base(), code: room.code })
+      .execute()
+      .then(
+        () => null,
+        (e: unknown) => e,
+      );
+    expect(fromDatabaseError(error)).toMatchObject({
+      status: 409,
+      message: expect.stringMatching(/unique within a school/),
+    });
   });
 
   it('rejects a room placed in a block of another school', async () => {
-    const error = await db.insertInto('rooms').values({ ...base(), block_id: otherSchoolBlockId }).execute().then(() => null, (e: unknown) => e);
+    const error = await db
+      .insertInto('rooms')
+      .values({ ...base(), block_id: otherSchoolBlockId })
+      .execute()
+      .then(
+        () => null,
+        (e: unknown) => e,
+      );
     expect(error).toMatchObject({ constraint: 'rooms_block_in_same_school' });
   });
 
@@ -76,7 +108,14 @@ describe('room constraints', () => {
       .innerJoin('rooms', 'rooms.block_id', 'blocks.id')
       .select('blocks.id')
       .executeTakeFirstOrThrow();
-    const error = await db.deleteFrom('blocks').where('id', '=', block.id).execute().then(() => null, (e: unknown) => e);
+    const error = await db
+      .deleteFrom('blocks')
+      .where('id', '=', block.id)
+      .execute()
+      .then(
+        () => null,
+        (e: unknown) => e,
+      );
     expect(fromDatabaseError(error)?.status).toBe(409);
   });
 });

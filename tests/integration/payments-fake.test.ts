@@ -33,18 +33,25 @@ async function waitFor<T>(what: string, find: () => T | undefined, timeoutMs = 1
 }
 
 const eventsOf = (type: string, objectId?: string) =>
-  received.filter((r) => r.event.type === type && (!objectId || (r.event.data.object as { id?: string }).id === objectId));
+  received.filter(
+    (r) => r.event.type === type && (!objectId || (r.event.data.object as { id?: string }).id === objectId),
+  );
 
 async function monthlyPrice(unitAmount = 2400, lookupKey?: string): Promise<Stripe.Price> {
   return stripe.prices.create({
-    currency: 'gbp', unit_amount: unitAmount, recurring: { interval: 'month' }, product_data: { name: 'Whole Estate' },
+    currency: 'gbp',
+    unit_amount: unitAmount,
+    recurring: { interval: 'month' },
+    product_data: { name: 'Whole Estate' },
     ...(lookupKey ? { lookup_key: lookupKey } : {}),
   });
 }
 
 async function admin(path: string, body: Record<string, string> = {}) {
   const response = await fetch(`http://127.0.0.1:${fake.port}${path}`, {
-    method: 'POST', headers: { authorization: `Bearer ${KEY}`, 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams(body),
+    method: 'POST',
+    headers: { authorization: `Bearer ${KEY}`, 'content-type': 'application/x-www-form-urlencoded' },
+    body: new URLSearchParams(body),
   });
   return response.json();
 }
@@ -67,8 +74,14 @@ beforeAll(async () => {
   await new Promise<void>((r) => receiver.listen(0, '127.0.0.1', () => r()));
   const receiverPort = (receiver.address() as { port: number }).port;
   fake = await startPaymentsFake({
-    port: 0, apiKey: KEY, webhookUrl: `http://127.0.0.1:${receiverPort}/hook`, webhookSecret: WEBHOOK_SECRET,
-    retryBaseMs: 40, maxAttempts: 5, stateFile: null, log: () => undefined,
+    port: 0,
+    apiKey: KEY,
+    webhookUrl: `http://127.0.0.1:${receiverPort}/hook`,
+    webhookSecret: WEBHOOK_SECRET,
+    retryBaseMs: 40,
+    maxAttempts: 5,
+    stateFile: null,
+    log: () => undefined,
   });
   stripe = new Stripe(KEY, { host: '127.0.0.1', port: fake.port, protocol: 'http', maxNetworkRetries: 0 });
 });
@@ -80,7 +93,11 @@ afterAll(async () => {
 
 describe('payments fake: API objects and errors through the SDK', () => {
   it('creates and retrieves a customer with metadata', async () => {
-    const created = await stripe.customers.create({ email: 'bursar@example.test', name: 'Example Trust', metadata: { trust_id: 't-1' } });
+    const created = await stripe.customers.create({
+      email: 'bursar@example.test',
+      name: 'Example Trust',
+      metadata: { trust_id: 't-1' },
+    });
     expect(created.id).toMatch(/^cus_/);
     const fetched = await stripe.customers.retrieve(created.id);
     expect(fetched).toMatchObject({ object: 'customer', email: 'bursar@example.test', metadata: { trust_id: 't-1' } });
@@ -93,7 +110,12 @@ describe('payments fake: API objects and errors through the SDK', () => {
   });
 
   it('refuses a wrong secret key with an authentication error', async () => {
-    const other = new Stripe('sk_test_wrong', { host: '127.0.0.1', port: fake.port, protocol: 'http', maxNetworkRetries: 0 });
+    const other = new Stripe('sk_test_wrong', {
+      host: '127.0.0.1',
+      port: fake.port,
+      protocol: 'http',
+      maxNetworkRetries: 0,
+    });
     const error = await other.customers.create({}).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(Stripe.errors.StripeAuthenticationError);
   });
@@ -110,7 +132,9 @@ describe('payments fake: API objects and errors through the SDK', () => {
     const first = await stripe.customers.create({ email: 'once@example.test' }, { idempotencyKey: 'key-123' });
     const again = await stripe.customers.create({ email: 'once@example.test' }, { idempotencyKey: 'key-123' });
     expect(again.id).toBe(first.id);
-    const clash = await stripe.customers.create({ email: 'other@example.test' }, { idempotencyKey: 'key-123' }).catch((e: unknown) => e);
+    const clash = await stripe.customers
+      .create({ email: 'other@example.test' }, { idempotencyKey: 'key-123' })
+      .catch((e: unknown) => e);
     expect(clash).toBeInstanceOf(Stripe.errors.StripeIdempotencyError);
   });
 });
@@ -120,8 +144,11 @@ describe('payments fake: hosted checkout with test cards', () => {
     const price = await monthlyPrice();
     const customer = await stripe.customers.create({ email: 'admin@example.test' });
     const session = await stripe.checkout.sessions.create({
-      mode: 'subscription', customer: customer.id, line_items: [{ price: price.id, quantity: 3 }],
-      success_url: 'http://app.example.test/done?session={CHECKOUT_SESSION_ID}', cancel_url: 'http://app.example.test/cancel',
+      mode: 'subscription',
+      customer: customer.id,
+      line_items: [{ price: price.id, quantity: 3 }],
+      success_url: 'http://app.example.test/done?session={CHECKOUT_SESSION_ID}',
+      cancel_url: 'http://app.example.test/cancel',
       subscription_data: { trial_period_days: 30, metadata: { trust_id: 'trust-9' } },
     });
     expect(session.url).toMatch(new RegExp(`^http://127.0.0.1:${fake.port}/checkout/cs_test_`));
@@ -129,7 +156,11 @@ describe('payments fake: hosted checkout with test cards', () => {
     expect(page).toContain('3 × £24.00');
 
     const pay = (card: string) =>
-      fetch(session.url!, { method: 'POST', redirect: 'manual', body: new URLSearchParams({ email: 'admin@example.test', cardNumber: card, expiry: '12/34', cvc: '123' }) });
+      fetch(session.url!, {
+        method: 'POST',
+        redirect: 'manual',
+        body: new URLSearchParams({ email: 'admin@example.test', cardNumber: card, expiry: '12/34', cvc: '123' }),
+      });
     const declined = await pay('4000 0000 0000 0002');
     expect(declined.status).toBe(402);
     expect(await declined.text()).toContain('Your card was declined.');
@@ -146,17 +177,26 @@ describe('payments fake: hosted checkout with test cards', () => {
     expect(sub.items.data[0]!.quantity).toBe(3);
     expect(sub.trial_end! - sub.trial_start!).toBe(30 * DAY_S);
 
-    const delivery = await waitFor('checkout.session.completed', () => eventsOf('checkout.session.completed', session.id)[0]);
+    const delivery = await waitFor(
+      'checkout.session.completed',
+      () => eventsOf('checkout.session.completed', session.id)[0],
+    );
     const verified = stripe.webhooks.constructEvent(delivery.raw, delivery.header, WEBHOOK_SECRET);
     expect(verified.id).toBe(delivery.event.id);
-    expect(() => stripe.webhooks.constructEvent(delivery.raw, delivery.header, 'whsec_someone_else')).toThrow(Stripe.errors.StripeSignatureVerificationError);
+    expect(() => stripe.webhooks.constructEvent(delivery.raw, delivery.header, 'whsec_someone_else')).toThrow(
+      Stripe.errors.StripeSignatureVerificationError,
+    );
   });
 });
 
 describe('payments fake: subscription changes', () => {
   async function activeSubscription(quantity: number) {
     const price = await monthlyPrice();
-    const customer = await stripe.customers.create({ email: 'fin@example.test', payment_method: 'pm_card_visa', invoice_settings: { default_payment_method: 'pm_card_visa' } });
+    const customer = await stripe.customers.create({
+      email: 'fin@example.test',
+      payment_method: 'pm_card_visa',
+      invoice_settings: { default_payment_method: 'pm_card_visa' },
+    });
     const sub = await stripe.subscriptions.create({ customer: customer.id, items: [{ price: price.id, quantity }] });
     return { price, customer, sub };
   }
@@ -170,7 +210,10 @@ describe('payments fake: subscription changes', () => {
 
   it('prorates a quantity increase onto the upcoming invoice (one more school just after the start ≈ one month)', async () => {
     const { sub, customer } = await activeSubscription(2);
-    await stripe.subscriptions.update(sub.id, { items: [{ id: sub.items.data[0]!.id, quantity: 3 }], proration_behavior: 'create_prorations' });
+    await stripe.subscriptions.update(sub.id, {
+      items: [{ id: sub.items.data[0]!.id, quantity: 3 }],
+      proration_behavior: 'create_prorations',
+    });
     const upcoming = await stripe.invoices.createPreview({ customer: customer.id, subscription: sub.id });
     const prorations = upcoming.lines.data.filter((l) => l.parent?.subscription_item_details?.proration);
     const net = prorations.reduce((sum, l) => sum + l.amount, 0);
@@ -183,8 +226,15 @@ describe('payments fake: subscription changes', () => {
 
   it('switches to yearly at once: credits the unused month and charges the year', async () => {
     const { sub } = await activeSubscription(2);
-    const yearly = await stripe.prices.create({ currency: 'gbp', unit_amount: 24000, recurring: { interval: 'year' }, product_data: { name: 'Whole Estate yearly' } });
-    const updated = await stripe.subscriptions.update(sub.id, { items: [{ id: sub.items.data[0]!.id, price: yearly.id }] });
+    const yearly = await stripe.prices.create({
+      currency: 'gbp',
+      unit_amount: 24000,
+      recurring: { interval: 'year' },
+      product_data: { name: 'Whole Estate yearly' },
+    });
+    const updated = await stripe.subscriptions.update(sub.id, {
+      items: [{ id: sub.items.data[0]!.id, price: yearly.id }],
+    });
     const item = updated.items.data[0]!;
     expect(item.price.recurring?.interval).toBe('year');
     expect(item.current_period_end - item.current_period_start).toBeGreaterThanOrEqual(365 * DAY_S);
@@ -231,7 +281,11 @@ describe('payments fake: subscription changes', () => {
     for (let i = 0; i < 4; i += 1) await admin(`/_fake/subscriptions/${sub.id}/renew`, { outcome: 'fail' });
     expect((await stripe.subscriptions.retrieve(sub.id)).status).toBe('unpaid');
     const [open] = (await stripe.invoices.list({ subscription: sub.id, status: 'open' })).data;
-    const pay = (card: string) => fetch(open!.hosted_invoice_url!, { method: 'POST', body: new URLSearchParams({ cardNumber: card, expiry: '12/34', cvc: '123' }) });
+    const pay = (card: string) =>
+      fetch(open!.hosted_invoice_url!, {
+        method: 'POST',
+        body: new URLSearchParams({ cardNumber: card, expiry: '12/34', cvc: '123' }),
+      });
     const declined = await pay('4000 0000 0000 0002');
     expect(declined.status).toBe(402);
     expect((await stripe.subscriptions.retrieve(sub.id)).status).toBe('unpaid');
@@ -256,8 +310,15 @@ describe('payments fake: webhook delivery', () => {
   it('retries a failed delivery with the same event until the receiver accepts it', async () => {
     failNext = 2;
     const customer = await stripe.customers.create({ email: 'retry@example.test' });
-    const delivery = await waitFor('customer.created after retries', () => eventsOf('customer.created', customer.id)[0]);
-    const log = await (await fetch(`http://127.0.0.1:${fake.port}/_fake/deliveries?event=${delivery.event.id}`, { headers: { authorization: `Bearer ${KEY}` } })).json();
+    const delivery = await waitFor(
+      'customer.created after retries',
+      () => eventsOf('customer.created', customer.id)[0],
+    );
+    const log = await (
+      await fetch(`http://127.0.0.1:${fake.port}/_fake/deliveries?event=${delivery.event.id}`, {
+        headers: { authorization: `Bearer ${KEY}` },
+      })
+    ).json();
     expect(log.deliveries.map((d: { status: number }) => d.status)).toEqual([500, 500, 200]);
   });
 
@@ -268,8 +329,13 @@ describe('payments fake: webhook delivery', () => {
     expect(eventsOf('customer.created', first.id)).toHaveLength(0);
     const { released } = await admin('/_fake/webhooks/release', { order: 'reverse' });
     expect(released).toHaveLength(2);
-    await waitFor('both', () => (eventsOf('customer.created', first.id)[0] && eventsOf('customer.created', second.id)[0]) || undefined);
-    const order = received.filter((r) => r.event.type === 'customer.created').map((r) => (r.event.data.object as Stripe.Customer).id);
+    await waitFor(
+      'both',
+      () => (eventsOf('customer.created', first.id)[0] && eventsOf('customer.created', second.id)[0]) || undefined,
+    );
+    const order = received
+      .filter((r) => r.event.type === 'customer.created')
+      .map((r) => (r.event.data.object as Stripe.Customer).id);
     expect(order.indexOf(second.id)).toBeLessThan(order.indexOf(first.id));
   });
 });

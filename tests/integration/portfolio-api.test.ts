@@ -24,15 +24,33 @@ interface Raw {
   capital_cost_gbp: number | null;
   pupils: number;
 }
-interface Row { roomId: string; rank: number; schoolId: string; riskBand: number; criteriaMet: boolean; ventilationType: string; simplePaybackYears: number | null; roomName: string }
-interface Page { rows: Row[]; total: number; page: number; pageSize: number; preview: boolean }
+interface Row {
+  roomId: string;
+  rank: number;
+  schoolId: string;
+  riskBand: number;
+  criteriaMet: boolean;
+  ventilationType: string;
+  simplePaybackYears: number | null;
+  roomName: string;
+}
+interface Page {
+  rows: Row[];
+  total: number;
+  page: number;
+  pageSize: number;
+  preview: boolean;
+}
 
 /** The ranking rule, restated: weighted score (weights in proportion), then pupil-hours, then id. */
 function expectedOrder(rows: Raw[], w: { risk: number; cost: number; payback: number }): string[] {
   const sum = w.risk + w.cost + w.payback;
-  const score = (r: Raw) => (w.risk / sum) * r.score_risk + (w.cost / sum) * r.score_cost_effectiveness + (w.payback / sum) * r.score_payback;
+  const score = (r: Raw) =>
+    (w.risk / sum) * r.score_risk + (w.cost / sum) * r.score_cost_effectiveness + (w.payback / sum) * r.score_payback;
   return [...rows]
-    .sort((a, b) => score(b) - score(a) || b.pupil_hours_above - a.pupil_hours_above || (a.room_id < b.room_id ? -1 : 1))
+    .sort(
+      (a, b) => score(b) - score(a) || b.pupil_hours_above - a.pupil_hours_above || (a.room_id < b.room_id ? -1 : 1),
+    )
     .map((r) => r.room_id);
 }
 
@@ -44,7 +62,10 @@ describe('portfolio API', () => {
 
   const getJson = async <T>(path: string, cookie = admin.cookie) => {
     const response = await api(path, { cookie });
-    expect(response.status, `${path} → ${response.status} ${response.status !== 200 ? await response.clone().text() : ''}`).toBe(200);
+    expect(
+      response.status,
+      `${path} → ${response.status} ${response.status !== 200 ? await response.clone().text() : ''}`,
+    ).toBe(200);
     return (await response.json()) as T;
   };
   const allPages = async (query: string, pageSize = 200) => {
@@ -59,9 +80,20 @@ describe('portfolio API', () => {
   beforeAll(async () => {
     db = testDb();
     admin = await createOtherTrust();
-    fixture = await insertAssessedRooms(db, { trustId: admin.trustId, createTrust: false, schools: 3, roomsPerSchool: 1000, label: 'Portfolio API' });
+    fixture = await insertAssessedRooms(db, {
+      trustId: admin.trustId,
+      createTrust: false,
+      schools: 3,
+      roomsPerSchool: 1000,
+      label: 'Portfolio API',
+    });
     // One room name a spreadsheet would run as a formula, to check the export's guard.
-    await db.updateTable('rooms').set({ name: '=HYPERLINK("http://example.invalid","x")' }).where('school_id', '=', fixture.schoolIds[0]!).where('code', '=', 'R00001').execute();
+    await db
+      .updateTable('rooms')
+      .set({ name: '=HYPERLINK("http://example.invalid","x")' })
+      .where('school_id', '=', fixture.schoolIds[0]!)
+      .where('code', '=', 'R00001')
+      .execute();
     raw = (
       await sql<Raw>`SELECT room_id, school_id, block_id, risk_band, criteria_met, ventilation_type, pupil_hours_above, score_risk,
         score_cost_effectiveness, score_payback, simple_payback_years, capital_cost_gbp, pupils
@@ -84,7 +116,9 @@ describe('portfolio API', () => {
   it('returns the same rooms for page 3 of 50 as positions 101–150 of the whole list', async () => {
     const page3 = await getJson<Page>('/api/priorities?sort=rank&page=3&pageSize=50');
     expect(page3.rows.map((r) => r.rank)).toEqual(Array.from({ length: 50 }, (_, i) => 101 + i));
-    expect(page3.rows.map((r) => r.roomId)).toEqual(expectedOrder(raw, { risk: 0.6, cost: 0.3, payback: 0.1 }).slice(100, 150));
+    expect(page3.rows.map((r) => r.roomId)).toEqual(
+      expectedOrder(raw, { risk: 0.6, cost: 0.3, payback: 0.1 }).slice(100, 150),
+    );
   });
 
   it('previews other weights from the query string without saving them', async () => {
@@ -121,7 +155,13 @@ describe('portfolio API', () => {
   });
 
   it('refuses bad query strings with a message naming the parameter', async () => {
-    for (const [query, word] of [['sort=colour', 'sort'], ['pageSize=500', 'pageSize'], ['wRisk=0.5', 'wRisk'], ['band=7', 'band'], ['schoolId=abc', 'schoolId']] as const) {
+    for (const [query, word] of [
+      ['sort=colour', 'sort'],
+      ['pageSize=500', 'pageSize'],
+      ['wRisk=0.5', 'wRisk'],
+      ['band=7', 'band'],
+      ['schoolId=abc', 'schoolId'],
+    ] as const) {
       const response = await api(`/api/priorities?${query}`, { cookie: admin.cookie });
       expect(response.status, query).toBe(400);
       const body = (await response.json()) as { error: { code: string; message: string } };
@@ -130,27 +170,58 @@ describe('portfolio API', () => {
   });
 
   it('saves weights for the trust, audits the change and re-ranks with them', async () => {
-    const put = await api('/api/priorities/weights', { method: 'PUT', cookie: admin.cookie, body: JSON.stringify({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 }) });
+    const put = await api('/api/priorities/weights', {
+      method: 'PUT',
+      cookie: admin.cookie,
+      body: JSON.stringify({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 }),
+    });
     expect(put.status).toBe(200);
     const { rows } = await allPages('sort=rank');
     expect(rows.map((r) => r.roomId)).toEqual(expectedOrder(raw, { risk: 0.1, cost: 0.1, payback: 0.8 }));
-    const audit = await db.selectFrom('audit_events').selectAll().where('trust_id', '=', admin.trustId).where('action', '=', 'portfolio.weights.save').execute();
+    const audit = await db
+      .selectFrom('audit_events')
+      .selectAll()
+      .where('trust_id', '=', admin.trustId)
+      .where('action', '=', 'portfolio.weights.save')
+      .execute();
     expect(audit).toHaveLength(1);
     expect(audit[0]!.after).toEqual({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 });
   });
 
   it('refuses weights that are all zero or out of range', async () => {
-    for (const body of [{ risk: 0, costEffectiveness: 0, payback: 0 }, { risk: 2, costEffectiveness: 0, payback: 0 }, { risk: 0.5 }]) {
-      const response = await api('/api/priorities/weights', { method: 'PUT', cookie: admin.cookie, body: JSON.stringify(body) });
+    for (const body of [
+      { risk: 0, costEffectiveness: 0, payback: 0 },
+      { risk: 2, costEffectiveness: 0, payback: 0 },
+      { risk: 0.5 },
+    ]) {
+      const response = await api('/api/priorities/weights', {
+        method: 'PUT',
+        cookie: admin.cookie,
+        body: JSON.stringify(body),
+      });
       expect(response.status).toBe(400);
     }
   });
 
   it('lets estates managers save weights and refuses viewers and finance leads', async () => {
     const body = JSON.stringify({ risk: 0.5, costEffectiveness: 0.3, payback: 0.2 });
-    expect((await api('/api/priorities/weights', { method: 'PUT', cookie: await signIn(DEMO_ACCOUNTS.viewer), body })).status).toBe(403);
-    expect((await api('/api/priorities/weights', { method: 'PUT', cookie: await signIn(DEMO_ACCOUNTS.finance_lead), body })).status).toBe(403);
-    expect((await api('/api/priorities/weights', { method: 'PUT', cookie: await signIn(DEMO_ACCOUNTS.estates_manager), body })).status).toBe(200);
+    expect(
+      (await api('/api/priorities/weights', { method: 'PUT', cookie: await signIn(DEMO_ACCOUNTS.viewer), body }))
+        .status,
+    ).toBe(403);
+    expect(
+      (await api('/api/priorities/weights', { method: 'PUT', cookie: await signIn(DEMO_ACCOUNTS.finance_lead), body }))
+        .status,
+    ).toBe(403);
+    expect(
+      (
+        await api('/api/priorities/weights', {
+          method: 'PUT',
+          cookie: await signIn(DEMO_ACCOUNTS.estates_manager),
+          body,
+        })
+      ).status,
+    ).toBe(200);
   });
 
   it('answers 401 without a session', async () => {
@@ -164,7 +235,10 @@ describe('portfolio API', () => {
     const page = await getJson<Page>(`/api/priorities?schoolId=${fixture.schoolIds[0]}`, demo);
     expect(page.total).toBe(0);
     expect(page.rows).toEqual([]);
-    const finance = await getJson<{ schools: { schoolId: string }[] }>(`/api/finance?schoolId=${fixture.schoolIds[0]}`, demo);
+    const finance = await getJson<{ schools: { schoolId: string }[] }>(
+      `/api/finance?schoolId=${fixture.schoolIds[0]}`,
+      demo,
+    );
     expect(finance.schools).toEqual([]);
   });
 
@@ -191,18 +265,31 @@ describe('portfolio API', () => {
 
   it('lists one finance row per installed unit, with school subtotals and trust totals that add up', async () => {
     const report = await getJson<{
-      schools: { schoolId: string; units: { capitalCostGbp: number; npvGbp: number; heatingRenewal: unknown; blockName: string }[]; subtotal: { units: number; capitalCostGbp: number; npvGbp: number } }[];
+      schools: {
+        schoolId: string;
+        units: { capitalCostGbp: number; npvGbp: number; heatingRenewal: unknown; blockName: string }[];
+        subtotal: { units: number; capitalCostGbp: number; npvGbp: number };
+      }[];
       totals: { units: number; capitalCostGbp: number; annualSavingGbp: number };
-      sensitivity: { byEnergyPrice: { energyPriceChangePct: number; annualSavingGbp: number; npvGbp: number }[]; byDiscountRate: { discountRate: number }[] };
+      sensitivity: {
+        byEnergyPrice: { energyPriceChangePct: number; annualSavingGbp: number; npvGbp: number }[];
+        byDiscountRate: { discountRate: number }[];
+      };
       baseline: { words: string; discountRate: number; appraisalYears: number };
     }>('/api/finance');
-    const units = await sql<{ n: number; capital: number }>`SELECT sum(unit_count)::int AS n, sum(capital_cost_gbp)::float8 AS capital
+    const units = await sql<{
+      n: number;
+      capital: number;
+    }>`SELECT sum(unit_count)::int AS n, sum(capital_cost_gbp)::float8 AS capital
       FROM room_results WHERE trust_id = ${admin.trustId} AND is_current AND unit_count > 0`.execute(db);
     expect(report.totals.units).toBe(units.rows[0]!.n);
     expect(report.totals.capitalCostGbp).toBeCloseTo(units.rows[0]!.capital, 2);
     for (const school of report.schools) {
       expect(school.units).toHaveLength(school.subtotal.units);
-      expect(school.subtotal.capitalCostGbp).toBeCloseTo(school.units.reduce((s, u) => s + u.capitalCostGbp, 0), 4);
+      expect(school.subtotal.capitalCostGbp).toBeCloseTo(
+        school.units.reduce((s, u) => s + u.capitalCostGbp, 0),
+        4,
+      );
       // The fixture's old blocks run gas plant installed in 2003: past 20 years, so flagged; heat-pump blocks never.
       for (const unit of school.units) expect(unit.heatingRenewal !== null).toBe(unit.blockName === 'Old Block');
     }
@@ -221,13 +308,24 @@ describe('portfolio API', () => {
   });
 
   it('gives dashboard headline figures that match the stored results', async () => {
-    const d = await getJson<{ headline: { roomsAssessed: number; roomsFailing: number; pupilsInFailingRooms: number; capitalAllUnitsGbp: number }; co2BySchool: { below1000: number; from1000to1500: number; from1500to2000: number; above2000: number }[]; cumulative: { points: { rank: number; cumulativeCapitalGbp: number }[] } }>('/api/dashboard');
+    const d = await getJson<{
+      headline: {
+        roomsAssessed: number;
+        roomsFailing: number;
+        pupilsInFailingRooms: number;
+        capitalAllUnitsGbp: number;
+      };
+      co2BySchool: { below1000: number; from1000to1500: number; from1500to2000: number; above2000: number }[];
+      cumulative: { points: { rank: number; cumulativeCapitalGbp: number }[] };
+    }>('/api/dashboard');
     expect(d.headline.roomsAssessed).toBe(3000);
     expect(d.headline.roomsFailing).toBe(raw.filter((r) => !r.criteria_met).length);
     expect(d.headline.pupilsInFailingRooms).toBe(raw.filter((r) => !r.criteria_met).reduce((s, r) => s + r.pupils, 0));
     const capital = raw.reduce((s, r) => s + (r.capital_cost_gbp ?? 0), 0);
     expect(d.headline.capitalAllUnitsGbp).toBeCloseTo(capital, 2);
-    expect(d.co2BySchool.reduce((s, c) => s + c.below1000 + c.from1000to1500 + c.from1500to2000 + c.above2000, 0)).toBe(3000);
+    expect(d.co2BySchool.reduce((s, c) => s + c.below1000 + c.from1000to1500 + c.from1500to2000 + c.above2000, 0)).toBe(
+      3000,
+    );
     const last = d.cumulative.points[d.cumulative.points.length - 1]!;
     expect(last.cumulativeCapitalGbp).toBeCloseTo(capital, 2);
     expect(d.cumulative.points.length).toBeLessThanOrEqual(201);

@@ -30,7 +30,10 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
   return db.transaction().execute(async (trx) => {
     await sql`SELECT setseed(${o.seed ?? 0.42})`.execute(trx);
     if (o.createTrust) {
-      await trx.insertInto('trusts').values({ id: o.trustId, name: `${label} Trust`, slug: o.trustId }).execute();
+      await trx
+        .insertInto('trusts')
+        .values({ id: o.trustId, name: `${label} Trust`, slug: o.trustId })
+        .execute();
     }
     const schools = await sql<{ id: string }>`
       INSERT INTO schools (trust_id, name, phase, climate_region, heating_fuel)
@@ -41,7 +44,9 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
       INSERT INTO blocks (school_id, name, year_built, heating_fuel, heating_installed_year)
       SELECT s, b.name, b.year_built, b.fuel, b.installed
       FROM unnest(${schoolIds}::uuid[]) s,
-        (VALUES ('Old Block', 1968, 'gas', 2003), ('New Block', 2019, 'heat_pump', 2019)) AS b(name, year_built, fuel, installed)`.execute(trx);
+        (VALUES ('Old Block', 1968, 'gas', 2003), ('New Block', 2019, 'heat_pump', 2019)) AS b(name, year_built, fuel, installed)`.execute(
+      trx,
+    );
     await sql`
       INSERT INTO rooms (school_id, block_id, code, name, floor_area_m2, ceiling_height_m, pupils, age_group, ventilation_type, glazing_area_m2, openable_area_m2)
       SELECT s.id, (SELECT id FROM blocks b WHERE b.school_id = s.id AND b.name = CASE WHEN g % 3 = 0 THEN 'New Block' ELSE 'Old Block' END),
@@ -50,7 +55,15 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
       FROM unnest(${schoolIds}::uuid[]) AS s(id), generate_series(1, ${o.roomsPerSchool}) g`.execute(trx);
     const run = await trx
       .insertInto('assessment_runs')
-      .values({ trust_id: o.trustId, scope: 'trust', status: 'succeeded', rooms_total: o.schools * o.roomsPerSchool, rooms_done: o.schools * o.roomsPerSchool, started_at: new Date(), finished_at: new Date() })
+      .values({
+        trust_id: o.trustId,
+        scope: 'trust',
+        status: 'succeeded',
+        rooms_total: o.schools * o.roomsPerSchool,
+        rooms_done: o.schools * o.roomsPerSchool,
+        started_at: new Date(),
+        finished_at: new Date(),
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     // Earlier results of these rooms stop being current, as a finished run would do.

@@ -8,7 +8,11 @@ import { sensitivityCase } from '../../src/lib/server/portfolio/sensitivity';
 describe('heating renewal flag', () => {
   // Common practice, no single source: fossil-fuel plant lasts about 20–25 years; we flag at 20 years, 5 years ahead.
   it('flags gas plant installed 2003 in 2026 (20 years reached in 2023)', () => {
-    expect(heatingRenewalFlag({ fuel: 'gas', installedYear: 2003, currentYear: 2026 })).toEqual({ fuel: 'gas', installedYear: 2003, expectedEndYear: 2023 });
+    expect(heatingRenewalFlag({ fuel: 'gas', installedYear: 2003, currentYear: 2026 })).toEqual({
+      fuel: 'gas',
+      installedYear: 2003,
+      expectedEndYear: 2023,
+    });
   });
   it('flags oil plant reaching 20 years exactly 5 years from now, and not a year later', () => {
     expect(heatingRenewalFlag({ fuel: 'oil', installedYear: 2011, currentYear: 2026 })?.expectedEndYear).toBe(2031);
@@ -26,8 +30,12 @@ describe('programme sensitivity', () => {
 
   it('scales only the energy part of the saving with the price (maintenance stays)', () => {
     // Energy part at baseline = 6,000 + 1,000 = 7,000; at +30 % it is 9,100, less 1,000 maintenance.
-    expect(sensitivityCase(money, { energyPriceChangePct: 30, discountRate: 0.035, appraisalYears: 15 }).annualSavingGbp).toBeCloseTo(8_100, 6);
-    expect(sensitivityCase(money, { energyPriceChangePct: -30, discountRate: 0.035, appraisalYears: 15 }).annualSavingGbp).toBeCloseTo(3_900, 6);
+    expect(
+      sensitivityCase(money, { energyPriceChangePct: 30, discountRate: 0.035, appraisalYears: 15 }).annualSavingGbp,
+    ).toBeCloseTo(8_100, 6);
+    expect(
+      sensitivityCase(money, { energyPriceChangePct: -30, discountRate: 0.035, appraisalYears: 15 }).annualSavingGbp,
+    ).toBeCloseTo(3_900, 6);
   });
 
   it('gives the Green Book NPV and a simple payback of capital over saving', () => {
@@ -38,7 +46,10 @@ describe('programme sensitivity', () => {
   });
 
   it('says "never" when energy prices fall so far that the units cost more to run than they save', () => {
-    const c = sensitivityCase({ capitalCostGbp: 10_000, annualNetSavingGbp: 200, annualMaintenanceGbp: 500 }, { energyPriceChangePct: -30, discountRate: 0.035, appraisalYears: 15 });
+    const c = sensitivityCase(
+      { capitalCostGbp: 10_000, annualNetSavingGbp: 200, annualMaintenanceGbp: 500 },
+      { energyPriceChangePct: -30, discountRate: 0.035, appraisalYears: 15 },
+    );
     expect(c.annualSavingGbp).toBeCloseTo(-10, 6);
     expect(c.simplePaybackYears).toBeNull();
     expect(c.discountedPaybackYears).toBeNull();

@@ -28,10 +28,18 @@ async function commit(cookie: string, id: string, body: unknown) {
 async function estateState(trustId: string) {
   const schools = await db.selectFrom('schools').selectAll().where('trust_id', '=', trustId).orderBy('name').execute();
   const ids = schools.map((s) => s.id);
-  const blocks = ids.length ? await db.selectFrom('blocks').selectAll().where('school_id', 'in', ids).orderBy('name').execute() : [];
-  const rooms = ids.length ? await db.selectFrom('rooms').selectAll().where('school_id', 'in', ids).orderBy('code').execute() : [];
-  const audit = await db.selectFrom('audit_events').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', trustId)
-    .where('entity_type', 'in', ['room', 'school', 'block']).executeTakeFirstOrThrow();
+  const blocks = ids.length
+    ? await db.selectFrom('blocks').selectAll().where('school_id', 'in', ids).orderBy('name').execute()
+    : [];
+  const rooms = ids.length
+    ? await db.selectFrom('rooms').selectAll().where('school_id', 'in', ids).orderBy('code').execute()
+    : [];
+  const audit = await db
+    .selectFrom('audit_events')
+    .select(sql<number>`count(*)::int`.as('n'))
+    .where('trust_id', '=', trustId)
+    .where('entity_type', 'in', ['room', 'school', 'block'])
+    .executeTakeFirstOrThrow();
   return { schools, blocks, rooms, auditCount: audit.n };
 }
 
@@ -45,48 +53,88 @@ describe('importing a register through the API', () => {
     const before = await estateState(admin.trustId);
     const { status, body } = await upload(admin.cookie, 'fernhill survey.xlsx', await messyRegister());
     expect(status).toBe(201);
-    expect(body).toMatchObject({ status: 'previewed', summary: { schoolsToCreate: 1, roomsToCreate: 5, rowsRejected: 5, rowsSkipped: 1 } });
-    expect(body.problems).toContainEqual(expect.objectContaining({ row: 13, column: 'Free area', columnLetter: 'J', severity: 'error' }));
+    expect(body).toMatchObject({
+      status: 'previewed',
+      summary: { schoolsToCreate: 1, roomsToCreate: 5, rowsRejected: 5, rowsSkipped: 1 },
+    });
+    expect(body.problems).toContainEqual(
+      expect.objectContaining({ row: 13, column: 'Free area', columnLetter: 'J', severity: 'error' }),
+    );
     expect(body.problems).toContainEqual(expect.objectContaining({ row: 7, column: 'GIA', value: 'TBC' }));
     // A preview writes nothing to the estate.
     expect(await estateState(admin.trustId)).toEqual(before);
 
     const committed = await commit(admin.cookie, body.id, { rows: 'valid', deleteMissing: false });
     expect(committed.status).toBe(200);
-    expect(committed.body.outcome).toMatchObject({ status: 'committed', roomsCreated: 5, schoolsCreated: 1, rowsRejected: 5 });
+    expect(committed.body.outcome).toMatchObject({
+      status: 'committed',
+      roomsCreated: 5,
+      schoolsCreated: 1,
+      rowsRejected: 5,
+    });
     const after = await estateState(admin.trustId);
     expect(after.rooms.map((r) => r.code)).toEqual(['G01', 'G02', 'H14', 'H15', 'K16']);
-    expect(after.rooms.find((r) => r.code === 'H15')).toMatchObject({ ventilation_type: 'heat_recovery_unit', pupils: 60, orientation_deg: 90 });
+    expect(after.rooms.find((r) => r.code === 'H15')).toMatchObject({
+      ventilation_type: 'heat_recovery_unit',
+      pupils: 60,
+      orientation_deg: 90,
+    });
     expect(after.auditCount - before.auditCount).toBe(5 + 1 + 2);
 
     // The history lists it with who, when, file name, counts and outcome.
     const history = (await (await api('/api/imports', { cookie: admin.cookie })).json()) as any;
-    expect(history.imports[0]).toMatchObject({ id: body.id, fileName: 'fernhill survey.xlsx', status: 'committed', createdByEmail: expect.any(String), outcome: { roomsCreated: 5 } });
+    expect(history.imports[0]).toMatchObject({
+      id: body.id,
+      fileName: 'fernhill survey.xlsx',
+      status: 'committed',
+      createdByEmail: expect.any(String),
+      outcome: { roomsCreated: 5 },
+    });
   });
 
   it('changes nothing when the same file is imported again', async () => {
     const before = await estateState(admin.trustId);
     const { body } = await upload(admin.cookie, 'fernhill survey.xlsx', await messyRegister());
-    expect(body.summary).toMatchObject({ roomsToCreate: 0, roomsToChange: 0, roomsUnchanged: 5, schoolsToCreate: 0, blocksToCreate: 0 });
+    expect(body.summary).toMatchObject({
+      roomsToCreate: 0,
+      roomsToChange: 0,
+      roomsUnchanged: 5,
+      schoolsToCreate: 0,
+      blocksToCreate: 0,
+    });
     await commit(admin.cookie, body.id, { rows: 'valid', deleteMissing: false });
     expect(await estateState(admin.trustId)).toEqual(before);
   });
 
   it('round-trips: export → import changes nothing, for .xlsx and .csv', async () => {
     const before = await estateState(admin.trustId);
-    for (const [path, name] of [['/api/exports/register.xlsx', 'export.xlsx'], ['/api/exports/register.csv', 'export.csv']] as const) {
+    for (const [path, name] of [
+      ['/api/exports/register.xlsx', 'export.xlsx'],
+      ['/api/exports/register.csv', 'export.csv'],
+    ] as const) {
       const exported = Buffer.from(await (await api(path, { cookie: admin.cookie })).arrayBuffer());
       const { status, body } = await upload(admin.cookie, name, exported);
       expect(status, name).toBe(201);
-      expect(body.summary, name).toMatchObject({ roomsToCreate: 0, roomsToChange: 0, rowsRejected: 0, roomsUnchanged: before.rooms.length, roomsMissing: 0 });
-      expect(body.problems.filter((p: any) => p.severity === 'error'), name).toEqual([]);
+      expect(body.summary, name).toMatchObject({
+        roomsToCreate: 0,
+        roomsToChange: 0,
+        rowsRejected: 0,
+        roomsUnchanged: before.rooms.length,
+        roomsMissing: 0,
+      });
+      expect(
+        body.problems.filter((p: any) => p.severity === 'error'),
+        name,
+      ).toEqual([]);
       await commit(admin.cookie, body.id, { rows: 'valid', deleteMissing: true });
     }
     expect(await estateState(admin.trustId)).toEqual(before);
   });
 
   it('applies changed values and a move to a new block, and audits each change with its before and after', async () => {
-    const exported = Buffer.from(await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer());
+    const exported = Buffer.from(
+      await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer(),
+    );
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(exported as any);
     const sheet = wb.getWorksheet('Rooms')!;
@@ -112,8 +160,13 @@ describe('importing a register through the API', () => {
     expect(after.rooms).toHaveLength(before.rooms.length);
     expect(after.auditCount - before.auditCount).toBe(2 + 1);
     const firstId = after.rooms.find((r) => r.code === firstCode)!.id;
-    const audit = await db.selectFrom('audit_events').select(['action', 'summary', 'before', 'after'])
-      .where('entity_id', '=', firstId).where('action', '=', 'room.updated').orderBy('id', 'desc').executeTakeFirstOrThrow();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select(['action', 'summary', 'before', 'after'])
+      .where('entity_id', '=', firstId)
+      .where('action', '=', 'room.updated')
+      .orderBy('id', 'desc')
+      .executeTakeFirstOrThrow();
     expect(audit.summary).toMatch(new RegExp(`Changed room ${firstCode} from a register import \\(row 2\\)`));
     expect(audit.after).toEqual({ pupils: 17 });
     expect(audit.before).toEqual({ pupils: before.rooms.find((r) => r.code === firstCode)!.pupils });
@@ -122,7 +175,11 @@ describe('importing a register through the API', () => {
   it('writes formula-like text so no spreadsheet runs it, and reads it back unchanged', async () => {
     const room = (await estateState(admin.trustId)).rooms[0]!;
     const dangerous = '=HYPERLINK("http://evil.example.test","click")';
-    const patched = await api(`/api/rooms/${room.id}`, { method: 'PATCH', cookie: admin.cookie, body: JSON.stringify({ notes: dangerous, name: '+44 call' }) });
+    const patched = await api(`/api/rooms/${room.id}`, {
+      method: 'PATCH',
+      cookie: admin.cookie,
+      body: JSON.stringify({ notes: dangerous, name: '+44 call' }),
+    });
     expect(patched.status).toBe(200);
 
     const xlsx = Buffer.from(await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer());
@@ -133,7 +190,8 @@ describe('importing a register through the API', () => {
     sheet.eachRow((row) => values.push(...(row.values as unknown[])));
     expect(values).toContain(`'${dangerous}`);
     expect(values).toContain("'+44 call");
-    for (let r = 1; r <= sheet.rowCount; r++) sheet.getRow(r).eachCell((cell) => expect(cell.type).not.toBe(ExcelJS.ValueType.Formula));
+    for (let r = 1; r <= sheet.rowCount; r++)
+      sheet.getRow(r).eachCell((cell) => expect(cell.type).not.toBe(ExcelJS.ValueType.Formula));
 
     const csv = await (await api('/api/exports/register.csv', { cookie: admin.cookie })).text();
     expect(csv).toContain(`"'=HYPERLINK(""http://evil.example.test"",""click"")"`);
@@ -145,7 +203,9 @@ describe('importing a register through the API', () => {
   });
 
   it('lists rooms missing from the file and deletes them only when asked', async () => {
-    const exported = Buffer.from(await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer());
+    const exported = Buffer.from(
+      await (await api('/api/exports/register.xlsx', { cookie: admin.cookie })).arrayBuffer(),
+    );
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(exported as any);
     const removedCode = String(wb.getWorksheet('Rooms')!.getCell('E2').value);
@@ -172,9 +232,21 @@ describe('importing a register through the API', () => {
   });
 
   it('refuses to commit a preview when the register changed since (409), and writes nothing', async () => {
-    const { body } = await upload(admin.cookie, 'stale.xlsx', await tidyRegister([roomRow('Fernhill Primary', 'STALE1')]));
+    const { body } = await upload(
+      admin.cookie,
+      'stale.xlsx',
+      await tidyRegister([roomRow('Fernhill Primary', 'STALE1')]),
+    );
     const room = (await estateState(admin.trustId)).rooms[0]!;
-    expect((await api(`/api/rooms/${room.id}`, { method: 'PATCH', cookie: admin.cookie, body: JSON.stringify({ adults: room.adults + 1 }) })).status).toBe(200);
+    expect(
+      (
+        await api(`/api/rooms/${room.id}`, {
+          method: 'PATCH',
+          cookie: admin.cookie,
+          body: JSON.stringify({ adults: room.adults + 1 }),
+        })
+      ).status,
+    ).toBe(200);
     const before = await estateState(admin.trustId);
     const refused = await commit(admin.cookie, body.id, { rows: 'valid' });
     expect(refused.status).toBe(409);
@@ -184,14 +256,18 @@ describe('importing a register through the API', () => {
 
   it('refuses, at commit, an import that would go beyond the free plan (402) and writes nothing', async () => {
     const before = await estateState(admin.trustId);
-    const { body } = await upload(admin.cookie, 'two schools.xlsx', await tidyRegister([roomRow('Second School', 'A1')]));
+    const { body } = await upload(
+      admin.cookie,
+      'two schools.xlsx',
+      await tidyRegister([roomRow('Second School', 'A1')]),
+    );
     const refused = await commit(admin.cookie, body.id, { rows: 'valid' });
     expect(refused.status).toBe(402);
     expect(refused.body.error.message).toMatch(/plan/);
     expect(await estateState(admin.trustId)).toEqual(before);
   });
 
-  it('remembers a column mapping for the trust\'s next import', async () => {
+  it("remembers a column mapping for the trust's next import", async () => {
     const wb = new ExcelJS.Workbook();
     const ws = wb.addWorksheet('Rooms');
     ws.addRow(['School', 'Room code', 'Survey sqm', 'Ceiling height', 'Vent']);
@@ -218,17 +294,33 @@ describe('refusing bad uploads', () => {
   const corrupt: [string, () => Promise<Buffer> | Buffer, RegExp][] = [
     ['not a zip', () => Buffer.from('School,Room code\nA,B\n'), /plain text/],
     ['a truncated zip', async () => (await tidyRegister([roomRow('A', 'B')])).subarray(0, 3000), /cut short/],
-    ['a PDF behind an .xlsx name', () => Buffer.concat([Buffer.from('%PDF-1.7\n'), Buffer.alloc(100, 0)]), /not a zip-based/],
+    [
+      'a PDF behind an .xlsx name',
+      () => Buffer.concat([Buffer.from('%PDF-1.7\n'), Buffer.alloc(100, 0)]),
+      /not a zip-based/,
+    ],
   ];
   for (const [what, make, message] of corrupt) {
     it(`answers 400 with a clear message for ${what}, and the database is unchanged`, async () => {
       const before = await estateState(admin.trustId);
-      const imports = await db.selectFrom('register_imports').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', admin.trustId).executeTakeFirstOrThrow();
+      const imports = await db
+        .selectFrom('register_imports')
+        .select(sql<number>`count(*)::int`.as('n'))
+        .where('trust_id', '=', admin.trustId)
+        .executeTakeFirstOrThrow();
       const { status, body } = await upload(admin.cookie, 'register.xlsx', await make());
       expect(status).toBe(400);
       expect(body.error.message).toMatch(message);
       expect(await estateState(admin.trustId)).toEqual(before);
-      expect((await db.selectFrom('register_imports').select(sql<number>`count(*)::int`.as('n')).where('trust_id', '=', admin.trustId).executeTakeFirstOrThrow()).n).toBe(imports.n);
+      expect(
+        (
+          await db
+            .selectFrom('register_imports')
+            .select(sql<number>`count(*)::int`.as('n'))
+            .where('trust_id', '=', admin.trustId)
+            .executeTakeFirstOrThrow()
+        ).n,
+      ).toBe(imports.n);
     });
   }
 
@@ -251,7 +343,10 @@ describe('an import interrupted mid-commit', () => {
     const trust = { id: other.trustId, name: 'Other', role: 'trust_admin' as const, schoolIds: null };
     const actor = { actorUserId: null, actorEmail: other.email };
     const rows = Array.from({ length: 40 }, (_, i) => roomRow('Interrupted School', `R${i + 1}`));
-    const preview = await previewImport(db, trust, actor, { fileName: 'interrupted.xlsx', bytes: await tidyRegister(rows) });
+    const preview = await previewImport(db, trust, actor, {
+      fileName: 'interrupted.xlsx',
+      bytes: await tidyRegister(rows),
+    });
     expect(preview.summary.roomsToCreate).toBe(40);
     const before = await estateState(other.trustId);
     // A pool of its own whose clients tolerate being killed, so the cut connection does not crash the runner.
@@ -259,16 +354,28 @@ describe('an import interrupted mid-commit', () => {
     pool.on('error', () => {});
     pool.on('connect', (client) => client.on('error', () => {}));
     let writtenInsideTransaction = 0;
-    await expect(commitImport(pool, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
-      writtenInsideTransaction = (await trx.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id')
-        .where('schools.trust_id', '=', other.trustId).select(sql<number>`count(*)::int`.as('n')).executeTakeFirstOrThrow()).n;
-      // Kill our own connection, as a crash or a network cut would.
-      await sql`SELECT pg_terminate_backend(pg_backend_pid())`.execute(trx);
-    })).rejects.toThrow();
+    await expect(
+      commitImport(pool, trust, actor, preview.id, { rows: 'valid', deleteMissing: false }, async (trx) => {
+        writtenInsideTransaction = (
+          await trx
+            .selectFrom('rooms')
+            .innerJoin('schools', 'schools.id', 'rooms.school_id')
+            .where('schools.trust_id', '=', other.trustId)
+            .select(sql<number>`count(*)::int`.as('n'))
+            .executeTakeFirstOrThrow()
+        ).n;
+        // Kill our own connection, as a crash or a network cut would.
+        await sql`SELECT pg_terminate_backend(pg_backend_pid())`.execute(trx);
+      }),
+    ).rejects.toThrow();
     await pool.end().catch(() => {});
     expect(writtenInsideTransaction).toBe(40);
     expect(await estateState(other.trustId)).toEqual(before);
-    const stored = await db.selectFrom('register_imports').select('status').where('id', '=', preview.id).executeTakeFirstOrThrow();
+    const stored = await db
+      .selectFrom('register_imports')
+      .select('status')
+      .where('id', '=', preview.id)
+      .executeTakeFirstOrThrow();
     expect(stored.status).toBe('previewed');
   });
 });
@@ -281,7 +388,11 @@ describe('who may import, edit and export', () => {
       expect((await upload(cookie, 'r.xlsx', file)).status, role).toBe(403);
       expect((await api('/api/exports/register.xlsx', { cookie })).status, role).toBe(200);
       const rooms = (await (await api('/api/rooms?pageSize=1', { cookie })).json()) as any;
-      const patch = await api(`/api/rooms/${rooms.rows[0].id}`, { method: 'PATCH', cookie, body: JSON.stringify({ pupils: 1 }) });
+      const patch = await api(`/api/rooms/${rooms.rows[0].id}`, {
+        method: 'PATCH',
+        cookie,
+        body: JSON.stringify({ pupils: 1 }),
+      });
       expect(patch.status, role).toBe(403);
       expect(((await patch.json()) as any).error.code).toBe('forbidden');
     }

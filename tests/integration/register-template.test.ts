@@ -13,9 +13,26 @@ describe('the register template', () => {
     await wb.xlsx.load((await response.arrayBuffer()) as any);
     const rooms = wb.getWorksheet('Rooms')!;
     expect((rooms.getRow(1).values as unknown[]).slice(1)).toEqual([
-      'School', 'School phase', 'Block', 'Year built', 'Room code', 'Room name', 'Room use', 'Floor area (m2)', 'Ceiling height (m)', 'Pupils', 'Adults',
-      'Age group', 'Orientation', 'Glazing area (m2)', 'Openable area (m2)', 'Window type', 'Ventilation type', 'Mechanical supply (l/s)',
-      'Air permeability (m3/h.m2 @ 50 Pa)', 'Notes',
+      'School',
+      'School phase',
+      'Block',
+      'Year built',
+      'Room code',
+      'Room name',
+      'Room use',
+      'Floor area (m2)',
+      'Ceiling height (m)',
+      'Pupils',
+      'Adults',
+      'Age group',
+      'Orientation',
+      'Glazing area (m2)',
+      'Openable area (m2)',
+      'Window type',
+      'Ventilation type',
+      'Mechanical supply (l/s)',
+      'Air permeability (m3/h.m2 @ 50 Pa)',
+      'Notes',
     ]);
     expect(rooms.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 });
     REGISTER_COLUMNS.forEach((c, i) => {
@@ -30,8 +47,16 @@ describe('the register template', () => {
     const lists = wb.getWorksheet(sheetName!)!;
     const values: unknown[] = [];
     const [from, to] = range!.replace(/\$/g, '').split(':');
-    for (let r = Number(from!.slice(1)); r <= Number(to!.slice(1)); r++) values.push(lists.getCell(`${from![0]}${r}`).value);
-    expect(values).toEqual(['Natural, single-sided', 'Natural, cross-ventilated', 'Mechanical extract', 'Mechanical supply and extract', 'Heat-recovery unit', 'Hybrid']);
+    for (let r = Number(from!.slice(1)); r <= Number(to!.slice(1)); r++)
+      values.push(lists.getCell(`${from![0]}${r}`).value);
+    expect(values).toEqual([
+      'Natural, single-sided',
+      'Natural, cross-ventilated',
+      'Mechanical extract',
+      'Mechanical supply and extract',
+      'Heat-recovery unit',
+      'Hybrid',
+    ]);
     const guide = wb.getWorksheet('Guide')!;
     const guideText = guide.getSheetValues().flat().join(' ');
     for (const c of REGISTER_COLUMNS) expect(guideText).toContain(c.header);

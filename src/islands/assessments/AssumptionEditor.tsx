@@ -41,16 +41,25 @@ function Editor({ editable }: Props) {
       return;
     }
     setParseError(null);
-    save.mutate({ changes: [{ path, value }], ...(summary.trim() ? { summary: summary.trim() } : {}) }, { onSuccess: () => window.location.reload() });
+    save.mutate(
+      { changes: [{ path, value }], ...(summary.trim() ? { summary: summary.trim() } : {}) },
+      { onSuccess: () => window.location.reload() },
+    );
   }
 
-  if (editable.length === 0) return <p className="text-sm text-ink-muted">Your role can read the assumptions but not change them.</p>;
+  if (editable.length === 0)
+    return <p className="text-sm text-ink-muted">Your role can read the assumptions but not change them.</p>;
   const multiline = text.length > 40 || text.includes('{') || text.includes('[');
   return (
     <form onSubmit={submit} className="grid gap-3" data-testid="assumption-editor">
       <label className="text-sm">
         <span className="block text-ink-muted">Assumption</span>
-        <select name="path" value={path} onChange={(e) => choose(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5">
+        <select
+          name="path"
+          value={path}
+          onChange={(e) => choose(e.target.value)}
+          className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5"
+        >
           {editable.map((e) => (
             <option key={e.path} value={e.path}>{`${e.label} (${e.kind})`}</option>
           ))}
@@ -59,19 +68,46 @@ function Editor({ editable }: Props) {
       <label className="text-sm">
         <span className="block text-ink-muted">New value{selected ? ` (${selected.unit})` : ''}</span>
         {multiline ? (
-          <textarea name="value" rows={6} value={text} onChange={(e) => setText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1 font-mono text-xs" />
+          <textarea
+            name="value"
+            rows={6}
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+            className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1 font-mono text-xs"
+          />
         ) : (
-          <input name="value" value={text} onChange={(e) => setText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+          <input
+            name="value"
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+            className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+          />
         )}
       </label>
       <label className="text-sm">
         <span className="block text-ink-muted">Why (recorded with the version)</span>
-        <input name="summary" value={summary} onChange={(e) => setSummary(e.target.value)} maxLength={500} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+        <input
+          name="summary"
+          value={summary}
+          onChange={(e) => setSummary(e.target.value)}
+          maxLength={500}
+          className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+        />
       </label>
       <div>
-        <button type="submit" disabled={save.isPending} className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60">Save as a new version</button>
+        <button
+          type="submit"
+          disabled={save.isPending}
+          className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60"
+        >
+          Save as a new version
+        </button>
       </div>
-      {(parseError ?? save.error?.message) && <p role="alert" className="text-sm text-danger">{parseError ?? save.error?.message}</p>}
+      {(parseError ?? save.error?.message) && (
+        <p role="alert" className="text-sm text-danger">
+          {parseError ?? save.error?.message}
+        </p>
+      )}
     </form>
   );
 }

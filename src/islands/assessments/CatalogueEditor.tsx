@@ -28,10 +28,13 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
   const [models, setModels] = useState(initial);
   const save = useSaveCatalogue();
   const isNew = (m: Model) => !initial.some((x) => x.id === m.id);
-  const editable = (m: Model, kind: 'technical' | 'financial') => (isNew(m) ? canTechnical : kind === 'technical' ? canTechnical : canFinancial);
+  const editable = (m: Model, kind: 'technical' | 'financial') =>
+    isNew(m) ? canTechnical : kind === 'technical' ? canTechnical : canFinancial;
 
   function set(index: number, key: keyof Model, raw: string) {
-    setModels((list) => list.map((m, i) => (i === index ? { ...m, [key]: key === 'id' || key === 'name' ? raw : Number(raw) } : m)));
+    setModels((list) =>
+      list.map((m, i) => (i === index ? { ...m, [key]: key === 'id' || key === 'name' ? raw : Number(raw) } : m)),
+    );
   }
   function submit(event: FormEvent) {
     event.preventDefault();
@@ -45,7 +48,10 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
           <thead>
             <tr className="border-b border-line text-left text-ink-muted">
               {COLUMNS.map((c) => (
-                <th key={c.key} className="py-1.5 pr-2">{c.label}<span className="block text-xs font-normal">{c.kind}</span></th>
+                <th key={c.key} className="py-1.5 pr-2">
+                  {c.label}
+                  <span className="block text-xs font-normal">{c.kind}</span>
+                </th>
               ))}
               <th></th>
             </tr>
@@ -68,7 +74,13 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
                 ))}
                 <td>
                   {canTechnical && (
-                    <button type="button" onClick={() => setModels((list) => list.filter((_, j) => j !== i))} className="text-sm text-danger">Remove</button>
+                    <button
+                      type="button"
+                      onClick={() => setModels((list) => list.filter((_, j) => j !== i))}
+                      className="text-sm text-danger"
+                    >
+                      Remove
+                    </button>
                   )}
                 </td>
               </tr>
@@ -80,17 +92,42 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
         {canTechnical && (
           <button
             type="button"
-            onClick={() => setModels((list) => [...list, { id: `unit-${list.length + 1}`, name: 'New unit', nominalFlowLps: 100, heatRecoveryEfficiency: 0.75, specificFanPowerWPerLps: 1.2, installedCostGbp: 5000, annualMaintenanceGbp: 150, lifeYears: 15, soundDbA: 32 }])}
+            onClick={() =>
+              setModels((list) => [
+                ...list,
+                {
+                  id: `unit-${list.length + 1}`,
+                  name: 'New unit',
+                  nominalFlowLps: 100,
+                  heatRecoveryEfficiency: 0.75,
+                  specificFanPowerWPerLps: 1.2,
+                  installedCostGbp: 5000,
+                  annualMaintenanceGbp: 150,
+                  lifeYears: 15,
+                  soundDbA: 32,
+                },
+              ])
+            }
             className="rounded-control border border-line px-3 py-1.5 text-sm"
           >
             Add a model
           </button>
         )}
         {(canTechnical || canFinancial) && (
-          <button type="submit" disabled={save.isPending} className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60">Save catalogue as a new version</button>
+          <button
+            type="submit"
+            disabled={save.isPending}
+            className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60"
+          >
+            Save catalogue as a new version
+          </button>
         )}
       </div>
-      {save.isError && <p role="alert" className="mt-2 text-sm text-danger">{save.error.message}</p>}
+      {save.isError && (
+        <p role="alert" className="mt-2 text-sm text-danger">
+          {save.error.message}
+        </p>
+      )}
     </form>
   );
 }

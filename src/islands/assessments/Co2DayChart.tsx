@@ -2,7 +2,14 @@
  * CO2 over the school day for each season against the criterion lines. ag-charts with only the modules
  * used here; render with client:only="react" inside a fixed-height container.
  */
-import { CrossLinesModule, LegendModule, LineSeriesModule, ModuleRegistry, NumberAxisModule, type AgCartesianChartOptions } from 'ag-charts-community';
+import {
+  CrossLinesModule,
+  LegendModule,
+  LineSeriesModule,
+  ModuleRegistry,
+  NumberAxisModule,
+  type AgCartesianChartOptions,
+} from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
 import { useMemo } from 'react';
 import { useDarkTheme } from '../use-dark-theme';
@@ -20,7 +27,8 @@ export interface Co2DayChartProps {
   limits: { label: string; ppm: number }[];
 }
 
-const clock = (minute: number) => `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(Math.round(minute % 60)).padStart(2, '0')}`;
+const clock = (minute: number) =>
+  `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(Math.round(minute % 60)).padStart(2, '0')}`;
 const SEASON_COLOURS = { light: ['#1f6f6b', '#8a5a12', '#a1302b'], dark: ['#5cc3ba', '#e7b35f', '#f08a83'] };
 
 export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
@@ -42,13 +50,25 @@ export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
         marker: { enabled: false },
       })),
       axes: {
-        x: { type: 'number', position: 'bottom', nice: false, label: { formatter: ({ value }: { value: number }) => clock(value) }, title: { text: 'Time of day' } },
+        x: {
+          type: 'number',
+          position: 'bottom',
+          nice: false,
+          label: { formatter: ({ value }: { value: number }) => clock(value) },
+          title: { text: 'Time of day' },
+        },
         y: {
           type: 'number',
           position: 'left',
           min: 0,
           title: { text: 'CO2 (ppm)' },
-          crossLines: limits.map((l, i) => ({ type: 'line' as const, value: l.ppm, stroke: dark ? '#f08a83' : '#a1302b', lineDash: [6, 4], label: { text: l.label, position: i === 0 ? ('bottom-right' as const) : ('top-right' as const) } })),
+          crossLines: limits.map((l, i) => ({
+            type: 'line' as const,
+            value: l.ppm,
+            stroke: dark ? '#f08a83' : '#a1302b',
+            lineDash: [6, 4],
+            label: { text: l.label, position: i === 0 ? ('bottom-right' as const) : ('top-right' as const) },
+          })),
         },
       },
       legend: { position: 'bottom' },

@@ -1,7 +1,13 @@
 /** Start an assessment (for roles that may), follow its progress, and see the recent runs. */
 import { QueryClientProvider, useQueryClient } from '@tanstack/react-query';
 import { useEffect, useState, type FormEvent } from 'react';
-import { assessmentsQueryClient, useRuns, useRunStatus, useStartRun, type RunStatusView } from '../../lib/client/assessments';
+import {
+  assessmentsQueryClient,
+  useRuns,
+  useRunStatus,
+  useStartRun,
+  type RunStatusView,
+} from '../../lib/client/assessments';
 
 interface Props {
   canRun: boolean;
@@ -9,10 +15,18 @@ interface Props {
   initialRuns: RunStatusView[];
 }
 
-const STATUS_WORDS: Record<RunStatusView['status'], string> = { queued: 'Queued', running: 'Running', succeeded: 'Finished', failed: 'Failed' };
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
+const STATUS_WORDS: Record<RunStatusView['status'], string> = {
+  queued: 'Queued',
+  running: 'Running',
+  succeeded: 'Finished',
+  failed: 'Failed',
+};
+const when = (iso: string | null) =>
+  iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—';
 const seconds = (run: RunStatusView) =>
-  run.startedAt && run.finishedAt ? `${((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000).toFixed(1)} s` : '—';
+  run.startedAt && run.finishedAt
+    ? `${((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000).toFixed(1)} s`
+    : '—';
 
 function Progress({ id, onDone }: { id: string; onDone: () => void }) {
   const { data, error } = useRunStatus(id);
@@ -20,29 +34,63 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
   useEffect(() => {
     if (finished) onDone();
   }, [finished, onDone]);
-  if (error) return <p role="alert" className="text-sm text-danger">{error.message}</p>;
+  if (error)
+    return (
+      <p role="alert" className="text-sm text-danger">
+        {error.message}
+      </p>
+    );
   if (!data) return <p className="text-sm text-ink-muted">Starting…</p>;
-  const pct = data.roomsTotal > 0 ? Math.round((100 * data.roomsDone) / data.roomsTotal) : data.status === 'succeeded' ? 100 : 0;
+  const pct =
+    data.roomsTotal > 0 ? Math.round((100 * data.roomsDone) / data.roomsTotal) : data.status === 'succeeded' ? 100 : 0;
   return (
     <div className="mt-4" data-testid="run-progress" data-status={data.status}>
       <div className="flex justify-between text-sm">
-        <span>{STATUS_WORDS[data.status]}{data.scope === 'school' && data.schoolName ? ` · ${data.schoolName}` : ' · whole trust'}</span>
-        <span>{data.roomsDone.toLocaleString('en-GB')} of {data.roomsTotal.toLocaleString('en-GB')} rooms</span>
+        <span>
+          {STATUS_WORDS[data.status]}
+          {data.scope === 'school' && data.schoolName ? ` · ${data.schoolName}` : ' · whole trust'}
+        </span>
+        <span>
+          {data.roomsDone.toLocaleString('en-GB')} of {data.roomsTotal.toLocaleString('en-GB')} rooms
+        </span>
       </div>
-      <div role="progressbar" aria-label="Assessment progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} className="mt-1 h-3 w-full overflow-hidden rounded-control bg-brand-soft">
-        <div className={`h-full ${data.status === 'failed' ? 'bg-danger' : 'bg-brand'} transition-all`} style={{ width: `${pct}%` }} />
+      <div
+        role="progressbar"
+        aria-label="Assessment progress"
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={pct}
+        className="mt-1 h-3 w-full overflow-hidden rounded-control bg-brand-soft"
+      >
+        <div
+          className={`h-full ${data.status === 'failed' ? 'bg-danger' : 'bg-brand'} transition-all`}
+          style={{ width: `${pct}%` }}
+        />
       </div>
       {data.status === 'succeeded' && (
         <p className="mt-2 text-sm" role="status">
-          Finished in {seconds(data)}. <a href="/app/priorities" className="underline">See the priorities</a> or <a href="/api/exports/results.xlsx" className="underline">download the results (.xlsx)</a>.
-          {data.problems.length > 0 && ` ${data.problems.length} room(s) could not be assessed: see below.`}
+          Finished in {seconds(data)}.{' '}
+          <a href="/app/priorities" className="underline">
+            See the priorities
+          </a>{' '}
+          or{' '}
+          <a href="/api/exports/results.xlsx" className="underline">
+            download the results (.xlsx)
+          </a>
+          .{data.problems.length > 0 && ` ${data.problems.length} room(s) could not be assessed: see below.`}
         </p>
       )}
-      {data.status === 'failed' && <p role="alert" className="mt-2 text-sm text-danger">{data.error}</p>}
+      {data.status === 'failed' && (
+        <p role="alert" className="mt-2 text-sm text-danger">
+          {data.error}
+        </p>
+      )}
       {data.problems.length > 0 && (
         <ul className="mt-2 list-disc pl-6 text-sm">
           {data.problems.slice(0, 20).map((p) => (
-            <li key={p.roomId}>{p.roomCode}: {p.message}</li>
+            <li key={p.roomId}>
+              {p.roomCode}: {p.message}
+            </li>
           ))}
         </ul>
       )}
@@ -60,7 +108,9 @@ function Panel({ canRun, schools, initialRuns }: Props) {
 
   function submit(event: FormEvent) {
     event.preventDefault();
-    start.mutate(scope === 'trust' ? { scope: 'trust' } : { scope: 'school', schoolId: scope }, { onSuccess: ({ id }) => setRunId(id) });
+    start.mutate(scope === 'trust' ? { scope: 'trust' } : { scope: 'school', schoolId: scope }, {
+      onSuccess: ({ id }) => setRunId(id),
+    });
   }
 
   return (
@@ -69,22 +119,45 @@ function Panel({ canRun, schools, initialRuns }: Props) {
         <form onSubmit={submit} className="flex flex-wrap items-end gap-3">
           <label className="text-sm">
             <span className="block text-ink-muted">Assess</span>
-            <select name="scope" value={scope} onChange={(e) => setScope(e.target.value)} className="mt-1 rounded-control border border-line bg-surface px-2 py-1.5">
+            <select
+              name="scope"
+              value={scope}
+              onChange={(e) => setScope(e.target.value)}
+              className="mt-1 rounded-control border border-line bg-surface px-2 py-1.5"
+            >
               <option value="trust">The whole trust</option>
               {schools.map((s) => (
-                <option key={s.id} value={s.id}>{s.name}</option>
+                <option key={s.id} value={s.id}>
+                  {s.name}
+                </option>
               ))}
             </select>
           </label>
-          <button type="submit" disabled={start.isPending} className="rounded-control bg-brand px-4 py-2 text-sm font-semibold text-white disabled:opacity-60">
+          <button
+            type="submit"
+            disabled={start.isPending}
+            className="rounded-control bg-brand px-4 py-2 text-sm font-semibold text-white disabled:opacity-60"
+          >
             Run assessment
           </button>
         </form>
       ) : (
-        <p className="text-sm text-ink-muted">Your role can read results; estates managers, finance leads and trust admins start runs.</p>
+        <p className="text-sm text-ink-muted">
+          Your role can read results; estates managers, finance leads and trust admins start runs.
+        </p>
       )}
-      {start.isError && <p role="alert" className="mt-2 text-sm text-danger">{start.error.message}</p>}
-      {runId && <Progress key={runId} id={runId} onDone={() => void client.invalidateQueries({ queryKey: ['assessment-runs'] })} />}
+      {start.isError && (
+        <p role="alert" className="mt-2 text-sm text-danger">
+          {start.error.message}
+        </p>
+      )}
+      {runId && (
+        <Progress
+          key={runId}
+          id={runId}
+          onDone={() => void client.invalidateQueries({ queryKey: ['assessment-runs'] })}
+        />
+      )}
 
       <h2 className="mt-8 text-lg font-semibold">Recent runs</h2>
       {runs.data.length === 0 ? (
@@ -94,8 +167,13 @@ function Panel({ canRun, schools, initialRuns }: Props) {
           <table className="w-full text-sm" data-testid="runs-table">
             <thead>
               <tr className="border-b border-line text-left text-ink-muted">
-                <th className="py-1.5 pr-4">Started</th><th className="pr-4">Scope</th><th className="pr-4">Status</th><th className="pr-4 text-right">Rooms</th>
-                <th className="pr-4 text-right">Took</th><th className="pr-4">Assumptions</th><th>By</th>
+                <th className="py-1.5 pr-4">Started</th>
+                <th className="pr-4">Scope</th>
+                <th className="pr-4">Status</th>
+                <th className="pr-4 text-right">Rooms</th>
+                <th className="pr-4 text-right">Took</th>
+                <th className="pr-4">Assumptions</th>
+                <th>By</th>
               </tr>
             </thead>
             <tbody>
@@ -103,8 +181,13 @@ function Panel({ canRun, schools, initialRuns }: Props) {
                 <tr key={r.id} className="border-b border-line">
                   <td className="py-1.5 pr-4">{when(r.createdAt)}</td>
                   <td className="pr-4">{r.scope === 'trust' ? 'Whole trust' : r.schoolName}</td>
-                  <td className="pr-4">{STATUS_WORDS[r.status]}{r.status === 'failed' && r.error ? `: ${r.error}` : ''}</td>
-                  <td className="pr-4 text-right">{r.roomsDone.toLocaleString('en-GB')} / {r.roomsTotal.toLocaleString('en-GB')}</td>
+                  <td className="pr-4">
+                    {STATUS_WORDS[r.status]}
+                    {r.status === 'failed' && r.error ? `: ${r.error}` : ''}
+                  </td>
+                  <td className="pr-4 text-right">
+                    {r.roomsDone.toLocaleString('en-GB')} / {r.roomsTotal.toLocaleString('en-GB')}
+                  </td>
                   <td className="pr-4 text-right">{seconds(r)}</td>
                   <td className="pr-4">{r.assumptionsVersion ?? '—'}</td>
                   <td>{r.startedByEmail ?? '—'}</td>

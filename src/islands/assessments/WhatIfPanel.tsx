@@ -24,18 +24,33 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
   const rows: [string, string, string][] = [
     ['Risk band', a.risk.bandLabel, b.risk.bandLabel],
     ['Pupil-hours a year above threshold', int(a.risk.pupilHoursPerYearAbove), int(b.risk.pupilHoursPerYearAbove)],
-    ['Worst-season occupied mean CO2', `${int(worstA.occupiedMeanCo2Ppm)} ppm`, `${int(worstB.occupiedMeanCo2Ppm)} ppm`],
+    [
+      'Worst-season occupied mean CO2',
+      `${int(worstA.occupiedMeanCo2Ppm)} ppm`,
+      `${int(worstB.occupiedMeanCo2Ppm)} ppm`,
+    ],
     ['Worst-season peak CO2', `${int(worstA.peakCo2Ppm)} ppm`, `${int(worstB.peakCo2Ppm)} ppm`],
-    ['Winter fresh air', `${int(a.seasons.winter.ventilation.totalLps)} l/s`, `${int(b.seasons.winter.ventilation.totalLps)} l/s`],
+    [
+      'Winter fresh air',
+      `${int(a.seasons.winter.ventilation.totalLps)} l/s`,
+      `${int(b.seasons.winter.ventilation.totalLps)} l/s`,
+    ],
     ['Criterion', a.criteriaMet ? 'Met' : 'Not met', b.criteriaMet ? 'Met' : 'Not met'],
     [
       'Units still recommended',
       a.retrofit?.feasible ? a.retrofit.units.map((u) => `${u.count} × ${u.modelName}`).join(' + ') : '—',
       b.retrofit?.feasible ? b.retrofit.units.map((u) => `${u.count} × ${u.modelName}`).join(' + ') : '—',
     ],
-    ['Capital of those units', a.retrofit?.feasible ? gbp(a.retrofit.capitalCostGbp) : '—', b.retrofit?.feasible ? gbp(b.retrofit.capitalCostGbp) : '—'],
+    [
+      'Capital of those units',
+      a.retrofit?.feasible ? gbp(a.retrofit.capitalCostGbp) : '—',
+      b.retrofit?.feasible ? gbp(b.retrofit.capitalCostGbp) : '—',
+    ],
   ];
-  const curves = (['winter', 'mid', 'summer'] as const).map((s) => ({ label: SEASON_LABELS[s], points: b.seasons[s].curve }));
+  const curves = (['winter', 'mid', 'summer'] as const).map((s) => ({
+    label: SEASON_LABELS[s],
+    points: b.seasons[s].curve,
+  }));
   const limits = [{ label: `Daily mean limit ${int(b.criterion.meanLimitPpm)} ppm`, ppm: b.criterion.meanLimitPpm }];
   return (
     <div className="mt-4" data-testid="what-if-result">
@@ -51,7 +66,9 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
         <tbody>
           {rows.map(([name, today, changed]) => (
             <tr key={name} className="border-b border-line">
-              <th scope="row" className="py-1.5 pr-4 text-left font-normal">{name}</th>
+              <th scope="row" className="py-1.5 pr-4 text-left font-normal">
+                {name}
+              </th>
               <td className="pr-4 text-right">{today}</td>
               <td className="text-right font-semibold">{changed}</td>
             </tr>
@@ -91,16 +108,39 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
       <form onSubmit={submit} className="mt-3 grid gap-3 sm:grid-cols-4 sm:items-end">
         <label className="text-sm">
           <span className="block text-ink-muted">Pupils</span>
-          <input name="pupils" type="number" min={0} max={500} step={1} value={pupilsText} onChange={(e) => setPupilsText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+          <input
+            name="pupils"
+            type="number"
+            min={0}
+            max={500}
+            step={1}
+            value={pupilsText}
+            onChange={(e) => setPupilsText(e.target.value)}
+            className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+          />
         </label>
         <label className="text-sm">
           <span className="block text-ink-muted">Openable window area (m², up to {glazingAreaM2})</span>
-          <input name="openableAreaM2" type="number" min={0} max={glazingAreaM2} step="any" value={openableText} onChange={(e) => setOpenableText(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+          <input
+            name="openableAreaM2"
+            type="number"
+            min={0}
+            max={glazingAreaM2}
+            step="any"
+            value={openableText}
+            onChange={(e) => setOpenableText(e.target.value)}
+            className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+          />
         </label>
         <div className="flex gap-2 text-sm">
           <label className="flex-1">
             <span className="block text-ink-muted">Add units</span>
-            <select name="modelId" value={modelId} onChange={(e) => setModelId(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1">
+            <select
+              name="modelId"
+              value={modelId}
+              onChange={(e) => setModelId(e.target.value)}
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+            >
               <option value="">None</option>
               {catalogue.map((m) => (
                 <option key={m.id} value={m.id}>{`${m.name} (${m.nominalFlowLps} l/s)`}</option>
@@ -109,15 +149,29 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
           </label>
           <label className="w-16">
             <span className="block text-ink-muted">Count</span>
-            <input name="count" type="number" min={1} max={12} value={count} onChange={(e) => setCount(e.target.value)} className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1" />
+            <input
+              name="count"
+              type="number"
+              min={1}
+              max={12}
+              value={count}
+              onChange={(e) => setCount(e.target.value)}
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
+            />
           </label>
         </div>
-        <button type="submit" disabled={ask.isPending} className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={ask.isPending}
+          className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60"
+        >
           {ask.isPending ? 'Working it out…' : 'Show what changes'}
         </button>
       </form>
       {ask.isError && (
-        <p role="alert" className="mt-3 rounded-control bg-danger-soft px-3 py-2 text-sm text-danger">{ask.error.message}</p>
+        <p role="alert" className="mt-3 rounded-control bg-danger-soft px-3 py-2 text-sm text-danger">
+          {ask.error.message}
+        </p>
       )}
       {ask.data && <Comparison answer={ask.data} />}
     </div>

@@ -25,7 +25,7 @@ const TITLES: Record<DashboardChartKind, string> = {
 function caption(kind: DashboardChartKind, d: Dashboard): string {
   switch (kind) {
     case 'co2':
-      return 'Rooms in each school by their worst season\'s mean CO₂ over the school day. The longer the amber and red parts of a bar, the more rooms in that school have stale air.';
+      return "Rooms in each school by their worst season's mean CO₂ over the school day. The longer the amber and red parts of a bar, the more rooms in that school have stale air.";
     case 'scatter':
       return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years energy savings take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back on energy alone are not plotted.` : ''}`;
     case 'cumulative':
@@ -52,11 +52,31 @@ function TableAlternative({ kind, d, bandLabels }: { kind: DashboardChartKind; d
     return (
       <table className="w-full text-left text-sm">
         <caption className="sr-only">Rooms per school by worst-season mean CO₂</caption>
-        <thead><tr><th scope="col" className={cell}>School</th><th scope="col" className={`${cell} text-right`}>Below 1,000 ppm</th><th scope="col" className={`${cell} text-right`}>1,000–1,499</th><th scope="col" className={`${cell} text-right`}>1,500–1,999</th><th scope="col" className={`${cell} text-right`}>2,000 and above</th></tr></thead>
+        <thead>
+          <tr>
+            <th scope="col" className={cell}>
+              School
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              Below 1,000 ppm
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              1,000–1,499
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              1,500–1,999
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              2,000 and above
+            </th>
+          </tr>
+        </thead>
         <tbody>
           {d.co2BySchool.map((r) => (
             <tr key={r.schoolId} className="border-t border-line">
-              <th scope="row" className={`${cell} font-normal`}>{r.schoolName}</th>
+              <th scope="row" className={`${cell} font-normal`}>
+                {r.schoolName}
+              </th>
               <td className={`${cell} text-right tabular-nums`}>{r.below1000}</td>
               <td className={`${cell} text-right tabular-nums`}>{r.from1000to1500}</td>
               <td className={`${cell} text-right tabular-nums`}>{r.from1500to2000}</td>
@@ -71,18 +91,42 @@ function TableAlternative({ kind, d, bandLabels }: { kind: DashboardChartKind; d
     const byBand = [1, 2, 3, 4].map((band) => {
       const pts = d.scatter.points.filter((p) => p.riskBand === band);
       const paybacks = pts.map((p) => p.simplePaybackYears).sort((a, b) => a - b);
-      return { band, count: pts.length, median: paybacks.length ? paybacks[Math.floor(paybacks.length / 2)]! : null, capital: pts.reduce((s, p) => s + p.capitalCostGbp, 0) };
+      return {
+        band,
+        count: pts.length,
+        median: paybacks.length ? paybacks[Math.floor(paybacks.length / 2)]! : null,
+        capital: pts.reduce((s, p) => s + p.capitalCostGbp, 0),
+      };
     });
     return (
       <table className="w-full text-left text-sm">
         <caption className="sr-only">Rooms on the scatter by risk band</caption>
-        <thead><tr><th scope="col" className={cell}>Band</th><th scope="col" className={`${cell} text-right`}>Rooms</th><th scope="col" className={`${cell} text-right`}>Median payback</th><th scope="col" className={`${cell} text-right`}>Capital</th></tr></thead>
+        <thead>
+          <tr>
+            <th scope="col" className={cell}>
+              Band
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              Rooms
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              Median payback
+            </th>
+            <th scope="col" className={`${cell} text-right`}>
+              Capital
+            </th>
+          </tr>
+        </thead>
         <tbody>
           {byBand.map((b) => (
             <tr key={b.band} className="border-t border-line">
-              <th scope="row" className={`${cell} font-normal`}>{b.band} {bandLabels[b.band - 1]}</th>
+              <th scope="row" className={`${cell} font-normal`}>
+                {b.band} {bandLabels[b.band - 1]}
+              </th>
               <td className={`${cell} text-right tabular-nums`}>{b.count}</td>
-              <td className={`${cell} text-right tabular-nums`}>{b.median === null ? '—' : `${formatNumber(b.median)} yrs`}</td>
+              <td className={`${cell} text-right tabular-nums`}>
+                {b.median === null ? '—' : `${formatNumber(b.median)} yrs`}
+              </td>
               <td className={`${cell} text-right tabular-nums`}>{formatGbp(b.capital)}</td>
             </tr>
           ))}
@@ -96,11 +140,25 @@ function TableAlternative({ kind, d, bandLabels }: { kind: DashboardChartKind; d
   return (
     <table className="w-full text-left text-sm">
       <caption className="sr-only">Capital and pupil-hours removed, rooms done in ranked order</caption>
-      <thead><tr><th scope="col" className={cell}>Up to rank</th><th scope="col" className={`${cell} text-right`}>Capital spent</th><th scope="col" className={`${cell} text-right`}>Pupil-hours removed a year</th></tr></thead>
+      <thead>
+        <tr>
+          <th scope="col" className={cell}>
+            Up to rank
+          </th>
+          <th scope="col" className={`${cell} text-right`}>
+            Capital spent
+          </th>
+          <th scope="col" className={`${cell} text-right`}>
+            Pupil-hours removed a year
+          </th>
+        </tr>
+      </thead>
       <tbody>
         {rows.map((p) => (
           <tr key={p.rank} className="border-t border-line">
-            <th scope="row" className={`${cell} font-normal tabular-nums`}>{formatInteger(p.rank)}</th>
+            <th scope="row" className={`${cell} font-normal tabular-nums`}>
+              {formatInteger(p.rank)}
+            </th>
             <td className={`${cell} text-right tabular-nums`}>{formatGbp(p.cumulativeCapitalGbp)}</td>
             <td className={`${cell} text-right tabular-nums`}>{formatInteger(p.cumulativePupilHoursRemoved)}</td>
           </tr>
@@ -115,29 +173,49 @@ function Figure({ kind, bandLabels }: Props) {
   const headingId = `chart-${kind}-title`;
   return (
     <figure className="rounded-card border border-line bg-surface p-4" aria-labelledby={headingId}>
-      <h2 id={headingId} className="text-lg font-semibold">{TITLES[kind]}</h2>
+      <h2 id={headingId} className="text-lg font-semibold">
+        {TITLES[kind]}
+      </h2>
       {query.isPending ? (
         <Skeleton lines={5} label={`Loading ${TITLES[kind].toLowerCase()}`} />
       ) : query.isError ? (
         <ErrorState message={query.error.message} onRetry={() => void query.refetch()} />
       ) : kind === 'scatter' && query.data.scatter.points.length === 0 && query.data.scatter.neverPayBack > 0 ? (
         <EmptyState title="No recommended unit pays back on energy alone.">
-          Under the current energy prices all {formatInteger(query.data.scatter.neverPayBack)} rooms with recommended units cost more to run
-          than the heat they save, so there is no payback to plot. Rank them by need on the <a className="underline" href="/app/priorities">priorities page</a>; the
-          finance page shows how prices would change this.
+          Under the current energy prices all {formatInteger(query.data.scatter.neverPayBack)} rooms with recommended
+          units cost more to run than the heat they save, so there is no payback to plot. Rank them by need on the{' '}
+          <a className="underline" href="/app/priorities">
+            priorities page
+          </a>
+          ; the finance page shows how prices would change this.
         </EmptyState>
       ) : !hasData(kind, query.data) ? (
         <EmptyState title="Nothing to chart yet.">
-          {query.data.headline.roomsInRegister === 0 ? <a className="underline" href="/app/register">Import your register</a> : <a className="underline" href="/app/assessments">Run an assessment</a>}
+          {query.data.headline.roomsInRegister === 0 ? (
+            <a className="underline" href="/app/register">
+              Import your register
+            </a>
+          ) : (
+            <a className="underline" href="/app/assessments">
+              Run an assessment
+            </a>
+          )}
           {kind === 'co2' ? ' to see CO₂ by school.' : ' with a unit catalogue to see where units pay back.'}
         </EmptyState>
       ) : (
         <>
           <figcaption className="mt-1 text-sm text-ink-muted">{caption(kind, query.data)}</figcaption>
-          <div className="mt-3"><LazyChart data={chartData(kind, query.data, bandLabels)} heightPx={kind === 'co2' ? Math.max(260, 60 + query.data.co2BySchool.length * 44) : 320} /></div>
+          <div className="mt-3">
+            <LazyChart
+              data={chartData(kind, query.data, bandLabels)}
+              heightPx={kind === 'co2' ? Math.max(260, 60 + query.data.co2BySchool.length * 44) : 320}
+            />
+          </div>
           <details className="mt-3 text-sm">
             <summary className="cursor-pointer font-semibold text-brand">Show these figures as a table</summary>
-            <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label={`${TITLES[kind]}: figures`}><TableAlternative kind={kind} d={query.data} bandLabels={bandLabels} /></div>
+            <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label={`${TITLES[kind]}: figures`}>
+              <TableAlternative kind={kind} d={query.data} bandLabels={bandLabels} />
+            </div>
           </details>
         </>
       )}

@@ -11,7 +11,14 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import { useEffect, useMemo, useState } from 'react';
-import { prioritiesSearch, usePriorities, useSaveWeights, useWeights, type PriorityRow, type Weights } from '../../lib/client/portfolio';
+import {
+  prioritiesSearch,
+  usePriorities,
+  useSaveWeights,
+  useWeights,
+  type PriorityRow,
+  type Weights,
+} from '../../lib/client/portfolio';
 import { formatGbp, formatInteger, formatNumber } from '../../lib/format';
 import { QueryRoot } from './QueryRoot';
 import { EmptyState, ErrorState, Skeleton } from './States';
@@ -36,19 +43,41 @@ interface Filters {
   criteriaMet?: boolean | undefined;
 }
 
-const SORT_IDS = new Set(['rank', 'school', 'pupils', 'meanCo2Ppm', 'peakCo2Ppm', 'riskBand', 'unitCount', 'capitalCostGbp', 'simplePaybackYears']);
+const SORT_IDS = new Set([
+  'rank',
+  'school',
+  'pupils',
+  'meanCo2Ppm',
+  'peakCo2Ppm',
+  'riskBand',
+  'unitCount',
+  'capitalCostGbp',
+  'simplePaybackYears',
+]);
 const sameWeights = (a: Weights, b: Weights) =>
-  Math.abs(a.risk - b.risk) < 1e-9 && Math.abs(a.costEffectiveness - b.costEffectiveness) < 1e-9 && Math.abs(a.payback - b.payback) < 1e-9;
+  Math.abs(a.risk - b.risk) < 1e-9 &&
+  Math.abs(a.costEffectiveness - b.costEffectiveness) < 1e-9 &&
+  Math.abs(a.payback - b.payback) < 1e-9;
 const money = (v: number | null) => (v === null ? '—' : formatGbp(v));
-const years = (v: number | null, hasUnits: boolean) => (!hasUnits ? '—' : v === null ? 'Never' : `${formatNumber(v)} yrs`);
+const years = (v: number | null, hasUnits: boolean) =>
+  !hasUnits ? '—' : v === null ? 'Never' : `${formatNumber(v)} yrs`;
 
 /** Selected rooms across pages, with what the running totals need. */
 type Selection = Map<string, { capital: number; pupils: number }>;
 
 function BandBadge({ band, label }: { band: number; label: string }) {
-  const colour = ['', 'border-band-1 text-band-1', 'border-band-2 text-band-2', 'border-band-3 text-band-3', 'border-band-4 text-band-4'][band] ?? '';
+  const colour =
+    [
+      '',
+      'border-band-1 text-band-1',
+      'border-band-2 text-band-2',
+      'border-band-3 text-band-3',
+      'border-band-4 text-band-4',
+    ][band] ?? '';
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-control border px-2 py-0.5 text-xs font-semibold ${colour}`}>
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-control border px-2 py-0.5 text-xs font-semibold ${colour}`}
+    >
       <span aria-hidden="true">{band}</span>
       {label}
     </span>
@@ -102,7 +131,11 @@ function Priorities(props: PrioritiesProps) {
             onChange={(e) =>
               setSelection((prev) => {
                 const next = new Map(prev);
-                if (e.target.checked) next.set(row.original.roomId, { capital: row.original.capitalCostGbp ?? 0, pupils: row.original.pupils });
+                if (e.target.checked)
+                  next.set(row.original.roomId, {
+                    capital: row.original.capitalCostGbp ?? 0,
+                    pupils: row.original.pupils,
+                  });
                 else next.delete(row.original.roomId);
                 return next;
               })
@@ -110,7 +143,11 @@ function Priorities(props: PrioritiesProps) {
           />
         ),
       },
-      { id: 'rank', header: 'Rank', cell: ({ row }) => <span className="font-semibold tabular-nums">{row.original.rank}</span> },
+      {
+        id: 'rank',
+        header: 'Rank',
+        cell: ({ row }) => <span className="font-semibold tabular-nums">{row.original.rank}</span>,
+      },
       {
         id: 'school',
         header: 'School and block',
@@ -133,12 +170,40 @@ function Priorities(props: PrioritiesProps) {
         ),
       },
       { id: 'pupils', header: 'Pupils', meta: { numeric: true }, cell: ({ row }) => row.original.pupils },
-      { id: 'meanCo2Ppm', header: 'Mean CO₂ (ppm)', meta: { numeric: true }, cell: ({ row }) => formatInteger(row.original.meanCo2Ppm) },
-      { id: 'peakCo2Ppm', header: 'Peak CO₂ (ppm)', meta: { numeric: true }, cell: ({ row }) => formatInteger(row.original.peakCo2Ppm) },
-      { id: 'riskBand', header: 'Band', cell: ({ row }) => <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} /> },
-      { id: 'reason', enableSorting: false, header: 'Why', cell: ({ row }) => <span className="block min-w-64 text-xs">{row.original.reason}</span> },
-      { id: 'unitCount', header: 'Units recommended', cell: ({ row }) => <span className="text-xs">{row.original.unitsRecommended || '—'}</span> },
-      { id: 'capitalCostGbp', header: 'Capital', meta: { numeric: true }, cell: ({ row }) => money(row.original.capitalCostGbp) },
+      {
+        id: 'meanCo2Ppm',
+        header: 'Mean CO₂ (ppm)',
+        meta: { numeric: true },
+        cell: ({ row }) => formatInteger(row.original.meanCo2Ppm),
+      },
+      {
+        id: 'peakCo2Ppm',
+        header: 'Peak CO₂ (ppm)',
+        meta: { numeric: true },
+        cell: ({ row }) => formatInteger(row.original.peakCo2Ppm),
+      },
+      {
+        id: 'riskBand',
+        header: 'Band',
+        cell: ({ row }) => <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} />,
+      },
+      {
+        id: 'reason',
+        enableSorting: false,
+        header: 'Why',
+        cell: ({ row }) => <span className="block min-w-64 text-xs">{row.original.reason}</span>,
+      },
+      {
+        id: 'unitCount',
+        header: 'Units recommended',
+        cell: ({ row }) => <span className="text-xs">{row.original.unitsRecommended || '—'}</span>,
+      },
+      {
+        id: 'capitalCostGbp',
+        header: 'Capital',
+        meta: { numeric: true },
+        cell: ({ row }) => money(row.original.capitalCostGbp),
+      },
       {
         id: 'simplePaybackYears',
         header: 'Payback',
@@ -187,14 +252,20 @@ function Priorities(props: PrioritiesProps) {
   if (!props.hasRooms) {
     return (
       <EmptyState title="No rooms in the register yet.">
-        <a className="underline" href="/app/register">Import your register</a> to list your schools' rooms, then run an assessment.
+        <a className="underline" href="/app/register">
+          Import your register
+        </a>{' '}
+        to list your schools' rooms, then run an assessment.
       </EmptyState>
     );
   }
   if (!props.hasResults) {
     return (
       <EmptyState title="No assessed rooms yet.">
-        <a className="underline" href="/app/assessments">Run an assessment</a> of the trust to rank its rooms.
+        <a className="underline" href="/app/assessments">
+          Run an assessment
+        </a>{' '}
+        of the trust to rank its rooms.
       </EmptyState>
     );
   }
@@ -218,35 +289,74 @@ function Priorities(props: PrioritiesProps) {
         <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-5">
           <label className="text-sm">
             <span className="block font-semibold">School</span>
-            <select className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5" value={filters.schoolId ?? ''} onChange={(e) => setFilter({ schoolId: e.target.value || undefined, blockId: undefined })}>
+            <select
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5"
+              value={filters.schoolId ?? ''}
+              onChange={(e) => setFilter({ schoolId: e.target.value || undefined, blockId: undefined })}
+            >
               <option value="">All schools</option>
-              {props.schools.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+              {props.schools.map((s) => (
+                <option key={s.id} value={s.id}>
+                  {s.name}
+                </option>
+              ))}
             </select>
           </label>
           <label className="text-sm">
             <span className="block font-semibold">Block</span>
-            <select className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5 disabled:opacity-60" value={filters.blockId ?? ''} disabled={!school} onChange={(e) => setFilter({ blockId: e.target.value || undefined })}>
+            <select
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5 disabled:opacity-60"
+              value={filters.blockId ?? ''}
+              disabled={!school}
+              onChange={(e) => setFilter({ blockId: e.target.value || undefined })}
+            >
               <option value="">{school ? 'All blocks' : 'Choose a school first'}</option>
-              {school?.blocks.map((b) => <option key={b.id} value={b.id}>{b.name}</option>)}
+              {school?.blocks.map((b) => (
+                <option key={b.id} value={b.id}>
+                  {b.name}
+                </option>
+              ))}
             </select>
           </label>
           <label className="text-sm">
             <span className="block font-semibold">Band</span>
-            <select className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5" value={filters.band ?? ''} onChange={(e) => setFilter({ band: e.target.value ? Number(e.target.value) : undefined })}>
+            <select
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5"
+              value={filters.band ?? ''}
+              onChange={(e) => setFilter({ band: e.target.value ? Number(e.target.value) : undefined })}
+            >
               <option value="">All bands</option>
-              {props.bandLabels.map((b) => <option key={b.value} value={b.value}>{b.value} {b.label}</option>)}
+              {props.bandLabels.map((b) => (
+                <option key={b.value} value={b.value}>
+                  {b.value} {b.label}
+                </option>
+              ))}
             </select>
           </label>
           <label className="text-sm">
             <span className="block font-semibold">Ventilation</span>
-            <select className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5" value={filters.ventilationType ?? ''} onChange={(e) => setFilter({ ventilationType: e.target.value || undefined })}>
+            <select
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5"
+              value={filters.ventilationType ?? ''}
+              onChange={(e) => setFilter({ ventilationType: e.target.value || undefined })}
+            >
               <option value="">All types</option>
-              {props.ventilationTypes.map((v) => <option key={v.value} value={v.value}>{v.label}</option>)}
+              {props.ventilationTypes.map((v) => (
+                <option key={v.value} value={v.value}>
+                  {v.label}
+                </option>
+              ))}
             </select>
           </label>
           <label className="text-sm">
             <span className="block font-semibold">Criterion</span>
-            <select className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5" value={filters.criteriaMet === undefined ? '' : String(filters.criteriaMet)} onChange={(e) => setFilter({ criteriaMet: e.target.value === '' ? undefined : e.target.value === 'true' })}>
+            <select
+              className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1.5"
+              value={filters.criteriaMet === undefined ? '' : String(filters.criteriaMet)}
+              onChange={(e) =>
+                setFilter({ criteriaMet: e.target.value === '' ? undefined : e.target.value === 'true' })
+              }
+            >
               <option value="">Met or not</option>
               <option value="false">Not met</option>
               <option value="true">Met</option>
@@ -254,25 +364,51 @@ function Priorities(props: PrioritiesProps) {
           </label>
         </div>
         {filtered && (
-          <button type="button" className="mt-3 text-sm font-semibold text-brand underline" onClick={() => setFilters({})}>
+          <button
+            type="button"
+            className="mt-3 text-sm font-semibold text-brand underline"
+            onClick={() => setFilters({})}
+          >
             Clear filters
           </button>
         )}
       </fieldset>
 
-      <div className="flex flex-wrap items-center gap-3 rounded-card border border-line bg-surface px-4 py-3 text-sm" aria-live="polite" data-testid="selection-totals">
+      <div
+        className="flex flex-wrap items-center gap-3 rounded-card border border-line bg-surface px-4 py-3 text-sm"
+        aria-live="polite"
+        data-testid="selection-totals"
+      >
         {selection.size === 0 ? (
-          <span className="text-ink-muted">Tick rooms to see the capital they need and the pupils they would help.</span>
+          <span className="text-ink-muted">
+            Tick rooms to see the capital they need and the pupils they would help.
+          </span>
         ) : (
           <>
-            <span><strong>{selection.size}</strong> {selection.size === 1 ? 'room' : 'rooms'} selected</span>
-            <span>Capital <strong>{formatGbp(totals.capital)}</strong></span>
-            <span>Pupils helped <strong>{formatInteger(totals.pupils)}</strong></span>
-            <button type="button" className="font-semibold text-brand underline" onClick={() => setSelection(new Map())}>Clear selection</button>
+            <span>
+              <strong>{selection.size}</strong> {selection.size === 1 ? 'room' : 'rooms'} selected
+            </span>
+            <span>
+              Capital <strong>{formatGbp(totals.capital)}</strong>
+            </span>
+            <span>
+              Pupils helped <strong>{formatInteger(totals.pupils)}</strong>
+            </span>
+            <button
+              type="button"
+              className="font-semibold text-brand underline"
+              onClick={() => setSelection(new Map())}
+            >
+              Clear selection
+            </button>
           </>
         )}
         {props.canExport && (
-          <a className="ml-auto rounded-control border border-brand px-3 py-1.5 font-semibold no-underline" href={exportHref} download>
+          <a
+            className="ml-auto rounded-control border border-brand px-3 py-1.5 font-semibold no-underline"
+            href={exportHref}
+            download
+          >
             Export this view (.xlsx)
           </a>
         )}
@@ -281,17 +417,30 @@ function Priorities(props: PrioritiesProps) {
       {query.isError && !query.data ? (
         <ErrorState message={query.error.message} onRetry={() => void query.refetch()} />
       ) : query.isPending ? (
-        <div className="rounded-card border border-line bg-surface"><Skeleton lines={10} label="Loading the ranked rooms" /></div>
+        <div className="rounded-card border border-line bg-surface">
+          <Skeleton lines={10} label="Loading the ranked rooms" />
+        </div>
       ) : total === 0 ? (
         <EmptyState title="No rooms match these filters.">
-          <button type="button" className="font-semibold text-brand underline" onClick={() => setFilters({})}>Clear filters</button> to see every assessed room.
+          <button type="button" className="font-semibold text-brand underline" onClick={() => setFilters({})}>
+            Clear filters
+          </button>{' '}
+          to see every assessed room.
         </EmptyState>
       ) : (
         <div className="rounded-card border border-line bg-surface">
-          <div className="overflow-x-auto" aria-busy={query.isFetching} tabIndex={0} role="region" aria-label="Ranked rooms">
+          <div
+            className="overflow-x-auto"
+            aria-busy={query.isFetching}
+            tabIndex={0}
+            role="region"
+            aria-label="Ranked rooms"
+          >
             <table className="w-full text-left text-sm" data-testid="priorities-table">
               <caption className="sr-only">
-                Assessed rooms ranked for retrofit, {preview ? 'with the weights you are trying out' : "with the trust's saved weights"}; sorted by {sort.id}.
+                Assessed rooms ranked for retrofit,{' '}
+                {preview ? 'with the weights you are trying out' : "with the trust's saved weights"}; sorted by{' '}
+                {sort.id}.
               </caption>
               <thead className="border-b border-line text-ink-muted">
                 {table.getHeaderGroups().map((group) => (
@@ -307,7 +456,11 @@ function Priorities(props: PrioritiesProps) {
                           aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
                         >
                           {header.column.getCanSort() ? (
-                            <button type="button" className="inline-flex items-center gap-1 font-semibold hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
+                            <button
+                              type="button"
+                              className="inline-flex items-center gap-1 font-semibold hover:text-ink"
+                              onClick={header.column.getToggleSortingHandler()}
+                            >
                               {flexRender(header.column.columnDef.header, header.getContext())}
                               <span aria-hidden="true">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
                             </button>
@@ -322,7 +475,11 @@ function Priorities(props: PrioritiesProps) {
               </thead>
               <tbody className={query.isFetching ? 'opacity-60' : ''}>
                 {table.getRowModel().rows.map((row) => (
-                  <tr key={row.id} className="border-b border-line align-top last:border-0" data-room-id={row.original.roomId}>
+                  <tr
+                    key={row.id}
+                    className="border-b border-line align-top last:border-0"
+                    data-room-id={row.original.roomId}
+                  >
                     {row.getVisibleCells().map((cell) => {
                       const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                       return (
@@ -336,29 +493,58 @@ function Priorities(props: PrioritiesProps) {
               </tbody>
             </table>
           </div>
-          <nav aria-label="Pages of the list" className="flex flex-wrap items-center gap-3 border-t border-line px-4 py-3 text-sm">
-            <button type="button" className="rounded-control border border-line px-3 py-1.5 font-semibold disabled:opacity-50" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()}>
+          <nav
+            aria-label="Pages of the list"
+            className="flex flex-wrap items-center gap-3 border-t border-line px-4 py-3 text-sm"
+          >
+            <button
+              type="button"
+              className="rounded-control border border-line px-3 py-1.5 font-semibold disabled:opacity-50"
+              onClick={() => table.previousPage()}
+              disabled={!table.getCanPreviousPage()}
+            >
               Previous
             </button>
             <span>
               Page {pagination.pageIndex + 1} of {formatInteger(pageCount)} · {formatInteger(total)} rooms
             </span>
-            <button type="button" className="rounded-control border border-line px-3 py-1.5 font-semibold disabled:opacity-50" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()}>
+            <button
+              type="button"
+              className="rounded-control border border-line px-3 py-1.5 font-semibold disabled:opacity-50"
+              onClick={() => table.nextPage()}
+              disabled={!table.getCanNextPage()}
+            >
               Next
             </button>
             <label className="ml-auto">
               Rows per page{' '}
-              <select className="rounded-control border border-line bg-surface px-2 py-1" value={pagination.pageSize} onChange={(e) => setPagination({ pageIndex: 0, pageSize: Number(e.target.value) })}>
-                {[25, 50, 100, 200].map((n) => <option key={n} value={n}>{n}</option>)}
+              <select
+                className="rounded-control border border-line bg-surface px-2 py-1"
+                value={pagination.pageSize}
+                onChange={(e) => setPagination({ pageIndex: 0, pageSize: Number(e.target.value) })}
+              >
+                {[25, 50, 100, 200].map((n) => (
+                  <option key={n} value={n}>
+                    {n}
+                  </option>
+                ))}
               </select>
             </label>
-            {query.isFetching && <span role="status" className="text-ink-muted">Updating…</span>}
+            {query.isFetching && (
+              <span role="status" className="text-ink-muted">
+                Updating…
+              </span>
+            )}
             <p className="basis-full text-xs text-ink-muted">
-              Payback “Never”: on energy alone the units cost more to run than the heat they recover; they are recommended for the air, not the bill.
+              Payback “Never”: on energy alone the units cost more to run than the heat they recover; they are
+              recommended for the air, not the bill.
             </p>
             {query.isError && query.data && (
               <span role="alert" className="text-danger">
-                {query.error.message} <button type="button" className="underline" onClick={() => void query.refetch()}>Try again</button>
+                {query.error.message}{' '}
+                <button type="button" className="underline" onClick={() => void query.refetch()}>
+                  Try again
+                </button>
               </span>
             )}
           </nav>

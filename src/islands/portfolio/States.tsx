@@ -19,7 +19,11 @@ export function ErrorState({ message, onRetry }: { message: string; onRetry: () 
     <div role="alert" className="rounded-card border border-danger bg-danger-soft p-4 text-sm text-ink">
       <p className="font-semibold">This could not be loaded.</p>
       <p className="mt-1">{message}</p>
-      <button type="button" onClick={onRetry} className="mt-3 rounded-control border border-line bg-surface px-3 py-1.5 font-semibold text-ink hover:bg-canvas">
+      <button
+        type="button"
+        onClick={onRetry}
+        className="mt-3 rounded-control border border-line bg-surface px-3 py-1.5 font-semibold text-ink hover:bg-canvas"
+      >
         Try again
       </button>
     </div>

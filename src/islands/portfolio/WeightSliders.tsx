@@ -28,9 +28,15 @@ export function WeightSliders(props: Props) {
   return (
     <section aria-labelledby="weights-heading" className="rounded-card border border-line bg-surface p-4">
       <div className="flex flex-wrap items-baseline justify-between gap-2">
-        <h2 id="weights-heading" className="text-lg font-semibold">What matters most</h2>
+        <h2 id="weights-heading" className="text-lg font-semibold">
+          What matters most
+        </h2>
         <p className="text-sm text-ink-muted">
-          {changed ? 'Trying out new weights: the list below is re-ranked but nothing is saved.' : props.isDefault ? "Airtally's starting weights." : "The trust's saved weights."}
+          {changed
+            ? 'Trying out new weights: the list below is re-ranked but nothing is saved.'
+            : props.isDefault
+              ? "Airtally's starting weights."
+              : "The trust's saved weights."}
         </p>
       </div>
       <div className="mt-3 grid grid-cols-1 gap-4 md:grid-cols-3">
@@ -40,7 +46,9 @@ export function WeightSliders(props: Props) {
             <div key={s.key}>
               <label htmlFor={`weight-${s.key}`} className="flex justify-between text-sm font-semibold">
                 <span>{s.label}</span>
-                <span className="tabular-nums" aria-hidden="true">{pct(share)} of the score</span>
+                <span className="tabular-nums" aria-hidden="true">
+                  {pct(share)} of the score
+                </span>
               </label>
               <input
                 id={`weight-${s.key}`}
@@ -54,12 +62,18 @@ export function WeightSliders(props: Props) {
                 className="mt-2 w-full accent-brand"
                 onChange={(e) => props.onChange({ ...weights, [s.key]: Number(e.target.value) / 100 })}
               />
-              <p id={`weight-${s.key}-help`} className="text-xs text-ink-muted">{s.help}</p>
+              <p id={`weight-${s.key}-help`} className="text-xs text-ink-muted">
+                {s.help}
+              </p>
             </div>
           );
         })}
       </div>
-      {sum === 0 && <p role="alert" className="mt-2 text-sm text-danger">Give at least one weight a value above 0.</p>}
+      {sum === 0 && (
+        <p role="alert" className="mt-2 text-sm text-danger">
+          Give at least one weight a value above 0.
+        </p>
+      )}
       <div className="mt-3 flex flex-wrap items-center gap-3 text-sm">
         {props.canSave ? (
           <button
@@ -73,11 +87,20 @@ export function WeightSliders(props: Props) {
         ) : (
           <span className="text-ink-muted">Only trust admins and estates managers can save weights for the trust.</span>
         )}
-        <button type="button" className="font-semibold text-brand underline disabled:opacity-50 disabled:no-underline" disabled={!changed} onClick={() => props.onChange(props.savedWeights)}>
+        <button
+          type="button"
+          className="font-semibold text-brand underline disabled:opacity-50 disabled:no-underline"
+          disabled={!changed}
+          onClick={() => props.onChange(props.savedWeights)}
+        >
           Back to the saved weights
         </button>
         <span aria-live="polite">
-          {props.saveError ? <span className="text-danger">{props.saveError}</span> : props.saved ? <span className="text-ok">Saved for the trust.</span> : null}
+          {props.saveError ? (
+            <span className="text-danger">{props.saveError}</span>
+          ) : props.saved ? (
+            <span className="text-ok">Saved for the trust.</span>
+          ) : null}
         </span>
       </div>
     </section>

@@ -16,11 +16,22 @@ export function EditableCell(props: {
   const [editing, setEditing] = useState(false);
   const [draft, setDraft] = useState(value === null ? '' : String(value));
   useEffect(() => setDraft(value === null ? '' : String(value)), [value]);
-  const shown = display ?? (value === null || value === '' ? '—' : kind === 'select' ? options?.find((o) => o.value === value)?.label ?? String(value) : String(value));
+  const shown =
+    display ??
+    (value === null || value === ''
+      ? '—'
+      : kind === 'select'
+        ? (options?.find((o) => o.value === value)?.label ?? String(value))
+        : String(value));
   if (!editable) return <span>{shown}</span>;
   if (!editing) {
     return (
-      <button type="button" className="w-full cursor-text rounded-control px-1 text-left hover:bg-brand-soft" aria-label={`Edit ${label}`} onClick={() => setEditing(true)}>
+      <button
+        type="button"
+        className="w-full cursor-text rounded-control px-1 text-left hover:bg-brand-soft"
+        aria-label={`Edit ${label}`}
+        onClick={() => setEditing(true)}
+      >
         {shown}
       </button>
     );
@@ -49,9 +60,21 @@ export function EditableCell(props: {
     return (
       <select {...common} value={draft} onChange={(e) => setDraft(e.target.value)}>
         {nullable && <option value="">—</option>}
-        {options?.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+        {options?.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
       </select>
     );
   }
-  return <input {...common} type={kind === 'number' ? 'text' : 'text'} inputMode={kind === 'number' ? 'decimal' : undefined} value={draft} onChange={(e) => setDraft(e.target.value)} />;
+  return (
+    <input
+      {...common}
+      type={kind === 'number' ? 'text' : 'text'}
+      inputMode={kind === 'number' ? 'decimal' : undefined}
+      value={draft}
+      onChange={(e) => setDraft(e.target.value)}
+    />
+  );
 }

@@ -1,12 +1,22 @@
 import { useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
-import { commitRegisterImport, uploadRegister, type ImportOutcome, type ImportPreview } from '../../lib/client/register';
+import {
+  commitRegisterImport,
+  uploadRegister,
+  type ImportOutcome,
+  type ImportPreview,
+} from '../../lib/client/register';
 import type { RegisterOptions } from './types';
 import { formatCount } from '../../lib/format';
 
 const SUMMARY_LABELS: [keyof ImportPreview['summary'], string][] = [
-  ['schoolsToCreate', 'Schools to create'], ['blocksToCreate', 'Blocks to create'], ['roomsToCreate', 'Rooms to create'],
-  ['roomsToChange', 'Rooms to change'], ['roomsUnchanged', 'Unchanged'], ['rowsRejected', 'Rows rejected'], ['rowsSkipped', 'Blank or total rows skipped'],
+  ['schoolsToCreate', 'Schools to create'],
+  ['blocksToCreate', 'Blocks to create'],
+  ['roomsToCreate', 'Rooms to create'],
+  ['roomsToChange', 'Rooms to change'],
+  ['roomsUnchanged', 'Unchanged'],
+  ['rowsRejected', 'Rows rejected'],
+  ['rowsSkipped', 'Blank or total rows skipped'],
 ];
 
 /** Upload → (header row and column mapping) → preview with every problem → commit the valid rows or nothing. */
@@ -24,14 +34,24 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
   const [showWarnings, setShowWarnings] = useState(true);
   const [dragging, setDragging] = useState(false);
 
-  const send = async (chosen: File, opts: { headerRow?: number | undefined; mapping?: Record<string, string | null> }) => {
+  const send = async (
+    chosen: File,
+    opts: { headerRow?: number | undefined; mapping?: Record<string, string | null> },
+  ) => {
     if (preview) await commitRegisterImport(preview.id, 'none', false).catch(() => undefined);
     setPreview(null);
     setOutcome(null);
     setError(null);
     setProgress(0);
     try {
-      const result = await uploadRegister(chosen, { ...(opts.headerRow ? { headerRow: opts.headerRow } : {}), ...(opts.mapping && Object.keys(opts.mapping).length ? { mapping: opts.mapping } : {}) }, setProgress);
+      const result = await uploadRegister(
+        chosen,
+        {
+          ...(opts.headerRow ? { headerRow: opts.headerRow } : {}),
+          ...(opts.mapping && Object.keys(opts.mapping).length ? { mapping: opts.mapping } : {}),
+        },
+        setProgress,
+      );
       setPreview(result);
       setHeaderRow(result.header.row);
       setDeleteMissing(false);
@@ -71,18 +91,41 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
     <section aria-label="Import a register" className="space-y-4">
       <div
         className={`rounded-card border-2 border-dashed p-6 text-center ${dragging ? 'border-brand bg-brand-soft' : 'border-line bg-surface'}`}
-        onDragOver={(e) => { e.preventDefault(); setDragging(true); }}
+        onDragOver={(e) => {
+          e.preventDefault();
+          setDragging(true);
+        }}
         onDragLeave={() => setDragging(false)}
-        onDrop={(e) => { e.preventDefault(); setDragging(false); choose(e.dataTransfer.files[0]); }}
+        onDrop={(e) => {
+          e.preventDefault();
+          setDragging(false);
+          choose(e.dataTransfer.files[0]);
+        }}
         data-testid="drop-zone"
       >
         <p className="font-semibold">Drop a register here (.xlsx or .csv, up to 20 MB)</p>
-        <p className="mt-1 text-sm text-ink-muted">or <button type="button" className="text-brand underline" onClick={() => input.current?.click()}>choose a file</button>. Nothing changes until you confirm the preview.</p>
-        <input ref={input} type="file" accept=".xlsx,.csv,text/csv,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" className="sr-only" aria-label="Register file" data-testid="register-file" onChange={(e) => choose(e.target.files?.[0])} />
+        <p className="mt-1 text-sm text-ink-muted">
+          or{' '}
+          <button type="button" className="text-brand underline" onClick={() => input.current?.click()}>
+            choose a file
+          </button>
+          . Nothing changes until you confirm the preview.
+        </p>
+        <input
+          ref={input}
+          type="file"
+          accept=".xlsx,.csv,text/csv,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
+          className="sr-only"
+          aria-label="Register file"
+          data-testid="register-file"
+          onChange={(e) => choose(e.target.files?.[0])}
+        />
         {progress !== null && (
           <div className="mx-auto mt-4 max-w-md">
             <progress className="w-full" max={1} value={progress} aria-label="Upload progress" />
-            <p className="text-sm text-ink-muted">{progress < 1 ? `Uploading ${Math.round(progress * 100)} %` : 'Reading and checking every row…'}</p>
+            <p className="text-sm text-ink-muted">
+              {progress < 1 ? `Uploading ${Math.round(progress * 100)} %` : 'Reading and checking every row…'}
+            </p>
           </div>
         )}
       </div>
@@ -91,104 +134,215 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
         <div role="alert" className="rounded-card bg-danger-soft p-4 text-danger">
           <p>{error.message}</p>
           {error.topRows && file && (
-            <HeaderPicker rows={error.topRows} onPick={(row) => { setHeaderRow(row); void send(file, { headerRow: row }); }} />
+            <HeaderPicker
+              rows={error.topRows}
+              onPick={(row) => {
+                setHeaderRow(row);
+                void send(file, { headerRow: row });
+              }}
+            />
           )}
         </div>
       )}
 
       {outcome && (
         <div role="status" className="rounded-card bg-brand-soft p-4" data-testid="import-outcome">
-          {outcome.status === 'cancelled' ? 'Import cancelled; nothing was changed.'
+          {outcome.status === 'cancelled'
+            ? 'Import cancelled; nothing was changed.'
             : `Imported: ${formatCount(outcome.roomsCreated, 'room')} created, ${outcome.roomsChanged} changed, ${outcome.roomsDeleted} deleted, ${formatCount(outcome.schoolsCreated, 'school')} and ${formatCount(outcome.blocksCreated, 'block')} created; ${formatCount(outcome.rowsRejected, 'row')} left out.`}
         </div>
       )}
 
       {preview && file && (
         <div className="space-y-4" data-testid="import-preview">
-          <h3 className="text-lg font-semibold">Preview of {preview.fileName} <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span></h3>
+          <h3 className="text-lg font-semibold">
+            Preview of {preview.fileName}{' '}
+            <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span>
+          </h3>
           <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4 lg:grid-cols-7">
             {SUMMARY_LABELS.map(([key, text]) => (
               <div key={key} className="rounded-card border border-line bg-surface p-3">
                 <dt className="text-xs text-ink-muted">{text}</dt>
-                <dd className="text-xl font-bold tabular-nums" data-testid={`summary-${key}`}>{preview.summary[key]}</dd>
+                <dd className="text-xl font-bold tabular-nums" data-testid={`summary-${key}`}>
+                  {preview.summary[key]}
+                </dd>
               </div>
             ))}
           </dl>
 
-          <details open={!preview.header.confident || preview.header.columns.some((c) => !c.field)} className="rounded-card border border-line bg-surface p-4">
+          <details
+            open={!preview.header.confident || preview.header.columns.some((c) => !c.field)}
+            className="rounded-card border border-line bg-surface p-4"
+          >
             <summary className="cursor-pointer font-semibold">
-              Header on row {preview.header.row}{preview.header.rowCount === 2 ? ` and ${preview.header.row + 1}` : ''} · {preview.header.columns.filter((c) => c.field).length} columns recognised
+              Header on row {preview.header.row}
+              {preview.header.rowCount === 2 ? ` and ${preview.header.row + 1}` : ''} ·{' '}
+              {preview.header.columns.filter((c) => c.field).length} columns recognised
               {!preview.header.confident && ' · please check'}
             </summary>
-            {!preview.header.confident && <HeaderPicker rows={preview.topRows} current={headerRow} onPick={(row) => { setHeaderRow(row); void send(file, { headerRow: row, mapping }); }} />}
+            {!preview.header.confident && (
+              <HeaderPicker
+                rows={preview.topRows}
+                current={headerRow}
+                onPick={(row) => {
+                  setHeaderRow(row);
+                  void send(file, { headerRow: row, mapping });
+                }}
+              />
+            )}
             <table className="mt-3 text-sm">
               <caption className="sr-only">Column mapping</caption>
-              <thead><tr><th scope="col" className="px-2 text-left">Column</th><th scope="col" className="px-2 text-left">Header in the file</th><th scope="col" className="px-2 text-left">Imported as</th></tr></thead>
+              <thead>
+                <tr>
+                  <th scope="col" className="px-2 text-left">
+                    Column
+                  </th>
+                  <th scope="col" className="px-2 text-left">
+                    Header in the file
+                  </th>
+                  <th scope="col" className="px-2 text-left">
+                    Imported as
+                  </th>
+                </tr>
+              </thead>
               <tbody>
-                {preview.header.columns.filter((c) => c.header !== '').map((c) => (
-                  <tr key={c.letter}>
-                    <td className="px-2">{c.letter}</td>
-                    <td className="px-2">{c.header}</td>
-                    <td className="px-2">
-                      <select aria-label={`Import column ${c.letter} (${c.header}) as`} className={`rounded-control border px-2 py-0.5 ${c.field ? 'border-line' : 'border-accent'}`}
-                        value={mapping[c.letter] === undefined ? c.field ?? '' : mapping[c.letter] ?? ''}
-                        onChange={(e) => setMapping((m) => ({ ...m, [c.letter]: e.target.value || null }))}>
-                        <option value="">Not imported</option>
-                        {options.fields.map((f) => <option key={f.value} value={f.value}>{f.label}</option>)}
-                      </select>
-                      {mapping[c.letter] === undefined && !c.field && <span className="ml-2 text-accent">not recognised</span>}
-                    </td>
-                  </tr>
-                ))}
+                {preview.header.columns
+                  .filter((c) => c.header !== '')
+                  .map((c) => (
+                    <tr key={c.letter}>
+                      <td className="px-2">{c.letter}</td>
+                      <td className="px-2">{c.header}</td>
+                      <td className="px-2">
+                        <select
+                          aria-label={`Import column ${c.letter} (${c.header}) as`}
+                          className={`rounded-control border px-2 py-0.5 ${c.field ? 'border-line' : 'border-accent'}`}
+                          value={mapping[c.letter] === undefined ? (c.field ?? '') : (mapping[c.letter] ?? '')}
+                          onChange={(e) => setMapping((m) => ({ ...m, [c.letter]: e.target.value || null }))}
+                        >
+                          <option value="">Not imported</option>
+                          {options.fields.map((f) => (
+                            <option key={f.value} value={f.value}>
+                              {f.label}
+                            </option>
+                          ))}
+                        </select>
+                        {mapping[c.letter] === undefined && !c.field && (
+                          <span className="ml-2 text-accent">not recognised</span>
+                        )}
+                      </td>
+                    </tr>
+                  ))}
               </tbody>
             </table>
             {Object.keys(mapping).length > 0 && (
-              <button type="button" className="mt-3 rounded-control bg-brand px-3 py-1.5 font-semibold text-white" onClick={() => void send(file, { headerRow, mapping })}>
+              <button
+                type="button"
+                className="mt-3 rounded-control bg-brand px-3 py-1.5 font-semibold text-white"
+                onClick={() => void send(file, { headerRow, mapping })}
+              >
                 Re-read with this mapping (remembered for next time)
               </button>
             )}
-            <p className="mt-2 text-xs text-ink-muted">Mapped: {Object.entries(mapping).map(([l, f]) => `${l} → ${fieldLabel(f)}`).join(', ') || 'as detected'}</p>
+            <p className="mt-2 text-xs text-ink-muted">
+              Mapped:{' '}
+              {Object.entries(mapping)
+                .map(([l, f]) => `${l} → ${fieldLabel(f)}`)
+                .join(', ') || 'as detected'}
+            </p>
           </details>
 
           <div>
             <div className="flex items-center gap-4">
-              <h4 className="font-semibold">{formatCount(preview.summary.errors, 'error')}, {formatCount(preview.summary.warnings, 'warning')}</h4>
-              <label className="text-sm"><input type="checkbox" checked={showWarnings} onChange={(e) => setShowWarnings(e.target.checked)} /> Show warnings</label>
+              <h4 className="font-semibold">
+                {formatCount(preview.summary.errors, 'error')}, {formatCount(preview.summary.warnings, 'warning')}
+              </h4>
+              <label className="text-sm">
+                <input type="checkbox" checked={showWarnings} onChange={(e) => setShowWarnings(e.target.checked)} />{' '}
+                Show warnings
+              </label>
             </div>
             {problems.length > 0 && (
               <div className="mt-2 max-h-96 overflow-auto rounded-card border border-line bg-surface">
                 <table className="w-full text-left text-sm" data-testid="problems-table">
                   <caption className="sr-only">Problems by row and column</caption>
-                  <thead className="sticky top-0 bg-surface text-ink-muted"><tr><th scope="col" className="px-2 py-1">Row</th><th scope="col" className="px-2 py-1">Column</th><th scope="col" className="px-2 py-1">Value</th><th scope="col" className="px-2 py-1">Problem</th></tr></thead>
+                  <thead className="sticky top-0 bg-surface text-ink-muted">
+                    <tr>
+                      <th scope="col" className="px-2 py-1">
+                        Row
+                      </th>
+                      <th scope="col" className="px-2 py-1">
+                        Column
+                      </th>
+                      <th scope="col" className="px-2 py-1">
+                        Value
+                      </th>
+                      <th scope="col" className="px-2 py-1">
+                        Problem
+                      </th>
+                    </tr>
+                  </thead>
                   <tbody>
                     {problems.slice(0, 2000).map((p, i) => (
                       <tr key={i} className="border-t border-line">
                         <td className="px-2 py-1 tabular-nums">{p.row}</td>
-                        <td className="px-2 py-1">{p.columnLetter ? `${p.columnLetter} · ` : ''}{p.column}</td>
+                        <td className="px-2 py-1">
+                          {p.columnLetter ? `${p.columnLetter} · ` : ''}
+                          {p.column}
+                        </td>
                         <td className="px-2 py-1 font-mono">{p.value}</td>
-                        <td className={`px-2 py-1 ${p.severity === 'error' ? 'text-danger' : 'text-caution-ink'}`}>{p.severity === 'error' ? 'Error: ' : 'Warning: '}{p.message}</td>
+                        <td className={`px-2 py-1 ${p.severity === 'error' ? 'text-danger' : 'text-caution-ink'}`}>
+                          {p.severity === 'error' ? 'Error: ' : 'Warning: '}
+                          {p.message}
+                        </td>
                       </tr>
                     ))}
                   </tbody>
                 </table>
               </div>
             )}
-            {(problems.length > 2000 || preview.problemsTruncated) && <p className="text-sm text-ink-muted">Showing the first problems only; fix these and upload again to see the rest.</p>}
+            {(problems.length > 2000 || preview.problemsTruncated) && (
+              <p className="text-sm text-ink-muted">
+                Showing the first problems only; fix these and upload again to see the rest.
+              </p>
+            )}
           </div>
 
           {preview.missingRooms.length > 0 && (
             <div className="rounded-card border border-line bg-surface p-4">
-              <p className="font-semibold">{preview.missingRooms.length} rooms of these schools are in Airtally but not in the file</p>
-              <p className="text-sm text-ink-muted">{preview.missingRooms.slice(0, 30).map((r) => `${r.schoolName} ${r.code}`).join(', ')}{preview.missingRooms.length > 30 ? ', …' : ''}</p>
-              <label className="mt-2 block text-sm"><input type="checkbox" checked={deleteMissing} onChange={(e) => setDeleteMissing(e.target.checked)} /> Delete these {preview.missingRooms.length} rooms when importing</label>
+              <p className="font-semibold">
+                {preview.missingRooms.length} rooms of these schools are in Airtally but not in the file
+              </p>
+              <p className="text-sm text-ink-muted">
+                {preview.missingRooms
+                  .slice(0, 30)
+                  .map((r) => `${r.schoolName} ${r.code}`)
+                  .join(', ')}
+                {preview.missingRooms.length > 30 ? ', …' : ''}
+              </p>
+              <label className="mt-2 block text-sm">
+                <input type="checkbox" checked={deleteMissing} onChange={(e) => setDeleteMissing(e.target.checked)} />{' '}
+                Delete these {preview.missingRooms.length} rooms when importing
+              </label>
             </div>
           )}
 
           <div className="flex flex-wrap gap-3">
-            <button type="button" className="rounded-control bg-brand px-4 py-2 font-semibold text-white" onClick={() => void finish('valid')}>
-              {errors > 0 ? `Import the ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')} from valid rows; leave out ${formatCount(preview.summary.rowsRejected, 'row')} with errors` : `Import ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')}`}
+            <button
+              type="button"
+              className="rounded-control bg-brand px-4 py-2 font-semibold text-white"
+              onClick={() => void finish('valid')}
+            >
+              {errors > 0
+                ? `Import the ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')} from valid rows; leave out ${formatCount(preview.summary.rowsRejected, 'row')} with errors`
+                : `Import ${formatCount(preview.summary.roomsToCreate + preview.summary.roomsToChange, 'change')}`}
             </button>
-            <button type="button" className="rounded-control border border-line px-4 py-2" onClick={() => void finish('none')}>Cancel (change nothing)</button>
+            <button
+              type="button"
+              className="rounded-control border border-line px-4 py-2"
+              onClick={() => void finish('none')}
+            >
+              Cancel (change nothing)
+            </button>
           </div>
         </div>
       )}
@@ -197,7 +351,15 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
 }
 
 /** Shows the file's first rows so a person can say which one holds the column names. */
-function HeaderPicker({ rows, current, onPick }: { rows: string[][]; current?: number | undefined; onPick: (row: number) => void }) {
+function HeaderPicker({
+  rows,
+  current,
+  onPick,
+}: {
+  rows: string[][];
+  current?: number | undefined;
+  onPick: (row: number) => void;
+}) {
   return (
     <div className="mt-3 overflow-x-auto text-sm text-ink">
       <p className="font-semibold">Which row holds the column names?</p>
@@ -205,8 +367,19 @@ function HeaderPicker({ rows, current, onPick }: { rows: string[][]; current?: n
         <tbody>
           {rows.map((cells, i) => (
             <tr key={i} className={current === i + 1 ? 'bg-brand-soft' : ''}>
-              <td className="pr-2"><button type="button" className="rounded-control border border-line px-2" onClick={() => onPick(i + 1)} aria-label={`Use row ${i + 1} as the header`}>Row {i + 1}</button></td>
-              <td className="whitespace-nowrap text-ink-muted">{cells.filter(Boolean).slice(0, 8).join(' · ') || '(blank)'}</td>
+              <td className="pr-2">
+                <button
+                  type="button"
+                  className="rounded-control border border-line px-2"
+                  onClick={() => onPick(i + 1)}
+                  aria-label={`Use row ${i + 1} as the header`}
+                >
+                  Row {i + 1}
+                </button>
+              </td>
+              <td className="whitespace-nowrap text-ink-muted">
+                {cells.filter(Boolean).slice(0, 8).join(' · ') || '(blank)'}
+              </td>
             </tr>
           ))}
         </tbody>

@@ -1,18 +1,55 @@
 import { useMemo, useState } from 'react';
-import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type RowSelectionState, type SortingState } from '@tanstack/react-table';
 import {
-  physicalChecks, RoomFieldsSchema, useBulkUpdate, useDeleteRooms, useRooms, useUpdateRoom, type Room, type RoomFields, type RoomsQuery,
+  flexRender,
+  getCoreRowModel,
+  useReactTable,
+  type ColumnDef,
+  type RowSelectionState,
+  type SortingState,
+} from '@tanstack/react-table';
+import {
+  physicalChecks,
+  RoomFieldsSchema,
+  useBulkUpdate,
+  useDeleteRooms,
+  useRooms,
+  useUpdateRoom,
+  type Room,
+  type RoomFields,
+  type RoomsQuery,
 } from '../../lib/client/register';
 import { EditableCell } from './EditableCell';
 import { AddRoomForm } from './AddRoomForm';
 import type { Option, RegisterOptions, RegisterPermissions, SchoolOption } from './types';
 
-const SORTABLE = new Set(['code', 'name', 'school', 'block', 'use', 'floorAreaM2', 'pupils', 'ventilationType', 'openableAreaM2']);
+const SORTABLE = new Set([
+  'code',
+  'name',
+  'school',
+  'block',
+  'use',
+  'floorAreaM2',
+  'pupils',
+  'ventilationType',
+  'openableAreaM2',
+]);
 
 const roomFields = (r: Room): RoomFields => ({
-  code: r.code, name: r.name, use: r.use, floorAreaM2: r.floorAreaM2, ceilingHeightM: r.ceilingHeightM, pupils: r.pupils, adults: r.adults,
-  ageGroup: r.ageGroup, orientationDeg: r.orientationDeg, glazingAreaM2: r.glazingAreaM2, openableAreaM2: r.openableAreaM2,
-  windowType: r.windowType, ventilationType: r.ventilationType, mechanicalSupplyLps: r.mechanicalSupplyLps, notes: r.notes,
+  code: r.code,
+  name: r.name,
+  use: r.use,
+  floorAreaM2: r.floorAreaM2,
+  ceilingHeightM: r.ceilingHeightM,
+  pupils: r.pupils,
+  adults: r.adults,
+  ageGroup: r.ageGroup,
+  orientationDeg: r.orientationDeg,
+  glazingAreaM2: r.glazingAreaM2,
+  openableAreaM2: r.openableAreaM2,
+  windowType: r.windowType,
+  ventilationType: r.ventilationType,
+  mechanicalSupplyLps: r.mechanicalSupplyLps,
+  notes: r.notes,
 });
 
 /** Checks an edited room the way the import does; null when it may be sent. */
@@ -24,7 +61,15 @@ function problemWith(room: Room, change: Partial<RoomFields>): string | null {
 }
 
 /** The register as an editable table: server-side paging, sorting and filters; inline and bulk edits. */
-export function RoomsTable({ schools, options, can }: { schools: SchoolOption[]; options: RegisterOptions; can: RegisterPermissions }) {
+export function RoomsTable({
+  schools,
+  options,
+  can,
+}: {
+  schools: SchoolOption[];
+  options: RegisterOptions;
+  can: RegisterPermissions;
+}) {
   const [query, setQuery] = useState<RoomsQuery>({ page: 1, pageSize: 50, sort: 'school', dir: 'asc' });
   const [selection, setSelection] = useState<RowSelectionState>({});
   const [message, setMessage] = useState<{ kind: 'error' | 'info'; text: string } | null>(null);
@@ -47,23 +92,53 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
       return;
     }
     setMessage(null);
-    update.mutate({ id: room.id, changes: change }, {
-      onError: (e) => setMessage({ kind: 'error', text: `Room ${room.code} was not changed: ${e.message}` }),
-      onSuccess: (r) => setMessage(r.warnings.length ? { kind: 'info', text: `Room ${room.code} saved. Check: ${r.warnings.map((w) => w.message).join(' ')}` } : null),
-    });
+    update.mutate(
+      { id: room.id, changes: change },
+      {
+        onError: (e) => setMessage({ kind: 'error', text: `Room ${room.code} was not changed: ${e.message}` }),
+        onSuccess: (r) =>
+          setMessage(
+            r.warnings.length
+              ? { kind: 'info', text: `Room ${room.code} saved. Check: ${r.warnings.map((w) => w.message).join(' ')}` }
+              : null,
+          ),
+      },
+    );
   };
 
   const columns = useMemo<ColumnDef<Room>[]>(() => {
-    const text = (id: keyof RoomFields, header: string, kind: 'text' | 'number', nullable = false): ColumnDef<Room> => ({
-      id, header, cell: ({ row }) => (
-        <EditableCell value={row.original[id] as string | number | null} kind={kind} nullable={nullable} editable={editable} label={`${header} of room ${row.original.code}`}
-          onCommit={(v) => edit(row.original, { [id]: v } as Partial<RoomFields>)} />
+    const text = (
+      id: keyof RoomFields,
+      header: string,
+      kind: 'text' | 'number',
+      nullable = false,
+    ): ColumnDef<Room> => ({
+      id,
+      header,
+      cell: ({ row }) => (
+        <EditableCell
+          value={row.original[id] as string | number | null}
+          kind={kind}
+          nullable={nullable}
+          editable={editable}
+          label={`${header} of room ${row.original.code}`}
+          onCommit={(v) => edit(row.original, { [id]: v } as Partial<RoomFields>)}
+        />
       ),
     });
     const select = (id: keyof RoomFields, header: string, opts: Option[], nullable = false): ColumnDef<Room> => ({
-      id, header, cell: ({ row }) => (
-        <EditableCell value={row.original[id] as string | null} kind="select" options={opts} nullable={nullable} editable={editable} label={`${header} of room ${row.original.code}`}
-          onCommit={(v) => edit(row.original, { [id]: v } as Partial<RoomFields>)} />
+      id,
+      header,
+      cell: ({ row }) => (
+        <EditableCell
+          value={row.original[id] as string | null}
+          kind="select"
+          options={opts}
+          nullable={nullable}
+          editable={editable}
+          label={`${header} of room ${row.original.code}`}
+          onCommit={(v) => edit(row.original, { [id]: v } as Partial<RoomFields>)}
+        />
       ),
     });
     const cols: ColumnDef<Room>[] = [];
@@ -71,28 +146,60 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
       cols.push({
         id: 'select',
         header: ({ table }) => (
-          <input type="checkbox" aria-label="Select all rooms on this page" checked={table.getIsAllPageRowsSelected()} onChange={table.getToggleAllPageRowsSelectedHandler()} />
+          <input
+            type="checkbox"
+            aria-label="Select all rooms on this page"
+            checked={table.getIsAllPageRowsSelected()}
+            onChange={table.getToggleAllPageRowsSelectedHandler()}
+          />
         ),
-        cell: ({ row }) => <input type="checkbox" aria-label={`Select room ${row.original.code}`} checked={row.getIsSelected()} onChange={row.getToggleSelectedHandler()} />,
+        cell: ({ row }) => (
+          <input
+            type="checkbox"
+            aria-label={`Select room ${row.original.code}`}
+            checked={row.getIsSelected()}
+            onChange={row.getToggleSelectedHandler()}
+          />
+        ),
       });
     }
     cols.push(
       { id: 'school', header: 'School', cell: ({ row }) => row.original.schoolName },
       { id: 'block', header: 'Block', cell: ({ row }) => row.original.blockName ?? '—' },
-      text('code', 'Room code', 'text'), text('name', 'Room name', 'text'), select('use', 'Use', options.uses),
-      text('floorAreaM2', 'Floor m²', 'number'), text('ceilingHeightM', 'Ceiling m', 'number'), text('pupils', 'Pupils', 'number'), text('adults', 'Adults', 'number'),
-      select('ageGroup', 'Age group', options.ageGroups), text('orientationDeg', 'Bearing °', 'number', true),
-      text('glazingAreaM2', 'Glazing m²', 'number'), text('openableAreaM2', 'Openable m²', 'number'), select('windowType', 'Window', options.windowTypes, true),
-      select('ventilationType', 'Ventilation', options.ventilationTypes), text('mechanicalSupplyLps', 'Supply l/s', 'number', true), text('notes', 'Notes', 'text', true),
+      text('code', 'Room code', 'text'),
+      text('name', 'Room name', 'text'),
+      select('use', 'Use', options.uses),
+      text('floorAreaM2', 'Floor m²', 'number'),
+      text('ceilingHeightM', 'Ceiling m', 'number'),
+      text('pupils', 'Pupils', 'number'),
+      text('adults', 'Adults', 'number'),
+      select('ageGroup', 'Age group', options.ageGroups),
+      text('orientationDeg', 'Bearing °', 'number', true),
+      text('glazingAreaM2', 'Glazing m²', 'number'),
+      text('openableAreaM2', 'Openable m²', 'number'),
+      select('windowType', 'Window', options.windowTypes, true),
+      select('ventilationType', 'Ventilation', options.ventilationTypes),
+      text('mechanicalSupplyLps', 'Supply l/s', 'number', true),
+      text('notes', 'Notes', 'text', true),
     );
     if (can.canDelete) {
       cols.push({
-        id: 'actions', header: () => <span className="sr-only">Actions</span>,
+        id: 'actions',
+        header: () => <span className="sr-only">Actions</span>,
         cell: ({ row }) => (
-          <button type="button" className="text-danger hover:underline" onClick={() => {
-            if (!window.confirm(`Delete room ${row.original.code} of ${row.original.schoolName}?`)) return;
-            remove.mutate([row.original.id], { onError: (e) => setMessage({ kind: 'error', text: `Room ${row.original.code} was not deleted: ${e.message}` }) });
-          }}>Delete</button>
+          <button
+            type="button"
+            className="text-danger hover:underline"
+            onClick={() => {
+              if (!window.confirm(`Delete room ${row.original.code} of ${row.original.schoolName}?`)) return;
+              remove.mutate([row.original.id], {
+                onError: (e) =>
+                  setMessage({ kind: 'error', text: `Room ${row.original.code} was not deleted: ${e.message}` }),
+              });
+            }}
+          >
+            Delete
+          </button>
         ),
       });
     }
@@ -103,8 +210,14 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
   const data = useMemo(() => rooms.data?.rows ?? [], [rooms.data]);
   const sorting: SortingState = [{ id: query.sort, desc: query.dir === 'desc' }];
   const table = useReactTable({
-    data, columns, getRowId: (r) => r.id, getCoreRowModel: getCoreRowModel(),
-    manualPagination: true, manualSorting: true, autoResetPageIndex: false, enableRowSelection: true,
+    data,
+    columns,
+    getRowId: (r) => r.id,
+    getCoreRowModel: getCoreRowModel(),
+    manualPagination: true,
+    manualSorting: true,
+    autoResetPageIndex: false,
+    enableRowSelection: true,
     rowCount: rooms.data?.total ?? 0,
     state: { sorting, rowSelection: selection, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
     onRowSelectionChange: setSelection,
@@ -116,72 +229,182 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
     setQuery((q) => ({ ...q, sort: id, dir: q.sort === id && q.dir === 'asc' ? 'desc' : 'asc', page: 1 }));
   };
   const applyBulk = (change: Partial<RoomFields>) => {
-    bulk.mutate({ ids: selectedIds, changes: change }, {
-      onError: (e) => setMessage({ kind: 'error', text: `No room was changed: ${e.message}` }),
-      onSuccess: (r) => {
-        setMessage({ kind: 'info', text: `${r.count} rooms changed.${r.warnings.length ? ` Check: ${r.warnings.slice(0, 3).map((w) => `${w.code}: ${w.message}`).join(' ')}` : ''}` });
-        setSelection({});
+    bulk.mutate(
+      { ids: selectedIds, changes: change },
+      {
+        onError: (e) => setMessage({ kind: 'error', text: `No room was changed: ${e.message}` }),
+        onSuccess: (r) => {
+          setMessage({
+            kind: 'info',
+            text: `${r.count} rooms changed.${
+              r.warnings.length
+                ? ` Check: ${r.warnings
+                    .slice(0, 3)
+                    .map((w) => `${w.code}: ${w.message}`)
+                    .join(' ')}`
+                : ''
+            }`,
+          });
+          setSelection({});
+        },
       },
-    });
+    );
   };
 
   return (
     <section aria-label="Rooms">
       <div className="flex flex-wrap items-end gap-3">
-        <label className="text-sm">School<br />
-          <select className="rounded-control border border-line bg-surface px-2 py-1" value={query.schoolId ?? ''} onChange={(e) => setFilter({ schoolId: e.target.value || undefined })}>
+        <label className="text-sm">
+          School
+          <br />
+          <select
+            className="rounded-control border border-line bg-surface px-2 py-1"
+            value={query.schoolId ?? ''}
+            onChange={(e) => setFilter({ schoolId: e.target.value || undefined })}
+          >
             <option value="">All schools</option>
-            {schools.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+            {schools.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
+            ))}
           </select>
         </label>
-        <label className="text-sm">Use<br />
-          <select className="rounded-control border border-line bg-surface px-2 py-1" value={query.use ?? ''} onChange={(e) => setFilter({ use: e.target.value || undefined })}>
+        <label className="text-sm">
+          Use
+          <br />
+          <select
+            className="rounded-control border border-line bg-surface px-2 py-1"
+            value={query.use ?? ''}
+            onChange={(e) => setFilter({ use: e.target.value || undefined })}
+          >
             <option value="">Any use</option>
-            {options.uses.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+            {options.uses.map((o) => (
+              <option key={o.value} value={o.value}>
+                {o.label}
+              </option>
+            ))}
           </select>
         </label>
-        <label className="text-sm">Ventilation<br />
-          <select className="rounded-control border border-line bg-surface px-2 py-1" value={query.ventilationType ?? ''} onChange={(e) => setFilter({ ventilationType: e.target.value || undefined })}>
+        <label className="text-sm">
+          Ventilation
+          <br />
+          <select
+            className="rounded-control border border-line bg-surface px-2 py-1"
+            value={query.ventilationType ?? ''}
+            onChange={(e) => setFilter({ ventilationType: e.target.value || undefined })}
+          >
             <option value="">Any ventilation</option>
-            {options.ventilationTypes.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+            {options.ventilationTypes.map((o) => (
+              <option key={o.value} value={o.value}>
+                {o.label}
+              </option>
+            ))}
           </select>
         </label>
-        <label className="text-sm">Search code or name<br />
-          <input className="rounded-control border border-line bg-surface px-2 py-1" type="search" value={query.q ?? ''} onChange={(e) => setFilter({ q: e.target.value || undefined })} />
+        <label className="text-sm">
+          Search code or name
+          <br />
+          <input
+            className="rounded-control border border-line bg-surface px-2 py-1"
+            type="search"
+            value={query.q ?? ''}
+            onChange={(e) => setFilter({ q: e.target.value || undefined })}
+          />
         </label>
-        {can.canCreate && <button type="button" className="ml-auto rounded-control bg-brand px-3 py-1.5 font-semibold text-white" onClick={() => setAdding((a) => !a)}>{adding ? 'Close' : 'Add a room'}</button>}
+        {can.canCreate && (
+          <button
+            type="button"
+            className="ml-auto rounded-control bg-brand px-3 py-1.5 font-semibold text-white"
+            onClick={() => setAdding((a) => !a)}
+          >
+            {adding ? 'Close' : 'Add a room'}
+          </button>
+        )}
       </div>
-      {adding && <AddRoomForm schools={schools} options={options} onDone={(text) => { setMessage({ kind: 'info', text }); setAdding(false); }} />}
+      {adding && (
+        <AddRoomForm
+          schools={schools}
+          options={options}
+          onDone={(text) => {
+            setMessage({ kind: 'info', text });
+            setAdding(false);
+          }}
+        />
+      )}
 
       {selectedIds.length > 0 && (
-        <div className="mt-3 flex flex-wrap items-center gap-3 rounded-card border border-brand bg-brand-soft p-3 text-sm" role="region" aria-label="Bulk edit">
+        <div
+          className="mt-3 flex flex-wrap items-center gap-3 rounded-card border border-brand bg-brand-soft p-3 text-sm"
+          role="region"
+          aria-label="Bulk edit"
+        >
           <strong>{selectedIds.length} selected</strong>
           {can.canUpdate && (
             <>
-              <label>Set ventilation{' '}
-                <select aria-label="Set ventilation of selected rooms" className="rounded-control border border-line bg-surface px-2 py-1" value="" onChange={(e) => e.target.value && applyBulk({ ventilationType: e.target.value as RoomFields['ventilationType'] })}>
+              <label>
+                Set ventilation{' '}
+                <select
+                  aria-label="Set ventilation of selected rooms"
+                  className="rounded-control border border-line bg-surface px-2 py-1"
+                  value=""
+                  onChange={(e) =>
+                    e.target.value && applyBulk({ ventilationType: e.target.value as RoomFields['ventilationType'] })
+                  }
+                >
                   <option value="">Choose…</option>
-                  {options.ventilationTypes.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+                  {options.ventilationTypes.map((o) => (
+                    <option key={o.value} value={o.value}>
+                      {o.label}
+                    </option>
+                  ))}
                 </select>
               </label>
-              <label>Set use{' '}
-                <select aria-label="Set use of selected rooms" className="rounded-control border border-line bg-surface px-2 py-1" value="" onChange={(e) => e.target.value && applyBulk({ use: e.target.value as RoomFields['use'] })}>
+              <label>
+                Set use{' '}
+                <select
+                  aria-label="Set use of selected rooms"
+                  className="rounded-control border border-line bg-surface px-2 py-1"
+                  value=""
+                  onChange={(e) => e.target.value && applyBulk({ use: e.target.value as RoomFields['use'] })}
+                >
                   <option value="">Choose…</option>
-                  {options.uses.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+                  {options.uses.map((o) => (
+                    <option key={o.value} value={o.value}>
+                      {o.label}
+                    </option>
+                  ))}
                 </select>
               </label>
             </>
           )}
           {can.canDelete && (
-            <button type="button" className="rounded-control border border-danger px-2 py-1 text-danger" onClick={() => {
-              if (!window.confirm(`Delete ${selectedIds.length} rooms? This cannot be undone.`)) return;
-              remove.mutate(selectedIds, { onError: (e) => setMessage({ kind: 'error', text: `No room was deleted: ${e.message}` }), onSuccess: () => setSelection({}) });
-            }}>Delete selected</button>
+            <button
+              type="button"
+              className="rounded-control border border-danger px-2 py-1 text-danger"
+              onClick={() => {
+                if (!window.confirm(`Delete ${selectedIds.length} rooms? This cannot be undone.`)) return;
+                remove.mutate(selectedIds, {
+                  onError: (e) => setMessage({ kind: 'error', text: `No room was deleted: ${e.message}` }),
+                  onSuccess: () => setSelection({}),
+                });
+              }}
+            >
+              Delete selected
+            </button>
           )}
         </div>
       )}
 
-      <p role="status" aria-live="polite" className={message ? `mt-3 rounded-control p-2 text-sm ${message.kind === 'error' ? 'bg-danger-soft text-danger' : 'bg-brand-soft'}` : 'sr-only'}>
+      <p
+        role="status"
+        aria-live="polite"
+        className={
+          message
+            ? `mt-3 rounded-control p-2 text-sm ${message.kind === 'error' ? 'bg-danger-soft text-danger' : 'bg-brand-soft'}`
+            : 'sr-only'
+        }
+      >
         {message?.text ?? ''}
       </p>
 
@@ -192,12 +415,23 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => {
-                  const sorted = query.sort === h.column.id ? (query.dir === 'asc' ? 'ascending' : 'descending') : 'none';
+                  const sorted =
+                    query.sort === h.column.id ? (query.dir === 'asc' ? 'ascending' : 'descending') : 'none';
                   return (
-                    <th key={h.id} scope="col" className="whitespace-nowrap px-2 py-2" aria-sort={SORTABLE.has(h.column.id) ? sorted : undefined}>
-                      {SORTABLE.has(h.column.id)
-                        ? <button type="button" className="font-semibold" onClick={() => sortBy(h.column.id)}>{flexRender(h.column.columnDef.header, h.getContext())}{sorted === 'ascending' ? ' ↑' : sorted === 'descending' ? ' ↓' : ''}</button>
-                        : flexRender(h.column.columnDef.header, h.getContext())}
+                    <th
+                      key={h.id}
+                      scope="col"
+                      className="whitespace-nowrap px-2 py-2"
+                      aria-sort={SORTABLE.has(h.column.id) ? sorted : undefined}
+                    >
+                      {SORTABLE.has(h.column.id) ? (
+                        <button type="button" className="font-semibold" onClick={() => sortBy(h.column.id)}>
+                          {flexRender(h.column.columnDef.header, h.getContext())}
+                          {sorted === 'ascending' ? ' ↑' : sorted === 'descending' ? ' ↓' : ''}
+                        </button>
+                      ) : (
+                        flexRender(h.column.columnDef.header, h.getContext())
+                      )}
                     </th>
                   );
                 })}
@@ -207,17 +441,43 @@ export function RoomsTable({ schools, options, can }: { schools: SchoolOption[];
           <tbody>
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-b border-line last:border-0" data-room-code={row.original.code}>
-                {row.getVisibleCells().map((cell) => <td key={cell.id} className="whitespace-nowrap px-2 py-1">{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>)}
+                {row.getVisibleCells().map((cell) => (
+                  <td key={cell.id} className="whitespace-nowrap px-2 py-1">
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </td>
+                ))}
               </tr>
             ))}
-            {!rooms.isLoading && data.length === 0 && <tr><td className="px-3 py-6 text-ink-muted" colSpan={columns.length}>No rooms match. Import a register or add a room.</td></tr>}
+            {!rooms.isLoading && data.length === 0 && (
+              <tr>
+                <td className="px-3 py-6 text-ink-muted" colSpan={columns.length}>
+                  No rooms match. Import a register or add a room.
+                </td>
+              </tr>
+            )}
           </tbody>
         </table>
       </div>
       <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
-        <button type="button" className="rounded-control border border-line px-2 py-1 disabled:opacity-50" disabled={query.page <= 1} onClick={() => setQuery((q) => ({ ...q, page: q.page - 1 }))}>Previous</button>
-        <span>Page {query.page} of {pages} · {rooms.data?.total ?? 0} rooms</span>
-        <button type="button" className="rounded-control border border-line px-2 py-1 disabled:opacity-50" disabled={query.page >= pages} onClick={() => setQuery((q) => ({ ...q, page: q.page + 1 }))}>Next</button>
+        <button
+          type="button"
+          className="rounded-control border border-line px-2 py-1 disabled:opacity-50"
+          disabled={query.page <= 1}
+          onClick={() => setQuery((q) => ({ ...q, page: q.page - 1 }))}
+        >
+          Previous
+        </button>
+        <span>
+          Page {query.page} of {pages} · {rooms.data?.total ?? 0} rooms
+        </span>
+        <button
+          type="button"
+          className="rounded-control border border-line px-2 py-1 disabled:opacity-50"
+          disabled={query.page >= pages}
+          onClick={() => setQuery((q) => ({ ...q, page: q.page + 1 }))}
+        >
+          Next
+        </button>
         {rooms.isFetching && <span className="text-ink-muted">Loading…</span>}
       </nav>
     </section>

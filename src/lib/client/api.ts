@@ -16,7 +16,12 @@ export class ApiError extends Error {
 export async function errorFrom(response: Response): Promise<ApiError> {
   try {
     const body = (await response.json()) as { error?: { code?: string; message?: string; details?: unknown } };
-    return new ApiError(response.status, body.error?.code ?? 'http_error', body.error?.message ?? `The server answered ${response.status}.`, body.error?.details ?? null);
+    return new ApiError(
+      response.status,
+      body.error?.code ?? 'http_error',
+      body.error?.message ?? `The server answered ${response.status}.`,
+      body.error?.details ?? null,
+    );
   } catch {
     return new ApiError(response.status, 'http_error', `The server answered ${response.status}.`);
   }

@@ -2,7 +2,12 @@
 import { QueryClient, useMutation, useQuery } from '@tanstack/react-query';
 import type { RunStatusView } from '../server/assessments/runs.service';
 import type { WhatIfAnswer } from '../server/assessments/room-assessment.service';
-import type { AssumptionEditBody, StartRunBody, UnitCatalogueBody, WhatIfBody } from '../server/assessments/assessments.schemas';
+import type {
+  AssumptionEditBody,
+  StartRunBody,
+  UnitCatalogueBody,
+  WhatIfBody,
+} from '../server/assessments/assessments.schemas';
 import { apiFetch } from './api';
 
 export type { RunStatusView, WhatIfAnswer, AssumptionEditBody, StartRunBody, UnitCatalogueBody, WhatIfBody };
@@ -38,7 +43,8 @@ export function useRuns(initial: RunStatusView[]) {
 /** Starts a run; resolves to its id. */
 export function useStartRun() {
   return useMutation({
-    mutationFn: (body: StartRunBody) => apiFetch<{ id: string; alreadyRunning: boolean }>('/api/assessments', { method: 'POST', body }),
+    mutationFn: (body: StartRunBody) =>
+      apiFetch<{ id: string; alreadyRunning: boolean }>('/api/assessments', { method: 'POST', body }),
   });
 }
 
@@ -52,13 +58,15 @@ export function useWhatIf(roomId: string) {
 /** Saves changed assumption values as a new version. */
 export function useEditAssumptions() {
   return useMutation({
-    mutationFn: (body: AssumptionEditBody) => apiFetch<{ version: number; label: string }>('/api/assumptions', { method: 'PATCH', body }),
+    mutationFn: (body: AssumptionEditBody) =>
+      apiFetch<{ version: number; label: string }>('/api/assumptions', { method: 'PATCH', body }),
   });
 }
 
 /** Saves the whole unit catalogue as a new assumption version. */
 export function useSaveCatalogue() {
   return useMutation({
-    mutationFn: (body: UnitCatalogueBody) => apiFetch<{ version: number; label: string }>('/api/unit-models', { method: 'PUT', body }),
+    mutationFn: (body: UnitCatalogueBody) =>
+      apiFetch<{ version: number; label: string }>('/api/unit-models', { method: 'PUT', body }),
   });
 }

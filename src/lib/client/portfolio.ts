@@ -3,7 +3,17 @@ import { keepPreviousData, QueryClient, useMutation, useQuery } from '@tanstack/
 import type { Dashboard, PrioritiesPage, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
 import { apiFetch } from './api';
 
-export type { Co2BySchool, CumulativePoint, Dashboard, PrioritiesPage, PriorityRow, ScatterPoint, SensitivityCase, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
+export type {
+  Co2BySchool,
+  CumulativePoint,
+  Dashboard,
+  PrioritiesPage,
+  PriorityRow,
+  ScatterPoint,
+  SensitivityCase,
+  WeightSettings,
+  Weights,
+} from '../server/portfolio/portfolio.types';
 
 /** Shared by all islands of a page (islands are separate React roots, the module is loaded once). */
 export const queryClient = new QueryClient({
@@ -27,7 +37,9 @@ export interface PrioritiesParams {
 }
 
 /** The query string of a priorities request (shared with the export link). */
-export function prioritiesSearch(p: Omit<PrioritiesParams, 'page' | 'pageSize'> & { page?: number | undefined; pageSize?: number | undefined }): string {
+export function prioritiesSearch(
+  p: Omit<PrioritiesParams, 'page' | 'pageSize'> & { page?: number | undefined; pageSize?: number | undefined },
+): string {
   const q = new URLSearchParams();
   if (p.page) q.set('page', String(p.page));
   if (p.pageSize) q.set('pageSize', String(p.pageSize));
@@ -81,7 +93,9 @@ export function useDashboard() {
 export async function runTrustAssessment(onProgress: (done: number, total: number) => void): Promise<void> {
   const { id } = await apiFetch<{ id: string }>('/api/assessments', { method: 'POST', body: { scope: 'trust' } });
   for (;;) {
-    const run = await apiFetch<{ status: string; roomsDone: number; roomsTotal: number; error?: string | null }>(`/api/assessments/${id}`);
+    const run = await apiFetch<{ status: string; roomsDone: number; roomsTotal: number; error?: string | null }>(
+      `/api/assessments/${id}`,
+    );
     onProgress(run.roomsDone, run.roomsTotal);
     if (run.status === 'succeeded') return;
     if (run.status === 'failed') throw new Error(run.error ?? 'The assessment failed.');

@@ -35,7 +35,11 @@ function toSearch(q: RoomsQuery): string {
 
 /** A page of rooms, kept on screen while the next page loads. */
 export function useRooms(q: RoomsQuery) {
-  return useQuery({ queryKey: roomsKey(q), queryFn: () => apiFetch<Page<Room>>(`/api/rooms?${toSearch(q)}`), placeholderData: keepPreviousData });
+  return useQuery({
+    queryKey: roomsKey(q),
+    queryFn: () => apiFetch<Page<Room>>(`/api/rooms?${toSearch(q)}`),
+    placeholderData: keepPreviousData,
+  });
 }
 
 /** Edits one room: the table shows the change at once and rolls it back if the server refuses it. */
@@ -47,7 +51,11 @@ export function useUpdateRoom(q: RoomsQuery) {
     onMutate: async ({ id, changes }) => {
       await client.cancelQueries({ queryKey: roomsKey(q) });
       const previous = client.getQueryData<Page<Room>>(roomsKey(q));
-      if (previous) client.setQueryData(roomsKey(q), { ...previous, rows: previous.rows.map((r) => (r.id === id ? { ...r, ...changes } : r)) });
+      if (previous)
+        client.setQueryData(roomsKey(q), {
+          ...previous,
+          rows: previous.rows.map((r) => (r.id === id ? { ...r, ...changes } : r)),
+        });
       return { previous };
     },
     onError: (_error, _vars, context) => {
@@ -62,11 +70,18 @@ export function useDeleteRooms(q: RoomsQuery) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (ids: string[]) =>
-      ids.length === 1 ? apiFetch<void>(`/api/rooms/${ids[0]}`, { method: 'DELETE' }) : apiFetch<void>('/api/rooms/bulk', { method: 'POST', body: { action: 'delete', ids } }),
+      ids.length === 1
+        ? apiFetch<void>(`/api/rooms/${ids[0]}`, { method: 'DELETE' })
+        : apiFetch<void>('/api/rooms/bulk', { method: 'POST', body: { action: 'delete', ids } }),
     onMutate: async (ids) => {
       await client.cancelQueries({ queryKey: roomsKey(q) });
       const previous = client.getQueryData<Page<Room>>(roomsKey(q));
-      if (previous) client.setQueryData(roomsKey(q), { ...previous, rows: previous.rows.filter((r) => !ids.includes(r.id)), total: previous.total - ids.length });
+      if (previous)
+        client.setQueryData(roomsKey(q), {
+          ...previous,
+          rows: previous.rows.filter((r) => !ids.includes(r.id)),
+          total: previous.total - ids.length,
+        });
       return { previous };
     },
     onError: (_error, _ids, context) => {
@@ -81,11 +96,18 @@ export function useBulkUpdate(q: RoomsQuery) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: ({ ids, changes }: { ids: string[]; changes: Partial<RoomFields> }) =>
-      apiFetch<{ count: number; warnings: { code: string; message: string }[] }>('/api/rooms/bulk', { method: 'POST', body: { action: 'update', ids, changes } }),
+      apiFetch<{ count: number; warnings: { code: string; message: string }[] }>('/api/rooms/bulk', {
+        method: 'POST',
+        body: { action: 'update', ids, changes },
+      }),
     onMutate: async ({ ids, changes }) => {
       await client.cancelQueries({ queryKey: roomsKey(q) });
       const previous = client.getQueryData<Page<Room>>(roomsKey(q));
-      if (previous) client.setQueryData(roomsKey(q), { ...previous, rows: previous.rows.map((r) => (ids.includes(r.id) ? { ...r, ...changes } : r)) });
+      if (previous)
+        client.setQueryData(roomsKey(q), {
+          ...previous,
+          rows: previous.rows.map((r) => (ids.includes(r.id) ? { ...r, ...changes } : r)),
+        });
       return { previous };
     },
     onError: (_error, _vars, context) => {
@@ -99,18 +121,26 @@ export function useBulkUpdate(q: RoomsQuery) {
 export function useCreateRoom() {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (input: Partial<RoomCreate>) => apiFetch<{ id: string; warnings: { message: string }[] }>('/api/rooms', { method: 'POST', body: input }),
+    mutationFn: (input: Partial<RoomCreate>) =>
+      apiFetch<{ id: string; warnings: { message: string }[] }>('/api/rooms', { method: 'POST', body: input }),
     onSuccess: () => client.invalidateQueries({ queryKey: ['register', 'rooms'] }),
   });
 }
 
 /** The trust's import history. */
 export function useImports() {
-  return useQuery({ queryKey: ['register', 'imports'], queryFn: () => apiFetch<{ imports: ImportHistoryItem[] }>('/api/imports') });
+  return useQuery({
+    queryKey: ['register', 'imports'],
+    queryFn: () => apiFetch<{ imports: ImportHistoryItem[] }>('/api/imports'),
+  });
 }
 
 /** Uploads a register with upload progress (0–1); resolves to the preview. */
-export function uploadRegister(file: File, options: { headerRow?: number; mapping?: Record<string, string | null> }, onProgress: (fraction: number) => void): Promise<ImportPreview> {
+export function uploadRegister(
+  file: File,
+  options: { headerRow?: number; mapping?: Record<string, string | null> },
+  onProgress: (fraction: number) => void,
+): Promise<ImportPreview> {
   const form = new FormData();
   form.set('file', file, file.name);
   if (options.headerRow) form.set('headerRow', String(options.headerRow));
@@ -123,18 +153,25 @@ export function uploadRegister(file: File, options: { headerRow?: number; mappin
       if (e.lengthComputable) onProgress(e.loaded / e.total);
     };
     xhr.onload = async () => {
-      const response = new Response(xhr.responseText, { status: xhr.status, headers: { 'content-type': 'application/json' } });
+      const response = new Response(xhr.responseText, {
+        status: xhr.status,
+        headers: { 'content-type': 'application/json' },
+      });
       if (xhr.status >= 200 && xhr.status < 300) resolve((await response.json()) as ImportPreview);
       else reject(await errorFrom(response));
     };
-    xhr.onerror = () => reject(new ApiError(0, 'network', 'The upload did not reach the server. Check your connection and try again.'));
+    xhr.onerror = () =>
+      reject(new ApiError(0, 'network', 'The upload did not reach the server. Check your connection and try again.'));
     xhr.send(form);
   });
 }
 
 /** Commits the valid rows of a previewed import, or cancels it. */
 export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteMissing: boolean) {
-  return apiFetch<{ outcome: ImportOutcome }>(`/api/imports/${id}/commit`, { method: 'POST', body: { rows, deleteMissing } });
+  return apiFetch<{ outcome: ImportOutcome }>(`/api/imports/${id}/commit`, {
+    method: 'POST',
+    body: { rows, deleteMissing },
+  });
 }
 
 /** The same checks the server runs on an edit, so the editor can say what is wrong before sending. */
@@ -156,10 +193,19 @@ export function useSchool(id: string | undefined) {
 export function useEstateEdit(schoolId: string | undefined) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (edit: { kind: 'school' | 'block'; id: string; changes: Record<string, unknown> } | { kind: 'newBlock'; name: string } | { kind: 'deleteBlock'; id: string }) => {
-      if (edit.kind === 'newBlock') return apiFetch('/api/blocks', { method: 'POST', body: { schoolId, name: edit.name } });
+    mutationFn: (
+      edit:
+        | { kind: 'school' | 'block'; id: string; changes: Record<string, unknown> }
+        | { kind: 'newBlock'; name: string }
+        | { kind: 'deleteBlock'; id: string },
+    ) => {
+      if (edit.kind === 'newBlock')
+        return apiFetch('/api/blocks', { method: 'POST', body: { schoolId, name: edit.name } });
       if (edit.kind === 'deleteBlock') return apiFetch(`/api/blocks/${edit.id}`, { method: 'DELETE' });
-      return apiFetch(`/api/${edit.kind === 'school' ? 'schools' : 'blocks'}/${edit.id}`, { method: 'PATCH', body: edit.changes });
+      return apiFetch(`/api/${edit.kind === 'school' ? 'schools' : 'blocks'}/${edit.id}`, {
+        method: 'PATCH',
+        body: edit.changes,
+      });
     },
     onSettled: () => client.invalidateQueries({ queryKey: ['register'] }),
   });

@@ -7,7 +7,14 @@ import { completeAssumptionSet, validateAssumptionSet } from './assumption-tools
 import { DEFAULT_ASSUMPTIONS } from './assumptions';
 import { occupiedHeatingDegreeHours, schoolDayHours, seasonOutdoorTempC } from './climate-regions';
 import { simulateDay, type DaySegment } from './co2-mass-balance';
-import { adaptiveMaxTempC, coldDowndraughtSpeedMs, draughtRatePct, glazingProxy, overheatingIndex, pmvPpd } from './comfort';
+import {
+  adaptiveMaxTempC,
+  coldDowndraughtSpeedMs,
+  draughtRatePct,
+  glazingProxy,
+  overheatingIndex,
+  pmvPpd,
+} from './comfort';
 import { applyPack, buildStatusOf, choosePack } from './criteria';
 import { supplyTempAfterRecoveryC } from './energy';
 import { formatGbp, formatInt } from './format';
@@ -102,7 +109,13 @@ function prepare(given: AssumptionSet): Prepared {
     generation: new Map(),
     unitChoices: new Map(),
     thresholds: new Map(),
-    segments: timetable.map((t) => ({ startMinute: t.startMinute, endMinute: t.endMinute, generationLps: 0, flowLps: 0, occupancyFraction: t.occupancyFraction })),
+    segments: timetable.map((t) => ({
+      startMinute: t.startMinute,
+      endMinute: t.endMinute,
+      generationLps: 0,
+      flowLps: 0,
+      occupancyFraction: t.occupancyFraction,
+    })),
   };
   preparedCache.set(given, prepared);
   return prepared;
@@ -141,7 +154,12 @@ function regionDerived(set: AssumptionSet, p: Prepared, code: ClimateRegion): Re
   return derived;
 }
 
-function perPersonGeneration(set: AssumptionSet, p: Prepared, ageGroup: RoomAssessmentInput['room']['ageGroup'], met: number): number {
+function perPersonGeneration(
+  set: AssumptionSet,
+  p: Prepared,
+  ageGroup: RoomAssessmentInput['room']['ageGroup'],
+  met: number,
+): number {
   let byMet = p.generation.get(ageGroup);
   if (!byMet) {
     byMet = new Map();
@@ -180,7 +198,11 @@ function meanDayFlowLps(timetable: readonly TimetableSegment[], flows: SeasonFlo
   let minutes = 0;
   for (const s of timetable) {
     const d = s.endMinute - s.startMinute;
-    sum += d * (flows.infiltrationLps + flows.mechanicalLps + (s.occupancyFraction > 0 ? flows.windowOccupiedLps : flows.windowEmptyLps));
+    sum +=
+      d *
+      (flows.infiltrationLps +
+        flows.mechanicalLps +
+        (s.occupancyFraction > 0 ? flows.windowOccupiedLps : flows.windowEmptyLps));
     minutes += d;
   }
   return minutes > 0 ? sum / minutes : 0;
@@ -194,7 +216,11 @@ function sortedUnique(values: number[]): number[] {
 }
 
 /** Assess one room: CO2 per season, criteria, risk, comfort and the heat-recovery retrofit. */
-export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSet, options: AssessOptions = {}): RoomAssessment {
+export function assessRoom(
+  input: RoomAssessmentInput,
+  assumptions: AssumptionSet,
+  options: AssessOptions = {},
+): RoomAssessment {
   validateRoomInput(input);
   const p = prepare(assumptions);
   const set = p.set;
@@ -212,7 +238,11 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
   const outdoorCo2 = set.air.outdoorCo2Ppm.value;
   const pressureKpa = set.air.atmosphericPressureKpa.value;
 
-  const pupilMet = clamp(set.occupancy.pupilMetByUse.value[room.use] + set.occupancy.pupilMetAdjustByAge.value[room.ageGroup], 1, 4);
+  const pupilMet = clamp(
+    set.occupancy.pupilMetByUse.value[room.use] + set.occupancy.pupilMetAdjustByAge.value[room.ageGroup],
+    1,
+    4,
+  );
   const adultMet = clamp(set.occupancy.adultMet.value, 1, 4);
   const tableLps =
     (room.pupils > 0 ? room.pupils * perPersonGeneration(set, p, room.ageGroup, pupilMet) : 0) +
@@ -224,10 +254,13 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
     const byEra = set.infiltration.defaultAirPermeabilityByEra.value;
     if (block.constructionType !== null) {
       airPermeability = set.infiltration.defaultAirPermeabilityByConstruction.value[block.constructionType];
-      defaultsUsed.push(`block.airPermeabilityM3hM2 → ${airPermeability} m³/(h·m²) (default for ${block.constructionType.replace('_', ' ')})`);
+      defaultsUsed.push(
+        `block.airPermeabilityM3hM2 → ${airPermeability} m³/(h·m²) (default for ${block.constructionType.replace('_', ' ')})`,
+      );
     } else {
       const y = block.yearBuilt;
-      airPermeability = y === null ? byEra.unknown : y < 1980 ? byEra.before1980 : y < 2006 ? byEra.from1980to2005 : byEra.from2006;
+      airPermeability =
+        y === null ? byEra.unknown : y < 1980 ? byEra.before1980 : y < 2006 ? byEra.from1980to2005 : byEra.from2006;
       defaultsUsed.push(`block.airPermeabilityM3hM2 → ${airPermeability} m³/(h·m²) (default by year built)`);
     }
   }
@@ -249,7 +282,8 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
   const effectiveAreaM2 = room.openableAreaM2 * set.windows.effectiveOpeningFactor.value[room.windowType];
   const windowUse = hasFan ? set.windows.windowUseWithMechanical.value : 1;
   const cross = room.ventilationType === 'natural_cross';
-  if (room.glazingGValue === null) defaultsUsed.push(`room.glazingGValue → ${set.comfort.defaultGlazingGValue.value} (default)`);
+  if (room.glazingGValue === null)
+    defaultsUsed.push(`room.glazingGValue → ${set.comfort.defaultGlazingGValue.value} (default)`);
   if (block.heatingFuel === null) defaultsUsed.push(`block.heatingFuel → ${fuel} (the school's fuel)`);
 
   const region = regionDerived(set, p, school.climateRegion);
@@ -315,9 +349,14 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
     const totalLps = flows.windowOccupiedLps + infLps + mechLps;
     const maxEntry = criterion.maxLimitPpm === null ? null : day.thresholds[thresholds.indexOf(criterion.maxLimitPpm)];
     const meanMet = day.meanPpm <= criterion.meanLimitPpm;
-    const maxMet = maxEntry === null || maxEntry === undefined || maxEntry.longestRunMinutes <= (criterion.maxMinutesCap ?? 0);
+    const maxMet =
+      maxEntry === null || maxEntry === undefined || maxEntry.longestRunMinutes <= (criterion.maxMinutesCap ?? 0);
     const targetMaxEntry = target.maxLimitPpm === null ? null : day.thresholds[thresholds.indexOf(target.maxLimitPpm)];
-    if (!(day.meanPpm <= target.meanLimitPpm) || (targetMaxEntry && targetMaxEntry.longestRunMinutes > (target.maxMinutesCap ?? 0))) meetsTarget = false;
+    if (
+      !(day.meanPpm <= target.meanLimitPpm) ||
+      (targetMaxEntry && targetMaxEntry.longestRunMinutes > (target.maxMinutesCap ?? 0))
+    )
+      meetsTarget = false;
     const criterionMet = meanMet && maxMet;
     if (!criterionMet) criteriaMet = false;
     seasons[season] = {
@@ -347,7 +386,10 @@ export function assessRoom(input: RoomAssessmentInput, assumptions: AssumptionSe
   const riskIdx = thresholds.indexOf(criterion.riskThresholdPpm);
   const todayPupilHours = pupilHoursPerYear({
     pupils: room.pupils,
-    perSeason: SEASONS.map((s) => ({ occupiedMinutesOver: seasons[s].thresholds[riskIdx]?.occupiedMinutesOver ?? 0, schoolDays: profiles[s].schoolDays })),
+    perSeason: SEASONS.map((s) => ({
+      occupiedMinutesOver: seasons[s].thresholds[riskIdx]?.occupiedMinutesOver ?? 0,
+      schoolDays: profiles[s].schoolDays,
+    })),
   });
   const worst = seasons[worstSeason];
   const runThreshold = criterion.maxLimitPpm ?? criterion.meanLimitPpm;
@@ -453,14 +495,31 @@ function assessComfort(
   // Draught at the first desks: the larger of the general occupied-zone air speed and the cold downdraught
   // off the glazing (height: glazed area over the façade width of a square room, at most the ceiling height).
   const glazingHeightM = Math.min(room.glazingAreaM2 / side, room.ceilingHeightM);
-  const downdraughtSpeedMs = coldDowndraughtSpeedMs({ surfaceDeltaTK: ti - glazingSurfaceTempC, surfaceHeightM: glazingHeightM, distanceM: c.deskDistanceFromWindowM.value });
+  const downdraughtSpeedMs = coldDowndraughtSpeedMs({
+    surfaceDeltaTK: ti - glazingSurfaceTempC,
+    surfaceHeightM: glazingHeightM,
+    distanceM: c.deskDistanceFromWindowM.value,
+  });
   const localSpeed = clamp(Math.max(c.winterAirSpeedMs.value, downdraughtSpeedMs), 0, 0.5);
-  const draught = draughtRatePct({ localAirTempC: clamp(ti, 20, 26), localAirSpeedMs: localSpeed, turbulencePct: c.draughtTurbulencePct.value });
+  const draught = draughtRatePct({
+    localAirTempC: clamp(ti, 20, 26),
+    localAirSpeedMs: localSpeed,
+    turbulencePct: c.draughtTurbulencePct.value,
+  });
   const concern =
-    pmv < -0.5 ? 'Feels cool in winter: cold glazing lowers the radiant temperature' : draught > 20 ? 'Draught risk near the windows in winter' : null;
+    pmv < -0.5
+      ? 'Feels cool in winter: cold glazing lowers the radiant temperature'
+      : draught > 20
+        ? 'Draught risk near the windows in winter'
+        : null;
 
   // Summer: §9.3 screening index.
-  const facing = glazingProxy({ glazingAreaM2: room.glazingAreaM2, floorAreaM2: room.floorAreaM2, orientationDeg: room.orientationDeg, crossVentilated: cross });
+  const facing = glazingProxy({
+    glazingAreaM2: room.glazingAreaM2,
+    floorAreaM2: room.floorAreaM2,
+    orientationDeg: room.orientationDeg,
+    crossVentilated: cross,
+  });
   const irr = c.julyIrradianceWm2.value;
   const irradiance = facing.facing === null ? irr.unknown : irr[facing.facing];
   const facadeM2 = side * room.ceilingHeightM;
@@ -468,7 +527,10 @@ function assessComfort(
   const fabric = c.glazingUValueWm2K.value * room.glazingAreaM2 + c.wallUValueWm2K.value * opaqueM2;
   const summerFlows = flows.summer;
   const dayFlow = meanDayFlowLps(p.timetable, summerFlows);
-  const nightLps = summerFlows.infiltrationLps + (summerFlows.windowOccupiedLps / Math.max(seasons.summer.windowOpenFractionOccupied, 1e-9)) * c.summerNightOpenFraction.value;
+  const nightLps =
+    summerFlows.infiltrationLps +
+    (summerFlows.windowOccupiedLps / Math.max(seasons.summer.windowOpenFractionOccupied, 1e-9)) *
+      c.summerNightOpenFraction.value;
   const nightHours = Math.max(0, 24 - p.dayHours);
   const q24 = (dayFlow * p.dayHours + nightLps * nightHours) / 24;
   const occupants = room.pupils + room.adults;
@@ -488,7 +550,16 @@ function assessComfort(
   const adaptiveMax = adaptiveMaxTempC(summerMeanC, c.adaptiveCategoryOffsetK.value);
   const predicted = summerMeanC + index.deltaTK;
   return {
-    winter: { airTempC, meanRadiantTempC, glazingSurfaceTempC, pmv, ppdPct, downdraughtSpeedMs, draughtRatePct: draught, concern },
+    winter: {
+      airTempC,
+      meanRadiantTempC,
+      glazingSurfaceTempC,
+      pmv,
+      ppdPct,
+      downdraughtSpeedMs,
+      draughtRatePct: draught,
+      concern,
+    },
     summer: {
       solarGainW: index.solarGainW,
       internalGainW: index.internalGainW,
@@ -526,14 +597,27 @@ function assessRetrofit(args: {
 
   // Winter is the design case: windows shut once units run, so units plus infiltration must carry the load.
   const winter = seasonFlows.winter;
-  const needTotal = requiredOutdoorAirLps({ generationLps: seasonGen.winter, outdoorCo2Ppm: outdoorCo2, meanLimitPpm: target.meanLimitPpm, maxLimitPpm: target.maxLimitPpm });
-  const requiredSupplyLps = needTotal === null ? Number.POSITIVE_INFINITY : Math.max(0, Math.ceil(needTotal - winter.infiltrationLps - winter.mechanicalLps));
+  const needTotal = requiredOutdoorAirLps({
+    generationLps: seasonGen.winter,
+    outdoorCo2Ppm: outdoorCo2,
+    meanLimitPpm: target.meanLimitPpm,
+    maxLimitPpm: target.maxLimitPpm,
+  });
+  const requiredSupplyLps =
+    needTotal === null
+      ? Number.POSITIVE_INFINITY
+      : Math.max(0, Math.ceil(needTotal - winter.infiltrationLps - winter.mechanicalLps));
   let choice: UnitChoice | null = null;
   if (Number.isFinite(requiredSupplyLps) && requiredSupplyLps > 0) {
     const cached = p.unitChoices.get(requiredSupplyLps);
     if (cached !== undefined) choice = cached;
     else {
-      choice = chooseUnits({ requiredSupplyLps, catalogue: set.retrofit.unitCatalogue.value, soundLimitDbA: set.retrofit.soundLimitDbA.value, maxUnits: set.retrofit.maxUnitsPerRoom.value });
+      choice = chooseUnits({
+        requiredSupplyLps,
+        catalogue: set.retrofit.unitCatalogue.value,
+        soundLimitDbA: set.retrofit.soundLimitDbA.value,
+        maxUnits: set.retrofit.maxUnitsPerRoom.value,
+      });
       p.unitChoices.set(requiredSupplyLps, choice);
     }
   }
@@ -543,7 +627,8 @@ function assessRetrofit(args: {
   if (school.boilerEfficiency === null && !args.defaultsUsed.some((d) => d.startsWith('school.boilerEfficiency'))) {
     args.defaultsUsed.push(`school.boilerEfficiency → ${efficiency} (default for ${fuel})`);
   }
-  if (school.fuelPriceGbpPerKwh === null) args.defaultsUsed.push(`school.fuelPriceGbpPerKwh → £${fuelPrice}/kWh (default for ${fuel})`);
+  if (school.fuelPriceGbpPerKwh === null)
+    args.defaultsUsed.push(`school.fuelPriceGbpPerKwh → £${fuelPrice}/kWh (default for ${fuel})`);
   const rhoCp = set.energy.airHeatCapacityWPerLpsK.value;
   const rate = fin.discountRate.value;
   const years = fin.appraisalYears.value;
@@ -589,7 +674,10 @@ function assessRetrofit(args: {
       notes,
     };
   }
-  if (!choice.soundLimitMet) notes.push(`The units together reach about ${formatInt(choice.soundDbA)} dB(A), above the ${set.retrofit.soundLimitDbA.value} dB(A) limit: an acoustic review is needed.`);
+  if (!choice.soundLimitMet)
+    notes.push(
+      `The units together reach about ${formatInt(choice.soundDbA)} dB(A), above the ${set.retrofit.soundLimitDbA.value} dB(A) limit: an acoustic review is needed.`,
+    );
 
   const perf = choicePerformance(choice);
   const fanRunHours = p.dayHours * p.totalSchoolDays;
@@ -610,7 +698,10 @@ function assessRetrofit(args: {
     discountRate: rate,
     appraisalYears: years,
   });
-  if (years > perf.lifeYears) notes.push(`The appraisal period (${years} years) is longer than the unit life (${perf.lifeYears} years); replacement is not costed.`);
+  if (years > perf.lifeYears)
+    notes.push(
+      `The appraisal period (${years} years) is longer than the unit life (${perf.lifeYears} years); replacement is not costed.`,
+    );
 
   // With units: re-run the day per season with the units' flow; windows as today except in winter.
   const withUnitsFlows = {} as Record<Season, SeasonFlows>;
@@ -618,7 +709,10 @@ function assessRetrofit(args: {
   const profiles = set.seasons.value;
   for (const season of SEASONS) {
     const today = seasonFlows[season];
-    const winterShare = season === 'winter' ? set.retrofit.windowOpenFractionWithUnits.value / Math.max(profiles.winter.windowOpenFractionOccupied, 1e-9) : 1;
+    const winterShare =
+      season === 'winter'
+        ? set.retrofit.windowOpenFractionWithUnits.value / Math.max(profiles.winter.windowOpenFractionOccupied, 1e-9)
+        : 1;
     const flows: SeasonFlows = {
       windowOccupiedLps: today.windowOccupiedLps * Math.min(winterShare, 1),
       windowEmptyLps: today.windowEmptyLps * Math.min(winterShare, 1),
@@ -629,7 +723,8 @@ function assessRetrofit(args: {
     // Exact shortcut: the day starts at outdoor CO2 and each segment moves monotonically towards its steady state,
     // so if even the fully occupied steady state (lowest flow: occupied or empty windows) stays at or below the
     // threshold, CO2 never exceeds it.
-    const lowestFlow = flows.infiltrationLps + flows.mechanicalLps + Math.min(flows.windowOccupiedLps, flows.windowEmptyLps);
+    const lowestFlow =
+      flows.infiltrationLps + flows.mechanicalLps + Math.min(flows.windowOccupiedLps, flows.windowEmptyLps);
     const threshold = args.criterion.riskThresholdPpm;
     if (outdoorCo2 + (1e6 * seasonGen[season]) / lowestFlow <= threshold) continue;
     const day = simulateDay({
@@ -659,7 +754,8 @@ function assessRetrofit(args: {
   const withCost = (withHeat / efficiency) * fuelPrice + money.annualFanKwh * elecPrice + perf.maintenanceGbp;
   const extraCost = withCost - todayCost;
   const extraKg = ((withHeat - todayHeat) / efficiency) * fuelFactor + money.annualFanKwh * elecFactor;
-  const winterToday = seasonFlows.winter.windowOccupiedLps + seasonFlows.winter.infiltrationLps + seasonFlows.winter.mechanicalLps;
+  const winterToday =
+    seasonFlows.winter.windowOccupiedLps + seasonFlows.winter.infiltrationLps + seasonFlows.winter.mechanicalLps;
   const comparisonWithToday =
     extraCost > 0
       ? `Better air costs energy: in winter about ${formatInt(winterToday)} l/s of outdoor air reaches the room today, the units would bring ${formatInt(choice.flowLps)} l/s, so heating, fans and servicing would cost about ${formatGbp(extraCost)} a year more than today (${formatInt(extraKg)} kgCO2e), even though heat recovery saves ${formatGbp(money.annualFuelSavedKwh * fuelPrice)} a year against bringing the same air through windows.`
@@ -670,7 +766,10 @@ function assessRetrofit(args: {
     extractTempC: set.energy.heatingIndoorTempC.value,
     heatRecoveryEfficiency: perf.heatRecoveryEfficiency,
   });
-  if (supplyTempC < 16) notes.push(`Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`);
+  if (supplyTempC < 16)
+    notes.push(
+      `Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`,
+    );
 
   // Every field written out (no spread): V8 builds this object on its fast path.
   return {
@@ -697,7 +796,12 @@ function assessRetrofit(args: {
     pupilHoursRemovedPerYear: removed,
     pupilHoursRemovedPer1000Gbp: pupilHoursPer1000Gbp(removed, choice.capitalCostGbp),
     capitalPerTonneCo2eGbp: capitalPerTonneCo2eGbp(choice.capitalCostGbp, money.annualNetSavingKgCo2e, perf.lifeYears),
-    vsToday: { todayHeatLossKwh: todayHeat, withUnitsHeatLossKwh: withHeat, annualExtraCostGbp: extraCost, annualExtraKgCo2e: extraKg },
+    vsToday: {
+      todayHeatLossKwh: todayHeat,
+      withUnitsHeatLossKwh: withHeat,
+      annualExtraCostGbp: extraCost,
+      annualExtraKgCo2e: extraKg,
+    },
     comparisonWithToday,
     notes,
   };

@@ -39,9 +39,16 @@ function isAssumed(x: unknown): x is Assumed<unknown> {
  * A set stored by an earlier engine version may lack assumptions added since. This returns the set with every
  * missing assumption (or group) taken from `defaults`, and the paths it filled. Values present are kept as they are.
  */
-export function completeAssumptionSet(set: AssumptionSet, defaults: AssumptionSet): { set: AssumptionSet; filled: string[] } {
+export function completeAssumptionSet(
+  set: AssumptionSet,
+  defaults: AssumptionSet,
+): { set: AssumptionSet; filled: string[] } {
   const filled: string[] = [];
-  const merge = (node: Record<string, unknown>, base: Record<string, unknown>, path: string): Record<string, unknown> => {
+  const merge = (
+    node: Record<string, unknown>,
+    base: Record<string, unknown>,
+    path: string,
+  ): Record<string, unknown> => {
     let out = node;
     for (const [key, baseValue] of Object.entries(base)) {
       const here = node[key];
@@ -50,7 +57,13 @@ export function completeAssumptionSet(set: AssumptionSet, defaults: AssumptionSe
         if (out === node) out = { ...node };
         out[key] = structuredClone(baseValue);
         filled.push(childPath);
-      } else if (!isAssumed(baseValue) && typeof baseValue === 'object' && baseValue !== null && typeof here === 'object' && !Array.isArray(here)) {
+      } else if (
+        !isAssumed(baseValue) &&
+        typeof baseValue === 'object' &&
+        baseValue !== null &&
+        typeof here === 'object' &&
+        !Array.isArray(here)
+      ) {
         const merged = merge(here as Record<string, unknown>, baseValue as Record<string, unknown>, childPath);
         if (merged !== here) {
           if (out === node) out = { ...node };
@@ -60,7 +73,11 @@ export function completeAssumptionSet(set: AssumptionSet, defaults: AssumptionSe
     }
     return out;
   };
-  const completed = merge(set as unknown as Record<string, unknown>, defaults as unknown as Record<string, unknown>, '') as unknown as AssumptionSet;
+  const completed = merge(
+    set as unknown as Record<string, unknown>,
+    defaults as unknown as Record<string, unknown>,
+    '',
+  ) as unknown as AssumptionSet;
   return { set: completed, filled };
 }
 
@@ -95,12 +112,18 @@ export function listAssumptions(set: AssumptionSet): AssumptionEntry[] {
  * A copy of the set with one value replaced and a new version. Source and status stay as they were and
  * the note records the edit. Throws EngineInputError naming the path when it does not exist.
  */
-export function withAssumptionValue(set: AssumptionSet, path: string, value: unknown, newVersion: string): AssumptionSet {
+export function withAssumptionValue(
+  set: AssumptionSet,
+  path: string,
+  value: unknown,
+  newVersion: string,
+): AssumptionSet {
   const copy = structuredClone(set) as AssumptionSet;
   const parts = path.split('.');
   let node: unknown = copy;
   for (const p of parts) {
-    if (typeof node !== 'object' || node === null || !(p in node)) throw new EngineInputError(`assumptions.${path}`, 'no such assumption');
+    if (typeof node !== 'object' || node === null || !(p in node))
+      throw new EngineInputError(`assumptions.${path}`, 'no such assumption');
     node = (node as Record<string, unknown>)[p];
   }
   if (!isAssumed(node)) throw new EngineInputError(`assumptions.${path}`, 'is a group, not a single assumption');
@@ -115,11 +138,14 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   const r = (path: string, value: number, min: number, max: number): void => {
     requireRange(`assumptions.${path}`, value, min, max);
   };
-  if (typeof set.version !== 'string' || set.version === '') throw new EngineInputError('assumptions.version', 'must be a non-empty text');
+  if (typeof set.version !== 'string' || set.version === '')
+    throw new EngineInputError('assumptions.version', 'must be a non-empty text');
   r('air.outdoorCo2Ppm', set.air.outdoorCo2Ppm.value, 250, 1000);
   r('air.atmosphericPressureKpa', set.air.atmosphericPressureKpa.value, 80, 110);
-  for (const [use, met] of Object.entries(set.occupancy.pupilMetByUse.value)) r(`occupancy.pupilMetByUse.${use}`, met, 1, 4);
-  for (const [age, d] of Object.entries(set.occupancy.pupilMetAdjustByAge.value)) r(`occupancy.pupilMetAdjustByAge.${age}`, d, -1, 1);
+  for (const [use, met] of Object.entries(set.occupancy.pupilMetByUse.value))
+    r(`occupancy.pupilMetByUse.${use}`, met, 1, 4);
+  for (const [age, d] of Object.entries(set.occupancy.pupilMetAdjustByAge.value))
+    r(`occupancy.pupilMetAdjustByAge.${age}`, d, -1, 1);
   r('occupancy.adultMet', set.occupancy.adultMet.value, 1, 4);
   const tt = set.occupancy.timetable.value;
   if (tt.length === 0) throw new EngineInputError('assumptions.occupancy.timetable', 'needs at least one period');
@@ -130,7 +156,10 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     r(`${path}.occupancyFraction`, seg.occupancyFraction, 0, 1);
     const prev = tt[i - 1];
     if (prev && prev.endMinute !== seg.startMinute) {
-      throw new EngineInputError(`assumptions.${path}.startMinute`, `must start when the previous period ends (${prev.endMinute})`);
+      throw new EngineInputError(
+        `assumptions.${path}.startMinute`,
+        `must start when the previous period ends (${prev.endMinute})`,
+      );
     }
   });
   for (const [season, s] of Object.entries(set.seasons.value)) {
@@ -143,14 +172,17 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     r(`${path}.windowOpenFractionEmpty`, s.windowOpenFractionEmpty, 0, 1);
   }
   for (const [code, reg] of Object.entries(set.climate.regions.value)) {
-    if (reg.monthlyMeanTempC.length !== 12) throw new EngineInputError(`assumptions.climate.regions.${code}.monthlyMeanTempC`, 'needs twelve months');
+    if (reg.monthlyMeanTempC.length !== 12)
+      throw new EngineInputError(`assumptions.climate.regions.${code}.monthlyMeanTempC`, 'needs twelve months');
     reg.monthlyMeanTempC.forEach((t, i) => r(`climate.regions.${code}.monthlyMeanTempC.${i}`, t, -30, 40));
-    for (const [season, w] of Object.entries(reg.windSpeedMs)) r(`climate.regions.${code}.windSpeedMs.${season}`, w, 0, 30);
+    for (const [season, w] of Object.entries(reg.windSpeedMs))
+      r(`climate.regions.${code}.windSpeedMs.${season}`, w, 0, 30);
   }
   r('climate.daytimeOffsetK', set.climate.daytimeOffsetK.value, -5, 10);
   r('windows.dischargeCoefficient', set.windows.dischargeCoefficient.value, 0.1, 1);
   r('windows.openingHeightM', set.windows.openingHeightM.value, 0.1, 5);
-  for (const [t, f] of Object.entries(set.windows.effectiveOpeningFactor.value)) r(`windows.effectiveOpeningFactor.${t}`, f, 0, 1);
+  for (const [t, f] of Object.entries(set.windows.effectiveOpeningFactor.value))
+    r(`windows.effectiveOpeningFactor.${t}`, f, 0, 1);
   r('windows.crossWindDeltaCp', set.windows.crossWindDeltaCp.value, 0, 1.5);
   r('windows.siteWindFactor', set.windows.siteWindFactor.value, 0, 1.5);
   r('windows.windowUseWithMechanical', set.windows.windowUseWithMechanical.value, 0, 1);
@@ -171,9 +203,12 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   r('energy.heatingIndoorTempC', set.energy.heatingIndoorTempC.value, 10, 30);
   r('energy.heatingCutoffTempC', set.energy.heatingCutoffTempC.value, 0, 30);
   r('energy.airHeatCapacityWPerLpsK', set.energy.airHeatCapacityWPerLpsK.value, 1, 1.4);
-  for (const [f, e] of Object.entries(set.energy.heatGeneratorEfficiency.value)) r(`energy.heatGeneratorEfficiency.${f}`, e, 0.3, 6);
-  for (const [f, v] of Object.entries(set.finance.fuelPricesGbpPerKwh.value)) r(`finance.fuelPricesGbpPerKwh.${f}`, v, 0, 2);
-  for (const [f, v] of Object.entries(set.finance.carbonFactorsKgCo2ePerKwh.value)) r(`finance.carbonFactorsKgCo2ePerKwh.${f}`, v, 0, 2);
+  for (const [f, e] of Object.entries(set.energy.heatGeneratorEfficiency.value))
+    r(`energy.heatGeneratorEfficiency.${f}`, e, 0.3, 6);
+  for (const [f, v] of Object.entries(set.finance.fuelPricesGbpPerKwh.value))
+    r(`finance.fuelPricesGbpPerKwh.${f}`, v, 0, 2);
+  for (const [f, v] of Object.entries(set.finance.carbonFactorsKgCo2ePerKwh.value))
+    r(`finance.carbonFactorsKgCo2ePerKwh.${f}`, v, 0, 2);
   r('finance.electricityPriceGbpPerKwh', set.finance.electricityPriceGbpPerKwh.value, 0, 2);
   r('finance.electricityKgCo2ePerKwh', set.finance.electricityKgCo2ePerKwh.value, 0, 2);
   r('finance.discountRate', set.finance.discountRate.value, 0, 0.2);

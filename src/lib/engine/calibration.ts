@@ -7,7 +7,12 @@
  * Two-point decay with no occupants: λ = ln[(C1 − C_o)/(C2 − C_o)]/(t2 − t1), h⁻¹.
  * Concentrations ppm with C1 > C2 > C_o; elapsed hours > 0.
  */
-export function decayAchPerH(args: { startPpm: number; endPpm: number; outdoorCo2Ppm: number; elapsedHours: number }): number {
+export function decayAchPerH(args: {
+  startPpm: number;
+  endPpm: number;
+  outdoorCo2Ppm: number;
+  elapsedHours: number;
+}): number {
   return Math.log((args.startPpm - args.outdoorCo2Ppm) / (args.endPpm - args.outdoorCo2Ppm)) / args.elapsedHours;
 }
 

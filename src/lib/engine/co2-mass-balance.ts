@@ -26,7 +26,13 @@ export function flowFromAirChangeLps(achPerH: number, volumeM3: number): number 
  * C_end = C_ss + (C_0 − C_ss)·e^(−λT);  C_mean = C_ss + (C_0 − C_ss)·(1 − e^(−λT))/(λT).
  * λ h⁻¹ ≥ 0, T h > 0. With λ = 0 the linear limit C(t) = C_0 + rise·t is used (rise ppm/h).
  */
-export function segmentEndAndMean(args: { startPpm: number; steadyPpm: number; achPerH: number; hours: number; risePpmPerH?: number }): {
+export function segmentEndAndMean(args: {
+  startPpm: number;
+  steadyPpm: number;
+  achPerH: number;
+  hours: number;
+  risePpmPerH?: number;
+}): {
   endPpm: number;
   meanPpm: number;
 } {
@@ -47,9 +53,15 @@ export function segmentEndAndMean(args: { startPpm: number; steadyPpm: number; a
  * Time for the trajectory to reach a threshold, t* = (1/λ)·ln[(C_ss − C_0)/(C_ss − C_th)], hours;
  * null when C_th is not strictly between C_0 and C_ss. Domain reference §1.3.
  */
-export function timeToThresholdH(args: { startPpm: number; steadyPpm: number; achPerH: number; thresholdPpm: number }): number | null {
+export function timeToThresholdH(args: {
+  startPpm: number;
+  steadyPpm: number;
+  achPerH: number;
+  thresholdPpm: number;
+}): number | null {
   const { startPpm, steadyPpm, achPerH, thresholdPpm } = args;
-  const between = (startPpm < thresholdPpm && thresholdPpm < steadyPpm) || (startPpm > thresholdPpm && thresholdPpm > steadyPpm);
+  const between =
+    (startPpm < thresholdPpm && thresholdPpm < steadyPpm) || (startPpm > thresholdPpm && thresholdPpm > steadyPpm);
   if (!between || achPerH <= 0) return null;
   return Math.log((steadyPpm - startPpm) / (steadyPpm - thresholdPpm)) / achPerH;
 }
@@ -137,7 +149,10 @@ export function simulateDay(args: {
     }
 
     if (curve) {
-      while (nextSample <= seg.endMinute + 1e-9 && (nextSample < seg.endMinute || seg === segments[segments.length - 1])) {
+      while (
+        nextSample <= seg.endMinute + 1e-9 &&
+        (nextSample < seg.endMinute || seg === segments[segments.length - 1])
+      ) {
         const tH = (nextSample - seg.startMinute) / 60;
         const value = lambda > 0 ? steady + (c - steady) * Math.exp(-lambda * tH) : c + rise * tH;
         curve.push({ minute: nextSample, co2Ppm: value });
@@ -191,7 +206,14 @@ export function simulateDay(args: {
 }
 
 /** Minutes into a segment at which C crosses `th` (caller guarantees a crossing within the segment). */
-function crossingMinutes(c0: number, steady: number, lambda: number, rise: number, th: number, minutes: number): number {
+function crossingMinutes(
+  c0: number,
+  steady: number,
+  lambda: number,
+  rise: number,
+  th: number,
+  minutes: number,
+): number {
   let t: number;
   if (lambda > 0) t = (60 * Math.log((steady - c0) / (steady - th))) / lambda;
   else t = rise > 0 ? (60 * (th - c0)) / rise : minutes;

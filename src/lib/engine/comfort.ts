@@ -10,7 +10,15 @@ import { EngineInputError, requireRange } from './errors';
  * Valid ranges (ISO 7730): t_a 10–30 °C, t_r 10–40 °C, v 0–1 m/s, met 0.8–4, clo 0–2, RH 0–100 %;
  * out of range throws EngineInputError. Returns PMV (−3…+3 scale) and PPD (%).
  */
-export function pmvPpd(args: { airTempC: number; radiantTempC: number; airSpeedMs: number; relativeHumidityPct: number; met: number; clo: number; externalWorkMet?: number }): {
+export function pmvPpd(args: {
+  airTempC: number;
+  radiantTempC: number;
+  airSpeedMs: number;
+  relativeHumidityPct: number;
+  met: number;
+  clo: number;
+  externalWorkMet?: number;
+}): {
   pmv: number;
   ppdPct: number;
 } {
@@ -74,7 +82,11 @@ export function ppdFromPmv(pmv: number): number {
  * Draught rate, ISO 7730:2005 (Fanger et al. 1988): DR = (34 − t_a)·(v − 0.05)^0.62·(0.37·v·Tu + 3.14), %;
  * v < 0.05 m/s uses 0.05; capped at 100 %. Local air 20–26 °C, v < 0.5 m/s, Tu 10–60 % (throws outside).
  */
-export function draughtRatePct(args: { localAirTempC: number; localAirSpeedMs: number; turbulencePct: number }): number {
+export function draughtRatePct(args: {
+  localAirTempC: number;
+  localAirSpeedMs: number;
+  turbulencePct: number;
+}): number {
   const ta = requireRange('comfort.localAirTempC', args.localAirTempC, 20, 26, '°C');
   const v0 = requireRange('comfort.localAirSpeedMs', args.localAirSpeedMs, 0, 0.5, 'm/s');
   const tu = requireRange('comfort.turbulencePct', args.turbulencePct, 10, 60, '%');
@@ -89,7 +101,11 @@ export function draughtRatePct(args: { localAirTempC: number; localAirSpeedMs: n
  *   x < 0.4 m: 0.055·sqrt(ΔT·H);  0.4–2 m: 0.095·sqrt(ΔT·H)/(x + 1.32);  x > 2 m: 0.028·sqrt(ΔT·H)   [m/s]
  * x = distance from the surface, m (≥ 0).
  */
-export function coldDowndraughtSpeedMs(args: { surfaceDeltaTK: number; surfaceHeightM: number; distanceM: number }): number {
+export function coldDowndraughtSpeedMs(args: {
+  surfaceDeltaTK: number;
+  surfaceHeightM: number;
+  distanceM: number;
+}): number {
   const root = Math.sqrt(Math.max(0, args.surfaceDeltaTK) * Math.max(0, args.surfaceHeightM));
   if (args.distanceM < 0.4) return 0.055 * root;
   if (args.distanceM <= 2) return (0.095 * root) / (args.distanceM + 1.32);
@@ -107,8 +123,10 @@ export function adaptiveMaxTempC(runningMeanC: number, categoryOffsetK: number):
  * 'exact': weights 0.8^i normalised by their sum (open-source comfort-library implementation).
  */
 export function runningMeanTempC(dailyMeansYesterdayFirst: readonly number[], form: 'tm52_3_8' | 'exact'): number {
-  if (dailyMeansYesterdayFirst.length !== 7) throw new EngineInputError('dailyMeans', 'needs exactly seven daily means');
-  const weights = form === 'tm52_3_8' ? [1, 0.8, 0.6, 0.5, 0.4, 0.3, 0.2] : [1, 0.8, 0.64, 0.512, 0.4096, 0.32768, 0.262144];
+  if (dailyMeansYesterdayFirst.length !== 7)
+    throw new EngineInputError('dailyMeans', 'needs exactly seven daily means');
+  const weights =
+    form === 'tm52_3_8' ? [1, 0.8, 0.6, 0.5, 0.4, 0.3, 0.2] : [1, 0.8, 0.64, 0.512, 0.4096, 0.32768, 0.262144];
   let sum = 0;
   let wsum = 0;
   for (let i = 0; i < 7; i++) {
@@ -171,7 +189,12 @@ export const APPROVED_DOCUMENT_O_ROOM_LIMITS_PCT = {
 } as const;
 
 /** The AD O glazing proxy for one room. */
-export function glazingProxy(args: { glazingAreaM2: number; floorAreaM2: number; orientationDeg: number | null; crossVentilated: boolean }): {
+export function glazingProxy(args: {
+  glazingAreaM2: number;
+  floorAreaM2: number;
+  orientationDeg: number | null;
+  crossVentilated: boolean;
+}): {
   label: string;
   facing: 'N' | 'E' | 'S' | 'W' | null;
   glazingToFloorPct: number;
@@ -180,7 +203,8 @@ export function glazingProxy(args: { glazingAreaM2: number; floorAreaM2: number;
 } {
   const facing = facingOf(args.orientationDeg);
   const glazingToFloorPct = (100 * args.glazingAreaM2) / args.floorAreaM2;
-  const limitPct = facing === null ? null : APPROVED_DOCUMENT_O_ROOM_LIMITS_PCT[args.crossVentilated ? 'cross' : 'single'][facing];
+  const limitPct =
+    facing === null ? null : APPROVED_DOCUMENT_O_ROOM_LIMITS_PCT[args.crossVentilated ? 'cross' : 'single'][facing];
   return {
     label: 'Housing-regulation proxy (Approved Document O simplified method), not a school standard',
     facing,

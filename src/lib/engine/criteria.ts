@@ -11,14 +11,119 @@ const CAP_CONFLICT =
 
 /** The criteria packs shipped as defaults. */
 export const CRITERIA_PACKS: CriteriaPack[] = [
-  { id: 'bb101_2018_new_natural', name: 'BB101 (2018) new build, natural ventilation', family: 'bb101_2018', ventilation: 'natural', build: 'new_build', basis: 'absolute', meanLimitPpm: 1500, maxLimitPpm: 2000, maxMinutesCap: 20, source: BB101, status: 'secondary', flagged: true, note: CAP_CONFLICT },
-  { id: 'bb101_2018_new_mechanical', name: 'BB101 (2018) new build, mechanical ventilation', family: 'bb101_2018', ventilation: 'mechanical', build: 'new_build', basis: 'absolute', meanLimitPpm: 1000, maxLimitPpm: 1500, maxMinutesCap: 20, source: BB101, status: 'secondary', note: 'Mean < 1000 ppm secondary; 1500 ppm / 20 min from memory.' },
-  { id: 'bb101_2018_refurb_natural', name: 'BB101 (2018) refurbishment, natural ventilation', family: 'bb101_2018', ventilation: 'natural', build: 'refurbishment', basis: 'absolute', meanLimitPpm: 1750, maxLimitPpm: 2000, maxMinutesCap: 20, source: BB101, status: 'secondary', flagged: true, note: `Mean < 1750 ppm secondary; 2000 ppm / 20 min from memory. ${CAP_CONFLICT}` },
-  { id: 'bb101_2018_refurb_mechanical', name: 'BB101 (2018) refurbishment, mechanical or hybrid', family: 'bb101_2018', ventilation: 'mechanical', build: 'refurbishment', basis: 'absolute', meanLimitPpm: 1350, maxLimitPpm: 2000, maxMinutesCap: 20, source: BB101, status: 'from_memory', flagged: true, note: 'All values from memory; confirm against the primary text.' },
-  { id: 'en16798_cat_I', name: 'EN 16798-1 Category I', family: 'en16798_1', ventilation: 'any', build: 'any', basis: 'above_outdoor', meanLimitPpm: 550, maxLimitPpm: null, maxMinutesCap: null, source: 'EN 16798-1:2019 Annex B, via public research code', status: 'secondary' },
-  { id: 'en16798_cat_II', name: 'EN 16798-1 Category II', family: 'en16798_1', ventilation: 'any', build: 'any', basis: 'above_outdoor', meanLimitPpm: 800, maxLimitPpm: null, maxMinutesCap: null, source: 'EN 16798-1:2019 Annex B, via public research code', status: 'secondary' },
-  { id: 'en16798_cat_III', name: 'EN 16798-1 Category III', family: 'en16798_1', ventilation: 'any', build: 'any', basis: 'above_outdoor', meanLimitPpm: 1350, maxLimitPpm: null, maxMinutesCap: null, source: 'EN 16798-1:2019 Annex B, via public research code', status: 'secondary' },
-  { id: 'en16798_cat_IV', name: 'EN 16798-1 Category IV', family: 'en16798_1', ventilation: 'any', build: 'any', basis: 'above_outdoor', meanLimitPpm: 1350, maxLimitPpm: null, maxMinutesCap: null, source: 'EN 16798-1:2019 Annex B, via public research code', status: 'secondary', flagged: true, note: 'Category IV is "worse than III" (> 1350 ppm above outdoor) with no upper limit; the Category III boundary is used, so IV reports whether the room is within Category III.' },
+  {
+    id: 'bb101_2018_new_natural',
+    name: 'BB101 (2018) new build, natural ventilation',
+    family: 'bb101_2018',
+    ventilation: 'natural',
+    build: 'new_build',
+    basis: 'absolute',
+    meanLimitPpm: 1500,
+    maxLimitPpm: 2000,
+    maxMinutesCap: 20,
+    source: BB101,
+    status: 'secondary',
+    flagged: true,
+    note: CAP_CONFLICT,
+  },
+  {
+    id: 'bb101_2018_new_mechanical',
+    name: 'BB101 (2018) new build, mechanical ventilation',
+    family: 'bb101_2018',
+    ventilation: 'mechanical',
+    build: 'new_build',
+    basis: 'absolute',
+    meanLimitPpm: 1000,
+    maxLimitPpm: 1500,
+    maxMinutesCap: 20,
+    source: BB101,
+    status: 'secondary',
+    note: 'Mean < 1000 ppm secondary; 1500 ppm / 20 min from memory.',
+  },
+  {
+    id: 'bb101_2018_refurb_natural',
+    name: 'BB101 (2018) refurbishment, natural ventilation',
+    family: 'bb101_2018',
+    ventilation: 'natural',
+    build: 'refurbishment',
+    basis: 'absolute',
+    meanLimitPpm: 1750,
+    maxLimitPpm: 2000,
+    maxMinutesCap: 20,
+    source: BB101,
+    status: 'secondary',
+    flagged: true,
+    note: `Mean < 1750 ppm secondary; 2000 ppm / 20 min from memory. ${CAP_CONFLICT}`,
+  },
+  {
+    id: 'bb101_2018_refurb_mechanical',
+    name: 'BB101 (2018) refurbishment, mechanical or hybrid',
+    family: 'bb101_2018',
+    ventilation: 'mechanical',
+    build: 'refurbishment',
+    basis: 'absolute',
+    meanLimitPpm: 1350,
+    maxLimitPpm: 2000,
+    maxMinutesCap: 20,
+    source: BB101,
+    status: 'from_memory',
+    flagged: true,
+    note: 'All values from memory; confirm against the primary text.',
+  },
+  {
+    id: 'en16798_cat_I',
+    name: 'EN 16798-1 Category I',
+    family: 'en16798_1',
+    ventilation: 'any',
+    build: 'any',
+    basis: 'above_outdoor',
+    meanLimitPpm: 550,
+    maxLimitPpm: null,
+    maxMinutesCap: null,
+    source: 'EN 16798-1:2019 Annex B, via public research code',
+    status: 'secondary',
+  },
+  {
+    id: 'en16798_cat_II',
+    name: 'EN 16798-1 Category II',
+    family: 'en16798_1',
+    ventilation: 'any',
+    build: 'any',
+    basis: 'above_outdoor',
+    meanLimitPpm: 800,
+    maxLimitPpm: null,
+    maxMinutesCap: null,
+    source: 'EN 16798-1:2019 Annex B, via public research code',
+    status: 'secondary',
+  },
+  {
+    id: 'en16798_cat_III',
+    name: 'EN 16798-1 Category III',
+    family: 'en16798_1',
+    ventilation: 'any',
+    build: 'any',
+    basis: 'above_outdoor',
+    meanLimitPpm: 1350,
+    maxLimitPpm: null,
+    maxMinutesCap: null,
+    source: 'EN 16798-1:2019 Annex B, via public research code',
+    status: 'secondary',
+  },
+  {
+    id: 'en16798_cat_IV',
+    name: 'EN 16798-1 Category IV',
+    family: 'en16798_1',
+    ventilation: 'any',
+    build: 'any',
+    basis: 'above_outdoor',
+    meanLimitPpm: 1350,
+    maxLimitPpm: null,
+    maxMinutesCap: null,
+    source: 'EN 16798-1:2019 Annex B, via public research code',
+    status: 'secondary',
+    flagged: true,
+    note: 'Category IV is "worse than III" (> 1350 ppm above outdoor) with no upper limit; the Category III boundary is used, so IV reports whether the room is within Category III.',
+  },
 ];
 
 /** EN 16798-1:2019 Annex B design outdoor-air rates: person and building components (L/s per person, L/(s·m²)). */
@@ -41,7 +146,11 @@ export function en16798DesignAirflowLps(args: {
 }): number {
   const row = EN16798_AIRFLOW[args.category];
   const qB =
-    args.building === 'very_low_polluting' ? row.veryLowPollutingLpsM2 : args.building === 'low_polluting' ? row.lowPollutingLpsM2 : row.notLowPollutingLpsM2;
+    args.building === 'very_low_polluting'
+      ? row.veryLowPollutingLpsM2
+      : args.building === 'low_polluting'
+        ? row.lowPollutingLpsM2
+        : row.notLowPollutingLpsM2;
   return args.persons * row.perPersonLps + args.floorAreaM2 * qB;
 }
 

@@ -4,12 +4,21 @@
  */
 
 /** Instantaneous ventilation heat loss Φ_v = ρc_p·Q·(θ_i − θ_e), W. Q L/s; temperatures °C. */
-export function ventilationHeatLossW(args: { flowLps: number; indoorTempC: number; outdoorTempC: number; airHeatCapacityWPerLpsK: number }): number {
+export function ventilationHeatLossW(args: {
+  flowLps: number;
+  indoorTempC: number;
+  outdoorTempC: number;
+  airHeatCapacityWPerLpsK: number;
+}): number {
   return args.airHeatCapacityWPerLpsK * args.flowLps * (args.indoorTempC - args.outdoorTempC);
 }
 
 /** Annual ventilation heat loss from occupied degree-hours, E = ρc_p·Q·DH_occ/1000, kWh (§5.2). */
-export function annualVentilationHeatKwh(args: { flowLps: number; degreeHoursKh: number; airHeatCapacityWPerLpsK: number }): number {
+export function annualVentilationHeatKwh(args: {
+  flowLps: number;
+  degreeHoursKh: number;
+  airHeatCapacityWPerLpsK: number;
+}): number {
   return (args.airHeatCapacityWPerLpsK * args.flowLps * args.degreeHoursKh) / 1000;
 }
 
@@ -32,11 +41,20 @@ export function fanEnergyKwh(args: { specificFanPowerWPerLps: number; flowLps: n
  * Supply temperature after heat recovery, no fan heat: θ_sup = θ_e + η·(θ_i − θ_e), °C.
  * η the EN 308 supply-side temperature ratio (0–1).
  */
-export function supplyTempAfterRecoveryC(args: { outdoorTempC: number; extractTempC: number; heatRecoveryEfficiency: number }): number {
+export function supplyTempAfterRecoveryC(args: {
+  outdoorTempC: number;
+  extractTempC: number;
+  heatRecoveryEfficiency: number;
+}): number {
   return args.outdoorTempC + args.heatRecoveryEfficiency * (args.extractTempC - args.outdoorTempC);
 }
 
 /** Net carbon saved, kgCO2e/yr: fuel avoided × its factor − fan electricity × the electricity factor (§6.4). */
-export function netCarbonSavingKg(args: { fuelSavedKwh: number; fuelKgCo2ePerKwh: number; fanKwh: number; electricityKgCo2ePerKwh: number }): number {
+export function netCarbonSavingKg(args: {
+  fuelSavedKwh: number;
+  fuelKgCo2ePerKwh: number;
+  fanKwh: number;
+  electricityKgCo2ePerKwh: number;
+}): number {
   return args.fuelSavedKwh * args.fuelKgCo2ePerKwh - args.fanKwh * args.electricityKgCo2ePerKwh;
 }

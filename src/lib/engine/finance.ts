@@ -30,7 +30,11 @@ export function simplePaybackYears(capitalGbp: number, annualSavingGbp: number):
 }
 
 /** Closed-form discounted payback for a level saving: −ln(1 − r·C0/S)/ln(1+r), years; null when r·C0/S ≥ 1 or S ≤ 0. */
-export function discountedPaybackClosedFormYears(args: { capitalGbp: number; annualSavingGbp: number; rate: number }): number | null {
+export function discountedPaybackClosedFormYears(args: {
+  capitalGbp: number;
+  annualSavingGbp: number;
+  rate: number;
+}): number | null {
   const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
   if (c0 <= 0) return s >= 0 ? 0 : null;
   if (!(s > 0)) return null;
@@ -45,7 +49,11 @@ export function discountedPaybackClosedFormYears(args: { capitalGbp: number; ann
  * crossing year found by linear interpolation (§6.1). null ("never") when the saving never repays the capital.
  * Uses the same annuity factor as npvLevel, so NPV over n years ≥ 0 exactly when this is ≤ n.
  */
-export function discountedPaybackYears(args: { capitalGbp: number; annualSavingGbp: number; rate: number }): number | null {
+export function discountedPaybackYears(args: {
+  capitalGbp: number;
+  annualSavingGbp: number;
+  rate: number;
+}): number | null {
   const { capitalGbp: c0, annualSavingGbp: s, rate: r } = args;
   const closed = discountedPaybackClosedFormYears(args);
   if (closed === null || closed === 0) return closed;

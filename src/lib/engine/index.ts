@@ -5,7 +5,13 @@
 export { assessRoom, ENGINE_CAUTIONS } from './assess';
 export { rankRooms, toRankInput, DEFAULT_RANK_WEIGHTS } from './ranking';
 export { DEFAULT_ASSUMPTIONS } from './assumptions';
-export { listAssumptions, withAssumptionValue, validateAssumptionSet, completeAssumptionSet, UNIT_MODEL_FIELD_KIND } from './assumption-tools';
+export {
+  listAssumptions,
+  withAssumptionValue,
+  validateAssumptionSet,
+  completeAssumptionSet,
+  UNIT_MODEL_FIELD_KIND,
+} from './assumption-tools';
 export type { AssumptionEntry } from './assumption-tools';
 export { EngineInputError } from './errors';
 export { RISK_BAND_LABELS } from './risk';

@@ -4,7 +4,11 @@
  */
 
 /** Air-change rate at 50 Pa, h⁻¹. q50 m³/(h·m²) 0.5–50; envelope area m² > 0; volume m³ > 0. */
-export function n50FromPermeability(args: { airPermeabilityM3hM2: number; envelopeAreaM2: number; volumeM3: number }): number {
+export function n50FromPermeability(args: {
+  airPermeabilityM3hM2: number;
+  envelopeAreaM2: number;
+  volumeM3: number;
+}): number {
   return (args.airPermeabilityM3hM2 * args.envelopeAreaM2) / args.volumeM3;
 }
 
@@ -14,7 +18,12 @@ export function infiltrationAchFromN50(n50PerH: number, divisor: number): number
 }
 
 /** Infiltration flow of a room, L/s: Q_inf = n_inf·V/3.6. */
-export function infiltrationLps(args: { airPermeabilityM3hM2: number; envelopeAreaM2: number; volumeM3: number; divisor: number }): number {
+export function infiltrationLps(args: {
+  airPermeabilityM3hM2: number;
+  envelopeAreaM2: number;
+  volumeM3: number;
+  divisor: number;
+}): number {
   const n50 = n50FromPermeability(args);
   return (infiltrationAchFromN50(n50, args.divisor) * args.volumeM3) / 3.6;
 }

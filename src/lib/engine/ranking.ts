@@ -34,9 +34,11 @@ export function toRankInput(roomId: string, assessment: RoomAssessment): RankInp
 function checkWeights(w: RankWeights): void {
   for (const key of ['risk', 'costEffectiveness', 'payback'] as const) {
     const v = w[key];
-    if (typeof v !== 'number' || !Number.isFinite(v) || v < 0) throw new EngineInputError(`weights.${key}`, `must be a number of zero or more, got ${String(v)}`);
+    if (typeof v !== 'number' || !Number.isFinite(v) || v < 0)
+      throw new EngineInputError(`weights.${key}`, `must be a number of zero or more, got ${String(v)}`);
   }
-  if (w.risk + w.costEffectiveness + w.payback <= 0) throw new EngineInputError('weights', 'at least one weight must be above zero');
+  if (w.risk + w.costEffectiveness + w.payback <= 0)
+    throw new EngineInputError('weights', 'at least one weight must be above zero');
 }
 
 function ordinal(n: number): string {
@@ -54,21 +56,39 @@ export function rankRooms(rows: readonly RankInput[], weights: RankWeights): Ran
   let minPayback = Number.POSITIVE_INFINITY;
   for (const r of rows) {
     if (r.riskScore > maxRisk) maxRisk = r.riskScore;
-    if (r.pupilHoursRemovedPer1000Gbp !== null && r.pupilHoursRemovedPer1000Gbp > maxCe) maxCe = r.pupilHoursRemovedPer1000Gbp;
+    if (r.pupilHoursRemovedPer1000Gbp !== null && r.pupilHoursRemovedPer1000Gbp > maxCe)
+      maxCe = r.pupilHoursRemovedPer1000Gbp;
     if (r.simplePaybackYears !== null && r.simplePaybackYears < minPayback) minPayback = r.simplePaybackYears;
   }
   const scored = rows.map((r) => {
     const risk = maxRisk > 0 ? r.riskScore / maxRisk : 0;
-    const costEffectiveness = maxCe > 0 && r.pupilHoursRemovedPer1000Gbp !== null ? r.pupilHoursRemovedPer1000Gbp / maxCe : 0;
+    const costEffectiveness =
+      maxCe > 0 && r.pupilHoursRemovedPer1000Gbp !== null ? r.pupilHoursRemovedPer1000Gbp / maxCe : 0;
     const payback =
-      r.simplePaybackYears === null ? 0 : r.simplePaybackYears <= 0 ? 1 : Number.isFinite(minPayback) ? Math.min(1, minPayback / r.simplePaybackYears) : 0;
-    const score = (weights.risk * risk + weights.costEffectiveness * costEffectiveness + weights.payback * payback) / wSum;
+      r.simplePaybackYears === null
+        ? 0
+        : r.simplePaybackYears <= 0
+          ? 1
+          : Number.isFinite(minPayback)
+            ? Math.min(1, minPayback / r.simplePaybackYears)
+            : 0;
+    const score =
+      (weights.risk * risk + weights.costEffectiveness * costEffectiveness + weights.payback * payback) / wSum;
     return { row: r, parts: { risk, costEffectiveness, payback }, score };
   });
-  scored.sort((a, b) => b.score - a.score || b.row.pupilHoursPerYearAbove - a.row.pupilHoursPerYearAbove || (a.row.roomId < b.row.roomId ? -1 : a.row.roomId > b.row.roomId ? 1 : 0));
+  scored.sort(
+    (a, b) =>
+      b.score - a.score ||
+      b.row.pupilHoursPerYearAbove - a.row.pupilHoursPerYearAbove ||
+      (a.row.roomId < b.row.roomId ? -1 : a.row.roomId > b.row.roomId ? 1 : 0),
+  );
   const n = scored.length;
   const heaviest =
-    weights.risk >= weights.costEffectiveness && weights.risk >= weights.payback ? 'risk' : weights.costEffectiveness >= weights.payback ? 'value for money' : 'payback';
+    weights.risk >= weights.costEffectiveness && weights.risk >= weights.payback
+      ? 'risk'
+      : weights.costEffectiveness >= weights.payback
+        ? 'value for money'
+        : 'payback';
   return scored.map((s, i) => ({
     ...s.row,
     rank: i + 1,
@@ -86,8 +106,14 @@ function reasonFor(r: RankInput, rank: number, n: number, heaviest: string): str
   let retrofit: string;
   if (!r.hasRetrofit) retrofit = r.criteriaMet ? 'no units needed' : 'no catalogue units recommended';
   else {
-    const ce = r.pupilHoursRemovedPer1000Gbp === null ? '' : `${formatInt(r.pupilHoursRemovedPer1000Gbp)} pupil-hours of poor air removed per £1,000`;
-    const pb = r.simplePaybackYears === null ? 'no energy payback' : `energy payback ${formatOneDecimal(r.simplePaybackYears)} years`;
+    const ce =
+      r.pupilHoursRemovedPer1000Gbp === null
+        ? ''
+        : `${formatInt(r.pupilHoursRemovedPer1000Gbp)} pupil-hours of poor air removed per £1,000`;
+    const pb =
+      r.simplePaybackYears === null
+        ? 'no energy payback'
+        : `energy payback ${formatOneDecimal(r.simplePaybackYears)} years`;
     retrofit = ce ? `${ce}, ${pb}` : pb;
   }
   return `${ordinal(rank)} of ${n}: ${exposure}; ${retrofit} (weighted most on ${heaviest}).`;

@@ -13,7 +13,12 @@ import type { RetrofitMoney, RetrofitUnitLine, UnitModel } from './types';
  * The steady state bounds the occupied-period mean from above, so meeting it meets the mean limit.
  * Returns null when a limit is at or below outdoor CO2 (no flow can meet it).
  */
-export function requiredOutdoorAirLps(args: { generationLps: number; outdoorCo2Ppm: number; meanLimitPpm: number; maxLimitPpm: number | null }): number | null {
+export function requiredOutdoorAirLps(args: {
+  generationLps: number;
+  outdoorCo2Ppm: number;
+  meanLimitPpm: number;
+  maxLimitPpm: number | null;
+}): number | null {
   const limit = args.maxLimitPpm === null ? args.meanLimitPpm : Math.min(args.meanLimitPpm, args.maxLimitPpm);
   if (limit <= args.outdoorCo2Ppm) return null;
   return (1e6 * args.generationLps) / (limit - args.outdoorCo2Ppm);
@@ -41,7 +46,12 @@ export interface UnitChoice {
  * meets the requirement; combinations within the sound limit win over any that exceed it. Ties: fewer units.
  * Returns null when no combination reaches the flow.
  */
-export function chooseUnits(args: { requiredSupplyLps: number; catalogue: readonly UnitModel[]; soundLimitDbA: number; maxUnits: number }): UnitChoice | null {
+export function chooseUnits(args: {
+  requiredSupplyLps: number;
+  catalogue: readonly UnitModel[];
+  soundLimitDbA: number;
+  maxUnits: number;
+}): UnitChoice | null {
   const { requiredSupplyLps: need, catalogue, soundLimitDbA, maxUnits } = args;
   let best: UnitChoice | null = null;
   let bestCost = Number.POSITIVE_INFINITY;
@@ -57,9 +67,16 @@ export function chooseUnits(args: { requiredSupplyLps: number; catalogue: readon
     const sound = 10 * Math.log10(energy);
     const ok = sound <= soundLimitDbA + 1e-9;
     const better =
-      best === null || (ok && !bestOk) || (ok === bestOk && (cost < bestCost - 1e-9 || (Math.abs(cost - bestCost) <= 1e-9 && count < bestCount)));
+      best === null ||
+      (ok && !bestOk) ||
+      (ok === bestOk && (cost < bestCost - 1e-9 || (Math.abs(cost - bestCost) <= 1e-9 && count < bestCount)));
     if (!better) return;
-    const lines = b ? [{ model: a, count: n }, { model: b, count: m }] : [{ model: a, count: n }];
+    const lines = b
+      ? [
+          { model: a, count: n },
+          { model: b, count: m },
+        ]
+      : [{ model: a, count: n }];
     best = { lines, count, flowLps: flow, capitalCostGbp: cost, soundDbA: sound, soundLimitMet: ok };
     bestCost = cost;
     bestCount = count;
@@ -84,7 +101,12 @@ export function unitLines(choice: UnitChoice): RetrofitUnitLine[] {
 }
 
 /** Flow-weighted heat-recovery efficiency and specific fan power of a choice. */
-export function choicePerformance(choice: UnitChoice): { heatRecoveryEfficiency: number; specificFanPowerWPerLps: number; maintenanceGbp: number; lifeYears: number } {
+export function choicePerformance(choice: UnitChoice): {
+  heatRecoveryEfficiency: number;
+  specificFanPowerWPerLps: number;
+  maintenanceGbp: number;
+  lifeYears: number;
+} {
   let eta = 0;
   let sfp = 0;
   let maint = 0;
@@ -96,7 +118,12 @@ export function choicePerformance(choice: UnitChoice): { heatRecoveryEfficiency:
     maint += l.model.annualMaintenanceGbp * l.count;
     if (l.model.lifeYears < life) life = l.model.lifeYears;
   }
-  return { heatRecoveryEfficiency: eta / choice.flowLps, specificFanPowerWPerLps: sfp / choice.flowLps, maintenanceGbp: maint, lifeYears: life };
+  return {
+    heatRecoveryEfficiency: eta / choice.flowLps,
+    specificFanPowerWPerLps: sfp / choice.flowLps,
+    maintenanceGbp: maint,
+    lifeYears: life,
+  };
 }
 
 /**
@@ -121,12 +148,28 @@ export function retrofitMoney(args: {
   discountRate: number;
   appraisalYears: number;
 }): RetrofitMoney {
-  const ventilationHeat = annualVentilationHeatKwh({ flowLps: args.flowLps, degreeHoursKh: args.degreeHoursKh, airHeatCapacityWPerLpsK: args.airHeatCapacityWPerLpsK });
-  const recovered = heatRecoveredKwh({ ventilationHeatKwh: ventilationHeat, heatRecoveryEfficiency: args.heatRecoveryEfficiency });
+  const ventilationHeat = annualVentilationHeatKwh({
+    flowLps: args.flowLps,
+    degreeHoursKh: args.degreeHoursKh,
+    airHeatCapacityWPerLpsK: args.airHeatCapacityWPerLpsK,
+  });
+  const recovered = heatRecoveredKwh({
+    ventilationHeatKwh: ventilationHeat,
+    heatRecoveryEfficiency: args.heatRecoveryEfficiency,
+  });
   const fuelSaved = fuelForHeatKwh({ heatKwh: recovered, efficiency: args.heatGeneratorEfficiency });
-  const fan = fanEnergyKwh({ specificFanPowerWPerLps: args.specificFanPowerWPerLps, flowLps: args.flowLps, runHours: args.fanRunHours });
+  const fan = fanEnergyKwh({
+    specificFanPowerWPerLps: args.specificFanPowerWPerLps,
+    flowLps: args.flowLps,
+    runHours: args.fanRunHours,
+  });
   const saving = fuelSaved * args.fuelPriceGbpPerKwh - fan * args.electricityPriceGbpPerKwh - args.annualMaintenanceGbp;
-  const carbon = netCarbonSavingKg({ fuelSavedKwh: fuelSaved, fuelKgCo2ePerKwh: args.fuelKgCo2ePerKwh, fanKwh: fan, electricityKgCo2ePerKwh: args.electricityKgCo2ePerKwh });
+  const carbon = netCarbonSavingKg({
+    fuelSavedKwh: fuelSaved,
+    fuelKgCo2ePerKwh: args.fuelKgCo2ePerKwh,
+    fanKwh: fan,
+    electricityKgCo2ePerKwh: args.electricityKgCo2ePerKwh,
+  });
   return {
     capitalCostGbp: args.capitalCostGbp,
     annualHeatRecoveredKwh: recovered,
@@ -136,13 +179,27 @@ export function retrofitMoney(args: {
     annualNetSavingGbp: saving,
     annualNetSavingKgCo2e: carbon,
     simplePaybackYears: simplePaybackYears(args.capitalCostGbp, saving),
-    discountedPaybackYears: discountedPaybackYears({ capitalGbp: args.capitalCostGbp, annualSavingGbp: saving, rate: args.discountRate }),
-    npvGbp: npvLevel({ capitalGbp: args.capitalCostGbp, annualSavingGbp: saving, rate: args.discountRate, years: args.appraisalYears }),
+    discountedPaybackYears: discountedPaybackYears({
+      capitalGbp: args.capitalCostGbp,
+      annualSavingGbp: saving,
+      rate: args.discountRate,
+    }),
+    npvGbp: npvLevel({
+      capitalGbp: args.capitalCostGbp,
+      annualSavingGbp: saving,
+      rate: args.discountRate,
+      years: args.appraisalYears,
+    }),
   };
 }
 
 /** The room's figures divided among its units (per installed unit). */
-export function perUnitMoney(room: RetrofitMoney, unitCount: number, discountRate: number, appraisalYears: number): RetrofitMoney {
+export function perUnitMoney(
+  room: RetrofitMoney,
+  unitCount: number,
+  discountRate: number,
+  appraisalYears: number,
+): RetrofitMoney {
   const k = unitCount > 0 ? 1 / unitCount : 0;
   const capital = room.capitalCostGbp * k;
   const saving = room.annualNetSavingGbp * k;
@@ -155,7 +212,11 @@ export function perUnitMoney(room: RetrofitMoney, unitCount: number, discountRat
     annualNetSavingGbp: saving,
     annualNetSavingKgCo2e: room.annualNetSavingKgCo2e * k,
     simplePaybackYears: simplePaybackYears(capital, saving),
-    discountedPaybackYears: discountedPaybackYears({ capitalGbp: capital, annualSavingGbp: saving, rate: discountRate }),
+    discountedPaybackYears: discountedPaybackYears({
+      capitalGbp: capital,
+      annualSavingGbp: saving,
+      rate: discountRate,
+    }),
     npvGbp: npvLevel({ capitalGbp: capital, annualSavingGbp: saving, rate: discountRate, years: appraisalYears }),
   };
 }

@@ -18,7 +18,10 @@ const SEASON_WORDS: Record<Season, string> = { winter: 'winter', mid: 'spring an
 /**
  * Pupil-hours a year above a threshold: Σ_seasons pupils · (occupancy-weighted minutes above per day / 60) · school days.
  */
-export function pupilHoursPerYear(args: { pupils: number; perSeason: readonly { occupiedMinutesOver: number; schoolDays: number }[] }): number {
+export function pupilHoursPerYear(args: {
+  pupils: number;
+  perSeason: readonly { occupiedMinutesOver: number; schoolDays: number }[];
+}): number {
   let total = 0;
   for (const s of args.perSeason) total += (args.pupils * s.occupiedMinutesOver * s.schoolDays) / 60;
   return total;

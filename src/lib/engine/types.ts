@@ -249,7 +249,12 @@ export interface AssumptionSet {
     envelopeAreaPerFloorArea: Assumed<number>;
     defaultAirPermeabilityByConstruction: Assumed<Record<ConstructionType, number>>;
     /** Default air permeability by era when construction is unknown: built before 1980, 1980–2005, 2006 on, unknown. */
-    defaultAirPermeabilityByEra: Assumed<{ before1980: number; from1980to2005: number; from2006: number; unknown: number }>;
+    defaultAirPermeabilityByEra: Assumed<{
+      before1980: number;
+      from1980to2005: number;
+      from2006: number;
+      unknown: number;
+    }>;
   };
   mechanical: {
     defaultSupplyLpsPerPerson: Assumed<number>;

@@ -1,7 +1,16 @@
 /** Checks a RoomAssessmentInput field by field; the first problem throws EngineInputError naming the field. */
 import { EngineInputError, requireOneOf, requireRange } from './errors';
 import type { RoomAssessmentInput } from './types';
-import { AGE_GROUPS, CLIMATE_REGIONS, CONSTRUCTION_TYPES, HEATING_FUELS, ROOM_USES, SCHOOL_PHASES, VENTILATION_TYPES, WINDOW_TYPES } from './vocabulary';
+import {
+  AGE_GROUPS,
+  CLIMATE_REGIONS,
+  CONSTRUCTION_TYPES,
+  HEATING_FUELS,
+  ROOM_USES,
+  SCHOOL_PHASES,
+  VENTILATION_TYPES,
+  WINDOW_TYPES,
+} from './vocabulary';
 
 function nullableRange(field: string, value: number | null, min: number, max: number, unit: string): void {
   if (value !== null) requireRange(field, value, min, max, unit);
@@ -9,7 +18,8 @@ function nullableRange(field: string, value: number | null, min: number, max: nu
 
 /** Valid ranges of every input field (documented on RoomInput, BlockInput and SchoolInput). */
 export function validateRoomInput(input: RoomAssessmentInput): void {
-  if (typeof input !== 'object' || input === null) throw new EngineInputError('input', 'must be an object with room, block and school');
+  if (typeof input !== 'object' || input === null)
+    throw new EngineInputError('input', 'must be an object with room, block and school');
   const { room, block, school } = input;
   if (typeof room !== 'object' || room === null) throw new EngineInputError('room', 'is missing');
   if (typeof block !== 'object' || block === null) throw new EngineInputError('block', 'is missing');
@@ -34,7 +44,8 @@ export function validateRoomInput(input: RoomAssessmentInput): void {
   nullableRange('room.mechanicalSupplyLps', room.mechanicalSupplyLps, 0, 5000, 'l/s');
 
   nullableRange('block.yearBuilt', block.yearBuilt, 1800, 2100, '');
-  if (block.constructionType !== null) requireOneOf('block.constructionType', block.constructionType, CONSTRUCTION_TYPES);
+  if (block.constructionType !== null)
+    requireOneOf('block.constructionType', block.constructionType, CONSTRUCTION_TYPES);
   nullableRange('block.airPermeabilityM3hM2', block.airPermeabilityM3hM2, 0.5, 50, 'm³/(h·m²)');
   if (block.heatingFuel !== null) requireOneOf('block.heatingFuel', block.heatingFuel, HEATING_FUELS);
   nullableRange('block.heatingInstalledYear', block.heatingInstalledYear, 1900, 2100, '');

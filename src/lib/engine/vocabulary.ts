@@ -4,7 +4,14 @@
  */
 
 /** School phases as used in English school census returns. */
-export const SCHOOL_PHASES = ['nursery', 'primary', 'secondary', 'all_through', 'special', 'further_education'] as const;
+export const SCHOOL_PHASES = [
+  'nursery',
+  'primary',
+  'secondary',
+  'all_through',
+  'special',
+  'further_education',
+] as const;
 export type SchoolPhase = (typeof SCHOOL_PHASES)[number];
 
 /** What a room is used for; drives the default activity level and whether CO2 criteria apply. */
@@ -28,7 +35,15 @@ export const AGE_GROUPS = ['early_years', 'primary', 'secondary', 'sixth_form', 
 export type AgeGroup = (typeof AGE_GROUPS)[number];
 
 /** Window opening types; each has a published or common-practice effective-opening factor in the engine. */
-export const WINDOW_TYPES = ['side_hung', 'top_hung', 'bottom_hung', 'sliding_sash', 'tilt_and_turn', 'pivot', 'fixed'] as const;
+export const WINDOW_TYPES = [
+  'side_hung',
+  'top_hung',
+  'bottom_hung',
+  'sliding_sash',
+  'tilt_and_turn',
+  'pivot',
+  'fixed',
+] as const;
 export type WindowType = (typeof WINDOW_TYPES)[number];
 
 /** How a room is ventilated today. */
@@ -59,7 +74,14 @@ export const CONSTRUCTION_TYPES = [
 export type ConstructionType = (typeof CONSTRUCTION_TYPES)[number];
 
 /** Heating emitter/plant types of a block. */
-export const HEATING_TYPES = ['wet_radiators', 'underfloor', 'warm_air', 'electric_panels', 'heat_pump_wet', 'none'] as const;
+export const HEATING_TYPES = [
+  'wet_radiators',
+  'underfloor',
+  'warm_air',
+  'electric_panels',
+  'heat_pump_wet',
+  'none',
+] as const;
 export type HeatingType = (typeof HEATING_TYPES)[number];
 
 /**

@@ -18,8 +18,18 @@ export function singleSidedWindM3s(args: { areaM2: number; windSpeedMs: number }
  * Warren & Parkins (1984) single-sided stack flow: Q_s = Cd·(A/3)·sqrt(g·h·|ΔT|/T_mean), m³/s.
  * Cd ≈ 0.61; A m²; h opening height 0.1–5 m; ΔT = θ_i − θ_e K; T_mean mean absolute temperature K.
  */
-export function singleSidedStackM3s(args: { dischargeCoefficient: number; areaM2: number; openingHeightM: number; deltaTK: number; meanTempK: number }): number {
-  return args.dischargeCoefficient * (args.areaM2 / 3) * Math.sqrt((G * args.openingHeightM * Math.abs(args.deltaTK)) / args.meanTempK);
+export function singleSidedStackM3s(args: {
+  dischargeCoefficient: number;
+  areaM2: number;
+  openingHeightM: number;
+  deltaTK: number;
+  meanTempK: number;
+}): number {
+  return (
+    args.dischargeCoefficient *
+    (args.areaM2 / 3) *
+    Math.sqrt((G * args.openingHeightM * Math.abs(args.deltaTK)) / args.meanTempK)
+  );
 }
 
 /** Warren & Parkins design value: the larger of wind and stack, m³/s (as implemented for the method). */
@@ -43,7 +53,9 @@ export function deGidsPhaff(args: { areaM2: number; windSpeed10Ms: number; openi
   effectiveVelocityMs: number;
   flowM3s: number;
 } {
-  const effectiveVelocityMs = Math.sqrt(0.001 * args.windSpeed10Ms ** 2 + 0.0035 * args.openingHeightM * Math.abs(args.deltaTK) + 0.01);
+  const effectiveVelocityMs = Math.sqrt(
+    0.001 * args.windSpeed10Ms ** 2 + 0.0035 * args.openingHeightM * Math.abs(args.deltaTK) + 0.01,
+  );
   return { effectiveVelocityMs, flowM3s: 0.5 * args.areaM2 * effectiveVelocityMs };
 }
 
@@ -52,7 +64,13 @@ export function deGidsPhaff(args: { areaM2: number; windSpeed10Ms: number; openi
  * 1/A_w² = 1/A_windward² + 1/A_leeward², m³/s. Areas m²; U reference wind m/s; ΔCp 0–1.5.
  * The BS 5925 formula attribution is from memory (domain reference §4.1).
  */
-export function crossWindM3s(args: { dischargeCoefficient: number; windwardAreaM2: number; leewardAreaM2: number; windSpeedMs: number; deltaCp: number }): number {
+export function crossWindM3s(args: {
+  dischargeCoefficient: number;
+  windwardAreaM2: number;
+  leewardAreaM2: number;
+  windSpeedMs: number;
+  deltaCp: number;
+}): number {
   const { windwardAreaM2: a1, leewardAreaM2: a2 } = args;
   if (a1 <= 0 || a2 <= 0) return 0;
   const aw = 1 / Math.sqrt(1 / (a1 * a1) + 1 / (a2 * a2));
@@ -82,11 +100,21 @@ export function windowAirflowLps(args: {
   // Stack term of Warren & Parkins: Cd·(A/3)·sqrt(g·h·|ΔT|/T_mean)
   const stack = cd * (area / 3) * Math.sqrt((G * args.openingHeightM * Math.abs(deltaTK)) / meanTempK);
   if (args.cross) {
-    const wind = crossWindM3s({ dischargeCoefficient: cd, windwardAreaM2: area / 2, leewardAreaM2: area / 2, windSpeedMs: args.windSpeedMs, deltaCp: args.deltaCp });
+    const wind = crossWindM3s({
+      dischargeCoefficient: cd,
+      windwardAreaM2: area / 2,
+      leewardAreaM2: area / 2,
+      windSpeedMs: args.windSpeedMs,
+      deltaCp: args.deltaCp,
+    });
     return 1000 * Math.max(wind, stack);
   }
   if (args.method === 'de_gids_phaff') {
-    return 1000 * deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeedMs, openingHeightM: args.openingHeightM, deltaTK }).flowM3s;
+    return (
+      1000 *
+      deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeedMs, openingHeightM: args.openingHeightM, deltaTK })
+        .flowM3s
+    );
   }
   return 1000 * Math.max(0.025 * area * args.windSpeedMs, stack);
 }

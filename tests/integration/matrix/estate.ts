@@ -3,8 +3,24 @@ import { all, signedIn, type MatrixEntry } from './types';
 /** The estate API: every role reads; another trust never sees the demo trust's rows. */
 export const entries: MatrixEntry[] = [
   { file: 'health.ts', method: 'GET', path: '/api/health', expect: all(200), note: 'public liveness check' },
-  { file: 'schools/index.ts', method: 'GET', path: '/api/schools', expect: signedIn(200), note: 'the other trust sees its own (empty) list' },
-  { file: 'schools/[id].ts', method: 'GET', path: (c) => `/api/schools/${c.demoSchoolId}`, expect: { ...signedIn(200), other_trust: 404 } },
+  {
+    file: 'schools/index.ts',
+    method: 'GET',
+    path: '/api/schools',
+    expect: signedIn(200),
+    note: 'the other trust sees its own (empty) list',
+  },
+  {
+    file: 'schools/[id].ts',
+    method: 'GET',
+    path: (c) => `/api/schools/${c.demoSchoolId}`,
+    expect: { ...signedIn(200), other_trust: 404 },
+  },
   { file: 'rooms/index.ts', method: 'GET', path: '/api/rooms', expect: signedIn(200) },
-  { file: 'rooms/[id].ts', method: 'GET', path: (c) => `/api/rooms/${c.demoRoomId}`, expect: { ...signedIn(200), other_trust: 404 } },
+  {
+    file: 'rooms/[id].ts',
+    method: 'GET',
+    path: (c) => `/api/rooms/${c.demoRoomId}`,
+    expect: { ...signedIn(200), other_trust: 404 },
+  },
 ];

@@ -5,7 +5,13 @@ import { signedIn, type MatrixEntry } from './types';
  * weights. Another trust's admin reads its own (empty) portfolio, never the demo trust's rooms.
  */
 export const entries: MatrixEntry[] = [
-  { file: 'priorities/index.ts', method: 'GET', path: '/api/priorities', expect: signedIn(200), note: 'the other trust sees its own empty list' },
+  {
+    file: 'priorities/index.ts',
+    method: 'GET',
+    path: '/api/priorities',
+    expect: signedIn(200),
+    note: 'the other trust sees its own empty list',
+  },
   {
     file: 'priorities/index.ts',
     method: 'GET',
@@ -19,7 +25,14 @@ export const entries: MatrixEntry[] = [
     method: 'PUT',
     path: '/api/priorities/weights',
     body: { risk: 0, costEffectiveness: 0, payback: 0 },
-    expect: { anonymous: 401, viewer: 403, finance_lead: 403, estates_manager: 400, trust_admin: 400, other_trust: 400 },
+    expect: {
+      anonymous: 401,
+      viewer: 403,
+      finance_lead: 403,
+      estates_manager: 400,
+      trust_admin: 400,
+      other_trust: 400,
+    },
     note: 'all-zero weights are refused after the permission check, so nothing is saved',
   },
   { file: 'finance/index.ts', method: 'GET', path: '/api/finance', expect: signedIn(200) },

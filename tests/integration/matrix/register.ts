@@ -3,26 +3,76 @@ import { signedIn, type MatrixEntry } from './types';
 // An id that exists nowhere, so write entries change nothing.
 const NOBODY = '00000000-0000-4000-8000-000000000000';
 /** Writers (estates manager, trust admin and the other trust's admin) get `status`; viewers and finance leads 403. */
-const writers = (status: number, other = status) =>
-  ({ anonymous: 401, viewer: 403, finance_lead: 403, estates_manager: status, trust_admin: status, other_trust: other });
+const writers = (status: number, other = status) => ({
+  anonymous: 401,
+  viewer: 403,
+  finance_lead: 403,
+  estates_manager: status,
+  trust_admin: status,
+  other_trust: other,
+});
 
 /**
  * The register API: everyone signed in reads the import history, the template and exports; only
  * estates managers and trust admins import and edit. Write bodies are invalid or aim at unknown ids.
  */
 export const entries: MatrixEntry[] = [
-  { file: 'imports/index.ts', method: 'GET', path: '/api/imports', expect: signedIn(200), note: 'each trust sees its own history' },
-  { file: 'imports/index.ts', method: 'POST', path: '/api/imports', body: {}, expect: writers(400), note: 'no multipart file: refused after the permission check' },
+  {
+    file: 'imports/index.ts',
+    method: 'GET',
+    path: '/api/imports',
+    expect: signedIn(200),
+    note: 'each trust sees its own history',
+  },
+  {
+    file: 'imports/index.ts',
+    method: 'POST',
+    path: '/api/imports',
+    body: {},
+    expect: writers(400),
+    note: 'no multipart file: refused after the permission check',
+  },
   { file: 'imports/[id]/index.ts', method: 'GET', path: `/api/imports/${NOBODY}`, expect: signedIn(404) },
-  { file: 'imports/[id]/commit.ts', method: 'POST', path: `/api/imports/${NOBODY}/commit`, body: { rows: 'none' }, expect: writers(404) },
-  { file: 'exports/register.xlsx.ts', method: 'GET', path: '/api/exports/register.xlsx', expect: signedIn(200), note: 'viewers and finance leads may export' },
+  {
+    file: 'imports/[id]/commit.ts',
+    method: 'POST',
+    path: `/api/imports/${NOBODY}/commit`,
+    body: { rows: 'none' },
+    expect: writers(404),
+  },
+  {
+    file: 'exports/register.xlsx.ts',
+    method: 'GET',
+    path: '/api/exports/register.xlsx',
+    expect: signedIn(200),
+    note: 'viewers and finance leads may export',
+  },
   { file: 'exports/register.csv.ts', method: 'GET', path: '/api/exports/register.csv', expect: signedIn(200) },
   { file: 'templates/register.xlsx.ts', method: 'GET', path: '/api/templates/register.xlsx', expect: signedIn(200) },
   { file: 'rooms/index.ts', method: 'POST', path: '/api/rooms', body: {}, expect: writers(400) },
-  { file: 'rooms/[id].ts', method: 'PATCH', path: (c) => `/api/rooms/${c.demoRoomId}`, body: {}, expect: writers(200, 404), note: 'an empty patch changes nothing; another trust gets 404' },
+  {
+    file: 'rooms/[id].ts',
+    method: 'PATCH',
+    path: (c) => `/api/rooms/${c.demoRoomId}`,
+    body: {},
+    expect: writers(200, 404),
+    note: 'an empty patch changes nothing; another trust gets 404',
+  },
   { file: 'rooms/[id].ts', method: 'DELETE', path: `/api/rooms/${NOBODY}`, expect: writers(404) },
-  { file: 'rooms/bulk.ts', method: 'POST', path: '/api/rooms/bulk', body: { action: 'update', ids: [NOBODY], changes: {} }, expect: writers(404) },
-  { file: 'schools/[id].ts', method: 'PATCH', path: (c) => `/api/schools/${c.demoSchoolId}`, body: {}, expect: writers(200, 404) },
+  {
+    file: 'rooms/bulk.ts',
+    method: 'POST',
+    path: '/api/rooms/bulk',
+    body: { action: 'update', ids: [NOBODY], changes: {} },
+    expect: writers(404),
+  },
+  {
+    file: 'schools/[id].ts',
+    method: 'PATCH',
+    path: (c) => `/api/schools/${c.demoSchoolId}`,
+    body: {},
+    expect: writers(200, 404),
+  },
   { file: 'blocks/index.ts', method: 'POST', path: '/api/blocks', body: {}, expect: writers(400) },
   { file: 'blocks/[id].ts', method: 'PATCH', path: `/api/blocks/${NOBODY}`, body: {}, expect: writers(404) },
   { file: 'blocks/[id].ts', method: 'DELETE', path: `/api/blocks/${NOBODY}`, expect: writers(404) },

@@ -88,7 +88,8 @@ describe('assessRoom on a typical classroom under the default set', () => {
 
   it('says in words when better air costs energy compared with today', () => {
     expect(a.retrofit).not.toBeNull();
-    if (a.retrofit && a.retrofit.vsToday.annualExtraCostGbp > 0) expect(a.retrofit.comparisonWithToday).toMatch(/^Better air costs energy/);
+    if (a.retrofit && a.retrofit.vsToday.annualExtraCostGbp > 0)
+      expect(a.retrofit.comparisonWithToday).toMatch(/^Better air costs energy/);
   });
 
   it('leaves curves out when asked, for batch runs', () => {

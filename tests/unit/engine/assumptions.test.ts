@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { assessRoom, completeAssumptionSet, DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue } from '~/lib/engine/index';
+import {
+  assessRoom,
+  completeAssumptionSet,
+  DEFAULT_ASSUMPTIONS,
+  EngineInputError,
+  listAssumptions,
+  validateAssumptionSet,
+  withAssumptionValue,
+} from '~/lib/engine/index';
 import { typicalClassroom } from './helpers';
 
 const STATUSES = ['confirmed', 'secondary', 'from_memory', 'common_practice'];
@@ -76,7 +84,10 @@ describe('editing an assumption set', () => {
 
 describe('sets stored by an earlier engine version', () => {
   it('are completed from the defaults, and the result says which assumptions were filled', () => {
-    const old = structuredClone(DEFAULT_ASSUMPTIONS) as unknown as { comfort: Record<string, unknown>; version: string };
+    const old = structuredClone(DEFAULT_ASSUMPTIONS) as unknown as {
+      comfort: Record<string, unknown>;
+      version: string;
+    };
     delete old.comfort.deskDistanceFromWindowM;
     old.version = 'stored-2026-11';
     const { set, filled } = completeAssumptionSet(old as unknown as typeof DEFAULT_ASSUMPTIONS, DEFAULT_ASSUMPTIONS);

@@ -36,7 +36,13 @@ describe('steady state and air-change rate', () => {
 
   it('uses the linear limit when there is no outdoor air (§1.4 step 6)', () => {
     // Hand derivation: rise = 10^6·G·3600/(1000·V) = 10^6·0.1·3600/(1000·100) = 3600 ppm/h; one hour from 420 → 4020, mean 2220.
-    const r = segmentEndAndMean({ startPpm: 420, steadyPpm: Number.POSITIVE_INFINITY, achPerH: 0, hours: 1, risePpmPerH: 3600 });
+    const r = segmentEndAndMean({
+      startPpm: 420,
+      steadyPpm: Number.POSITIVE_INFINITY,
+      achPerH: 0,
+      hours: 1,
+      risePpmPerH: 3600,
+    });
     expect(r.endPpm).toBeCloseTo(4020, 9);
     expect(r.meanPpm).toBeCloseTo(2220, 9);
   });
@@ -52,12 +58,26 @@ describe('worked example 1, case A, segment by segment', () => {
     curve: [],
   });
   const curve: { minute: number; co2Ppm: number }[] = [];
-  simulateDay({ segments: exampleOneSegments(155), volumeM3: 168, outdoorCo2Ppm: 420, startPpm: 420, thresholdsPpm: [], curve });
+  simulateDay({
+    segments: exampleOneSegments(155),
+    volumeM3: 168,
+    outdoorCo2Ppm: 420,
+    startPpm: 420,
+    thresholdsPpm: [],
+    curve,
+  });
 
   for (const row of caseA.rows) {
     it(`${row.segment} ends at ${row.cEnd} ppm with mean ${row.cMean} ppm (${caseA.source}; ±${caseA.tolerancePpm})`, () => {
-      const steady = row.occupied ? steadyStateCo2Ppm({ outdoorCo2Ppm: 420, generationLps: 0.148319, flowLps: 155 }) : 420;
-      const seg = segmentEndAndMean({ startPpm: row.c0, steadyPpm: steady, achPerH: airChangeRatePerH(155, 168), hours: (row.endMinute - row.startMinute) / 60 });
+      const steady = row.occupied
+        ? steadyStateCo2Ppm({ outdoorCo2Ppm: 420, generationLps: 0.148319, flowLps: 155 })
+        : 420;
+      const seg = segmentEndAndMean({
+        startPpm: row.c0,
+        steadyPpm: steady,
+        achPerH: airChangeRatePerH(155, 168),
+        hours: (row.endMinute - row.startMinute) / 60,
+      });
       expect(Math.abs(seg.endPpm - row.cEnd)).toBeLessThanOrEqual(caseA.tolerancePpm + 0.05);
       expect(Math.abs(seg.meanPpm - row.cMean)).toBeLessThanOrEqual(caseA.tolerancePpm + 0.05);
       // the carried-over day curve passes through the tabulated segment end
@@ -136,6 +156,8 @@ describe('ventilation from logged CO2', () => {
   });
 
   it('plateau 1500 ppm with G 0.148319 L/s gives 137.33 L/s (check 31: Batterman 2017 steady-state method)', () => {
-    expect(Math.abs(plateauFlowLps({ generationLps: 0.148319, plateauPpm: 1500, outdoorCo2Ppm: 420 }) - 137.33)).toBeLessThanOrEqual(0.01);
+    expect(
+      Math.abs(plateauFlowLps({ generationLps: 0.148319, plateauPpm: 1500, outdoorCo2Ppm: 420 }) - 137.33),
+    ).toBeLessThanOrEqual(0.01);
   });
 });

@@ -85,7 +85,13 @@ describe('closed-form CO2 agrees with numerical integration', () => {
   for (const flow of [40, 155, 248]) {
     it(`worked example 1 with Q ${flow} L/s: segment ends, mean and peak within 0.01 ppm; runs within 0.05 min`, () => {
       const segments = exampleOneSegments(flow);
-      const exact = simulateDay({ segments, volumeM3: EXAMPLE_ONE.volumeM3, outdoorCo2Ppm: 420, startPpm: 420, thresholdsPpm: [1000, 1500, 2000] });
+      const exact = simulateDay({
+        segments,
+        volumeM3: EXAMPLE_ONE.volumeM3,
+        outdoorCo2Ppm: 420,
+        startPpm: 420,
+        thresholdsPpm: [1000, 1500, 2000],
+      });
       const ode = integrateDay(segments, EXAMPLE_ONE.volumeM3, 420, 420);
       expect(Math.abs(exact.meanPpm - ode.meanPpm)).toBeLessThanOrEqual(0.01);
       expect(Math.abs(exact.peakPpm - ode.peakPpm)).toBeLessThanOrEqual(0.01);
@@ -110,7 +116,13 @@ describe('closed-form CO2 agrees with numerical integration', () => {
         (raw, volumeM3, startPpm) => {
           let t = 540;
           const segments: DaySegment[] = raw.map((r) => {
-            const s = { startMinute: t, endMinute: t + r.minutes, generationLps: r.generationLps, flowLps: r.flowLps, occupancyFraction: r.generationLps > 0 ? 1 : 0 };
+            const s = {
+              startMinute: t,
+              endMinute: t + r.minutes,
+              generationLps: r.generationLps,
+              flowLps: r.flowLps,
+              occupancyFraction: r.generationLps > 0 ? 1 : 0,
+            };
             t += r.minutes;
             return s;
           });

@@ -19,7 +19,14 @@ import iso from './fixtures/iso-7730-pmv-ppd.json';
 describe('PMV/PPD against ISO 7730:2005 validation rows', () => {
   iso.rows.forEach((row, i) => {
     it(`row ${i + 1}: ${row.ta}/${row.tr} °C, ${row.v} m/s, ${row.rh} %, ${row.met} met, ${row.clo} clo → PMV ${row.publishedPmv}, PPD ${row.publishedPpd} % (${iso.source})`, () => {
-      const r = pmvPpd({ airTempC: row.ta, radiantTempC: row.tr, airSpeedMs: row.v, relativeHumidityPct: row.rh, met: row.met, clo: row.clo });
+      const r = pmvPpd({
+        airTempC: row.ta,
+        radiantTempC: row.tr,
+        airSpeedMs: row.v,
+        relativeHumidityPct: row.rh,
+        met: row.met,
+        clo: row.clo,
+      });
       expect(Math.abs(r.pmv - row.publishedPmv)).toBeLessThanOrEqual(iso.tolerancePublishedPmv + 1e-9);
       expect(Math.abs(r.ppdPct - row.publishedPpd)).toBeLessThanOrEqual(iso.tolerancePublishedPpdPct);
       expect(Math.abs(r.pmv - row.recomputedPmv)).toBeLessThanOrEqual(iso.toleranceRecomputedPmv);
@@ -44,7 +51,9 @@ describe('PMV/PPD against ISO 7730:2005 validation rows', () => {
   });
 
   it('rejects an air temperature outside ISO 7730 applicability, naming the field', () => {
-    expect(() => pmvPpd({ airTempC: 35, radiantTempC: 22, airSpeedMs: 0.1, relativeHumidityPct: 50, met: 1.2, clo: 0.5 })).toThrow(EngineInputError);
+    expect(() =>
+      pmvPpd({ airTempC: 35, radiantTempC: 22, airSpeedMs: 0.1, relativeHumidityPct: 50, met: 1.2, clo: 0.5 }),
+    ).toThrow(EngineInputError);
     try {
       pmvPpd({ airTempC: 35, radiantTempC: 22, airSpeedMs: 0.1, relativeHumidityPct: 50, met: 1.2, clo: 0.5 });
     } catch (e) {
@@ -56,11 +65,15 @@ describe('PMV/PPD against ISO 7730:2005 validation rows', () => {
 describe('draught rate (ISO 7730:2005)', () => {
   for (const row of draught.rows) {
     it(`${row.ta} °C, ${row.v} m/s, Tu ${row.tu} % → DR ${row.dr} % (${draught.source}; ±${draught.tolerancePct})`, () => {
-      expect(Math.abs(draughtRatePct({ localAirTempC: row.ta, localAirSpeedMs: row.v, turbulencePct: row.tu }) - row.dr)).toBeLessThanOrEqual(draught.tolerancePct);
+      expect(
+        Math.abs(draughtRatePct({ localAirTempC: row.ta, localAirSpeedMs: row.v, turbulencePct: row.tu }) - row.dr),
+      ).toBeLessThanOrEqual(draught.tolerancePct);
     });
   }
   it('20 °C, 0.15 m/s, Tu 40 % gives 18.0 % (check 29)', () => {
-    expect(Math.abs(draughtRatePct({ localAirTempC: 20, localAirSpeedMs: 0.15, turbulencePct: 40 }) - 18.0)).toBeLessThanOrEqual(0.1);
+    expect(
+      Math.abs(draughtRatePct({ localAirTempC: 20, localAirSpeedMs: 0.15, turbulencePct: 40 }) - 18.0),
+    ).toBeLessThanOrEqual(0.1);
   });
 });
 
@@ -68,13 +81,23 @@ describe('cold downdraught off glazing (Heiselberg 1994, coefficients from memor
   it('meets itself at 0.4 m and 2 m, as the published ranges do', () => {
     // Hand: 0.095/(0.4 + 1.32) = 0.05523 ≈ 0.055; 0.095/(2 + 1.32) = 0.02861 ≈ 0.028 (per sqrt(ΔT·H)).
     const args = { surfaceDeltaTK: 4, surfaceHeightM: 1 }; // sqrt(4·1) = 2
-    expect(Math.abs(coldDowndraughtSpeedMs({ ...args, distanceM: 0.39 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 0.4 }))).toBeLessThanOrEqual(0.0011);
-    expect(Math.abs(coldDowndraughtSpeedMs({ ...args, distanceM: 2 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 2.01 }))).toBeLessThanOrEqual(0.0013);
+    expect(
+      Math.abs(
+        coldDowndraughtSpeedMs({ ...args, distanceM: 0.39 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 0.4 }),
+      ),
+    ).toBeLessThanOrEqual(0.0011);
+    expect(
+      Math.abs(
+        coldDowndraughtSpeedMs({ ...args, distanceM: 2 }) - coldDowndraughtSpeedMs({ ...args, distanceM: 2.01 }),
+      ),
+    ).toBeLessThanOrEqual(0.0013);
   });
 
   it('gives 0.1122 m/s one metre from 1.5 m of glazing 5 K colder than the room', () => {
     // Hand: sqrt(5·1.5) = 2.7386; 0.095·2.7386/(1 + 1.32) = 0.11214 m/s
-    expect(Math.abs(coldDowndraughtSpeedMs({ surfaceDeltaTK: 5, surfaceHeightM: 1.5, distanceM: 1 }) - 0.11214)).toBeLessThanOrEqual(1e-5);
+    expect(
+      Math.abs(coldDowndraughtSpeedMs({ surfaceDeltaTK: 5, surfaceHeightM: 1.5, distanceM: 1 }) - 0.11214),
+    ).toBeLessThanOrEqual(1e-5);
   });
 });
 
@@ -116,7 +139,9 @@ describe('overheating screening index (§9.3, worked example 10)', () => {
   });
 
   it('night ventilation of 150 L/s drops the index to 5.08 K; a north-facing twin gives 6.40 K (§9.3)', () => {
-    expect(Math.abs(overheatingIndex({ ...base, meanVentilationLps: (300 * 7 + 150 * 17) / 24 }).deltaTK - 5.08)).toBeLessThanOrEqual(0.01);
+    expect(
+      Math.abs(overheatingIndex({ ...base, meanVentilationLps: (300 * 7 + 150 * 17) / 24 }).deltaTK - 5.08),
+    ).toBeLessThanOrEqual(0.01);
     expect(Math.abs(overheatingIndex({ ...base, irradianceWm2: 50 }).deltaTK - 6.4)).toBeLessThanOrEqual(0.01);
   });
 });
@@ -126,11 +151,28 @@ describe('Approved Document O glazing proxy', () => {
     it(`${row.facing}-facing room limits are ${row.cross} % cross-ventilated and ${row.single} % single-aspect (${adO.source})`, () => {
       expect(facingOf(row.bearingDeg)).toBe(row.facing);
       const floor = 100;
-      const atCross = glazingProxy({ glazingAreaM2: row.cross, floorAreaM2: floor, orientationDeg: row.bearingDeg, crossVentilated: true });
+      const atCross = glazingProxy({
+        glazingAreaM2: row.cross,
+        floorAreaM2: floor,
+        orientationDeg: row.bearingDeg,
+        crossVentilated: true,
+      });
       expect(atCross.limitPct).toBe(row.cross);
       expect(atCross.exceeds).toBe(false);
-      expect(glazingProxy({ glazingAreaM2: row.cross + 1, floorAreaM2: floor, orientationDeg: row.bearingDeg, crossVentilated: true }).exceeds).toBe(true);
-      const single = glazingProxy({ glazingAreaM2: row.single + 1, floorAreaM2: floor, orientationDeg: row.bearingDeg, crossVentilated: false });
+      expect(
+        glazingProxy({
+          glazingAreaM2: row.cross + 1,
+          floorAreaM2: floor,
+          orientationDeg: row.bearingDeg,
+          crossVentilated: true,
+        }).exceeds,
+      ).toBe(true);
+      const single = glazingProxy({
+        glazingAreaM2: row.single + 1,
+        floorAreaM2: floor,
+        orientationDeg: row.bearingDeg,
+        crossVentilated: false,
+      });
       expect(single.limitPct).toBe(row.single);
       expect(single.exceeds).toBe(true);
     });

@@ -10,7 +10,11 @@ const pack = (id: string) => {
 
 describe('EN 16798-1:2019 Annex B', () => {
   it('design airflow for 31 persons, 56 m², Category II, low-polluting is 256.2 L/s (check 14)', () => {
-    expect(Math.abs(en16798DesignAirflowLps({ persons: 31, floorAreaM2: 56, category: 'II', building: 'low_polluting' }) - 256.2)).toBeLessThanOrEqual(0.01);
+    expect(
+      Math.abs(
+        en16798DesignAirflowLps({ persons: 31, floorAreaM2: 56, category: 'II', building: 'low_polluting' }) - 256.2,
+      ),
+    ).toBeLessThanOrEqual(0.01);
   });
 
   it('Category II limit with outdoor 420 ppm is 1220 ppm (check 15)', () => {

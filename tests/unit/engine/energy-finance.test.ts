@@ -35,16 +35,27 @@ describe('worked example 5: one classroom unit (§5.5)', () => {
   });
   it('fan energy at SFP 1.2 for 1330 h = 399.0 kWh (check 22)', () => near(fan, 399, 0.01));
   it('instantaneous recovery at 5 °C outdoors is 3375 W (§5.5 table)', () => {
-    near(0.75 * ventilationHeatLossW({ flowLps: 250, indoorTempC: 20, outdoorTempC: 5, airHeatCapacityWPerLpsK: 1.2 }), 3375, 1e-9);
+    near(
+      0.75 * ventilationHeatLossW({ flowLps: 250, indoorTempC: 20, outdoorTempC: 5, airHeatCapacityWPerLpsK: 1.2 }),
+      3375,
+      1e-9,
+    );
   });
   it('net carbon 2911.76 kWh gas @0.183 − 399 kWh @0.207 = 450.26 kgCO2e/yr (check 26: DESNZ factors)', () => {
-    near(netCarbonSavingKg({ fuelSavedKwh: fuel, fuelKgCo2ePerKwh: 0.183, fanKwh: fan, electricityKgCo2ePerKwh: 0.207 }), 450.26, 0.05);
+    near(
+      netCarbonSavingKg({ fuelSavedKwh: fuel, fuelKgCo2ePerKwh: 0.183, fanKwh: fan, electricityKgCo2ePerKwh: 0.207 }),
+      450.26,
+      0.05,
+    );
   });
 });
 
 describe('supply temperature after heat recovery', () => {
   it('5 °C outdoors, 20 °C extract, η 0.75 → 16.25 °C (check 23: EN 308 definition)', () => {
-    expect(supplyTempAfterRecoveryC({ outdoorTempC: 5, extractTempC: 20, heatRecoveryEfficiency: 0.75 })).toBeCloseTo(16.25, 12);
+    expect(supplyTempAfterRecoveryC({ outdoorTempC: 5, extractTempC: 20, heatRecoveryEfficiency: 0.75 })).toBeCloseTo(
+      16.25,
+      12,
+    );
   });
 });
 
@@ -57,7 +68,9 @@ describe('appraisal, worked example 6 (§6.3)', () => {
 
   it('simple payback 15.0 years, discounted payback not reached within 15 years (§6.3)', () => {
     near(simplePaybackYears(6000, 400), 15, 1e-12);
-    expect(discountedPaybackYears({ capitalGbp: 6000, annualSavingGbp: 400, rate: 0.035 }) ?? Infinity).toBeGreaterThan(15);
+    expect(discountedPaybackYears({ capitalGbp: 6000, annualSavingGbp: 400, rate: 0.035 }) ?? Infinity).toBeGreaterThan(
+      15,
+    );
   });
 
   it('S £600: discounted payback 12.53 yr interpolated / 12.52 yr closed form (check 25)', () => {

@@ -22,8 +22,20 @@ export function typicalClassroom(): RoomAssessmentInput {
       ventilationType: 'natural_single_sided',
       mechanicalSupplyLps: null,
     },
-    block: { yearBuilt: 1968, constructionType: 'system_built', airPermeabilityM3hM2: null, heatingFuel: null, heatingInstalledYear: 1995 },
-    school: { phase: 'secondary', climateRegion: 'midlands', heatingFuel: 'gas', fuelPriceGbpPerKwh: null, boilerEfficiency: null },
+    block: {
+      yearBuilt: 1968,
+      constructionType: 'system_built',
+      airPermeabilityM3hM2: null,
+      heatingFuel: null,
+      heatingInstalledYear: 1995,
+    },
+    school: {
+      phase: 'secondary',
+      climateRegion: 'midlands',
+      heatingFuel: 'gas',
+      fuelPriceGbpPerKwh: null,
+      boilerEfficiency: null,
+    },
   };
 }
 

@@ -42,7 +42,10 @@ describe('Persily & de Jonge (2017) Table 4', () => {
     } as const;
     for (const [group, values] of Object.entries(expected)) {
       [1.2, 1.4, 1.6, 2.0].forEach((met, i) => {
-        expect(generationPerPersonLps(GENERATION_TABLE_4, group as 'primary', met)).toBeCloseTo(values[i] as number, 12);
+        expect(generationPerPersonLps(GENERATION_TABLE_4, group as 'primary', met)).toBeCloseTo(
+          values[i] as number,
+          12,
+        );
       });
     }
   });
@@ -59,11 +62,17 @@ describe('Persily & de Jonge (2017) Table 4', () => {
 
 describe('generation equations and gas temperature', () => {
   it('Persily equation: RQ 0.85, BMR 7.83 MJ/d, 1.2 met, 273 K, 101 kPa → 0.004555 L/s (check 11)', () => {
-    expect(Math.abs(persilyGenerationLps({ rq: 0.85, bmrMjPerDay: 7.83, met: 1.2, tempK: 273, pressureKpa: 101 }) - 0.004555)).toBeLessThanOrEqual(2e-6);
+    expect(
+      Math.abs(
+        persilyGenerationLps({ rq: 0.85, bmrMjPerDay: 7.83, met: 1.2, tempK: 273, pressureKpa: 101 }) - 0.004555,
+      ),
+    ).toBeLessThanOrEqual(2e-6);
   });
 
   it('legacy body-surface formula: RQ 0.83, A_D 1.8 m², 1.2 met → 0.005149 L/s (check 12: ASHRAE/DuBois form)', () => {
-    expect(Math.abs(legacyGenerationLps({ rq: 0.83, bodySurfaceM2: 1.8, met: 1.2 }) - 0.005149)).toBeLessThanOrEqual(2e-6);
+    expect(Math.abs(legacyGenerationLps({ rq: 0.83, bodySurfaceM2: 1.8, met: 1.2 }) - 0.005149)).toBeLessThanOrEqual(
+      2e-6,
+    );
   });
 
   it('DuBois area of a 70 kg, 1.75 m adult is 1.844 m² (DuBois & DuBois 1916 formula; hand derivation)', () => {
@@ -73,11 +82,15 @@ describe('generation equations and gas temperature', () => {
   });
 
   it('corrects 0.1382 L/s at 0 °C to 0.148319 L/s at 20 °C and 101.325 kPa (check 13: ideal gas, §2.3)', () => {
-    expect(Math.abs(generationAtRoomLps({ tableLps: 0.1382, roomTempC: 20, pressureKpa: 101.325 }) - 0.148319)).toBeLessThanOrEqual(1e-6);
+    expect(
+      Math.abs(generationAtRoomLps({ tableLps: 0.1382, roomTempC: 20, pressureKpa: 101.325 }) - 0.148319),
+    ).toBeLessThanOrEqual(1e-6);
   });
 
   it('example 1 occupancy gives G = 0.1382 L/s at 0 °C: 30·0.00445 + 0.0047 (§1.6)', () => {
-    const g = 30 * generationPerPersonLps(DEFAULT_ASSUMPTIONS.occupancy.generationTable.value, 'secondary', 1.4) + generationPerPersonLps(GENERATION_TABLE_4, 'adult', 1.4);
+    const g =
+      30 * generationPerPersonLps(DEFAULT_ASSUMPTIONS.occupancy.generationTable.value, 'secondary', 1.4) +
+      generationPerPersonLps(GENERATION_TABLE_4, 'adult', 1.4);
     expect(g).toBeCloseTo(0.1382, 10);
   });
 });

@@ -59,7 +59,8 @@ function everyNumberFinite(value: unknown, path: string, bad: string[]): void {
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) bad.push(`${path}=${value}`);
   } else if (Array.isArray(value)) value.forEach((v, i) => everyNumberFinite(v, `${path}[${i}]`, bad));
-  else if (value && typeof value === 'object') for (const [k, v] of Object.entries(value)) everyNumberFinite(v, `${path}.${k}`, bad);
+  else if (value && typeof value === 'object')
+    for (const [k, v] of Object.entries(value)) everyNumberFinite(v, `${path}.${k}`, bad);
 }
 
 const RUNS = { numRuns: 150, seed: 4242 };
@@ -73,7 +74,8 @@ describe('engine properties', () => {
         more.room.pupils = input.room.pupils + extra;
         // An unrecorded fan supply defaults to 5 l/s per occupant, which would resize the fan with the pupils:
         // pin it to the flow resolved for the smaller class so that only the occupancy changes.
-        if (input.room.mechanicalSupplyLps === null) more.room.mechanicalSupplyLps = a.seasons.winter.ventilation.mechanicalLps;
+        if (input.room.mechanicalSupplyLps === null)
+          more.room.mechanicalSupplyLps = a.seasons.winter.ventilation.mechanicalLps;
         const b = run(more);
         for (const s of SEASONS) {
           expect(notAbove(a.seasons[s].occupiedMeanCo2Ppm, b.seasons[s].occupiedMeanCo2Ppm)).toBe(true);
@@ -89,7 +91,10 @@ describe('engine properties', () => {
       fc.property(inputArb, num(0, 5), num(0, 10), num(0, 500), (input, moreWindow, moreLeak, moreFan) => {
         const more = structuredClone(input);
         more.room.openableAreaM2 = Math.min(input.room.openableAreaM2 + moreWindow, input.room.floorAreaM2);
-        more.block.airPermeabilityM3hM2 = Math.min((input.block.airPermeabilityM3hM2 ?? run(input).airPermeabilityM3hM2) + moreLeak, 50);
+        more.block.airPermeabilityM3hM2 = Math.min(
+          (input.block.airPermeabilityM3hM2 ?? run(input).airPermeabilityM3hM2) + moreLeak,
+          50,
+        );
         const fan = input.room.mechanicalSupplyLps;
         if (fan !== null) more.room.mechanicalSupplyLps = Math.min(fan + moreFan, 5000);
         const a = run(input);
@@ -122,11 +127,17 @@ describe('engine properties', () => {
     // Money in whole pence and rates in hundredths of a percent, as a finance lead would enter them.
     const pence = (max: number) => fc.integer({ min: -max, max }).map((p) => p / 100);
     fc.assert(
-      fc.property(pence(10_000_000).map(Math.abs), pence(1_000_000), fc.integer({ min: 0, max: 2000 }).map((bp) => bp / 10000), fc.integer({ min: 1, max: 60 }), (capital, saving, rate, years) => {
-        const npv = npvLevel({ capitalGbp: capital, annualSavingGbp: saving, rate, years });
-        const dpb = discountedPaybackYears({ capitalGbp: capital, annualSavingGbp: saving, rate });
-        expect(npv >= 0).toBe(dpb !== null && dpb <= years);
-      }),
+      fc.property(
+        pence(10_000_000).map(Math.abs),
+        pence(1_000_000),
+        fc.integer({ min: 0, max: 2000 }).map((bp) => bp / 10000),
+        fc.integer({ min: 1, max: 60 }),
+        (capital, saving, rate, years) => {
+          const npv = npvLevel({ capitalGbp: capital, annualSavingGbp: saving, rate, years });
+          const dpb = discountedPaybackYears({ capitalGbp: capital, annualSavingGbp: saving, rate });
+          expect(npv >= 0).toBe(dpb !== null && dpb <= years);
+        },
+      ),
       { numRuns: 2000, seed: 7 },
     );
   });
@@ -137,7 +148,8 @@ describe('engine properties', () => {
       fc.property(inputArb, (input) => {
         const r = run(input).retrofit;
         if (!r || !r.feasible) return;
-        for (const m of [r, r.perUnit]) expect(m.npvGbp >= 0).toBe(m.discountedPaybackYears !== null && m.discountedPaybackYears <= years);
+        for (const m of [r, r.perUnit])
+          expect(m.npvGbp >= 0).toBe(m.discountedPaybackYears !== null && m.discountedPaybackYears <= years);
       }),
       RUNS,
     );

@@ -26,11 +26,19 @@ const rows = [row('A', 0.8, 100, 20), row('B', 0.4, 400, 10), row('C', 0.2, null
 
 describe('rankRooms', () => {
   it('puts the riskiest room first when only risk counts', () => {
-    expect(rankRooms(rows, { risk: 1, costEffectiveness: 0, payback: 0 }).map((r) => r.roomId)).toEqual(['A', 'B', 'C']);
+    expect(rankRooms(rows, { risk: 1, costEffectiveness: 0, payback: 0 }).map((r) => r.roomId)).toEqual([
+      'A',
+      'B',
+      'C',
+    ]);
   });
 
   it('puts the best value for money first when only cost-effectiveness counts', () => {
-    expect(rankRooms(rows, { risk: 0, costEffectiveness: 1, payback: 0 }).map((r) => r.roomId)).toEqual(['B', 'A', 'C']);
+    expect(rankRooms(rows, { risk: 0, costEffectiveness: 1, payback: 0 }).map((r) => r.roomId)).toEqual([
+      'B',
+      'A',
+      'C',
+    ]);
   });
 
   it('weighs the three parts equally: B 0.833, A 0.583, C 0.083', () => {
@@ -66,7 +74,10 @@ describe('rankRooms', () => {
     const quiet = typicalClassroom();
     quiet.room.pupils = 12;
     const ranked = rankRooms(
-      [toRankInput('quiet', assessRoom(quiet, DEFAULT_ASSUMPTIONS, { withCurve: false })), toRankInput('busy', assessRoom(busy, DEFAULT_ASSUMPTIONS, { withCurve: false }))],
+      [
+        toRankInput('quiet', assessRoom(quiet, DEFAULT_ASSUMPTIONS, { withCurve: false })),
+        toRankInput('busy', assessRoom(busy, DEFAULT_ASSUMPTIONS, { withCurve: false })),
+      ],
       { risk: 1, costEffectiveness: 0, payback: 0 },
     );
     expect(ranked[0]?.roomId).toBe('busy');

@@ -15,17 +15,29 @@ const catalogue = DEFAULT_ASSUMPTIONS.retrofit.unitCatalogue.value;
 describe('flow needed to meet the mechanical criterion', () => {
   it('inverts the steady state: G 0.148319 L/s, limit 1350 ppm, C_o 420 → 159.48 L/s (§1.2 / §8.2 plateau form)', () => {
     // Hand: 10^6 · 0.148319 / (1350 − 420) = 148319 / 930 = 159.483 L/s (the 2000 ppm maximum needs less: 93.87 L/s).
-    const q = requiredOutdoorAirLps({ generationLps: 0.148319, outdoorCo2Ppm: 420, meanLimitPpm: 1350, maxLimitPpm: 2000 });
+    const q = requiredOutdoorAirLps({
+      generationLps: 0.148319,
+      outdoorCo2Ppm: 420,
+      meanLimitPpm: 1350,
+      maxLimitPpm: 2000,
+    });
     expect(Math.abs((q ?? 0) - 159.483)).toBeLessThanOrEqual(0.001);
   });
 
   it('inverts the plateau example: 1500 ppm needs 137.33 L/s (check 31: Batterman 2017 steady-state method)', () => {
-    const q = requiredOutdoorAirLps({ generationLps: 0.148319, outdoorCo2Ppm: 420, meanLimitPpm: 1500, maxLimitPpm: null });
+    const q = requiredOutdoorAirLps({
+      generationLps: 0.148319,
+      outdoorCo2Ppm: 420,
+      meanLimitPpm: 1500,
+      maxLimitPpm: null,
+    });
     expect(Math.abs((q ?? 0) - 137.33)).toBeLessThanOrEqual(0.01);
   });
 
   it('returns null when the limit is at or below outdoor CO2', () => {
-    expect(requiredOutdoorAirLps({ generationLps: 0.1, outdoorCo2Ppm: 420, meanLimitPpm: 400, maxLimitPpm: null })).toBeNull();
+    expect(
+      requiredOutdoorAirLps({ generationLps: 0.1, outdoorCo2Ppm: 420, meanLimitPpm: 400, maxLimitPpm: null }),
+    ).toBeNull();
   });
 });
 
@@ -46,7 +58,9 @@ describe('choosing units from the catalogue', () => {
     // 300 L/s with a 38 dB(A) limit: 2×150 £11,000 gives 33 + 3.01 = 36.01 dB(A) (ok); 250+60 £10,300 gives
     // 10·log10(10^3.6 + 10^2.8) = 36.64 dB(A) (ok) and is cheaper → £10,300. With a 36.3 limit only 2×150 (36.01) and
     // 3×100 (31 + 4.77 = 35.77, £13,500) qualify → 2×150 at £11,000.
-    expect(chooseUnits({ requiredSupplyLps: 300, catalogue, soundLimitDbA: 38, maxUnits: 6 })?.capitalCostGbp).toBe(10300);
+    expect(chooseUnits({ requiredSupplyLps: 300, catalogue, soundLimitDbA: 38, maxUnits: 6 })?.capitalCostGbp).toBe(
+      10300,
+    );
     const quiet = chooseUnits({ requiredSupplyLps: 300, catalogue, soundLimitDbA: 36.3, maxUnits: 6 });
     expect(quiet?.capitalCostGbp).toBe(11000);
     expect(quiet?.soundLimitMet).toBe(true);
@@ -116,7 +130,9 @@ describe('money, energy and carbon of the units (worked examples 5–7 chained)'
 
   it('costs £888.38 of capital per tonne CO2e over a 15-year life', () => {
     // Hand: 450.2647 kg × 15 / 1000 = 6.75397 t; 6000 / 6.75397 = 888.37 £/t.
-    expect(Math.abs((capitalPerTonneCo2eGbp(6000, money.annualNetSavingKgCo2e, 15) ?? 0) - 888.37)).toBeLessThanOrEqual(0.05);
+    expect(Math.abs((capitalPerTonneCo2eGbp(6000, money.annualNetSavingKgCo2e, 15) ?? 0) - 888.37)).toBeLessThanOrEqual(
+      0.05,
+    );
     expect(capitalPerTonneCo2eGbp(6000, -10, 15)).toBeNull();
   });
 

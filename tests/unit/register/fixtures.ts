@@ -19,10 +19,26 @@ export async function tidyRegister(rows: Record<string, unknown>[]): Promise<Buf
 /** One complete, valid template row for `school` and `code`. */
 export function roomRow(school: string, code: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
   return {
-    School: school, 'School phase': 'Primary', Block: 'Main building', 'Year built': 1968, 'Room code': code, 'Room name': `Room ${code}`,
-    'Room use': 'Classroom', 'Floor area (m2)': 55, 'Ceiling height (m)': 2.7, Pupils: 30, Adults: 2, 'Age group': 'Primary',
-    Orientation: 'S', 'Glazing area (m2)': 8, 'Openable area (m2)': 2, 'Window type': 'Top-hung casement',
-    'Ventilation type': 'Natural, single-sided', 'Mechanical supply (l/s)': null, 'Air permeability (m3/h.m2 @ 50 Pa)': 12, Notes: null,
+    School: school,
+    'School phase': 'Primary',
+    Block: 'Main building',
+    'Year built': 1968,
+    'Room code': code,
+    'Room name': `Room ${code}`,
+    'Room use': 'Classroom',
+    'Floor area (m2)': 55,
+    'Ceiling height (m)': 2.7,
+    Pupils: 30,
+    Adults: 2,
+    'Age group': 'Primary',
+    Orientation: 'S',
+    'Glazing area (m2)': 8,
+    'Openable area (m2)': 2,
+    'Window type': 'Top-hung casement',
+    'Ventilation type': 'Natural, single-sided',
+    'Mechanical supply (l/s)': null,
+    'Air permeability (m3/h.m2 @ 50 Pa)': 12,
+    Notes: null,
     ...extra,
   };
 }
@@ -37,16 +53,65 @@ export async function messyRegister(): Promise<Buffer> {
   ws.getCell('A1').value = 'Fernhill estate survey — rooms';
   ws.mergeCells('A1:F1');
   // Row 2 blank. Rows 3–4: a header over two rows, in another order, with units and synonyms.
-  ws.getRow(3).values = ['Site', 'Building', 'Room', '', 'GIA', 'Height', 'No. of pupils', 'Facing', 'Window area', 'Free area', 'Vent. type', 'Usage', 'Built', 'Comments', 'Phase', 'Survey ref'];
+  ws.getRow(3).values = [
+    'Site',
+    'Building',
+    'Room',
+    '',
+    'GIA',
+    'Height',
+    'No. of pupils',
+    'Facing',
+    'Window area',
+    'Free area',
+    'Vent. type',
+    'Usage',
+    'Built',
+    'Comments',
+    'Phase',
+    'Survey ref',
+  ];
   ws.getRow(4).values = ['', '', 'no.', 'Description', '(sqm)', '(m)', '', '', '(m²)', '(m²)', '', '', '', '', '', ''];
   const put = (row: number, values: unknown[]) => {
     ws.getRow(row).values = values as ExcelJS.CellValue[];
   };
   // School and block merged down rows 5–7 (only the top cell holds the value).
-  put(5, ['Fernhill Primary', 'Main', 'G01', { richText: [{ text: 'Year 1 ' }, { text: 'classroom', font: { bold: true } }] }, '55 m2', '2,7', 30, 'SW',
-    { formula: 'E5*0.12', result: 6.6 }, 2, 'natural - single sided', 'Classroom', 1965, '', 'Primary', 'S-101']);
-  put(6, [null, null, 'G02   ', { text: 'Year 2 classroom', hyperlink: 'https://survey.example.test/g02' }, 56, 2.7, '28', 'south-west', 6, 2,
-    'Natural', 'classroom', 23743, '=HYPERLINK("x")', '', 'S-102']);
+  put(5, [
+    'Fernhill Primary',
+    'Main',
+    'G01',
+    { richText: [{ text: 'Year 1 ' }, { text: 'classroom', font: { bold: true } }] },
+    '55 m2',
+    '2,7',
+    30,
+    'SW',
+    { formula: 'E5*0.12', result: 6.6 },
+    2,
+    'natural - single sided',
+    'Classroom',
+    1965,
+    '',
+    'Primary',
+    'S-101',
+  ]);
+  put(6, [
+    null,
+    null,
+    'G02   ',
+    { text: 'Year 2 classroom', hyperlink: 'https://survey.example.test/g02' },
+    56,
+    2.7,
+    '28',
+    'south-west',
+    6,
+    2,
+    'Natural',
+    'classroom',
+    23743,
+    '=HYPERLINK("x")',
+    '',
+    'S-102',
+  ]);
   put(7, [null, null, 'G03', 'Store', 'TBC', 2.4, 0, 'N', 1, 0, 'natural', 'Other', '', '', '', 'S-103']);
   ws.mergeCells('A5:A7');
   ws.mergeCells('B5:B7');
@@ -56,9 +121,37 @@ export async function messyRegister(): Promise<Buffer> {
   put(11, ['', 'Main', 'X1', 'No school', 50, 2.7, 30, 'S', 6, 2, 'natural', 'Classroom']);
   put(12, ['Fernhill Primary', 'Main', '', 'No code', 50, 2.7, 30, 'S', 6, 2, 'natural', 'Classroom']);
   put(13, ['Fernhill Primary', 'Main', 'G13', 'Openable too big', 50, 2.7, 30, 'S', 3, 5, 'natural', 'Classroom']);
-  put(14, ['Fernhill Primary', 'Hall block', 'H14', 'Tall classroom', 60, '5.2 m', 30, 180, 8, 2, 'Natural - cross', 'Classroom']);
+  put(14, [
+    'Fernhill Primary',
+    'Hall block',
+    'H14',
+    'Tall classroom',
+    60,
+    '5.2 m',
+    30,
+    180,
+    8,
+    2,
+    'Natural - cross',
+    'Classroom',
+  ]);
   put(15, ['Fernhill Primary', 'Hall block', 'H15', 'Crowded', 50, 2.7, 60, 'E', 8, 2, 'MVHR', 'Classroom']);
-  put(16, ['  fernhill   primary ', '', 'K16', 'Kitchen office', '12,5', '2700 mm', 0, 'East', 2, '1.0', 'MEV', 'Office', '', 'TBC']);
+  put(16, [
+    '  fernhill   primary ',
+    '',
+    'K16',
+    'Kitchen office',
+    '12,5',
+    '2700 mm',
+    0,
+    'East',
+    2,
+    '1.0',
+    'MEV',
+    'Office',
+    '',
+    'TBC',
+  ]);
   return toBuffer(wb);
 }
 

@@ -18,9 +18,23 @@ describe('reading a messy survey spreadsheet', () => {
     expect(file.header.row).toBe(3);
     expect(file.header.rowCount).toBe(2);
     const byHeader = Object.fromEntries(file.header.columns.map((c) => [c.header, c.field]));
-    expect(byHeader).toMatchObject({ Site: 'school', Building: 'block', Room: 'code', Description: 'name', GIA: 'floorAreaM2', Height: 'ceilingHeightM',
-      'No. of pupils': 'pupils', Facing: 'orientationDeg', 'Window area': 'glazingAreaM2', 'Free area': 'openableAreaM2', 'Vent. type': 'ventilationType',
-      Usage: 'use', Built: 'yearBuilt', Comments: 'notes', Phase: 'schoolPhase' });
+    expect(byHeader).toMatchObject({
+      Site: 'school',
+      Building: 'block',
+      Room: 'code',
+      Description: 'name',
+      GIA: 'floorAreaM2',
+      Height: 'ceilingHeightM',
+      'No. of pupils': 'pupils',
+      Facing: 'orientationDeg',
+      'Window area': 'glazingAreaM2',
+      'Free area': 'openableAreaM2',
+      'Vent. type': 'ventilationType',
+      Usage: 'use',
+      Built: 'yearBuilt',
+      Comments: 'notes',
+      Phase: 'schoolPhase',
+    });
     expect(file.header.columns.find((c) => c.header === 'Survey ref')?.field).toBeNull();
   });
 
@@ -29,35 +43,76 @@ describe('reading a messy survey spreadsheet', () => {
     expect(plan.roomWrites.map((w) => w.fields.code).sort()).toEqual([...MESSY_EXPECTED.accepted].sort());
     const errors = plan.problems.filter((p) => p.severity === 'error');
     for (const [row, column] of Object.entries(MESSY_EXPECTED.rejected)) {
-      expect(errors.some((p) => p.row === Number(row) && p.column === column), `row ${row} column ${column}`).toBe(true);
+      expect(
+        errors.some((p) => p.row === Number(row) && p.column === column),
+        `row ${row} column ${column}`,
+      ).toBe(true);
     }
     expect(new Set(errors.map((p) => p.row))).toEqual(new Set(Object.keys(MESSY_EXPECTED.rejected).map(Number)));
     const warnings = plan.problems.filter((p) => p.severity === 'warning');
     for (const [row, column] of Object.entries(MESSY_EXPECTED.warnings)) {
-      expect(warnings.some((p) => p.row === Number(row) && p.column === column), `warning row ${row}`).toBe(true);
+      expect(
+        warnings.some((p) => p.row === Number(row) && p.column === column),
+        `warning row ${row}`,
+      ).toBe(true);
     }
-    expect(plan.summary).toMatchObject({ rowsSkipped: MESSY_EXPECTED.skipped, rowsRejected: 5, roomsToCreate: 5, schoolsToCreate: 1, blocksToCreate: 2 });
+    expect(plan.summary).toMatchObject({
+      rowsSkipped: MESSY_EXPECTED.skipped,
+      rowsRejected: 5,
+      roomsToCreate: 5,
+      schoolsToCreate: 1,
+      blocksToCreate: 2,
+    });
   });
 
   it('normalises each kind of messy value', async () => {
     const { plan } = await preview(await messyRegister());
     const room = (code: string) => plan.roomWrites.find((w) => w.fields.code === code)?.fields;
-    expect(room('G01')).toMatchObject({ name: 'Year 1 classroom', floorAreaM2: 55, ceilingHeightM: 2.7, orientationDeg: 225, glazingAreaM2: 6.6, ventilationType: 'natural_single_sided', ageGroup: 'primary' });
-    expect(room('G02')).toMatchObject({ name: 'Year 2 classroom', pupils: 28, orientationDeg: 225, notes: '=HYPERLINK("x")' });
+    expect(room('G01')).toMatchObject({
+      name: 'Year 1 classroom',
+      floorAreaM2: 55,
+      ceilingHeightM: 2.7,
+      orientationDeg: 225,
+      glazingAreaM2: 6.6,
+      ventilationType: 'natural_single_sided',
+      ageGroup: 'primary',
+    });
+    expect(room('G02')).toMatchObject({
+      name: 'Year 2 classroom',
+      pupils: 28,
+      orientationDeg: 225,
+      notes: '=HYPERLINK("x")',
+    });
     expect(room('H14')).toMatchObject({ ceilingHeightM: 5.2, orientationDeg: 180, ventilationType: 'natural_cross' });
     expect(room('H15')).toMatchObject({ ventilationType: 'heat_recovery_unit', orientationDeg: 90 });
-    expect(room('K16')).toMatchObject({ floorAreaM2: 12.5, ceilingHeightM: 2.7, use: 'office', ventilationType: 'mechanical_extract', notes: null });
+    expect(room('K16')).toMatchObject({
+      floorAreaM2: 12.5,
+      ceilingHeightM: 2.7,
+      use: 'office',
+      ventilationType: 'mechanical_extract',
+      notes: null,
+    });
     // The merged school and block cells apply to rows 6 and 7; the serial 23743 is a date in 1965.
     expect(plan.roomWrites.find((w) => w.fields.code === 'G02')?.school).toEqual({ newKey: 'fernhill primary' });
     expect(plan.newBlocks.find((b) => b.name === 'Main')?.yearBuilt).toBe(1965);
-    expect(plan.newSchools).toEqual([{ key: 'fernhill primary', name: 'Fernhill Primary', phase: 'primary', climateRegion: 'midlands' }]);
+    expect(plan.newSchools).toEqual([
+      { key: 'fernhill primary', name: 'Fernhill Primary', phase: 'primary', climateRegion: 'midlands' },
+    ]);
   });
 
   it('reads a semicolon CSV with a BOM, decimal commas and a quoted line break', async () => {
     const { plan } = await preview(semicolonCsv(), 'csv');
     expect(plan.summary.rowsRejected).toBe(0);
     expect(plan.roomWrites.map((w) => w.fields)).toMatchObject([
-      { code: 'C1', name: 'Art room; "messy" upstairs', floorAreaM2: 62.5, ceilingHeightM: 2.9, ventilationType: 'heat_recovery_unit', orientationDeg: 135, openableAreaM2: 1.25 },
+      {
+        code: 'C1',
+        name: 'Art room; "messy" upstairs',
+        floorAreaM2: 62.5,
+        ceilingHeightM: 2.9,
+        ventilationType: 'heat_recovery_unit',
+        orientationDeg: 135,
+        openableAreaM2: 1.25,
+      },
       { code: 'C2', name: 'Library', floorAreaM2: 80, orientationDeg: 135, ventilationType: 'natural_single_sided' },
     ]);
   });
@@ -77,7 +132,14 @@ describe('reading a messy survey spreadsheet', () => {
       defaultClimateRegion: 'midlands',
     };
     const { plan } = await preview(buf, 'xlsx', estate);
-    expect(plan.summary).toMatchObject({ roomsUnchanged: 1, roomsToChange: 1, roomsToCreate: 0, schoolsToCreate: 0, blocksToCreate: 0, roomsMissing: 1 });
+    expect(plan.summary).toMatchObject({
+      roomsUnchanged: 1,
+      roomsToChange: 1,
+      roomsToCreate: 0,
+      schoolsToCreate: 0,
+      blocksToCreate: 0,
+      roomsMissing: 1,
+    });
     expect(plan.roomWrites[0]).toMatchObject({ roomId: 'r2', before: { pupils: 30 }, after: { pupils: 25 } });
     expect(plan.missingRooms).toEqual([{ id: 'r3', schoolName: 'OAK SCHOOL', code: 'GONE', name: 'Room A1' }]);
   });
@@ -86,22 +148,37 @@ describe('reading a messy survey spreadsheet', () => {
     const file = await readRegisterFile(await tidyRegister([roomRow('Not Mine School', 'A1')]), 'xlsx', new Map());
     const plan = planImport(file.read, file.header.columns, { ...emptyEstate, canCreateSchools: false });
     expect(plan.summary).toMatchObject({ roomsToCreate: 0, schoolsToCreate: 0, rowsRejected: 1 });
-    expect(plan.problems).toContainEqual(expect.objectContaining({ row: 2, column: 'School', severity: 'error', message: expect.stringMatching(/not one of the schools your membership covers/) }));
+    expect(plan.problems).toContainEqual(
+      expect.objectContaining({
+        row: 2,
+        column: 'School',
+        severity: 'error',
+        message: expect.stringMatching(/not one of the schools your membership covers/),
+      }),
+    );
   });
 
   it('asks for the phase of a new school', async () => {
     const { plan } = await preview(await tidyRegister([roomRow('New School', 'A1', { 'School phase': null })]));
-    expect(plan.problems).toContainEqual(expect.objectContaining({ row: 2, column: 'School phase', severity: 'error' }));
+    expect(plan.problems).toContainEqual(
+      expect.objectContaining({ row: 2, column: 'School phase', severity: 'error' }),
+    );
   });
 });
 
 describe('refusing files that are not sane workbooks', () => {
   const refuses = async (buf: Buffer, message: RegExp) => {
-    await expect(readRegisterFile(buf, 'xlsx', new Map())).rejects.toMatchObject({ status: 400, message: expect.stringMatching(message) });
+    await expect(readRegisterFile(buf, 'xlsx', new Map())).rejects.toMatchObject({
+      status: 400,
+      message: expect.stringMatching(message),
+    });
   };
-  it('refuses a file that is not a zip', () => refuses(Buffer.from('%PDF-1.7 not a workbook'.padEnd(2000, 'x')), /plain text|not a zip/));
-  it('refuses a picture renamed .xlsx', () => refuses(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0, 0, 0, 0, 1, 2, 3]), /not a zip-based/));
-  it('refuses an old .xls workbook', () => refuses(Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1, 0]), /old-style \.xls/));
+  it('refuses a file that is not a zip', () =>
+    refuses(Buffer.from('%PDF-1.7 not a workbook'.padEnd(2000, 'x')), /plain text|not a zip/));
+  it('refuses a picture renamed .xlsx', () =>
+    refuses(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0, 0, 0, 0, 1, 2, 3]), /not a zip-based/));
+  it('refuses an old .xls workbook', () =>
+    refuses(Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1, 0]), /old-style \.xls/));
   it('refuses a truncated workbook', async () => {
     const buf = await tidyRegister([roomRow('Oak', 'A1')]);
     await refuses(buf.subarray(0, Math.floor(buf.length * 0.7)), /cut short/);
@@ -111,12 +188,21 @@ describe('refusing files that are not sane workbooks', () => {
   });
   it('refuses a zip entry that inflates past a sane size', async () => {
     const bomb = Buffer.alloc(260 * 1024 * 1024, 0x20);
-    await refuses(zipOf([{ name: 'xl/workbook.xml', data: Buffer.from('<workbook/>') }, { name: 'xl/worksheets/sheet1.xml', data: bomb, declaredSize: 1000 }]), /zip bomb/);
+    await refuses(
+      zipOf([
+        { name: 'xl/workbook.xml', data: Buffer.from('<workbook/>') },
+        { name: 'xl/worksheets/sheet1.xml', data: bomb, declaredSize: 1000 },
+      ]),
+      /zip bomb/,
+    );
   }, 60_000);
   it('refuses a workbook whose sheets hold no register header', async () => {
     const wb = new ExcelJS.Workbook();
     wb.addWorksheet('Budget').addRow(['Quarter', 'Spend']);
-    await expect(readRegisterFile(await toBuffer(wb), 'xlsx', new Map())).rejects.toMatchObject({ status: 400, code: 'header_not_found' });
+    await expect(readRegisterFile(await toBuffer(wb), 'xlsx', new Map())).rejects.toMatchObject({
+      status: 400,
+      code: 'header_not_found',
+    });
   });
 });
 
@@ -130,19 +216,32 @@ function zipOf(entries: { name: string; data: Buffer; declaredSize?: number }[])
     const data = deflateRawSync(e.data);
     const size = e.declaredSize ?? e.data.length;
     const local = Buffer.alloc(30);
-    local.writeUInt32LE(0x04034b50, 0); local.writeUInt16LE(20, 4); local.writeUInt16LE(8, 8);
-    local.writeUInt32LE(data.length, 18); local.writeUInt32LE(size, 22); local.writeUInt16LE(name.length, 26);
+    local.writeUInt32LE(0x04034b50, 0);
+    local.writeUInt16LE(20, 4);
+    local.writeUInt16LE(8, 8);
+    local.writeUInt32LE(data.length, 18);
+    local.writeUInt32LE(size, 22);
+    local.writeUInt16LE(name.length, 26);
     const central = Buffer.alloc(46);
-    central.writeUInt32LE(0x02014b50, 0); central.writeUInt16LE(20, 4); central.writeUInt16LE(20, 6); central.writeUInt16LE(8, 10);
-    central.writeUInt32LE(data.length, 20); central.writeUInt32LE(size, 24); central.writeUInt16LE(name.length, 28); central.writeUInt32LE(offset, 42);
+    central.writeUInt32LE(0x02014b50, 0);
+    central.writeUInt16LE(20, 4);
+    central.writeUInt16LE(20, 6);
+    central.writeUInt16LE(8, 10);
+    central.writeUInt32LE(data.length, 20);
+    central.writeUInt32LE(size, 24);
+    central.writeUInt16LE(name.length, 28);
+    central.writeUInt32LE(offset, 42);
     locals.push(local, name, data);
     centrals.push(central, name);
     offset += 30 + name.length + data.length;
   }
   const dir = Buffer.concat(centrals);
   const end = Buffer.alloc(22);
-  end.writeUInt32LE(0x06054b50, 0); end.writeUInt16LE(entries.length, 8); end.writeUInt16LE(entries.length, 10);
-  end.writeUInt32LE(dir.length, 12); end.writeUInt32LE(offset, 16);
+  end.writeUInt32LE(0x06054b50, 0);
+  end.writeUInt16LE(entries.length, 8);
+  end.writeUInt16LE(entries.length, 10);
+  end.writeUInt32LE(dir.length, 12);
+  end.writeUInt32LE(offset, 16);
   return Buffer.concat([...locals, dir, end]);
 }
 
@@ -150,6 +249,9 @@ describe('refusing registers that are too long', () => {
   it('refuses more than 200,000 rows with a message saying how to split the file', async () => {
     const lines = ['School,Room code,Floor area (m2),Ceiling height (m)'];
     for (let i = 0; i < 200_100; i++) lines.push(`Oak,R${i},50,2.7`);
-    await expect(readRegisterFile(Buffer.from(lines.join('\n')), 'csv', new Map())).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/more than 200,000 rows.*Split/) });
+    await expect(readRegisterFile(Buffer.from(lines.join('\n')), 'csv', new Map())).rejects.toMatchObject({
+      status: 400,
+      message: expect.stringMatching(/more than 200,000 rows.*Split/),
+    });
   });
 });

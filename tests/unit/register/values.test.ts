@@ -1,22 +1,49 @@
 import { describe, expect, it } from 'vitest';
 import {
-  cellText, guardFormula, parseEnum, parseOrientation, parseQuantity, parseWholeNumber, parseYear, plainCellValue,
+  cellText,
+  guardFormula,
+  parseEnum,
+  parseOrientation,
+  parseQuantity,
+  parseWholeNumber,
+  parseYear,
+  plainCellValue,
 } from '../../../src/lib/server/register/values';
-import { ROOM_USES, SCHOOL_PHASES, VENTILATION_TYPES, WINDOW_TYPES, AGE_GROUPS } from '../../../src/lib/engine/vocabulary';
+import {
+  ROOM_USES,
+  SCHOOL_PHASES,
+  VENTILATION_TYPES,
+  WINDOW_TYPES,
+  AGE_GROUPS,
+} from '../../../src/lib/engine/vocabulary';
 
 const value = <T>(p: { ok: boolean; value?: T | null }) => (p.ok ? p.value : 'error');
 
 describe('reading numbers from register cells', () => {
   it.each([
-    [60, 60], ['60', 60], ['60 m2', 60], ['60m²', 60], ['60 sqm', 60], ['  60.5  ', 60.5], ['60,5', 60.5],
-    ['1,234.5', 1234.5], ['1.234,5', 1234.5], ['1,234', 1234], ['approx. 55', 55],
+    [60, 60],
+    ['60', 60],
+    ['60 m2', 60],
+    ['60m²', 60],
+    ['60 sqm', 60],
+    ['  60.5  ', 60.5],
+    ['60,5', 60.5],
+    ['1,234.5', 1234.5],
+    ['1.234,5', 1234.5],
+    ['1,234', 1234],
+    ['approx. 55', 55],
   ])('reads area %j as %j m²', (cell, expected) => {
     expect(value(parseQuantity(cell, 'area'))).toBeCloseTo(expected, 9);
   });
   it('converts square feet to square metres (1 ft² = 0.09290304 m², by definition of the international foot)', () => {
     expect(value(parseQuantity('100 sq ft', 'area'))).toBeCloseTo(9.290304, 9);
   });
-  it.each([['2.7m', 2.7], ['2,7 m', 2.7], ['2700 mm', 2.7], ['270cm', 2.7]])('reads height %j as %j m', (cell, expected) => {
+  it.each([
+    ['2.7m', 2.7],
+    ['2,7 m', 2.7],
+    ['2700 mm', 2.7],
+    ['270cm', 2.7],
+  ])('reads height %j as %j m', (cell, expected) => {
     expect(value(parseQuantity(cell, 'length'))).toBeCloseTo(expected, 9);
   });
   it('reads a flow in m³/h as l/s (1 l/s = 3.6 m³/h)', () => {
@@ -50,8 +77,17 @@ describe('reading years', () => {
 
 describe('reading orientation', () => {
   it.each([
-    ['SW', 225], ['south-west', 225], ['South West', 225], ['225', 225], [225, 225], ['225°', 225], ['N', 0], ['360', 0],
-    ['NNE', 23], ['east', 90], ['North facing', 0],
+    ['SW', 225],
+    ['south-west', 225],
+    ['South West', 225],
+    ['225', 225],
+    [225, 225],
+    ['225°', 225],
+    ['N', 0],
+    ['360', 0],
+    ['NNE', 23],
+    ['east', 90],
+    ['North facing', 0],
   ])('reads %j as a bearing of %j degrees', (cell, expected) => {
     expect(value(parseOrientation(cell))).toBe(expected);
   });

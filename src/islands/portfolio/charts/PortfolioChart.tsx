@@ -16,10 +16,20 @@ import { AgCharts } from 'ag-charts-react';
 import type { ChartData } from '../chart-data';
 import { useDarkTheme } from '../../use-dark-theme';
 
-ModuleRegistry.registerModules([BarSeriesModule, LineSeriesModule, ScatterSeriesModule, CategoryAxisModule, NumberAxisModule, LegendModule]);
+ModuleRegistry.registerModules([
+  BarSeriesModule,
+  LineSeriesModule,
+  ScatterSeriesModule,
+  CategoryAxisModule,
+  NumberAxisModule,
+  LegendModule,
+]);
 
 const gbp = (v: number) => `£${Math.round(v).toLocaleString('en-GB')}`;
-const BAND_COLOURS: Record<'light' | 'dark', [string, string, string, string]> = { light: ['#2f6f4f', '#6e7d1c', '#9b5a06', '#a1302b'], dark: ['#7fcfa3', '#c8d46b', '#f0b45e', '#f08a83'] };
+const BAND_COLOURS: Record<'light' | 'dark', [string, string, string, string]> = {
+  light: ['#2f6f4f', '#6e7d1c', '#9b5a06', '#a1302b'],
+  dark: ['#7fcfa3', '#c8d46b', '#f0b45e', '#f08a83'],
+};
 
 function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
   const bands = dark ? BAND_COLOURS.dark : BAND_COLOURS.light;
@@ -30,10 +40,42 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
         ...base,
         data: data.rows,
         series: [
-          { type: 'bar', direction: 'horizontal', stacked: true, xKey: 'schoolName', yKey: 'below1000', yName: 'Below 1,000 ppm', fill: bands[0] },
-          { type: 'bar', direction: 'horizontal', stacked: true, xKey: 'schoolName', yKey: 'from1000to1500', yName: '1,000–1,499 ppm', fill: bands[1] },
-          { type: 'bar', direction: 'horizontal', stacked: true, xKey: 'schoolName', yKey: 'from1500to2000', yName: '1,500–1,999 ppm', fill: bands[2] },
-          { type: 'bar', direction: 'horizontal', stacked: true, xKey: 'schoolName', yKey: 'above2000', yName: '2,000 ppm and above', fill: bands[3] },
+          {
+            type: 'bar',
+            direction: 'horizontal',
+            stacked: true,
+            xKey: 'schoolName',
+            yKey: 'below1000',
+            yName: 'Below 1,000 ppm',
+            fill: bands[0],
+          },
+          {
+            type: 'bar',
+            direction: 'horizontal',
+            stacked: true,
+            xKey: 'schoolName',
+            yKey: 'from1000to1500',
+            yName: '1,000–1,499 ppm',
+            fill: bands[1],
+          },
+          {
+            type: 'bar',
+            direction: 'horizontal',
+            stacked: true,
+            xKey: 'schoolName',
+            yKey: 'from1500to2000',
+            yName: '1,500–1,999 ppm',
+            fill: bands[2],
+          },
+          {
+            type: 'bar',
+            direction: 'horizontal',
+            stacked: true,
+            xKey: 'schoolName',
+            yKey: 'above2000',
+            yName: '2,000 ppm and above',
+            fill: bands[3],
+          },
         ],
         axes: {
           x: { type: 'category', position: 'left' },
@@ -69,22 +111,57 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
         ...base,
         data: data.points,
         series: [
-          { type: 'line', xKey: 'cumulativeCapitalGbp', xName: 'Capital spent', yKey: 'cumulativePupilHoursRemoved', yName: 'Pupil-hours of poor air removed a year', stroke: bands[0], marker: { enabled: false } },
+          {
+            type: 'line',
+            xKey: 'cumulativeCapitalGbp',
+            xName: 'Capital spent',
+            yKey: 'cumulativePupilHoursRemoved',
+            yName: 'Pupil-hours of poor air removed a year',
+            stroke: bands[0],
+            marker: { enabled: false },
+          },
         ],
         axes: {
-          x: { type: 'number', position: 'bottom', title: { text: 'Capital spent, in ranked order (£)' }, label: { formatter: ({ value }) => gbp(Number(value)) } },
-          y: { type: 'number', position: 'left', title: { text: 'Pupil-hours removed a year' }, label: { formatter: ({ value }) => Math.round(Number(value)).toLocaleString('en-GB') } },
+          x: {
+            type: 'number',
+            position: 'bottom',
+            title: { text: 'Capital spent, in ranked order (£)' },
+            label: { formatter: ({ value }) => gbp(Number(value)) },
+          },
+          y: {
+            type: 'number',
+            position: 'left',
+            title: { text: 'Pupil-hours removed a year' },
+            label: { formatter: ({ value }) => Math.round(Number(value)).toLocaleString('en-GB') },
+          },
         },
         legend: { enabled: false },
       };
     case 'sensitivity':
       return {
         ...base,
-        data: data.rows.map((r) => ({ ...r, label: `${r.energyPriceChangePct > 0 ? '+' : ''}${r.energyPriceChangePct} %` })),
-        series: [{ type: 'bar', xKey: 'label', xName: 'Energy price change', yKey: 'npvGbp', yName: 'Programme NPV (£)', fill: bands[0] }],
+        data: data.rows.map((r) => ({
+          ...r,
+          label: `${r.energyPriceChangePct > 0 ? '+' : ''}${r.energyPriceChangePct} %`,
+        })),
+        series: [
+          {
+            type: 'bar',
+            xKey: 'label',
+            xName: 'Energy price change',
+            yKey: 'npvGbp',
+            yName: 'Programme NPV (£)',
+            fill: bands[0],
+          },
+        ],
         axes: {
           x: { type: 'category', position: 'bottom', title: { text: 'Energy prices against the baseline' } },
-          y: { type: 'number', position: 'left', title: { text: 'Programme NPV (£)' }, label: { formatter: ({ value }) => gbp(Number(value)) } },
+          y: {
+            type: 'number',
+            position: 'left',
+            title: { text: 'Programme NPV (£)' },
+            label: { formatter: ({ value }) => gbp(Number(value)) },
+          },
         },
         legend: { enabled: false },
       };

@@ -1,10 +1,19 @@
 import { z } from 'zod';
 
 /** Body of POST /api/assessments. */
-export const StartRunSchema = z.discriminatedUnion('scope', [
-  z.object({ scope: z.literal('trust') }).strict(),
-  z.object({ scope: z.literal('school'), schoolId: z.uuid({ message: 'schoolId must be the id of one of your schools' }) }).strict(),
-], { error: 'scope must be "trust" or "school" (with a schoolId)' });
+export const StartRunSchema = z.discriminatedUnion(
+  'scope',
+  [
+    z.object({ scope: z.literal('trust') }).strict(),
+    z
+      .object({
+        scope: z.literal('school'),
+        schoolId: z.uuid({ message: 'schoolId must be the id of one of your schools' }),
+      })
+      .strict(),
+  ],
+  { error: 'scope must be "trust" or "school" (with a schoolId)' },
+);
 export type StartRunBody = z.infer<typeof StartRunSchema>;
 
 export const RunIdSchema = z.uuid({ message: 'That is not a valid assessment run id.' });
@@ -42,7 +51,12 @@ export type AssumptionEditBody = z.infer<typeof AssumptionEditSchema>;
 /** One generic unit model of the catalogue, as the API accepts it. */
 export const UnitModelSchema = z
   .object({
-    id: z.string().trim().min(1).max(60).regex(/^[a-z0-9-]+$/, 'use lower-case letters, digits and hyphens'),
+    id: z
+      .string()
+      .trim()
+      .min(1)
+      .max(60)
+      .regex(/^[a-z0-9-]+$/, 'use lower-case letters, digits and hyphens'),
     name: z.string().trim().min(1).max(100),
     nominalFlowLps: z.number().gt(0).max(2000),
     heatRecoveryEfficiency: z.number().min(0).max(0.95),
@@ -61,5 +75,8 @@ export const UnitCatalogueSchema = z
     summary: z.string().trim().max(500).optional(),
   })
   .strict()
-  .refine((b) => new Set(b.models.map((m) => m.id)).size === b.models.length, { message: 'Each unit model needs its own id.', path: ['models'] });
+  .refine((b) => new Set(b.models.map((m) => m.id)).size === b.models.length, {
+    message: 'Each unit model needs its own id.',
+    path: ['models'],
+  });
 export type UnitCatalogueBody = z.infer<typeof UnitCatalogueSchema>;

@@ -29,7 +29,8 @@ export interface AssumptionVersionSummary {
 /** The version string results record: the shipped defaults it started from, plus the trust's version number. */
 export const versionLabel = (version: number) => `${DEFAULT_ASSUMPTIONS.version}+trust.${version}`;
 
-const isPlainObject = (x: unknown): x is Record<string, unknown> => typeof x === 'object' && x !== null && !Array.isArray(x);
+const isPlainObject = (x: unknown): x is Record<string, unknown> =>
+  typeof x === 'object' && x !== null && !Array.isArray(x);
 
 /**
  * A stored set with any assumption added to the engine's defaults since it was saved filled in from the
@@ -39,7 +40,8 @@ const isPlainObject = (x: unknown): x is Record<string, unknown> => typeof x ===
 export function withNewDefaults(stored: unknown, defaults: unknown): unknown {
   if (!isPlainObject(stored) || !isPlainObject(defaults) || 'value' in defaults) return stored;
   const out: Record<string, unknown> = { ...stored };
-  for (const [key, fallback] of Object.entries(defaults)) out[key] = key in stored ? withNewDefaults(stored[key], fallback) : fallback;
+  for (const [key, fallback] of Object.entries(defaults))
+    out[key] = key in stored ? withNewDefaults(stored[key], fallback) : fallback;
   return out;
 }
 
@@ -70,7 +72,13 @@ export async function getCurrentAssumptionSet(db: Db, trustId: string): Promise<
   const values: AssumptionSet = { ...structuredClone(DEFAULT_ASSUMPTIONS), version: label };
   await db
     .insertInto('assumption_sets')
-    .values({ trust_id: trustId, version: 1, label, values: JSON.stringify(values), change_summary: 'Airtally defaults' })
+    .values({
+      trust_id: trustId,
+      version: 1,
+      label,
+      values: JSON.stringify(values),
+      change_summary: 'Airtally defaults',
+    })
     .onConflict((oc) => oc.constraint('assumption_sets_version_unique_in_trust').doNothing())
     .execute();
   return getCurrentAssumptionSet(db, trustId);
@@ -78,7 +86,12 @@ export async function getCurrentAssumptionSet(db: Db, trustId: string): Promise<
 
 /** One version by id, within the trust. */
 export async function getAssumptionSetById(db: Db, trustId: string, id: string): Promise<StoredAssumptionSet | null> {
-  const row = await db.selectFrom('assumption_sets').selectAll().where('trust_id', '=', trustId).where('id', '=', id).executeTakeFirst();
+  const row = await db
+    .selectFrom('assumption_sets')
+    .selectAll()
+    .where('trust_id', '=', trustId)
+    .where('id', '=', id)
+    .executeTakeFirst();
   return row ? toStored(row) : null;
 }
 
@@ -103,7 +116,14 @@ export async function listAssumptionVersions(db: Db, trustId: string): Promise<A
 /** Writes a new version; the unique (trust, version) constraint turns a concurrent edit into a 409. */
 export async function insertAssumptionVersion(
   db: Db,
-  input: { trustId: string; version: number; set: AssumptionSet; changeSummary: string; userId: string | null; email: string | null },
+  input: {
+    trustId: string;
+    version: number;
+    set: AssumptionSet;
+    changeSummary: string;
+    userId: string | null;
+    email: string | null;
+  },
 ): Promise<StoredAssumptionSet> {
   const row = await db
     .insertInto('assumption_sets')

@@ -1,4 +1,13 @@
-import { DEFAULT_ASSUMPTIONS, EngineInputError, listAssumptions, validateAssumptionSet, withAssumptionValue, type AssumptionEntry, type AssumptionSet, type UnitModel } from '../../engine';
+import {
+  DEFAULT_ASSUMPTIONS,
+  EngineInputError,
+  listAssumptions,
+  validateAssumptionSet,
+  withAssumptionValue,
+  type AssumptionEntry,
+  type AssumptionSet,
+  type UnitModel,
+} from '../../engine';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { can } from '../auth/permissions';
@@ -6,7 +15,12 @@ import { getDb } from '../db/client';
 import { badRequest, forbidden } from '../http/errors';
 import type { AssumptionEditBody, UnitCatalogueBody } from './assessments.schemas';
 import {
-  getCurrentAssumptionSet, insertAssumptionVersion, listAssumptionVersions, versionLabel, type AssumptionVersionSummary, type StoredAssumptionSet,
+  getCurrentAssumptionSet,
+  insertAssumptionVersion,
+  listAssumptionVersions,
+  versionLabel,
+  type AssumptionVersionSummary,
+  type StoredAssumptionSet,
 } from './assumptions.repository';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
@@ -57,7 +71,12 @@ function sameShape(previous: unknown, next: unknown): boolean {
     if (typeof next !== 'object' || next === null || Array.isArray(next)) return false;
     const keys = Object.keys(previous);
     const nextKeys = Object.keys(next);
-    return keys.length === nextKeys.length && keys.every((k) => k in next && sameShape((previous as Record<string, unknown>)[k], (next as Record<string, unknown>)[k]));
+    return (
+      keys.length === nextKeys.length &&
+      keys.every(
+        (k) => k in next && sameShape((previous as Record<string, unknown>)[k], (next as Record<string, unknown>)[k]),
+      )
+    );
   }
   if (typeof previous === 'number') return typeof next === 'number' && Number.isFinite(next);
   return typeof previous === typeof next;
@@ -65,7 +84,8 @@ function sameShape(previous: unknown, next: unknown): boolean {
 
 /** 403 unless the role may change some kind of assumption (checked before the body is read). */
 export function requireAssumptionEditor(trust: ActiveTrust): void {
-  if (!can(trust.role, 'assumptions', 'edit_technical') && !can(trust.role, 'assumptions', 'edit_financial')) throw forbidden('change assumptions');
+  if (!can(trust.role, 'assumptions', 'edit_technical') && !can(trust.role, 'assumptions', 'edit_financial'))
+    throw forbidden('change assumptions');
 }
 
 function requireKind(trust: ActiveTrust, kind: 'technical' | 'financial', what: string): void {
@@ -79,52 +99,70 @@ function validated(set: AssumptionSet): AssumptionSet {
     validateAssumptionSet(set);
     return set;
   } catch (error) {
-    if (error instanceof EngineInputError) throw badRequest(error.message, { path: error.field.replace(/^assumptions\./, '') });
+    if (error instanceof EngineInputError)
+      throw badRequest(error.message, { path: error.field.replace(/^assumptions\./, '') });
     throw error;
   }
 }
 
-async function saveVersion(trust: ActiveTrust, actor: Actor, current: StoredAssumptionSet, next: AssumptionSet, summary: string, audit: { action: string; before: unknown; after: unknown }): Promise<StoredAssumptionSet> {
-  return getDb().transaction().execute(async (trx) => {
-    const saved = await insertAssumptionVersion(trx, {
-      trustId: trust.id,
-      version: current.version + 1,
-      set: { ...next, version: versionLabel(current.version + 1), dated: new Date().toISOString().slice(0, 10) },
-      changeSummary: summary,
-      userId: actor.actorUserId,
-      email: actor.actorEmail,
+async function saveVersion(
+  trust: ActiveTrust,
+  actor: Actor,
+  current: StoredAssumptionSet,
+  next: AssumptionSet,
+  summary: string,
+  audit: { action: string; before: unknown; after: unknown },
+): Promise<StoredAssumptionSet> {
+  return getDb()
+    .transaction()
+    .execute(async (trx) => {
+      const saved = await insertAssumptionVersion(trx, {
+        trustId: trust.id,
+        version: current.version + 1,
+        set: { ...next, version: versionLabel(current.version + 1), dated: new Date().toISOString().slice(0, 10) },
+        changeSummary: summary,
+        userId: actor.actorUserId,
+        email: actor.actorEmail,
+      });
+      await recordAudit(trx, {
+        ...actor,
+        trustId: trust.id,
+        action: audit.action,
+        entityType: 'assumption_set',
+        entityId: saved.id,
+        summary: `Assumptions version ${saved.version}: ${summary}`,
+        before: audit.before,
+        after: audit.after,
+      });
+      return saved;
     });
-    await recordAudit(trx, {
-      ...actor,
-      trustId: trust.id,
-      action: audit.action,
-      entityType: 'assumption_set',
-      entityId: saved.id,
-      summary: `Assumptions version ${saved.version}: ${summary}`,
-      before: audit.before,
-      after: audit.after,
-    });
-    return saved;
-  });
 }
 
 /**
  * Saves changed values as a new version. Each path must name one assumption; technical values need
  * assumptions:edit_technical and financial ones assumptions:edit_financial (403 naming the value otherwise).
  */
-export async function editAssumptions(trust: ActiveTrust, actor: Actor, body: AssumptionEditBody): Promise<StoredAssumptionSet> {
+export async function editAssumptions(
+  trust: ActiveTrust,
+  actor: Actor,
+  body: AssumptionEditBody,
+): Promise<StoredAssumptionSet> {
   const current = await getCurrentAssumptionSet(getDb(), trust.id);
   const entries = new Map(listAssumptions(current.set).map((e) => [e.path, e]));
   let next = current.set;
   const before: Record<string, unknown> = {};
   const after: Record<string, unknown> = {};
   for (const change of body.changes) {
-    if (change.path === CATALOGUE_PATH) throw badRequest('Edit the unit catalogue with PUT /api/unit-models.', { path: change.path });
+    if (change.path === CATALOGUE_PATH)
+      throw badRequest('Edit the unit catalogue with PUT /api/unit-models.', { path: change.path });
     const entry = entries.get(change.path);
     if (!entry) throw badRequest(`There is no assumption "${change.path}".`, { path: change.path });
     requireKind(trust, entry.kind, entry.label);
     if (!sameShape(entry.value, change.value)) {
-      throw badRequest(`"${entry.label}" must keep its form (${Array.isArray(entry.value) ? 'a list' : typeof entry.value === 'object' ? 'a table with the same rows' : `a ${typeof entry.value}`}).`, { path: change.path });
+      throw badRequest(
+        `"${entry.label}" must keep its form (${Array.isArray(entry.value) ? 'a list' : typeof entry.value === 'object' ? 'a table with the same rows' : `a ${typeof entry.value}`}).`,
+        { path: change.path },
+      );
     }
     before[change.path] = entry.value;
     after[change.path] = change.value;
@@ -134,7 +172,14 @@ export async function editAssumptions(trust: ActiveTrust, actor: Actor, body: As
   return saveVersion(trust, actor, current, validated(next), summary, { action: 'assumptions.changed', before, after });
 }
 
-const TECHNICAL_FIELDS = ['name', 'nominalFlowLps', 'heatRecoveryEfficiency', 'specificFanPowerWPerLps', 'lifeYears', 'soundDbA'] as const;
+const TECHNICAL_FIELDS = [
+  'name',
+  'nominalFlowLps',
+  'heatRecoveryEfficiency',
+  'specificFanPowerWPerLps',
+  'lifeYears',
+  'soundDbA',
+] as const;
 const FINANCIAL_FIELDS = ['installedCostGbp', 'annualMaintenanceGbp'] as const;
 
 /**
@@ -142,7 +187,11 @@ const FINANCIAL_FIELDS = ['installedCostGbp', 'annualMaintenanceGbp'] as const;
  * flow, efficiency, fan power, life or sound, is technical; changing an existing model's installed cost or
  * maintenance is financial. A trust admin may do both.
  */
-export async function saveUnitCatalogue(trust: ActiveTrust, actor: Actor, body: UnitCatalogueBody): Promise<StoredAssumptionSet> {
+export async function saveUnitCatalogue(
+  trust: ActiveTrust,
+  actor: Actor,
+  body: UnitCatalogueBody,
+): Promise<StoredAssumptionSet> {
   const current = await getCurrentAssumptionSet(getDb(), trust.id);
   const previous = current.set.retrofit.unitCatalogue.value;
   const byId = new Map(previous.map((m) => [m.id, m]));
@@ -162,5 +211,9 @@ export async function saveUnitCatalogue(trust: ActiveTrust, actor: Actor, body: 
   if (financial) requireKind(trust, 'financial', 'installed cost or maintenance of a unit model');
   const next = withAssumptionValue(current.set, CATALOGUE_PATH, body.models, current.label);
   const summary = body.summary || 'Unit catalogue edited';
-  return saveVersion(trust, actor, current, validated(next), summary, { action: 'unit_catalogue.changed', before: previous, after: body.models });
+  return saveVersion(trust, actor, current, validated(next), summary, {
+    action: 'unit_catalogue.changed',
+    before: previous,
+    after: body.models,
+  });
 }

@@ -109,17 +109,26 @@ function toEngineRoom(r: JoinedRow): EngineRoom {
 }
 
 const scopeWhere = (scope: RoomScope) =>
-  scope.schoolId === null ? sql`schools.trust_id = ${scope.trustId}` : sql`schools.trust_id = ${scope.trustId} AND schools.id = ${scope.schoolId}`;
+  scope.schoolId === null
+    ? sql`schools.trust_id = ${scope.trustId}`
+    : sql`schools.trust_id = ${scope.trustId} AND schools.id = ${scope.schoolId}`;
 
 /** Number of rooms a run of this scope will assess. */
 export async function countRoomsInScope(db: Kysely<Database>, scope: RoomScope): Promise<number> {
   const { rows } = await sql<{ n: number }>`
-    SELECT count(*)::int AS n FROM rooms JOIN schools ON schools.id = rooms.school_id WHERE ${scopeWhere(scope)}`.execute(db);
+    SELECT count(*)::int AS n FROM rooms JOIN schools ON schools.id = rooms.school_id WHERE ${scopeWhere(scope)}`.execute(
+    db,
+  );
   return rows[0]?.n ?? 0;
 }
 
 /** The next chunk of rooms in id order after `afterRoomId` (keyset paging, so a resumed run carries on where it stopped). */
-export async function readRoomChunk(db: Kysely<Database>, scope: RoomScope, afterRoomId: string | null, limit: number): Promise<EngineRoom[]> {
+export async function readRoomChunk(
+  db: Kysely<Database>,
+  scope: RoomScope,
+  afterRoomId: string | null,
+  limit: number,
+): Promise<EngineRoom[]> {
   const after = afterRoomId === null ? sql`TRUE` : sql`rooms.id > ${afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}
@@ -131,7 +140,12 @@ export async function readRoomChunk(db: Kysely<Database>, scope: RoomScope, afte
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */
-export async function readEngineRoom(db: Kysely<Database>, trustId: string, schoolIds: string[] | null, roomId: string): Promise<EngineRoom | null> {
+export async function readEngineRoom(
+  db: Kysely<Database>,
+  trustId: string,
+  schoolIds: string[] | null,
+  roomId: string,
+): Promise<EngineRoom | null> {
   const limited = schoolIds === null ? sql`TRUE` : sql`schools.id = ANY(${schoolIds}::uuid[])`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}

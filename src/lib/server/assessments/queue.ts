@@ -24,7 +24,12 @@ export function getQueue(): Promise<{ boss: PgBoss; workerId: string }> {
     const boss = new PgBoss({ connectionString: config().DATABASE_URL, max: 4, application_name: 'airtally-queue' });
     boss.on('error', (error) => console.error('pg-boss error', error));
     await boss.start();
-    await boss.createQueue(RUN_QUEUE, { name: RUN_QUEUE, retryLimit: 2, retryDelay: 2, expireInSeconds: EXPIRE_SECONDS });
+    await boss.createQueue(RUN_QUEUE, {
+      name: RUN_QUEUE,
+      retryLimit: 2,
+      retryDelay: 2,
+      expireInSeconds: EXPIRE_SECONDS,
+    });
     const workerId = await boss.work<RunJob>(
       RUN_QUEUE,
       { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },

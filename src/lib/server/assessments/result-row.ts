@@ -78,7 +78,9 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     pupilHoursRemovedPer1000Gbp: retrofit?.pupilHoursRemovedPer1000Gbp ?? null,
     capitalPerTonneCo2eGbp: retrofit?.capitalPerTonneCo2eGbp ?? null,
     detailJson: JSON.stringify(
-      room.defaultsUsed.length > 0 ? { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] } : assessment,
+      room.defaultsUsed.length > 0
+        ? { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] }
+        : assessment,
     ),
   };
 }

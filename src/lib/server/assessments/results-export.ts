@@ -11,14 +11,33 @@ import { RISK_BANDS_BY_NUMBER } from './result-row';
 
 /** The first columns of the Results sheet, in this order (the brief of the export; more may follow). */
 export const RESULTS_HEADER = [
-  'Rank', 'School', 'Block', 'Room code', 'Risk band', 'Daily mean CO2 (ppm)', 'Peak CO2 (ppm)', 'Units recommended',
-  'Capital cost (GBP)', 'Annual saving (GBP)', 'Simple payback (years)', 'NPV (GBP)',
+  'Rank',
+  'School',
+  'Block',
+  'Room code',
+  'Risk band',
+  'Daily mean CO2 (ppm)',
+  'Peak CO2 (ppm)',
+  'Units recommended',
+  'Capital cost (GBP)',
+  'Annual saving (GBP)',
+  'Simple payback (years)',
+  'NPV (GBP)',
 ] as const;
 
 const EXTRA_HEADER = [
-  'Room name', 'Pupils', 'Worst season', 'Criterion met', 'Pupil-hours a year above threshold', 'Reason',
-  'Annual saving (kWh)', 'Annual saving (kgCO2e)', 'Discounted payback (years)', 'Pupil-hours removed per GBP 1,000',
-  'Assumptions version', 'Run finished',
+  'Room name',
+  'Pupils',
+  'Worst season',
+  'Criterion met',
+  'Pupil-hours a year above threshold',
+  'Reason',
+  'Annual saving (kWh)',
+  'Annual saving (kgCO2e)',
+  'Discounted payback (years)',
+  'Pupil-hours removed per GBP 1,000',
+  'Assumptions version',
+  'Run finished',
 ] as const;
 
 /**
@@ -46,9 +65,16 @@ export function exportResults(db: Kysely<Database>, trust: ActiveTrust, now = ne
   return out;
 }
 
-async function writeBook(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJS.stream.xlsx.WorkbookWriter): Promise<void> {
+async function writeBook(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  book: ExcelJS.stream.xlsx.WorkbookWriter,
+): Promise<void> {
   const sheet = book.addWorksheet('Results', { views: [{ state: 'frozen', ySplit: 1 }] });
-  sheet.columns = [...RESULTS_HEADER, ...EXTRA_HEADER].map((header) => ({ header, width: header === 'Reason' ? 60 : Math.max(10, header.length + 2) }));
+  sheet.columns = [...RESULTS_HEADER, ...EXTRA_HEADER].map((header) => ({
+    header,
+    width: header === 'Reason' ? 60 : Math.max(10, header.length + 2),
+  }));
   sheet.getRow(1).font = { bold: true };
   sheet.getRow(1).commit();
 
@@ -58,12 +84,31 @@ async function writeBook(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJS
   let written = 0;
   for (;;) {
     const { rows } = await sql<{
-      rank: number; school: string; block: string | null; code: string; room_name: string; risk_band: number;
-      mean_co2_ppm: number; peak_co2_ppm: number; units_recommended: string; capital_cost_gbp: number | null;
-      annual_saving_gbp: number | null; simple_payback_years: number | null; npv_gbp: number | null; pupils: number;
-      worst_season: string; criteria_met: boolean; pupil_hours_above: number; reason: string; annual_saving_kwh: number | null;
-      annual_saving_kgco2e: number | null; discounted_payback_years: number | null; pupil_hours_removed_per_1000_gbp: number | null;
-      assumptions_version: string | null; assumption_set_id: string | null; finished_at: Date | null;
+      rank: number;
+      school: string;
+      block: string | null;
+      code: string;
+      room_name: string;
+      risk_band: number;
+      mean_co2_ppm: number;
+      peak_co2_ppm: number;
+      units_recommended: string;
+      capital_cost_gbp: number | null;
+      annual_saving_gbp: number | null;
+      simple_payback_years: number | null;
+      npv_gbp: number | null;
+      pupils: number;
+      worst_season: string;
+      criteria_met: boolean;
+      pupil_hours_above: number;
+      reason: string;
+      annual_saving_kwh: number | null;
+      annual_saving_kgco2e: number | null;
+      discounted_payback_years: number | null;
+      pupil_hours_removed_per_1000_gbp: number | null;
+      assumptions_version: string | null;
+      assumption_set_id: string | null;
+      finished_at: Date | null;
     }>`
       SELECT rr.rank, s.name AS school, b.name AS block, r.code, r.name AS room_name, rr.risk_band, rr.mean_co2_ppm, rr.peak_co2_ppm,
         rr.units_recommended, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupils,
@@ -82,12 +127,30 @@ async function writeBook(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJS
       const band = RISK_BANDS_BY_NUMBER[r.risk_band - 1] ?? 'fresh';
       sheet
         .addRow([
-          r.rank, guardText(r.school), guardText(r.block ?? ''), guardText(r.code), `${r.risk_band} ${RISK_BAND_LABELS[band]}`,
-          round(r.mean_co2_ppm), round(r.peak_co2_ppm), guardText(r.units_recommended), round(r.capital_cost_gbp),
-          round(r.annual_saving_gbp), round(r.simple_payback_years, 1), round(r.npv_gbp),
-          guardText(r.room_name), r.pupils, r.worst_season, r.criteria_met ? 'Yes' : 'No', round(r.pupil_hours_above),
-          guardText(r.reason), round(r.annual_saving_kwh), round(r.annual_saving_kgco2e), round(r.discounted_payback_years, 1),
-          round(r.pupil_hours_removed_per_1000_gbp, 1), guardText(r.assumptions_version ?? ''), r.finished_at ? r.finished_at.toISOString().slice(0, 16).replace('T', ' ') : '',
+          r.rank,
+          guardText(r.school),
+          guardText(r.block ?? ''),
+          guardText(r.code),
+          `${r.risk_band} ${RISK_BAND_LABELS[band]}`,
+          round(r.mean_co2_ppm),
+          round(r.peak_co2_ppm),
+          guardText(r.units_recommended),
+          round(r.capital_cost_gbp),
+          round(r.annual_saving_gbp),
+          round(r.simple_payback_years, 1),
+          round(r.npv_gbp),
+          guardText(r.room_name),
+          r.pupils,
+          r.worst_season,
+          r.criteria_met ? 'Yes' : 'No',
+          round(r.pupil_hours_above),
+          guardText(r.reason),
+          round(r.annual_saving_kwh),
+          round(r.annual_saving_kgco2e),
+          round(r.discounted_payback_years, 1),
+          round(r.pupil_hours_removed_per_1000_gbp, 1),
+          guardText(r.assumptions_version ?? ''),
+          r.finished_at ? r.finished_at.toISOString().slice(0, 16).replace('T', ' ') : '',
         ])
         .commit();
     }
@@ -100,15 +163,28 @@ async function writeBook(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJS
   await book.commit();
 }
 
-async function writeNotes(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJS.stream.xlsx.WorkbookWriter, setIds: string[], rooms: number): Promise<void> {
+async function writeNotes(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  book: ExcelJS.stream.xlsx.WorkbookWriter,
+  setIds: string[],
+  rooms: number,
+): Promise<void> {
   const notes = book.addWorksheet('Notes');
   notes.columns = [
-    { header: 'Item', width: 48 }, { header: 'Value', width: 40 }, { header: 'Unit', width: 16 }, { header: 'Source', width: 70 },
-    { header: 'Status', width: 18 }, { header: 'Edited by', width: 12 }, { header: 'Flagged', width: 9 }, { header: 'Note', width: 60 },
+    { header: 'Item', width: 48 },
+    { header: 'Value', width: 40 },
+    { header: 'Unit', width: 16 },
+    { header: 'Source', width: 70 },
+    { header: 'Status', width: 18 },
+    { header: 'Edited by', width: 12 },
+    { header: 'Flagged', width: 9 },
+    { header: 'Note', width: 60 },
   ];
   notes.getRow(1).font = { bold: true };
   notes.getRow(1).commit();
-  const line = (cells: (string | number | null)[]) => notes.addRow(cells.map((c) => (typeof c === 'string' ? guardText(c) : c))).commit();
+  const line = (cells: (string | number | null)[]) =>
+    notes.addRow(cells.map((c) => (typeof c === 'string' ? guardText(c) : c))).commit();
   line(['Cautions']);
   for (const caution of ENGINE_CAUTIONS) line([caution]);
   line(['Rooms in this export', rooms]);
@@ -116,11 +192,26 @@ async function writeNotes(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJ
   for (const id of setIds) {
     const stored = await getAssumptionSetById(db, trust.id, id);
     if (!stored) continue;
-    line([`Assumptions used: ${stored.label}`, `version ${stored.version} of ${stored.createdAt.slice(0, 10)}`, null, stored.changeSummary]);
+    line([
+      `Assumptions used: ${stored.label}`,
+      `version ${stored.version} of ${stored.createdAt.slice(0, 10)}`,
+      null,
+      stored.changeSummary,
+    ]);
     for (const entry of inCanonicalOrder(listAssumptions(stored.set))) {
-      const value = typeof entry.value === 'number' || typeof entry.value === 'string' ? entry.value : JSON.stringify(entry.value);
+      const value =
+        typeof entry.value === 'number' || typeof entry.value === 'string' ? entry.value : JSON.stringify(entry.value);
       const shown = typeof value === 'string' && value.length > 32_000 ? `${value.slice(0, 32_000)}…` : value;
-      line([entry.label, shown, entry.unit, entry.source, STATUS_WORDS[entry.status], entry.kind, entry.flagged ? 'Yes' : '', entry.note ?? '']);
+      line([
+        entry.label,
+        shown,
+        entry.unit,
+        entry.source,
+        STATUS_WORDS[entry.status],
+        entry.kind,
+        entry.flagged ? 'Yes' : '',
+        entry.note ?? '',
+      ]);
     }
     line([]);
   }
@@ -128,4 +219,9 @@ async function writeNotes(db: Kysely<Database>, trust: ActiveTrust, book: ExcelJ
 }
 
 /** The status tags as people read them. */
-export const STATUS_WORDS = { confirmed: 'confirmed', secondary: 'secondary source', from_memory: 'from memory', common_practice: 'common practice' } as const;
+export const STATUS_WORDS = {
+  confirmed: 'confirmed',
+  secondary: 'secondary source',
+  from_memory: 'from memory',
+  common_practice: 'common practice',
+} as const;

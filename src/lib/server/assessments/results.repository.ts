@@ -7,11 +7,34 @@ import type { ResultRow } from './result-row';
 import { copyLine, copyLines, copyPieces } from '../db/copy';
 
 const COPY_COLUMNS = [
-  'run_id', 'room_id', 'trust_id', 'school_id', 'block_id', 'ventilation_type', 'pupils', 'is_current', 'worst_season',
-  'mean_co2_ppm', 'peak_co2_ppm', 'criteria_met', 'risk_band', 'risk_score', 'pupil_hours_above', 'reason',
-  'units_recommended', 'unit_count', 'capital_cost_gbp', 'annual_saving_gbp', 'annual_saving_kwh', 'annual_saving_kgco2e',
-  'simple_payback_years', 'discounted_payback_years', 'npv_gbp', 'pupil_hours_removed_per_1000_gbp',
-  'capital_per_tonne_co2e_gbp', 'detail',
+  'run_id',
+  'room_id',
+  'trust_id',
+  'school_id',
+  'block_id',
+  'ventilation_type',
+  'pupils',
+  'is_current',
+  'worst_season',
+  'mean_co2_ppm',
+  'peak_co2_ppm',
+  'criteria_met',
+  'risk_band',
+  'risk_score',
+  'pupil_hours_above',
+  'reason',
+  'units_recommended',
+  'unit_count',
+  'capital_cost_gbp',
+  'annual_saving_gbp',
+  'annual_saving_kwh',
+  'annual_saving_kgco2e',
+  'simple_payback_years',
+  'discounted_payback_years',
+  'npv_gbp',
+  'pupil_hours_removed_per_1000_gbp',
+  'capital_per_tonne_co2e_gbp',
+  'detail',
 ] as const;
 
 /** The COPY statement for result rows (also used by the benchmark's I/O floor). */
@@ -20,11 +43,34 @@ export const copyResultsSql = (table = 'room_results') => `COPY ${table} (${COPY
 /** One result row as a line of COPY text, not yet current. */
 export function toCopyLine(r: ResultRow): string {
   return copyLine([
-    r.runId, r.roomId, r.trustId, r.schoolId, r.blockId, r.ventilationType, r.pupils, false, r.worstSeason,
-    r.meanCo2Ppm, r.peakCo2Ppm, r.criteriaMet, r.riskBand, r.riskScore, r.pupilHoursAbove, r.reason,
-    r.unitsRecommended, r.unitCount, r.capitalCostGbp, r.annualSavingGbp, r.annualSavingKwh, r.annualSavingKgCo2e,
-    r.simplePaybackYears, r.discountedPaybackYears, r.npvGbp, r.pupilHoursRemovedPer1000Gbp,
-    r.capitalPerTonneCo2eGbp, r.detailJson,
+    r.runId,
+    r.roomId,
+    r.trustId,
+    r.schoolId,
+    r.blockId,
+    r.ventilationType,
+    r.pupils,
+    false,
+    r.worstSeason,
+    r.meanCo2Ppm,
+    r.peakCo2Ppm,
+    r.criteriaMet,
+    r.riskBand,
+    r.riskScore,
+    r.pupilHoursAbove,
+    r.reason,
+    r.unitsRecommended,
+    r.unitCount,
+    r.capitalCostGbp,
+    r.annualSavingGbp,
+    r.annualSavingKwh,
+    r.annualSavingKgCo2e,
+    r.simplePaybackYears,
+    r.discountedPaybackYears,
+    r.npvGbp,
+    r.pupilHoursRemovedPer1000Gbp,
+    r.capitalPerTonneCo2eGbp,
+    r.detailJson,
   ]);
 }
 
@@ -83,12 +129,19 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
   return db.transaction().execute(async (trx) => {
     // One flip at a time per trust, so two runs finishing together rank against each other's final state.
     await sql`SELECT pg_advisory_xact_lock(hashtext(${`assessment-flip:${input.trustId}`}))`.execute(trx);
-    const run = await trx.selectFrom('assessment_runs').select('status').where('id', '=', input.runId).forUpdate().executeTakeFirst();
+    const run = await trx
+      .selectFrom('assessment_runs')
+      .select('status')
+      .where('id', '=', input.runId)
+      .forUpdate()
+      .executeTakeFirst();
     if (run?.status !== 'running') return false;
 
     const inScope = input.schoolId === null ? sql`TRUE` : sql`school_id = ${input.schoolId}::uuid`;
     await sql`UPDATE room_results SET is_current = false
-              WHERE is_current AND trust_id = ${input.trustId} AND ${inScope} AND run_id <> ${input.runId}::uuid`.execute(trx);
+              WHERE is_current AND trust_id = ${input.trustId} AND ${inScope} AND run_id <> ${input.runId}::uuid`.execute(
+      trx,
+    );
 
     // The ranking sort fits in memory (about 100 bytes a room).
     await sql`SET LOCAL work_mem = '64MB'`.execute(trx);
@@ -126,7 +179,13 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
 
     await trx
       .updateTable('assessment_runs')
-      .set({ status: 'succeeded', finished_at: new Date(), rooms_done: sql`GREATEST(rooms_done, rooms_total)`, error: null, updated_at: new Date() })
+      .set({
+        status: 'succeeded',
+        finished_at: new Date(),
+        rooms_done: sql`GREATEST(rooms_done, rooms_total)`,
+        error: null,
+        updated_at: new Date(),
+      })
       .where('id', '=', input.runId)
       .execute();
     return true;

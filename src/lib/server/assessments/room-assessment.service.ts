@@ -1,5 +1,11 @@
 import { sql } from 'kysely';
-import { assessRoom, EngineInputError, type AssumptionSet, type RoomAssessment, type RoomAssessmentInput } from '../../engine';
+import {
+  assessRoom,
+  EngineInputError,
+  type AssumptionSet,
+  type RoomAssessment,
+  type RoomAssessmentInput,
+} from '../../engine';
 import type { ActiveTrust } from '../auth/context';
 import { getDb } from '../db/client';
 import { badRequest, notFound } from '../http/errors';
@@ -27,19 +33,34 @@ function assessOrExplain(input: RoomAssessmentInput, set: AssumptionSet): RoomAs
   try {
     return assessRoom(input, set, { withCurve: true });
   } catch (error) {
-    if (error instanceof EngineInputError) throw badRequest(`This room cannot be assessed: ${error.message}`, { field: error.field });
+    if (error instanceof EngineInputError)
+      throw badRequest(`This room cannot be assessed: ${error.message}`, { field: error.field });
     throw error;
   }
 }
 
 async function latestResult(trustId: string, roomId: string): Promise<LatestResult | null> {
-  const { rows } = await sql<{ run_id: string; rank: number | null; finished_at: Date | null; assumptions_version: string | null; ranked: number }>`
+  const { rows } = await sql<{
+    run_id: string;
+    rank: number | null;
+    finished_at: Date | null;
+    assumptions_version: string | null;
+    ranked: number;
+  }>`
     SELECT rr.run_id, rr.rank, ar.finished_at, ar.assumptions_version,
       (SELECT count(*)::int FROM room_results x WHERE x.trust_id = rr.trust_id AND x.is_current) AS ranked
     FROM room_results rr JOIN assessment_runs ar ON ar.id = rr.run_id
     WHERE rr.room_id = ${roomId}::uuid AND rr.trust_id = ${trustId} AND rr.is_current`.execute(getDb());
   const r = rows[0];
-  return r ? { runId: r.run_id, rank: r.rank, rankedRooms: r.ranked, finishedAt: r.finished_at?.toISOString() ?? null, assumptionsVersion: r.assumptions_version } : null;
+  return r
+    ? {
+        runId: r.run_id,
+        rank: r.rank,
+        rankedRooms: r.ranked,
+        finishedAt: r.finished_at?.toISOString() ?? null,
+        assumptionsVersion: r.assumptions_version,
+      }
+    : null;
 }
 
 /** The room page's assessment: computed now, so it reflects the register as it is; null when the room is not in scope. */
@@ -49,7 +70,11 @@ export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Pro
   if (!room) return null;
   const stored = await getCurrentAssumptionSet(db, trust.id);
   const assessment = assessOrExplain(room.input, stored.set);
-  return { assessment: { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] }, assumptionsLabel: stored.label, latest: await latestResult(trust.id, roomId) };
+  return {
+    assessment: { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] },
+    assumptionsLabel: stored.label,
+    latest: await latestResult(trust.id, roomId),
+  };
 }
 
 /** The answer of a what-if: the room today and with the changes, both under the current assumptions. Nothing is saved. */
@@ -77,7 +102,9 @@ export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBod
   }
   if (body.openableAreaM2 !== undefined) {
     if (body.openableAreaM2 > changed.room.glazingAreaM2) {
-      throw badRequest(`Openable area cannot exceed the glazing area (${changed.room.glazingAreaM2} m²).`, { field: 'openableAreaM2' });
+      throw badRequest(`Openable area cannot exceed the glazing area (${changed.room.glazingAreaM2} m²).`, {
+        field: 'openableAreaM2',
+      });
     }
     changes.push(`Openable window area ${room.input.room.openableAreaM2} m² → ${body.openableAreaM2} m²`);
     changed.room.openableAreaM2 = body.openableAreaM2;
@@ -87,7 +114,10 @@ export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBod
     let addedLps = 0;
     for (const line of body.addUnits) {
       const model = catalogue.find((m) => m.id === line.modelId);
-      if (!model) throw badRequest(`There is no unit model "${line.modelId}" in the trust's catalogue.`, { field: 'addUnits.modelId' });
+      if (!model)
+        throw badRequest(`There is no unit model "${line.modelId}" in the trust's catalogue.`, {
+          field: 'addUnits.modelId',
+        });
       addedLps += model.nominalFlowLps * line.count;
       changes.push(`Add ${line.count} × ${model.name} (${model.nominalFlowLps * line.count} l/s)`);
     }

@@ -44,7 +44,12 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
  * read and assessed here, so on two cores the engine's time hides behind the database's; commits stay
  * strictly in order, one at a time, so the resume point always matches what is written.
  */
-async function assessAndWrite(run: Run, set: AssumptionSet, chunkSize: number, afterChunk: ExecuteOptions['afterChunk']): Promise<void> {
+async function assessAndWrite(
+  run: Run,
+  set: AssumptionSet,
+  chunkSize: number,
+  afterChunk: ExecuteOptions['afterChunk'],
+): Promise<void> {
   const db = getDb();
   const scope = { trustId: run.trustId, schoolId: run.schoolId };
   let cursor = run.resumeAfterRoomId;
@@ -89,7 +94,11 @@ const describe = (error: unknown) => (error instanceof Error ? error.message : S
  * One attempt of the queue's job: work the run; on error either leave it for the queue's retry (which
  * resumes it) or, on the last attempt, fail it cleanly and remove its half-written rows.
  */
-export async function attemptRun(runId: string, attempt: { retryCount: number; retryLimit: number }, options: ExecuteOptions = {}): Promise<void> {
+export async function attemptRun(
+  runId: string,
+  attempt: { retryCount: number; retryLimit: number },
+  options: ExecuteOptions = {},
+): Promise<void> {
   const db = getDb();
   try {
     await executeRun(runId, options);

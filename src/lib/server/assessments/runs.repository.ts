@@ -71,14 +71,27 @@ export async function getRun(db: Kysely<Database>, id: string, trustId: string |
 
 /** The trust's most recent runs, newest first. */
 export async function listRuns(db: Kysely<Database>, trustId: string, limit: number): Promise<Run[]> {
-  const rows = await runsQuery(db).where('assessment_runs.trust_id', '=', trustId).orderBy('assessment_runs.created_at', 'desc').limit(limit).execute();
+  const rows = await runsQuery(db)
+    .where('assessment_runs.trust_id', '=', trustId)
+    .orderBy('assessment_runs.created_at', 'desc')
+    .limit(limit)
+    .execute();
   return rows.map(toRun);
 }
 
 /** A queued or running run of exactly this scope, if any. */
-export async function findActiveRun(db: Kysely<Database>, trustId: string, schoolId: string | null): Promise<Run | null> {
-  let q = runsQuery(db).where('assessment_runs.trust_id', '=', trustId).where('assessment_runs.status', 'in', ['queued', 'running']);
-  q = schoolId === null ? q.where('assessment_runs.scope', '=', 'trust') : q.where('assessment_runs.school_id', '=', schoolId);
+export async function findActiveRun(
+  db: Kysely<Database>,
+  trustId: string,
+  schoolId: string | null,
+): Promise<Run | null> {
+  let q = runsQuery(db)
+    .where('assessment_runs.trust_id', '=', trustId)
+    .where('assessment_runs.status', 'in', ['queued', 'running']);
+  q =
+    schoolId === null
+      ? q.where('assessment_runs.scope', '=', 'trust')
+      : q.where('assessment_runs.school_id', '=', schoolId);
   const row = await q.orderBy('assessment_runs.created_at', 'desc').executeTakeFirst();
   return row ? toRun(row) : null;
 }

@@ -50,12 +50,22 @@ export const toStatusView = (run: Run): RunStatusView => ({
  * Queues an assessment of the trust or one school under the trust's current assumption set. A run of the
  * same scope that is still queued or running is returned instead of starting a second one.
  */
-export async function startRun(trust: ActiveTrust, actor: Actor, body: StartRunBody): Promise<{ id: string; alreadyRunning: boolean }> {
+export async function startRun(
+  trust: ActiveTrust,
+  actor: Actor,
+  body: StartRunBody,
+): Promise<{ id: string; alreadyRunning: boolean }> {
   const db = getDb();
   const schoolId = body.scope === 'school' ? body.schoolId : null;
-  if (schoolId === null && trust.schoolIds !== null) throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
+  if (schoolId === null && trust.schoolIds !== null)
+    throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
   if (schoolId !== null) {
-    const school = await db.selectFrom('schools').select('id').where('trust_id', '=', trust.id).where('id', '=', schoolId).executeTakeFirst();
+    const school = await db
+      .selectFrom('schools')
+      .select('id')
+      .where('trust_id', '=', trust.id)
+      .where('id', '=', schoolId)
+      .executeTakeFirst();
     if (!school || (trust.schoolIds !== null && !trust.schoolIds.includes(schoolId))) throw notFound('That school');
   }
   await getQueue();

@@ -15,7 +15,10 @@ export interface AuditEntry {
 }
 
 /** Writes audit entries; call it inside the same transaction as the write it describes. */
-export async function recordAudit(db: Kysely<Database> | Transaction<Database>, entries: AuditEntry | AuditEntry[]): Promise<void> {
+export async function recordAudit(
+  db: Kysely<Database> | Transaction<Database>,
+  entries: AuditEntry | AuditEntry[],
+): Promise<void> {
   const list = Array.isArray(entries) ? entries : [entries];
   if (list.length === 0) return;
   await db
@@ -38,5 +41,9 @@ export async function recordAudit(db: Kysely<Database> | Transaction<Database>, 
 
 /** The actor fields of an audit entry, from the request's locals. */
 export function actorOf(locals: App.Locals): Pick<AuditEntry, 'actorUserId' | 'actorEmail' | 'trustId'> {
-  return { actorUserId: locals.user?.id ?? null, actorEmail: locals.user?.email ?? null, trustId: locals.trust?.id ?? null };
+  return {
+    actorUserId: locals.user?.id ?? null,
+    actorEmail: locals.user?.email ?? null,
+    trustId: locals.trust?.id ?? null,
+  };
 }

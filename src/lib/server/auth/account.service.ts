@@ -16,7 +16,13 @@ function cookieHeaderOf(headers: Headers): string {
 
 /** A URL-safe slug for a trust name, with a random tail so two trusts never clash. */
 function trustSlug(name: string): string {
-  const base = name.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 48) || 'trust';
+  const base =
+    name
+      .toLowerCase()
+      .normalize('NFKD')
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .slice(0, 48) || 'trust';
   return `${base}-${crypto.randomUUID().slice(0, 6)}`;
 }
 
@@ -32,7 +38,8 @@ export async function checkInvitation(db: Kysely<Database>, invitationId: string
   if (invitation.status === 'accepted') throw invitationNotUsable('used');
   if (invitation.status === 'canceled' || invitation.status === 'rejected') throw invitationNotUsable('cancelled');
   if (new Date(invitation.expiresAt).getTime() <= Date.now()) throw invitationNotUsable('expired');
-  if (email !== null && invitation.email.toLowerCase() !== email.toLowerCase()) throw invitationNotUsable('other_email');
+  if (email !== null && invitation.email.toLowerCase() !== email.toLowerCase())
+    throw invitationNotUsable('other_email');
   return invitation;
 }
 
@@ -44,23 +51,51 @@ export async function signUp(db: Kysely<Database>, input: SignUpInput, requestHe
   if (input.invitationId) await checkInvitation(db, input.invitationId, input.email);
   const auth = getAuth();
   const { headers, response } = await authCall(() =>
-    auth.api.signUpEmail({ body: { name: input.name, email: input.email, password: input.password }, headers: requestHeaders, returnHeaders: true }),
+    auth.api.signUpEmail({
+      body: { name: input.name, email: input.email, password: input.password },
+      headers: requestHeaders,
+      returnHeaders: true,
+    }),
   );
   const user = response.user;
-  await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: 'account.signed_up', entityType: 'user', entityId: user.id, summary: `${user.email} created an account` });
+  await recordAudit(db, {
+    trustId: null,
+    actorUserId: user.id,
+    actorEmail: user.email,
+    action: 'account.signed_up',
+    entityType: 'user',
+    entityId: user.id,
+    summary: `${user.email} created an account`,
+  });
   const sessionHeaders = new Headers({ cookie: cookieHeaderOf(headers) });
   let trust: { id: string; name: string };
   if (input.trustName) {
     const created = await authCall(() =>
-      auth.api.createOrganization({ body: { name: input.trustName!, slug: trustSlug(input.trustName!) }, headers: sessionHeaders }),
+      auth.api.createOrganization({
+        body: { name: input.trustName!, slug: trustSlug(input.trustName!) },
+        headers: sessionHeaders,
+      }),
     );
     if (!created) throw new Error('The trust was not created');
     trust = { id: created.id, name: created.name };
-    await recordAudit(db, { trustId: trust.id, actorUserId: user.id, actorEmail: user.email, action: 'trust.created', entityType: 'trust', entityId: trust.id, summary: `${user.email} created the trust ${trust.name} and became its trust admin`, after: { name: trust.name } });
+    await recordAudit(db, {
+      trustId: trust.id,
+      actorUserId: user.id,
+      actorEmail: user.email,
+      action: 'trust.created',
+      entityType: 'trust',
+      entityId: trust.id,
+      summary: `${user.email} created the trust ${trust.name} and became its trust admin`,
+      after: { name: trust.name },
+    });
   } else {
     trust = await acceptInvitation(db, input.invitationId!, { id: user.id, email: user.email }, sessionHeaders);
   }
-  return { headers, user: { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified }, trust };
+  return {
+    headers,
+    user: { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified },
+    trust,
+  };
 }
 
 /** Copies the limits chosen when inviting (schools, end date) onto the new membership. */
@@ -74,24 +109,46 @@ async function applyInvitationLimits(db: Kysely<Database>, invitationId: string,
   await db.transaction().execute(async (trx) => {
     await trx
       .insertInto('membership_limits')
-      .values({ member_id: memberId, limited_to_schools: limits.limited_to_schools, access_ends_on: limits.access_ends_on })
+      .values({
+        member_id: memberId,
+        limited_to_schools: limits.limited_to_schools,
+        access_ends_on: limits.access_ends_on,
+      })
       .execute();
     await trx
       .insertInto('membership_schools')
       .columns(['member_id', 'school_id'])
-      .expression(trx.selectFrom('invitation_schools').select([sql<string>`${memberId}`.as('member_id'), 'school_id']).where('invitation_id', '=', invitationId))
+      .expression(
+        trx
+          .selectFrom('invitation_schools')
+          .select([sql<string>`${memberId}`.as('member_id'), 'school_id'])
+          .where('invitation_id', '=', invitationId),
+      )
       .execute();
   });
 }
 
 /** Accepts an invitation for the signed-in person and makes its trust their active one. */
-export async function acceptInvitation(db: Kysely<Database>, invitationId: string, user: { id: string; email: string }, requestHeaders: Headers) {
+export async function acceptInvitation(
+  db: Kysely<Database>,
+  invitationId: string,
+  user: { id: string; email: string },
+  requestHeaders: Headers,
+) {
   const invitation = await checkInvitation(db, invitationId, user.email);
-  const result = await authCall(() => getAuth().api.acceptInvitation({ body: { invitationId }, headers: requestHeaders }));
+  const result = await authCall(() =>
+    getAuth().api.acceptInvitation({ body: { invitationId }, headers: requestHeaders }),
+  );
   if (result?.member) await applyInvitationLimits(db, invitationId, result.member.id);
   await recordAudit(db, {
-    trustId: invitation.trustId, actorUserId: user.id, actorEmail: user.email, action: 'member.joined', entityType: 'member',
-    entityId: result?.member.id ?? null, summary: `${user.email} accepted the invitation and joined as ${invitation.role}`, after: { role: invitation.role },
+    trustId: invitation.trustId,
+    actorUserId: user.id,
+    actorEmail: user.email,
+    action: 'member.joined',
+    entityType: 'member',
+    entityId: result?.member.id ?? null,
+    summary: `${user.email} accepted the invitation and joined as ${invitation.role}`,
+    after: { role: invitation.role },
   });
   const session = await getAuth().api.getSession({ headers: requestHeaders });
   if (session) await setSessionTrust(db, session.session.id, invitation.trustId);
@@ -106,4 +163,3 @@ export async function switchTrust(db: Kysely<Database>, userId: string, trustId:
   if (session) await setSessionTrust(db, session.session.id, trustId);
   return membership;
 }
-

@@ -6,7 +6,11 @@ const AuthEnvSchema = z.object({
   PORT: z.coerce.number().int().positive().default(4321),
   BETTER_AUTH_SECRET: z.string().min(32, 'BETTER_AUTH_SECRET must be at least 32 characters').optional(),
   /** Session lifetime in seconds (default 7 days); a session used within the last day is extended. */
-  AUTH_SESSION_SECONDS: z.coerce.number().int().positive().default(7 * 24 * 3600),
+  AUTH_SESSION_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(7 * 24 * 3600),
   /** Set to "true" only behind a reverse proxy that overwrites X-Forwarded-For. */
   AUTH_TRUST_PROXY: z.enum(['true', 'false']).default('false'),
   /**
@@ -43,7 +47,9 @@ export function authConfig(): AuthConfig {
   const origin = (env.PUBLIC_ORIGIN ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, '');
   const loopback = isLoopbackOrigin(origin);
   if (!env.BETTER_AUTH_SECRET && !loopback) {
-    throw new Error('BETTER_AUTH_SECRET is not set. Set it to a random string of at least 32 characters (openssl rand -hex 32) before serving Airtally on a public address.');
+    throw new Error(
+      'BETTER_AUTH_SECRET is not set. Set it to a random string of at least 32 characters (openssl rand -hex 32) before serving Airtally on a public address.',
+    );
   }
   cached = {
     origin,

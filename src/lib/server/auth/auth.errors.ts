@@ -2,11 +2,23 @@ import { AppError } from '../http/errors';
 
 /** Named errors of the sign-in and members feature. */
 export const emailUnverified = (email: string) =>
-  new AppError(403, 'email_unverified', `Confirm your e-mail address first: open the link we sent to ${email} (you can send a new one from your account page).`);
+  new AppError(
+    403,
+    'email_unverified',
+    `Confirm your e-mail address first: open the link we sent to ${email} (you can send a new one from your account page).`,
+  );
 export const lastTrustAdmin = () =>
-  new AppError(409, 'last_trust_admin', 'A trust needs at least one trust admin. Make someone else a trust admin first.');
+  new AppError(
+    409,
+    'last_trust_admin',
+    'A trust needs at least one trust admin. Make someone else a trust admin first.',
+  );
 export const emailTaken = () =>
-  new AppError(409, 'email_taken', 'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.');
+  new AppError(
+    409,
+    'email_taken',
+    'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.',
+  );
 export const invitationNotUsable = (reason: 'used' | 'expired' | 'cancelled' | 'missing' | 'other_email') => {
   const messages = {
     used: 'This invitation has already been used. Sign in to open the trust, or ask its trust admin for a new invitation.',
@@ -17,7 +29,8 @@ export const invitationNotUsable = (reason: 'used' | 'expired' | 'cancelled' | '
   } as const;
   return new AppError(reason === 'missing' ? 404 : 409, `invitation_${reason}`, messages[reason]);
 };
-export const membershipNotUsable = () => new AppError(403, 'membership_not_usable', 'You are not a member of that trust, or your access to it has ended.');
+export const membershipNotUsable = () =>
+  new AppError(403, 'membership_not_usable', 'You are not a member of that trust, or your access to it has ended.');
 
 interface BetterAuthApiError {
   statusCode: number;
@@ -34,14 +47,18 @@ const AUTH_MESSAGES: Record<string, string> = {
   INVALID_EMAIL_OR_PASSWORD: 'That e-mail address and password do not match. Check both, or reset your password.',
   INVALID_PASSWORD: 'Your current password is not right.',
   INVALID_TOKEN: 'This link has expired or has already been used. Ask for a new one.',
-  USER_ALREADY_EXISTS: 'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.',
-  USER_ALREADY_EXISTS_USE_ANOTHER_EMAIL: 'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.',
+  USER_ALREADY_EXISTS:
+    'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.',
+  USER_ALREADY_EXISTS_USE_ANOTHER_EMAIL:
+    'An account with this e-mail address already exists. Sign in, or reset the password if you have forgotten it.',
   PASSWORD_TOO_SHORT: 'Choose a password of at least 10 characters.',
   PASSWORD_TOO_LONG: 'Choose a password of at most 128 characters.',
   USER_IS_ALREADY_A_MEMBER_OF_THIS_ORGANIZATION: 'That person is already a member of this trust.',
   USER_IS_ALREADY_INVITED_TO_THIS_ORGANIZATION: 'That person has already been invited to this trust.',
-  YOU_CANNOT_LEAVE_THE_ORGANIZATION_AS_THE_ONLY_OWNER: 'A trust needs at least one trust admin. Make someone else a trust admin first.',
-  YOU_CANNOT_LEAVE_THE_ORGANIZATION_WITHOUT_AN_OWNER: 'A trust needs at least one trust admin. Make someone else a trust admin first.',
+  YOU_CANNOT_LEAVE_THE_ORGANIZATION_AS_THE_ONLY_OWNER:
+    'A trust needs at least one trust admin. Make someone else a trust admin first.',
+  YOU_CANNOT_LEAVE_THE_ORGANIZATION_WITHOUT_AN_OWNER:
+    'A trust needs at least one trust admin. Make someone else a trust admin first.',
 };
 
 /** Turns an error thrown by a better-auth endpoint into our AppError; other errors pass through. */

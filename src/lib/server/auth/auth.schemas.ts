@@ -57,5 +57,8 @@ export type MemberUpdate = z.infer<typeof MemberUpdateSchema>;
 export const ActiveTrustSchema = z.object({ trustId: z.string().trim().min(1, 'Choose a trust.').max(200) });
 
 export const ResetPasswordSchema = z.object({ token: z.string().min(1).max(500), password });
-export const ChangePasswordSchema = z.object({ currentPassword: z.string().min(1, 'Enter your current password.').max(128), newPassword: password });
+export const ChangePasswordSchema = z.object({
+  currentPassword: z.string().min(1, 'Enter your current password.').max(128),
+  newPassword: password,
+});
 export const ForgotPasswordSchema = z.object({ email });

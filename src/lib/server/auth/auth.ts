@@ -29,7 +29,15 @@ function auditAccountWrites(db: Kysely<any>) {
     const write = AUDITED_ACCOUNT_WRITES[ctx.path];
     const user = ctx.context.session?.user;
     if (!write || !user || ctx.context.returned instanceof Error) return;
-    await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: write.action, entityType: 'user', entityId: user.id, summary: `${user.email} ${write.summary}` });
+    await recordAudit(db, {
+      trustId: null,
+      actorUserId: user.id,
+      actorEmail: user.email,
+      action: write.action,
+      entityType: 'user',
+      entityId: user.id,
+      summary: `${user.email} ${write.summary}`,
+    });
   });
 }
 
@@ -82,7 +90,15 @@ export function createAuthOptions(db: Kysely<any>) {
         await sendMail(passwordResetMail(user, `${config.origin}/reset-password?token=${encodeURIComponent(token)}`));
       },
       onPasswordReset: async ({ user }) => {
-        await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: 'account.password_reset', entityType: 'user', entityId: user.id, summary: `${user.email} chose a new password through the e-mailed link` });
+        await recordAudit(db, {
+          trustId: null,
+          actorUserId: user.id,
+          actorEmail: user.email,
+          action: 'account.password_reset',
+          entityType: 'user',
+          entityId: user.id,
+          summary: `${user.email} chose a new password through the e-mailed link`,
+        });
       },
     },
     emailVerification: {
@@ -92,7 +108,15 @@ export function createAuthOptions(db: Kysely<any>) {
         await sendMail(verificationMail(user, `${config.origin}/verify-email?token=${encodeURIComponent(token)}`));
       },
       afterEmailVerification: async (user) => {
-        await recordAudit(db, { trustId: null, actorUserId: user.id, actorEmail: user.email, action: 'account.email_verified', entityType: 'user', entityId: user.id, summary: `${user.email} confirmed their e-mail address` });
+        await recordAudit(db, {
+          trustId: null,
+          actorUserId: user.id,
+          actorEmail: user.email,
+          action: 'account.email_verified',
+          entityType: 'user',
+          entityId: user.id,
+          summary: `${user.email} confirmed their e-mail address`,
+        });
       },
     },
     session: { expiresIn: config.sessionSeconds, updateAge: 24 * 3600 },

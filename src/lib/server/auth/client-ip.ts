@@ -6,7 +6,10 @@ import { authConfig } from './auth-config';
  */
 export function clientIpOf(request: Request, socketAddress: string | undefined): string {
   if (authConfig().trustProxy) {
-    const hops = (request.headers.get('x-forwarded-for') ?? '').split(',').map((h) => h.trim()).filter(Boolean);
+    const hops = (request.headers.get('x-forwarded-for') ?? '')
+      .split(',')
+      .map((h) => h.trim())
+      .filter(Boolean);
     const last = hops[hops.length - 1];
     if (last) return last;
   }

@@ -40,15 +40,27 @@ interface Actor {
 }
 
 /** The trust's members (with their limits) and pending invitations. */
-export async function listMembers(db: Kysely<Database>, trust: ActiveTrust): Promise<{ members: MemberView[]; invitations: InvitationView[] }> {
+export async function listMembers(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+): Promise<{ members: MemberView[]; invitations: InvitationView[] }> {
   const members = await db
     .selectFrom('member as m')
     .innerJoin('user as u', 'u.id', 'm.userId')
     .leftJoin('membership_limits as l', 'l.member_id', 'm.id')
     .select([
-      'm.id', 'm.userId', 'u.name', 'u.email', 'm.role', 'm.createdAt',
+      'm.id',
+      'm.userId',
+      'u.name',
+      'u.email',
+      'm.role',
+      'm.createdAt',
       sql<boolean>`coalesce(l.limited_to_schools, false)`.as('limited'),
-      sql<string[]>`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM membership_schools s WHERE s.member_id = m.id), '{}')`.as('schoolIds'),
+      sql<
+        string[]
+      >`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM membership_schools s WHERE s.member_id = m.id), '{}')`.as(
+        'schoolIds',
+      ),
       sql<string | null>`to_char(l.access_ends_on, 'YYYY-MM-DD')`.as('accessEndsOn'),
       sql<boolean>`coalesce(l.access_ends_on <= current_date, false)`.as('ended'),
     ])
@@ -59,9 +71,16 @@ export async function listMembers(db: Kysely<Database>, trust: ActiveTrust): Pro
     .selectFrom('invitation as i')
     .leftJoin('invitation_limits as l', 'l.invitation_id', 'i.id')
     .select([
-      'i.id', 'i.email', 'i.role', 'i.expiresAt',
+      'i.id',
+      'i.email',
+      'i.role',
+      'i.expiresAt',
       sql<boolean>`coalesce(l.limited_to_schools, false)`.as('limited'),
-      sql<string[]>`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM invitation_schools s WHERE s.invitation_id = i.id), '{}')`.as('schoolIds'),
+      sql<
+        string[]
+      >`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM invitation_schools s WHERE s.invitation_id = i.id), '{}')`.as(
+        'schoolIds',
+      ),
       sql<string | null>`to_char(l.access_ends_on, 'YYYY-MM-DD')`.as('accessEndsOn'),
     ])
     .where('i.organizationId', '=', trust.id)
@@ -71,12 +90,23 @@ export async function listMembers(db: Kysely<Database>, trust: ActiveTrust): Pro
     .execute();
   return {
     members: members.map((m) => ({
-      id: m.id, userId: m.userId, name: m.name, email: m.email, role: m.role as Role, joinedAt: new Date(m.createdAt).toISOString(),
-      schoolIds: m.limited ? m.schoolIds : null, accessEndsOn: m.accessEndsOn, ended: m.ended,
+      id: m.id,
+      userId: m.userId,
+      name: m.name,
+      email: m.email,
+      role: m.role as Role,
+      joinedAt: new Date(m.createdAt).toISOString(),
+      schoolIds: m.limited ? m.schoolIds : null,
+      accessEndsOn: m.accessEndsOn,
+      ended: m.ended,
     })),
     invitations: invitations.map((i) => ({
-      id: i.id, email: i.email, role: i.role as Role, expiresAt: new Date(i.expiresAt).toISOString(),
-      schoolIds: i.limited ? i.schoolIds : null, accessEndsOn: i.accessEndsOn,
+      id: i.id,
+      email: i.email,
+      role: i.role as Role,
+      expiresAt: new Date(i.expiresAt).toISOString(),
+      schoolIds: i.limited ? i.schoolIds : null,
+      accessEndsOn: i.accessEndsOn,
     })),
   };
 }
@@ -89,15 +119,23 @@ async function findMember(db: Kysely<Database>, trust: ActiveTrust, memberId: st
 
 /** Refuses a change that would leave the trust without a trust admin who still has access. */
 async function assertAnotherAdminRemains(db: Kysely<Database>, trust: ActiveTrust, memberId: string): Promise<void> {
-  const admins = (await listMembers(db, trust)).members.filter((m) => m.role === 'trust_admin' && !m.ended && m.accessEndsOn === null);
+  const admins = (await listMembers(db, trust)).members.filter(
+    (m) => m.role === 'trust_admin' && !m.ended && m.accessEndsOn === null,
+  );
   if (!admins.some((m) => m.id !== memberId)) throw lastTrustAdmin();
 }
 
 /** 400 unless every school id belongs to the trust. */
 async function assertSchoolsInTrust(db: Kysely<Database>, trust: ActiveTrust, schoolIds: string[]): Promise<void> {
   if (schoolIds.length === 0) return;
-  const known = await db.selectFrom('schools').select('id').where('trust_id', '=', trust.id).where('id', 'in', schoolIds).execute();
-  if (known.length !== new Set(schoolIds).size) throw badRequest('Every school must belong to this trust.', { field: 'schoolIds' });
+  const known = await db
+    .selectFrom('schools')
+    .select('id')
+    .where('trust_id', '=', trust.id)
+    .where('id', 'in', schoolIds)
+    .execute();
+  if (known.length !== new Set(schoolIds).size)
+    throw badRequest('Every school must belong to this trust.', { field: 'schoolIds' });
 }
 
 /**
@@ -109,46 +147,87 @@ export async function inviteMember(db: Kysely<Database>, actor: Actor, input: In
   const accessEndsOn = input.accessEndsOn ?? null;
   if (schoolIds) await assertSchoolsInTrust(db, actor.trust, schoolIds);
   const invitation = await authCall(() =>
-    getAuth().api.createInvitation({ body: { email: input.email, role: input.role, organizationId: actor.trust.id, resend: true }, headers: actor.headers }),
+    getAuth().api.createInvitation({
+      body: { email: input.email, role: input.role, organizationId: actor.trust.id, resend: true },
+      headers: actor.headers,
+    }),
   );
   await db.transaction().execute(async (trx) => {
     await trx.deleteFrom('invitation_schools').where('invitation_id', '=', invitation.id).execute();
     await trx.deleteFrom('invitation_limits').where('invitation_id', '=', invitation.id).execute();
     if (schoolIds || accessEndsOn) {
-      await trx.insertInto('invitation_limits').values({ invitation_id: invitation.id, limited_to_schools: schoolIds !== null, access_ends_on: accessEndsOn }).execute();
+      await trx
+        .insertInto('invitation_limits')
+        .values({ invitation_id: invitation.id, limited_to_schools: schoolIds !== null, access_ends_on: accessEndsOn })
+        .execute();
       if (schoolIds?.length) {
-        await trx.insertInto('invitation_schools').values([...new Set(schoolIds)].map((school_id) => ({ invitation_id: invitation.id, school_id }))).execute();
+        await trx
+          .insertInto('invitation_schools')
+          .values([...new Set(schoolIds)].map((school_id) => ({ invitation_id: invitation.id, school_id })))
+          .execute();
       }
     }
     await recordAudit(trx, {
-      trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email, action: 'member.invited', entityType: 'invitation',
-      entityId: invitation.id, summary: `${actor.user.email} invited ${input.email} as ${input.role}`,
+      trustId: actor.trust.id,
+      actorUserId: actor.user.id,
+      actorEmail: actor.user.email,
+      action: 'member.invited',
+      entityType: 'invitation',
+      entityId: invitation.id,
+      summary: `${actor.user.email} invited ${input.email} as ${input.role}`,
       after: { email: input.email, role: input.role, schoolIds, accessEndsOn },
     });
   });
-  return { id: invitation.id, email: invitation.email, role: input.role, expiresAt: new Date(invitation.expiresAt).toISOString(), schoolIds, accessEndsOn };
+  return {
+    id: invitation.id,
+    email: invitation.email,
+    role: input.role,
+    expiresAt: new Date(invitation.expiresAt).toISOString(),
+    schoolIds,
+    accessEndsOn,
+  };
 }
 
 /** Withdraws a pending invitation of the active trust. */
 export async function cancelInvitation(db: Kysely<Database>, actor: Actor, invitationId: string): Promise<void> {
-  const invitation = await db.selectFrom('invitation').select(['id', 'email', 'status']).where('id', '=', invitationId).where('organizationId', '=', actor.trust.id).executeTakeFirst();
+  const invitation = await db
+    .selectFrom('invitation')
+    .select(['id', 'email', 'status'])
+    .where('id', '=', invitationId)
+    .where('organizationId', '=', actor.trust.id)
+    .executeTakeFirst();
   if (!invitation || invitation.status !== 'pending') throw notFound('That pending invitation');
   await authCall(() => getAuth().api.cancelInvitation({ body: { invitationId }, headers: actor.headers }));
   await recordAudit(db, {
-    trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email, action: 'member.invitation_cancelled', entityType: 'invitation',
-    entityId: invitationId, summary: `${actor.user.email} withdrew the invitation to ${invitation.email}`,
+    trustId: actor.trust.id,
+    actorUserId: actor.user.id,
+    actorEmail: actor.user.email,
+    action: 'member.invitation_cancelled',
+    entityType: 'invitation',
+    entityId: invitationId,
+    summary: `${actor.user.email} withdrew the invitation to ${invitation.email}`,
   });
 }
 
 /** Changes a member's role, school limits and end date; the last trust admin keeps the role and access. */
-export async function updateMember(db: Kysely<Database>, actor: Actor, memberId: string, change: MemberUpdate): Promise<MemberView> {
+export async function updateMember(
+  db: Kysely<Database>,
+  actor: Actor,
+  memberId: string,
+  change: MemberUpdate,
+): Promise<MemberView> {
   const before = await findMember(db, actor.trust, memberId);
   const demotes = change.role !== undefined && change.role !== 'trust_admin' && before.role === 'trust_admin';
   const ends = change.accessEndsOn != null && before.role === 'trust_admin';
   if (demotes || ends) await assertAnotherAdminRemains(db, actor.trust, memberId);
   if (change.schoolIds) await assertSchoolsInTrust(db, actor.trust, change.schoolIds);
   if (change.role !== undefined && change.role !== before.role) {
-    await authCall(() => getAuth().api.updateMemberRole({ body: { memberId, role: change.role!, organizationId: actor.trust.id }, headers: actor.headers }));
+    await authCall(() =>
+      getAuth().api.updateMemberRole({
+        body: { memberId, role: change.role!, organizationId: actor.trust.id },
+        headers: actor.headers,
+      }),
+    );
   }
   await db.transaction().execute(async (trx) => {
     if (change.schoolIds !== undefined || change.accessEndsOn !== undefined) {
@@ -162,7 +241,10 @@ export async function updateMember(db: Kysely<Database>, actor: Actor, memberId:
       if (change.schoolIds !== undefined) {
         await trx.deleteFrom('membership_schools').where('member_id', '=', memberId).execute();
         if (change.schoolIds?.length) {
-          await trx.insertInto('membership_schools').values([...new Set(change.schoolIds)].map((school_id) => ({ member_id: memberId, school_id }))).execute();
+          await trx
+            .insertInto('membership_schools')
+            .values([...new Set(change.schoolIds)].map((school_id) => ({ member_id: memberId, school_id })))
+            .execute();
         }
       }
     }
@@ -170,13 +252,25 @@ export async function updateMember(db: Kysely<Database>, actor: Actor, memberId:
   const after = await findMember(db, actor.trust, memberId);
   const what = [
     after.role !== before.role ? `role ${before.role} → ${after.role}` : null,
-    JSON.stringify(after.schoolIds) !== JSON.stringify(before.schoolIds) ? (after.schoolIds ? `limited to ${after.schoolIds.length} school(s)` : 'all schools') : null,
-    after.accessEndsOn !== before.accessEndsOn ? (after.accessEndsOn ? `access ends on ${after.accessEndsOn}` : 'no end date') : null,
+    JSON.stringify(after.schoolIds) !== JSON.stringify(before.schoolIds)
+      ? after.schoolIds
+        ? `limited to ${after.schoolIds.length} school(s)`
+        : 'all schools'
+      : null,
+    after.accessEndsOn !== before.accessEndsOn
+      ? after.accessEndsOn
+        ? `access ends on ${after.accessEndsOn}`
+        : 'no end date'
+      : null,
   ].filter(Boolean);
   if (what.length) {
     await recordAudit(db, {
-      trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email,
-      action: after.role !== before.role ? 'member.role_changed' : 'member.limits_changed', entityType: 'member', entityId: memberId,
+      trustId: actor.trust.id,
+      actorUserId: actor.user.id,
+      actorEmail: actor.user.email,
+      action: after.role !== before.role ? 'member.role_changed' : 'member.limits_changed',
+      entityType: 'member',
+      entityId: memberId,
       summary: `${actor.user.email} changed ${before.email}: ${what.join('; ')}`,
       before: { role: before.role, schoolIds: before.schoolIds, accessEndsOn: before.accessEndsOn },
       after: { role: after.role, schoolIds: after.schoolIds, accessEndsOn: after.accessEndsOn },
@@ -189,9 +283,20 @@ export async function updateMember(db: Kysely<Database>, actor: Actor, memberId:
 export async function removeMember(db: Kysely<Database>, actor: Actor, memberId: string): Promise<void> {
   const member = await findMember(db, actor.trust, memberId);
   if (member.role === 'trust_admin') await assertAnotherAdminRemains(db, actor.trust, memberId);
-  await authCall(() => getAuth().api.removeMember({ body: { memberIdOrEmail: memberId, organizationId: actor.trust.id }, headers: actor.headers }));
+  await authCall(() =>
+    getAuth().api.removeMember({
+      body: { memberIdOrEmail: memberId, organizationId: actor.trust.id },
+      headers: actor.headers,
+    }),
+  );
   await recordAudit(db, {
-    trustId: actor.trust.id, actorUserId: actor.user.id, actorEmail: actor.user.email, action: 'member.removed', entityType: 'member',
-    entityId: memberId, summary: `${actor.user.email} removed ${member.email} (${member.role}) from the trust`, before: { email: member.email, role: member.role },
+    trustId: actor.trust.id,
+    actorUserId: actor.user.id,
+    actorEmail: actor.user.email,
+    action: 'member.removed',
+    entityType: 'member',
+    entityId: memberId,
+    summary: `${actor.user.email} removed ${member.email} (${member.role}) from the trust`,
+    before: { email: member.email, role: member.role },
   });
 }

@@ -29,7 +29,11 @@ export async function listMemberships(db: Kysely<Database>, userId: string): Pro
       't.name as trustName',
       'm.role',
       sql<boolean>`coalesce(l.limited_to_schools, false)`.as('limited'),
-      sql<string[]>`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM membership_schools s WHERE s.member_id = m.id), '{}')`.as('schoolIds'),
+      sql<
+        string[]
+      >`coalesce((SELECT array_agg(s.school_id::text ORDER BY s.school_id) FROM membership_schools s WHERE s.member_id = m.id), '{}')`.as(
+        'schoolIds',
+      ),
       sql<string | null>`to_char(l.access_ends_on, 'YYYY-MM-DD')`.as('accessEndsOn'),
       sql<boolean>`coalesce(l.access_ends_on <= current_date, false)`.as('ended'),
     ])
@@ -38,15 +42,17 @@ export async function listMemberships(db: Kysely<Database>, userId: string): Pro
     .execute();
   return rows.flatMap((row) =>
     isRole(row.role)
-      ? [{
-          memberId: row.memberId,
-          trustId: row.trustId,
-          trustName: row.trustName,
-          role: row.role,
-          schoolIds: row.limited ? row.schoolIds : null,
-          accessEndsOn: row.accessEndsOn,
-          ended: row.ended,
-        }]
+      ? [
+          {
+            memberId: row.memberId,
+            trustId: row.trustId,
+            trustName: row.trustName,
+            role: row.role,
+            schoolIds: row.limited ? row.schoolIds : null,
+            accessEndsOn: row.accessEndsOn,
+            ended: row.ended,
+          },
+        ]
       : [],
   );
 }

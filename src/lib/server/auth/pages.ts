@@ -27,7 +27,8 @@ export async function readForm(request: Request): Promise<Record<string, string>
 export function pageError(error: unknown): { status: number; message: string } {
   const mapped = fromAuthError(error);
   if (mapped instanceof AppError) return { status: mapped.status, message: mapped.message };
-  if (mapped instanceof ZodError) return { status: 400, message: mapped.issues[0]?.message ?? 'Check the form and try again.' };
+  if (mapped instanceof ZodError)
+    return { status: 400, message: mapped.issues[0]?.message ?? 'Check the form and try again.' };
   console.error('Unexpected error on an account page', error);
   return { status: 500, message: 'Something went wrong on our side. Please try again.' };
 }

@@ -32,4 +32,5 @@ export function takeRequest(form: keyof ReturnType<typeof formLimits>, clientIp:
 }
 
 /** The message shown when a form's budget is spent. */
-export const tooManyRequests = (seconds: number) => `Too many attempts from your network. Wait ${seconds} seconds and try again.`;
+export const tooManyRequests = (seconds: number) =>
+  `Too many attempts from your network. Wait ${seconds} seconds and try again.`;

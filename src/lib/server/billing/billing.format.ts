@@ -11,7 +11,8 @@ export const formatPence = (pence: number) => pounds.format(pence / 100);
 
 /** One line on where the subscription stands, for people (billing page and banner). */
 export function standingLabel(b: BillingOverview): string {
-  if (b.plan === 'free') return b.status === 'canceled' ? 'Free plan (the paid subscription has ended; nothing was deleted)' : 'Free plan';
+  if (b.plan === 'free')
+    return b.status === 'canceled' ? 'Free plan (the paid subscription has ended; nothing was deleted)' : 'Free plan';
   if (b.mode === 'read_only') return 'Read-only: the subscription payment has not gone through';
   if (b.mode === 'grace') return `Payment overdue: full use until ${formatDate(b.graceEndsAt)}`;
   if (b.cancelAtPeriodEnd) return `Cancels on ${formatDate(b.currentPeriodEnd)}`;

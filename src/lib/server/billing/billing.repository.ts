@@ -24,8 +24,18 @@ export async function getBillingAccount(db: Db, trustId: string): Promise<Billin
   const row = await db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', trustId).executeTakeFirst();
   if (!row) {
     return {
-      trustId, plan: 'free', status: 'none', paymentFailedAt: null, interval: null, customerId: null, subscriptionId: null,
-      quantity: 0, currentPeriodEnd: null, trialEnd: null, cancelAtPeriodEnd: false, openCheckoutSessionId: null,
+      trustId,
+      plan: 'free',
+      status: 'none',
+      paymentFailedAt: null,
+      interval: null,
+      customerId: null,
+      subscriptionId: null,
+      quantity: 0,
+      currentPeriodEnd: null,
+      trialEnd: null,
+      cancelAtPeriodEnd: false,
+      openCheckoutSessionId: null,
     };
   }
   return {
@@ -46,7 +56,11 @@ export async function getBillingAccount(db: Db, trustId: string): Promise<Billin
 
 /** Counts the trust's schools and rooms (what the plan limits are about). */
 export async function countEstate(db: Db, trustId: string): Promise<{ schools: number; rooms: number }> {
-  const schools = await db.selectFrom('schools').where('trust_id', '=', trustId).select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+  const schools = await db
+    .selectFrom('schools')
+    .where('trust_id', '=', trustId)
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .executeTakeFirstOrThrow();
   const rooms = await db
     .selectFrom('rooms')
     .innerJoin('schools', 'schools.id', 'rooms.school_id')

@@ -51,7 +51,12 @@ export async function billingOverview(db: Kysely<Database>, trustId: string): Pr
 /** The number of schools the subscription should be for (at least one). */
 export const billableSchools = (schoolCount: number) => Math.max(1, schoolCount);
 
-async function ensureCustomer(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, account: BillingAccount): Promise<string> {
+async function ensureCustomer(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  req: BillingRequest,
+  account: BillingAccount,
+): Promise<string> {
   if (account.customerId) return account.customerId;
   const customer = await stripe.customers.create(
     { name: req.trust.name, email: req.actor.actorEmail, metadata: { trust_id: req.trust.id } },
@@ -72,11 +77,18 @@ async function ensureCustomer(db: Kysely<Database>, stripe: Stripe, req: Billing
  * closed at the provider first, so only the newest page can be paid and a trust cannot end up
  * with two subscriptions.
  */
-export async function startCheckout(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, interval: BillingInterval): Promise<{ url: string }> {
+export async function startCheckout(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  req: BillingRequest,
+  interval: BillingInterval,
+): Promise<{ url: string }> {
   return withBillingLock(db, req.trust.id, async (trx) => {
     const account = await getBillingAccount(trx, req.trust.id);
     if (billingStanding(account).effectivePlan === 'per_school') {
-      throw conflict(`This trust is already on the ${PER_SCHOOL_PLAN.name} plan. Change its billing period or cancellation here instead.`);
+      throw conflict(
+        `This trust is already on the ${PER_SCHOOL_PLAN.name} plan. Change its billing period or cancellation here instead.`,
+      );
     }
     const customerId = await ensureCustomer(trx, stripe, req, account);
     const prices = await planPrices(stripe);
@@ -88,15 +100,26 @@ export async function startCheckout(db: Kysely<Database>, stripe: Stripe, req: B
       customer: customerId,
       client_reference_id: req.trust.id,
       line_items: [{ price: prices[interval], quantity: billableSchools(schools) }],
-      subscription_data: { metadata: { trust_id: req.trust.id }, ...(firstSubscription ? { trial_period_days: PER_SCHOOL_PLAN.trialDays } : {}) },
+      subscription_data: {
+        metadata: { trust_id: req.trust.id },
+        ...(firstSubscription ? { trial_period_days: PER_SCHOOL_PLAN.trialDays } : {}),
+      },
       metadata: { trust_id: req.trust.id },
       success_url: `${req.origin}/app/settings/billing?checkout=success`,
       cancel_url: `${req.origin}/app/settings/billing?checkout=cancelled`,
     });
     if (!session.url) throw new Error('The payment provider returned a checkout session without a URL');
-    await trx.updateTable('billing_accounts').set({ open_checkout_session_id: session.id }).where('trust_id', '=', req.trust.id).execute();
+    await trx
+      .updateTable('billing_accounts')
+      .set({ open_checkout_session_id: session.id })
+      .where('trust_id', '=', req.trust.id)
+      .execute();
     await recordAudit(trx, {
-      trustId: req.trust.id, ...req.actor, action: 'billing.checkout_started', entityType: 'subscription', entityId: null,
+      trustId: req.trust.id,
+      ...req.actor,
+      action: 'billing.checkout_started',
+      entityType: 'subscription',
+      entityId: null,
       summary: `Upgrade to ${PER_SCHOOL_PLAN.name} (${interval === 'year' ? 'yearly' : 'monthly'}, ${billableSchools(schools)} schools) started at checkout`,
     });
     return { url: session.url };
@@ -112,7 +135,10 @@ async function expireIfOpen(stripe: Stripe, sessionId: string): Promise<void> {
   if (session?.status === 'open') await stripe.checkout.sessions.expire(sessionId);
 }
 
-async function liveSubscription(db: Kysely<Database>, trustId: string): Promise<{ account: BillingAccount; subscriptionId: string }> {
+async function liveSubscription(
+  db: Kysely<Database>,
+  trustId: string,
+): Promise<{ account: BillingAccount; subscriptionId: string }> {
   const account = await getBillingAccount(db, trustId);
   if (!account.subscriptionId || !CHANGEABLE.has(account.status)) {
     throw conflict(`This trust has no ${PER_SCHOOL_PLAN.name} subscription to change. Upgrade first.`);
@@ -121,24 +147,53 @@ async function liveSubscription(db: Kysely<Database>, trustId: string): Promise<
 }
 
 /** Switches between monthly and yearly billing (the provider prorates and restarts the cycle). */
-export async function changeInterval(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, interval: BillingInterval): Promise<BillingOverview> {
+export async function changeInterval(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  req: BillingRequest,
+  interval: BillingInterval,
+): Promise<BillingOverview> {
   const { subscriptionId } = await liveSubscription(db, req.trust.id);
   const sub = await stripe.subscriptions.retrieve(subscriptionId);
   const item = sub.items.data[0];
   if (!item) throw conflict('The subscription has no plan item to change.');
   const prices = await planPrices(stripe);
-  const change = item.price.recurring?.interval === interval
-    ? undefined
-    : () => stripe.subscriptions.update(subscriptionId, { items: [{ id: item.id, price: prices[interval] }], proration_behavior: 'create_prorations' });
-  await syncSubscription(db, stripe, req.trust.id, subscriptionId, req.actor, `billing period set to ${interval === 'year' ? 'yearly' : 'monthly'} by a trust admin`, change);
+  const change =
+    item.price.recurring?.interval === interval
+      ? undefined
+      : () =>
+          stripe.subscriptions.update(subscriptionId, {
+            items: [{ id: item.id, price: prices[interval] }],
+            proration_behavior: 'create_prorations',
+          });
+  await syncSubscription(
+    db,
+    stripe,
+    req.trust.id,
+    subscriptionId,
+    req.actor,
+    `billing period set to ${interval === 'year' ? 'yearly' : 'monthly'} by a trust admin`,
+    change,
+  );
   return billingOverview(db, req.trust.id);
 }
 
 /** Cancels at the end of the paid period (true) or takes that back (false). Data is never deleted. */
-export async function setCancelAtPeriodEnd(db: Kysely<Database>, stripe: Stripe, req: BillingRequest, cancel: boolean): Promise<BillingOverview> {
+export async function setCancelAtPeriodEnd(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  req: BillingRequest,
+  cancel: boolean,
+): Promise<BillingOverview> {
   const { subscriptionId } = await liveSubscription(db, req.trust.id);
-  await syncSubscription(db, stripe, req.trust.id, subscriptionId, req.actor, cancel ? 'cancelled at period end by a trust admin' : 'resumed by a trust admin', () =>
-    stripe.subscriptions.update(subscriptionId, { cancel_at_period_end: cancel }),
+  await syncSubscription(
+    db,
+    stripe,
+    req.trust.id,
+    subscriptionId,
+    req.actor,
+    cancel ? 'cancelled at period end by a trust admin' : 'resumed by a trust admin',
+    () => stripe.subscriptions.update(subscriptionId, { cancel_at_period_end: cancel }),
   );
   return billingOverview(db, req.trust.id);
 }
@@ -156,9 +211,14 @@ export async function syncQuantity(db: Kysely<Database>, stripe: Stripe, trustId
   const sub = await stripe.subscriptions.retrieve(subscriptionId);
   const item = sub.items.data[0];
   if (!item) return;
-  const change = item.quantity === wanted
-    ? undefined
-    : () => stripe.subscriptions.update(subscriptionId, { items: [{ id: item.id, quantity: wanted }], proration_behavior: 'create_prorations' });
+  const change =
+    item.quantity === wanted
+      ? undefined
+      : () =>
+          stripe.subscriptions.update(subscriptionId, {
+            items: [{ id: item.id, quantity: wanted }],
+            proration_behavior: 'create_prorations',
+          });
   await syncSubscription(db, stripe, trustId, subscriptionId, actor, `school count is now ${wanted}`, change);
 }
 
@@ -194,7 +254,11 @@ export async function listInvoices(db: Kysely<Database>, stripe: Stripe, trustId
 }
 
 /** The next invoice's amount and date, or null when nothing is due (free plan, or cancelling). */
-export async function upcomingInvoice(db: Kysely<Database>, stripe: Stripe, trustId: string): Promise<{ amountDuePence: number; date: string } | null> {
+export async function upcomingInvoice(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  trustId: string,
+): Promise<{ amountDuePence: number; date: string } | null> {
   const account = await getBillingAccount(db, trustId);
   if (!account.subscriptionId || !CHANGEABLE.has(account.status) || account.cancelAtPeriodEnd) return null;
   try {

@@ -28,7 +28,12 @@ async function findOrCreatePrices(stripe: Stripe): Promise<Record<BillingInterva
       result[interval] = found.id;
       continue;
     }
-    productId ??= (await stripe.products.create({ name: `Airtally ${PER_SCHOOL_PLAN.name}`, metadata: { plan: PER_SCHOOL_PLAN.id } }, { idempotencyKey: 'airtally-product-whole-estate' })).id;
+    productId ??= (
+      await stripe.products.create(
+        { name: `Airtally ${PER_SCHOOL_PLAN.name}`, metadata: { plan: PER_SCHOOL_PLAN.id } },
+        { idempotencyKey: 'airtally-product-whole-estate' },
+      )
+    ).id;
     const price = await stripe.prices.create(
       {
         product: productId,

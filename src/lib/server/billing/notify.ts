@@ -20,16 +20,21 @@ export async function trustAdminEmails(db: Kysely<Database>, trustId: string): P
 }
 
 /** Tells every trust admin that a subscription payment failed, what happens next and what to do. */
-export async function notifyPaymentFailed(db: Kysely<Database>, trustId: string, invoice: Stripe.Invoice): Promise<number> {
+export async function notifyPaymentFailed(
+  db: Kysely<Database>,
+  trustId: string,
+  invoice: Stripe.Invoice,
+): Promise<number> {
   const trust = await db.selectFrom('trusts').select('name').where('id', '=', trustId).executeTakeFirstOrThrow();
   const standing = billingStanding(await getBillingAccount(db, trustId));
   const amount = `£${(invoice.amount_due / 100).toFixed(2)}`;
   const until = standing.graceEndsAt ? standing.graceEndsAt.toISOString().slice(0, 10) : null;
   const origin = (process.env['PUBLIC_ORIGIN'] ?? `http://127.0.0.1:${process.env['PORT'] ?? 4321}`).replace(/\/$/, '');
   const link = `${origin}/app/settings/billing`;
-  const next = standing.mode === 'read_only'
-    ? 'Airtally is now read-only for your trust: everyone can still read and export, but changes are paused until the payment goes through.'
-    : `Everything keeps working until ${until}; after that Airtally becomes read-only for your trust (reads and exports still work) until the payment goes through.`;
+  const next =
+    standing.mode === 'read_only'
+      ? 'Airtally is now read-only for your trust: everyone can still read and export, but changes are paused until the payment goes through.'
+      : `Everything keeps working until ${until}; after that Airtally becomes read-only for your trust (reads and exports still work) until the payment goes through.`;
   const text = [
     `The payment of ${amount} for ${trust.name}'s Airtally subscription (invoice ${invoice.number ?? invoice.id}) did not go through.`,
     '',
@@ -41,6 +46,7 @@ export async function notifyPaymentFailed(db: Kysely<Database>, trustId: string,
   const html = `<p>The payment of <strong>${amount}</strong> for ${escapeHtml(trust.name)}'s Airtally subscription (invoice ${escapeHtml(invoice.number ?? invoice.id)}) did not go through.</p>
 <p>${escapeHtml(next)} Nothing is deleted.</p><p><a href="${escapeHtml(link)}">Check the card on file or pay the invoice</a></p>`;
   const recipients = await trustAdminEmails(db, trustId);
-  for (const to of recipients) await sendMail({ to, subject: `Airtally: payment failed for ${trust.name}`, text, html });
+  for (const to of recipients)
+    await sendMail({ to, subject: `Airtally: payment failed for ${trust.name}`, text, html });
   return recipients.length;
 }

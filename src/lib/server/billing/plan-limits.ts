@@ -18,7 +18,11 @@ export interface EstateAddition {
  * allows FREE_PLAN.maxSchools school(s) and FREE_PLAN.maxRooms rooms; the per-school plan has no cap
  * (its quantity follows the school count). Call it inside the write's transaction, before inserting.
  */
-export async function assertWithinPlan(db: Kysely<Database> | Transaction<Database>, trustId: string, addition: EstateAddition): Promise<void> {
+export async function assertWithinPlan(
+  db: Kysely<Database> | Transaction<Database>,
+  trustId: string,
+  addition: EstateAddition,
+): Promise<void> {
   const addSchools = addition.schools ?? 0;
   const addRooms = addition.rooms ?? 0;
   if (addSchools <= 0 && addRooms <= 0) return;

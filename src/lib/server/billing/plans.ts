@@ -29,7 +29,10 @@ export const PER_SCHOOL_PLAN = {
   /** Price per school, in pence, for each billing interval. */
   unitAmountPence: { month: 2_400, year: 24_000 } satisfies Record<BillingInterval, number>,
   /** Lookup keys of the provider prices, so the same code finds them in any account. */
-  lookupKeys: { month: 'airtally_whole_estate_monthly', year: 'airtally_whole_estate_yearly' } satisfies Record<BillingInterval, string>,
+  lookupKeys: { month: 'airtally_whole_estate_monthly', year: 'airtally_whole_estate_yearly' } satisfies Record<
+    BillingInterval,
+    string
+  >,
 } as const;
 
 /** Days a trust keeps full use after a renewal payment fails, before the register goes read-only. */

@@ -16,7 +16,11 @@ const ProviderEnvSchema = z.object({
 });
 
 const notConfigured = (variable: string) =>
-  new AppError(503, 'billing_not_configured', `Billing is not configured on this server (${variable} is not set). Ask whoever runs Airtally to set it.`);
+  new AppError(
+    503,
+    'billing_not_configured',
+    `Billing is not configured on this server (${variable} is not set). Ask whoever runs Airtally to set it.`,
+  );
 
 let client: Stripe | undefined;
 

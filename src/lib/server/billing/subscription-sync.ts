@@ -59,12 +59,18 @@ export async function readSubscription(stripe: Stripe, subscriptionId: string): 
 
 /** The trust a provider customer belongs to, from our records. */
 export async function trustForCustomer(db: Db, customerId: string): Promise<string | null> {
-  const row = await db.selectFrom('billing_accounts').select('trust_id').where('provider_customer_id', '=', customerId).executeTakeFirst();
+  const row = await db
+    .selectFrom('billing_accounts')
+    .select('trust_id')
+    .where('provider_customer_id', '=', customerId)
+    .executeTakeFirst();
   return row?.trust_id ?? null;
 }
 
 /** A short, readable description of a plan state for the audit trail. */
-export function describePlan(a: Pick<BillingAccount, 'plan' | 'status' | 'interval' | 'quantity' | 'cancelAtPeriodEnd'>): string {
+export function describePlan(
+  a: Pick<BillingAccount, 'plan' | 'status' | 'interval' | 'quantity' | 'cancelAtPeriodEnd'>,
+): string {
   if (a.plan === 'free') return `${planName('free')} (free)${a.status !== 'none' ? `, subscription ${a.status}` : ''}`;
   const period = a.interval === 'year' ? 'yearly' : 'monthly';
   return `${planName('per_school')} ${period}, ${a.quantity} school${a.quantity === 1 ? '' : 's'}, ${a.status}${a.cancelAtPeriodEnd ? ', cancels at period end' : ''}`;
@@ -75,15 +81,25 @@ export function describePlan(a: Pick<BillingAccount, 'plan' | 'status' | 'interv
  * change when plan, status, period, quantity or cancellation differ. An older or ended subscription
  * never replaces a live one. Returns the account after the write, or null for an unknown trust.
  */
-export async function applySubscriptionState(db: Db, state: SubscriptionState, actor: Actor, reason: string): Promise<BillingAccount | null> {
+export async function applySubscriptionState(
+  db: Db,
+  state: SubscriptionState,
+  actor: Actor,
+  reason: string,
+): Promise<BillingAccount | null> {
   const trustId = state.trustId ?? (await trustForCustomer(db, state.customerId));
   if (!trustId) return null;
   const trust = await db.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst();
   if (!trust) return null;
-  await db.insertInto('billing_accounts').values({ trust_id: trustId }).onConflict((oc) => oc.column('trust_id').doNothing()).execute();
+  await db
+    .insertInto('billing_accounts')
+    .values({ trust_id: trustId })
+    .onConflict((oc) => oc.column('trust_id').doNothing())
+    .execute();
   await sql`SELECT 1 FROM billing_accounts WHERE trust_id = ${trustId} FOR UPDATE`.execute(db);
   const before = await getBillingAccount(db, trustId);
-  const replacesLive = before.subscriptionId && before.subscriptionId !== state.subscriptionId && LIVE.has(before.status);
+  const replacesLive =
+    before.subscriptionId && before.subscriptionId !== state.subscriptionId && LIVE.has(before.status);
   if (replacesLive && !LIVE.has(state.status)) return before;
   await db
     .updateTable('billing_accounts')
@@ -120,7 +136,14 @@ export async function applySubscriptionState(db: Db, state: SubscriptionState, a
 }
 
 function planSnapshot(a: BillingAccount) {
-  return { plan: a.plan, status: a.status, interval: a.interval, quantity: a.quantity, cancelAtPeriodEnd: a.cancelAtPeriodEnd, paymentFailedAt: a.paymentFailedAt };
+  return {
+    plan: a.plan,
+    status: a.status,
+    interval: a.interval,
+    quantity: a.quantity,
+    cancelAtPeriodEnd: a.cancelAtPeriodEnd,
+    paymentFailedAt: a.paymentFailedAt,
+  };
 }
 
 /**
@@ -128,9 +151,17 @@ function planSnapshot(a: BillingAccount) {
  * state (admin actions, webhooks) goes through it and reads the provider inside the lock, so the
  * last writer always stored the freshest provider state, and an admin's own change is audited as theirs.
  */
-export async function withBillingLock<T>(db: Kysely<Database>, trustId: string, fn: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+export async function withBillingLock<T>(
+  db: Kysely<Database>,
+  trustId: string,
+  fn: (trx: Transaction<Database>) => Promise<T>,
+): Promise<T> {
   return db.transaction().execute(async (trx) => {
-    await trx.insertInto('billing_accounts').values({ trust_id: trustId }).onConflict((oc) => oc.column('trust_id').doNothing()).execute();
+    await trx
+      .insertInto('billing_accounts')
+      .values({ trust_id: trustId })
+      .onConflict((oc) => oc.column('trust_id').doNothing())
+      .execute();
     await sql`SELECT 1 FROM billing_accounts WHERE trust_id = ${trustId} FOR UPDATE`.execute(trx);
     return fn(trx);
   });

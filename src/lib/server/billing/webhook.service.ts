@@ -5,7 +5,14 @@ import { badRequest } from '../http/errors';
 import { webhookSecret } from './provider';
 import { recordAudit } from '../audit/audit.repository';
 import { getBillingAccount } from './billing.repository';
-import { applySubscriptionState, LIVE, readSubscription, trustForCustomer, withBillingLock, type SubscriptionState } from './subscription-sync';
+import {
+  applySubscriptionState,
+  LIVE,
+  readSubscription,
+  trustForCustomer,
+  withBillingLock,
+  type SubscriptionState,
+} from './subscription-sync';
 import { notifyPaymentFailed } from './notify';
 
 /** Where an event's object points: its subscription, customer and (when stated) trust. */
@@ -23,21 +30,40 @@ const idOf = (value: unknown): string | null => {
 
 /** Finds the subscription an event is about, whatever kind of object it carries. */
 export function subjectOf(event: Stripe.Event): EventSubject {
-  const object = event.data.object as unknown as Record<string, unknown> & { object?: string; metadata?: Record<string, string> };
+  const object = event.data.object as unknown as Record<string, unknown> & {
+    object?: string;
+    metadata?: Record<string, string>;
+  };
   switch (object.object) {
     case 'subscription':
-      return { subscriptionId: idOf(object['id']), customerId: idOf(object['customer']), trustId: object.metadata?.['trust_id'] ?? null };
+      return {
+        subscriptionId: idOf(object['id']),
+        customerId: idOf(object['customer']),
+        trustId: object.metadata?.['trust_id'] ?? null,
+      };
     case 'invoice': {
       const invoice = object as unknown as Stripe.Invoice;
       const details = invoice.parent?.subscription_details;
-      return { subscriptionId: idOf(details?.subscription), customerId: idOf(invoice.customer), trustId: details?.metadata?.['trust_id'] ?? null };
+      return {
+        subscriptionId: idOf(details?.subscription),
+        customerId: idOf(invoice.customer),
+        trustId: details?.metadata?.['trust_id'] ?? null,
+      };
     }
     case 'checkout.session': {
       const session = object as unknown as Stripe.Checkout.Session;
-      return { subscriptionId: idOf(session.subscription), customerId: idOf(session.customer), trustId: session.metadata?.['trust_id'] ?? session.client_reference_id ?? null };
+      return {
+        subscriptionId: idOf(session.subscription),
+        customerId: idOf(session.customer),
+        trustId: session.metadata?.['trust_id'] ?? session.client_reference_id ?? null,
+      };
     }
     default:
-      return { subscriptionId: null, customerId: idOf(object['customer']), trustId: object.metadata?.['trust_id'] ?? null };
+      return {
+        subscriptionId: null,
+        customerId: idOf(object['customer']),
+        trustId: object.metadata?.['trust_id'] ?? null,
+      };
   }
 }
 
@@ -57,7 +83,9 @@ export function verifyEvent(stripe: Stripe, rawBody: string, signature: string |
   try {
     return stripe.webhooks.constructEvent(rawBody, signature, webhookSecret());
   } catch {
-    throw badRequest('The webhook signature does not match this server\'s signing secret (or is too old); the event was ignored.');
+    throw badRequest(
+      "The webhook signature does not match this server's signing secret (or is too old); the event was ignored.",
+    );
   }
 }
 
@@ -66,7 +94,11 @@ export function verifyEvent(stripe: Stripe, rawBody: string, signature: string |
  * then brings the trust's subscription up to date from the provider's current object, so events
  * arriving late or out of order cannot leave an old state behind. Payment failures e-mail the admins.
  */
-export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: Stripe.Event): Promise<{ duplicate: boolean }> {
+export async function receiveEvent(
+  db: Kysely<Database>,
+  stripe: Stripe,
+  event: Stripe.Event,
+): Promise<{ duplicate: boolean }> {
   const seen = await db.selectFrom('payment_events').select('id').where('id', '=', event.id).executeTakeFirst();
   if (seen) return { duplicate: true };
   const subject = subjectOf(event);
@@ -91,12 +123,27 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
   const stored = await withBillingLock(db, trustId, async (trx) => {
     if (!(await store(trx))) return false;
     if (event.type === 'checkout.session.completed') {
-      await trx.updateTable('billing_accounts').set({ open_checkout_session_id: null }).where('trust_id', '=', trustId).execute();
+      await trx
+        .updateTable('billing_accounts')
+        .set({ open_checkout_session_id: null })
+        .where('trust_id', '=', trustId)
+        .execute();
     }
     // Read inside the lock: whatever order events come in, the last one stores the freshest state.
     const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
-    if (state && LIVE.has(state.status) && (await cancelIfSecondSubscription(trx, stripe, trustId, state.subscriptionId))) return true;
-    if (state) await applySubscriptionState(trx, { ...state, trustId }, { actorUserId: null, actorEmail: 'payment provider' }, `provider event ${event.type}`);
+    if (
+      state &&
+      LIVE.has(state.status) &&
+      (await cancelIfSecondSubscription(trx, stripe, trustId, state.subscriptionId))
+    )
+      return true;
+    if (state)
+      await applySubscriptionState(
+        trx,
+        { ...state, trustId },
+        { actorUserId: null, actorEmail: 'payment provider' },
+        `provider event ${event.type}`,
+      );
     return true;
   });
   if (stored && event.type === 'invoice.payment_failed') {
@@ -113,14 +160,24 @@ export async function receiveEvent(db: Kysely<Database>, stripe: Stripe, event: 
  * provider, the newcomer is cancelled there straight away, the trust keeps the subscription it had,
  * and the audit trail says so.
  */
-async function cancelIfSecondSubscription(trx: Transaction<Database>, stripe: Stripe, trustId: string, subscriptionId: string): Promise<boolean> {
+async function cancelIfSecondSubscription(
+  trx: Transaction<Database>,
+  stripe: Stripe,
+  trustId: string,
+  subscriptionId: string,
+): Promise<boolean> {
   const account = await getBillingAccount(trx, trustId);
   if (!account.subscriptionId || account.subscriptionId === subscriptionId || !LIVE.has(account.status)) return false;
   const held = await readSubscriptionIfExists(stripe, account.subscriptionId);
   if (!held || !LIVE.has(held.status)) return false;
   await stripe.subscriptions.cancel(subscriptionId);
   await recordAudit(trx, {
-    trustId, actorUserId: null, actorEmail: 'payment provider', action: 'billing.duplicate_cancelled', entityType: 'subscription', entityId: subscriptionId,
+    trustId,
+    actorUserId: null,
+    actorEmail: 'payment provider',
+    action: 'billing.duplicate_cancelled',
+    entityType: 'subscription',
+    entityId: subscriptionId,
     summary: `Cancelled a second subscription (${subscriptionId}) from another checkout; the trust keeps its subscription ${account.subscriptionId}. Refund any first payment it took.`,
   });
   return true;
@@ -129,7 +186,8 @@ async function cancelIfSecondSubscription(trx: Transaction<Database>, stripe: St
 /** The trust an event belongs to (stated in metadata, or found by customer), if it is one of ours. */
 async function resolveTrust(db: Kysely<Database>, stripe: Stripe, subject: EventSubject): Promise<string | null> {
   let trustId = subject.trustId ?? (subject.customerId ? await trustForCustomer(db, subject.customerId) : null);
-  if (!trustId && subject.subscriptionId) trustId = (await readSubscriptionIfExists(stripe, subject.subscriptionId))?.trustId ?? null;
+  if (!trustId && subject.subscriptionId)
+    trustId = (await readSubscriptionIfExists(stripe, subject.subscriptionId))?.trustId ?? null;
   if (!trustId) return null;
   const known = await db.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst();
   return known ? known.id : null;

@@ -19,7 +19,14 @@ export async function assertWritable(db: Kysely<Database>, trustId: string): Pro
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 /** API paths that stay open in read-only mode: sign-in and account, billing itself, exports and what-if previews (which store nothing). */
-const ALWAYS_OPEN = [/^\/api\/auth\//, /^\/api\/account\//, /^\/api\/billing(\/|$)/, /^\/api\/exports?\//, /\/export(\/|$)/, /\/what-if$/];
+const ALWAYS_OPEN = [
+  /^\/api\/auth\//,
+  /^\/api\/account\//,
+  /^\/api\/billing(\/|$)/,
+  /^\/api\/exports?\//,
+  /\/export(\/|$)/,
+  /\/what-if$/,
+];
 /** App pages whose forms stay open: the person's own account and the billing page (to pay). */
 const PAGES_OPEN = [/^\/app\/account(\/|$)/, /^\/app\/settings\/billing$/];
 

@@ -34,11 +34,16 @@ export function createDb(connectionString: string): Kysely<Database> {
  * raw pg client (for COPY, which Kysely does not speak). The connection goes back to the pool after,
  * or is discarded if the work failed (it may have died mid-way).
  */
-export async function withConnection<T>(pool: pg.Pool, work: (db: Kysely<Database>, client: pg.PoolClient) => Promise<T>): Promise<T> {
+export async function withConnection<T>(
+  pool: pg.Pool,
+  work: (db: Kysely<Database>, client: pg.PoolClient) => Promise<T>,
+): Promise<T> {
   const client = await pool.connect();
   // Kysely "releases" after each query; this handle keeps the client checked out until the work is done.
   const handle = { query: client.query.bind(client), release: () => {} };
-  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool: { connect: async () => handle, end: async () => {} } }) });
+  const db = new Kysely<Database>({
+    dialect: new PostgresDialect({ pool: { connect: async () => handle, end: async () => {} } }),
+  });
   let failure: Error | undefined;
   try {
     return await work(db, client);

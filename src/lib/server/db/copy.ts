@@ -9,12 +9,19 @@ function copyField(value: string | number | boolean | null | undefined): string 
   if (typeof value === 'boolean') return value ? 't' : 'f';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '\\N';
   // indexOf is several times quicker than a regex test over long text (a result's ~7 kB detail JSON), which has none of these.
-  if (value.indexOf('\\') === -1 && value.indexOf('\t') === -1 && value.indexOf('\n') === -1 && value.indexOf('\r') === -1) return value;
+  if (
+    value.indexOf('\\') === -1 &&
+    value.indexOf('\t') === -1 &&
+    value.indexOf('\n') === -1 &&
+    value.indexOf('\r') === -1
+  )
+    return value;
   return value.replace(/[\\\t\n\r]/g, (c) => (c === '\\' ? '\\\\' : c === '\t' ? '\\t' : c === '\n' ? '\\n' : '\\r'));
 }
 
 /** One row as a line of COPY text. */
-export const copyLine = (values: readonly (string | number | boolean | null | undefined)[]): string => values.map(copyField).join('\t') + '\n';
+export const copyLine = (values: readonly (string | number | boolean | null | undefined)[]): string =>
+  values.map(copyField).join('\t') + '\n';
 
 /** About how much COPY text goes to the stream at a time. */
 const PIECE_BYTES = 256 * 1024;
@@ -45,7 +52,11 @@ export function* bytePieces(bytes: Buffer): Generator<Buffer> {
 }
 
 /** Streams COPY text (strings or bytes) into `copySql` on a client that is already inside a transaction. */
-export async function copyLines(client: pg.PoolClient, copySql: string, pieces: Iterable<string | Buffer> | AsyncIterable<string | Buffer>): Promise<void> {
+export async function copyLines(
+  client: pg.PoolClient,
+  copySql: string,
+  pieces: Iterable<string | Buffer> | AsyncIterable<string | Buffer>,
+): Promise<void> {
   const target = client.query(copyStreams.from(copySql));
   await pipeline(Readable.from(pieces), target);
 }

@@ -19,8 +19,16 @@ const schoolSummaryColumns = (eb: ExpressionBuilder<Database, 'schools'>) =>
     'schools.phase',
     'schools.climate_region',
     'schools.address',
-    eb.selectFrom('blocks').whereRef('blocks.school_id', '=', 'schools.id').select(sql<number>`count(*)::int`.as('n')).as('block_count'),
-    eb.selectFrom('rooms').whereRef('rooms.school_id', '=', 'schools.id').select(sql<number>`count(*)::int`.as('n')).as('room_count'),
+    eb
+      .selectFrom('blocks')
+      .whereRef('blocks.school_id', '=', 'schools.id')
+      .select(sql<number>`count(*)::int`.as('n'))
+      .as('block_count'),
+    eb
+      .selectFrom('rooms')
+      .whereRef('rooms.school_id', '=', 'schools.id')
+      .select(sql<number>`count(*)::int`.as('n'))
+      .as('room_count'),
     eb
       .selectFrom('rooms')
       .whereRef('rooms.school_id', '=', 'schools.id')
@@ -54,7 +62,12 @@ const toSchoolSummary = (row: SummaryRow): SchoolSummary => ({
 
 /** Every school of the trust with block, room and pupil counts, by name. */
 export async function listSchools(db: Kysely<Database>, trust: ActiveTrust): Promise<SchoolSummary[]> {
-  const rows = await db.selectFrom('schools').select(schoolSummaryColumns).where(inTrustScope(trust)).orderBy('schools.name').execute();
+  const rows = await db
+    .selectFrom('schools')
+    .select(schoolSummaryColumns)
+    .where(inTrustScope(trust))
+    .orderBy('schools.name')
+    .execute();
   return rows.map(toSchoolSummary);
 }
 
@@ -70,7 +83,13 @@ export async function getSchool(db: Kysely<Database>, trust: ActiveTrust, id: st
   const blocks = await db
     .selectFrom('blocks')
     .selectAll('blocks')
-    .select((eb) => eb.selectFrom('rooms').whereRef('rooms.block_id', '=', 'blocks.id').select(sql<number>`count(*)::int`.as('n')).as('room_count'))
+    .select((eb) =>
+      eb
+        .selectFrom('rooms')
+        .whereRef('rooms.block_id', '=', 'blocks.id')
+        .select(sql<number>`count(*)::int`.as('n'))
+        .as('room_count'),
+    )
     .where('school_id', '=', id)
     .orderBy('name')
     .execute();
@@ -169,7 +188,12 @@ export async function listRooms(db: Kysely<Database>, trust: ActiveTrust, query:
       .offset((query.page - 1) * query.pageSize)
       .execute(),
   ]);
-  return { rows: rows.map((r) => toRoom(r as unknown as RoomJoinRow)), total, page: query.page, pageSize: query.pageSize };
+  return {
+    rows: rows.map((r) => toRoom(r as unknown as RoomJoinRow)),
+    total,
+    page: query.page,
+    pageSize: query.pageSize,
+  };
 }
 
 /** One room with its school and block names, or null when outside the trust's scope. */

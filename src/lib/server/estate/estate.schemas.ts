@@ -2,7 +2,17 @@ import { z } from 'zod';
 import { ROOM_USES, VENTILATION_TYPES } from '../../engine/vocabulary';
 
 /** Sortable columns of the rooms list, as the API names them. */
-export const ROOM_SORT_KEYS = ['code', 'name', 'school', 'block', 'use', 'floorAreaM2', 'pupils', 'ventilationType', 'openableAreaM2'] as const;
+export const ROOM_SORT_KEYS = [
+  'code',
+  'name',
+  'school',
+  'block',
+  'use',
+  'floorAreaM2',
+  'pupils',
+  'ventilationType',
+  'openableAreaM2',
+] as const;
 
 /** GET /api/rooms query string. */
 export const RoomListQuerySchema = z.object({
@@ -13,7 +23,9 @@ export const RoomListQuerySchema = z.object({
   schoolId: z.uuid({ message: 'schoolId must be a school id' }).optional(),
   blockId: z.uuid({ message: 'blockId must be a block id' }).optional(),
   use: z.enum(ROOM_USES, { message: `use must be one of: ${ROOM_USES.join(', ')}` }).optional(),
-  ventilationType: z.enum(VENTILATION_TYPES, { message: `ventilationType must be one of: ${VENTILATION_TYPES.join(', ')}` }).optional(),
+  ventilationType: z
+    .enum(VENTILATION_TYPES, { message: `ventilationType must be one of: ${VENTILATION_TYPES.join(', ')}` })
+    .optional(),
   q: z.string().trim().max(100).optional(),
 });
 export type RoomListQuery = z.infer<typeof RoomListQuerySchema>;

@@ -1,5 +1,13 @@
 import type {
-  AgeGroup, ClimateRegion, ConstructionType, HeatingFuel, HeatingType, RoomUse, SchoolPhase, VentilationType, WindowType,
+  AgeGroup,
+  ClimateRegion,
+  ConstructionType,
+  HeatingFuel,
+  HeatingType,
+  RoomUse,
+  SchoolPhase,
+  VentilationType,
+  WindowType,
 } from '../../engine/vocabulary';
 
 /** A school with its headline counts, as the estate overview lists it. */

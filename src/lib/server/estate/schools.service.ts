@@ -14,7 +14,9 @@ export const NewSchoolSchema = z.object({
   phase: z.enum(SCHOOL_PHASES, { message: `phase must be one of: ${SCHOOL_PHASES.join(', ')}` }),
   climateRegion: z.enum(CLIMATE_REGIONS, { message: `climateRegion must be one of: ${CLIMATE_REGIONS.join(', ')}` }),
   address: z.string().trim().max(500).nullish(),
-  heatingFuel: z.enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` }).default('gas'),
+  heatingFuel: z
+    .enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` })
+    .default('gas'),
   fuelPriceGbpPerKwh: z.number().positive().lt(5).nullish(),
   boilerEfficiency: z.number().gt(0).max(1).nullish(),
 });
@@ -51,8 +53,13 @@ export async function createSchool(
       .returning(['id', 'name'])
       .executeTakeFirstOrThrow();
     await recordAudit(trx, {
-      trustId: trust.id, ...actor, action: 'school.created', entityType: 'school', entityId: school.id,
-      summary: `School ${school.name} added`, after: input,
+      trustId: trust.id,
+      ...actor,
+      action: 'school.created',
+      entityType: 'school',
+      entityId: school.id,
+      summary: `School ${school.name} added`,
+      after: input,
     });
     return school;
   });

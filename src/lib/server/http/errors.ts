@@ -13,17 +13,23 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, details: unknown = null) => new AppError(400, 'bad_request', message, details);
+export const badRequest = (message: string, details: unknown = null) =>
+  new AppError(400, 'bad_request', message, details);
 export const unauthenticated = () => new AppError(401, 'unauthenticated', 'Sign in to continue.');
 export const forbidden = (action = 'do that') =>
-  new AppError(403, 'forbidden', `Your role in this trust does not allow you to ${action}. Ask a trust admin if you need it.`);
+  new AppError(
+    403,
+    'forbidden',
+    `Your role in this trust does not allow you to ${action}. Ask a trust admin if you need it.`,
+  );
 export const notFound = (what: string) => new AppError(404, 'not_found', `${what} was not found in this trust.`);
 export const conflict = (message: string, details: unknown = null) => new AppError(409, 'conflict', message, details);
 export const paymentRequired = (message: string) => new AppError(402, 'payment_required', message);
 
 /** Plain-language messages for our named database constraints (see db/migrations). */
 const CONSTRAINT_MESSAGES: Record<string, string> = {
-  rooms_code_unique_in_school: 'Another room in this school already has that room code. Room codes must be unique within a school.',
+  rooms_code_unique_in_school:
+    'Another room in this school already has that room code. Room codes must be unique within a school.',
   rooms_openable_within_glazing: 'Openable window area cannot be larger than the glazing area, or negative.',
   rooms_floor_area_positive: 'Floor area must be more than 0 m² (and at most 5,000 m²).',
   rooms_ceiling_height_range: 'Ceiling height must be between 2 m and 12 m.',
@@ -32,7 +38,8 @@ const CONSTRAINT_MESSAGES: Record<string, string> = {
   rooms_glazing_not_negative: 'Glazing area cannot be negative.',
   rooms_g_value_range: 'Glazing g-value must be between 0 and 1.',
   rooms_mechanical_supply_not_negative: 'Mechanical supply cannot be negative.',
-  rooms_block_in_same_school: 'A room can only be placed in a block of its own school, and a block that still has rooms cannot be deleted.',
+  rooms_block_in_same_school:
+    'A room can only be placed in a block of its own school, and a block that still has rooms cannot be deleted.',
   rooms_code_present: 'Every room needs a room code.',
   schools_name_unique_in_trust: 'This trust already has a school with that name.',
   schools_reference_unique_in_trust: 'This trust already has a school with that reference number.',
@@ -65,7 +72,9 @@ export function fromDatabaseError(error: unknown): AppError | null {
     case '23502':
       return badRequest(known ?? 'A value is outside what makes physical sense for this field.', { constraint });
     case '23503':
-      return conflict(known ?? 'This record is still referenced by another, or refers to one that does not exist.', { constraint });
+      return conflict(known ?? 'This record is still referenced by another, or refers to one that does not exist.', {
+        constraint,
+      });
     case '22P02':
       return badRequest('A value has the wrong format (for example an identifier that is not a valid id).');
     default:
@@ -90,5 +99,10 @@ export function toErrorResponse(error: unknown): Response {
   const fromDb = fromDatabaseError(error);
   if (fromDb) return body(fromDb.status, fromDb.code, fromDb.message, fromDb.details);
   console.error('Unexpected error', error);
-  return body(500, 'internal_error', 'Something went wrong on our side. Please try again; if it keeps happening, tell your trust admin.', null);
+  return body(
+    500,
+    'internal_error',
+    'Something went wrong on our side. Please try again; if it keeps happening, tell your trust admin.',
+    null,
+  );
 }

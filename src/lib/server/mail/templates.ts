@@ -2,7 +2,10 @@ import type { MailMessage } from './mailer';
 
 /** Escapes text for an HTML e-mail body. */
 function escapeHtml(value: string): string {
-  return value.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
+  return value.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c,
+  );
 }
 
 /** A plain, readable HTML frame: one heading, a few paragraphs, one button, the link spelled out. */
@@ -19,11 +22,32 @@ function frame(heading: string, paragraphs: string[], action: { label: string; u
 }
 
 function text(heading: string, paragraphs: string[], action: { label: string; url: string }, footer: string): string {
-  return [heading, '', ...paragraphs.flatMap((p) => [p, '']), `${action.label}: ${action.url}`, '', footer, '', '— Airtally'].join('\n');
+  return [
+    heading,
+    '',
+    ...paragraphs.flatMap((p) => [p, '']),
+    `${action.label}: ${action.url}`,
+    '',
+    footer,
+    '',
+    '— Airtally',
+  ].join('\n');
 }
 
-function message(to: string, subject: string, heading: string, paragraphs: string[], action: { label: string; url: string }, footer: string): MailMessage {
-  return { to, subject, html: frame(heading, paragraphs, action, footer), text: text(heading, paragraphs, action, footer) };
+function message(
+  to: string,
+  subject: string,
+  heading: string,
+  paragraphs: string[],
+  action: { label: string; url: string },
+  footer: string,
+): MailMessage {
+  return {
+    to,
+    subject,
+    html: frame(heading, paragraphs, action, footer),
+    text: text(heading, paragraphs, action, footer),
+  };
 }
 
 /** Asks a new user to confirm that the address is theirs. */
@@ -57,7 +81,10 @@ export function passwordResetMail(to: { email: string; name: string }, url: stri
 }
 
 /** Invites someone to join a trust with a role. */
-export function invitationMail(to: string, details: { trustName: string; inviterName: string; roleLabel: string; url: string; expiresAt: Date }): MailMessage {
+export function invitationMail(
+  to: string,
+  details: { trustName: string; inviterName: string; roleLabel: string; url: string; expiresAt: Date },
+): MailMessage {
   const expires = details.expiresAt.toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric' });
   return message(
     to,

@@ -30,7 +30,9 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
         coalesce(sum(rr.capital_cost_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS capital,
         coalesce(sum(rr.annual_saving_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS saving
       FROM room_results rr WHERE ${scope}`.execute(db),
-    sql<{ n: number }>`SELECT count(*)::int AS n FROM rooms r JOIN schools s ON s.id = r.school_id WHERE ${roomScope}`.execute(db),
+    sql<{
+      n: number;
+    }>`SELECT count(*)::int AS n FROM rooms r JOIN schools s ON s.id = r.school_id WHERE ${roomScope}`.execute(db),
     db
       .selectFrom('assessment_runs')
       .select('finished_at')
@@ -69,7 +71,14 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
       FROM room_results rr JOIN schools s ON s.id = rr.school_id
       WHERE ${scope}
       GROUP BY rr.school_id, s.name ORDER BY s.name`.execute(db),
-    sql<{ room_id: string; label: string; risk_score: number; simple_payback_years: number; capital_cost_gbp: number; risk_band: number }>`
+    sql<{
+      room_id: string;
+      label: string;
+      risk_score: number;
+      simple_payback_years: number;
+      capital_cost_gbp: number;
+      risk_band: number;
+    }>`
       SELECT rr.room_id, s.name || ' · ' || r.code AS label, rr.risk_score, rr.simple_payback_years, rr.capital_cost_gbp, rr.risk_band
       FROM room_results rr
         JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
@@ -110,12 +119,25 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
     capitalCostGbp: r.capital_cost_gbp,
     riskBand: r.risk_band,
   }));
-  const curve: CumulativePoint[] = cumulative.rows.map((r) => ({ rank: Number(r.rank), cumulativeCapitalGbp: r.cc, cumulativePupilHoursRemoved: r.ch }));
+  const curve: CumulativePoint[] = cumulative.rows.map((r) => ({
+    rank: Number(r.rank),
+    cumulativeCapitalGbp: r.cc,
+    cumulativePupilHoursRemoved: r.ch,
+  }));
   const last = curve[curve.length - 1];
   return {
     headline,
     co2BySchool,
-    scatter: { points, totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0, shown: points.length, neverPayBack: scatterTotal.rows[0]?.never ?? 0 },
-    cumulative: { points: curve, totalCapitalGbp: last?.cumulativeCapitalGbp ?? 0, totalPupilHoursRemoved: last?.cumulativePupilHoursRemoved ?? 0 },
+    scatter: {
+      points,
+      totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0,
+      shown: points.length,
+      neverPayBack: scatterTotal.rows[0]?.never ?? 0,
+    },
+    cumulative: {
+      points: curve,
+      totalCapitalGbp: last?.cumulativeCapitalGbp ?? 0,
+      totalPupilHoursRemoved: last?.cumulativePupilHoursRemoved ?? 0,
+    },
   };
 }

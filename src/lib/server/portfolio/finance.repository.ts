@@ -6,7 +6,13 @@ import { getAssumptionSetById } from '../assessments/assumptions.repository';
 import { simplePaybackYears } from '../../engine/finance';
 import type { RetrofitMoney, RetrofitUnitLine } from '../../engine/types';
 import type { ActiveTrust } from '../auth/context';
-import { FOSSIL_FUELS, heatingRenewalFlag, HEATING_RENEWAL_WORDS, RENEWAL_HORIZON_YEARS, TYPICAL_PLANT_LIFE_YEARS } from './heating-renewal';
+import {
+  FOSSIL_FUELS,
+  heatingRenewalFlag,
+  HEATING_RENEWAL_WORDS,
+  RENEWAL_HORIZON_YEARS,
+  TYPICAL_PLANT_LIFE_YEARS,
+} from './heating-renewal';
 import type { FinanceQuery } from './portfolio.schemas';
 import type { FinanceReport, FinanceSchool, FinanceUnitRow, MoneyTotals } from './portfolio.types';
 import { programmeSensitivity } from './sensitivity';
@@ -50,7 +56,8 @@ function add(sum: Accumulator, unit: FinanceUnitRow, maintenanceGbp: number) {
   sum.npvGbp += unit.npvGbp;
   sum.maintenanceGbp += maintenanceGbp;
   // Tonnes over the unit's life, recovered from the engine's £/t so the unit life stays the engine's.
-  if (unit.capitalPerTonneCo2eGbp && unit.capitalPerTonneCo2eGbp > 0) sum.lifetimeTonnes += unit.capitalCostGbp / unit.capitalPerTonneCo2eGbp;
+  if (unit.capitalPerTonneCo2eGbp && unit.capitalPerTonneCo2eGbp > 0)
+    sum.lifetimeTonnes += unit.capitalCostGbp / unit.capitalPerTonneCo2eGbp;
 }
 
 function finish(sum: Accumulator): MoneyTotals {
@@ -68,7 +75,11 @@ function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; mainte
   const perUnit = row.per_unit;
   if (!perUnit || row.unit_count <= 0) return [];
   const models = (row.units ?? []).flatMap((line) => Array.from({ length: line.count }, () => line.modelName));
-  const heatingRenewal = heatingRenewalFlag({ fuel: row.heating_fuel, installedYear: row.heating_installed_year, currentYear });
+  const heatingRenewal = heatingRenewalFlag({
+    fuel: row.heating_fuel,
+    installedYear: row.heating_installed_year,
+    currentYear,
+  });
   return Array.from({ length: row.unit_count }, (_, i) => ({
     maintenanceGbp: perUnit.annualMaintenanceGbp,
     unit: {
@@ -93,8 +104,18 @@ function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; mainte
 }
 
 /** The finance report of the trust (or one school): unit rows, subtotals, totals, baseline and sensitivity. */
-export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, query: FinanceQuery, now = new Date()): Promise<FinanceReport> {
-  const scope = [sql`rr.trust_id = ${trust.id}`, sql`rr.is_current`, sql`rr.unit_count > 0`, sql`rr.capital_cost_gbp IS NOT NULL`];
+export async function financeReport(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  query: FinanceQuery,
+  now = new Date(),
+): Promise<FinanceReport> {
+  const scope = [
+    sql`rr.trust_id = ${trust.id}`,
+    sql`rr.is_current`,
+    sql`rr.unit_count > 0`,
+    sql`rr.capital_cost_gbp IS NOT NULL`,
+  ];
   if (trust.schoolIds) scope.push(sql`rr.school_id = ANY(${trust.schoolIds}::uuid[])`);
   if (query.schoolId) scope.push(sql`rr.school_id = ${query.schoolId}::uuid`);
   const [result, lastRun] = await Promise.all([
@@ -124,7 +145,10 @@ export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, qu
   for (const row of result.rows) {
     let entry = schools.get(row.school_id);
     if (!entry) {
-      entry = { school: { schoolId: row.school_id, schoolName: row.school_name, units: [], subtotal: finish(emptyTotals()) }, sum: emptyTotals() };
+      entry = {
+        school: { schoolId: row.school_id, schoolName: row.school_name, units: [], subtotal: finish(emptyTotals()) },
+        sum: emptyTotals(),
+      };
       schools.set(row.school_id, entry);
     }
     for (const { unit, maintenanceGbp } of unitRows(row, currentYear)) {
@@ -136,7 +160,9 @@ export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, qu
   for (const entry of schools.values()) entry.school.subtotal = finish(entry.sum);
 
   // The baseline is the assumption set the latest run used, so the sensitivity matches the rows above it.
-  const runSet = lastRun?.assumption_set_id ? await getAssumptionSetById(db, trust.id, lastRun.assumption_set_id) : null;
+  const runSet = lastRun?.assumption_set_id
+    ? await getAssumptionSetById(db, trust.id, lastRun.assumption_set_id)
+    : null;
   const finance = (runSet?.set ?? DEFAULT_ASSUMPTIONS).finance;
   const baseline = { discountRate: finance.discountRate.value, appraisalYears: finance.appraisalYears.value };
   const runWhen = lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null;
@@ -154,9 +180,18 @@ export async function financeReport(db: Kysely<Database>, trust: ActiveTrust, qu
         `over ${baseline.appraisalYears} years, with savings at the end of each year. Against today's operation, better air can ` +
         `cost more energy than it saves; the room pages say where.`,
     },
-    heatingRenewalRule: { plantLifeYears: TYPICAL_PLANT_LIFE_YEARS, horizonYears: RENEWAL_HORIZON_YEARS, fuels: [...FOSSIL_FUELS], words: HEATING_RENEWAL_WORDS },
+    heatingRenewalRule: {
+      plantLifeYears: TYPICAL_PLANT_LIFE_YEARS,
+      horizonYears: RENEWAL_HORIZON_YEARS,
+      fuels: [...FOSSIL_FUELS],
+      words: HEATING_RENEWAL_WORDS,
+    },
     sensitivity: programmeSensitivity(
-      { capitalCostGbp: trustSum.capitalCostGbp, annualNetSavingGbp: trustSum.annualSavingGbp, annualMaintenanceGbp: trustSum.maintenanceGbp },
+      {
+        capitalCostGbp: trustSum.capitalCostGbp,
+        annualNetSavingGbp: trustSum.annualSavingGbp,
+        annualMaintenanceGbp: trustSum.maintenanceGbp,
+      },
       baseline,
     ),
   };

@@ -13,7 +13,11 @@ export const RENEWAL_HORIZON_YEARS = 5;
 export const FOSSIL_FUELS = ['gas', 'oil', 'lpg'] as const;
 
 /** The flag for a block's heating, or null when it is not fossil-fuelled, not dated, or not near its end. */
-export function heatingRenewalFlag(args: { fuel: string | null; installedYear: number | null; currentYear: number }): HeatingRenewalFlag | null {
+export function heatingRenewalFlag(args: {
+  fuel: string | null;
+  installedYear: number | null;
+  currentYear: number;
+}): HeatingRenewalFlag | null {
   const { fuel, installedYear, currentYear } = args;
   if (!fuel || installedYear === null || !(FOSSIL_FUELS as readonly string[]).includes(fuel)) return null;
   const expectedEndYear = installedYear + TYPICAL_PLANT_LIFE_YEARS;

@@ -15,7 +15,12 @@ export async function listSchoolOptions(db: Kysely<Database>, trust: ActiveTrust
   const rows = await db
     .selectFrom('schools')
     .leftJoin('blocks', 'blocks.school_id', 'schools.id')
-    .select(['schools.id as school_id', 'schools.name as school_name', 'blocks.id as block_id', 'blocks.name as block_name'])
+    .select([
+      'schools.id as school_id',
+      'schools.name as school_name',
+      'blocks.id as block_id',
+      'blocks.name as block_name',
+    ])
     .where(inTrustScope(trust))
     .orderBy('schools.name')
     .orderBy('blocks.name')
@@ -30,10 +35,15 @@ export async function listSchoolOptions(db: Kysely<Database>, trust: ActiveTrust
 }
 
 /** Whether the trust has rooms in its register and current results (drives the empty states). */
-export async function portfolioState(db: Kysely<Database>, trust: ActiveTrust): Promise<{ hasRooms: boolean; hasResults: boolean }> {
+export async function portfolioState(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+): Promise<{ hasRooms: boolean; hasResults: boolean }> {
   const row = await sql<{ has_rooms: boolean; has_results: boolean }>`
     SELECT EXISTS (SELECT 1 FROM rooms JOIN schools ON schools.id = rooms.school_id WHERE ${inTrustScope(trust)}) AS has_rooms,
       EXISTS (SELECT 1 FROM room_results rr WHERE rr.trust_id = ${trust.id} AND rr.is_current
-        ${trust.schoolIds ? sql`AND rr.school_id = ANY(${trust.schoolIds}::uuid[])` : sql``}) AS has_results`.execute(db);
+        ${trust.schoolIds ? sql`AND rr.school_id = ANY(${trust.schoolIds}::uuid[])` : sql``}) AS has_results`.execute(
+    db,
+  );
   return { hasRooms: row.rows[0]?.has_rooms ?? false, hasResults: row.rows[0]?.has_results ?? false };
 }

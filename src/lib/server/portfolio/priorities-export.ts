@@ -24,7 +24,12 @@ export function guardCell(value: string): string {
 const round = (v: number | null, digits = 0) => (v === null ? null : Number(v.toFixed(digits)));
 
 /** Builds the workbook for the current view; resolves to its bytes. */
-export async function exportPriorities(db: Kysely<Database>, trust: ActiveTrust, query: PrioritiesQuery, now = new Date()): Promise<Buffer> {
+export async function exportPriorities(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  query: PrioritiesQuery,
+  now = new Date(),
+): Promise<Buffer> {
   const weights = query.weights ?? (await ensureRanks(db, trust.id)).weights;
   if (query.weights) await ensureRanks(db, trust.id);
   const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0);
@@ -94,7 +99,13 @@ export async function exportPriorities(db: Kysely<Database>, trust: ActiveTrust,
   const notes = book.addWorksheet('Cautions');
   notes.columns = [{ header: 'Read before using these figures', key: 'text', width: 120 }];
   notes.getRow(1).font = { bold: true };
-  const filters = Object.entries({ schoolId: query.schoolId, blockId: query.blockId, band: query.band, ventilationType: query.ventilationType, criteriaMet: query.criteriaMet })
+  const filters = Object.entries({
+    schoolId: query.schoolId,
+    blockId: query.blockId,
+    band: query.band,
+    ventilationType: query.ventilationType,
+    criteriaMet: query.criteriaMet,
+  })
     .filter(([, v]) => v !== undefined)
     .map(([k, v]) => `${k} = ${String(v)}`);
   const lines = [

@@ -143,11 +143,27 @@ const countCache = new Map<string, number>();
 const COUNT_CACHE_MAX = 500;
 
 /** Number of ranked rooms matching the filters. */
-export async function countPriorityRows(db: Kysely<Database>, trust: ActiveTrust, filter: PriorityFilter, stamp: string): Promise<number> {
-  const key = JSON.stringify([trust.id, trust.schoolIds, stamp, filter.schoolId, filter.blockId, filter.band, filter.ventilationType, filter.criteriaMet]);
+export async function countPriorityRows(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  filter: PriorityFilter,
+  stamp: string,
+): Promise<number> {
+  const key = JSON.stringify([
+    trust.id,
+    trust.schoolIds,
+    stamp,
+    filter.schoolId,
+    filter.blockId,
+    filter.band,
+    filter.ventilationType,
+    filter.criteriaMet,
+  ]);
   const cached = countCache.get(key);
   if (cached !== undefined) return cached;
-  const result = await sql<{ n: number }>`SELECT count(*)::int AS n FROM portfolio_ranks pr WHERE ${filterSql(trust, filter)}`.execute(db);
+  const result = await sql<{
+    n: number;
+  }>`SELECT count(*)::int AS n FROM portfolio_ranks pr WHERE ${filterSql(trust, filter)}`.execute(db);
   const n = result.rows[0]?.n ?? 0;
   if (countCache.size >= COUNT_CACHE_MAX) countCache.delete(countCache.keys().next().value!);
   countCache.set(key, n);
@@ -155,11 +171,22 @@ export async function countPriorityRows(db: Kysely<Database>, trust: ActiveTrust
 }
 
 /** One page of the priorities list. */
-export async function listPriorities(db: Kysely<Database>, trust: ActiveTrust, query: PrioritiesQuery): Promise<PrioritiesPage> {
+export async function listPriorities(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  query: PrioritiesQuery,
+): Promise<PrioritiesPage> {
   const state = await ensureRanks(db, trust.id);
   const [rows, total] = await Promise.all([
     selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize),
     countPriorityRows(db, trust, query, state.stamp),
   ]);
-  return { rows, total, page: query.page, pageSize: query.pageSize, weights: query.weights ?? state.weights, preview: query.weights !== null };
+  return {
+    rows,
+    total,
+    page: query.page,
+    pageSize: query.pageSize,
+    weights: query.weights ?? state.weights,
+    preview: query.weights !== null,
+  };
 }

@@ -30,7 +30,9 @@ export function rankOrderSql(w: Weights, alias = 'rr') {
 }
 
 const sameWeights = (a: Weights, b: Weights) =>
-  Math.abs(a.risk - b.risk) < 1e-9 && Math.abs(a.costEffectiveness - b.costEffectiveness) < 1e-9 && Math.abs(a.payback - b.payback) < 1e-9;
+  Math.abs(a.risk - b.risk) < 1e-9 &&
+  Math.abs(a.costEffectiveness - b.costEffectiveness) < 1e-9 &&
+  Math.abs(a.payback - b.payback) < 1e-9;
 
 /** The trust's saved weights, or the engine's defaults when none are saved. */
 export async function getWeightSettings(db: Kysely<Database>, trustId: string): Promise<WeightSettings> {
@@ -102,8 +104,10 @@ async function checkRanks(db: Kysely<Database>, trustId: string, options: { wait
     row.weight_risk === null || row.weight_cost_effectiveness === null || row.weight_payback === null
       ? { ...DEFAULT_RANK_WEIGHTS }
       : { risk: row.weight_risk, costEffectiveness: row.weight_cost_effectiveness, payback: row.weight_payback };
-  if (row.ranked_weights && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights, weights)) return { weights, stamp: row.stamp };
-  const previous = row.ranked_weights && row.ranked_stamp ? { weights: row.ranked_weights, stamp: row.ranked_stamp } : null;
+  if (row.ranked_weights && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights, weights))
+    return { weights, stamp: row.stamp };
+  const previous =
+    row.ranked_weights && row.ranked_stamp ? { weights: row.ranked_weights, stamp: row.ranked_stamp } : null;
   const stamp = await rebuildRanks(db, trustId, weights, options.wait || previous === null);
   if (stamp === null) return previous!;
   return { weights, stamp };
@@ -114,7 +118,12 @@ async function checkRanks(db: Kysely<Database>, trustId: string, options: { wait
  * One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the
  * caller gets null at once.
  */
-async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weights, wait: boolean): Promise<string | null> {
+async function rebuildRanks(
+  db: Kysely<Database>,
+  trustId: string,
+  weights: Weights,
+  wait: boolean,
+): Promise<string | null> {
   return db.transaction().execute(async (trx) => {
     const lockKey = `portfolio_ranks:${trustId}`;
     if (wait) {
@@ -124,8 +133,17 @@ async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weig
       if (!got.rows[0]?.ok) return null;
     }
     const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
-    const current = await trx.selectFrom('portfolio_settings').select(['ranked_weights', 'ranked_stamp']).where('trust_id', '=', trustId).executeTakeFirst();
-    if (current?.ranked_stamp === stampRow.stamp && current.ranked_weights && sameWeights(current.ranked_weights as Weights, weights)) return stampRow.stamp;
+    const current = await trx
+      .selectFrom('portfolio_settings')
+      .select(['ranked_weights', 'ranked_stamp'])
+      .where('trust_id', '=', trustId)
+      .executeTakeFirst();
+    if (
+      current?.ranked_stamp === stampRow.stamp &&
+      current.ranked_weights &&
+      sameWeights(current.ranked_weights as Weights, weights)
+    )
+      return stampRow.stamp;
     await trx.deleteFrom('portfolio_ranks').where('trust_id', '=', trustId).execute();
     await sql`
       INSERT INTO portfolio_ranks (trust_id, room_id, school_id, rank, score, block_id, school_name, ventilation_type, risk_band,
@@ -140,9 +158,20 @@ async function rebuildRanks(db: Kysely<Database>, trustId: string, weights: Weig
     await sql`ANALYZE portfolio_ranks`.execute(trx);
     await trx
       .insertInto('portfolio_settings')
-      .values({ trust_id: trustId, ranked_weights: JSON.stringify(weights), ranked_stamp: stampRow.stamp, ranked_at: new Date() })
+      .values({
+        trust_id: trustId,
+        ranked_weights: JSON.stringify(weights),
+        ranked_stamp: stampRow.stamp,
+        ranked_at: new Date(),
+      })
       .onConflict((oc) =>
-        oc.column('trust_id').doUpdateSet({ ranked_weights: JSON.stringify(weights), ranked_stamp: stampRow.stamp, ranked_at: new Date() }),
+        oc
+          .column('trust_id')
+          .doUpdateSet({
+            ranked_weights: JSON.stringify(weights),
+            ranked_stamp: stampRow.stamp,
+            ranked_at: new Date(),
+          }),
       )
       .execute();
     return stampRow.stamp;

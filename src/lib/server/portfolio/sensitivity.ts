@@ -21,7 +21,10 @@ export function discountRateCases(baseline: number): number[] {
 }
 
 /** The programme's annual saving, paybacks and NPV with energy prices changed by `energyPriceChangePct`. */
-export function sensitivityCase(money: ProgrammeMoney, args: { energyPriceChangePct: number; discountRate: number; appraisalYears: number }): SensitivityCase {
+export function sensitivityCase(
+  money: ProgrammeMoney,
+  args: { energyPriceChangePct: number; discountRate: number; appraisalYears: number },
+): SensitivityCase {
   const energyGbp = money.annualNetSavingGbp + money.annualMaintenanceGbp;
   const saving = (1 + args.energyPriceChangePct / 100) * energyGbp - money.annualMaintenanceGbp;
   return {
@@ -29,16 +32,32 @@ export function sensitivityCase(money: ProgrammeMoney, args: { energyPriceChange
     discountRate: args.discountRate,
     annualSavingGbp: saving,
     simplePaybackYears: simplePaybackYears(money.capitalCostGbp, saving),
-    discountedPaybackYears: discountedPaybackYears({ capitalGbp: money.capitalCostGbp, annualSavingGbp: saving, rate: args.discountRate }),
-    npvGbp: npvLevel({ capitalGbp: money.capitalCostGbp, annualSavingGbp: saving, rate: args.discountRate, years: args.appraisalYears }),
+    discountedPaybackYears: discountedPaybackYears({
+      capitalGbp: money.capitalCostGbp,
+      annualSavingGbp: saving,
+      rate: args.discountRate,
+    }),
+    npvGbp: npvLevel({
+      capitalGbp: money.capitalCostGbp,
+      annualSavingGbp: saving,
+      rate: args.discountRate,
+      years: args.appraisalYears,
+    }),
   };
 }
 
 /** Both sensitivity tables: energy price −30 %…+30 % at the baseline rate, and the rate spread at today's prices. */
-export function programmeSensitivity(money: ProgrammeMoney, baseline: { discountRate: number; appraisalYears: number }) {
+export function programmeSensitivity(
+  money: ProgrammeMoney,
+  baseline: { discountRate: number; appraisalYears: number },
+) {
   return {
     byEnergyPrice: ENERGY_PRICE_CHANGES_PCT.map((p) =>
-      sensitivityCase(money, { energyPriceChangePct: p, discountRate: baseline.discountRate, appraisalYears: baseline.appraisalYears }),
+      sensitivityCase(money, {
+        energyPriceChangePct: p,
+        discountRate: baseline.discountRate,
+        appraisalYears: baseline.appraisalYears,
+      }),
     ),
     byDiscountRate: discountRateCases(baseline.discountRate).map((r) =>
       sensitivityCase(money, { energyPriceChangePct: 0, discountRate: r, appraisalYears: baseline.appraisalYears }),

@@ -3,24 +3,72 @@ import { cellText, type CellValue } from './values';
 
 // Unit words dropped from a header before matching, so "Floor area (m²)" and "GIA sqm" match.
 const UNIT_TOKENS = new Set([
-  'm2', 'm', 'sqm', 'sq', 'mm', 'cm', 'ls', 'l', 's', 'lps', 'm3', 'h', 'hr', 'm3h', 'pa', '50', 'deg', 'degrees', 'ft', 'ft2', 'sqft',
-  'metres', 'meters', 'litres', 'sec', 'per', 'at', '50pa', 'sqmetres2', 'in', 'a', 'the', 'of', 'no', 'number', 'm3hm2', 'sqmetres',
+  'm2',
+  'm',
+  'sqm',
+  'sq',
+  'mm',
+  'cm',
+  'ls',
+  'l',
+  's',
+  'lps',
+  'm3',
+  'h',
+  'hr',
+  'm3h',
+  'pa',
+  '50',
+  'deg',
+  'degrees',
+  'ft',
+  'ft2',
+  'sqft',
+  'metres',
+  'meters',
+  'litres',
+  'sec',
+  'per',
+  'at',
+  '50pa',
+  'sqmetres2',
+  'in',
+  'a',
+  'the',
+  'of',
+  'no',
+  'number',
+  'm3hm2',
+  'sqmetres',
 ]);
 const KEEP_NO = new Set(['room no', 'no of pupils', 'no of adults']);
 
 /** A header reduced to lower-case words, punctuation and units removed ("Floor area (m²)" → "floor area"). */
 export function headerKey(header: string): string {
-  const words = header.toLowerCase().replace(/²/g, '2').replace(/³/g, '3').replace(/&/g, ' and ').replace(/[^a-z0-9]+/g, ' ').trim();
+  const words = header
+    .toLowerCase()
+    .replace(/²/g, '2')
+    .replace(/³/g, '3')
+    .replace(/&/g, ' and ')
+    .replace(/[^a-z0-9]+/g, ' ')
+    .trim();
   if (KEEP_NO.has(words)) return words;
-  return words.split(' ').filter((w) => w && !UNIT_TOKENS.has(w)).join(' ');
+  return words
+    .split(' ')
+    .filter((w) => w && !UNIT_TOKENS.has(w))
+    .join(' ');
 }
 
 /** The factor a header's unit implies for its column's values ("Ceiling height (mm)" → 0.001). */
 export function headerScale(header: string, field: RegisterField): number {
-  const words = ` ${header.toLowerCase().replace(/²/g, '2').replace(/[^a-z0-9]+/g, ' ')} `;
+  const words = ` ${header
+    .toLowerCase()
+    .replace(/²/g, '2')
+    .replace(/[^a-z0-9]+/g, ' ')} `;
   if (field === 'ceilingHeightM' && / mm /.test(words)) return 0.001;
   if (field === 'ceilingHeightM' && / cm /.test(words)) return 0.01;
-  if (['floorAreaM2', 'glazingAreaM2', 'openableAreaM2'].includes(field) && /( ft2 | sq ft | sqft )/.test(words)) return 0.09290304;
+  if (['floorAreaM2', 'glazingAreaM2', 'openableAreaM2'].includes(field) && /( ft2 | sq ft | sqft )/.test(words))
+    return 0.09290304;
   if (field === 'mechanicalSupplyLps' && / m3 h /.test(words)) return 1 / 3.6;
   return 1;
 }
@@ -103,7 +151,11 @@ export const HEADER_SEARCH_ROWS = 30;
  * Finds the header among the first rows: the row (or pair of rows) whose cells match the most
  * register columns. `forcedRow` (1-based) is the user's pick when detection was unsure.
  */
-export function detectHeader(rows: CellValue[][], saved: SavedMappings = new Map(), forcedRow?: number): DetectedHeader | null {
+export function detectHeader(
+  rows: CellValue[][],
+  saved: SavedMappings = new Map(),
+  forcedRow?: number,
+): DetectedHeader | null {
   const texts = rows.slice(0, HEADER_SEARCH_ROWS).map((r) => r.map((v) => cellText(v)));
   let best: DetectedHeader | null = null;
   let bestScore = -1;
@@ -129,7 +181,10 @@ export function detectHeader(rows: CellValue[][], saved: SavedMappings = new Map
 }
 
 /** Applies user-chosen fields to columns by letter ({ "H": "floorAreaM2", "K": null }). */
-export function applyMapping(columns: DetectedColumn[], mapping: Record<string, RegisterField | null>): DetectedColumn[] {
+export function applyMapping(
+  columns: DetectedColumn[],
+  mapping: Record<string, RegisterField | null>,
+): DetectedColumn[] {
   const chosen = columns.map((c) => (c.letter in mapping ? { ...c, field: mapping[c.letter] ?? null } : c));
   const seen = new Set<RegisterField>();
   return chosen.map((c) => {

@@ -13,7 +13,15 @@ import { readRegisterFile } from './parse';
 import { planImport, type ImportPlan, type ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings, stagedRoomLine, type StoredPlan } from './register.repository';
+import {
+  applyPlan,
+  estateFingerprint,
+  loadSavedMappings,
+  loadSnapshot,
+  saveMappings,
+  stagedRoomLine,
+  type StoredPlan,
+} from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -58,12 +66,23 @@ export function fileKindOf(fileName: string): 'xlsx' | 'csv' {
   const lower = fileName.toLowerCase();
   if (lower.endsWith('.xlsx') || lower.endsWith('.xlsm')) return 'xlsx';
   if (lower.endsWith('.csv') || lower.endsWith('.txt')) return 'csv';
-  if (lower.endsWith('.xls')) throw badRequest('Old-style .xls workbooks cannot be read. Save the file as .xlsx (Excel Workbook) and upload it again.');
-  throw badRequest(`"${fileName}" is not a spreadsheet we can read. Upload an Excel workbook (.xlsx) or a CSV file (.csv).`);
+  if (lower.endsWith('.xls'))
+    throw badRequest(
+      'Old-style .xls workbooks cannot be read. Save the file as .xlsx (Excel Workbook) and upload it again.',
+    );
+  throw badRequest(
+    `"${fileName}" is not a spreadsheet we can read. Upload an Excel workbook (.xlsx) or a CSV file (.csv).`,
+  );
 }
 
 /** Reads, validates and compares an upload with the estate; stores the preview. Writes nothing to the estate. */
-export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, upload: Upload, options: ImportOptions = {}): Promise<ImportPreview> {
+export async function previewImport(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  upload: Upload,
+  options: ImportOptions = {},
+): Promise<ImportPreview> {
   if (upload.bytes.length > MAX_FILE_BYTES) throw fileTooLarge(upload.bytes.length);
   if (upload.bytes.length === 0) throw badRequest('The file is empty. Choose the register file again.');
   const kind = fileKindOf(upload.fileName);
@@ -79,41 +98,63 @@ export async function previewImport(db: Kysely<Database>, trust: ActiveTrust, ac
   const rowsGz = encodePlan(plan);
   plan.roomWrites = [];
   const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
-  const header = { row: file.header.row, rowCount: file.header.rowCount, confident: file.header.confident, columns: file.header.columns };
+  const header = {
+    row: file.header.row,
+    rowCount: file.header.rowCount,
+    confident: file.header.confident,
+    columns: file.header.columns,
+  };
 
   const id = await db.transaction().execute(async (trx) => {
     if (options.mapping) {
-      const pairs = file.header.columns.filter((c) => c.field && c.letter in (options.mapping ?? {})).map((c) => ({ headerKey: c.headerKey, field: c.field as RegisterField }));
+      const pairs = file.header.columns
+        .filter((c) => c.field && c.letter in (options.mapping ?? {}))
+        .map((c) => ({ headerKey: c.headerKey, field: c.field as RegisterField }));
       await saveMappings(trx, trust.id, pairs);
     }
-    const row = await trx.insertInto('register_imports').values({
-      trust_id: trust.id,
-      created_by_user_id: actor.actorUserId,
-      created_by_email: actor.actorEmail,
-      file_name: upload.fileName.slice(0, 255),
-      file_kind: kind,
-      file_size_bytes: upload.bytes.length,
-      header: JSON.stringify({ ...header, sheetName: file.sheetName }),
-      summary: JSON.stringify(plan.summary),
-      problems: JSON.stringify(problems),
-      problem_count: plan.problems.length,
-      missing_rooms: JSON.stringify(plan.missingRooms),
-      rows_gz: rowsGz,
-      estate_fingerprint: fingerprint,
-    }).returning('id').executeTakeFirstOrThrow();
+    const row = await trx
+      .insertInto('register_imports')
+      .values({
+        trust_id: trust.id,
+        created_by_user_id: actor.actorUserId,
+        created_by_email: actor.actorEmail,
+        file_name: upload.fileName.slice(0, 255),
+        file_kind: kind,
+        file_size_bytes: upload.bytes.length,
+        header: JSON.stringify({ ...header, sheetName: file.sheetName }),
+        summary: JSON.stringify(plan.summary),
+        problems: JSON.stringify(problems),
+        problem_count: plan.problems.length,
+        missing_rooms: JSON.stringify(plan.missingRooms),
+        rows_gz: rowsGz,
+        estate_fingerprint: fingerprint,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     await recordAudit(trx, {
-      trustId: trust.id, ...actor, action: 'import.previewed', entityType: 'import', entityId: row.id,
+      trustId: trust.id,
+      ...actor,
+      action: 'import.previewed',
+      entityType: 'import',
+      entityId: row.id,
       summary: `Uploaded ${upload.fileName} for preview: ${plan.summary.roomsToCreate} rooms to create, ${plan.summary.roomsToChange} to change, ${plan.summary.rowsRejected} rows rejected`,
     });
     return row.id;
   });
   mark('store the preview');
   return {
-    id, status: 'previewed', fileName: upload.fileName, sheetName: file.sheetName, header, topRows: file.topRows,
-    summary: plan.summary, problems, problemsTruncated: plan.problems.length > problems.length, missingRooms: plan.missingRooms,
+    id,
+    status: 'previewed',
+    fileName: upload.fileName,
+    sheetName: file.sheetName,
+    header,
+    topRows: file.topRows,
+    summary: plan.summary,
+    problems,
+    problemsTruncated: plan.problems.length > problems.length,
+    missingRooms: plan.missingRooms,
   };
 }
-
 
 /**
  * The plan as the commit needs it, gzip-compressed: one line of JSON with everything but the room
@@ -153,47 +194,96 @@ export type CommitHook = (trx: Kysely<Database>) => Promise<void>;
  * preview (otherwise 409: a change made since is never overwritten blindly). "none" cancels.
  */
 export async function commitImport(
-  pool: pg.Pool, trust: ActiveTrust, actor: Actor, importId: string, body: CommitBody, beforeCommit?: CommitHook,
+  pool: pg.Pool,
+  trust: ActiveTrust,
+  actor: Actor,
+  importId: string,
+  body: CommitBody,
+  beforeCommit?: CommitHook,
 ): Promise<ImportOutcome> {
-  return withConnection(pool, (db, client) => db.transaction().execute(async (trx) => {
-    const found = await trx.selectFrom('register_imports').select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
-      .where('id', '=', importId).where('trust_id', '=', trust.id).forUpdate().executeTakeFirst();
-    if (!found) throw notFound('That import');
-    if (found.status !== 'previewed' || !found.rows_gz) throw conflict(`This import is already ${found.status}; upload the file again to import it.`);
-    const audit = { trustId: trust.id, ...actor, entityType: 'import', entityId: importId };
-    if (body.rows === 'none') {
-      const outcome: ImportOutcome = { status: 'cancelled', schoolsCreated: 0, blocksCreated: 0, roomsCreated: 0, roomsChanged: 0, roomsUnchanged: 0, roomsDeleted: 0, rowsRejected: 0 };
-      await trx.updateTable('register_imports').set({ status: 'cancelled', rows_gz: null, outcome: JSON.stringify(outcome) }).where('id', '=', importId).execute();
-      await recordAudit(trx, { ...audit, action: 'import.cancelled', summary: `Cancelled the import of ${found.file_name}; nothing was changed` });
+  return withConnection(pool, (db, client) =>
+    db.transaction().execute(async (trx) => {
+      const found = await trx
+        .selectFrom('register_imports')
+        .select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
+        .where('id', '=', importId)
+        .where('trust_id', '=', trust.id)
+        .forUpdate()
+        .executeTakeFirst();
+      if (!found) throw notFound('That import');
+      if (found.status !== 'previewed' || !found.rows_gz)
+        throw conflict(`This import is already ${found.status}; upload the file again to import it.`);
+      const audit = { trustId: trust.id, ...actor, entityType: 'import', entityId: importId };
+      if (body.rows === 'none') {
+        const outcome: ImportOutcome = {
+          status: 'cancelled',
+          schoolsCreated: 0,
+          blocksCreated: 0,
+          roomsCreated: 0,
+          roomsChanged: 0,
+          roomsUnchanged: 0,
+          roomsDeleted: 0,
+          rowsRejected: 0,
+        };
+        await trx
+          .updateTable('register_imports')
+          .set({ status: 'cancelled', rows_gz: null, outcome: JSON.stringify(outcome) })
+          .where('id', '=', importId)
+          .execute();
+        await recordAudit(trx, {
+          ...audit,
+          action: 'import.cancelled',
+          summary: `Cancelled the import of ${found.file_name}; nothing was changed`,
+        });
+        return outcome;
+      }
+      const mark = stepTimer('commit');
+      // One commit at a time per trust, so two imports cannot both pass the check below and then clash.
+      await sql`SELECT pg_advisory_xact_lock(hashtext(${`register:${trust.id}`}))`.execute(trx);
+      if (found.estate_fingerprint !== (await estateFingerprint(trx, trust))) {
+        throw conflict(
+          'The register has changed since this preview (someone edited, added or imported rooms). Upload the file again to see an up-to-date preview.',
+        );
+      }
+      const { plan, roomLines } = decodePlan(found.rows_gz);
+      mark('check the estate is as previewed and unpack the plan');
+      await assertWithinPlan(trx, trust.id, {
+        schools: plan.summary.schoolsToCreate,
+        rooms: plan.summary.roomsToCreate,
+      });
+      const { roomsDeleted } = await applyPlan(trx, client, trust.id, actor, plan, roomLines, body.deleteMissing);
+      mark('write schools, blocks, rooms and audit');
+      const outcome: ImportOutcome = {
+        status: 'committed',
+        schoolsCreated: plan.summary.schoolsToCreate,
+        blocksCreated: plan.summary.blocksToCreate,
+        roomsCreated: plan.summary.roomsToCreate,
+        roomsChanged: plan.summary.roomsToChange,
+        roomsUnchanged: plan.summary.roomsUnchanged,
+        roomsDeleted,
+        rowsRejected: plan.summary.rowsRejected,
+      };
+      await trx
+        .updateTable('register_imports')
+        .set({
+          status: 'committed',
+          rows_gz: null,
+          outcome: JSON.stringify(outcome),
+          committed_by_email: actor.actorEmail,
+          committed_at: sql<Date>`now()`,
+        })
+        .where('id', '=', importId)
+        .execute();
+      await recordAudit(trx, {
+        ...audit,
+        action: 'import.committed',
+        summary: `Imported ${found.file_name}: ${outcome.roomsCreated} rooms created, ${outcome.roomsChanged} changed, ${outcome.roomsDeleted} deleted, ${outcome.rowsRejected} rows rejected`,
+        after: outcome,
+      });
+      if (beforeCommit) await beforeCommit(trx);
       return outcome;
-    }
-    const mark = stepTimer('commit');
-    // One commit at a time per trust, so two imports cannot both pass the check below and then clash.
-    await sql`SELECT pg_advisory_xact_lock(hashtext(${`register:${trust.id}`}))`.execute(trx);
-    if (found.estate_fingerprint !== await estateFingerprint(trx, trust)) {
-      throw conflict('The register has changed since this preview (someone edited, added or imported rooms). Upload the file again to see an up-to-date preview.');
-    }
-    const { plan, roomLines } = decodePlan(found.rows_gz);
-    mark('check the estate is as previewed and unpack the plan');
-    await assertWithinPlan(trx, trust.id, { schools: plan.summary.schoolsToCreate, rooms: plan.summary.roomsToCreate });
-    const { roomsDeleted } = await applyPlan(trx, client, trust.id, actor, plan, roomLines, body.deleteMissing);
-    mark('write schools, blocks, rooms and audit');
-    const outcome: ImportOutcome = {
-      status: 'committed', schoolsCreated: plan.summary.schoolsToCreate, blocksCreated: plan.summary.blocksToCreate,
-      roomsCreated: plan.summary.roomsToCreate, roomsChanged: plan.summary.roomsToChange, roomsUnchanged: plan.summary.roomsUnchanged,
-      roomsDeleted, rowsRejected: plan.summary.rowsRejected,
-    };
-    await trx.updateTable('register_imports').set({
-      status: 'committed', rows_gz: null, outcome: JSON.stringify(outcome), committed_by_email: actor.actorEmail, committed_at: sql<Date>`now()`,
-    }).where('id', '=', importId).execute();
-    await recordAudit(trx, {
-      ...audit, action: 'import.committed',
-      summary: `Imported ${found.file_name}: ${outcome.roomsCreated} rooms created, ${outcome.roomsChanged} changed, ${outcome.roomsDeleted} deleted, ${outcome.rowsRejected} rows rejected`,
-      after: outcome,
-    });
-    if (beforeCommit) await beforeCommit(trx);
-    return outcome;
-  }));
+    }),
+  );
 }
 
 /** One line of the import history. */
@@ -212,25 +302,74 @@ export interface ImportHistoryItem {
 
 /** The trust's imports, newest first. */
 export async function listImports(db: Kysely<Database>, trustId: string, limit = 50): Promise<ImportHistoryItem[]> {
-  const rows = await db.selectFrom('register_imports')
-    .select(['id', 'file_name', 'file_kind', 'status', 'created_at', 'created_by_email', 'committed_at', 'summary', 'problem_count', 'outcome'])
-    .where('trust_id', '=', trustId).orderBy('created_at', 'desc').limit(limit).execute();
+  const rows = await db
+    .selectFrom('register_imports')
+    .select([
+      'id',
+      'file_name',
+      'file_kind',
+      'status',
+      'created_at',
+      'created_by_email',
+      'committed_at',
+      'summary',
+      'problem_count',
+      'outcome',
+    ])
+    .where('trust_id', '=', trustId)
+    .orderBy('created_at', 'desc')
+    .limit(limit)
+    .execute();
   return rows.map((r) => ({
-    id: r.id, fileName: r.file_name, fileKind: r.file_kind, status: r.status, createdAt: r.created_at.toISOString(),
-    createdByEmail: r.created_by_email, committedAt: r.committed_at?.toISOString() ?? null, summary: r.summary as ImportSummary,
-    problemCount: r.problem_count, outcome: (r.outcome as ImportOutcome | null) ?? null,
+    id: r.id,
+    fileName: r.file_name,
+    fileKind: r.file_kind,
+    status: r.status,
+    createdAt: r.created_at.toISOString(),
+    createdByEmail: r.created_by_email,
+    committedAt: r.committed_at?.toISOString() ?? null,
+    summary: r.summary as ImportSummary,
+    problemCount: r.problem_count,
+    outcome: (r.outcome as ImportOutcome | null) ?? null,
   }));
 }
 
 /** One import with its stored preview (problems and rooms missing from the file). */
 export async function getImport(db: Kysely<Database>, trustId: string, id: string) {
-  const r = await db.selectFrom('register_imports')
-    .select(['id', 'file_name', 'file_kind', 'status', 'created_at', 'created_by_email', 'committed_at', 'summary', 'problems', 'problem_count', 'missing_rooms', 'outcome', 'header'])
-    .where('trust_id', '=', trustId).where('id', '=', id).executeTakeFirst();
+  const r = await db
+    .selectFrom('register_imports')
+    .select([
+      'id',
+      'file_name',
+      'file_kind',
+      'status',
+      'created_at',
+      'created_by_email',
+      'committed_at',
+      'summary',
+      'problems',
+      'problem_count',
+      'missing_rooms',
+      'outcome',
+      'header',
+    ])
+    .where('trust_id', '=', trustId)
+    .where('id', '=', id)
+    .executeTakeFirst();
   if (!r) throw notFound('That import');
   return {
-    id: r.id, fileName: r.file_name, fileKind: r.file_kind, status: r.status, createdAt: r.created_at.toISOString(), createdByEmail: r.created_by_email,
-    committedAt: r.committed_at?.toISOString() ?? null, summary: r.summary as ImportSummary, problems: r.problems as unknown as ImportProblem[],
-    problemCount: r.problem_count, missingRooms: r.missing_rooms as unknown as ImportPlan['missingRooms'], outcome: r.outcome as ImportOutcome | null, header: r.header,
+    id: r.id,
+    fileName: r.file_name,
+    fileKind: r.file_kind,
+    status: r.status,
+    createdAt: r.created_at.toISOString(),
+    createdByEmail: r.created_by_email,
+    committedAt: r.committed_at?.toISOString() ?? null,
+    summary: r.summary as ImportSummary,
+    problems: r.problems as unknown as ImportProblem[],
+    problemCount: r.problem_count,
+    missingRooms: r.missing_rooms as unknown as ImportPlan['missingRooms'],
+    outcome: r.outcome as ImportOutcome | null,
+    header: r.header,
   };
 }

@@ -16,10 +16,16 @@ export interface ReadRegister {
   read: ReadRows;
 }
 
-const topText = (rows: SheetRow[]) => rows.slice(0, 15).map((r) => r.values.slice(0, 24).map((v) => cellText(v ?? null)));
+const topText = (rows: SheetRow[]) =>
+  rows.slice(0, 15).map((r) => r.values.slice(0, 24).map((v) => cellText(v ?? null)));
 
 /** Reads an .xlsx or .csv upload, finds its header and reads every data row (no database). */
-export async function readRegisterFile(buf: Buffer, kind: 'xlsx' | 'csv', saved: SavedMappings, options: ImportOptions = {}): Promise<ReadRegister> {
+export async function readRegisterFile(
+  buf: Buffer,
+  kind: 'xlsx' | 'csv',
+  saved: SavedMappings,
+  options: ImportOptions = {},
+): Promise<ReadRegister> {
   const sheets: AsyncIterable<SheetStream> = kind === 'xlsx' ? readXlsx(buf) : readCsv(buf);
   let firstTop: string[][] = [];
   for await (const sheet of sheets) {
@@ -60,7 +66,12 @@ export async function readRegisterFile(buf: Buffer, kind: 'xlsx' | 'csv', saved:
     for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);
     return { sheetName: sheet.name, header, topRows: topText(head), read: { rows, skipped } };
   }
-  throw new AppError(400, 'header_not_found',
-    `We could not find the header row (the row naming the columns, such as ${REGISTER_COLUMNS.slice(0, 5).map((c) => `"${c.header}"`).join(', ')}). Pick the header row, or start from our template.`,
-    { topRows: firstTop });
+  throw new AppError(
+    400,
+    'header_not_found',
+    `We could not find the header row (the row naming the columns, such as ${REGISTER_COLUMNS.slice(0, 5)
+      .map((c) => `"${c.header}"`)
+      .join(', ')}). Pick the header row, or start from our template.`,
+    { topRows: firstTop },
+  );
 }

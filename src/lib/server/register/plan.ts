@@ -7,7 +7,13 @@ import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 /** The trust's estate as it stands, reduced to what the import compares against. */
 export interface EstateSnapshot {
   schools: { id: string; name: string; phase: SchoolPhase }[];
-  blocks: { id: string; schoolId: string; name: string; yearBuilt: number | null; airPermeabilityM3hM2: number | null }[];
+  blocks: {
+    id: string;
+    schoolId: string;
+    name: string;
+    yearBuilt: number | null;
+    airPermeabilityM3hM2: number | null;
+  }[];
   rooms: { id: string; schoolId: string; blockId: string | null; fields: RoomFields }[];
   /** Region given to schools the import creates (the trust's most common one). */
   defaultClimateRegion: ClimateRegion;
@@ -32,9 +38,20 @@ export interface RoomWrite {
 /** Everything a commit would do, and the counts the preview shows. */
 export interface ImportPlan {
   newSchools: { key: string; name: string; phase: SchoolPhase; climateRegion: ClimateRegion }[];
-  newBlocks: { key: string; school: Ref; name: string; yearBuilt: number | null; airPermeabilityM3hM2: number | null }[];
+  newBlocks: {
+    key: string;
+    school: Ref;
+    name: string;
+    yearBuilt: number | null;
+    airPermeabilityM3hM2: number | null;
+  }[];
   schoolChanges: { id: string; name: string; before: { phase: SchoolPhase }; after: { phase: SchoolPhase } }[];
-  blockChanges: { id: string; name: string; before: Record<string, number | null>; after: Record<string, number | null> }[];
+  blockChanges: {
+    id: string;
+    name: string;
+    before: Record<string, number | null>;
+    after: Record<string, number | null>;
+  }[];
   roomWrites: RoomWrite[];
   missingRooms: { id: string; schoolName: string; code: string; name: string }[];
   problems: ImportProblem[];
@@ -61,8 +78,21 @@ export interface ImportSummary {
 export const nameKey = (name: string) => name.toLowerCase().replace(/\s+/g, ' ').trim();
 
 const ROOM_FIELDS: RoomFieldName[] = [
-  'code', 'name', 'use', 'floorAreaM2', 'ceilingHeightM', 'pupils', 'adults', 'ageGroup', 'orientationDeg',
-  'glazingAreaM2', 'openableAreaM2', 'windowType', 'ventilationType', 'mechanicalSupplyLps', 'notes',
+  'code',
+  'name',
+  'use',
+  'floorAreaM2',
+  'ceilingHeightM',
+  'pupils',
+  'adults',
+  'ageGroup',
+  'orientationDeg',
+  'glazingAreaM2',
+  'openableAreaM2',
+  'windowType',
+  'ventilationType',
+  'mechanicalSupplyLps',
+  'notes',
 ];
 const NULLABLE = new Set<RoomFieldName>(['orientationDeg', 'windowType', 'mechanicalSupplyLps', 'notes']);
 
@@ -89,8 +119,12 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const column = byField.get(field);
     const value = row.values[field];
     problems.push({
-      row: row.rowNumber, column: column?.header ?? columnOf(field).header, columnLetter: column?.letter ?? null,
-      value: value === null || value === undefined ? '' : String(value), severity, message,
+      row: row.rowNumber,
+      column: column?.header ?? columnOf(field).header,
+      columnLetter: column?.letter ?? null,
+      value: value === null || value === undefined ? '' : String(value),
+      severity,
+      message,
     });
   };
 
@@ -107,7 +141,10 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
 
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
-  const blockAttrs = new Map<string, { yearBuilt: number | null; airPermeabilityM3hM2: number | null; row: number; name: string }>();
+  const blockAttrs = new Map<
+    string,
+    { yearBuilt: number | null; airPermeabilityM3hM2: number | null; row: number; name: string }
+  >();
   const schoolNameOf = new Map<string, string>();
   for (const row of read.rows) {
     const school = row.values.school;
@@ -118,7 +155,13 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     if (typeof phase === 'string') {
       const seen = phaseOf.get(sk);
       if (!seen) phaseOf.set(sk, { phase: phase as SchoolPhase, row: row.rowNumber });
-      else if (seen.phase !== phase) problem(row, 'schoolPhase', 'warning', `School phase differs from row ${seen.row}; the phase on row ${seen.row} is used.`);
+      else if (seen.phase !== phase)
+        problem(
+          row,
+          'schoolPhase',
+          'warning',
+          `School phase differs from row ${seen.row}; the phase on row ${seen.row} is used.`,
+        );
     }
     const block = row.values.block;
     if (typeof block === 'string') {
@@ -128,8 +171,20 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       const seen = blockAttrs.get(bk);
       if (!seen) blockAttrs.set(bk, { yearBuilt: year, airPermeabilityM3hM2: perm, row: row.rowNumber, name: block });
       else {
-        if (year !== null && seen.yearBuilt !== null && year !== seen.yearBuilt) problem(row, 'yearBuilt', 'warning', `Year built differs from row ${seen.row} for the same block; the value on row ${seen.row} is used.`);
-        if (perm !== null && seen.airPermeabilityM3hM2 !== null && !sameValue(perm, seen.airPermeabilityM3hM2)) problem(row, 'airPermeabilityM3hM2', 'warning', `Air permeability differs from row ${seen.row} for the same block; the value on row ${seen.row} is used.`);
+        if (year !== null && seen.yearBuilt !== null && year !== seen.yearBuilt)
+          problem(
+            row,
+            'yearBuilt',
+            'warning',
+            `Year built differs from row ${seen.row} for the same block; the value on row ${seen.row} is used.`,
+          );
+        if (perm !== null && seen.airPermeabilityM3hM2 !== null && !sameValue(perm, seen.airPermeabilityM3hM2))
+          problem(
+            row,
+            'airPermeabilityM3hM2',
+            'warning',
+            `Air permeability differs from row ${seen.row} for the same block; the value on row ${seen.row} is used.`,
+          );
         seen.yearBuilt ??= year;
         seen.airPermeabilityM3hM2 ??= perm;
       }
@@ -164,25 +219,50 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
     const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
-    if (!existingSchool && estate.canCreateSchools === false) error('school', `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`);
-    else if (!existingSchool && !phase) error('schoolPhase', `"${schoolName}" is a new school; give its phase (e.g. Primary) so Airtally can create it.`);
+    if (!existingSchool && estate.canCreateSchools === false)
+      error(
+        'school',
+        `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`,
+      );
+    else if (!existingSchool && !phase)
+      error('schoolPhase', `"${schoolName}" is a new school; give its phase (e.g. Primary) so Airtally can create it.`);
     if (!existingSchool && phase && estate.canCreateSchools !== false && !warnedNewSchool.has(sk)) {
       warnedNewSchool.add(sk);
-      problem(row, 'school', 'warning', `"${schoolName}" is not in Airtally yet and will be created (climate region set to the trust's usual one; check it on the school page).`);
+      problem(
+        row,
+        'school',
+        'warning',
+        `"${schoolName}" is not in Airtally yet and will be created (climate region set to the trust's usual one; check it on the school page).`,
+      );
     }
     const dupKey = `${sk}|${code}`;
     const first = firstRowOfCode.get(dupKey);
-    if (first !== undefined) error('code', `Room code "${code}" appears again for ${schoolName} (first on row ${first}); room codes must be unique within a school.`);
+    if (first !== undefined)
+      error(
+        'code',
+        `Room code "${code}" appears again for ${schoolName} (first on row ${first}); room codes must be unique within a school.`,
+      );
     else firstRowOfCode.set(dupKey, row.rowNumber);
     if (existingSchool) codesInFile.add(`${existingSchool.id}|${code}`);
 
-    const existingRoom = existingSchool ? roomsByKey.get(`${existingSchool.id}|${code}`) ?? null : null;
+    const existingRoom = existingSchool ? (roomsByKey.get(`${existingSchool.id}|${code}`) ?? null) : null;
     const blockName = typeof row.values.block === 'string' ? row.values.block : null;
     const blockKey = blockName ? `${sk}|${keyOf(blockName)}` : null;
-    const existingBlock = blockName && existingSchool ? blocksByKey.get(`${existingSchool.id}|${keyOf(blockName)}`) ?? null : null;
+    const existingBlock =
+      blockName && existingSchool ? (blocksByKey.get(`${existingSchool.id}|${keyOf(blockName)}`) ?? null) : null;
 
     // Start from the room as it stands (columns missing from the file keep their values), else from blanks.
-    const draft: Record<string, unknown> = existingRoom ? { ...existingRoom.fields } : { name: '', pupils: 0, adults: 0, orientationDeg: null, windowType: null, mechanicalSupplyLps: null, notes: null };
+    const draft: Record<string, unknown> = existingRoom
+      ? { ...existingRoom.fields }
+      : {
+          name: '',
+          pupils: 0,
+          adults: 0,
+          orientationDeg: null,
+          windowType: null,
+          mechanicalSupplyLps: null,
+          notes: null,
+        };
     for (const field of ROOM_FIELDS) {
       if (!has(field)) continue;
       const value = row.values[field];
@@ -198,7 +278,12 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       }
       if (draft.ventilationType === undefined) {
         draft.ventilationType = 'natural_single_sided';
-        problem(row, 'ventilationType', 'warning', 'Ventilation type is blank; the room is recorded as naturally ventilated from one side.');
+        problem(
+          row,
+          'ventilationType',
+          'warning',
+          'Ventilation type is blank; the room is recorded as naturally ventilated from one side.',
+        );
       }
       if (draft.ageGroup === undefined) {
         const fromPhase = ageGroupForPhase(phase);
@@ -206,7 +291,8 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       }
       if (draft.glazingAreaM2 === undefined) {
         draft.glazingAreaM2 = typeof draft.openableAreaM2 === 'number' ? draft.openableAreaM2 : 0;
-        if (typeof draft.openableAreaM2 === 'number') problem(row, 'glazingAreaM2', 'warning', 'Glazing area is blank; it is taken as equal to the openable area.');
+        if (typeof draft.openableAreaM2 === 'number')
+          problem(row, 'glazingAreaM2', 'warning', 'Glazing area is blank; it is taken as equal to the openable area.');
       }
       draft.openableAreaM2 ??= 0;
     }
@@ -231,8 +317,14 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const fields = parsed.data;
     const school: Ref = existingSchool ? { id: existingSchool.id } : { newKey: sk };
     const block: Ref | null = has('block')
-      ? blockKey ? (existingBlock ? { id: existingBlock.id } : { newKey: blockKey }) : null
-      : existingRoom?.blockId ? { id: existingRoom.blockId } : null;
+      ? blockKey
+        ? existingBlock
+          ? { id: existingBlock.id }
+          : { newKey: blockKey }
+        : null
+      : existingRoom?.blockId
+        ? { id: existingRoom.blockId }
+        : null;
     acceptedSchools.add(sk);
     if (blockKey && !existingBlock) acceptedBlocks.add(blockKey);
 
@@ -255,7 +347,15 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
         unchanged++;
         continue;
       }
-      writes.push({ rowNumber: row.rowNumber, roomId: existingRoom.id, school, block, fields, before: changedBefore, after: changedAfter });
+      writes.push({
+        rowNumber: row.rowNumber,
+        roomId: existingRoom.id,
+        school,
+        block,
+        fields,
+        before: changedBefore,
+        after: changedAfter,
+      });
     } else {
       writes.push({ rowNumber: row.rowNumber, roomId: null, school, block, fields, before: null, after: fields });
     }
@@ -278,8 +378,11 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const existingSchool = schoolsByKey.get(sk);
     const attrs = blockAttrs.get(bk);
     newBlocks.push({
-      key: bk, school: existingSchool ? { id: existingSchool.id } : { newKey: sk }, name: attrs?.name ?? bk,
-      yearBuilt: attrs?.yearBuilt ?? null, airPermeabilityM3hM2: attrs?.airPermeabilityM3hM2 ?? null,
+      key: bk,
+      school: existingSchool ? { id: existingSchool.id } : { newKey: sk },
+      name: attrs?.name ?? bk,
+      yearBuilt: attrs?.yearBuilt ?? null,
+      airPermeabilityM3hM2: attrs?.airPermeabilityM3hM2 ?? null,
     });
   }
   const blockChanges: ImportPlan['blockChanges'] = [];
@@ -294,7 +397,11 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       before.yearBuilt = block.yearBuilt;
       after.yearBuilt = attrs.yearBuilt;
     }
-    if (has('airPermeabilityM3hM2') && attrs.airPermeabilityM3hM2 !== null && !sameValue(attrs.airPermeabilityM3hM2, block.airPermeabilityM3hM2)) {
+    if (
+      has('airPermeabilityM3hM2') &&
+      attrs.airPermeabilityM3hM2 !== null &&
+      !sameValue(attrs.airPermeabilityM3hM2, block.airPermeabilityM3hM2)
+    ) {
       before.airPermeabilityM3hM2 = block.airPermeabilityM3hM2;
       after.airPermeabilityM3hM2 = attrs.airPermeabilityM3hM2;
     }
@@ -305,11 +412,22 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
   const schoolNames = new Map(estate.schools.map((s) => [s.id, s.name]));
   const missingRooms = estate.rooms
     .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.has(`${r.schoolId}|${r.fields.code}`))
-    .map((r) => ({ id: r.id, schoolName: schoolNames.get(r.schoolId) ?? '', code: r.fields.code, name: r.fields.name }));
+    .map((r) => ({
+      id: r.id,
+      schoolName: schoolNames.get(r.schoolId) ?? '',
+      code: r.fields.code,
+      name: r.fields.name,
+    }));
 
   problems.sort((a, b) => a.row - b.row);
   return {
-    newSchools, newBlocks, schoolChanges, blockChanges, roomWrites: writes, missingRooms, problems,
+    newSchools,
+    newBlocks,
+    schoolChanges,
+    blockChanges,
+    roomWrites: writes,
+    missingRooms,
+    problems,
     summary: {
       rowsRead: read.rows.length + read.skipped,
       rowsSkipped: read.skipped,

@@ -22,7 +22,9 @@ export interface SheetStream {
 }
 
 export const tooManyRows = () =>
-  badRequest(`This file has more than ${MAX_ROWS.toLocaleString('en-GB')} rows. Split it into smaller files (for example one per school) and import them one by one.`);
+  badRequest(
+    `This file has more than ${MAX_ROWS.toLocaleString('en-GB')} rows. Split it into smaller files (for example one per school) and import them one by one.`,
+  );
 
 /** Copies each merged range's top-left value into the rest of the range, row by row as rows arrive. */
 class MergeFiller {
@@ -51,11 +53,18 @@ export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
   const facts = await inspectXlsx(buf);
   for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > MAX_ROWS + 50) throw tooManyRows();
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([buf]), {
-    sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'emit',
+    sharedStrings: 'cache',
+    styles: 'cache',
+    hyperlinks: 'ignore',
+    worksheets: 'emit',
+    entries: 'emit',
   });
   try {
     for await (const worksheet of reader) {
-      const ws = worksheet as unknown as { id: number; name?: string } & AsyncIterable<{ number: number; values: unknown[] }>;
+      const ws = worksheet as unknown as { id: number; name?: string } & AsyncIterable<{
+        number: number;
+        values: unknown[];
+      }>;
       const merges = facts.sheets.get(`xl/worksheets/sheet${ws.id}.xml`)?.merges ?? [];
       const filler = merges.length ? new MergeFiller(merges) : null;
       async function* rows(): AsyncGenerator<SheetRow> {
@@ -76,14 +85,18 @@ export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
     }
   } catch (error) {
     if (error instanceof Error && error.name === 'AppError') throw error;
-    throw badRequest(`We could not read this workbook (${error instanceof Error ? error.message : 'unknown reason'}). Open it in your spreadsheet program, save it again as .xlsx and retry.`);
+    throw badRequest(
+      `We could not read this workbook (${error instanceof Error ? error.message : 'unknown reason'}). Open it in your spreadsheet program, save it again as .xlsx and retry.`,
+    );
   }
 }
 
 /** Decodes CSV bytes: UTF-8 (with or without BOM), falling back to Windows-1252 for older exports. */
 export function decodeCsv(buf: Buffer): string {
   if (buf.subarray(0, 512).includes(0)) {
-    throw badRequest('This file is not a CSV text file (it contains binary data). If it is a workbook, give it an .xlsx name.');
+    throw badRequest(
+      'This file is not a CSV text file (it contains binary data). If it is a workbook, give it an .xlsx name.',
+    );
   }
   let text: string;
   try {

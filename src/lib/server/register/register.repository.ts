@@ -16,30 +16,67 @@ type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /** Room columns in the order the bulk writer stages them. */
 const ROOM_COLUMNS = [
-  ['code', 'text', 'code'], ['name', 'text', 'name'], ['use', 'text', 'use'], ['floor_area_m2', 'float8', 'floorAreaM2'],
-  ['ceiling_height_m', 'float8', 'ceilingHeightM'], ['pupils', 'int4', 'pupils'], ['adults', 'int4', 'adults'], ['age_group', 'text', 'ageGroup'],
-  ['orientation_deg', 'int4', 'orientationDeg'], ['glazing_area_m2', 'float8', 'glazingAreaM2'], ['openable_area_m2', 'float8', 'openableAreaM2'],
-  ['window_type', 'text', 'windowType'], ['ventilation_type', 'text', 'ventilationType'], ['mechanical_supply_lps', 'float8', 'mechanicalSupplyLps'],
+  ['code', 'text', 'code'],
+  ['name', 'text', 'name'],
+  ['use', 'text', 'use'],
+  ['floor_area_m2', 'float8', 'floorAreaM2'],
+  ['ceiling_height_m', 'float8', 'ceilingHeightM'],
+  ['pupils', 'int4', 'pupils'],
+  ['adults', 'int4', 'adults'],
+  ['age_group', 'text', 'ageGroup'],
+  ['orientation_deg', 'int4', 'orientationDeg'],
+  ['glazing_area_m2', 'float8', 'glazingAreaM2'],
+  ['openable_area_m2', 'float8', 'openableAreaM2'],
+  ['window_type', 'text', 'windowType'],
+  ['ventilation_type', 'text', 'ventilationType'],
+  ['mechanical_supply_lps', 'float8', 'mechanicalSupplyLps'],
   ['notes', 'text', 'notes'],
 ] as const satisfies readonly (readonly [string, string, keyof RoomFields])[];
 
 /** Database row → the room's register fields. */
 export function roomFieldsOf(r: {
-  code: string; name: string; use: string; floor_area_m2: number; ceiling_height_m: number; pupils: number; adults: number; age_group: string;
-  orientation_deg: number | null; glazing_area_m2: number; openable_area_m2: number; window_type: string | null; ventilation_type: string;
-  mechanical_supply_lps: number | null; notes: string | null;
+  code: string;
+  name: string;
+  use: string;
+  floor_area_m2: number;
+  ceiling_height_m: number;
+  pupils: number;
+  adults: number;
+  age_group: string;
+  orientation_deg: number | null;
+  glazing_area_m2: number;
+  openable_area_m2: number;
+  window_type: string | null;
+  ventilation_type: string;
+  mechanical_supply_lps: number | null;
+  notes: string | null;
 }): RoomFields {
   return {
-    code: r.code, name: r.name, use: r.use as RoomFields['use'], floorAreaM2: r.floor_area_m2, ceilingHeightM: r.ceiling_height_m,
-    pupils: r.pupils, adults: r.adults, ageGroup: r.age_group as RoomFields['ageGroup'], orientationDeg: r.orientation_deg,
-    glazingAreaM2: r.glazing_area_m2, openableAreaM2: r.openable_area_m2, windowType: r.window_type as RoomFields['windowType'],
-    ventilationType: r.ventilation_type as RoomFields['ventilationType'], mechanicalSupplyLps: r.mechanical_supply_lps, notes: r.notes,
+    code: r.code,
+    name: r.name,
+    use: r.use as RoomFields['use'],
+    floorAreaM2: r.floor_area_m2,
+    ceilingHeightM: r.ceiling_height_m,
+    pupils: r.pupils,
+    adults: r.adults,
+    ageGroup: r.age_group as RoomFields['ageGroup'],
+    orientationDeg: r.orientation_deg,
+    glazingAreaM2: r.glazing_area_m2,
+    openableAreaM2: r.openable_area_m2,
+    windowType: r.window_type as RoomFields['windowType'],
+    ventilationType: r.ventilation_type as RoomFields['ventilationType'],
+    mechanicalSupplyLps: r.mechanical_supply_lps,
+    notes: r.notes,
   };
 }
 
 /** The trust's schools, blocks and rooms as the import compares against them. */
 export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSnapshot> {
-  const schools = await db.selectFrom('schools').select(['id', 'name', 'phase', 'climate_region']).where(inTrustScope(trust)).execute();
+  const schools = await db
+    .selectFrom('schools')
+    .select(['id', 'name', 'phase', 'climate_region'])
+    .where(inTrustScope(trust))
+    .execute();
   const ids = schools.map((s) => s.id);
   const blocks = ids.length ? await db.selectFrom('blocks').selectAll().where('school_id', 'in', ids).execute() : [];
   const rooms = ids.length ? await db.selectFrom('rooms').selectAll().where('school_id', 'in', ids).execute() : [];
@@ -48,7 +85,13 @@ export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSn
   const defaultClimateRegion = ([...regionCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'midlands') as ClimateRegion;
   return {
     schools: schools.map((s) => ({ id: s.id, name: s.name, phase: s.phase as SchoolPhase })),
-    blocks: blocks.map((b) => ({ id: b.id, schoolId: b.school_id, name: b.name, yearBuilt: b.year_built, airPermeabilityM3hM2: b.air_permeability_m3h_m2 })),
+    blocks: blocks.map((b) => ({
+      id: b.id,
+      schoolId: b.school_id,
+      name: b.name,
+      yearBuilt: b.year_built,
+      airPermeabilityM3hM2: b.air_permeability_m3h_m2,
+    })),
     rooms: rooms.map((r) => ({ id: r.id, schoolId: r.school_id, blockId: r.block_id, fields: roomFieldsOf(r) })),
     defaultClimateRegion,
     canCreateSchools: trust.schoolIds === null,
@@ -71,23 +114,49 @@ export async function estateFingerprint(db: Db, trust: ActiveTrust): Promise<str
 
 /** The trust's remembered header → field mappings. */
 export async function loadSavedMappings(db: Db, trustId: string): Promise<SavedMappings> {
-  const rows = await db.selectFrom('register_column_mappings').select(['header_key', 'field']).where('trust_id', '=', trustId).execute();
+  const rows = await db
+    .selectFrom('register_column_mappings')
+    .select(['header_key', 'field'])
+    .where('trust_id', '=', trustId)
+    .execute();
   return new Map(rows.map((r) => [r.header_key, r.field as RegisterField]));
 }
 
 /** Remembers the user's mapping of these headers for the trust's next import. */
-export async function saveMappings(db: Db, trustId: string, pairs: { headerKey: string; field: RegisterField }[]): Promise<void> {
-  const values = pairs.filter((p) => p.headerKey !== '').map((p) => ({ trust_id: trustId, header_key: p.headerKey, field: p.field }));
+export async function saveMappings(
+  db: Db,
+  trustId: string,
+  pairs: { headerKey: string; field: RegisterField }[],
+): Promise<void> {
+  const values = pairs
+    .filter((p) => p.headerKey !== '')
+    .map((p) => ({ trust_id: trustId, header_key: p.headerKey, field: p.field }));
   if (!values.length) return;
-  await db.insertInto('register_column_mappings').values(values)
-    .onConflict((oc) => oc.columns(['trust_id', 'header_key']).doUpdateSet({ field: (eb) => eb.ref('excluded.field'), updated_at: sql`now()` }))
+  await db
+    .insertInto('register_column_mappings')
+    .values(values)
+    .onConflict((oc) =>
+      oc
+        .columns(['trust_id', 'header_key'])
+        .doUpdateSet({ field: (eb) => eb.ref('excluded.field'), updated_at: sql`now()` }),
+    )
     .execute();
 }
 
 const AUDIT_CHUNK = 5000;
 
 /** The columns of a staged room write, in the order of its COPY line (see stagedRoomLine). */
-const STAGED_COLUMNS = ['row_number', 'room_id', 'school_id', 'school_key', 'block_id', 'block_key', ...ROOM_COLUMNS.map(([c]) => c), 'before', 'after'];
+const STAGED_COLUMNS = [
+  'row_number',
+  'room_id',
+  'school_id',
+  'school_key',
+  'block_id',
+  'block_key',
+  ...ROOM_COLUMNS.map(([c]) => c),
+  'before',
+  'after',
+];
 
 /**
  * One room write as a line of COPY text for the commit's staging table: the row number, the room
@@ -96,9 +165,12 @@ const STAGED_COLUMNS = ['row_number', 'room_id', 'school_id', 'school_key', 'blo
  */
 export function stagedRoomLine(w: RoomWrite): string {
   const values: (string | number | null)[] = [
-    w.rowNumber, w.roomId,
-    'id' in w.school ? w.school.id : null, 'newKey' in w.school ? w.school.newKey : null,
-    w.block && 'id' in w.block ? w.block.id : null, w.block && 'newKey' in w.block ? w.block.newKey : null,
+    w.rowNumber,
+    w.roomId,
+    'id' in w.school ? w.school.id : null,
+    'newKey' in w.school ? w.school.newKey : null,
+    w.block && 'id' in w.block ? w.block.id : null,
+    w.block && 'newKey' in w.block ? w.block.newKey : null,
   ];
   for (const [, , key] of ROOM_COLUMNS) values.push(w.fields[key] as string | number | null);
   values.push(w.roomId ? JSON.stringify(w.before) : null, w.roomId ? JSON.stringify(w.after) : null);
@@ -114,47 +186,109 @@ export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems'>;
  * and applied from there by a few set-based statements, never row by row.
  */
 export async function applyPlan(
-  trx: Transaction<Database>, client: pg.PoolClient, trustId: string, actor: Actor, plan: StoredPlan, roomLines: Buffer, deleteMissing: boolean,
+  trx: Transaction<Database>,
+  client: pg.PoolClient,
+  trustId: string,
+  actor: Actor,
+  plan: StoredPlan,
+  roomLines: Buffer,
+  deleteMissing: boolean,
 ): Promise<{ roomsDeleted: number }> {
   const audit: AuditEntry[] = [];
   const base = { trustId, ...actor };
   const schoolIds = new Map<string, string>();
   const blockIds = new Map<string, string>();
-  const resolve = (ref: Ref, ids: Map<string, string>) => ('id' in ref ? ref.id : ids.get(ref.newKey) ?? null);
+  const resolve = (ref: Ref, ids: Map<string, string>) => ('id' in ref ? ref.id : (ids.get(ref.newKey) ?? null));
 
   if (plan.newSchools.length) {
-    const created = await trx.insertInto('schools')
-      .values(plan.newSchools.map((s) => ({ trust_id: trustId, name: s.name, phase: s.phase, climate_region: s.climateRegion })))
-      .returning(['id', 'name']).execute();
+    const created = await trx
+      .insertInto('schools')
+      .values(
+        plan.newSchools.map((s) => ({
+          trust_id: trustId,
+          name: s.name,
+          phase: s.phase,
+          climate_region: s.climateRegion,
+        })),
+      )
+      .returning(['id', 'name'])
+      .execute();
     const idByName = new Map(created.map((r) => [r.name, r.id]));
     for (const s of plan.newSchools) {
       const id = idByName.get(s.name) ?? null;
       if (id) schoolIds.set(s.key, id);
-      audit.push({ ...base, action: 'school.created', entityType: 'school', entityId: id, summary: `Created school ${s.name} from a register import`, after: s });
+      audit.push({
+        ...base,
+        action: 'school.created',
+        entityType: 'school',
+        entityId: id,
+        summary: `Created school ${s.name} from a register import`,
+        after: s,
+      });
     }
   }
   for (const c of plan.schoolChanges) {
     await trx.updateTable('schools').set({ phase: c.after.phase }).where('id', '=', c.id).execute();
-    audit.push({ ...base, action: 'school.updated', entityType: 'school', entityId: c.id, summary: `Changed the phase of ${c.name}`, before: c.before, after: c.after });
+    audit.push({
+      ...base,
+      action: 'school.updated',
+      entityType: 'school',
+      entityId: c.id,
+      summary: `Changed the phase of ${c.name}`,
+      before: c.before,
+      after: c.after,
+    });
   }
-  const blocksToCreate = plan.newBlocks.map((b) => ({ b, schoolId: resolve(b.school, schoolIds) })).filter((x) => x.schoolId);
+  const blocksToCreate = plan.newBlocks
+    .map((b) => ({ b, schoolId: resolve(b.school, schoolIds) }))
+    .filter((x) => x.schoolId);
   if (blocksToCreate.length) {
-    const created = await trx.insertInto('blocks')
-      .values(blocksToCreate.map(({ b, schoolId }) => ({ school_id: schoolId as string, name: b.name, year_built: b.yearBuilt, air_permeability_m3h_m2: b.airPermeabilityM3hM2 })))
-      .returning(['id', 'school_id', 'name']).execute();
+    const created = await trx
+      .insertInto('blocks')
+      .values(
+        blocksToCreate.map(({ b, schoolId }) => ({
+          school_id: schoolId as string,
+          name: b.name,
+          year_built: b.yearBuilt,
+          air_permeability_m3h_m2: b.airPermeabilityM3hM2,
+        })),
+      )
+      .returning(['id', 'school_id', 'name'])
+      .execute();
     const idByKey = new Map(created.map((r) => [`${r.school_id}|${r.name}`, r.id]));
     for (const { b, schoolId } of blocksToCreate) {
       const id = idByKey.get(`${schoolId}|${b.name}`) ?? null;
       if (id) blockIds.set(b.key, id);
-      audit.push({ ...base, action: 'block.created', entityType: 'block', entityId: id, summary: `Created block ${b.name} from a register import`, after: b });
+      audit.push({
+        ...base,
+        action: 'block.created',
+        entityType: 'block',
+        entityId: id,
+        summary: `Created block ${b.name} from a register import`,
+        after: b,
+      });
     }
   }
   for (const c of plan.blockChanges) {
-    await trx.updateTable('blocks').set({
-      ...(c.after.yearBuilt !== undefined ? { year_built: c.after.yearBuilt } : {}),
-      ...(c.after.airPermeabilityM3hM2 !== undefined ? { air_permeability_m3h_m2: c.after.airPermeabilityM3hM2 } : {}),
-    }).where('id', '=', c.id).execute();
-    audit.push({ ...base, action: 'block.updated', entityType: 'block', entityId: c.id, summary: `Changed block ${c.name}`, before: c.before, after: c.after });
+    await trx
+      .updateTable('blocks')
+      .set({
+        ...(c.after.yearBuilt !== undefined ? { year_built: c.after.yearBuilt } : {}),
+        ...(c.after.airPermeabilityM3hM2 !== undefined
+          ? { air_permeability_m3h_m2: c.after.airPermeabilityM3hM2 }
+          : {}),
+      })
+      .where('id', '=', c.id)
+      .execute();
+    audit.push({
+      ...base,
+      action: 'block.updated',
+      entityType: 'block',
+      entityId: c.id,
+      summary: `Changed block ${c.name}`,
+      before: c.before,
+      after: c.after,
+    });
   }
 
   if (roomLines.length > 0) {
@@ -173,7 +307,9 @@ export async function applyPlan(
     const pick = sql.raw(roomColumns.map((c) => `r.${c}`).join(', '));
     if (plan.summary.roomsToCreate > 0) {
       await sql`INSERT INTO rooms (id, school_id, block_id, ${sql.raw(roomColumns.join(', '))})
-        SELECT r.id, coalesce(r.school_id, s.id), coalesce(r.block_id, b.id), ${pick} FROM ${resolved} WHERE r.room_id IS NULL`.execute(trx);
+        SELECT r.id, coalesce(r.school_id, s.id), coalesce(r.block_id, b.id), ${pick} FROM ${resolved} WHERE r.room_id IS NULL`.execute(
+        trx,
+      );
       const roomJson = sql.raw(`jsonb_build_object(${ROOM_COLUMNS.map(([c, , key]) => `'${key}', ${c}`).join(', ')})`);
       await sql`INSERT INTO audit_events (trust_id, actor_user_id, actor_email, action, entity_type, entity_id, summary, after)
         SELECT ${trustId}, ${actor.actorUserId}, ${actor.actorEmail}, 'room.created', 'room', id::text,
@@ -199,10 +335,18 @@ export async function applyPlan(
     const deleted = await trx.deleteFrom('rooms').where('id', 'in', ids).returning(['id', 'code']).execute();
     roomsDeleted = deleted.length;
     for (const r of plan.missingRooms) {
-      audit.push({ ...base, action: 'room.deleted', entityType: 'room', entityId: r.id, summary: `Deleted room ${r.code} of ${r.schoolName}: not in the imported register`, before: r });
+      audit.push({
+        ...base,
+        action: 'room.deleted',
+        entityType: 'room',
+        entityId: r.id,
+        summary: `Deleted room ${r.code} of ${r.schoolName}: not in the imported register`,
+        before: r,
+      });
     }
   }
-  for (let start = 0; start < audit.length; start += AUDIT_CHUNK) await recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK));
+  for (let start = 0; start < audit.length; start += AUDIT_CHUNK)
+    await recordAuditInBulk(trx, audit.slice(start, start + AUDIT_CHUNK));
   return { roomsDeleted };
 }
 
@@ -224,18 +368,43 @@ async function recordAuditInBulk(trx: Transaction<Database>, entries: AuditEntry
 
 /** Every room of the trust as a register record, ordered by school, block and room code (for export). */
 export async function listRegisterRecords(db: Db, trust: ActiveTrust): Promise<import('./workbook').RegisterRecord[]> {
-  const rows = await db.selectFrom('rooms')
+  const rows = await db
+    .selectFrom('rooms')
     .innerJoin('schools', 'schools.id', 'rooms.school_id')
     .leftJoin('blocks', 'blocks.id', 'rooms.block_id')
     .where(inTrustScope(trust))
     .selectAll('rooms')
-    .select(['schools.name as school_name', 'schools.phase as school_phase', 'blocks.name as block_name', 'blocks.year_built', 'blocks.air_permeability_m3h_m2'])
-    .orderBy('schools.name').orderBy('blocks.name').orderBy('rooms.code')
+    .select([
+      'schools.name as school_name',
+      'schools.phase as school_phase',
+      'blocks.name as block_name',
+      'blocks.year_built',
+      'blocks.air_permeability_m3h_m2',
+    ])
+    .orderBy('schools.name')
+    .orderBy('blocks.name')
+    .orderBy('rooms.code')
     .execute();
   return rows.map((r) => ({
-    school: r.school_name, schoolPhase: r.school_phase, block: r.block_name, yearBuilt: r.year_built, code: r.code, name: r.name, use: r.use,
-    floorAreaM2: r.floor_area_m2, ceilingHeightM: r.ceiling_height_m, pupils: r.pupils, adults: r.adults, ageGroup: r.age_group,
-    orientationDeg: r.orientation_deg, glazingAreaM2: r.glazing_area_m2, openableAreaM2: r.openable_area_m2, windowType: r.window_type,
-    ventilationType: r.ventilation_type, mechanicalSupplyLps: r.mechanical_supply_lps, airPermeabilityM3hM2: r.air_permeability_m3h_m2, notes: r.notes,
+    school: r.school_name,
+    schoolPhase: r.school_phase,
+    block: r.block_name,
+    yearBuilt: r.year_built,
+    code: r.code,
+    name: r.name,
+    use: r.use,
+    floorAreaM2: r.floor_area_m2,
+    ceilingHeightM: r.ceiling_height_m,
+    pupils: r.pupils,
+    adults: r.adults,
+    ageGroup: r.age_group,
+    orientationDeg: r.orientation_deg,
+    glazingAreaM2: r.glazing_area_m2,
+    openableAreaM2: r.openable_area_m2,
+    windowType: r.window_type,
+    ventilationType: r.ventilation_type,
+    mechanicalSupplyLps: r.mechanical_supply_lps,
+    airPermeabilityM3hM2: r.air_permeability_m3h_m2,
+    notes: r.notes,
   }));
 }

@@ -6,8 +6,16 @@ import { assertWithinPlan } from '../billing/plan-limits';
 import { inTrustScope } from '../estate/estate.repository';
 import { AppError, badRequest, conflict, notFound } from '../http/errors';
 import {
-  physicalChecks, RoomFieldsSchema, type BlockCreate, type BlockPatch, type FieldProblem, type RoomBulk, type RoomCreate, type RoomFields,
-  type RoomPatch, type SchoolPatch,
+  physicalChecks,
+  RoomFieldsSchema,
+  type BlockCreate,
+  type BlockPatch,
+  type FieldProblem,
+  type RoomBulk,
+  type RoomCreate,
+  type RoomFields,
+  type RoomPatch,
+  type SchoolPatch,
 } from './register.schemas';
 import { roomFieldsOf } from './register.repository';
 
@@ -43,19 +51,38 @@ export function checkRoom(room: RoomFields): FieldProblem[] {
 }
 
 async function schoolInScope(db: Kysely<Database> | Transaction<Database>, trust: ActiveTrust, schoolId: string) {
-  const school = await db.selectFrom('schools').select(['id', 'name']).where(inTrustScope(trust)).where('schools.id', '=', schoolId).executeTakeFirst();
+  const school = await db
+    .selectFrom('schools')
+    .select(['id', 'name'])
+    .where(inTrustScope(trust))
+    .where('schools.id', '=', schoolId)
+    .executeTakeFirst();
   if (!school) throw notFound('That school');
   return school;
 }
 
-async function blockOfSchool(db: Kysely<Database> | Transaction<Database>, schoolId: string, blockId: string | null | undefined) {
+async function blockOfSchool(
+  db: Kysely<Database> | Transaction<Database>,
+  schoolId: string,
+  blockId: string | null | undefined,
+) {
   if (!blockId) return;
-  const block = await db.selectFrom('blocks').select('id').where('id', '=', blockId).where('school_id', '=', schoolId).executeTakeFirst();
-  if (!block) throw badRequest('That block is not part of the room\'s school.');
+  const block = await db
+    .selectFrom('blocks')
+    .select('id')
+    .where('id', '=', blockId)
+    .where('school_id', '=', schoolId)
+    .executeTakeFirst();
+  if (!block) throw badRequest("That block is not part of the room's school.");
 }
 
 async function roomInScope(db: Kysely<Database> | Transaction<Database>, trust: ActiveTrust, id: string, lock = false) {
-  let q = db.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').selectAll('rooms').where(inTrustScope(trust)).where('rooms.id', '=', id);
+  let q = db
+    .selectFrom('rooms')
+    .innerJoin('schools', 'schools.id', 'rooms.school_id')
+    .selectAll('rooms')
+    .where(inTrustScope(trust))
+    .where('rooms.id', '=', id);
   if (lock) q = q.forUpdate();
   const room = await q.executeTakeFirst();
   if (!room) throw notFound('That room');
@@ -70,8 +97,20 @@ export async function createRoom(db: Kysely<Database>, trust: ActiveTrust, actor
     await schoolInScope(trx, trust, schoolId);
     await blockOfSchool(trx, schoolId, blockId);
     await assertWithinPlan(trx, trust.id, { rooms: 1 });
-    const { id } = await trx.insertInto('rooms').values({ school_id: schoolId, block_id: blockId, ...roomColumns(fields) } as never).returning('id').executeTakeFirstOrThrow();
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'room.created', entityType: 'room', entityId: id, summary: `Created room ${fields.code}`, after: input });
+    const { id } = await trx
+      .insertInto('rooms')
+      .values({ school_id: schoolId, block_id: blockId, ...roomColumns(fields) } as never)
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'room.created',
+      entityType: 'room',
+      entityId: id,
+      summary: `Created room ${fields.code}`,
+      after: input,
+    });
     return { id, warnings };
   });
 }
@@ -82,7 +121,9 @@ export async function updateRoom(db: Kysely<Database>, trust: ActiveTrust, actor
   return db.transaction().execute(async (trx) => {
     const row = await roomInScope(trx, trust, id, true);
     if (ifUnmodifiedSince && row.updated_at.toISOString() !== new Date(ifUnmodifiedSince).toISOString()) {
-      throw conflict('Someone else changed this room since you opened it. Reload to see their change, then edit again.');
+      throw conflict(
+        'Someone else changed this room since you opened it. Reload to see their change, then edit again.',
+      );
     }
     const current = roomFieldsOf(row);
     const next = RoomFieldsSchema.parse({ ...current, ...changes });
@@ -101,8 +142,21 @@ export async function updateRoom(db: Kysely<Database>, trust: ActiveTrust, actor
       after.blockId = blockId;
     }
     if (Object.keys(after).length) {
-      await trx.updateTable('rooms').set({ ...roomColumns(after as Partial<RoomFields>), ...(blockId !== undefined ? { block_id: blockId } : {}) }).where('id', '=', id).execute();
-      await recordAudit(trx, { trustId: trust.id, ...actor, action: 'room.updated', entityType: 'room', entityId: id, summary: `Changed room ${next.code}`, before, after });
+      await trx
+        .updateTable('rooms')
+        .set({ ...roomColumns(after as Partial<RoomFields>), ...(blockId !== undefined ? { block_id: blockId } : {}) })
+        .where('id', '=', id)
+        .execute();
+      await recordAudit(trx, {
+        trustId: trust.id,
+        ...actor,
+        action: 'room.updated',
+        entityType: 'room',
+        entityId: id,
+        summary: `Changed room ${next.code}`,
+        before,
+        after,
+      });
     }
     return { id, warnings, changed: Object.keys(after) };
   });
@@ -113,20 +167,43 @@ export async function deleteRoom(db: Kysely<Database>, trust: ActiveTrust, actor
   await db.transaction().execute(async (trx) => {
     const row = await roomInScope(trx, trust, id, true);
     await trx.deleteFrom('rooms').where('id', '=', id).execute();
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'room.deleted', entityType: 'room', entityId: id, summary: `Deleted room ${row.code}`, before: roomFieldsOf(row) });
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'room.deleted',
+      entityType: 'room',
+      entityId: id,
+      summary: `Deleted room ${row.code}`,
+      before: roomFieldsOf(row),
+    });
   });
 }
 
 /** Applies one change to many rooms (or deletes them) in one transaction: all or none. */
 export async function bulkRooms(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, input: RoomBulk) {
   return db.transaction().execute(async (trx) => {
-    const rows = await trx.selectFrom('rooms').innerJoin('schools', 'schools.id', 'rooms.school_id').selectAll('rooms')
-      .where(inTrustScope(trust)).where('rooms.id', 'in', input.ids).forUpdate().execute();
+    const rows = await trx
+      .selectFrom('rooms')
+      .innerJoin('schools', 'schools.id', 'rooms.school_id')
+      .selectAll('rooms')
+      .where(inTrustScope(trust))
+      .where('rooms.id', 'in', input.ids)
+      .forUpdate()
+      .execute();
     if (rows.length !== new Set(input.ids).size) throw notFound('One or more of those rooms');
     const audit: AuditEntry[] = [];
     if (input.action === 'delete') {
       await trx.deleteFrom('rooms').where('id', 'in', input.ids).execute();
-      for (const r of rows) audit.push({ trustId: trust.id, ...actor, action: 'room.deleted', entityType: 'room', entityId: r.id, summary: `Deleted room ${r.code} (bulk)`, before: roomFieldsOf(r) });
+      for (const r of rows)
+        audit.push({
+          trustId: trust.id,
+          ...actor,
+          action: 'room.deleted',
+          entityType: 'room',
+          entityId: r.id,
+          summary: `Deleted room ${r.code} (bulk)`,
+          before: roomFieldsOf(r),
+        });
       await recordAudit(trx, audit);
       return { count: rows.length, warnings: [] as { id: string; code: string; message: string }[] };
     }
@@ -137,21 +214,51 @@ export async function bulkRooms(db: Kysely<Database>, trust: ActiveTrust, actor:
       const next = RoomFieldsSchema.parse({ ...current, ...changes });
       const problems = physicalChecks(next);
       const errors = problems.filter((p) => p.severity === 'error');
-      if (errors.length) throw new AppError(400, 'invalid_room', `Room ${r.code}: ${errors.map((e) => e.message).join(' ')} Nothing was changed.`, { roomId: r.id, problems: errors });
+      if (errors.length)
+        throw new AppError(
+          400,
+          'invalid_room',
+          `Room ${r.code}: ${errors.map((e) => e.message).join(' ')} Nothing was changed.`,
+          { roomId: r.id, problems: errors },
+        );
       for (const w of problems) warnings.push({ id: r.id, code: r.code, message: w.message });
       if (blockId !== undefined) await blockOfSchool(trx, r.school_id, blockId);
-      audit.push({ trustId: trust.id, ...actor, action: 'room.updated', entityType: 'room', entityId: r.id, summary: `Changed room ${r.code} (bulk)`, after: input.changes });
+      audit.push({
+        trustId: trust.id,
+        ...actor,
+        action: 'room.updated',
+        entityType: 'room',
+        entityId: r.id,
+        summary: `Changed room ${r.code} (bulk)`,
+        after: input.changes,
+      });
     }
-    await trx.updateTable('rooms').set({ ...roomColumns(changes), ...(blockId !== undefined ? { block_id: blockId } : {}) }).where('id', 'in', input.ids).execute();
+    await trx
+      .updateTable('rooms')
+      .set({ ...roomColumns(changes), ...(blockId !== undefined ? { block_id: blockId } : {}) })
+      .where('id', 'in', input.ids)
+      .execute();
     await recordAudit(trx, audit);
     return { count: rows.length, warnings };
   });
 }
 
 /** Changes a school's attributes. */
-export async function updateSchool(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string, patch: SchoolPatch) {
+export async function updateSchool(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+  patch: SchoolPatch,
+) {
   return db.transaction().execute(async (trx) => {
-    const school = await trx.selectFrom('schools').selectAll('schools').where(inTrustScope(trust)).where('schools.id', '=', id).forUpdate().executeTakeFirst();
+    const school = await trx
+      .selectFrom('schools')
+      .selectAll('schools')
+      .where(inTrustScope(trust))
+      .where('schools.id', '=', id)
+      .forUpdate()
+      .executeTakeFirst();
     if (!school) throw notFound('That school');
     const set: Record<string, unknown> = {};
     if (patch.name !== undefined) set.name = patch.name;
@@ -165,7 +272,16 @@ export async function updateSchool(db: Kysely<Database>, trust: ActiveTrust, act
     if (Object.keys(set).length === 0) return { id };
     await trx.updateTable('schools').set(set).where('id', '=', id).execute();
     const before = Object.fromEntries(Object.keys(set).map((k) => [k, (school as Record<string, unknown>)[k]]));
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'school.updated', entityType: 'school', entityId: id, summary: `Changed school ${school.name}`, before, after: set });
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'school.updated',
+      entityType: 'school',
+      entityId: id,
+      summary: `Changed school ${school.name}`,
+      before,
+      after: set,
+    });
     return { id };
   });
 }
@@ -187,28 +303,61 @@ export async function createBlock(db: Kysely<Database>, trust: ActiveTrust, acto
   return db.transaction().execute(async (trx) => {
     await schoolInScope(trx, trust, input.schoolId);
     const { schoolId, ...rest } = input;
-    const { id } = await trx.insertInto('blocks').values({ school_id: schoolId, ...blockColumns(rest) } as never).returning('id').executeTakeFirstOrThrow();
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'block.created', entityType: 'block', entityId: id, summary: `Created block ${input.name}`, after: input });
+    const { id } = await trx
+      .insertInto('blocks')
+      .values({ school_id: schoolId, ...blockColumns(rest) } as never)
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'block.created',
+      entityType: 'block',
+      entityId: id,
+      summary: `Created block ${input.name}`,
+      after: input,
+    });
     return { id };
   });
 }
 
 async function blockInScope(trx: Transaction<Database>, trust: ActiveTrust, id: string) {
-  const block = await trx.selectFrom('blocks').innerJoin('schools', 'schools.id', 'blocks.school_id').selectAll('blocks')
-    .where(inTrustScope(trust)).where('blocks.id', '=', id).forUpdate().executeTakeFirst();
+  const block = await trx
+    .selectFrom('blocks')
+    .innerJoin('schools', 'schools.id', 'blocks.school_id')
+    .selectAll('blocks')
+    .where(inTrustScope(trust))
+    .where('blocks.id', '=', id)
+    .forUpdate()
+    .executeTakeFirst();
   if (!block) throw notFound('That block');
   return block;
 }
 
 /** Changes a block's attributes. */
-export async function updateBlock(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string, patch: BlockPatch) {
+export async function updateBlock(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+  patch: BlockPatch,
+) {
   return db.transaction().execute(async (trx) => {
     const block = await blockInScope(trx, trust, id);
     const set = blockColumns(patch);
     if (Object.keys(set).length === 0) return { id };
     await trx.updateTable('blocks').set(set).where('id', '=', id).execute();
     const before = Object.fromEntries(Object.keys(set).map((k) => [k, (block as Record<string, unknown>)[k]]));
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'block.updated', entityType: 'block', entityId: id, summary: `Changed block ${block.name}`, before, after: set });
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'block.updated',
+      entityType: 'block',
+      entityId: id,
+      summary: `Changed block ${block.name}`,
+      before,
+      after: set,
+    });
     return { id };
   });
 }
@@ -217,8 +366,21 @@ export async function updateBlock(db: Kysely<Database>, trust: ActiveTrust, acto
 export async function deleteBlock(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string): Promise<void> {
   await db.transaction().execute(async (trx) => {
     const block = await blockInScope(trx, trust, id);
-    const moved = await trx.updateTable('rooms').set({ block_id: null }).where('block_id', '=', id).returning('id').execute();
+    const moved = await trx
+      .updateTable('rooms')
+      .set({ block_id: null })
+      .where('block_id', '=', id)
+      .returning('id')
+      .execute();
     await trx.deleteFrom('blocks').where('id', '=', id).execute();
-    await recordAudit(trx, { trustId: trust.id, ...actor, action: 'block.deleted', entityType: 'block', entityId: id, summary: `Deleted block ${block.name}; ${moved.length} rooms now have no block`, before: block });
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'block.deleted',
+      entityType: 'block',
+      entityId: id,
+      summary: `Deleted block ${block.name}; ${moved.length} rooms now have no block`,
+      before: block,
+    });
   });
 }

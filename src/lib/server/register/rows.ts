@@ -1,8 +1,23 @@
-import { AGE_GROUPS, ROOM_USES, SCHOOL_PHASES, VENTILATION_TYPES, WINDOW_TYPES, type SchoolPhase } from '../../engine/vocabulary';
+import {
+  AGE_GROUPS,
+  ROOM_USES,
+  SCHOOL_PHASES,
+  VENTILATION_TYPES,
+  WINDOW_TYPES,
+  type SchoolPhase,
+} from '../../engine/vocabulary';
 import { columnOf, type RegisterField } from './columns';
 import { headerScale, type DetectedColumn } from './headers';
 import {
-  cellText, parseEnum, parseOrientation, parseQuantity, parseText, parseWholeNumber, parseYear, type CellValue, type Parsed,
+  cellText,
+  parseEnum,
+  parseOrientation,
+  parseQuantity,
+  parseText,
+  parseWholeNumber,
+  parseYear,
+  type CellValue,
+  type Parsed,
 } from './values';
 
 /** A problem the preview shows, named by the row and column as the spreadsheet shows them. */
@@ -31,10 +46,14 @@ type CellParser = (value: CellValue) => Parsed<string | number>;
 function parserFor(field: RegisterField, header: string): CellParser {
   const column = columnOf(field);
   switch (column.kind) {
-    case 'text': return parseText;
-    case 'integer': return parseWholeNumber;
-    case 'year': return parseYear;
-    case 'orientation': return parseOrientation;
+    case 'text':
+      return parseText;
+    case 'integer':
+      return parseWholeNumber;
+    case 'year':
+      return parseYear;
+    case 'orientation':
+      return parseOrientation;
     case 'number': {
       const quantity = column.quantity ?? 'count';
       const scale = headerScale(header, field);
@@ -42,12 +61,18 @@ function parserFor(field: RegisterField, header: string): CellParser {
     }
     case 'enum':
       switch (field) {
-        case 'schoolPhase': return (v) => parseEnum(v, SCHOOL_PHASES);
-        case 'use': return (v) => parseEnum(v, ROOM_USES);
-        case 'ageGroup': return (v) => parseEnum(v, AGE_GROUPS);
-        case 'windowType': return (v) => parseEnum(v, WINDOW_TYPES);
-        case 'ventilationType': return (v) => parseEnum(v, VENTILATION_TYPES);
-        default: return parseText;
+        case 'schoolPhase':
+          return (v) => parseEnum(v, SCHOOL_PHASES);
+        case 'use':
+          return (v) => parseEnum(v, ROOM_USES);
+        case 'ageGroup':
+          return (v) => parseEnum(v, AGE_GROUPS);
+        case 'windowType':
+          return (v) => parseEnum(v, WINDOW_TYPES);
+        case 'ventilationType':
+          return (v) => parseEnum(v, VENTILATION_TYPES);
+        default:
+          return parseText;
       }
   }
 }
@@ -63,9 +88,15 @@ export interface CompiledColumn {
 
 /** The mapped columns of a header, each with its reader. */
 export function compileColumns(columns: DetectedColumn[]): CompiledColumn[] {
-  return columns.filter((c) => c.field).map((c) => ({
-    index: c.index, field: c.field as RegisterField, header: c.header, letter: c.letter, parse: parserFor(c.field as RegisterField, c.header),
-  }));
+  return columns
+    .filter((c) => c.field)
+    .map((c) => ({
+      index: c.index,
+      field: c.field as RegisterField,
+      header: c.header,
+      letter: c.letter,
+      parse: parserFor(c.field as RegisterField, c.header),
+    }));
 }
 
 const TOTAL_WORDS = /\b(sub-?total|totals?|grand total|sum)\b/i;
@@ -86,12 +117,26 @@ export function parseRow(rowNumber: number, cells: CellValue[], columns: Compile
     const raw = cells[column.index] ?? null;
     const parsed = column.parse(raw);
     if (!parsed.ok) {
-      row.problems.push({ row: rowNumber, column: column.header, columnLetter: column.letter, value: cellText(raw), severity: 'error', message: `${columnOf(column.field).header}: ${parsed.message}.` });
+      row.problems.push({
+        row: rowNumber,
+        column: column.header,
+        columnLetter: column.letter,
+        value: cellText(raw),
+        severity: 'error',
+        message: `${columnOf(column.field).header}: ${parsed.message}.`,
+      });
       continue;
     }
     row.values[column.field] = parsed.value;
     if (parsed.placeholder) {
-      row.problems.push({ row: rowNumber, column: column.header, columnLetter: column.letter, value: cellText(raw), severity: 'warning', message: `"${cellText(raw)}" is a placeholder; the cell is read as blank.` });
+      row.problems.push({
+        row: rowNumber,
+        column: column.header,
+        columnLetter: column.letter,
+        value: cellText(raw),
+        severity: 'warning',
+        message: `"${cellText(raw)}" is a placeholder; the cell is read as blank.`,
+      });
     }
   }
   return row;
@@ -100,10 +145,16 @@ export function parseRow(rowNumber: number, cells: CellValue[], columns: Compile
 /** The age group a school's phase implies, for rows that leave it blank. */
 export function ageGroupForPhase(phase: SchoolPhase | null): (typeof AGE_GROUPS)[number] | null {
   switch (phase) {
-    case 'nursery': return 'early_years';
-    case 'primary': return 'primary';
-    case 'secondary': case 'all_through': return 'secondary';
-    case 'further_education': return 'sixth_form';
-    default: return null;
+    case 'nursery':
+      return 'early_years';
+    case 'primary':
+      return 'primary';
+    case 'secondary':
+    case 'all_through':
+      return 'secondary';
+    case 'further_education':
+      return 'sixth_form';
+    default:
+      return null;
   }
 }

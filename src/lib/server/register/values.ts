@@ -7,7 +7,11 @@ export type CellValue = string | number | boolean | Date | null;
 /** The outcome of reading one cell: a value, blank, or a message saying what is wrong. */
 export type Parsed<T> = { ok: true; value: T | null; placeholder?: boolean } | { ok: false; message: string };
 
-const blank = <T>(placeholder = false): Parsed<T> => ({ ok: true, value: null, ...(placeholder ? { placeholder } : {}) });
+const blank = <T>(placeholder = false): Parsed<T> => ({
+  ok: true,
+  value: null,
+  ...(placeholder ? { placeholder } : {}),
+});
 const fail = <T>(message: string): Parsed<T> => ({ ok: false, message });
 
 /** Reduces an exceljs cell value (formula, rich text, hyperlink, error) to a plain value. */
@@ -31,7 +35,9 @@ const FORMULA_START = /^[=+\-@\t\r]/;
 export function cellText(value: CellValue): string {
   if (value === null) return '';
   if (value instanceof Date) return value.toISOString().slice(0, 10);
-  const text = String(value).replace(/\u00a0/g, ' ').trim();
+  const text = String(value)
+    .replace(/\u00a0/g, ' ')
+    .trim();
   return text.startsWith("'") && FORMULA_START.test(text.slice(1)) ? text.slice(1).trim() : text;
 }
 
@@ -40,7 +46,26 @@ export function guardFormula(text: string): string {
   return FORMULA_START.test(text) ? `'${text}` : text;
 }
 
-const PLACEHOLDERS = new Set(['tbc', 'tba', 'tbd', 'tbconfirmed', 'tobeconfirmed', 'na', 'n/a', 'unknown', 'notknown', 'nk', '?', '??', '-', '--', '–', '—', 'x', 'none given']);
+const PLACEHOLDERS = new Set([
+  'tbc',
+  'tba',
+  'tbd',
+  'tbconfirmed',
+  'tobeconfirmed',
+  'na',
+  'n/a',
+  'unknown',
+  'notknown',
+  'nk',
+  '?',
+  '??',
+  '-',
+  '--',
+  '–',
+  '—',
+  'x',
+  'none given',
+]);
 
 const PLACEHOLDER_FIRST = new Set([...PLACEHOLDERS].map((p) => p.charAt(0)));
 
@@ -64,11 +89,35 @@ export function parseText(value: CellValue): Parsed<string> {
 
 /** Units we accept after a number, per quantity, with the factor to our unit. */
 const UNITS: Record<Quantity, Record<string, number>> = {
-  area: { '': 1, m2: 1, 'm^2': 1, sqm: 1, 'sq m': 1, 'sq.m': 1, 'sq. m': 1, 'sq.m.': 1, 'square metres': 1, 'square meters': 1, ft2: 0.09290304, sqft: 0.09290304, 'sq ft': 0.09290304 },
+  area: {
+    '': 1,
+    m2: 1,
+    'm^2': 1,
+    sqm: 1,
+    'sq m': 1,
+    'sq.m': 1,
+    'sq. m': 1,
+    'sq.m.': 1,
+    'square metres': 1,
+    'square meters': 1,
+    ft2: 0.09290304,
+    sqft: 0.09290304,
+    'sq ft': 0.09290304,
+  },
   length: { '': 1, m: 1, metres: 1, meters: 1, mm: 0.001, cm: 0.01 },
   flow: { '': 1, 'l/s': 1, ls: 1, lps: 1, 'l/sec': 1, 'litres/s': 1, 'm3/h': 1 / 3.6, 'm3/hr': 1 / 3.6 },
   count: { '': 1, pupils: 1, people: 1, persons: 1, adults: 1, staff: 1, pax: 1 },
-  permeability: { '': 1, 'm3/h.m2': 1, 'm3/hm2': 1, 'm3/(h.m2)': 1, 'm3/h/m2': 1, 'm3/(h·m2)': 1, 'm3/h·m2': 1, 'm3/h.m2 @ 50 pa': 1, 'm3/h.m2@50pa': 1 },
+  permeability: {
+    '': 1,
+    'm3/h.m2': 1,
+    'm3/hm2': 1,
+    'm3/(h.m2)': 1,
+    'm3/h/m2': 1,
+    'm3/(h·m2)': 1,
+    'm3/h·m2': 1,
+    'm3/h.m2 @ 50 pa': 1,
+    'm3/h.m2@50pa': 1,
+  },
 };
 
 function unitKey(unit: string): string {
@@ -100,7 +149,8 @@ export function parseNumberText(text: string): { value: number; unit: string } |
 
 /** Reads a measured quantity; numbers stored as text, typed units and decimal commas are accepted. */
 export function parseQuantity(value: CellValue, quantity: Quantity, headerScale = 1): Parsed<number> {
-  if (typeof value === 'number') return Number.isFinite(value) ? { ok: true, value: value * headerScale } : fail('is not a number');
+  if (typeof value === 'number')
+    return Number.isFinite(value) ? { ok: true, value: value * headerScale } : fail('is not a number');
   if (typeof value === 'boolean' || value instanceof Date) return fail('should be a number');
   const text = cellText(value);
   if (text === '') return blank();
@@ -133,7 +183,8 @@ export function parseYear(value: CellValue): Parsed<number> {
     const text = cellText(value);
     if (text === '') return blank();
     if (isPlaceholder(text)) return blank(true);
-    const year = /^(?:c\.?|circa|approx\.?)?\s*(\d{4})s?$/i.exec(text) ?? /^\d{1,2}[/.-]\d{1,2}[/.-](\d{4})$/.exec(text);
+    const year =
+      /^(?:c\.?|circa|approx\.?)?\s*(\d{4})s?$/i.exec(text) ?? /^\d{1,2}[/.-]\d{1,2}[/.-](\d{4})$/.exec(text);
     if (year) n = Number(year[1]);
     else {
       const parsed = parseNumberText(text);
@@ -142,14 +193,29 @@ export function parseYear(value: CellValue): Parsed<number> {
     }
   }
   if (n >= 1700 && n <= 2100 && Number.isInteger(n)) return { ok: true, value: n };
-  if (n > 2100 && n < 80_000) return { ok: true, value: new Date(EXCEL_EPOCH_MS + Math.floor(n) * 86_400_000).getUTCFullYear() };
+  if (n > 2100 && n < 80_000)
+    return { ok: true, value: new Date(EXCEL_EPOCH_MS + Math.floor(n) * 86_400_000).getUTCFullYear() };
   return fail(`${n} is not a year between 1700 and 2100`);
 }
 
 /** Bearings of the sixteen compass points, degrees clockwise from north. */
 const COMPASS_16: Record<string, number> = {
-  n: 0, nne: 22.5, ne: 45, ene: 67.5, e: 90, ese: 112.5, se: 135, sse: 157.5,
-  s: 180, ssw: 202.5, sw: 225, wsw: 247.5, w: 270, wnw: 292.5, nw: 315, nnw: 337.5,
+  n: 0,
+  nne: 22.5,
+  ne: 45,
+  ene: 67.5,
+  e: 90,
+  ese: 112.5,
+  se: 135,
+  sse: 157.5,
+  s: 180,
+  ssw: 202.5,
+  sw: 225,
+  wsw: 247.5,
+  w: 270,
+  wnw: 292.5,
+  nw: 315,
+  nnw: 337.5,
 };
 
 /** Reads an orientation: a bearing (225, "225°") or a compass point ("SW", "south-west", "South West"). */
@@ -163,35 +229,86 @@ export function parseOrientation(value: CellValue): Parsed<number> {
     const numeric = /^(\d+(?:[.,]\d+)?)\s*(°|deg|degrees)?$/i.exec(text);
     if (numeric) bearing = Number((numeric[1] ?? '').replace(',', '.'));
     else {
-      const letters = text.toLowerCase().replace(/facing/g, '').replace(/north/g, 'n').replace(/south/g, 's')
-        .replace(/east/g, 'e').replace(/west/g, 'w').replace(/[^a-z]/g, '');
+      const letters = text
+        .toLowerCase()
+        .replace(/facing/g, '')
+        .replace(/north/g, 'n')
+        .replace(/south/g, 's')
+        .replace(/east/g, 'e')
+        .replace(/west/g, 'w')
+        .replace(/[^a-z]/g, '');
       const point = COMPASS_16[letters];
       if (point === undefined) return fail(`"${text}" is not a compass point or a bearing`);
       bearing = point;
     }
   }
-  if (!Number.isFinite(bearing) || bearing < 0 || bearing > 360) return fail(`${bearing} is not a bearing from 0 to 360 degrees`);
+  if (!Number.isFinite(bearing) || bearing < 0 || bearing > 360)
+    return fail(`${bearing} is not a bearing from 0 to 360 degrees`);
   return { ok: true, value: Math.round(bearing) % 360 };
 }
 
 /** A key for matching words whatever their case, spacing and punctuation. */
 export function looseKey(text: string): string {
-  return text.toLowerCase().replace(/&/g, 'and').replace(/[^a-z0-9]/g, '');
+  return text
+    .toLowerCase()
+    .replace(/&/g, 'and')
+    .replace(/[^a-z0-9]/g, '');
 }
 
 /** Extra words people use for our codes (the codes and their labels are always accepted too). */
 const ENUM_SYNONYMS: Record<string, string[]> = {
   // school phases
-  primary: ['infant', 'junior', 'infants', 'juniors', 'first school', 'ks1', 'ks2', 'key stage 1', 'key stage 2', 'primary school'],
-  secondary: ['secondary school', 'high school', 'ks3', 'ks4', 'key stage 3', 'key stage 4', '11-16', '11-18', 'upper school'],
+  primary: [
+    'infant',
+    'junior',
+    'infants',
+    'juniors',
+    'first school',
+    'ks1',
+    'ks2',
+    'key stage 1',
+    'key stage 2',
+    'primary school',
+  ],
+  secondary: [
+    'secondary school',
+    'high school',
+    'ks3',
+    'ks4',
+    'key stage 3',
+    'key stage 4',
+    '11-16',
+    '11-18',
+    'upper school',
+  ],
   all_through: ['all through', 'through school', '3-18', '4-18', '4-19'],
   special: ['sen', 'send', 'special school', 'specialist'],
   further_education: ['fe', 'college', 'sixth form college', 'further ed'],
   nursery: ['nursery school', 'pre-school', 'preschool'],
   // room uses
-  classroom: ['class', 'teaching room', 'teaching space', 'general teaching', 'gen teaching', 'form room', 'teaching', 'classrooms'],
+  classroom: [
+    'class',
+    'teaching room',
+    'teaching space',
+    'general teaching',
+    'gen teaching',
+    'form room',
+    'teaching',
+    'classrooms',
+  ],
   science_lab: ['lab', 'laboratory', 'science', 'science laboratory', 'labs'],
-  practical: ['dt', 'd&t', 'design and technology', 'art', 'art room', 'food tech', 'food technology', 'workshop', 'practical room', 'technology'],
+  practical: [
+    'dt',
+    'd&t',
+    'design and technology',
+    'art',
+    'art room',
+    'food tech',
+    'food technology',
+    'workshop',
+    'practical room',
+    'technology',
+  ],
   ict_room: ['ict', 'it', 'it suite', 'ict suite', 'computer room', 'computing', 'computer suite'],
   music_room: ['music', 'drama', 'performing arts'],
   hall: ['assembly hall', 'main hall', 'dining hall', 'school hall'],
@@ -213,11 +330,47 @@ const ENUM_SYNONYMS: Record<string, string[]> = {
   pivot: ['centre pivot', 'horizontal pivot', 'vertical pivot', 'pivot window'],
   fixed: ['fixed light', 'non-opening', 'non opening', 'sealed', 'none'],
   // ventilation types
-  natural_single_sided: ['natural', 'natural single sided', 'natural - single sided', 'single sided', 'single-sided', 'windows', 'openable windows', 'nv', 'natural ventilation'],
-  natural_cross: ['cross', 'cross ventilation', 'cross vent', 'natural - cross', 'natural cross flow', 'cross-flow', 'stack'],
+  natural_single_sided: [
+    'natural',
+    'natural single sided',
+    'natural - single sided',
+    'single sided',
+    'single-sided',
+    'windows',
+    'openable windows',
+    'nv',
+    'natural ventilation',
+  ],
+  natural_cross: [
+    'cross',
+    'cross ventilation',
+    'cross vent',
+    'natural - cross',
+    'natural cross flow',
+    'cross-flow',
+    'stack',
+  ],
   mechanical_extract: ['mev', 'extract', 'extract fan', 'extract only', 'mechanical extract only'],
-  mechanical_supply_extract: ['mvs', 'ahu', 'supply and extract', 'supply & extract', 'balanced', 'balanced mechanical', 'mechanical', 'mechanical ventilation', 'mv'],
-  heat_recovery_unit: ['mvhr', 'hru', 'hrv', 'heat recovery', 'mechanical ventilation with heat recovery', 'erv', 'heat-recovery'],
+  mechanical_supply_extract: [
+    'mvs',
+    'ahu',
+    'supply and extract',
+    'supply & extract',
+    'balanced',
+    'balanced mechanical',
+    'mechanical',
+    'mechanical ventilation',
+    'mv',
+  ],
+  heat_recovery_unit: [
+    'mvhr',
+    'hru',
+    'hrv',
+    'heat recovery',
+    'mechanical ventilation with heat recovery',
+    'erv',
+    'heat-recovery',
+  ],
   hybrid: ['mixed mode', 'mixed-mode', 'hybrid ventilation', 'natural with fan assist', 'fan assisted'],
 };
 

@@ -36,17 +36,25 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
   void (async () => {
     const rooms = wb.addWorksheet('Rooms', { views: [{ state: 'frozen', ySplit: 1 }] });
     rooms.columns = REGISTER_COLUMNS.map((c) => ({
-      header: c.header, key: c.field, width: c.width, ...(c.numFmt ? { style: { numFmt: c.numFmt } } : {}),
+      header: c.header,
+      key: c.field,
+      width: c.width,
+      ...(c.numFmt ? { style: { numFmt: c.numFmt } } : {}),
     }));
     rooms.getRow(1).font = { bold: true };
-    const validations = (rooms as unknown as { dataValidations: { add(address: string, rule: unknown): void } }).dataValidations;
+    const validations = (rooms as unknown as { dataValidations: { add(address: string, rule: unknown): void } })
+      .dataValidations;
     const enumColumns = REGISTER_COLUMNS.map((c, i) => ({ c, i })).filter(({ c }) => c.kind === 'enum');
     enumColumns.forEach(({ c, i }, listIndex) => {
       const letter = String.fromCharCode(65 + i);
       const listLetter = String.fromCharCode(65 + listIndex);
       validations.add(`${letter}2:${letter}${TEMPLATE_ROWS}`, {
-        type: 'list', allowBlank: true, showErrorMessage: true, errorStyle: 'warning',
-        errorTitle: c.header, error: `Pick a value from the list for ${c.header}.`,
+        type: 'list',
+        allowBlank: true,
+        showErrorMessage: true,
+        errorStyle: 'warning',
+        errorTitle: c.header,
+        error: `Pick a value from the list for ${c.header}.`,
         formulae: [`${LISTS_SHEET}!$${listLetter}$2:$${listLetter}$${(c.values?.length ?? 0) + 1}`],
       });
     });
@@ -54,8 +62,14 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
       const letter = String.fromCharCode(65 + i);
       if (c.kind === 'number' || c.kind === 'integer' || c.kind === 'year') {
         validations.add(`${letter}2:${letter}${TEMPLATE_ROWS}`, {
-          type: c.kind === 'number' ? 'decimal' : 'whole', operator: 'greaterThanOrEqual', allowBlank: true, showErrorMessage: true,
-          errorStyle: 'warning', errorTitle: c.header, error: `${c.header} should be a number.`, formulae: [0],
+          type: c.kind === 'number' ? 'decimal' : 'whole',
+          operator: 'greaterThanOrEqual',
+          allowBlank: true,
+          showErrorMessage: true,
+          errorStyle: 'warning',
+          errorTitle: c.header,
+          error: `${c.header} should be a number.`,
+          formulae: [0],
         });
       }
     });
@@ -78,7 +92,9 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
     head.font = { bold: true };
     head.commit();
     for (const c of REGISTER_COLUMNS) {
-      const unit = /\(([^)]+)\)/.exec(c.header)?.[1] ?? (c.kind === 'enum' ? 'from the list' : c.kind === 'orientation' ? 'compass point or degrees' : '');
+      const unit =
+        /\(([^)]+)\)/.exec(c.header)?.[1] ??
+        (c.kind === 'enum' ? 'from the list' : c.kind === 'orientation' ? 'compass point or degrees' : '');
       const allowed = c.values ? ` Allowed: ${c.values.map(label).join('; ')}.` : '';
       const row = guide.addRow([c.header, unit, c.guide + allowed]);
       row.alignment = { wrapText: true, vertical: 'top' };
@@ -89,7 +105,15 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
     const lists = wb.addWorksheet(LISTS_SHEET, { state: 'hidden' });
     lists.addRow(enumColumns.map(({ c }) => c.header)).commit();
     const longest = Math.max(...enumColumns.map(({ c }) => c.values?.length ?? 0));
-    for (let r = 0; r < longest; r++) lists.addRow(enumColumns.map(({ c }) => { const v = c.values?.[r]; return v ? label(v) : null; })).commit();
+    for (let r = 0; r < longest; r++)
+      lists
+        .addRow(
+          enumColumns.map(({ c }) => {
+            const v = c.values?.[r];
+            return v ? label(v) : null;
+          }),
+        )
+        .commit();
     lists.commit();
     await wb.commit();
   })().catch((error: unknown) => out.destroy(error instanceof Error ? error : new Error(String(error))));

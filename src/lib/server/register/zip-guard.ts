@@ -14,7 +14,9 @@ interface ZipEntry {
 export const MAX_ENTRY_BYTES = 256 * 1024 * 1024;
 
 const notXlsx = (why: string) =>
-  badRequest(`This file is not an Excel workbook we can read: ${why}. Save it from your spreadsheet program as .xlsx (or .csv) and upload it again.`);
+  badRequest(
+    `This file is not an Excel workbook we can read: ${why}. Save it from your spreadsheet program as .xlsx (or .csv) and upload it again.`,
+  );
 
 function readCentralDirectory(buf: Buffer): ZipEntry[] {
   const min = Math.max(0, buf.length - 65_557);
@@ -25,12 +27,17 @@ function readCentralDirectory(buf: Buffer): ZipEntry[] {
       break;
     }
   }
-  if (eocd < 0) throw notXlsx('it seems to be cut short (the end of the zip archive is missing; was the upload or download interrupted?)');
+  if (eocd < 0)
+    throw notXlsx(
+      'it seems to be cut short (the end of the zip archive is missing; was the upload or download interrupted?)',
+    );
   const count = buf.readUInt16LE(eocd + 10);
   const dirSize = buf.readUInt32LE(eocd + 12);
   const dirOffset = buf.readUInt32LE(eocd + 16);
-  if (dirOffset === 0xffffffff || count === 0xffff) throw notXlsx('it uses a zip format for very large archives, far larger than a room register');
-  if (dirOffset + dirSize > eocd) throw notXlsx('it seems to be cut short or damaged (its table of contents points past the end of the file)');
+  if (dirOffset === 0xffffffff || count === 0xffff)
+    throw notXlsx('it uses a zip format for very large archives, far larger than a room register');
+  if (dirOffset + dirSize > eocd)
+    throw notXlsx('it seems to be cut short or damaged (its table of contents points past the end of the file)');
   const entries: ZipEntry[] = [];
   let p = dirOffset;
   for (let n = 0; n < count; n++) {
@@ -43,9 +50,11 @@ function readCentralDirectory(buf: Buffer): ZipEntry[] {
     const commentLength = buf.readUInt16LE(p + 32);
     const localOffset = buf.readUInt32LE(p + 42);
     const name = buf.toString('utf8', p + 46, p + 46 + nameLength);
-    if (localOffset + 30 > buf.length || buf.readUInt32LE(localOffset) !== 0x04034b50) throw notXlsx(`the part "${name}" is missing or damaged`);
+    if (localOffset + 30 > buf.length || buf.readUInt32LE(localOffset) !== 0x04034b50)
+      throw notXlsx(`the part "${name}" is missing or damaged`);
     const dataStart = localOffset + 30 + buf.readUInt16LE(localOffset + 26) + buf.readUInt16LE(localOffset + 28);
-    if (dataStart + compressedSize > buf.length) throw notXlsx(`it seems to be cut short (the part "${name}" runs past the end of the file)`);
+    if (dataStart + compressedSize > buf.length)
+      throw notXlsx(`it seems to be cut short (the part "${name}" runs past the end of the file)`);
     entries.push({ name, method, compressedSize, uncompressedSize, dataStart });
     p += 46 + nameLength + extraLength + commentLength;
   }
@@ -60,7 +69,9 @@ function inflateEntry(buf: Buffer, entry: ZipEntry): Buffer {
     return inflateRawSync(data, { maxOutputLength: MAX_ENTRY_BYTES });
   } catch (error) {
     if (error instanceof RangeError || (error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE') {
-      throw notXlsx(`the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`);
+      throw notXlsx(
+        `the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
+      );
     }
     throw notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`);
   }
@@ -105,7 +116,10 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
     const text = data.toString('utf8');
     const merges: MergedRange[] = [];
     parseMerges(text.slice(text.lastIndexOf('<mergeCells')), merges);
-    return { merges, lastRow: Number(/<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(text.slice(0, 4096))?.[1] ?? 0) || null };
+    return {
+      merges,
+      lastRow: Number(/<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(text.slice(0, 4096))?.[1] ?? 0) || null,
+    };
   }
   if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
   return new Promise((resolve, reject) => {
@@ -120,7 +134,11 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
       total += chunk.length;
       if (total > MAX_ENTRY_BYTES) {
         inflate.destroy();
-        reject(notXlsx(`the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`));
+        reject(
+          notXlsx(
+            `the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
+          ),
+        );
         return;
       }
       if (head.length < 4096) head += chunk.toString('latin1', 0, 4096);
@@ -162,15 +180,23 @@ async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: Merge
  */
 export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
   if (buf.length >= 4 && buf.readUInt32BE(0) === 0xd0cf11e0) {
-    throw badRequest('This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.');
+    throw badRequest(
+      'This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.',
+    );
   }
   if (buf.length < 4 || buf.readUInt32LE(0) !== 0x04034b50) {
     const looksLikeText = buf.length > 0 && !buf.subarray(0, 512).includes(0);
-    throw notXlsx(looksLikeText ? 'it contains plain text, not a workbook (if it is a CSV file, give it a .csv name)' : 'it is not a zip-based .xlsx file (perhaps a PDF or a picture renamed)');
+    throw notXlsx(
+      looksLikeText
+        ? 'it contains plain text, not a workbook (if it is a CSV file, give it a .csv name)'
+        : 'it is not a zip-based .xlsx file (perhaps a PDF or a picture renamed)',
+    );
   }
   const entries = readCentralDirectory(buf);
   if (!entries.some((e) => e.name === 'xl/workbook.xml')) {
-    throw notXlsx('it is a zip archive but holds no Excel workbook (perhaps a Word document or another program\'s file renamed)');
+    throw notXlsx(
+      "it is a zip archive but holds no Excel workbook (perhaps a Word document or another program's file renamed)",
+    );
   }
   const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
   for (const entry of entries) {

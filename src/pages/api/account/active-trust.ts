@@ -13,5 +13,12 @@ export const POST = route(async ({ locals, request, redirect }) => {
   const { trustId } = ActiveTrustSchema.parse(body);
   const membership = await switchTrust(getDb(), locals.user.id, trustId, request.headers);
   if (isForm) return redirect('/app', 303);
-  return json({ trust: { id: membership.trustId, name: membership.trustName, role: membership.role, schoolIds: membership.schoolIds } });
+  return json({
+    trust: {
+      id: membership.trustId,
+      name: membership.trustName,
+      role: membership.role,
+      schoolIds: membership.schoolIds,
+    },
+  });
 });

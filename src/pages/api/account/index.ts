@@ -11,6 +11,12 @@ export const GET = route(async ({ locals }) => {
   return json({
     user: locals.user,
     trust: locals.trust,
-    memberships: memberships.map((m) => ({ trustId: m.trustId, trustName: m.trustName, role: m.role, accessEndsOn: m.accessEndsOn, ended: m.ended })),
+    memberships: memberships.map((m) => ({
+      trustId: m.trustId,
+      trustName: m.trustName,
+      role: m.role,
+      accessEndsOn: m.accessEndsOn,
+      ended: m.ended,
+    })),
   });
 });

@@ -1,7 +1,11 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { AssumptionEditSchema } from '../../../lib/server/assessments/assessments.schemas';
-import { editAssumptions, getAssumptionsView, requireAssumptionEditor } from '../../../lib/server/assessments/assumptions.service';
+import {
+  editAssumptions,
+  getAssumptionsView,
+  requireAssumptionEditor,
+} from '../../../lib/server/assessments/assumptions.service';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 

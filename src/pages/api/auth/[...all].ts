@@ -1,7 +1,11 @@
 import type { APIRoute } from 'astro';
 import { CLIENT_IP_HEADER, getAuth } from '../../../lib/server/auth/auth';
 import { clientIpOf } from '../../../lib/server/auth/client-ip';
-import { clearSignInFailures, recordSignInFailure, signInRetryAfterSeconds } from '../../../lib/server/auth/sign-in-throttle';
+import {
+  clearSignInFailures,
+  recordSignInFailure,
+  signInRetryAfterSeconds,
+} from '../../../lib/server/auth/sign-in-throttle';
 import { json } from '../../../lib/server/http/respond';
 
 /** Reads the e-mail address of a JSON sign-in request without consuming the original body. */
@@ -19,7 +23,16 @@ export const ALL: APIRoute = async ({ request, clientAddress }) => {
   // Trusts and members are served by our own routes (/api/members, /api/account), which apply membership
   // end dates, school limits and the audit trail; the organization plugin answers only server-side calls.
   if (new URL(request.url).pathname.startsWith('/api/auth/organization/')) {
-    return json({ error: { code: 'not_found', message: 'Use /api/members and /api/account for trusts and members.', details: null } }, 404);
+    return json(
+      {
+        error: {
+          code: 'not_found',
+          message: 'Use /api/members and /api/account for trusts and members.',
+          details: null,
+        },
+      },
+      404,
+    );
   }
   const clientIp = clientIpOf(request, clientAddress);
   const headers = new Headers(request.headers);
@@ -38,7 +51,13 @@ export const ALL: APIRoute = async ({ request, clientAddress }) => {
   const retryAfter = signInRetryAfterSeconds(email, clientIp);
   if (retryAfter > 0) {
     return json(
-      { error: { code: 'too_many_attempts', message: `Too many wrong passwords. Wait ${retryAfter} seconds, then try again or reset your password.`, details: { retryAfterSeconds: retryAfter } } },
+      {
+        error: {
+          code: 'too_many_attempts',
+          message: `Too many wrong passwords. Wait ${retryAfter} seconds, then try again or reset your password.`,
+          details: { retryAfterSeconds: retryAfter },
+        },
+      },
       429,
       { 'retry-after': String(retryAfter) },
     );

@@ -22,8 +22,17 @@ export const POST = route(async ({ locals, request }) => {
   const form = await request.formData().catch(() => null);
   const file = form?.get('file');
   if (!form || !file || typeof file === 'string') throw fileMissing();
-  const options = ImportOptionsSchema.parse({ headerRow: form.get('headerRow') ?? undefined, mapping: form.get('mapping') ?? undefined });
+  const options = ImportOptionsSchema.parse({
+    headerRow: form.get('headerRow') ?? undefined,
+    mapping: form.get('mapping') ?? undefined,
+  });
   const bytes = Buffer.from(await file.arrayBuffer());
-  const preview = await previewImport(getDb(), trust, actorOf(locals), { fileName: file.name || 'register', bytes }, options);
+  const preview = await previewImport(
+    getDb(),
+    trust,
+    actorOf(locals),
+    { fileName: file.name || 'register', bytes },
+    options,
+  );
   return json(preview, 201);
 });

@@ -14,7 +14,12 @@ export const PATCH = route(async ({ locals, params, request }) => {
   const trust = requirePermission(locals, 'members', 'update');
   if (!locals.user) throw unauthenticated();
   const change = await parseJson(request, MemberUpdateSchema);
-  const member = await updateMember(getDb(), { user: locals.user, trust, headers: request.headers }, MemberIdSchema.parse(params.id), change);
+  const member = await updateMember(
+    getDb(),
+    { user: locals.user, trust, headers: request.headers },
+    MemberIdSchema.parse(params.id),
+    change,
+  );
   return json({ member });
 });
 

@@ -1,7 +1,11 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { UnitCatalogueSchema } from '../../../lib/server/assessments/assessments.schemas';
-import { getAssumptionsView, requireAssumptionEditor, saveUnitCatalogue } from '../../../lib/server/assessments/assumptions.service';
+import {
+  getAssumptionsView,
+  requireAssumptionEditor,
+  saveUnitCatalogue,
+} from '../../../lib/server/assessments/assumptions.service';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 

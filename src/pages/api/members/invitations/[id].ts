@@ -9,6 +9,10 @@ import { route } from '../../../../lib/server/http/route';
 export const DELETE = route(async ({ locals, params, request }) => {
   const trust = requirePermission(locals, 'members', 'invite');
   if (!locals.user) throw unauthenticated();
-  await cancelInvitation(getDb(), { user: locals.user, trust, headers: request.headers }, z.string().min(1).max(200).parse(params.id));
+  await cancelInvitation(
+    getDb(),
+    { user: locals.user, trust, headers: request.headers },
+    z.string().min(1).max(200).parse(params.id),
+  );
   return new Response(null, { status: 204 });
 });
