@@ -542,7 +542,11 @@ export function demoRooms(school: DemoSchool, schoolIndex: number): DemoRoom[] {
       for (let i = 1; i <= plan.count; i += 1) {
         const floorAreaM2 = round(between(plan.floorAreaM2), 1);
         let r = random() * totalWeight;
-        const ventilationType = block.ventilation.find(([, w]) => (r -= w) < 0)?.[0] ?? block.ventilation[0]![0];
+        const ventilationType =
+          block.ventilation.find(([, w]) => {
+            r -= w;
+            return r < 0;
+          })?.[0] ?? block.ventilation[0]![0];
         // Every seventh teaching room has windows that barely open (restrictors, painted shut, or fixed lights).
         const tinyOpening = plan.pupils[1] > 0 && i % 7 === 3;
         const glazingAreaM2 = round(floorAreaM2 * between([0.14, 0.32]), 1);

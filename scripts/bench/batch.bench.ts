@@ -77,7 +77,7 @@ async function generateEstate(): Promise<void> {
       'mechanical_supply_extract',
     ] as const);
     lines.push(
-      [
+      `${[
         block.schoolId,
         block.id,
         `R${String(i).padStart(6, '0')}`,
@@ -95,7 +95,7 @@ async function generateEstate(): Promise<void> {
         '\\N',
         vent,
         vent === 'mechanical_supply_extract' ? Math.round(between(80, 200)) : '\\N',
-      ].join('\t') + '\n',
+      ].join('\t')}\n`,
     );
   }
   const client = await getPool().connect();
@@ -174,7 +174,12 @@ async function fullBatch(): Promise<number> {
   });
   const started = performance.now();
   let lastChunkAt = started;
-  await executeRun(runId, { chunkSize: CHUNK, afterChunk: () => void (lastChunkAt = performance.now()) });
+  await executeRun(runId, {
+    chunkSize: CHUNK,
+    afterChunk: () => {
+      lastChunkAt = performance.now();
+    },
+  });
   const seconds = (performance.now() - started) / 1000;
   log(
     `chunks written in ${((lastChunkAt - started) / 1000).toFixed(2)} s, flip (rank + make current) ${((performance.now() - lastChunkAt) / 1000).toFixed(2)} s`,

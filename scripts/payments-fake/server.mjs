@@ -75,7 +75,10 @@ export async function startPaymentsFake(options = {}) {
       const walk = (node, parts) => {
         if (!node || typeof node !== 'object') return;
         const [head, ...rest] = parts;
-        if (Array.isArray(node[head]) && rest.length) return node[head].forEach((n) => walk(n, rest));
+        if (Array.isArray(node[head]) && rest.length) {
+          for (const n of node[head]) walk(n, rest);
+          return;
+        }
         if (rest.length === 0) {
           const full = byId(node[head]);
           if (full) node[head] = full;
@@ -170,7 +173,14 @@ export async function startPaymentsFake(options = {}) {
       /^\/_fake\/deliveries$/,
       (_, __, q) => ({ deliveries: webhooks.deliveries.filter((d) => !q.event || d.event === q.event) }),
     ],
-    ['POST', /^\/_fake\/webhooks\/hold$/, () => (webhooks.hold(), { held: true })],
+    [
+      'POST',
+      /^\/_fake\/webhooks\/hold$/,
+      () => {
+        webhooks.hold();
+        return { held: true };
+      },
+    ],
     ['POST', /^\/_fake\/webhooks\/release$/, (_, body) => ({ released: webhooks.release(body.order) })],
     [
       'POST',

@@ -32,13 +32,11 @@ describe('the register page in Chromium', () => {
     await signInInBrowser(page, trust.email);
     await page.goto(`${APP_URL}/app/register`);
     await page.getByRole('tab', { name: 'Import a register' }).click();
-    await page
-      .getByTestId('register-file')
-      .setInputFiles({
-        name: 'fernhill survey.xlsx',
-        mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
-        buffer: await messyRegister(),
-      });
+    await page.getByTestId('register-file').setInputFiles({
+      name: 'fernhill survey.xlsx',
+      mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+      buffer: await messyRegister(),
+    });
     await page.getByTestId('import-preview').waitFor();
     expect(await page.getByTestId('summary-roomsToCreate').textContent()).toBe('5');
     expect(await page.getByTestId('summary-rowsRejected').textContent()).toBe('5');

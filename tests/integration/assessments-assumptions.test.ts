@@ -36,9 +36,9 @@ describe('assumption sets', () => {
   });
   afterAll(async () => {
     // Put the values other test files rely on back (as a new version: history is never rewritten).
-    const valueOf = (path: string) => original.entries.find((e) => e.path === path)!.value;
+    const storedValue = (path: string) => original.entries.find((e) => e.path === path)!.value;
     await patch('trust_admin', {
-      changes: ['air.outdoorCo2Ppm', 'finance.discountRate'].map((path) => ({ path, value: valueOf(path) })),
+      changes: ['air.outdoorCo2Ppm', 'finance.discountRate'].map((path) => ({ path, value: storedValue(path) })),
       summary: 'Restore after test',
     });
     await api('/api/unit-models', {

@@ -70,7 +70,7 @@ export async function billingOf(cookie: string): Promise<BillingBody> {
 
 let schoolSeq = 0;
 /** POST /api/schools with a valid new school. */
-export function addSchool(cookie: string, name = `Test School ${Date.now()}-${(schoolSeq += 1)}`) {
+export function addSchool(cookie: string, name = `Test School ${Date.now()}-${++schoolSeq}`) {
   return api('/api/schools', {
     method: 'POST',
     cookie,

@@ -72,7 +72,7 @@ describe('estate API', () => {
     for (let page = 1; ; page += 1) {
       const body = await getJson<RoomsPage>(`/api/rooms?page=${page}&pageSize=40&sort=code`);
       total = body.total;
-      body.rows.forEach((r) => seen.add(r.id));
+      for (const r of body.rows) seen.add(r.id);
       if (body.rows.length < 40) break;
     }
     expect(total).toBe(expectedRooms.length);

@@ -65,10 +65,13 @@ function Editor({ editable }: Props) {
           ))}
         </select>
       </label>
-      <label className="text-sm">
-        <span className="block text-ink-muted">New value{selected ? ` (${selected.unit})` : ''}</span>
+      <div className="text-sm">
+        <label htmlFor="assumption-new-value" className="block text-ink-muted">
+          New value{selected ? ` (${selected.unit})` : ''}
+        </label>
         {multiline ? (
           <textarea
+            id="assumption-new-value"
             name="value"
             rows={6}
             value={text}
@@ -77,13 +80,14 @@ function Editor({ editable }: Props) {
           />
         ) : (
           <input
+            id="assumption-new-value"
             name="value"
             value={text}
             onChange={(e) => setText(e.target.value)}
             className="mt-1 w-full rounded-control border border-line bg-surface px-2 py-1"
           />
         )}
-      </label>
+      </div>
       <label className="text-sm">
         <span className="block text-ink-muted">Why (recorded with the version)</span>
         <input

@@ -213,9 +213,9 @@ function Figure({ kind, bandLabels }: Props) {
           </div>
           <details className="mt-3 text-sm">
             <summary className="cursor-pointer font-semibold text-brand">Show these figures as a table</summary>
-            <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label={`${TITLES[kind]}: figures`}>
+            <section className="mt-2 overflow-x-auto" tabIndex={0} aria-label={`${TITLES[kind]}: figures`}>
               <TableAlternative kind={kind} d={query.data} bandLabels={bandLabels} />
-            </div>
+            </section>
           </details>
         </>
       )}

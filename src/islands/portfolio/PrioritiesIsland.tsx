@@ -101,6 +101,7 @@ function Priorities(props: PrioritiesProps) {
     return () => clearTimeout(timer);
   }, [weights]);
   // A new ranking or filter starts again at the first page.
+  // biome-ignore lint/correctness/useExhaustiveDependencies: the dependencies are the triggers, not inputs.
   useEffect(() => setPagination((p) => ({ ...p, pageIndex: 0 })), [filters, debouncedWeights]);
 
   const sort = sorting[0] ?? { id: 'rank', desc: false };
@@ -429,13 +430,7 @@ function Priorities(props: PrioritiesProps) {
         </EmptyState>
       ) : (
         <div className="rounded-card border border-line bg-surface">
-          <div
-            className="overflow-x-auto"
-            aria-busy={query.isFetching}
-            tabIndex={0}
-            role="region"
-            aria-label="Ranked rooms"
-          >
+          <section className="overflow-x-auto" aria-busy={query.isFetching} tabIndex={0} aria-label="Ranked rooms">
             <table className="w-full text-left text-sm" data-testid="priorities-table">
               <caption className="sr-only">
                 Assessed rooms ranked for retrofit,{' '}
@@ -492,7 +487,7 @@ function Priorities(props: PrioritiesProps) {
                 ))}
               </tbody>
             </table>
-          </div>
+          </section>
           <nav
             aria-label="Pages of the list"
             className="flex flex-wrap items-center gap-3 border-t border-line px-4 py-3 text-sm"

@@ -89,6 +89,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
 
   return (
     <section aria-label="Import a register" className="space-y-4">
+      {/* biome-ignore lint/a11y/noStaticElementInteractions: dropping is a pointer shortcut; the "choose a file" button inside is the keyboard path. */}
       <div
         className={`rounded-card border-2 border-dashed p-6 text-center ${dragging ? 'border-brand bg-brand-soft' : 'border-line bg-surface'}`}
         onDragOver={(e) => {

@@ -106,6 +106,7 @@ export function RoomsTable({
     );
   };
 
+  // biome-ignore lint/correctness/useExhaustiveDependencies: edit and remove only call setters and mutations; rebuilding columns every render would reset open cell editors.
   const columns = useMemo<ColumnDef<Room>[]>(() => {
     const text = (
       id: keyof RoomFields,
@@ -334,9 +335,8 @@ export function RoomsTable({
       )}
 
       {selectedIds.length > 0 && (
-        <div
+        <section
           className="mt-3 flex flex-wrap items-center gap-3 rounded-card border border-brand bg-brand-soft p-3 text-sm"
-          role="region"
           aria-label="Bulk edit"
         >
           <strong>{selectedIds.length} selected</strong>
@@ -393,7 +393,7 @@ export function RoomsTable({
               Delete selected
             </button>
           )}
-        </div>
+        </section>
       )}
 
       <p

@@ -456,7 +456,7 @@ export function assessRoom(
 }
 
 function clamp(x: number, lo: number, hi: number): number {
-  return x < lo ? lo : x > hi ? hi : x;
+  return x < lo ? lo : Math.min(x, hi);
 }
 
 /** Winter PMV/PPD and draught for a screening case, summer overheating index, and the AD O proxy. */

@@ -174,7 +174,7 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   for (const [code, reg] of Object.entries(set.climate.regions.value)) {
     if (reg.monthlyMeanTempC.length !== 12)
       throw new EngineInputError(`assumptions.climate.regions.${code}.monthlyMeanTempC`, 'needs twelve months');
-    reg.monthlyMeanTempC.forEach((t, i) => r(`climate.regions.${code}.monthlyMeanTempC.${i}`, t, -30, 40));
+    for (const [i, t] of reg.monthlyMeanTempC.entries()) r(`climate.regions.${code}.monthlyMeanTempC.${i}`, t, -30, 40);
     for (const [season, w] of Object.entries(reg.windSpeedMs))
       r(`climate.regions.${code}.windSpeedMs.${season}`, w, 0, 30);
   }

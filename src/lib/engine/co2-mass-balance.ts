@@ -218,5 +218,5 @@ function crossingMinutes(
   if (lambda > 0) t = (60 * Math.log((steady - c0) / (steady - th))) / lambda;
   else t = rise > 0 ? (60 * (th - c0)) / rise : minutes;
   if (!(t >= 0)) return 0;
-  return t > minutes ? minutes : t;
+  return Math.min(t, minutes);
 }

@@ -54,7 +54,7 @@ export function pmvPpd(args: {
   while (Math.abs(xn - xf) > 0.00015) {
     xf = (xf + xn) / 2;
     const hcn = 2.38 * Math.sqrt(Math.sqrt(Math.abs(100 * xf - taa))); // |Δ|^0.25
-    hc = hcf > hcn ? hcf : hcn;
+    hc = Math.max(hcf, hcn);
     const xf2 = xf * xf;
     xn = (p5 + p4 * hc - p2 * xf2 * xf2) / (100 + p3 * hc);
     if (++n > 150) throw new EngineInputError('comfort', 'PMV iteration did not converge');
@@ -90,9 +90,9 @@ export function draughtRatePct(args: {
   const ta = requireRange('comfort.localAirTempC', args.localAirTempC, 20, 26, '°C');
   const v0 = requireRange('comfort.localAirSpeedMs', args.localAirSpeedMs, 0, 0.5, 'm/s');
   const tu = requireRange('comfort.turbulencePct', args.turbulencePct, 10, 60, '%');
-  const v = v0 < 0.05 ? 0.05 : v0;
+  const v = Math.max(v0, 0.05);
   const dr = (34 - ta) * (v - 0.05) ** 0.62 * (0.37 * v * tu + 3.14);
-  return dr > 100 ? 100 : dr;
+  return Math.min(dr, 100);
 }
 
 /**

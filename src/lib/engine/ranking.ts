@@ -14,7 +14,7 @@ export const DEFAULT_RANK_WEIGHTS: RankWeights = { risk: 0.6, costEffectiveness:
 /** The few numbers ranking needs from an assessment. */
 export function toRankInput(roomId: string, assessment: RoomAssessment): RankInput {
   const r = assessment.retrofit;
-  const has = r !== null && r.feasible;
+  const has = r?.feasible === true;
   return {
     roomId,
     roomCode: assessment.roomCode,

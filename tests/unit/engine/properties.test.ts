@@ -58,8 +58,9 @@ const notAbove = (a: number, b: number) => a <= b + 1e-9 * Math.max(1, Math.abs(
 function everyNumberFinite(value: unknown, path: string, bad: string[]): void {
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) bad.push(`${path}=${value}`);
-  } else if (Array.isArray(value)) value.forEach((v, i) => everyNumberFinite(v, `${path}[${i}]`, bad));
-  else if (value && typeof value === 'object')
+  } else if (Array.isArray(value)) {
+    for (const [i, v] of value.entries()) everyNumberFinite(v, `${path}[${i}]`, bad);
+  } else if (value && typeof value === 'object')
     for (const [k, v] of Object.entries(value)) everyNumberFinite(v, `${path}.${k}`, bad);
 }
 
@@ -147,7 +148,7 @@ describe('engine properties', () => {
     fc.assert(
       fc.property(inputArb, (input) => {
         const r = run(input).retrofit;
-        if (!r || !r.feasible) return;
+        if (!r?.feasible) return;
         for (const m of [r, r.perUnit])
           expect(m.npvGbp >= 0).toBe(m.discountedPaybackYears !== null && m.discountedPaybackYears <= years);
       }),

@@ -19,7 +19,7 @@ describe('matching headers', () => {
     ['Area', 'floorAreaM2'],
     ['  room   no. ', 'code'],
     ['Room Ref', 'code'],
-    ['ceiling ht'.replace('ht', 'height') + ' [mm]', 'ceilingHeightM'],
+    [`${'ceiling ht'.replace('ht', 'height')} [mm]`, 'ceilingHeightM'],
     ['Openable window area (m2)', 'openableAreaM2'],
     ['Vent. type', 'ventilationType'],
     ['Air permeability (m3/h.m2 @ 50Pa)', 'airPermeabilityM3hM2'],

@@ -1,6 +1,6 @@
 /** The latest current results as .xlsx: a Results sheet (one row a room, by rank) and a Notes sheet. */
 import ExcelJS from 'exceljs';
-import { PassThrough, Readable } from 'node:stream';
+import { PassThrough, type Readable } from 'node:stream';
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import { ENGINE_CAUTIONS, listAssumptions, RISK_BAND_LABELS } from '../../engine';

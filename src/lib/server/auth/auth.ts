@@ -24,6 +24,7 @@ const AUDITED_ACCOUNT_WRITES: Record<string, { action: string; summary: string }
 };
 
 /** Records the audited account writes (see AUDITED_ACCOUNT_WRITES) for API and page callers alike. */
+// biome-ignore lint/suspicious/noExplicitAny: better-auth's schema generator passes an untyped Kysely instance.
 function auditAccountWrites(db: Kysely<any>) {
   return createAuthMiddleware(async (ctx) => {
     const write = AUDITED_ACCOUNT_WRITES[ctx.path];
@@ -69,6 +70,7 @@ function organizationPlugin(origin: string) {
 }
 
 /** The options of our better-auth instance over a given Kysely database (also used to generate its schema). */
+// biome-ignore lint/suspicious/noExplicitAny: better-auth's schema generator passes an untyped Kysely instance.
 export function createAuthOptions(db: Kysely<any>) {
   const config = authConfig();
   return {

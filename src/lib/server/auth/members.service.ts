@@ -196,7 +196,7 @@ export async function cancelInvitation(db: Kysely<Database>, actor: Actor, invit
     .where('id', '=', invitationId)
     .where('organizationId', '=', actor.trust.id)
     .executeTakeFirst();
-  if (!invitation || invitation.status !== 'pending') throw notFound('That pending invitation');
+  if (invitation?.status !== 'pending') throw notFound('That pending invitation');
   await authCall(() => getAuth().api.cancelInvitation({ body: { invitationId }, headers: actor.headers }));
   await recordAudit(db, {
     trustId: actor.trust.id,

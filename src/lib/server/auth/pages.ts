@@ -4,7 +4,7 @@ import { ZodError } from 'zod';
 
 /** A local path to return to after signing in; anything else (other hosts, `//…`) falls back to /app. */
 export function safeNext(value: string | null | undefined): string {
-  if (!value || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/app';
+  if (!value?.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/app';
   return value;
 }
 

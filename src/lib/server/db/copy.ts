@@ -21,7 +21,7 @@ function copyField(value: string | number | boolean | null | undefined): string 
 
 /** One row as a line of COPY text. */
 export const copyLine = (values: readonly (string | number | boolean | null | undefined)[]): string =>
-  values.map(copyField).join('\t') + '\n';
+  `${values.map(copyField).join('\t')}\n`;
 
 /** About how much COPY text goes to the stream at a time. */
 const PIECE_BYTES = 256 * 1024;

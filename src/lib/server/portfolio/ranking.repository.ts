@@ -165,13 +165,11 @@ async function rebuildRanks(
         ranked_at: new Date(),
       })
       .onConflict((oc) =>
-        oc
-          .column('trust_id')
-          .doUpdateSet({
-            ranked_weights: JSON.stringify(weights),
-            ranked_stamp: stampRow.stamp,
-            ranked_at: new Date(),
-          }),
+        oc.column('trust_id').doUpdateSet({
+          ranked_weights: JSON.stringify(weights),
+          ranked_stamp: stampRow.stamp,
+          ranked_at: new Date(),
+        }),
       )
       .execute();
     return stampRow.stamp;

@@ -132,7 +132,10 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
   const keys = new Map<string, string>();
   const keyOf = (name: string) => {
     let key = keys.get(name);
-    if (key === undefined) keys.set(name, (key = nameKey(name)));
+    if (key === undefined) {
+      key = nameKey(name);
+      keys.set(name, key);
+    }
     return key;
   };
   const schoolsByKey = new Map(estate.schools.map((s) => [nameKey(s.name), s]));
@@ -301,7 +304,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       for (const issue of parsed.error.issues) {
         const field = String(issue.path[0] ?? 'code') as RegisterField;
         const missing = draft[field] === undefined || draft[field] === null;
-        error(field, missing ? `${columnOf(field).header} is required for a new room.` : issue.message + '.');
+        error(field, missing ? `${columnOf(field).header} is required for a new room.` : `${issue.message}.`);
       }
     } else {
       for (const p of physicalChecks(parsed.data)) {

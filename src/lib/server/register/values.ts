@@ -188,7 +188,7 @@ export function parseYear(value: CellValue): Parsed<number> {
     if (year) n = Number(year[1]);
     else {
       const parsed = parseNumberText(text);
-      if (!parsed || parsed.unit !== '') return fail(`"${text}" is not a year`);
+      if (parsed?.unit !== '') return fail(`"${text}" is not a year`);
       n = parsed.value;
     }
   }
@@ -402,7 +402,10 @@ const ENUM_CACHE_LIMIT = 2000;
 export function parseEnum<T extends string>(value: CellValue, codes: readonly T[]): Parsed<T> {
   if (typeof value !== 'string' || value.length > 64) return readEnum(value, codes);
   let cache = enumResultCache.get(codes);
-  if (!cache) enumResultCache.set(codes, (cache = new Map()));
+  if (!cache) {
+    cache = new Map();
+    enumResultCache.set(codes, cache);
+  }
   const known = cache.get(value);
   if (known) return known as Parsed<T>;
   const parsed = readEnum(value, codes);

@@ -1,4 +1,4 @@
-import { PassThrough, Readable } from 'node:stream';
+import { PassThrough, type Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { label } from '../../engine/vocabulary';
 import { REGISTER_COLUMNS, type RegisterField } from './columns';
