@@ -513,7 +513,7 @@ function assessComfort(
         ? 'Draught risk near the windows in winter'
         : null;
 
-  // Summer: §9.3 screening index.
+  // Summer: the steady daily-mean screening index.
   const facing = glazingProxy({
     glazingAreaM2: room.glazingAreaM2,
     floorAreaM2: room.floorAreaM2,

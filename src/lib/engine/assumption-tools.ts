@@ -1,5 +1,6 @@
 /** Helpers the app uses to show, edit and check an assumption set. */
-import { EngineInputError, requireRange } from './errors';
+import { EngineInputError, requireOneOf, requireRange } from './errors';
+import { AGE_GROUPS, BASELINES, ROOM_USES, SUMMER_MODES, VENTILATION_TYPES, WINDOW_TYPES } from './vocabulary';
 import type { Assumed, AssumptionKind, AssumptionSet, SourceStatus, UnitModel } from './types';
 
 /** One assumed value flattened for display, with its path for editing (e.g. 'finance.discountRate'). */
@@ -146,6 +147,16 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     r(`occupancy.pupilMetByUse.${use}`, met, 1, 4);
   for (const [age, d] of Object.entries(set.occupancy.pupilMetAdjustByAge.value))
     r(`occupancy.pupilMetAdjustByAge.${age}`, d, -1, 1);
+  // Every use and age together must stay inside Persily & de Jonge's Table 4 (1–4 met): nothing is clamped.
+  for (const use of ROOM_USES)
+    for (const age of AGE_GROUPS) {
+      const met = set.occupancy.pupilMetByUse.value[use] + set.occupancy.pupilMetAdjustByAge.value[age];
+      if (!(met >= 1 && met <= 4))
+        throw new EngineInputError(
+          `assumptions.occupancy.pupilMetAdjustByAge.${age}`,
+          `takes ${use} pupils to ${met} met, outside the 1–4 met of Persily & de Jonge (2017) Table 4`,
+        );
+    }
   r('occupancy.adultMet', set.occupancy.adultMet.value, 1, 4);
   const tt = set.occupancy.timetable.value;
   if (tt.length === 0) throw new EngineInputError('assumptions.occupancy.timetable', 'needs at least one period');
@@ -178,7 +189,12 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     for (const [season, w] of Object.entries(reg.windSpeedMs))
       r(`climate.regions.${code}.windSpeedMs.${season}`, w, 0, 30);
   }
-  r('climate.daytimeOffsetK', set.climate.daytimeOffsetK.value, -5, 10);
+  const twelve = (path: string, values: readonly number[], min: number, max: number) => {
+    if (values.length !== 12) throw new EngineInputError(`assumptions.${path}`, 'needs twelve months');
+    values.forEach((v, i) => r(`${path}.${i}`, v, min, max));
+  };
+  twelve('climate.dailyRangeK', set.climate.dailyRangeK.value, 0, 25);
+  twelve('climate.dayToDaySdK', set.climate.dayToDaySdK.value, 0, 10);
   r('windows.dischargeCoefficient', set.windows.dischargeCoefficient.value, 0.1, 1);
   r('windows.openingHeightM', set.windows.openingHeightM.value, 0.1, 5);
   for (const [t, f] of Object.entries(set.windows.effectiveOpeningFactor.value))
@@ -186,9 +202,20 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   r('windows.crossWindDeltaCp', set.windows.crossWindDeltaCp.value, 0, 1.5);
   r('windows.siteWindFactor', set.windows.siteWindFactor.value, 0, 1.5);
   r('windows.windowUseWithMechanical', set.windows.windowUseWithMechanical.value, 0, 1);
+  for (const [m, f] of Object.entries(set.windows.frameFactorByMaterial.value))
+    r(`windows.frameFactorByMaterial.${m}`, f, 0.3, 1);
   r('infiltration.kpDivisor', set.infiltration.kpDivisor.value, 5, 50);
   r('infiltration.envelopeAreaPerFloorArea', set.infiltration.envelopeAreaPerFloorArea.value, 0, 10);
-  r('mechanical.defaultSupplyLpsPerPerson', set.mechanical.defaultSupplyLpsPerPerson.value, 0, 50);
+  r('mechanical.defaultSupplyLpsPerM2', set.mechanical.defaultSupplyLpsPerM2.value, 0, 20);
+  for (const type of VENTILATION_TYPES) {
+    const sys = set.mechanical.existingSystems.value[type];
+    const path = `mechanical.existingSystems.${type}`;
+    if (!sys) throw new EngineInputError(`assumptions.${path}`, 'is missing');
+    requireOneOf(`assumptions.${path}.balance`, sys.balance, ['none', 'balanced', 'unbalanced'] as const);
+    r(`${path}.specificFanPowerWPerLps`, sys.specificFanPowerWPerLps, 0, 5);
+    r(`${path}.heatRecoveryEfficiency`, sys.heatRecoveryEfficiency, 0, 0.95);
+  }
+  r('mechanical.existingMaintenanceShareOfUnits', set.mechanical.existingMaintenanceShareOfUnits.value, 0, 3);
   for (const p of set.criteria.packs.value) {
     r(`criteria.packs.${p.id}.meanLimitPpm`, p.meanLimitPpm, 100, 10000);
     if (p.maxLimitPpm !== null) r(`criteria.packs.${p.id}.maxLimitPpm`, p.maxLimitPpm, 100, 10000);
@@ -213,6 +240,7 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   r('finance.electricityKgCo2ePerKwh', set.finance.electricityKgCo2ePerKwh.value, 0, 2);
   r('finance.discountRate', set.finance.discountRate.value, 0, 0.2);
   r('finance.appraisalYears', set.finance.appraisalYears.value, 1, 60);
+  requireOneOf('assumptions.finance.headlineBaseline', set.finance.headlineBaseline.value, BASELINES);
   set.retrofit.unitCatalogue.value.forEach((u, i) => {
     const path = `retrofit.unitCatalogue.${i}`;
     r(`${path}.nominalFlowLps`, u.nominalFlowLps, 1, 5000);
@@ -230,5 +258,25 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   r('comfort.winterRelativeHumidityPct', set.comfort.winterRelativeHumidityPct.value, 0, 100);
   r('retrofit.soundLimitDbA', set.retrofit.soundLimitDbA.value, 0, 100);
   r('retrofit.maxUnitsPerRoom', set.retrofit.maxUnitsPerRoom.value, 1, 20);
-  r('retrofit.windowOpenFractionWithUnits', set.retrofit.windowOpenFractionWithUnits.value, 0, 1);
+  for (const [season, share] of Object.entries(set.retrofit.windowKeptWithUnits.value))
+    r(`retrofit.windowKeptWithUnits.${season}`, share, 0, 1);
+  const op = set.retrofit.operation.value;
+  requireOneOf('assumptions.retrofit.operation.summerMode', op.summerMode, SUMMER_MODES);
+  r('retrofit.operation.extraRunHoursPerDay', op.extraRunHoursPerDay, 0, 12);
+  const simple = set.retrofit.simplerOption.value;
+  r('retrofit.simplerOption.capitalBaseGbp', simple.capitalBaseGbp, 0, 1e6);
+  r('retrofit.simplerOption.capitalGbpPerLps', simple.capitalGbpPerLps, 0, 1e4);
+  r('retrofit.simplerOption.specificFanPowerWPerLps', simple.specificFanPowerWPerLps, 0, 5);
+  r('retrofit.simplerOption.annualMaintenanceGbp', simple.annualMaintenanceGbp, 0, 1e5);
+  r('retrofit.simplerOption.lifeYears', simple.lifeYears, 1, 60);
+  const d = set.defaults.room.value;
+  requireOneOf('assumptions.defaults.room.use', d.use, ROOM_USES);
+  r('defaults.room.ceilingHeightM', d.ceilingHeightM, 2, 12);
+  r('defaults.room.floorAreaPerPupilM2', d.floorAreaPerPupilM2, 0.5, 20);
+  r('defaults.room.adultsInTeachingRoom', d.adultsInTeachingRoom, 0, 10);
+  r('defaults.room.glazingShareOfFloor', d.glazingShareOfFloor, 0, 3);
+  r('defaults.room.openableShareOfGlazing', d.openableShareOfGlazing, 0, 1);
+  requireOneOf('assumptions.defaults.room.windowType', d.windowType, WINDOW_TYPES);
+  r('defaults.room.glazingGValue', d.glazingGValue, 0.1, 0.9);
+  requireOneOf('assumptions.defaults.room.ventilationType', d.ventilationType, VENTILATION_TYPES);
 }

@@ -1,5 +1,5 @@
 /**
- * Ventilation rates from logged CO2 (domain reference §8): the two-point decay (tracer-gas dilution,
+ * Ventilation rates from logged CO2 (Batterman 2017, IJERPH 14(2):145, §2): the two-point decay (tracer-gas dilution,
  * ASTM E741 applied to occupant CO2 by Batterman 2017) and the steady-plateau method.
  */
 

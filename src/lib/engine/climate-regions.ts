@@ -1,10 +1,10 @@
 /**
- * A small table of UK climate regions: monthly mean outdoor temperatures and seasonal wind speeds,
- * and the derived season temperatures and occupied heating degree-hours.
+ * A small table of UK climate regions: monthly mean outdoor temperatures and seasonal wind speeds at 10 m,
+ * with the daily range and day-to-day spread the hourly model of hours.ts needs.
  * Values are approximate regional averages recalled from Met Office 1991–2020 climate summaries:
  * status from_memory. Each school can override them through its assumption set.
  */
-import type { ClimateRegion, ClimateRegionData, Season, SeasonProfile, TimetableSegment } from './types';
+import type { ClimateRegion, ClimateRegionData } from './types';
 
 /** Source line shared by every region of the table. */
 export const CLIMATE_SOURCE = 'Approximate Met Office 1991–2020 regional climate averages (recalled, not checked)';
@@ -56,70 +56,14 @@ export const CLIMATE_REGION_DATA: Record<ClimateRegion, ClimateRegionData> = {
   ),
 };
 
-/** Mean of the monthly means over the season's months, plus the school-hours offset, °C. */
-export function seasonOutdoorTempC(
-  regionData: ClimateRegionData,
-  profile: SeasonProfile,
-  daytimeOffsetK: number,
-): number {
-  let sum = 0;
-  for (const m of profile.months) sum += regionData.monthlyMeanTempC[m - 1] ?? 0;
-  return sum / profile.months.length + daytimeOffsetK;
-}
-
-/** Length of the school day covered by the timetable, hours. */
-export function schoolDayHours(timetable: readonly TimetableSegment[]): number {
-  let minutes = 0;
-  for (const s of timetable) minutes += s.endMinute - s.startMinute;
-  return minutes / 60;
-}
+/**
+ * Mean daily range (daily maximum − minimum) of outdoor temperature by month, January first, K: typical of
+ * English lowland stations in the Met Office 1991–2020 averages (recalled, not checked: from memory).
+ */
+export const UK_DAILY_RANGE_K = [5.3, 5.8, 7.0, 8.6, 9.2, 9.4, 9.4, 9.0, 8.3, 6.9, 5.6, 5.1] as const;
 
 /**
- * Occupied heating degree-hours by season, K·h a year:
- * DH_occ = Σ_months days_m · h_day · (θ_i − θ_e,m) for months with θ_e,m < θ_cutoff,
- * where θ_e,m is the month's mean plus the school-hours offset and days_m the season's school days
- * shared equally among its months.
- * Method: occupied degree-hours in place of degree-days for schools (domain reference §5.2, [CP]);
- * monthly resolution is our screening simplification of the hourly sum.
+ * Standard deviation of daily mean temperature about its monthly mean, January first, K: larger in winter when
+ * cold and mild spells alternate (recalled from UK station records: from memory).
  */
-export function occupiedHeatingDegreeHours(args: {
-  region: ClimateRegionData;
-  seasons: Record<Season, SeasonProfile>;
-  dayHours: number;
-  indoorTempC: number;
-  cutoffTempC: number;
-  daytimeOffsetK: number;
-}): Record<Season, number> {
-  const out: Record<Season, number> = { winter: 0, mid: 0, summer: 0 };
-  for (const season of ['winter', 'mid', 'summer'] as const) {
-    const profile = args.seasons[season];
-    const daysPerMonth = profile.schoolDays / profile.months.length;
-    for (const m of profile.months) {
-      const outdoor = (args.region.monthlyMeanTempC[m - 1] ?? 0) + args.daytimeOffsetK;
-      if (outdoor < args.cutoffTempC && outdoor < args.indoorTempC) {
-        out[season] += daysPerMonth * args.dayHours * (args.indoorTempC - outdoor);
-      }
-    }
-  }
-  return out;
-}
-
-/** Occupied hours a year in months where heating runs (for fan run time), h. */
-export function occupiedHeatingHours(args: {
-  region: ClimateRegionData;
-  seasons: Record<Season, SeasonProfile>;
-  dayHours: number;
-  cutoffTempC: number;
-  daytimeOffsetK: number;
-}): number {
-  let total = 0;
-  for (const season of ['winter', 'mid', 'summer'] as const) {
-    const profile = args.seasons[season];
-    const daysPerMonth = profile.schoolDays / profile.months.length;
-    for (const m of profile.months) {
-      const outdoor = (args.region.monthlyMeanTempC[m - 1] ?? 0) + args.daytimeOffsetK;
-      if (outdoor < args.cutoffTempC) total += daysPerMonth * args.dayHours;
-    }
-  }
-  return total;
-}
+export const UK_DAY_TO_DAY_SD_K = [3.4, 3.3, 2.9, 2.5, 2.4, 2.3, 2.3, 2.2, 2.3, 2.6, 2.9, 3.3] as const;

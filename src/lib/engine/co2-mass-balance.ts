@@ -1,12 +1,13 @@
 /**
  * Well-mixed single-zone CO2 mass balance, solved exactly piecewise over the school day.
  *   1000·V·dC/dt = Q·(C_o − C) + 10^6·G    ⇔   dC/dt = λ·(C_ss − C),  λ = 3.6·Q/V [h⁻¹]
- * Source: Batterman (2017) IJERPH 14(2):145 §2.1; BS 5925:1991 Appendix B (domain reference §1).
+ * Source: Batterman (2017) IJERPH 14(2):145 §2.1 (steady-state, build-up, decay and transient forms); BS 5925:1991
+ * Appendix B (contaminant concentration in a ventilated space).
  * Units: C ppm, Q L/s, V m³, G L/s of CO2 at room conditions, time in minutes unless named otherwise.
  */
 import type { CurvePoint, ThresholdExceedance } from './types';
 
-/** Steady-state concentration C_ss = C_o + 10^6·G/Q, ppm (Q > 0 L/s). Domain reference §1.2. */
+/** Steady-state concentration C_ss = C_o + 10^6·G/Q, ppm (Q > 0 L/s). Batterman (2017) eq. for the steady state. */
 export function steadyStateCo2Ppm(args: { outdoorCo2Ppm: number; generationLps: number; flowLps: number }): number {
   return args.outdoorCo2Ppm + (1e6 * args.generationLps) / args.flowLps;
 }
@@ -22,7 +23,7 @@ export function flowFromAirChangeLps(achPerH: number, volumeM3: number): number 
 }
 
 /**
- * End and time-mean of one segment of constant G and Q (domain reference §1.3):
+ * End and time-mean of one segment of constant G and Q (the exact solution of the linear ODE; Batterman 2017 §2.1):
  * C_end = C_ss + (C_0 − C_ss)·e^(−λT);  C_mean = C_ss + (C_0 − C_ss)·(1 − e^(−λT))/(λT).
  * λ h⁻¹ ≥ 0, T h > 0. With λ = 0 the linear limit C(t) = C_0 + rise·t is used (rise ppm/h).
  */
@@ -51,7 +52,7 @@ export function segmentEndAndMean(args: {
 
 /**
  * Time for the trajectory to reach a threshold, t* = (1/λ)·ln[(C_ss − C_0)/(C_ss − C_th)], hours;
- * null when C_th is not strictly between C_0 and C_ss. Domain reference §1.3.
+ * null when C_th is not strictly between C_0 and C_ss (inverting the exact solution).
  */
 export function timeToThresholdH(args: {
   startPpm: number;
@@ -93,7 +94,7 @@ export interface DayResult {
 }
 
 /**
- * Simulate the day segment by segment with the exact solution (domain reference §1.4): carry C_end as the
+ * Simulate the day segment by segment with the exact solution (exact piecewise evaluation; no time-step error): carry C_end as the
  * next C_0, average C_mean weighted by duration over the whole timetable window, take the peak over segment
  * ends, and for each threshold track the longest uninterrupted run above it across segment boundaries.
  * `curve`, when given, receives a point every `curveStepMinutes` from the first segment's start to the last's end.

@@ -1,7 +1,7 @@
 /**
  * Thermal-comfort indicators: ISO 7730:2005 PMV/PPD and draught rate, the CIBSE TM52 / EN 16798-1
  * adaptive limit and daily weighted exceedance, the steady daily-mean overheating screening index
- * (SAP Appendix P structure) and the Approved Document O glazing proxy (domain reference §7 and §9).
+ * (SAP Appendix P structure) and the Approved Document O glazing proxy (ISO 7730:2005; CIBSE TM52 (2013); EN 16798-1:2019; SAP 2012 Appendix P; Approved Document O (2021)).
  */
 import { EngineInputError, requireRange } from './errors';
 
@@ -147,7 +147,7 @@ export function dailyWeightedExceedance(hourlyOperativeTempC: readonly number[],
 }
 
 /**
- * Summer overheating screening index (domain reference §9.3, structure of SAP Appendix P; method from memory):
+ * Summer overheating screening index (the steady daily-mean balance of SAP 2012 Appendix P; method from memory):
  *   Φ_sol = A_g·g·F_F·F_sh·I_24;  Φ_int = Φ_occ·t_occ/24;  H = H_tr + 1.2·Q_24;  ΔT_24 = (Φ_sol + Φ_int)/H.
  * Glazing m², g 0–1, irradiance W/m², gains W, hours 0–24, H_tr W/K, Q_24 L/s. A ranking index, not compliance.
  */

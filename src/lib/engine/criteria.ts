@@ -1,7 +1,7 @@
 /**
  * CO2 criteria packs as data, and the choice of pack for a room.
- * BB101 (2018) values via secondary summaries (domain reference §3.1); EN 16798-1:2019 Annex B
- * categories as CO2 above outdoor (§3.2).
+ * ESFA (2018) Building Bulletin 101 values via secondary summaries (CIBSE Journal, consultancy notes);
+ * EN 16798-1:2019 Annex B categories as CO2 above outdoor.
  */
 import type { AppliedCriterion, AssumptionSet, CriteriaPack } from './types';
 

@@ -1,5 +1,6 @@
 /**
- * Ventilation heat loss, heat recovery, fuel and fan energy (domain reference §5).
+ * Ventilation heat loss, heat recovery, fuel and fan energy (CIBSE Guide A (2015) ch. 4 form Φ = ρ·c_p·Q·ΔT;
+ * CIBSE TM41 (2006) degree-hours; EN 308 temperature ratio; SFP as in EN 16798-3).
  * Heat capacity of air ρ·c_p ≈ 1.2 W per (L/s·K) [CP].
  */
 
@@ -13,7 +14,7 @@ export function ventilationHeatLossW(args: {
   return args.airHeatCapacityWPerLpsK * args.flowLps * (args.indoorTempC - args.outdoorTempC);
 }
 
-/** Annual ventilation heat loss from occupied degree-hours, E = ρc_p·Q·DH_occ/1000, kWh (§5.2). */
+/** Annual ventilation heat loss from occupied degree-hours, E = ρc_p·Q·DH_occ/1000, kWh (CIBSE TM41 (2006): energy = heat-loss coefficient × degree-hours). */
 export function annualVentilationHeatKwh(args: {
   flowLps: number;
   degreeHoursKh: number;
@@ -22,7 +23,7 @@ export function annualVentilationHeatKwh(args: {
   return (args.airHeatCapacityWPerLpsK * args.flowLps * args.degreeHoursKh) / 1000;
 }
 
-/** Heat recovered by a unit of dry temperature ratio η (0–1), kWh: η·E (§5.5). */
+/** Heat recovered by a unit of dry temperature ratio η (0–1), kWh: η·E (EN 308 dry temperature ratio). */
 export function heatRecoveredKwh(args: { ventilationHeatKwh: number; heatRecoveryEfficiency: number }): number {
   return args.heatRecoveryEfficiency * args.ventilationHeatKwh;
 }
@@ -32,7 +33,7 @@ export function fuelForHeatKwh(args: { heatKwh: number; efficiency: number }): n
   return args.heatKwh / args.efficiency;
 }
 
-/** Fan electricity E_fan = SFP·Q·t/1000, kWh. SFP W/(L/s) 0–5; Q L/s; t run hours (§5.4). */
+/** Fan electricity E_fan = SFP·Q·t/1000, kWh. SFP W/(L/s) 0–5; Q L/s; t run hours (specific fan power as defined in EN 16798-3:2017). */
 export function fanEnergyKwh(args: { specificFanPowerWPerLps: number; flowLps: number; runHours: number }): number {
   return (args.specificFanPowerWPerLps * args.flowLps * args.runHours) / 1000;
 }
@@ -49,7 +50,7 @@ export function supplyTempAfterRecoveryC(args: {
   return args.outdoorTempC + args.heatRecoveryEfficiency * (args.extractTempC - args.outdoorTempC);
 }
 
-/** Net carbon saved, kgCO2e/yr: fuel avoided × its factor − fan electricity × the electricity factor (§6.4). */
+/** Net carbon saved, kgCO2e/yr: fuel avoided × its factor − fan electricity × the electricity factor (DESNZ conversion-factor method). */
 export function netCarbonSavingKg(args: {
   fuelSavedKwh: number;
   fuelKgCo2ePerKwh: number;

@@ -1,6 +1,6 @@
 /**
- * Engineering economics with end-of-year cash flows and a real discount rate (domain reference §6.1;
- * discounting convention of the HM Treasury Green Book).
+ * Engineering economics with end-of-year cash flows and a real discount rate (standard engineering
+ * economics; discounting convention of HM Treasury (2022) The Green Book, annex A6).
  */
 
 /**
@@ -46,7 +46,7 @@ export function discountedPaybackClosedFormYears(args: {
 
 /**
  * Discounted payback, years: the smallest year t with Σ_{k=1..t} S/(1+r)^k ≥ C0, with the fraction of the
- * crossing year found by linear interpolation (§6.1). null ("never") when the saving never repays the capital.
+ * crossing year found by linear interpolation (Green Book end-of-year convention). null ("never") when the saving never repays the capital.
  * Uses the same annuity factor as npvLevel, so NPV over n years ≥ 0 exactly when this is ≤ n.
  */
 export function discountedPaybackYears(args: {

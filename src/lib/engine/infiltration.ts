@@ -1,6 +1,6 @@
 /**
  * Infiltration from air permeability: n50 = q50·A_env/V, n_inf ≈ n50/20 (Kronvall–Persily rule, named in
- * Sherman 1987, Energy and Buildings 10:81–86; divisor 20 from memory). Domain reference §4.3.
+ * Sherman 1987, Energy and Buildings 10:81–86; divisor 20 from memory; CIBSE TM23 (2000) relates leakage tests to infiltration).
  */
 
 /** Air-change rate at 50 Pa, h⁻¹. q50 m³/(h·m²) 0.5–50; envelope area m² > 0; volume m³ > 0. */

@@ -10,7 +10,7 @@ export const TABLE_4_METS = [1.0, 1.2, 1.4, 1.6, 2.0, 3.0, 4.0] as const;
 
 /**
  * Persily & de Jonge (2017), Indoor Air 27(5):868–879, Table 4: CO2 generation, L/s at 273 K and
- * ~101 kPa, for the age bands a school holds (adults: 30 to <40). Status confirmed (domain reference §2.1).
+ * ~101 kPa, for the age bands a school holds (adults: 30 to <40). Status confirmed (two public transcriptions of the table agree).
  */
 export const GENERATION_TABLE_4: GenerationRow[] = [
   {
@@ -130,7 +130,7 @@ export function duBoisAreaM2(massKg: number, heightM: number): number {
 }
 
 /**
- * Gas-temperature correction of Table 4 rates (tabulated at 0 °C) to room air (domain reference §2.3):
+ * Gas-temperature correction of Table 4 rates (tabulated at 0 °C) to room air (ideal gas law; the table is at 273 K, 101 kPa):
  * G_room = G_table · (273.15 + θ_room)/273.15 · (101.325 / p_kPa). θ_room −20–50 °C, p 80–110 kPa.
  */
 export function generationAtRoomLps(args: { tableLps: number; roomTempC: number; pressureKpa: number }): number {

@@ -1,7 +1,7 @@
 /**
  * Heat-recovery retrofit: the outdoor air a room needs to meet the mechanical criterion, the cheapest
  * combination of catalogue units that supplies it within a sound limit, and the money, energy and carbon
- * of those units (domain reference §1.2, §5 and §6).
+ * of those units (Batterman 2017 steady state; CIBSE TM41 degree-hours; HM Treasury Green Book discounting).
  */
 import { annualVentilationHeatKwh, fanEnergyKwh, fuelForHeatKwh, heatRecoveredKwh, netCarbonSavingKg } from './energy';
 import { discountedPaybackYears, npvLevel, simplePaybackYears } from './finance';
@@ -9,7 +9,7 @@ import type { RetrofitMoney, RetrofitUnitLine, UnitModel } from './types';
 
 /**
  * Outdoor air needed so that the steady state stays at or below each limit, L/s:
- * inverting C_ss = C_o + 10^6·G/Q gives Q = 10^6·G/(C_limit − C_o) (domain reference §1.2 and §8.2).
+ * inverting C_ss = C_o + 10^6·G/Q gives Q = 10^6·G/(C_limit − C_o) (Batterman 2017, steady-state method).
  * The steady state bounds the occupied-period mean from above, so meeting it meets the mean limit.
  * Returns null when a limit is at or below outdoor CO2 (no flow can meet it).
  */

@@ -6,11 +6,14 @@
  */
 import type {
   AgeGroup,
+  BaselineId,
   ClimateRegion,
   ConstructionType,
+  FrameMaterial,
   HeatingFuel,
   RoomUse,
   SchoolPhase,
+  SummerMode,
   VentilationType,
   WindowType,
 } from './vocabulary';
@@ -18,11 +21,14 @@ import type {
 /** The vocabulary types, re-exported for callers of the engine. */
 export type {
   AgeGroup,
+  BaselineId,
   ClimateRegion,
   ConstructionType,
+  FrameMaterial,
   HeatingFuel,
   RoomUse,
   SchoolPhase,
+  SummerMode,
   VentilationType,
   WindowType,
 } from './vocabulary';
@@ -31,47 +37,63 @@ export type {
 // Input
 // ---------------------------------------------------------------------------------------------
 
-/** One room as the register holds it. Nulls fall back to assumption-set defaults (see each field). */
+/**
+ * One room as the register holds it. Ranges are declared once in limits.ts (ROOM_LIMITS). A null is an unknown
+ * value: the engine then uses the default of `assumptions.defaults.room` and lists the field in the result's
+ * `assumed`.
+ */
 export interface RoomInput {
   code: string;
   name: string;
-  use: RoomUse;
-  /** 1–2,000 m². */
+  /** Null: assumed a classroom. */
+  use: RoomUse | null;
   floorAreaM2: number;
-  /** 2–15 m. */
-  ceilingHeightM: number;
-  /** 0–500 pupils at design occupancy. */
-  pupils: number;
-  /** 0–50 adults at design occupancy. */
-  adults: number;
-  ageGroup: AgeGroup;
-  /** Bearing of the main glazed façade, 0 = north, clockwise, 0–360. Null: summer solar gain uses the
-   *  assumption set's irradiance for an unknown orientation and the glazing proxy is not evaluated. */
+  ceilingHeightM: number | null;
+  /** Whole pupils at design occupancy. Null: floor area ÷ the default floor area per pupil (teaching rooms). */
+  pupils: number | null;
+  /** Whole adults at design occupancy. Null: the default for the room use. */
+  adults: number | null;
+  /** Null: from the school phase. */
+  ageGroup: AgeGroup | null;
+  /** Bearing of the main glazed façade, 0 = north, clockwise. Null: summer solar gain uses the irradiance for an
+   *  unknown orientation and the glazing proxy is not evaluated. */
   orientationDeg: number | null;
-  /** Total glazed area, 0–floor area × 3 m². */
-  glazingAreaM2: number;
-  /** Openable window area (free area of the openable sashes), 0–floor area m² (0: no windows open). */
-  openableAreaM2: number;
-  windowType: WindowType;
-  /** Total solar energy transmittance of the glazing, 0.05–0.9. Null: assumptions.comfort.defaultGlazingGValue. */
+  /** Total glazed area, at most 3 × floor area. Null: a default share of the floor area. */
+  glazingAreaM2: number | null;
+  /** Openable window area (free area of the openable sashes), at most the glazing area. Null: a default share. */
+  openableAreaM2: number | null;
+  windowType: WindowType | null;
+  /** Window frame material (sets the frame factor). Null: the default frame factor. */
+  frameMaterial: FrameMaterial | null;
+  /** Total solar energy transmittance of the glazing. Null: the default g-value. */
   glazingGValue: number | null;
-  ventilationType: VentilationType;
-  /** Existing mechanical outdoor-air supply (or extract for extract-only systems), 0–5,000 L/s.
-   *  Null for a mechanical type: assumptions.mechanical.defaultSupplyLpsPerPerson × occupants. Ignored for natural types. */
+  /** Null: assumed natural, single-sided. */
+  ventilationType: VentilationType | null;
+  /** Existing mechanical outdoor-air supply (or extract for extract-only systems), L/s. Null for a mechanical type:
+   *  the default supply per m² of floor. Ignored for natural types. */
   mechanicalSupplyLps: number | null;
+  /** Share of the openable area open on average in winter while pupils are in, 0–1, as observed for this room.
+   *  Null: the assumption set's winter window opening. */
+  winterWindowOpenFraction: number | null;
 }
 
-/** The building the room is in. */
+/** The building the room is in. Heating fuel, price and efficiency take precedence over the school's. */
 export interface BlockInput {
-  /** 1800–2100. Null: the room is assessed as an existing building (refurbishment criteria) and the
+  /** Null: the room is assessed as an existing building (refurbishment criteria) and the
    *  air permeability default for unknown age is used. */
   yearBuilt: number | null;
   /** Null: the air permeability default is chosen by year built only. */
   constructionType: ConstructionType | null;
-  /** m³/(h·m²) at 50 Pa, 0.5–50. Null: assumptions.infiltration.defaultAirPermeability (by construction, then era). */
+  /** m³/(h·m²) at 50 Pa. Null: assumptions.infiltration.defaultAirPermeability (by construction, then era). */
   airPermeabilityM3hM2: number | null;
   /** Null: the school's heating fuel. */
   heatingFuel: HeatingFuel | null;
+  /** £/kWh of the block's delivered heating energy. Null: the school's price (when the fuel is the school's), else
+   *  the assumption set's price for the fuel. */
+  fuelPriceGbpPerKwh: number | null;
+  /** Seasonal efficiency of the block's heating plant (seasonal COP for heat pumps, 1 for direct electric).
+   *  Null: the school's (when the fuel is the school's), else the assumption set's for the fuel. */
+  heatingEfficiency: number | null;
   /** Informative only today (reported back); 1900–2100 or null. */
   heatingInstalledYear: number | null;
 }
@@ -81,10 +103,13 @@ export interface SchoolInput {
   phase: SchoolPhase;
   climateRegion: ClimateRegion;
   heatingFuel: HeatingFuel;
-  /** £/kWh of delivered heating fuel, 0–2. Null: assumptions.finance.fuelPricesGbpPerKwh[fuel]. */
+  /** £/kWh of delivered heating fuel. Null: assumptions.finance.fuelPricesGbpPerKwh[fuel]. */
   fuelPriceGbpPerKwh: number | null;
-  /** Seasonal efficiency of the heat generator (COP for heat pumps), 0.3–6. Null: assumptions.energy.heatGeneratorEfficiency[fuel]. */
-  boilerEfficiency: number | null;
+  /** Seasonal efficiency of the heating plant (seasonal COP for heat pumps, 1 for direct electric).
+   *  Null: assumptions.energy.heatGeneratorEfficiency[fuel]. */
+  heatingEfficiency: number | null;
+  /** The school's own day. Null: the assumption set's timetable. Pass the same array for every room of a school. */
+  timetable: readonly TimetableSegment[] | null;
 }
 
 /** Everything the engine needs to know about one room. */
@@ -104,7 +129,7 @@ export interface AssessOptions {
 // Assumption set
 // ---------------------------------------------------------------------------------------------
 
-/** How sure we are of a value, as tagged in the domain reference. */
+/** How sure we are of a value (docs/sources.md explains each tag). */
 export type SourceStatus = 'confirmed' | 'secondary' | 'from_memory' | 'common_practice';
 
 /** Who edits a value in the app: estates managers edit technical values, finance leads financial ones. */
@@ -225,8 +250,10 @@ export interface AssumptionSet {
   seasons: Assumed<Record<Season, SeasonProfile>>;
   climate: {
     regions: Assumed<Record<ClimateRegion, ClimateRegionData>>;
-    /** Occupied daytime hours are warmer than the 24-hour monthly mean by this much, K. */
-    daytimeOffsetK: Assumed<number>;
+    /** Mean daily range of outdoor temperature by month (January first), K (hours.ts). */
+    dailyRangeK: Assumed<number[]>;
+    /** Day-to-day standard deviation of daily mean temperature by month (January first), K (hours.ts). */
+    dayToDaySdK: Assumed<number[]>;
   };
   windows: {
     method: Assumed<'warren_parkins' | 'de_gids_phaff'>;
@@ -237,8 +264,10 @@ export interface AssumptionSet {
     effectiveOpeningFactor: Assumed<Record<WindowType, number>>;
     /** Wind pressure-coefficient difference across the building for cross ventilation. */
     crossWindDeltaCp: Assumed<number>;
-    /** Local reference wind speed at the opening divided by the 10 m met-station speed. */
+    /** Local reference wind speed at the opening divided by the 10 m met-station speed (BS 5925 U_r/U_m). */
     siteWindFactor: Assumed<number>;
+    /** Frame factor (glazed share of a window's area) by frame material, and for an unknown frame. */
+    frameFactorByMaterial: Assumed<Record<FrameMaterial | 'unknown', number>>;
     /** Multiplier on window opening in rooms that also have mechanical supply. */
     windowUseWithMechanical: Assumed<number>;
   };
@@ -257,8 +286,14 @@ export interface AssumptionSet {
     }>;
   };
   mechanical: {
-    defaultSupplyLpsPerPerson: Assumed<number>;
+    /** Mechanical supply when the register does not say, per m² of floor (not per occupant, so that more pupils
+     *  never buy more air), L/(s·m²). */
+    defaultSupplyLpsPerM2: Assumed<number>;
     ventilationClass: Assumed<Record<VentilationType, 'natural' | 'mechanical'>>;
+    /** How each existing system moves air: balanced or not, its specific fan power and heat recovery. */
+    existingSystems: Assumed<Record<VentilationType, ExistingSystem>>;
+    /** Servicing of an existing fan system that units replace, as a share of the units' own servicing. */
+    existingMaintenanceShareOfUnits: Assumed<number>;
   };
   criteria: {
     packs: Assumed<CriteriaPack[]>;
@@ -285,10 +320,8 @@ export interface AssumptionSet {
     heatGeneratorEfficiency: Assumed<Record<HeatingFuel, number>>;
   };
   comfort: {
-    defaultGlazingGValue: Assumed<number>;
     glazingUValueWm2K: Assumed<number>;
     wallUValueWm2K: Assumed<number>;
-    frameFactor: Assumed<number>;
     shadingFactor: Assumed<number>;
     /** 24-hour mean vertical solar irradiance in July by facing, W/m²: N, E, S, W and unknown. */
     julyIrradianceWm2: Assumed<{ N: number; E: number; S: number; W: number; unknown: number }>;
@@ -306,6 +339,8 @@ export interface AssumptionSet {
     adaptiveCategoryOffsetK: Assumed<number>;
   };
   finance: {
+    /** The baseline the headline figures (columns, totals, ranking by payback) are against; chosen by the finance lead. */
+    headlineBaseline: Assumed<BaselineId>;
     /** Price of the energy bought for each heating fuel (heat pumps and direct electric: electricity), £/kWh. */
     fuelPricesGbpPerKwh: Assumed<Record<HeatingFuel, number>>;
     electricityPriceGbpPerKwh: Assumed<number>;
@@ -321,9 +356,54 @@ export interface AssumptionSet {
     /** Combined sound level of the units in a teaching room, dB(A). */
     soundLimitDbA: Assumed<number>;
     maxUnitsPerRoom: Assumed<number>;
-    /** Window opening in the heating season once units are installed, fraction. */
-    windowOpenFractionWithUnits: Assumed<number>;
+    /** Share of today's window opening kept once units run, by season (0: windows stay shut). */
+    windowKeptWithUnits: Assumed<Record<Season, number>>;
+    /** How units run: outside the heating season bypassed or off; extra run hours a school day (purge). */
+    operation: Assumed<{ summerMode: SummerMode; extraRunHoursPerDay: number }>;
+    /** The cheapest option that meets the criterion without heat recovery (a supply fan with extract grilles). */
+    simplerOption: Assumed<SimplerOption>;
   };
+  /** Values assumed for unknown register fields (the result lists each one it used). */
+  defaults: {
+    room: Assumed<RoomDefaults>;
+  };
+}
+
+/** How an existing ventilation system moves air. */
+export interface ExistingSystem {
+  /** 'balanced': supply and extract; 'unbalanced': one fan (combines with infiltration in quadrature); 'none'. */
+  balance: 'none' | 'balanced' | 'unbalanced';
+  /** Specific fan power of the existing fans, W/(L/s). */
+  specificFanPowerWPerLps: number;
+  /** Dry heat-recovery temperature ratio of the existing system, 0–1. */
+  heatRecoveryEfficiency: number;
+}
+
+/** A generic option that meets the criterion without heat recovery, for baseline (c). */
+export interface SimplerOption {
+  name: string;
+  /** Installed cost per room, £. */
+  capitalBaseGbp: number;
+  /** Installed cost per L/s supplied, £. */
+  capitalGbpPerLps: number;
+  specificFanPowerWPerLps: number;
+  annualMaintenanceGbp: number;
+  lifeYears: number;
+}
+
+/** Values used for unknown register fields. */
+export interface RoomDefaults {
+  use: RoomUse;
+  ceilingHeightM: number;
+  /** Floor area per pupil in a teaching room at design occupancy, m². */
+  floorAreaPerPupilM2: number;
+  /** Adults in a teaching room (others: none). */
+  adultsInTeachingRoom: number;
+  glazingShareOfFloor: number;
+  openableShareOfGlazing: number;
+  windowType: WindowType;
+  glazingGValue: number;
+  ventilationType: VentilationType;
 }
 
 /** One row of Persily & de Jonge (2017) Table 4, mixed or single sex. */
@@ -345,6 +425,8 @@ export interface VentilationBreakdown {
   windowLps: number;
   infiltrationLps: number;
   mechanicalLps: number;
+  /** Outdoor air of all routes together: balanced fans + windows + √(unbalanced fan² + infiltration²)
+   *  (ASHRAE Handbook—Fundamentals (2017) ch. 16 superposition), L/s. */
   totalLps: number;
 }
 
@@ -426,12 +508,15 @@ export interface ComfortResult {
     airTempC: number;
     meanRadiantTempC: number;
     glazingSurfaceTempC: number;
-    pmv: number;
-    ppdPct: number;
+    /** ISO 7730 PMV; null when the screening case is outside the standard's range (see `outOfRange`). */
+    pmv: number | null;
+    ppdPct: number | null;
     /** Cold downdraught off the glazing at the first desks (Heiselberg 1994), m/s. */
     downdraughtSpeedMs: number;
-    /** ISO 7730 draught rate at the first desks, %. */
-    draughtRatePct: number;
+    /** ISO 7730 draught rate at the first desks, %; null outside the model's range (20–26 °C, below 0.5 m/s). */
+    draughtRatePct: number | null;
+    /** Which indicator could not be evaluated and why (nothing is extrapolated). */
+    outOfRange: string[];
     /** Screening labels: 'ok' or the reason for concern. */
     concern: string | null;
   };
@@ -439,7 +524,7 @@ export interface ComfortResult {
     solarGainW: number;
     internalGainW: number;
     heatTransferWPerK: number;
-    /** 24-hour mean room temperature rise over outdoors (§9.3 screening index), K. */
+    /** 24-hour mean room temperature rise over outdoors (steady daily-mean screening index), K. */
     overheatingIndexK: number;
     predictedMeanTempC: number;
     adaptiveMaxTempC: number;
@@ -455,20 +540,6 @@ export interface ComfortResult {
   };
 }
 
-/** Money, energy and carbon of a set of installed units (per room or per unit). */
-export interface RetrofitMoney {
-  capitalCostGbp: number;
-  annualHeatRecoveredKwh: number;
-  annualFuelSavedKwh: number;
-  annualFanKwh: number;
-  annualMaintenanceGbp: number;
-  annualNetSavingGbp: number;
-  annualNetSavingKgCo2e: number;
-  simplePaybackYears: number | null;
-  discountedPaybackYears: number | null;
-  npvGbp: number;
-}
-
 /** One model of unit and how many of it. */
 export interface RetrofitUnitLine {
   modelId: string;
@@ -476,34 +547,148 @@ export interface RetrofitUnitLine {
   count: number;
 }
 
-/** The heat-recovery retrofit of a room: units, money for the room (fields of RetrofitMoney) and per unit, and the comparison with today. */
-export interface RetrofitResult extends RetrofitMoney {
+/** Annual money, energy and carbon lines against one baseline. Positive = saved against it, negative = extra. */
+export interface AnnualLines {
+  /** Delivered heating energy saved (fuel, or electricity for electric and heat-pump heating), kWh. */
+  heatingKwh: number;
+  heatingGbp: number;
+  heatingKgCo2e: number;
+  /** Fan electricity saved (negative: the units use more), kWh. */
+  fanKwh: number;
+  fanGbp: number;
+  fanKgCo2e: number;
+  /** Servicing saved (negative: the units cost more to service), £. */
+  maintenanceGbp: number;
+}
+
+/** How a retrofit fares against one baseline. */
+export interface BaselineAppraisal {
+  baseline: BaselineId;
+  /** Words for the baseline, e.g. "today's operation". */
+  label: string;
+  /** What the baseline is for this room, e.g. "windows bringing the same 160 l/s in winter". */
+  description: string;
+  /** Capital spent beyond the baseline's, £ (the units' cost less the simpler option's for baseline (c)). */
+  capitalCostGbp: number;
+  annual: AnnualLines;
+  /** Net saving a year: heating + fans + maintenance, £ (replacement excluded). */
+  annualNetSavingGbp: number;
+  /** Net delivered energy saved a year (heating + fan electricity), kWh. */
+  annualNetSavingKwh: number;
+  annualNetSavingKgCo2e: number;
+  /** Units replaced at the end of their life within the appraisal period: years and cost each time (real £). */
+  replacements: { year: number; costGbp: number }[];
+  /** Capital over net annual saving, years; null when the saving is not positive ("never"). */
+  simplePaybackYears: number | null;
+  /** Year in which the discounted cash flows (replacements included) repay the capital; null: not within 1,000 years. */
+  discountedPaybackYears: number | null;
+  /** NPV over the appraisal period, replacements included, £. */
+  npvGbp: number;
+  /** Pupil-hours a year of air above the criterion's threshold removed against this baseline. */
+  pupilHoursRemovedPerYear: number;
+  /** Net running cost a year per pupil-hour of poor air removed, £; null unless the units cost money to run and remove some. */
+  runningCostPerPupilHourGbp: number | null;
+  /** 'pays_back': NPV ≥ 0; 'saves_slowly': saves money a year but not the capital within the period; 'costs_to_run'. */
+  verdict: 'pays_back' | 'saves_slowly' | 'costs_to_run';
+  /** One plain sentence with the verdict and its figures. */
+  words: string;
+}
+
+/** The hours behind every energy figure of a result. */
+export interface HoursUsed {
+  /** School-day hours of the timetable used (the school's own, or the assumption set's). */
+  schoolDayHours: number;
+  timetableSource: 'school' | 'assumption set';
+  /** School hours in a year (school days × day length), h. */
+  schoolHoursPerYear: number;
+  /** Of those, hours colder than the heating cut-off, h. */
+  heatingHoursPerYear: number;
+  /** Occupied heating degree-hours, K·h. */
+  heatingDegreeHoursKh: number;
+  /** Hours a year the units' fans run, h. */
+  unitRunHoursPerYear: number;
+  summerMode: SummerMode;
+  /** How the hours were found, in words. */
+  method: string;
+}
+
+/** The heating fuel, price and efficiency a room's energy is priced with, and where each came from. */
+export interface HeatingUsed {
+  fuel: HeatingFuel;
+  fuelSource: 'block' | 'school';
+  priceGbpPerKwh: number;
+  priceSource: 'block' | 'school' | 'trust';
+  /** Seasonal efficiency (seasonal COP for heat pumps). */
+  efficiency: number;
+  efficiencySource: 'block' | 'school' | 'trust';
+  carbonKgCo2ePerKwh: number;
+}
+
+/**
+ * The heat-recovery retrofit of a room appraised against named baselines (the fields the capital programme and
+ * the finance views read; documented in DEVELOPERS.md).
+ */
+export interface RoomAppraisal {
   targetPackId: string;
+  /** Outdoor air the units must supply to meet the mechanical criterion in winter, L/s. */
   requiredSupplyLps: number;
   installedSupplyLps: number;
+  /** Existing non-recovering fan supply the units take over, L/s (0 for natural rooms). */
+  replacesExistingLps: number;
   units: RetrofitUnitLine[];
   unitCount: number;
+  /** "2 × Wall unit 150 + 1 × Sill unit 60". */
+  unitModels: string;
   /** False when no combination within maxUnitsPerRoom meets the flow: units empty and money zero. */
   feasible: boolean;
   combinedSoundDbA: number | null;
   soundLimitMet: boolean;
   /** Winter supply-air temperature after heat recovery (no fan heat), °C. */
   supplyTempC: number | null;
-  /** Money, energy and carbon of one unit (the room's figures divided by the unit count). */
-  perUnit: RetrofitMoney;
+  /** Installed cost of the units, £. */
+  capitalCostGbp: number;
+  lifeYears: number;
+  /** Pupil-hours a year above the threshold removed against today. */
   pupilHoursRemovedPerYear: number;
   pupilHoursRemovedPer1000Gbp: number | null;
-  /** Capital per tonne CO2e saved over the unit life; null when the units save no carbon. */
-  capitalPerTonneCo2eGbp: number | null;
-  vsToday: {
-    todayHeatLossKwh: number;
-    withUnitsHeatLossKwh: number;
-    /** Positive: with units the room costs more a year to run than today. */
-    annualExtraCostGbp: number;
-    annualExtraKgCo2e: number;
+  /** The baseline the headline figures use (assumptions.finance.headlineBaseline, or today's when (c) does not apply). */
+  headline: BaselineId;
+  baselines: {
+    today: BaselineAppraisal;
+    same_air_without_recovery: BaselineAppraisal;
+    /** Null when no simpler compliant option is cheaper, or today's operation already complies. */
+    simpler_option: BaselineAppraisal | null;
   };
+  /** Capital per tonne CO2e saved over the unit life against the headline baseline; null when it saves none. */
+  capitalPerTonneCo2eGbp: number | null;
+  /** How the air and the running cost change against today, in words that fit the direction of each. */
   comparisonWithToday: string;
   notes: string[];
+}
+
+/** What the model assumed about a room's windows (shown so a person can correct it for that room). */
+export interface WindowAssumptions {
+  /** Openable area × effective-opening factor of the window type, m². */
+  effectiveAreaM2: number;
+  effectiveOpeningFactor: number;
+  method: 'warren_parkins' | 'de_gids_phaff' | 'cross';
+  /** Share of the openable area open while pupils are in, by season. */
+  openFractionOccupied: Record<Season, number>;
+  /** Share open during breaks and lunch, by season. */
+  openFractionEmpty: Record<Season, number>;
+  /** 'room': the register's winter observation for this room; 'assumption set': the season default. */
+  winterSource: 'room' | 'assumption set';
+  /** Kept while fans run (mechanical rooms open windows less), 0–1. */
+  useWithMechanical: number;
+}
+
+/** An unknown register value and what the engine used instead. */
+export interface AssumedValue {
+  /** Input path, e.g. 'room.pupils'. */
+  field: string;
+  value: string | number;
+  /** Why that value, in words. */
+  reason: string;
 }
 
 /** The result of assessing one room: plain JSON. */
@@ -519,14 +704,20 @@ export interface RoomAssessment {
   buildStatus: 'new_build' | 'refurbishment';
   airPermeabilityM3hM2: number;
   heatingFuel: HeatingFuel;
+  heating: HeatingUsed;
+  hours: HoursUsed;
+  windows: WindowAssumptions;
   criterion: AppliedCriterion;
   seasons: Record<Season, SeasonAssessment>;
   worstSeason: Season;
   criteriaMet: boolean;
   risk: RiskResult;
   comfort: ComfortResult;
-  retrofit: RetrofitResult | null;
-  /** Defaults used for null inputs, e.g. 'block.airPermeabilityM3hM2 → 12 m³/(h·m²) (system-built default)'. */
+  /** The heat-recovery retrofit against each baseline; null for rooms outside the criteria (not teaching, no pupils). */
+  appraisal: RoomAppraisal | null;
+  /** Unknown inputs and the values used for them. */
+  assumed: AssumedValue[];
+  /** The same as sentences, e.g. 'block.airPermeabilityM3hM2 → 12 m³/(h·m²) (system-built default)'. */
   defaultsUsed: string[];
   cautions: string[];
 }

@@ -46,6 +46,10 @@ export const WINDOW_TYPES = [
 ] as const;
 export type WindowType = (typeof WINDOW_TYPES)[number];
 
+/** Window frame materials; each has a frame factor (glazed share of the window) in the assumption set. */
+export const FRAME_MATERIALS = ['timber', 'pvc_u', 'metal', 'metal_thermal_break'] as const;
+export type FrameMaterial = (typeof FRAME_MATERIALS)[number];
+
 /** How a room is ventilated today. */
 export const VENTILATION_TYPES = [
   'natural_single_sided',
@@ -72,6 +76,18 @@ export const CONSTRUCTION_TYPES = [
   'modular',
 ] as const;
 export type ConstructionType = (typeof CONSTRUCTION_TYPES)[number];
+
+/**
+ * The baselines a heat-recovery retrofit is appraised against: today's operation as registered, the same airflow
+ * without heat recovery (windows or the existing fans), and the cheapest option that meets the criterion without
+ * heat recovery.
+ */
+export const BASELINES = ['today', 'same_air_without_recovery', 'simpler_option'] as const;
+export type BaselineId = (typeof BASELINES)[number];
+
+/** What heat-recovery units do outside the heating season: run with the recovery bypassed, or stand off. */
+export const SUMMER_MODES = ['bypass', 'off'] as const;
+export type SummerMode = (typeof SUMMER_MODES)[number];
 
 /** Heating emitter/plant types of a block. */
 export const HEATING_TYPES = [
@@ -159,6 +175,15 @@ const LABELS: Record<string, string> = {
   electric_panels: 'Electric panels',
   heat_pump_wet: 'Heat pump (wet system)',
   none: 'None',
+  timber: 'Timber',
+  pvc_u: 'PVC-U',
+  metal: 'Metal',
+  metal_thermal_break: 'Metal, thermally broken',
+  today: "today's operation",
+  same_air_without_recovery: 'the same air without heat recovery',
+  simpler_option: 'the cheapest compliant option without heat recovery',
+  bypass: 'run with heat recovery bypassed',
+  off: 'switched off (windows instead)',
   london_south_east: 'London and South East',
   south_west: 'South West',
   east_anglia: 'East of England',

@@ -1,6 +1,7 @@
 /**
- * Window airflow capacity: single-sided (Warren & Parkins 1984; de Gids & Phaff 1982) and cross
- * ventilation (BS 5925:1991 / CIBSE AM10 style). All flows in m³/s unless named Lps.
+ * Window airflow capacity: single-sided (Warren & Parkins 1984, "Single-sided ventilation through open windows",
+ * Air Infiltration Centre; de Gids & Phaff 1982, Air Infiltration Review 4(1):4–5) and cross ventilation
+ * (BS 5925:1991 §12; CIBSE AM10 (2005) §4). All flows in m³/s unless named Lps.
  * These give capacity for the given opening; how far people open windows is applied by the caller.
  */
 
@@ -8,7 +9,7 @@ const G = 9.81; // m/s²
 
 /**
  * Warren & Parkins (1984) single-sided wind-driven flow: Q_w = 0.025·A·U, m³/s.
- * A effective opening area 0–50 m²; U reference wind speed 0–30 m/s.
+ * A effective opening area 0–50 m²; U local reference wind speed at the opening 0–30 m/s.
  */
 export function singleSidedWindM3s(args: { areaM2: number; windSpeedMs: number }): number {
   return 0.025 * args.areaM2 * args.windSpeedMs;
@@ -62,7 +63,7 @@ export function deGidsPhaff(args: { areaM2: number; windSpeed10Ms: number; openi
 /**
  * Cross ventilation by wind, BS 5925:1991 §12 form (also CIBSE AM10): Q = Cd·A_w·U·sqrt(ΔCp), with
  * 1/A_w² = 1/A_windward² + 1/A_leeward², m³/s. Areas m²; U reference wind m/s; ΔCp 0–1.5.
- * The BS 5925 formula attribution is from memory (domain reference §4.1).
+ * The clause attribution in BS 5925:1991 is from memory.
  */
 export function crossWindM3s(args: {
   dischargeCoefficient: number;
@@ -78,14 +79,22 @@ export function crossWindM3s(args: {
 }
 
 /**
- * Window airflow of a room, L/s: single-sided by the chosen method, or cross ventilation with the openable
- * area split equally between two façades (the larger of cross-wind and single-sided stack through all of it).
+ * Window airflow capacity of a room, L/s, from the terms above (nothing restated):
+ *  - single-sided, Warren & Parkins: the larger of wind and stack, with the local wind U_r = U10 × site factor
+ *    (the reference wind of BS 5925:1991 at the opening);
+ *  - single-sided, de Gids & Phaff: their formula is fitted to the 10 m meteorological wind, so U10 itself;
+ *  - cross ventilation (BS 5925:1991 §12): the openable area split equally between two façades, the larger of the
+ *    cross-wind flow at the local wind and the single-sided stack through all of it.
+ * Areas m² (effective, ≥ 0); winds m/s; temperatures °C.
  */
 export function windowAirflowLps(args: {
   method: 'warren_parkins' | 'de_gids_phaff';
   cross: boolean;
   effectiveAreaM2: number;
-  windSpeedMs: number;
+  /** Meteorological wind speed at 10 m, m/s. */
+  windSpeed10Ms: number;
+  /** Local wind at the opening ÷ 10 m wind. */
+  siteWindFactor: number;
   openingHeightM: number;
   indoorTempC: number;
   outdoorTempC: number;
@@ -95,26 +104,29 @@ export function windowAirflowLps(args: {
   const area = args.effectiveAreaM2;
   if (area <= 0) return 0;
   const deltaTK = args.indoorTempC - args.outdoorTempC;
-  const meanTempK = 273.15 + (args.indoorTempC + args.outdoorTempC) / 2;
-  const cd = args.dischargeCoefficient;
-  // Stack term of Warren & Parkins: Cd·(A/3)·sqrt(g·h·|ΔT|/T_mean)
-  const stack = cd * (area / 3) * Math.sqrt((G * args.openingHeightM * Math.abs(deltaTK)) / meanTempK);
+  const localWindMs = args.windSpeed10Ms * args.siteWindFactor;
+  const stackArgs = {
+    dischargeCoefficient: args.dischargeCoefficient,
+    areaM2: area,
+    openingHeightM: args.openingHeightM,
+    deltaTK,
+    meanTempK: 273.15 + (args.indoorTempC + args.outdoorTempC) / 2,
+  };
   if (args.cross) {
     const wind = crossWindM3s({
-      dischargeCoefficient: cd,
+      dischargeCoefficient: args.dischargeCoefficient,
       windwardAreaM2: area / 2,
       leewardAreaM2: area / 2,
-      windSpeedMs: args.windSpeedMs,
+      windSpeedMs: localWindMs,
       deltaCp: args.deltaCp,
     });
-    return 1000 * Math.max(wind, stack);
+    return 1000 * Math.max(wind, singleSidedStackM3s(stackArgs));
   }
-  if (args.method === 'de_gids_phaff') {
+  if (args.method === 'de_gids_phaff')
     return (
       1000 *
-      deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeedMs, openingHeightM: args.openingHeightM, deltaTK })
+      deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeed10Ms, openingHeightM: args.openingHeightM, deltaTK })
         .flowM3s
     );
-  }
-  return 1000 * Math.max(0.025 * area * args.windSpeedMs, stack);
+  return 1000 * warrenParkinsM3s({ ...stackArgs, windSpeedMs: localWindMs });
 }
