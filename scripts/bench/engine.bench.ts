@@ -22,6 +22,18 @@ function pick<T>(rand: () => number, list: readonly T[]): T {
   return list[Math.floor(rand() * list.length)] as T;
 }
 
+/** A school; a recorded efficiency fits its fuel (direct electric 1, heat pumps a seasonal COP). */
+function schoolOf(rand: () => number): RoomAssessmentInput['school'] {
+  const phase = rand() < 0.5 ? 'primary' : 'secondary';
+  const climateRegion = pick(rand, CLIMATE_REGIONS);
+  const heatingFuel = rand() < 0.85 ? 'gas' : pick(rand, HEATING_FUELS);
+  const fuelPriceGbpPerKwh = rand() < 0.5 ? 0.05 + rand() * 0.05 : null;
+  const boiler = rand() < 0.5 ? 0.7 + rand() * 0.2 : null;
+  const heatingEfficiency =
+    boiler === null ? null : heatingFuel === 'electric' ? 1 : heatingFuel === 'heat_pump' ? 4 * boiler : boiler;
+  return { phase, climateRegion, heatingFuel, fuelPriceGbpPerKwh, heatingEfficiency, timetable: null };
+}
+
 function buildRooms(n: number): RoomAssessmentInput[] {
   const rand = prng(20261201);
   const rooms: RoomAssessmentInput[] = [];
@@ -47,21 +59,19 @@ function buildRooms(n: number): RoomAssessmentInput[] {
         glazingGValue: rand() < 0.5 ? 0.4 + rand() * 0.35 : null,
         ventilationType: ventilation,
         mechanicalSupplyLps: ventilation.startsWith('natural') || rand() < 0.5 ? null : 50 + rand() * 200,
+        frameMaterial: null,
+        winterWindowOpenFraction: null,
       },
       block: {
         yearBuilt: rand() < 0.9 ? 1900 + Math.floor(rand() * 125) : null,
         constructionType: rand() < 0.8 ? pick(rand, CONSTRUCTION_TYPES) : null,
         airPermeabilityM3hM2: rand() < 0.3 ? 3 + rand() * 20 : null,
         heatingFuel: rand() < 0.2 ? pick(rand, HEATING_FUELS) : null,
+        fuelPriceGbpPerKwh: null,
+        heatingEfficiency: null,
         heatingInstalledYear: rand() < 0.7 ? 1980 + Math.floor(rand() * 45) : null,
       },
-      school: {
-        phase: rand() < 0.5 ? 'primary' : 'secondary',
-        climateRegion: pick(rand, CLIMATE_REGIONS),
-        heatingFuel: rand() < 0.85 ? 'gas' : pick(rand, HEATING_FUELS),
-        fuelPriceGbpPerKwh: rand() < 0.5 ? 0.05 + rand() * 0.05 : null,
-        boilerEfficiency: rand() < 0.5 ? 0.7 + rand() * 0.2 : null,
-      },
+      school: schoolOf(rand),
     });
   }
   return rooms;

@@ -67,3 +67,46 @@ export function discountedPaybackYears(args: {
   const inYear = s * annuityFactor(r, k) - before;
   return k - 1 + (c0 - before) / inYear;
 }
+
+/** NPV of end-of-year cash flows, flows[0] at t = 0: Σ F_t/(1+r)^t, £ (the numpy-financial / spreadsheet NPV with the first flow undiscounted). */
+export function npvOfFlows(flows: readonly number[], rate: number): number {
+  let npv = 0;
+  let discount = 1;
+  for (const f of flows) {
+    npv += f / discount;
+    discount *= 1 + rate;
+  }
+  return npv;
+}
+
+/**
+ * Capital C0 now, a level annual saving S at the end of each year and replacement costs at the end of given years
+ * (within the appraisal period): simple payback C0/S, discounted payback (first year the cumulative discounted
+ * flows reach zero, interpolated within the year), NPV over `years`. With no replacements the discounted payback
+ * is discountedPaybackYears' (closed form and search); with replacements it is found year by year.
+ */
+export function appraiseInvestment(args: {
+  capitalGbp: number;
+  annualSavingGbp: number;
+  replacements: readonly { year: number; costGbp: number }[];
+  rate: number;
+  years: number;
+}): { simplePaybackYears: number | null; discountedPaybackYears: number | null; npvGbp: number } {
+  const { capitalGbp: c0, annualSavingGbp: s, replacements, rate: r, years } = args;
+  let npv = npvLevel({ capitalGbp: c0, annualSavingGbp: s, rate: r, years });
+  for (const rep of replacements) npv -= rep.costGbp / (1 + r) ** rep.year;
+  const simple = simplePaybackYears(c0, s);
+  if (replacements.length === 0)
+    return { simplePaybackYears: simple, discountedPaybackYears: discountedPaybackYears({ capitalGbp: c0, annualSavingGbp: s, rate: r }), npvGbp: npv };
+  let cumulative = -c0;
+  let dpb: number | null = cumulative >= 0 ? 0 : null;
+  for (let year = 1; dpb === null && year <= 1000; year++) {
+    let flow = s;
+    for (const rep of replacements) if (rep.year === year) flow -= rep.costGbp;
+    const discounted = flow / (1 + r) ** year;
+    if (cumulative + discounted >= 0 && discounted > 0) dpb = year - 1 + -cumulative / discounted;
+    cumulative += discounted;
+    if (year > years && s <= 0) break;
+  }
+  return { simplePaybackYears: simple, discountedPaybackYears: dpb, npvGbp: npv };
+}

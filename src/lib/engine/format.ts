@@ -3,12 +3,11 @@
 /** Integer with thousands separators, e.g. 1900 → '1,900'. */
 export function formatInt(x: number): string {
   const n = Math.round(x);
+  if (n > -1000 && n < 1000) return n === 0 ? '0' : String(n);
   const s = String(Math.abs(n));
-  let out = '';
-  for (let i = 0; i < s.length; i++) {
-    if (i > 0 && (s.length - i) % 3 === 0) out += ',';
-    out += s[i];
-  }
+  const head = s.length % 3 || 3;
+  let out = s.slice(0, head);
+  for (let i = head; i < s.length; i += 3) out += `,${s.slice(i, i + 3)}`;
   return n < 0 ? `-${out}` : out;
 }
 

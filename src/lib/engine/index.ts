@@ -3,7 +3,8 @@
  * Results are screening estimates for prioritising, not a design.
  */
 export { assessRoom, ENGINE_CAUTIONS } from './assess';
-export { rankRooms, toRankInput, DEFAULT_RANK_WEIGHTS } from './ranking';
+export { rankRooms, rankOrder, toRankInput, DEFAULT_RANK_WEIGHTS } from './ranking';
+export type { RankParts, RankPlace } from './ranking';
 export { DEFAULT_ASSUMPTIONS } from './assumptions';
 export {
   listAssumptions,
@@ -14,6 +15,8 @@ export {
 } from './assumption-tools';
 export type { AssumptionEntry } from './assumption-tools';
 export { EngineInputError } from './errors';
+export * as limits from './limits';
+export * as hours from './hours';
 export { RISK_BAND_LABELS } from './risk';
 export type * from './types';
 

@@ -126,6 +126,7 @@ export function limitMessage(limit: FieldLimit): string {
 
 /** Throws EngineInputError naming `field` unless `value` is within the limit (and whole when it must be). */
 export function requireWithin(field: string, value: number, limit: FieldLimit): number {
+  if (value >= limit.min && value <= limit.max && (!limit.integer || Number.isInteger(value))) return value;
   requireRange(field, value, limit.min, limit.max, limit.unit.includes(' ') ? '' : limit.unit);
   if (limit.integer && !Number.isInteger(value))
     throw new EngineInputError(field, `must be a whole number, got ${value}`);

@@ -1,7 +1,10 @@
 /**
- * Rank rooms by user-weighted, normalised risk, cost-effectiveness and payback, each with a plain-language
- * reason. Normalisation: each part is divided by the best value among the rows (payback: shortest ÷ own),
- * so the best room on a part scores 1 and a room without that figure scores 0. An Airtally rule [CP].
+ * THE ranking rule, the one implementation every page and export uses (the server stores its output in
+ * portfolio_ranks). Rooms are ranked by user-weighted, normalised risk, cost-effectiveness and payback:
+ * each part is divided by the best value among the rows (payback: shortest ÷ own), so the best room on a part
+ * scores 1 and a room without that figure scores 0; the score is the weighted sum over the sum of the weights;
+ * ties go to more pupil-hours above the threshold, then to the smaller room id. An Airtally rule (common practice
+ * of weighted scoring; no published source).
  */
 import { EngineInputError } from './errors';
 import { formatInt, formatOneDecimal } from './format';
@@ -13,7 +16,7 @@ export const DEFAULT_RANK_WEIGHTS: RankWeights = { risk: 0.6, costEffectiveness:
 
 /** The few numbers ranking needs from an assessment. */
 export function toRankInput(roomId: string, assessment: RoomAssessment): RankInput {
-  const r = assessment.retrofit;
+  const r = assessment.appraisal;
   const has = r?.feasible === true;
   return {
     roomId,
@@ -26,7 +29,7 @@ export function toRankInput(roomId: string, assessment: RoomAssessment): RankInp
     criteriaMet: assessment.criteriaMet,
     hasRetrofit: has,
     pupilHoursRemovedPer1000Gbp: has ? r.pupilHoursRemovedPer1000Gbp : null,
-    simplePaybackYears: has ? r.simplePaybackYears : null,
+    simplePaybackYears: has ? r.baselines[r.headline]?.simplePaybackYears ?? null : null,
     capitalCostGbp: has ? r.capitalCostGbp : null,
   };
 }
@@ -47,8 +50,25 @@ function ordinal(n: number): string {
   return `${n}${n % 10 === 1 ? 'st' : n % 10 === 2 ? 'nd' : n % 10 === 3 ? 'rd' : 'th'}`;
 }
 
-/** Rank rooms, highest weighted score first; ties broken by pupil-hours above, then room id. */
-export function rankRooms(rows: readonly RankInput[], weights: RankWeights): RankedRow[] {
+/** The stored parts of a room that decide its rank. */
+export interface RankParts {
+  roomId: string;
+  riskScore: number;
+  pupilHoursPerYearAbove: number;
+  pupilHoursRemovedPer1000Gbp: number | null;
+  simplePaybackYears: number | null;
+}
+
+/** A room's place: rank (1 = do first), weighted score 0–1 and its three normalised parts. */
+export interface RankPlace<T extends RankParts = RankParts> {
+  row: T;
+  rank: number;
+  score: number;
+  parts: { risk: number; costEffectiveness: number; payback: number };
+}
+
+/** The ranking rule (see the file comment): rows in rank order with their scores and parts. */
+export function rankOrder<T extends RankParts>(rows: readonly T[], weights: RankWeights): RankPlace<T>[] {
   checkWeights(weights);
   const wSum = weights.risk + weights.costEffectiveness + weights.payback;
   let maxRisk = 0;
@@ -60,7 +80,7 @@ export function rankRooms(rows: readonly RankInput[], weights: RankWeights): Ran
       maxCe = r.pupilHoursRemovedPer1000Gbp;
     if (r.simplePaybackYears !== null && r.simplePaybackYears < minPayback) minPayback = r.simplePaybackYears;
   }
-  const scored = rows.map((r) => {
+  const scored: RankPlace<T>[] = rows.map((r) => {
     const risk = maxRisk > 0 ? r.riskScore / maxRisk : 0;
     const costEffectiveness =
       maxCe > 0 && r.pupilHoursRemovedPer1000Gbp !== null ? r.pupilHoursRemovedPer1000Gbp / maxCe : 0;
@@ -74,7 +94,7 @@ export function rankRooms(rows: readonly RankInput[], weights: RankWeights): Ran
             : 0;
     const score =
       (weights.risk * risk + weights.costEffectiveness * costEffectiveness + weights.payback * payback) / wSum;
-    return { row: r, parts: { risk, costEffectiveness, payback }, score };
+    return { row: r, rank: 0, parts: { risk, costEffectiveness, payback }, score };
   });
   scored.sort(
     (a, b) =>
@@ -82,6 +102,13 @@ export function rankRooms(rows: readonly RankInput[], weights: RankWeights): Ran
       b.row.pupilHoursPerYearAbove - a.row.pupilHoursPerYearAbove ||
       (a.row.roomId < b.row.roomId ? -1 : a.row.roomId > b.row.roomId ? 1 : 0),
   );
+  for (let i = 0; i < scored.length; i++) (scored[i] as RankPlace<T>).rank = i + 1;
+  return scored;
+}
+
+/** Rank rooms with a plain-language reason for each place (the same rule as rankOrder). */
+export function rankRooms(rows: readonly RankInput[], weights: RankWeights): RankedRow[] {
+  const scored = rankOrder(rows, weights);
   const n = scored.length;
   const heaviest =
     weights.risk >= weights.costEffectiveness && weights.risk >= weights.payback
@@ -112,8 +139,8 @@ function reasonFor(r: RankInput, rank: number, n: number, heaviest: string): str
         : `${formatInt(r.pupilHoursRemovedPer1000Gbp)} pupil-hours of poor air removed per £1,000`;
     const pb =
       r.simplePaybackYears === null
-        ? 'no energy payback'
-        : `energy payback ${formatOneDecimal(r.simplePaybackYears)} years`;
+        ? 'no payback'
+        : `payback ${formatOneDecimal(r.simplePaybackYears)} years`;
     retrofit = ce ? `${ce}, ${pb}` : pb;
   }
   return `${ordinal(rank)} of ${n}: ${exposure}; ${retrofit} (weighted most on ${heaviest}).`;

@@ -3,9 +3,7 @@
  * combination of catalogue units that supplies it within a sound limit, and the money, energy and carbon
  * of those units (Batterman 2017 steady state; CIBSE TM41 degree-hours; HM Treasury Green Book discounting).
  */
-import { annualVentilationHeatKwh, fanEnergyKwh, fuelForHeatKwh, heatRecoveredKwh, netCarbonSavingKg } from './energy';
-import { discountedPaybackYears, npvLevel, simplePaybackYears } from './finance';
-import type { RetrofitMoney, RetrofitUnitLine, UnitModel } from './types';
+import type { RetrofitUnitLine, UnitModel } from './types';
 
 /**
  * Outdoor air needed so that the steady state stays at or below each limit, L/s:
@@ -100,6 +98,11 @@ export function unitLines(choice: UnitChoice): RetrofitUnitLine[] {
   return choice.lines.map((l) => ({ modelId: l.model.id, modelName: l.model.name, count: l.count }));
 }
 
+/** "2 × Wall unit 150 + 1 × Sill unit 60". */
+export function describeUnitLines(lines: readonly RetrofitUnitLine[]): string {
+  return lines.map((l) => `${l.count} × ${l.modelName}`).join(' + ');
+}
+
 /** Flow-weighted heat-recovery efficiency and specific fan power of a choice. */
 export function choicePerformance(choice: UnitChoice): {
   heatRecoveryEfficiency: number;
@@ -123,101 +126,6 @@ export function choicePerformance(choice: UnitChoice): {
     specificFanPowerWPerLps: sfp / choice.flowLps,
     maintenanceGbp: maint,
     lifeYears: life,
-  };
-}
-
-/**
- * Money, energy and carbon of running units against supplying the same air through windows (§5.5, §6.4):
- * heat recovered = η·ρc_p·Q·DH_occ/1000; fuel saved = recovered/efficiency; fan = SFP·Q·hours/1000;
- * S = fuel saved·p_fuel − fan·p_el − maintenance; carbon = fuel·f_fuel − fan·f_el; payback and NPV on S.
- */
-export function retrofitMoney(args: {
-  capitalCostGbp: number;
-  flowLps: number;
-  heatRecoveryEfficiency: number;
-  specificFanPowerWPerLps: number;
-  annualMaintenanceGbp: number;
-  degreeHoursKh: number;
-  fanRunHours: number;
-  airHeatCapacityWPerLpsK: number;
-  heatGeneratorEfficiency: number;
-  fuelPriceGbpPerKwh: number;
-  electricityPriceGbpPerKwh: number;
-  fuelKgCo2ePerKwh: number;
-  electricityKgCo2ePerKwh: number;
-  discountRate: number;
-  appraisalYears: number;
-}): RetrofitMoney {
-  const ventilationHeat = annualVentilationHeatKwh({
-    flowLps: args.flowLps,
-    degreeHoursKh: args.degreeHoursKh,
-    airHeatCapacityWPerLpsK: args.airHeatCapacityWPerLpsK,
-  });
-  const recovered = heatRecoveredKwh({
-    ventilationHeatKwh: ventilationHeat,
-    heatRecoveryEfficiency: args.heatRecoveryEfficiency,
-  });
-  const fuelSaved = fuelForHeatKwh({ heatKwh: recovered, efficiency: args.heatGeneratorEfficiency });
-  const fan = fanEnergyKwh({
-    specificFanPowerWPerLps: args.specificFanPowerWPerLps,
-    flowLps: args.flowLps,
-    runHours: args.fanRunHours,
-  });
-  const saving = fuelSaved * args.fuelPriceGbpPerKwh - fan * args.electricityPriceGbpPerKwh - args.annualMaintenanceGbp;
-  const carbon = netCarbonSavingKg({
-    fuelSavedKwh: fuelSaved,
-    fuelKgCo2ePerKwh: args.fuelKgCo2ePerKwh,
-    fanKwh: fan,
-    electricityKgCo2ePerKwh: args.electricityKgCo2ePerKwh,
-  });
-  return {
-    capitalCostGbp: args.capitalCostGbp,
-    annualHeatRecoveredKwh: recovered,
-    annualFuelSavedKwh: fuelSaved,
-    annualFanKwh: fan,
-    annualMaintenanceGbp: args.annualMaintenanceGbp,
-    annualNetSavingGbp: saving,
-    annualNetSavingKgCo2e: carbon,
-    simplePaybackYears: simplePaybackYears(args.capitalCostGbp, saving),
-    discountedPaybackYears: discountedPaybackYears({
-      capitalGbp: args.capitalCostGbp,
-      annualSavingGbp: saving,
-      rate: args.discountRate,
-    }),
-    npvGbp: npvLevel({
-      capitalGbp: args.capitalCostGbp,
-      annualSavingGbp: saving,
-      rate: args.discountRate,
-      years: args.appraisalYears,
-    }),
-  };
-}
-
-/** The room's figures divided among its units (per installed unit). */
-export function perUnitMoney(
-  room: RetrofitMoney,
-  unitCount: number,
-  discountRate: number,
-  appraisalYears: number,
-): RetrofitMoney {
-  const k = unitCount > 0 ? 1 / unitCount : 0;
-  const capital = room.capitalCostGbp * k;
-  const saving = room.annualNetSavingGbp * k;
-  return {
-    capitalCostGbp: capital,
-    annualHeatRecoveredKwh: room.annualHeatRecoveredKwh * k,
-    annualFuelSavedKwh: room.annualFuelSavedKwh * k,
-    annualFanKwh: room.annualFanKwh * k,
-    annualMaintenanceGbp: room.annualMaintenanceGbp * k,
-    annualNetSavingGbp: saving,
-    annualNetSavingKgCo2e: room.annualNetSavingKgCo2e * k,
-    simplePaybackYears: simplePaybackYears(capital, saving),
-    discountedPaybackYears: discountedPaybackYears({
-      capitalGbp: capital,
-      annualSavingGbp: saving,
-      rate: discountRate,
-    }),
-    npvGbp: npvLevel({ capitalGbp: capital, annualSavingGbp: saving, rate: discountRate, years: appraisalYears }),
   };
 }
 

@@ -563,11 +563,8 @@ export interface AnnualLines {
 
 /** How a retrofit fares against one baseline. */
 export interface BaselineAppraisal {
+  /** Which baseline; label() gives its words and baselineDescription (appraisal.ts) what it is for this room. */
   baseline: BaselineId;
-  /** Words for the baseline, e.g. "today's operation". */
-  label: string;
-  /** What the baseline is for this room, e.g. "windows bringing the same 160 l/s in winter". */
-  description: string;
   /** Capital spent beyond the baseline's, £ (the units' cost less the simpler option's for baseline (c)). */
   capitalCostGbp: number;
   annual: AnnualLines;
@@ -588,10 +585,9 @@ export interface BaselineAppraisal {
   pupilHoursRemovedPerYear: number;
   /** Net running cost a year per pupil-hour of poor air removed, £; null unless the units cost money to run and remove some. */
   runningCostPerPupilHourGbp: number | null;
-  /** 'pays_back': NPV ≥ 0; 'saves_slowly': saves money a year but not the capital within the period; 'costs_to_run'. */
+  /** 'pays_back': NPV ≥ 0; 'saves_slowly': saves money a year but not the capital within the period; 'costs_to_run'.
+   *  baselineWords (appraisal.ts) puts it in a sentence. */
   verdict: 'pays_back' | 'saves_slowly' | 'costs_to_run';
-  /** One plain sentence with the verdict and its figures. */
-  words: string;
 }
 
 /** The hours behind every energy figure of a result. */
@@ -633,8 +629,11 @@ export interface RoomAppraisal {
   /** Outdoor air the units must supply to meet the mechanical criterion in winter, L/s. */
   requiredSupplyLps: number;
   installedSupplyLps: number;
-  /** Existing non-recovering fan supply the units take over, L/s (0 for natural rooms). */
+  /** Existing non-recovering fan supply the units take over, L/s (0 for natural rooms); baseline (b) then moves
+   *  the same air with the existing fans, otherwise through windows. */
   replacesExistingLps: number;
+  /** Installed cost of the simpler compliant option of baseline (c) for the same flow, £. */
+  simplerOptionCapitalGbp: number;
   units: RetrofitUnitLine[];
   unitCount: number;
   /** "2 × Wall unit 150 + 1 × Sill unit 60". */
@@ -661,8 +660,9 @@ export interface RoomAppraisal {
   };
   /** Capital per tonne CO2e saved over the unit life against the headline baseline; null when it saves none. */
   capitalPerTonneCo2eGbp: number | null;
-  /** How the air and the running cost change against today, in words that fit the direction of each. */
-  comparisonWithToday: string;
+  /** Outdoor air while pupils are in, in winter, today and with the units, L/s (comparisonWords puts them in words). */
+  winterOutdoorAirTodayLps: number;
+  winterOutdoorAirWithUnitsLps: number;
   notes: string[];
 }
 
@@ -715,10 +715,10 @@ export interface RoomAssessment {
   comfort: ComfortResult;
   /** The heat-recovery retrofit against each baseline; null for rooms outside the criteria (not teaching, no pupils). */
   appraisal: RoomAppraisal | null;
-  /** Unknown inputs and the values used for them. */
+  /** Unknown inputs and the values used for them (assumedWords in assess.ts puts them in sentences). */
   assumed: AssumedValue[];
-  /** The same as sentences, e.g. 'block.airPermeabilityM3hM2 → 12 m³/(h·m²) (system-built default)'. */
-  defaultsUsed: string[];
+  /** Assumptions missing from an older stored set and taken from Airtally's defaults (paths). */
+  assumptionsFilled: string[];
   cautions: string[];
 }
 

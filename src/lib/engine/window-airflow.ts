@@ -104,29 +104,28 @@ export function windowAirflowLps(args: {
   const area = args.effectiveAreaM2;
   if (area <= 0) return 0;
   const deltaTK = args.indoorTempC - args.outdoorTempC;
-  const localWindMs = args.windSpeed10Ms * args.siteWindFactor;
-  const stackArgs = {
-    dischargeCoefficient: args.dischargeCoefficient,
-    areaM2: area,
-    openingHeightM: args.openingHeightM,
-    deltaTK,
-    meanTempK: 273.15 + (args.indoorTempC + args.outdoorTempC) / 2,
-  };
-  if (args.cross) {
-    const wind = crossWindM3s({
-      dischargeCoefficient: args.dischargeCoefficient,
-      windwardAreaM2: area / 2,
-      leewardAreaM2: area / 2,
-      windSpeedMs: localWindMs,
-      deltaCp: args.deltaCp,
-    });
-    return 1000 * Math.max(wind, singleSidedStackM3s(stackArgs));
-  }
-  if (args.method === 'de_gids_phaff')
+  if (args.method === 'de_gids_phaff' && !args.cross)
     return (
       1000 *
       deGidsPhaff({ areaM2: area, windSpeed10Ms: args.windSpeed10Ms, openingHeightM: args.openingHeightM, deltaTK })
         .flowM3s
     );
-  return 1000 * warrenParkinsM3s({ ...stackArgs, windSpeedMs: localWindMs });
+  const localWindMs = args.windSpeed10Ms * args.siteWindFactor;
+  const opening = {
+    dischargeCoefficient: args.dischargeCoefficient,
+    areaM2: area,
+    windSpeedMs: localWindMs,
+    openingHeightM: args.openingHeightM,
+    deltaTK,
+    meanTempK: 273.15 + (args.indoorTempC + args.outdoorTempC) / 2,
+  };
+  if (!args.cross) return 1000 * warrenParkinsM3s(opening);
+  const wind = crossWindM3s({
+    dischargeCoefficient: args.dischargeCoefficient,
+    windwardAreaM2: area / 2,
+    leewardAreaM2: area / 2,
+    windSpeedMs: localWindMs,
+    deltaCp: args.deltaCp,
+  });
+  return 1000 * Math.max(wind, singleSidedStackM3s(opening));
 }
