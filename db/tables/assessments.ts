@@ -52,7 +52,7 @@ export interface AssumptionSetsTable {
   created_at: Generated<Date>;
 }
 
-/** One room's result in one run; `is_current` marks the result the views read. */
+/** One room's result in one run; `is_current` marks the result the views read. Ranks live in portfolio_ranks. */
 export interface RoomResultsTable {
   run_id: string;
   room_id: string;
@@ -81,10 +81,23 @@ export interface RoomResultsTable {
   npv_gbp: number | null;
   pupil_hours_removed_per_1000_gbp: number | null;
   capital_per_tonne_co2e_gbp: number | null;
-  score_risk: Generated<number>;
-  score_cost_effectiveness: Generated<number>;
-  score_payback: Generated<number>;
-  rank: number | null;
+  /** The baseline the money columns are against (assumptions.finance.headlineBaseline of the run). */
+  baseline: string | null;
+  verdict: string | null;
+  annual_heating_saving_kwh: number | null;
+  annual_fan_saving_kwh: number | null;
+  annual_maintenance_saving_gbp: number | null;
+  replacement_cost_gbp: number | null;
+  /** Pupil-hours a year of poor air the units remove against today. */
+  pupil_hours_removed: number | null;
+  heating_fuel: string | null;
+  fuel_price_gbp_per_kwh: number | null;
+  heating_efficiency: number | null;
+  price_source: string | null;
+  efficiency_source: string | null;
+  heating_degree_hours_kh: number | null;
+  unit_run_hours: number | null;
+  assumed_count: Generated<number>;
   detail: Json<unknown>;
 }
 

@@ -24,7 +24,8 @@ export interface SchoolsTable {
   timetable: Json<unknown> | null;
   heating_fuel: Generated<string>;
   fuel_price_gbp_per_kwh: number | null;
-  boiler_efficiency: number | null;
+  /** Seasonal efficiency of the school's heating (seasonal COP for heat pumps, 1 for direct electric). */
+  heating_efficiency: number | null;
   created_at: CreatedAt;
   updated_at: UpdatedAt;
 }
@@ -38,30 +39,35 @@ export interface BlocksTable {
   air_permeability_m3h_m2: number | null;
   heating_type: string | null;
   heating_fuel: string | null;
+  fuel_price_gbp_per_kwh: number | null;
+  heating_efficiency: number | null;
   heating_installed_year: number | null;
   created_at: CreatedAt;
   updated_at: UpdatedAt;
 }
 
+/** Room columns; a null is an unknown value the engine assumes (and says so). */
 export interface RoomsTable {
   id: Generated<string>;
   school_id: string;
   block_id: string | null;
   code: string;
   name: Generated<string>;
-  use: Generated<string>;
+  use: string | null;
   floor_area_m2: number;
-  ceiling_height_m: number;
-  pupils: Generated<number>;
-  adults: Generated<number>;
-  age_group: string;
+  ceiling_height_m: number | null;
+  pupils: number | null;
+  adults: number | null;
+  age_group: string | null;
   orientation_deg: number | null;
-  glazing_area_m2: Generated<number>;
-  openable_area_m2: Generated<number>;
+  glazing_area_m2: number | null;
+  openable_area_m2: number | null;
   window_type: string | null;
+  frame_material: string | null;
   glazing_g_value: number | null;
-  ventilation_type: string;
+  ventilation_type: string | null;
   mechanical_supply_lps: number | null;
+  winter_window_open_fraction: number | null;
   notes: string | null;
   created_at: CreatedAt;
   updated_at: UpdatedAt;

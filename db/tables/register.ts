@@ -19,6 +19,8 @@ export interface RegisterImportsTable {
   problems: Json<unknown>;
   problem_count: Generated<number>;
   missing_rooms: Json<unknown>;
+  /** Per room of the preview: which fields change from what to what. */
+  room_changes: Json<unknown> | null;
   /** What the commit will write (the import plan), gzip-compressed JSON; cleared once committed or cancelled. */
   rows_gz: Buffer | null;
   /** Counts and latest change times of the trust's schools, blocks and rooms when the preview was made. */

@@ -5,7 +5,7 @@ import type { EngineRoom } from './engine-input.repository';
 export const RISK_BAND_NUMBERS: Record<RiskBand, number> = { fresh: 1, stuffy: 2, stale: 3, very_stale: 4 };
 export const RISK_BANDS_BY_NUMBER: readonly RiskBand[] = ['fresh', 'stuffy', 'stale', 'very_stale'];
 
-/** A room_results row before ranking (rank and the three component scores are set when the run is flipped current). */
+/** A room_results row. Money columns are against the headline baseline (`baseline`); ranks live in portfolio_ranks. */
 export interface ResultRow {
   runId: string;
   roomId: string;
@@ -33,30 +33,47 @@ export interface ResultRow {
   npvGbp: number | null;
   pupilHoursRemovedPer1000Gbp: number | null;
   capitalPerTonneCo2eGbp: number | null;
+  baseline: string | null;
+  verdict: string | null;
+  annualHeatingSavingKwh: number | null;
+  annualFanSavingKwh: number | null;
+  annualMaintenanceSavingGbp: number | null;
+  replacementCostGbp: number | null;
+  pupilHoursRemoved: number | null;
+  heatingFuel: string;
+  fuelPriceGbpPerKwh: number;
+  heatingEfficiency: number;
+  priceSource: string;
+  efficiencySource: string;
+  heatingDegreeHoursKh: number;
+  unitRunHours: number;
+  assumedCount: number;
   /** The RoomAssessment JSON (assessed without curves). */
   detailJson: string;
 }
 
 /** "2 × Wall unit 150 + 1 × Sill unit 60"; empty when no units are recommended. */
 export function describeUnits(assessment: RoomAssessment): string {
-  const retrofit = assessment.retrofit;
-  if (!retrofit) return '';
-  if (!retrofit.feasible) return `None: no catalogue combination reaches ${Math.round(retrofit.requiredSupplyLps)} l/s`;
-  return retrofit.units.map((u) => `${u.count} × ${u.modelName}`).join(' + ');
+  const a = assessment.appraisal;
+  if (!a) return '';
+  if (!a.feasible)
+    return a.requiredSupplyLps > 0 ? `None: no catalogue combination reaches ${Math.round(a.requiredSupplyLps)} l/s` : '';
+  return a.unitModels;
 }
 
-/** One assessed room as a result row: the worst season's CO2, the risk, and the retrofit money per room. */
+/** One assessed room as a result row: the worst season's CO2, the risk, and the headline appraisal per room. */
 export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAssessment): ResultRow {
   const worst = assessment.seasons[assessment.worstSeason];
-  const retrofit = assessment.retrofit?.feasible ? assessment.retrofit : null;
+  const appraisal = assessment.appraisal?.feasible ? assessment.appraisal : null;
+  const head = appraisal ? appraisal.baselines[appraisal.headline] : null;
   return {
     runId,
     roomId: room.roomId,
     trustId: room.trustId,
     schoolId: room.schoolId,
     blockId: room.blockId,
-    ventilationType: room.input.room.ventilationType,
-    pupils: room.input.room.pupils,
+    ventilationType: room.input.room.ventilationType ?? 'natural_single_sided',
+    pupils: assessment.pupils,
     worstSeason: assessment.worstSeason,
     meanCo2Ppm: worst.occupiedMeanCo2Ppm,
     peakCo2Ppm: worst.peakCo2Ppm,
@@ -66,21 +83,31 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     pupilHoursAbove: assessment.risk.pupilHoursPerYearAbove,
     reason: assessment.risk.reason,
     unitsRecommended: describeUnits(assessment),
-    unitCount: retrofit?.unitCount ?? 0,
-    capitalCostGbp: retrofit?.capitalCostGbp ?? null,
-    annualSavingGbp: retrofit?.annualNetSavingGbp ?? null,
-    // Delivered energy: heating fuel saved less the fans' electricity.
-    annualSavingKwh: retrofit ? retrofit.annualFuelSavedKwh - retrofit.annualFanKwh : null,
-    annualSavingKgCo2e: retrofit?.annualNetSavingKgCo2e ?? null,
-    simplePaybackYears: retrofit?.simplePaybackYears ?? null,
-    discountedPaybackYears: retrofit?.discountedPaybackYears ?? null,
-    npvGbp: retrofit?.npvGbp ?? null,
-    pupilHoursRemovedPer1000Gbp: retrofit?.pupilHoursRemovedPer1000Gbp ?? null,
-    capitalPerTonneCo2eGbp: retrofit?.capitalPerTonneCo2eGbp ?? null,
-    detailJson: JSON.stringify(
-      room.defaultsUsed.length > 0
-        ? { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] }
-        : assessment,
-    ),
+    unitCount: appraisal?.unitCount ?? 0,
+    capitalCostGbp: head?.capitalCostGbp ?? null,
+    annualSavingGbp: head?.annualNetSavingGbp ?? null,
+    annualSavingKwh: head?.annualNetSavingKwh ?? null,
+    annualSavingKgCo2e: head?.annualNetSavingKgCo2e ?? null,
+    simplePaybackYears: head?.simplePaybackYears ?? null,
+    discountedPaybackYears: head?.discountedPaybackYears ?? null,
+    npvGbp: head?.npvGbp ?? null,
+    pupilHoursRemovedPer1000Gbp: appraisal?.pupilHoursRemovedPer1000Gbp ?? null,
+    capitalPerTonneCo2eGbp: appraisal?.capitalPerTonneCo2eGbp ?? null,
+    baseline: appraisal?.headline ?? null,
+    verdict: head?.verdict ?? null,
+    annualHeatingSavingKwh: head?.annual.heatingKwh ?? null,
+    annualFanSavingKwh: head?.annual.fanKwh ?? null,
+    annualMaintenanceSavingGbp: head?.annual.maintenanceGbp ?? null,
+    replacementCostGbp: head ? head.replacements.reduce((sum, r) => sum + r.costGbp, 0) : null,
+    pupilHoursRemoved: appraisal?.pupilHoursRemovedPerYear ?? null,
+    heatingFuel: assessment.heating.fuel,
+    fuelPriceGbpPerKwh: assessment.heating.priceGbpPerKwh,
+    heatingEfficiency: assessment.heating.efficiency,
+    priceSource: assessment.heating.priceSource,
+    efficiencySource: assessment.heating.efficiencySource,
+    heatingDegreeHoursKh: assessment.hours.heatingDegreeHoursKh,
+    unitRunHours: assessment.hours.unitRunHoursPerYear,
+    assumedCount: assessment.assumed.length,
+    detailJson: JSON.stringify(assessment),
   };
 }

@@ -1,7 +1,6 @@
 import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
 import type { Database } from '../../../../db/database';
-import type { RankWeights } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import type { ResultRow } from './result-row';
 import { copyLine, copyLines, copyPieces } from '../db/copy';
@@ -34,6 +33,21 @@ const COPY_COLUMNS = [
   'npv_gbp',
   'pupil_hours_removed_per_1000_gbp',
   'capital_per_tonne_co2e_gbp',
+  'baseline',
+  'verdict',
+  'annual_heating_saving_kwh',
+  'annual_fan_saving_kwh',
+  'annual_maintenance_saving_gbp',
+  'replacement_cost_gbp',
+  'pupil_hours_removed',
+  'heating_fuel',
+  'fuel_price_gbp_per_kwh',
+  'heating_efficiency',
+  'price_source',
+  'efficiency_source',
+  'heating_degree_hours_kh',
+  'unit_run_hours',
+  'assumed_count',
   'detail',
 ] as const;
 
@@ -70,6 +84,21 @@ export function toCopyLine(r: ResultRow): string {
     r.npvGbp,
     r.pupilHoursRemovedPer1000Gbp,
     r.capitalPerTonneCo2eGbp,
+    r.baseline,
+    r.verdict,
+    r.annualHeatingSavingKwh,
+    r.annualFanSavingKwh,
+    r.annualMaintenanceSavingGbp,
+    r.replacementCostGbp,
+    r.pupilHoursRemoved,
+    r.heatingFuel,
+    r.fuelPriceGbpPerKwh,
+    r.heatingEfficiency,
+    r.priceSource,
+    r.efficiencySource,
+    r.heatingDegreeHoursKh,
+    r.unitRunHours,
+    r.assumedCount,
     r.detailJson,
   ]);
 }
@@ -107,27 +136,18 @@ export interface FlipInput {
   runId: string;
   trustId: string;
   schoolId: string | null;
-  /** The weights the stored rank uses (the engine's defaults). */
-  weights: RankWeights;
 }
 
 /**
  * Makes the run's results the current ones in ONE transaction: older current results of the rooms in scope
- * stop being current, this run's become current, and every current result of the trust is re-ranked with
- * the given weights. Views therefore never see a mix of two runs of the same rooms. Returns false when
- * the run was no longer running (another attempt finished or failed it), and then changes nothing.
- *
- * The rank is computed here in SQL over the stored scores, with exactly the engine's rule (rankRooms in
- * src/lib/engine/ranking.ts): each part normalised by the best value among the rows, the weighted sum
- * divided by the sum of the weights, highest first; ties by pupil-hours above, then `${runId}:${roomId}`
- * (uuids compare as their lowercase text does). The float8 arithmetic is done in the same order as the
- * engine's, so scores and ties come out identical; the rank reasons the engine also writes are not stored.
+ * stop being current and this run's become current, so views never see a mix of two runs of the same rooms.
+ * Ranks are not computed here: the trust's ranks (portfolio_ranks) are rebuilt by the engine's one ranking rule
+ * when the succeeded-runs stamp changes (ranking.repository). Returns false when the run was no longer running
+ * (another attempt finished or failed it), and then changes nothing.
  */
 export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Promise<boolean> {
-  const w = input.weights;
-  const wSum = w.risk + w.costEffectiveness + w.payback;
   return db.transaction().execute(async (trx) => {
-    // One flip at a time per trust, so two runs finishing together rank against each other's final state.
+    // One flip at a time per trust, so two runs finishing together see each other's final state.
     await sql`SELECT pg_advisory_xact_lock(hashtext(${`assessment-flip:${input.trustId}`}))`.execute(trx);
     const run = await trx
       .selectFrom('assessment_runs')
@@ -142,40 +162,8 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
               WHERE is_current AND trust_id = ${input.trustId} AND ${inScope} AND run_id <> ${input.runId}::uuid`.execute(
       trx,
     );
-
-    // The ranking sort fits in memory (about 100 bytes a room).
-    await sql`SET LOCAL work_mem = '64MB'`.execute(trx);
-    // Every row of this run (all attempts) plus the trust's other current results, ranked together.
-    await sql`
-      WITH pool AS (
-        SELECT run_id, room_id, risk_score, pupil_hours_above, pupil_hours_removed_per_1000_gbp AS ce, simple_payback_years AS pb
-        FROM room_results
-        WHERE run_id = ${input.runId}::uuid OR (is_current AND trust_id = ${input.trustId} AND run_id <> ${input.runId}::uuid)
-      ), best AS (
-        SELECT max(risk_score) AS max_risk, max(ce) AS max_ce, min(pb) AS min_pb FROM pool
-      ), parts AS (
-        SELECT p.run_id, p.room_id, p.pupil_hours_above,
-          CASE WHEN b.max_risk > 0 THEN p.risk_score / b.max_risk ELSE 0::float8 END AS risk,
-          CASE WHEN b.max_ce > 0 AND p.ce IS NOT NULL THEN p.ce / b.max_ce ELSE 0::float8 END AS ce,
-          CASE WHEN p.pb IS NULL THEN 0::float8 WHEN p.pb <= 0 THEN 1::float8
-               WHEN b.min_pb IS NOT NULL THEN LEAST(1::float8, b.min_pb / p.pb) ELSE 0::float8 END AS pb
-        FROM pool p CROSS JOIN best b
-      ), ranked AS (
-        SELECT run_id, room_id, risk, ce, pb,
-          row_number() OVER (
-            ORDER BY (${w.risk}::float8 * risk + ${w.costEffectiveness}::float8 * ce + ${w.payback}::float8 * pb) / ${wSum}::float8 DESC,
-              pupil_hours_above DESC, run_id, room_id
-          )::int AS rank
-        FROM parts
-      )
-      UPDATE room_results r SET is_current = true, rank = v.rank, score_risk = v.risk,
-        score_cost_effectiveness = v.ce, score_payback = v.pb
-      -- Applied in the order the rows were written (run, room), so the heap and indexes are walked forward, not at random.
-      FROM (SELECT * FROM ranked ORDER BY run_id, room_id) v
-      -- Another run's current row whose rank and scores are unchanged is left alone.
-      WHERE r.run_id = v.run_id AND r.room_id = v.room_id
-        AND NOT (r.is_current AND r.rank IS NOT DISTINCT FROM v.rank AND r.score_risk = v.risk
-                 AND r.score_cost_effectiveness = v.ce AND r.score_payback = v.pb)`.execute(trx);
+    // Applied in the order the rows were written, so the heap and indexes are walked forward.
+    await sql`UPDATE room_results SET is_current = true WHERE run_id = ${input.runId}::uuid AND NOT is_current`.execute(trx);
 
     await trx
       .updateTable('assessment_runs')

@@ -12,6 +12,7 @@ import { badRequest, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { WhatIfBody } from './assessments.schemas';
 import { readEngineRoom } from './engine-input.repository';
+import { getRoomRank } from '../portfolio/ranking.repository';
 
 /** The room's place in the latest current results, if it has been assessed. */
 export interface LatestResult {
@@ -39,28 +40,23 @@ function assessOrExplain(input: RoomAssessmentInput, set: AssumptionSet): RoomAs
   }
 }
 
+/** The room's latest stored result with its rank from the one ranking (the same as every page and export). */
 async function latestResult(trustId: string, roomId: string): Promise<LatestResult | null> {
-  const { rows } = await sql<{
-    run_id: string;
-    rank: number | null;
-    finished_at: Date | null;
-    assumptions_version: string | null;
-    ranked: number;
-  }>`
-    SELECT rr.run_id, rr.rank, ar.finished_at, ar.assumptions_version,
-      (SELECT count(*)::int FROM room_results x WHERE x.trust_id = rr.trust_id AND x.is_current) AS ranked
+  const db = getDb();
+  const { rows } = await sql<{ run_id: string; finished_at: Date | null; assumptions_version: string | null }>`
+    SELECT rr.run_id, ar.finished_at, ar.assumptions_version
     FROM room_results rr JOIN assessment_runs ar ON ar.id = rr.run_id
-    WHERE rr.room_id = ${roomId}::uuid AND rr.trust_id = ${trustId} AND rr.is_current`.execute(getDb());
+    WHERE rr.room_id = ${roomId}::uuid AND rr.trust_id = ${trustId} AND rr.is_current`.execute(db);
   const r = rows[0];
-  return r
-    ? {
-        runId: r.run_id,
-        rank: r.rank,
-        rankedRooms: r.ranked,
-        finishedAt: r.finished_at?.toISOString() ?? null,
-        assumptionsVersion: r.assumptions_version,
-      }
-    : null;
+  if (!r) return null;
+  const place = await getRoomRank(db, trustId, roomId);
+  return {
+    runId: r.run_id,
+    rank: place?.rank ?? null,
+    rankedRooms: place?.rankedRooms ?? 0,
+    finishedAt: r.finished_at?.toISOString() ?? null,
+    assumptionsVersion: r.assumptions_version,
+  };
 }
 
 /** The room page's assessment: computed now, so it reflects the register as it is; null when the room is not in scope. */
@@ -71,7 +67,7 @@ export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Pro
   const stored = await getCurrentAssumptionSet(db, trust.id);
   const assessment = assessOrExplain(room.input, stored.set);
   return {
-    assessment: { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] },
+    assessment,
     assumptionsLabel: stored.label,
     latest: await latestResult(trust.id, roomId),
   };
@@ -101,7 +97,7 @@ export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBod
     changed.room.pupils = body.pupils;
   }
   if (body.openableAreaM2 !== undefined) {
-    if (body.openableAreaM2 > changed.room.glazingAreaM2) {
+    if (changed.room.glazingAreaM2 !== null && body.openableAreaM2 > changed.room.glazingAreaM2) {
       throw badRequest(`Openable area cannot exceed the glazing area (${changed.room.glazingAreaM2} m²).`, {
         field: 'openableAreaM2',
       });
@@ -121,7 +117,8 @@ export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBod
       addedLps += model.nominalFlowLps * line.count;
       changes.push(`Add ${line.count} × ${model.name} (${model.nominalFlowLps * line.count} l/s)`);
     }
-    const mechanical = set.mechanical.ventilationClass.value[room.input.room.ventilationType] === 'mechanical';
+    const mechanical =
+      set.mechanical.ventilationClass.value[room.input.room.ventilationType ?? 'natural_single_sided'] === 'mechanical';
     const existingLps = mechanical ? (room.input.room.mechanicalSupplyLps ?? 0) : 0;
     changed.room.ventilationType = 'heat_recovery_unit';
     changed.room.mechanicalSupplyLps = existingLps + addedLps;

@@ -1,4 +1,4 @@
-import { assessRoom, DEFAULT_RANK_WEIGHTS, EngineInputError, type AssumptionSet } from '../../engine';
+import { assessRoom, EngineInputError, type AssumptionSet } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import { getDb, getPool } from '../db/client';
 import { getAssumptionSetById } from './assumptions.repository';
@@ -36,7 +36,7 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
 
   const chunkSize = options.chunkSize ?? defaultChunkSize(run.roomsTotal);
   await assessAndWrite(run, stored.set, chunkSize, options.afterChunk);
-  await flipRunCurrent(db, { runId, trustId: run.trustId, schoolId: run.schoolId, weights: DEFAULT_RANK_WEIGHTS });
+  await flipRunCurrent(db, { runId, trustId: run.trustId, schoolId: run.schoolId });
 }
 
 /**

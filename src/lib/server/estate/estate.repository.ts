@@ -3,6 +3,7 @@ import type { Database } from '../../../../db/database';
 import type { ActiveTrust } from '../auth/context';
 import type { RoomListQuery } from './estate.schemas';
 import type { Block, Page, Room, School, SchoolSummary } from './estate.types';
+import { parseStoredTimetable, timetableText } from './timetable';
 
 /** A WHERE condition on `schools` for the trust and, for school-limited members, their schools. */
 export function inTrustScope(trust: ActiveTrust) {
@@ -75,7 +76,13 @@ export async function listSchools(db: Kysely<Database>, trust: ActiveTrust): Pro
 export async function getSchool(db: Kysely<Database>, trust: ActiveTrust, id: string): Promise<School | null> {
   const row = await db
     .selectFrom('schools')
-    .select((eb) => [...schoolSummaryColumns(eb), 'heating_fuel', 'fuel_price_gbp_per_kwh', 'boiler_efficiency'])
+    .select((eb) => [
+      ...schoolSummaryColumns(eb),
+      'heating_fuel',
+      'fuel_price_gbp_per_kwh',
+      'heating_efficiency',
+      'timetable',
+    ])
     .where(inTrustScope(trust))
     .where('schools.id', '=', id)
     .executeTakeFirst();
@@ -97,7 +104,8 @@ export async function getSchool(db: Kysely<Database>, trust: ActiveTrust, id: st
     ...toSchoolSummary(row),
     heatingFuel: row.heating_fuel as School['heatingFuel'],
     fuelPriceGbpPerKwh: row.fuel_price_gbp_per_kwh,
-    boilerEfficiency: row.boiler_efficiency,
+    heatingEfficiency: row.heating_efficiency,
+    timetableText: timetableText(parseStoredTimetable(row.timetable)),
     blocks: blocks.map(
       (b): Block => ({
         id: b.id,
@@ -108,6 +116,8 @@ export async function getSchool(db: Kysely<Database>, trust: ActiveTrust, id: st
         airPermeabilityM3hM2: b.air_permeability_m3h_m2,
         heatingType: b.heating_type as Block['heatingType'],
         heatingFuel: b.heating_fuel as Block['heatingFuel'],
+        fuelPriceGbpPerKwh: b.fuel_price_gbp_per_kwh,
+        heatingEfficiency: b.heating_efficiency,
         heatingInstalledYear: b.heating_installed_year,
         roomCount: b.room_count ?? 0,
       }),
@@ -137,17 +147,19 @@ const toRoom = (r: RoomJoinRow): Room => ({
   name: r.name as string,
   use: r.use as Room['use'],
   floorAreaM2: r.floor_area_m2 as number,
-  ceilingHeightM: r.ceiling_height_m as number,
-  pupils: r.pupils as number,
-  adults: r.adults as number,
+  ceilingHeightM: r.ceiling_height_m as number | null,
+  pupils: r.pupils as number | null,
+  adults: r.adults as number | null,
   ageGroup: r.age_group as Room['ageGroup'],
   orientationDeg: r.orientation_deg as number | null,
-  glazingAreaM2: r.glazing_area_m2 as number,
-  openableAreaM2: r.openable_area_m2 as number,
+  glazingAreaM2: r.glazing_area_m2 as number | null,
+  openableAreaM2: r.openable_area_m2 as number | null,
   windowType: r.window_type as Room['windowType'],
+  frameMaterial: r.frame_material as Room['frameMaterial'],
   glazingGValue: r.glazing_g_value as number | null,
   ventilationType: r.ventilation_type as Room['ventilationType'],
   mechanicalSupplyLps: r.mechanical_supply_lps as number | null,
+  winterWindowOpenFraction: r.winter_window_open_fraction as number | null,
   notes: r.notes as string | null,
   updatedAt: (r.updated_at as Date).toISOString(),
 });

@@ -2,6 +2,7 @@ import type {
   AgeGroup,
   ClimateRegion,
   ConstructionType,
+  FrameMaterial,
   HeatingFuel,
   HeatingType,
   RoomUse,
@@ -26,7 +27,10 @@ export interface SchoolSummary {
 export interface School extends SchoolSummary {
   heatingFuel: HeatingFuel;
   fuelPriceGbpPerKwh: number | null;
-  boilerEfficiency: number | null;
+  /** Seasonal efficiency (seasonal COP for heat pumps, 1 for direct electric); null: the trust's default. */
+  heatingEfficiency: number | null;
+  /** The school's own day as editor lines; '' when the assumption set's timetable applies. */
+  timetableText: string;
   blocks: Block[];
 }
 
@@ -39,6 +43,8 @@ export interface Block {
   airPermeabilityM3hM2: number | null;
   heatingType: HeatingType | null;
   heatingFuel: HeatingFuel | null;
+  fuelPriceGbpPerKwh: number | null;
+  heatingEfficiency: number | null;
   heatingInstalledYear: number | null;
   roomCount: number;
 }
@@ -51,19 +57,21 @@ export interface Room {
   blockName: string | null;
   code: string;
   name: string;
-  use: RoomUse;
+  use: RoomUse | null;
   floorAreaM2: number;
-  ceilingHeightM: number;
-  pupils: number;
-  adults: number;
-  ageGroup: AgeGroup;
+  ceilingHeightM: number | null;
+  pupils: number | null;
+  adults: number | null;
+  ageGroup: AgeGroup | null;
   orientationDeg: number | null;
-  glazingAreaM2: number;
-  openableAreaM2: number;
+  glazingAreaM2: number | null;
+  openableAreaM2: number | null;
   windowType: WindowType | null;
+  frameMaterial: FrameMaterial | null;
   glazingGValue: number | null;
-  ventilationType: VentilationType;
+  ventilationType: VentilationType | null;
   mechanicalSupplyLps: number | null;
+  winterWindowOpenFraction: number | null;
   notes: string | null;
   updatedAt: string;
 }

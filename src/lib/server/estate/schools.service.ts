@@ -4,7 +4,9 @@ import type { Database } from '../../../../db/database';
 import { CLIMATE_REGIONS, HEATING_FUELS, SCHOOL_PHASES } from '../../engine/vocabulary';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
-import { forbidden } from '../http/errors';
+import { badRequest, forbidden } from '../http/errors';
+import { SCHOOL_LIMITS } from '../../engine/limits';
+import { efficiencyProblem, limited } from '../register/register.schemas';
 import { assertWithinPlan } from '../billing/plan-limits';
 
 /** POST /api/schools body. */
@@ -17,8 +19,8 @@ export const NewSchoolSchema = z.object({
   heatingFuel: z
     .enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` })
     .default('gas'),
-  fuelPriceGbpPerKwh: z.number().positive().lt(5).nullish(),
-  boilerEfficiency: z.number().gt(0).max(1).nullish(),
+  fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullish(),
+  heatingEfficiency: z.number().min(0.3).max(6).nullish(),
 });
 export type NewSchoolInput = z.infer<typeof NewSchoolSchema>;
 
@@ -33,6 +35,8 @@ export async function createSchool(
   input: NewSchoolInput,
 ): Promise<{ id: string; name: string }> {
   if (trust.schoolIds) throw forbidden('add schools while your membership is limited to chosen schools');
+  const problem = efficiencyProblem(input.heatingFuel, input.heatingEfficiency);
+  if (problem) throw badRequest(problem, { field: 'heatingEfficiency' });
   return db.transaction().execute(async (trx) => {
     // Serialise school creation per trust so two requests cannot both pass the plan check.
     await trx.selectFrom('trusts').select('id').where('id', '=', trust.id).forUpdate().executeTakeFirst();
@@ -48,7 +52,7 @@ export async function createSchool(
         address: input.address ?? null,
         heating_fuel: input.heatingFuel,
         fuel_price_gbp_per_kwh: input.fuelPriceGbpPerKwh ?? null,
-        boiler_efficiency: input.boilerEfficiency ?? null,
+        heating_efficiency: input.heatingEfficiency ?? null,
       })
       .returning(['id', 'name'])
       .executeTakeFirstOrThrow();

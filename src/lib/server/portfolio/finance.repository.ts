@@ -4,7 +4,8 @@ import type { Database } from '../../../../db/database';
 import { DEFAULT_ASSUMPTIONS } from '../../engine/assumptions';
 import { getAssumptionSetById } from '../assessments/assumptions.repository';
 import { simplePaybackYears } from '../../engine/finance';
-import type { RetrofitMoney, RetrofitUnitLine } from '../../engine/types';
+import type { RetrofitUnitLine } from '../../engine/types';
+import { label } from '../../engine/vocabulary';
 import type { ActiveTrust } from '../auth/context';
 import {
   FOSSIL_FUELS,
@@ -27,9 +28,25 @@ interface Row {
   heating_fuel: string | null;
   heating_installed_year: number | null;
   unit_count: number;
+  capital_cost_gbp: number;
+  annual_saving_gbp: number;
   annual_saving_kwh: number | null;
+  annual_saving_kgco2e: number | null;
+  simple_payback_years: number | null;
+  discounted_payback_years: number | null;
+  npv_gbp: number | null;
+  annual_heating_saving_kwh: number | null;
+  annual_fan_saving_kwh: number | null;
+  annual_maintenance_saving_gbp: number | null;
+  replacement_cost_gbp: number | null;
   capital_per_tonne_co2e_gbp: number | null;
-  per_unit: RetrofitMoney | null;
+  baseline: string | null;
+  verdict: string | null;
+  heat_fuel: string | null;
+  fuel_price_gbp_per_kwh: number | null;
+  heating_efficiency: number | null;
+  price_source: string | null;
+  efficiency_source: string | null;
   units: RetrofitUnitLine[] | null;
 }
 
@@ -70,10 +87,13 @@ function finish(sum: Accumulator): MoneyTotals {
   };
 }
 
-/** One line per installed unit: a room with n units gives n rows, each its share (the engine's perUnit). */
+/**
+ * One line per installed unit: a room with n units gives n rows, each an equal share of the room's headline
+ * figures (paybacks are the room's: capital and saving divide alike).
+ */
 function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; maintenanceGbp: number }[] {
-  const perUnit = row.per_unit;
-  if (!perUnit || row.unit_count <= 0) return [];
+  if (row.unit_count <= 0) return [];
+  const k = 1 / row.unit_count;
   const models = (row.units ?? []).flatMap((line) => Array.from({ length: line.count }, () => line.modelName));
   const heatingRenewal = heatingRenewalFlag({
     fuel: row.heating_fuel,
@@ -81,7 +101,7 @@ function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; mainte
     currentYear,
   });
   return Array.from({ length: row.unit_count }, (_, i) => ({
-    maintenanceGbp: perUnit.annualMaintenanceGbp,
+    maintenanceGbp: -(row.annual_maintenance_saving_gbp ?? 0) * k,
     unit: {
       roomId: row.room_id,
       roomCode: row.room_code,
@@ -90,17 +110,46 @@ function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; mainte
       unitIndex: i + 1,
       unitCount: row.unit_count,
       modelName: models[i] ?? models[0] ?? 'Unit',
-      capitalCostGbp: perUnit.capitalCostGbp,
-      annualSavingKwh: (row.annual_saving_kwh ?? 0) / row.unit_count,
-      annualSavingGbp: perUnit.annualNetSavingGbp,
-      annualSavingKgCo2e: perUnit.annualNetSavingKgCo2e,
-      simplePaybackYears: perUnit.simplePaybackYears,
-      discountedPaybackYears: perUnit.discountedPaybackYears,
-      npvGbp: perUnit.npvGbp,
+      capitalCostGbp: row.capital_cost_gbp * k,
+      annualSavingKwh: (row.annual_saving_kwh ?? 0) * k,
+      annualSavingGbp: row.annual_saving_gbp * k,
+      annualSavingKgCo2e: (row.annual_saving_kgco2e ?? 0) * k,
+      simplePaybackYears: row.simple_payback_years,
+      discountedPaybackYears: row.discounted_payback_years,
+      npvGbp: (row.npv_gbp ?? 0) * k,
+      heatingKwh: (row.annual_heating_saving_kwh ?? 0) * k,
+      fanKwh: (row.annual_fan_saving_kwh ?? 0) * k,
+      maintenanceGbp: (row.annual_maintenance_saving_gbp ?? 0) * k,
+      replacementCostGbp: (row.replacement_cost_gbp ?? 0) * k,
+      baseline: row.baseline,
+      verdict: row.verdict,
       capitalPerTonneCo2eGbp: row.capital_per_tonne_co2e_gbp,
       heatingRenewal,
     },
   }));
+}
+
+/** Records the fuel, price and efficiency a school's figures used (each distinct combination once). */
+function noteHeating(school: FinanceSchool, row: Row): void {
+  if (!row.heat_fuel || row.fuel_price_gbp_per_kwh === null || row.heating_efficiency === null) return;
+  const found = school.heatingUsed.find(
+    (h) =>
+      h.fuel === row.heat_fuel &&
+      h.priceGbpPerKwh === row.fuel_price_gbp_per_kwh &&
+      h.efficiency === row.heating_efficiency &&
+      h.priceSource === row.price_source &&
+      h.efficiencySource === row.efficiency_source,
+  );
+  if (found) found.rooms += 1;
+  else
+    school.heatingUsed.push({
+      fuel: row.heat_fuel,
+      priceGbpPerKwh: row.fuel_price_gbp_per_kwh,
+      priceSource: row.price_source ?? 'trust',
+      efficiency: row.heating_efficiency,
+      efficiencySource: row.efficiency_source ?? 'trust',
+      rooms: 1,
+    });
 }
 
 /** The finance report of the trust (or one school): unit rows, subtotals, totals, baseline and sensitivity. */
@@ -121,8 +170,12 @@ export async function financeReport(
   const [result, lastRun] = await Promise.all([
     sql<Row>`
       SELECT rr.room_id, r.code AS room_code, r.name AS room_name, rr.school_id, s.name AS school_name, b.name AS block_name,
-        coalesce(b.heating_fuel, s.heating_fuel) AS heating_fuel, b.heating_installed_year, rr.unit_count, rr.annual_saving_kwh,
-        rr.capital_per_tonne_co2e_gbp, rr.detail->'retrofit'->'perUnit' AS per_unit, rr.detail->'retrofit'->'units' AS units
+        coalesce(b.heating_fuel, s.heating_fuel) AS heating_fuel, b.heating_installed_year, rr.unit_count,
+        rr.capital_cost_gbp, rr.annual_saving_gbp, rr.annual_saving_kwh, rr.annual_saving_kgco2e, rr.simple_payback_years,
+        rr.discounted_payback_years, rr.npv_gbp, rr.annual_heating_saving_kwh, rr.annual_fan_saving_kwh,
+        rr.annual_maintenance_saving_gbp, rr.replacement_cost_gbp, rr.capital_per_tonne_co2e_gbp, rr.baseline, rr.verdict,
+        rr.heating_fuel AS heat_fuel, rr.fuel_price_gbp_per_kwh, rr.heating_efficiency, rr.price_source, rr.efficiency_source,
+        rr.detail->'appraisal'->'units' AS units
       FROM room_results rr
         JOIN rooms r ON r.id = rr.room_id
         JOIN schools s ON s.id = rr.school_id
@@ -146,11 +199,18 @@ export async function financeReport(
     let entry = schools.get(row.school_id);
     if (!entry) {
       entry = {
-        school: { schoolId: row.school_id, schoolName: row.school_name, units: [], subtotal: finish(emptyTotals()) },
+        school: {
+          schoolId: row.school_id,
+          schoolName: row.school_name,
+          units: [],
+          subtotal: finish(emptyTotals()),
+          heatingUsed: [],
+        },
         sum: emptyTotals(),
       };
       schools.set(row.school_id, entry);
     }
+    noteHeating(entry.school, row);
     for (const { unit, maintenanceGbp } of unitRows(row, currentYear)) {
       entry.school.units.push(unit);
       add(entry.sum, unit, maintenanceGbp);
@@ -165,20 +225,24 @@ export async function financeReport(
     : null;
   const finance = (runSet?.set ?? DEFAULT_ASSUMPTIONS).finance;
   const baseline = { discountRate: finance.discountRate.value, appraisalYears: finance.appraisalYears.value };
+  const headline = finance.headlineBaseline?.value ?? 'same_air_without_recovery';
   const runWhen = lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null;
   return {
     schools: [...schools.values()].map((e) => e.school),
     totals: finish(trustSum),
     baseline: {
       ...baseline,
+      headline,
+      headlineLabel: label(headline),
       assumptionsVersion: lastRun?.assumptions_version ?? null,
       runFinishedAt: runWhen,
       words:
-        `Savings are against supplying the same fresh air through windows, at the energy prices and carbon factors of the ` +
-        `assumption set the latest assessment used${lastRun?.assumptions_version ? ` (version ${lastRun.assumptions_version})` : ''}. ` +
+        `Figures are against ${label(headline)} (the finance lead's choice of baseline in the assumption set the latest ` +
+        `assessment used${lastRun?.assumptions_version ? `, version ${lastRun.assumptions_version}` : ''}); each room page shows all three baselines. ` +
+        `Net savings are heating saved less fan electricity less servicing; unit replacement within the period is a separate line in NPV. ` +
+        `Each school's fuel, price and heating efficiency are listed with it (block, else school, else the trust's assumption set). ` +
         `Money is in today's pounds; NPV and discounted payback use a real discount rate of ${(baseline.discountRate * 100).toFixed(1)} % ` +
-        `over ${baseline.appraisalYears} years, with savings at the end of each year. Against today's operation, better air can ` +
-        `cost more energy than it saves; the room pages say where.`,
+        `over ${baseline.appraisalYears} years, with savings at the end of each year.`,
     },
     heatingRenewalRule: {
       plantLifeYears: TYPICAL_PLANT_LIFE_YEARS,

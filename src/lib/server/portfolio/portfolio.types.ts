@@ -42,6 +42,11 @@ export interface PriorityRow {
   annualSavingGbp: number | null;
   simplePaybackYears: number | null;
   npvGbp: number | null;
+  /** The baseline the money figures are against (BaselineId), null when no units are recommended. */
+  baseline: string | null;
+  verdict: string | null;
+  /** How many register values the engine assumed for this room. */
+  assumedCount: number;
 }
 
 export interface PrioritiesPage {
@@ -70,9 +75,27 @@ export interface FinanceUnitRow {
   simplePaybackYears: number | null;
   discountedPaybackYears: number | null;
   npvGbp: number;
+  /** The lines of the net saving (against the baseline): heating kWh, fan electricity kWh, servicing £. */
+  heatingKwh: number;
+  fanKwh: number;
+  maintenanceGbp: number;
+  /** Replacement within the appraisal period, £ (in NPV, not in the annual saving). */
+  replacementCostGbp: number;
+  baseline: string | null;
+  verdict: string | null;
   /** Capital per tonne CO2e saved over the unit's life; null when the unit saves no carbon. */
   capitalPerTonneCo2eGbp: number | null;
   heatingRenewal: HeatingRenewalFlag | null;
+}
+
+/** A fuel, price and efficiency a school's figures used, and where each came from. */
+export interface HeatingUsedRow {
+  fuel: string;
+  priceGbpPerKwh: number;
+  priceSource: string;
+  efficiency: number;
+  efficiencySource: string;
+  rooms: number;
 }
 
 /** A block whose fossil-fuel heating is near the end of its typical life. */
@@ -98,6 +121,7 @@ export interface FinanceSchool {
   schoolName: string;
   units: FinanceUnitRow[];
   subtotal: MoneyTotals;
+  heatingUsed: HeatingUsedRow[];
 }
 
 /** One case of the sensitivity table: the programme's payback and NPV under changed prices or rate. */
@@ -114,6 +138,9 @@ export interface FinanceReport {
   schools: FinanceSchool[];
   totals: MoneyTotals;
   baseline: {
+    /** The baseline of the headline figures (BaselineId) and its words. */
+    headline: string;
+    headlineLabel: string;
     discountRate: number;
     appraisalYears: number;
     assumptionsVersion: string | null;

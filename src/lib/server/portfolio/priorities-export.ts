@@ -30,9 +30,9 @@ export async function exportPriorities(
   query: PrioritiesQuery,
   now = new Date(),
 ): Promise<Buffer> {
-  const weights = query.weights ?? (await ensureRanks(db, trust.id)).weights;
-  if (query.weights) await ensureRanks(db, trust.id);
-  const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0);
+  const state = await ensureRanks(db, trust.id);
+  const weights = query.weights ?? state.weights;
+  const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0, state.stamp);
 
   const sink = new PassThrough();
   const chunks: Buffer[] = [];

@@ -4,9 +4,9 @@ import type { Database } from '../../../../db/database';
 import { RISK_BAND_LABELS } from '../../engine/risk';
 import type { RiskBand } from '../../engine/types';
 import type { ActiveTrust } from '../auth/context';
-import type { PrioritiesQuery, PriorityFilter, PrioritySortKey, Weights } from './portfolio.schemas';
+import type { PrioritiesQuery, PriorityFilter, PrioritySortKey } from './portfolio.schemas';
 import type { PrioritiesPage, PriorityRow } from './portfolio.types';
-import { ensureRanks, rankOrderSql, weightedScoreSql } from './ranking.repository';
+import { ensureRanks, previewRanks } from './ranking.repository';
 
 /** room_results.risk_band (1–4) to the engine's band names, least concern first. */
 export const BAND_BY_NUMBER: Record<number, RiskBand> = { 1: 'fresh', 2: 'stuffy', 3: 'stale', 4: 'very_stale' };
@@ -40,13 +40,20 @@ export function filterSql(trust: ActiveTrust, filter: PriorityFilter) {
 
 /**
  * The ranked rooms of the trust as `pr`: portfolio_ranks itself under the saved weights (indexed), or the same
- * rows re-ranked on the fly under preview weights. Either way a room's rank is its place in the whole trust.
+ * rows with the places the engine's rule gives under preview weights. Either way a room's rank is its place in
+ * the whole trust, computed by the one ranking rule.
  */
-export function rankedSource(trust: ActiveTrust, preview: Weights | null) {
+export function rankedSource(
+  trust: ActiveTrust,
+  preview: { ids: string[]; ranks: number[]; scores: number[] } | null,
+) {
   if (!preview) return sql`portfolio_ranks pr`;
   return sql`(
-      SELECT p.*, row_number() OVER (ORDER BY ${rankOrderSql(preview, 'p')})::int AS preview_rank, ${weightedScoreSql(preview, 'p')} AS preview_score
-      FROM portfolio_ranks p WHERE p.trust_id = ${trust.id}
+      SELECT p.*, v.rank AS preview_rank, v.score AS preview_score
+      FROM portfolio_ranks p
+        JOIN unnest(${preview.ids}::uuid[], ${preview.ranks}::int[], ${preview.scores}::float8[]) AS v(room_id, rank, score)
+          ON v.room_id = p.room_id
+      WHERE p.trust_id = ${trust.id}
     ) pr`;
 }
 
@@ -75,6 +82,9 @@ interface Row {
   annual_saving_gbp: number | null;
   simple_payback_years: number | null;
   npv_gbp: number | null;
+  baseline: string | null;
+  verdict: string | null;
+  assumed_count: number;
 }
 
 const toPriorityRow = (r: Row): PriorityRow => ({
@@ -103,6 +113,9 @@ const toPriorityRow = (r: Row): PriorityRow => ({
   annualSavingGbp: r.annual_saving_gbp,
   simplePaybackYears: r.simple_payback_years,
   npvGbp: r.npv_gbp,
+  baseline: r.baseline,
+  verdict: r.verdict,
+  assumedCount: r.assumed_count,
 });
 
 /** Selects priority rows in the requested order; ranked set first (narrow), then the page's result rows. */
@@ -112,8 +125,9 @@ export async function selectPriorityRows(
   query: Omit<PrioritiesQuery, 'page' | 'pageSize'>,
   limit: number | null,
   offset: number,
+  stamp = '',
 ): Promise<PriorityRow[]> {
-  const preview = query.weights;
+  const preview = query.weights ? await previewRanks(db, trust.id, stamp, query.weights) : null;
   const rank = preview ? sql`pr.preview_rank` : sql`pr.rank`;
   const score = preview ? sql`pr.preview_score` : sql`pr.score`;
   const dir = query.dir === 'desc' ? sql`DESC` : sql`ASC`;
@@ -128,7 +142,8 @@ export async function selectPriorityRows(
     SELECT rr.room_id, page.rank, page.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
       r.code AS room_code, r.name AS room_name, rr.pupils, rr.ventilation_type, rr.worst_season, rr.mean_co2_ppm,
       rr.peak_co2_ppm, rr.criteria_met, rr.risk_band, rr.reason, rr.pupil_hours_above, rr.units_recommended,
-      rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp
+      rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.baseline,
+      rr.verdict, rr.assumed_count
     FROM page
       JOIN room_results rr ON rr.room_id = page.room_id AND rr.is_current AND rr.trust_id = ${trust.id}
       JOIN schools s ON s.id = rr.school_id
@@ -178,7 +193,7 @@ export async function listPriorities(
 ): Promise<PrioritiesPage> {
   const state = await ensureRanks(db, trust.id);
   const [rows, total] = await Promise.all([
-    selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize),
+    selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize, state.stamp),
     countPriorityRows(db, trust, query, state.stamp),
   ]);
   return {

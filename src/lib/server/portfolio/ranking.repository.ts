@@ -1,32 +1,63 @@
 /**
- * The trust's ranking: saved weights and the ranks they give. Ranks are the weighted sum of the three
- * component scores the engine stored per room (0–1, higher = do sooner), computed in SQL and kept in
- * portfolio_ranks; they are rebuilt when the weights or the trust's succeeded runs change.
+ * The trust's ranking: saved weights and the ranks they give. Every rank anywhere (priorities, room page,
+ * dashboard, every export) comes from portfolio_ranks, which is built by the engine's one ranking rule
+ * (rankOrder in src/lib/engine/ranking.ts) over the stored parts of the trust's current results; it is rebuilt
+ * when the weights or the trust's succeeded runs change. Previews of other weights use the same rule.
  */
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { DEFAULT_RANK_WEIGHTS } from '../../engine/ranking';
+import { DEFAULT_RANK_WEIGHTS, rankOrder, type RankParts } from '../../engine/ranking';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { Weights } from './portfolio.schemas';
 import type { WeightSettings } from './portfolio.types';
 
-/** Weights scaled to sum to 1, so scores stay in 0–1 whatever the sliders say. */
-export function normaliseWeights(w: Weights): Weights {
-  const sum = w.risk + w.costEffectiveness + w.payback;
-  return { risk: w.risk / sum, costEffectiveness: w.costEffectiveness / sum, payback: w.payback / sum };
+/** The stored parts that decide a room's rank (columns of its current room_results row). */
+export async function loadRankParts(db: Kysely<Database>, trustId: string): Promise<RankParts[]> {
+  const { rows } = await sql<{ room_id: string; r: number; h: number; ce: number | null; pb: number | null }>`
+    SELECT room_id, risk_score AS r, pupil_hours_above AS h, pupil_hours_removed_per_1000_gbp AS ce, simple_payback_years AS pb
+    FROM room_results WHERE trust_id = ${trustId} AND is_current`.execute(db);
+  return rows.map((row) => ({
+    roomId: row.room_id,
+    riskScore: row.r,
+    pupilHoursPerYearAbove: row.h,
+    pupilHoursRemovedPer1000Gbp: row.ce,
+    simplePaybackYears: row.pb,
+  }));
 }
 
-/** SQL for a room's weighted score under `w`, on a table alias with the three score columns (room_results or portfolio_ranks). */
-export function weightedScoreSql(w: Weights, alias = 'rr') {
-  const n = normaliseWeights(w);
-  const t = sql.raw(alias);
-  return sql<number>`(${n.risk}::float8 * ${t}.score_risk + ${n.costEffectiveness}::float8 * ${t}.score_cost_effectiveness + ${n.payback}::float8 * ${t}.score_payback)`;
+/** The engine's ranking of the trust's current results under `weights`, as column arrays for SQL. */
+export async function computeRanks(
+  db: Kysely<Database>,
+  trustId: string,
+  weights: Weights,
+): Promise<{ ids: string[]; ranks: number[]; scores: number[]; risk: number[]; ce: number[]; pb: number[] }> {
+  const ranked = rankOrder(await loadRankParts(db, trustId), weights);
+  return {
+    ids: ranked.map((r) => r.row.roomId),
+    ranks: ranked.map((r) => r.rank),
+    scores: ranked.map((r) => r.score),
+    risk: ranked.map((r) => r.parts.risk),
+    ce: ranked.map((r) => r.parts.costEffectiveness),
+    pb: ranked.map((r) => r.parts.payback),
+  };
 }
 
-/** Order of the ranking: score, then more pupil-hours of poor air, then a stable id. */
-export function rankOrderSql(w: Weights, alias = 'rr') {
-  const t = sql.raw(alias);
-  return sql`${weightedScoreSql(w, alias)} DESC, ${t}.pupil_hours_above DESC, ${t}.room_id ASC`;
+const previewCache = new Map<string, { ids: string[]; ranks: number[]; scores: number[] }>();
+
+/** Ranks under preview weights (not saved), by the same rule; cached per trust, results stamp and weights. */
+export async function previewRanks(
+  db: Kysely<Database>,
+  trustId: string,
+  stamp: string,
+  weights: Weights,
+): Promise<{ ids: string[]; ranks: number[]; scores: number[] }> {
+  const key = JSON.stringify([trustId, stamp, weights]);
+  const hit = previewCache.get(key);
+  if (hit) return hit;
+  const computed = await computeRanks(db, trustId, weights);
+  if (previewCache.size > 20) previewCache.clear();
+  previewCache.set(key, computed);
+  return computed;
 }
 
 const sameWeights = (a: Weights, b: Weights) =>
@@ -145,16 +176,18 @@ async function rebuildRanks(
     )
       return stampRow.stamp;
     await trx.deleteFrom('portfolio_ranks').where('trust_id', '=', trustId).execute();
+    const r = await computeRanks(trx, trustId, weights);
     await sql`
       INSERT INTO portfolio_ranks (trust_id, room_id, school_id, rank, score, block_id, school_name, ventilation_type, risk_band,
         criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp, simple_payback_years, npv_gbp,
         pupil_hours_above, score_risk, score_cost_effectiveness, score_payback)
-      SELECT rr.trust_id, rr.room_id, rr.school_id, row_number() OVER (ORDER BY ${rankOrderSql(weights)}), ${weightedScoreSql(weights)},
+      SELECT rr.trust_id, rr.room_id, rr.school_id, v.rank, v.score,
         rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
-        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.score_risk,
-        rr.score_cost_effectiveness, rr.score_payback
-      FROM room_results rr JOIN schools s ON s.id = rr.school_id
-      WHERE rr.trust_id = ${trustId} AND rr.is_current`.execute(trx);
+        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, v.risk, v.ce, v.pb
+      FROM unnest(${r.ids}::uuid[], ${r.ranks}::int[], ${r.scores}::float8[], ${r.risk}::float8[], ${r.ce}::float8[], ${r.pb}::float8[])
+          AS v(room_id, rank, score, risk, ce, pb)
+        JOIN room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId} AND rr.is_current
+        JOIN schools s ON s.id = rr.school_id`.execute(trx);
     await sql`ANALYZE portfolio_ranks`.execute(trx);
     await trx
       .insertInto('portfolio_settings')
@@ -212,4 +245,18 @@ export async function saveWeights(
   // The person who saved sees the list in their new order: wait for any rebuild already running.
   await checkRanks(db, trustId, { wait: true });
   return getWeightSettings(db, trustId);
+}
+
+/** A room's place in its trust under the saved weights (the rank every page and export shows), or null. */
+export async function getRoomRank(
+  db: Kysely<Database>,
+  trustId: string,
+  roomId: string,
+): Promise<{ rank: number; rankedRooms: number } | null> {
+  await ensureRanks(db, trustId);
+  const { rows } = await sql<{ rank: number; n: number }>`
+    SELECT pr.rank, (SELECT count(*)::int FROM portfolio_ranks x WHERE x.trust_id = ${trustId}) AS n
+    FROM portfolio_ranks pr WHERE pr.trust_id = ${trustId} AND pr.room_id = ${roomId}::uuid`.execute(db);
+  const row = rows[0];
+  return row ? { rank: row.rank, rankedRooms: row.n } : null;
 }

@@ -1,10 +1,19 @@
-import { AGE_GROUPS, ROOM_USES, SCHOOL_PHASES, VENTILATION_TYPES, WINDOW_TYPES } from '../../engine/vocabulary';
+import { BLOCK_LIMITS, type FieldLimit, ROOM_LIMITS, SCHOOL_LIMITS } from '../../engine/limits';
+import {
+  AGE_GROUPS,
+  FRAME_MATERIALS,
+  HEATING_FUELS,
+  ROOM_USES,
+  SCHOOL_PHASES,
+  VENTILATION_TYPES,
+  WINDOW_TYPES,
+} from '../../engine/vocabulary';
 
 /** How a register column's cell text becomes a value. */
 export type ColumnKind = 'text' | 'number' | 'integer' | 'year' | 'orientation' | 'enum';
 
 /** What a number's unit measures, so typed units ("60 m2", "2700 mm") can be converted. */
-export type Quantity = 'area' | 'length' | 'flow' | 'count' | 'permeability';
+export type Quantity = 'area' | 'length' | 'flow' | 'count' | 'permeability' | 'price' | 'ratio' | 'percent';
 
 /** One column of the room register, as the template writes it and the import reads it. */
 export interface RegisterColumn {
@@ -19,6 +28,9 @@ export interface RegisterColumn {
   width: number;
   /** Excel number format for numeric columns. */
   numFmt?: string;
+  /** The field's range (limits.ts), for the template's data validation; `sheetScale` converts it to the sheet's unit. */
+  limit?: FieldLimit;
+  sheetScale?: number;
   guide: string;
 }
 
@@ -42,6 +54,15 @@ export const REGISTER_FIELDS = [
   'ventilationType',
   'mechanicalSupplyLps',
   'airPermeabilityM3hM2',
+  'glazingGValue',
+  'frameMaterial',
+  'winterWindowOpenFraction',
+  'schoolHeatingFuel',
+  'schoolFuelPriceGbpPerKwh',
+  'schoolHeatingEfficiency',
+  'blockHeatingFuel',
+  'blockFuelPriceGbpPerKwh',
+  'blockHeatingEfficiency',
   'notes',
 ] as const;
 export type RegisterField = (typeof REGISTER_FIELDS)[number];
@@ -76,6 +97,7 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'yearBuilt',
+    limit: BLOCK_LIMITS.yearBuilt,
     header: 'Year built',
     kind: 'year',
     width: 11,
@@ -130,16 +152,18 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'floorAreaM2',
+    limit: ROOM_LIMITS.floorAreaM2,
     header: 'Floor area (m2)',
     kind: 'number',
     quantity: 'area',
     width: 15,
     numFmt: '0.0',
     synonyms: ['floor area', 'area', 'gia', 'nia', 'room area', 'net area', 'floor space', 'internal area'],
-    guide: 'Floor area in square metres. Must be more than 0.',
+    guide: 'Floor area in square metres, 1 to 5,000.',
   },
   {
     field: 'ceilingHeightM',
+    limit: ROOM_LIMITS.ceilingHeightM,
     header: 'Ceiling height (m)',
     kind: 'number',
     quantity: 'length',
@@ -150,6 +174,7 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'pupils',
+    limit: ROOM_LIMITS.pupils,
     header: 'Pupils',
     kind: 'integer',
     quantity: 'count',
@@ -166,10 +191,11 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
       'occupancy',
       'design occupancy',
     ],
-    guide: 'How many pupils the room is designed for (a whole number).',
+    guide: 'How many pupils the room is designed for (a whole number). Leave blank if not known: Airtally assumes a number from the floor area and says so.',
   },
   {
     field: 'adults',
+    limit: ROOM_LIMITS.adults,
     header: 'Adults',
     kind: 'integer',
     quantity: 'count',
@@ -198,6 +224,7 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'glazingAreaM2',
+    limit: ROOM_LIMITS.glazingAreaM2,
     header: 'Glazing area (m2)',
     kind: 'number',
     quantity: 'area',
@@ -208,6 +235,7 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'openableAreaM2',
+    limit: ROOM_LIMITS.openableAreaM2,
     header: 'Openable area (m2)',
     kind: 'number',
     quantity: 'area',
@@ -244,6 +272,7 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
   },
   {
     field: 'mechanicalSupplyLps',
+    limit: ROOM_LIMITS.mechanicalSupplyLps,
     header: 'Mechanical supply (l/s)',
     kind: 'number',
     quantity: 'flow',
@@ -259,10 +288,11 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
       'supply air flow',
       'supply',
     ],
-    guide: 'Fresh air supplied by fans, in litres per second, if the room has a mechanical system.',
+    guide: 'Fresh air supplied by fans, in litres per second, if the room has a mechanical system. Leave blank if not known.',
   },
   {
     field: 'airPermeabilityM3hM2',
+    limit: BLOCK_LIMITS.airPermeabilityM3hM2,
     header: 'Air permeability (m3/h.m2 @ 50 Pa)',
     kind: 'number',
     quantity: 'permeability',
@@ -271,6 +301,100 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     synonyms: ['air permeability', 'permeability', 'air tightness', 'airtightness', 'q50', 'air leakage'],
     guide:
       "The block's air-tightness test result in m³ per hour per m² of envelope at 50 Pa. Applies to the whole block.",
+  },
+  {
+    field: 'glazingGValue',
+    limit: ROOM_LIMITS.glazingGValue,
+    header: 'Glazing g-value',
+    kind: 'number',
+    quantity: 'ratio',
+    width: 15,
+    numFmt: '0.00',
+    synonyms: ['glazing g value', 'g value', 'g-value', 'solar transmittance', 'g'],
+    guide: 'Total solar energy transmittance of the glass, 0.1 to 0.9 (double glazing about 0.6). Blank: assumed.',
+  },
+  {
+    field: 'frameMaterial',
+    header: 'Window frame',
+    kind: 'enum',
+    values: FRAME_MATERIALS,
+    width: 18,
+    synonyms: ['window frame', 'frame', 'frame material', 'frame type', 'window frame material'],
+    guide: 'What the window frames are made of (sets how much of the window is glass). Pick from the list.',
+  },
+  {
+    field: 'winterWindowOpenFraction',
+    limit: ROOM_LIMITS.winterWindowOpenFraction,
+    sheetScale: 100,
+    header: 'Winter window opening (%)',
+    kind: 'number',
+    quantity: 'percent',
+    width: 24,
+    numFmt: '0',
+    synonyms: ['winter window opening', 'window opening winter', 'winter opening', 'windows open in winter'],
+    guide:
+      'How far the windows are usually open in winter while pupils are in, as a percentage of the openable area (0 = kept shut). Blank: the assumption set’s winter figure.',
+  },
+  {
+    field: 'schoolHeatingFuel',
+    header: 'School heating fuel',
+    kind: 'enum',
+    values: HEATING_FUELS,
+    width: 18,
+    synonyms: ['school heating fuel', 'school fuel', 'site fuel', 'site heating fuel'],
+    guide: "The fuel of the school's main heating. Applies to the whole school.",
+  },
+  {
+    field: 'schoolFuelPriceGbpPerKwh',
+    limit: SCHOOL_LIMITS.fuelPriceGbpPerKwh,
+    header: 'School fuel price (£/kWh)',
+    kind: 'number',
+    quantity: 'price',
+    width: 22,
+    numFmt: '"£"0.000',
+    synonyms: ['school fuel price', 'school energy price', 'fuel price', 'site fuel price'],
+    guide: "The school's own contract price for its heating fuel, £ per kWh. Blank: the trust's price (assumptions).",
+  },
+  {
+    field: 'schoolHeatingEfficiency',
+    header: 'School heating efficiency',
+    kind: 'number',
+    quantity: 'ratio',
+    width: 22,
+    numFmt: '0.00',
+    synonyms: ['school heating efficiency', 'boiler efficiency', 'school boiler efficiency', 'heating efficiency'],
+    guide:
+      'Seasonal efficiency of the school’s heating: boilers 0.3–1 (e.g. 0.85), direct electric 1, heat pumps their seasonal COP (1–6). Blank: the trust’s default.',
+  },
+  {
+    field: 'blockHeatingFuel',
+    header: 'Block heating fuel',
+    kind: 'enum',
+    values: HEATING_FUELS,
+    width: 18,
+    synonyms: ['block heating fuel', 'block fuel', 'building fuel', 'building heating fuel'],
+    guide: "The block's own heating fuel where it differs from the school's (e.g. an electric nursery pod).",
+  },
+  {
+    field: 'blockFuelPriceGbpPerKwh',
+    limit: BLOCK_LIMITS.fuelPriceGbpPerKwh,
+    header: 'Block fuel price (£/kWh)',
+    kind: 'number',
+    quantity: 'price',
+    width: 22,
+    numFmt: '"£"0.000',
+    synonyms: ['block fuel price', 'building fuel price', 'block energy price'],
+    guide: "The block's own price for its heating fuel. Blank: the school's (same fuel), else the trust's.",
+  },
+  {
+    field: 'blockHeatingEfficiency',
+    header: 'Block heating efficiency',
+    kind: 'number',
+    quantity: 'ratio',
+    width: 22,
+    numFmt: '0.00',
+    synonyms: ['block heating efficiency', 'building heating efficiency', 'block boiler efficiency'],
+    guide: "Seasonal efficiency of the block's own heating (heat pumps: seasonal COP). Blank: the school's, else the trust's.",
   },
   {
     field: 'notes',

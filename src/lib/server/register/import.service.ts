@@ -10,7 +10,7 @@ import { badRequest, conflict, notFound } from '../http/errors';
 import type { RegisterField } from './columns';
 import type { DetectedHeader } from './headers';
 import { readRegisterFile } from './parse';
-import { planImport, type ImportPlan, type ImportSummary } from './plan';
+import { planImport, type ImportPlan, type ImportSummary, type RoomChange } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
 import {
@@ -59,6 +59,10 @@ export interface ImportPreview {
   problems: ImportProblem[];
   problemsTruncated: boolean;
   missingRooms: ImportPlan['missingRooms'];
+  /** Per room, the fields that change from what to what (at most MAX_ROOM_CHANGES_LISTED rooms). */
+  roomChanges: RoomChange[];
+  /** Whether blank cells clear stored values (chosen at upload). */
+  clearBlanks: boolean;
 }
 
 /** .xlsx or .csv from the file name; anything else is refused with what to do. */
@@ -91,7 +95,7 @@ export async function previewImport(
   const file = await readRegisterFile(upload.bytes, kind, saved, options);
   mark('read and check cells');
   const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
-  const plan = planImport(file.read, file.header.columns, snapshot);
+  const plan = planImport(file.read, file.header.columns, snapshot, { clearBlanks: options.clearBlanks === true });
   // The read rows are not needed past here; letting them go keeps peak memory down on big files.
   file.read.rows = [];
   mark('compare with the estate');
@@ -126,6 +130,7 @@ export async function previewImport(
         problems: JSON.stringify(problems),
         problem_count: plan.problems.length,
         missing_rooms: JSON.stringify(plan.missingRooms),
+        room_changes: JSON.stringify({ clearBlanks: options.clearBlanks === true, rooms: plan.roomChanges }),
         rows_gz: rowsGz,
         estate_fingerprint: fingerprint,
       })
@@ -153,6 +158,8 @@ export async function previewImport(
     problems,
     problemsTruncated: plan.problems.length > problems.length,
     missingRooms: plan.missingRooms,
+    roomChanges: plan.roomChanges,
+    clearBlanks: options.clearBlanks === true,
   };
 }
 
@@ -161,7 +168,7 @@ export async function previewImport(
  * writes, then the room writes as COPY text lines, ready to stream into the commit's staging table.
  */
 export function encodePlan(plan: ImportPlan): Buffer {
-  const { problems: _problems, roomWrites, ...rest } = plan;
+  const { problems: _problems, roomWrites, roomChanges: _changes, ...rest } = plan;
   const parts: string[] = [JSON.stringify(rest satisfies StoredPlan), '\n'];
   for (const w of roomWrites) parts.push(stagedRoomLine(w));
   return gzipSync(parts.join(''), { level: 1 });
@@ -350,6 +357,7 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
       'problems',
       'problem_count',
       'missing_rooms',
+      'room_changes',
       'outcome',
       'header',
     ])
@@ -369,6 +377,7 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
     problems: r.problems as unknown as ImportProblem[],
     problemCount: r.problem_count,
     missingRooms: r.missing_rooms as unknown as ImportPlan['missingRooms'],
+    roomChanges: ((r.room_changes as { rooms?: RoomChange[] } | null)?.rooms ?? []) as RoomChange[],
     outcome: r.outcome as ImportOutcome | null,
     header: r.header,
   };

@@ -1,4 +1,4 @@
-import type { ClimateRegion, SchoolPhase } from '../../engine/vocabulary';
+import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
 import { physicalChecks, RoomFieldsSchema, type RoomFieldName, type RoomFields } from './register.schemas';
@@ -6,20 +6,60 @@ import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
 export interface EstateSnapshot {
-  schools: { id: string; name: string; phase: SchoolPhase }[];
-  blocks: {
+  schools: ({ id: string; name: string; phase: SchoolPhase } & Partial<SchoolHeating>)[];
+  blocks: ({
     id: string;
     schoolId: string;
     name: string;
     yearBuilt: number | null;
     airPermeabilityM3hM2: number | null;
-  }[];
+  } & Partial<BlockHeating>)[];
   rooms: { id: string; schoolId: string; blockId: string | null; fields: RoomFields }[];
   /** Region given to schools the import creates (the trust's most common one). */
   defaultClimateRegion: ClimateRegion;
   /** False for members limited to some schools: they may only import rooms of those schools. */
   canCreateSchools?: boolean;
 }
+
+/** A school's heating as the register's school columns give it. */
+export interface SchoolHeating {
+  heatingFuel: HeatingFuel;
+  fuelPriceGbpPerKwh: number | null;
+  heatingEfficiency: number | null;
+}
+
+/** A block's heating as the register's block columns give it. */
+export interface BlockHeating {
+  heatingFuel: HeatingFuel | null;
+  fuelPriceGbpPerKwh: number | null;
+  heatingEfficiency: number | null;
+}
+
+/** One room of the preview: which fields change from what to what (a new room lists what it will hold). */
+export interface RoomChange {
+  row: number;
+  school: string;
+  code: string;
+  kind: 'new' | 'changed';
+  fields: { field: string; before: string | number | null; after: string | number | null }[];
+}
+
+/** Register columns of a school's heating and the school fields they set. */
+const SCHOOL_HEATING_COLUMNS = [
+  ['schoolHeatingFuel', 'heatingFuel'],
+  ['schoolFuelPriceGbpPerKwh', 'fuelPriceGbpPerKwh'],
+  ['schoolHeatingEfficiency', 'heatingEfficiency'],
+] as const satisfies readonly (readonly [RegisterField, keyof SchoolHeating])[];
+
+/** Register columns of a block's heating and the block fields they set. */
+const BLOCK_HEATING_COLUMNS = [
+  ['blockHeatingFuel', 'heatingFuel'],
+  ['blockFuelPriceGbpPerKwh', 'fuelPriceGbpPerKwh'],
+  ['blockHeatingEfficiency', 'heatingEfficiency'],
+] as const satisfies readonly (readonly [RegisterField, keyof BlockHeating])[];
+
+/** Most per-room changes a preview lists (the counts stay exact beyond it). */
+export const MAX_ROOM_CHANGES_LISTED = 2000;
 
 /** A school or block reference: an existing id, or the key of one this import creates. */
 export type Ref = { id: string } | { newKey: string };
@@ -37,22 +77,29 @@ export interface RoomWrite {
 
 /** Everything a commit would do, and the counts the preview shows. */
 export interface ImportPlan {
-  newSchools: { key: string; name: string; phase: SchoolPhase; climateRegion: ClimateRegion }[];
-  newBlocks: {
+  newSchools: ({ key: string; name: string; phase: SchoolPhase; climateRegion: ClimateRegion } & Partial<SchoolHeating>)[];
+  newBlocks: ({
     key: string;
     school: Ref;
     name: string;
     yearBuilt: number | null;
     airPermeabilityM3hM2: number | null;
+  } & Partial<BlockHeating>)[];
+  schoolChanges: {
+    id: string;
+    name: string;
+    before: Record<string, string | number | null>;
+    after: Record<string, string | number | null>;
   }[];
-  schoolChanges: { id: string; name: string; before: { phase: SchoolPhase }; after: { phase: SchoolPhase } }[];
   blockChanges: {
     id: string;
     name: string;
-    before: Record<string, number | null>;
-    after: Record<string, number | null>;
+    before: Record<string, string | number | null>;
+    after: Record<string, string | number | null>;
   }[];
   roomWrites: RoomWrite[];
+  /** Per room, the fields that change (at most MAX_ROOM_CHANGES_LISTED rooms). */
+  roomChanges: RoomChange[];
   missingRooms: { id: string; schoolName: string; code: string; name: string }[];
   problems: ImportProblem[];
   summary: ImportSummary;
@@ -77,7 +124,7 @@ export interface ImportSummary {
 /** A key for matching school and block names whatever their case and spacing. */
 export const nameKey = (name: string) => name.toLowerCase().replace(/\s+/g, ' ').trim();
 
-const ROOM_FIELDS: RoomFieldName[] = [
+const ROOM_FIELDS = [
   'code',
   'name',
   'use',
@@ -90,11 +137,15 @@ const ROOM_FIELDS: RoomFieldName[] = [
   'glazingAreaM2',
   'openableAreaM2',
   'windowType',
+  'frameMaterial',
+  'glazingGValue',
   'ventilationType',
   'mechanicalSupplyLps',
+  'winterWindowOpenFraction',
   'notes',
-];
-const NULLABLE = new Set<RoomFieldName>(['orientationDeg', 'windowType', 'mechanicalSupplyLps', 'notes']);
+] as const satisfies readonly (RoomFieldName & RegisterField)[];
+/** Fields that must hold a value (everything else may stay unknown). */
+const REQUIRED = new Set<RoomFieldName>(['code', 'floorAreaM2']);
 
 const sameValue = (a: unknown, b: unknown) =>
   typeof a === 'number' && typeof b === 'number' ? Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a)) : a === b;
@@ -110,7 +161,14 @@ export interface ReadRows {
  * problems that need the estate to see (duplicate codes, a new school without a phase, physics).
  * Pure: the same rows and snapshot always give the same plan.
  */
-export function planImport(read: ReadRows, columns: DetectedColumn[], estate: EstateSnapshot): ImportPlan {
+export function planImport(
+  read: ReadRows,
+  columns: DetectedColumn[],
+  estate: EstateSnapshot,
+  options: { clearBlanks?: boolean } = {},
+): ImportPlan {
+  const clearBlanks = options.clearBlanks === true;
+  const roomChanges: RoomChange[] = [];
   const problems: ImportProblem[] = [];
   const byField = new Map<RegisterField, DetectedColumn>();
   for (const c of columns) if (c.field) byField.set(c.field, c);
@@ -144,6 +202,8 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
 
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
+  const schoolHeatingOf = new Map<string, Partial<SchoolHeating>>();
+  const blockHeatingOf = new Map<string, Partial<BlockHeating>>();
   const blockAttrs = new Map<
     string,
     { yearBuilt: number | null; airPermeabilityM3hM2: number | null; row: number; name: string }
@@ -166,9 +226,21 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
           `School phase differs from row ${seen.row}; the phase on row ${seen.row} is used.`,
         );
     }
+    const heating = schoolHeatingOf.get(sk) ?? {};
+    for (const [column, key] of SCHOOL_HEATING_COLUMNS) {
+      const v = row.values[column];
+      if (v !== null && v !== undefined && heating[key] === undefined) (heating as Record<string, unknown>)[key] = v;
+    }
+    schoolHeatingOf.set(sk, heating);
     const block = row.values.block;
     if (typeof block === 'string') {
       const bk = `${sk}|${keyOf(block)}`;
+      const bh = blockHeatingOf.get(bk) ?? {};
+      for (const [column, key] of BLOCK_HEATING_COLUMNS) {
+        const v = row.values[column];
+        if (v !== null && v !== undefined && bh[key] === undefined) (bh as Record<string, unknown>)[key] = v;
+      }
+      blockHeatingOf.set(bk, bh);
       const year = typeof row.values.yearBuilt === 'number' ? row.values.yearBuilt : null;
       const perm = typeof row.values.airPermeabilityM3hM2 === 'number' ? row.values.airPermeabilityM3hM2 : null;
       const seen = blockAttrs.get(bk);
@@ -254,50 +326,29 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const existingBlock =
       blockName && existingSchool ? (blocksByKey.get(`${existingSchool.id}|${keyOf(blockName)}`) ?? null) : null;
 
-    // Start from the room as it stands (columns missing from the file keep their values), else from blanks.
-    const draft: Record<string, unknown> = existingRoom
-      ? { ...existingRoom.fields }
-      : {
-          name: '',
-          pupils: 0,
-          adults: 0,
-          orientationDeg: null,
-          windowType: null,
-          mechanicalSupplyLps: null,
-          notes: null,
-        };
+    // Start from the room as it stands (columns missing from the file, and blank cells unless the person chose to
+    // clear blanks, keep their values), else from unknowns: a blank is never read as 0.
+    const draft: Record<string, unknown> = existingRoom ? { ...existingRoom.fields } : { name: '' };
     for (const field of ROOM_FIELDS) {
+      if (!existingRoom && !REQUIRED.has(field)) draft[field] ??= null;
       if (!has(field)) continue;
       const value = row.values[field];
       if (value !== null && value !== undefined) draft[field] = field === 'code' ? code : value;
-      else if (NULLABLE.has(field)) draft[field] = null;
-      else if (field === 'name') draft.name = '';
+      else if (REQUIRED.has(field)) continue;
+      else if (!existingRoom || clearBlanks) draft[field] = field === 'name' ? '' : null;
     }
     draft.code = code;
     if (!existingRoom) {
-      if (draft.use === undefined) {
-        draft.use = 'classroom';
-        if (has('use')) problem(row, 'use', 'warning', 'Room use is blank; the room is recorded as a classroom.');
-      }
-      if (draft.ventilationType === undefined) {
-        draft.ventilationType = 'natural_single_sided';
+      const unknown = (['use', 'pupils', 'ventilationType'] as const).filter((f) => draft[f] === null);
+      if (unknown.length > 0)
         problem(
           row,
-          'ventilationType',
+          unknown[0] as RegisterField,
           'warning',
-          'Ventilation type is blank; the room is recorded as naturally ventilated from one side.',
+          `Not recorded: ${unknown.map((f) => columnOf(f).header.toLowerCase()).join(', ')}. Stored as unknown; assessments assume a value and say so.`,
         );
-      }
-      if (draft.ageGroup === undefined) {
-        const fromPhase = ageGroupForPhase(phase);
-        if (fromPhase) draft.ageGroup = fromPhase;
-      }
-      if (draft.glazingAreaM2 === undefined) {
-        draft.glazingAreaM2 = typeof draft.openableAreaM2 === 'number' ? draft.openableAreaM2 : 0;
-        if (typeof draft.openableAreaM2 === 'number')
-          problem(row, 'glazingAreaM2', 'warning', 'Glazing area is blank; it is taken as equal to the openable area.');
-      }
-      draft.openableAreaM2 ??= 0;
+      if (draft.ageGroup === null && ageGroupForPhase(phase) === null && has('ageGroup'))
+        problem(row, 'ageGroup', 'warning', 'Age group is blank; assessments take it from the school phase.');
     }
     const parsed = RoomFieldsSchema.safeParse(draft);
     if (!parsed.success) {
@@ -340,6 +391,18 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
           changedAfter[field] = fields[field];
         }
       }
+      if (Object.keys(changedAfter).length > 0 && roomChanges.length < MAX_ROOM_CHANGES_LISTED)
+        roomChanges.push({
+          row: row.rowNumber,
+          school: schoolName,
+          code,
+          kind: 'changed',
+          fields: Object.keys(changedAfter).map((field) => ({
+            field,
+            before: (changedBefore[field] ?? null) as string | number | null,
+            after: (changedAfter[field] ?? null) as string | number | null,
+          })),
+        });
       const newBlockId = block && 'id' in block ? block.id : null;
       const blockChanged = block && 'newKey' in block ? true : newBlockId !== existingRoom.blockId;
       if (blockChanged) {
@@ -361,6 +424,18 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       });
     } else {
       writes.push({ rowNumber: row.rowNumber, roomId: null, school, block, fields, before: null, after: fields });
+      if (roomChanges.length < MAX_ROOM_CHANGES_LISTED)
+        roomChanges.push({
+          row: row.rowNumber,
+          school: schoolName,
+          code,
+          kind: 'new',
+          fields: ROOM_FIELDS.filter((f) => f !== 'code' && fields[f] !== null && fields[f] !== '').map((f) => ({
+            field: f,
+            before: null,
+            after: fields[f] as string | number | null,
+          })),
+        });
     }
   }
 
@@ -369,10 +444,30 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
   for (const sk of acceptedSchools) {
     const existing = schoolsByKey.get(sk);
     const phase = phaseOf.get(sk)?.phase;
+    const heating = schoolHeatingOf.get(sk) ?? {};
     if (!existing && phase) {
-      newSchools.push({ key: sk, name: schoolNameOf.get(sk) ?? sk, phase, climateRegion: estate.defaultClimateRegion });
-    } else if (existing && phase && phase !== existing.phase) {
-      schoolChanges.push({ id: existing.id, name: existing.name, before: { phase: existing.phase }, after: { phase } });
+      newSchools.push({
+        key: sk,
+        name: schoolNameOf.get(sk) ?? sk,
+        phase,
+        climateRegion: estate.defaultClimateRegion,
+        ...heating,
+      });
+    } else if (existing) {
+      const before: Record<string, string | number | null> = {};
+      const after: Record<string, string | number | null> = {};
+      if (phase && phase !== existing.phase) {
+        before.phase = existing.phase;
+        after.phase = phase;
+      }
+      for (const [, key] of SCHOOL_HEATING_COLUMNS) {
+        const v = heating[key];
+        if (v !== undefined && !sameValue(v, existing[key] ?? null)) {
+          before[key] = existing[key] ?? null;
+          after[key] = v;
+        }
+      }
+      if (Object.keys(after).length) schoolChanges.push({ id: existing.id, name: existing.name, before, after });
     }
   }
   const newBlocks: ImportPlan['newBlocks'] = [];
@@ -386,6 +481,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
       name: attrs?.name ?? bk,
       yearBuilt: attrs?.yearBuilt ?? null,
       airPermeabilityM3hM2: attrs?.airPermeabilityM3hM2 ?? null,
+      ...(blockHeatingOf.get(bk) ?? {}),
     });
   }
   const blockChanges: ImportPlan['blockChanges'] = [];
@@ -394,8 +490,16 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     const school = schoolsByKey.get(sk);
     const block = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
     if (!block || !acceptedSchools.has(sk)) continue;
-    const before: Record<string, number | null> = {};
-    const after: Record<string, number | null> = {};
+    const before: Record<string, string | number | null> = {};
+    const after: Record<string, string | number | null> = {};
+    const bh = blockHeatingOf.get(bk) ?? {};
+    for (const [, key] of BLOCK_HEATING_COLUMNS) {
+      const v = bh[key];
+      if (v !== undefined && !sameValue(v, block[key] ?? null)) {
+        before[key] = block[key] ?? null;
+        after[key] = v;
+      }
+    }
     if (has('yearBuilt') && attrs.yearBuilt !== null && attrs.yearBuilt !== block.yearBuilt) {
       before.yearBuilt = block.yearBuilt;
       after.yearBuilt = attrs.yearBuilt;
@@ -429,6 +533,7 @@ export function planImport(read: ReadRows, columns: DetectedColumn[], estate: Es
     schoolChanges,
     blockChanges,
     roomWrites: writes,
+    roomChanges,
     missingRooms,
     problems,
     summary: {

@@ -2,7 +2,7 @@ import { sql, type Kysely, type Transaction } from 'kysely';
 import type pg from 'pg';
 import { bytePieces, copyLine, copyLines } from '../db/copy';
 import type { Database } from '../../../../db/database';
-import type { ClimateRegion, SchoolPhase } from '../../engine/vocabulary';
+import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
 import type { AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { inTrustScope } from '../estate/estate.repository';
@@ -28,27 +28,33 @@ const ROOM_COLUMNS = [
   ['glazing_area_m2', 'float8', 'glazingAreaM2'],
   ['openable_area_m2', 'float8', 'openableAreaM2'],
   ['window_type', 'text', 'windowType'],
+  ['frame_material', 'text', 'frameMaterial'],
+  ['glazing_g_value', 'float8', 'glazingGValue'],
   ['ventilation_type', 'text', 'ventilationType'],
   ['mechanical_supply_lps', 'float8', 'mechanicalSupplyLps'],
+  ['winter_window_open_fraction', 'float8', 'winterWindowOpenFraction'],
   ['notes', 'text', 'notes'],
 ] as const satisfies readonly (readonly [string, string, keyof RoomFields])[];
 
-/** Database row → the room's register fields. */
+/** Database row → the room's register fields (nulls stay unknown). */
 export function roomFieldsOf(r: {
   code: string;
   name: string;
-  use: string;
+  use: string | null;
   floor_area_m2: number;
-  ceiling_height_m: number;
-  pupils: number;
-  adults: number;
-  age_group: string;
+  ceiling_height_m: number | null;
+  pupils: number | null;
+  adults: number | null;
+  age_group: string | null;
   orientation_deg: number | null;
-  glazing_area_m2: number;
-  openable_area_m2: number;
+  glazing_area_m2: number | null;
+  openable_area_m2: number | null;
   window_type: string | null;
-  ventilation_type: string;
+  frame_material: string | null;
+  glazing_g_value: number | null;
+  ventilation_type: string | null;
   mechanical_supply_lps: number | null;
+  winter_window_open_fraction: number | null;
   notes: string | null;
 }): RoomFields {
   return {
@@ -64,8 +70,11 @@ export function roomFieldsOf(r: {
     glazingAreaM2: r.glazing_area_m2,
     openableAreaM2: r.openable_area_m2,
     windowType: r.window_type as RoomFields['windowType'],
+    frameMaterial: r.frame_material as RoomFields['frameMaterial'],
+    glazingGValue: r.glazing_g_value,
     ventilationType: r.ventilation_type as RoomFields['ventilationType'],
     mechanicalSupplyLps: r.mechanical_supply_lps,
+    winterWindowOpenFraction: r.winter_window_open_fraction,
     notes: r.notes,
   };
 }
@@ -74,7 +83,7 @@ export function roomFieldsOf(r: {
 export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSnapshot> {
   const schools = await db
     .selectFrom('schools')
-    .select(['id', 'name', 'phase', 'climate_region'])
+    .select(['id', 'name', 'phase', 'climate_region', 'heating_fuel', 'fuel_price_gbp_per_kwh', 'heating_efficiency'])
     .where(inTrustScope(trust))
     .execute();
   const ids = schools.map((s) => s.id);
@@ -84,13 +93,23 @@ export async function loadSnapshot(db: Db, trust: ActiveTrust): Promise<EstateSn
   for (const s of schools) regionCounts.set(s.climate_region, (regionCounts.get(s.climate_region) ?? 0) + 1);
   const defaultClimateRegion = ([...regionCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'midlands') as ClimateRegion;
   return {
-    schools: schools.map((s) => ({ id: s.id, name: s.name, phase: s.phase as SchoolPhase })),
+    schools: schools.map((s) => ({
+      id: s.id,
+      name: s.name,
+      phase: s.phase as SchoolPhase,
+      heatingFuel: s.heating_fuel as HeatingFuel,
+      fuelPriceGbpPerKwh: s.fuel_price_gbp_per_kwh,
+      heatingEfficiency: s.heating_efficiency,
+    })),
     blocks: blocks.map((b) => ({
       id: b.id,
       schoolId: b.school_id,
       name: b.name,
       yearBuilt: b.year_built,
       airPermeabilityM3hM2: b.air_permeability_m3h_m2,
+      heatingFuel: b.heating_fuel as HeatingFuel | null,
+      fuelPriceGbpPerKwh: b.fuel_price_gbp_per_kwh,
+      heatingEfficiency: b.heating_efficiency,
     })),
     rooms: rooms.map((r) => ({ id: r.id, schoolId: r.school_id, blockId: r.block_id, fields: roomFieldsOf(r) })),
     defaultClimateRegion,
@@ -145,6 +164,31 @@ export async function saveMappings(
 
 const AUDIT_CHUNK = 5000;
 
+/** School and block fields an import may change, with their columns. */
+const SCHOOL_IMPORT_COLUMNS = {
+  phase: 'phase',
+  heatingFuel: 'heating_fuel',
+  fuelPriceGbpPerKwh: 'fuel_price_gbp_per_kwh',
+  heatingEfficiency: 'heating_efficiency',
+} as const;
+const BLOCK_IMPORT_COLUMNS = {
+  yearBuilt: 'year_built',
+  airPermeabilityM3hM2: 'air_permeability_m3h_m2',
+  heatingFuel: 'heating_fuel',
+  fuelPriceGbpPerKwh: 'fuel_price_gbp_per_kwh',
+  heatingEfficiency: 'heating_efficiency',
+} as const;
+
+/** A change's fields as table columns (fields without a column are ignored). */
+function columnsOf(after: Record<string, string | number | null>, columns: Record<string, string>): Record<string, never> {
+  const out: Record<string, unknown> = {};
+  for (const [field, value] of Object.entries(after)) {
+    const column = columns[field];
+    if (column) out[column] = value;
+  }
+  return out as Record<string, never>;
+}
+
 /** The columns of a staged room write, in the order of its COPY line (see stagedRoomLine). */
 const STAGED_COLUMNS = [
   'row_number',
@@ -178,7 +222,7 @@ export function stagedRoomLine(w: RoomWrite): string {
 }
 
 /** An import plan as stored between preview and commit: everything but the room writes, which travel as COPY text. */
-export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems'>;
+export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems' | 'roomChanges'>;
 
 /**
  * Writes an import plan: new schools and blocks, school and block changes, rooms upserted in bulk,
@@ -209,6 +253,9 @@ export async function applyPlan(
           name: s.name,
           phase: s.phase,
           climate_region: s.climateRegion,
+          ...(s.heatingFuel ? { heating_fuel: s.heatingFuel } : {}),
+          fuel_price_gbp_per_kwh: s.fuelPriceGbpPerKwh ?? null,
+          heating_efficiency: s.heatingEfficiency ?? null,
         })),
       )
       .returning(['id', 'name'])
@@ -228,13 +275,13 @@ export async function applyPlan(
     }
   }
   for (const c of plan.schoolChanges) {
-    await trx.updateTable('schools').set({ phase: c.after.phase }).where('id', '=', c.id).execute();
+    await trx.updateTable('schools').set(columnsOf(c.after, SCHOOL_IMPORT_COLUMNS)).where('id', '=', c.id).execute();
     audit.push({
       ...base,
       action: 'school.updated',
       entityType: 'school',
       entityId: c.id,
-      summary: `Changed the phase of ${c.name}`,
+      summary: `Changed ${Object.keys(c.after).join(', ')} of ${c.name}`,
       before: c.before,
       after: c.after,
     });
@@ -251,6 +298,9 @@ export async function applyPlan(
           name: b.name,
           year_built: b.yearBuilt,
           air_permeability_m3h_m2: b.airPermeabilityM3hM2,
+          heating_fuel: b.heatingFuel ?? null,
+          fuel_price_gbp_per_kwh: b.fuelPriceGbpPerKwh ?? null,
+          heating_efficiency: b.heatingEfficiency ?? null,
         })),
       )
       .returning(['id', 'school_id', 'name'])
@@ -270,16 +320,7 @@ export async function applyPlan(
     }
   }
   for (const c of plan.blockChanges) {
-    await trx
-      .updateTable('blocks')
-      .set({
-        ...(c.after.yearBuilt !== undefined ? { year_built: c.after.yearBuilt } : {}),
-        ...(c.after.airPermeabilityM3hM2 !== undefined
-          ? { air_permeability_m3h_m2: c.after.airPermeabilityM3hM2 }
-          : {}),
-      })
-      .where('id', '=', c.id)
-      .execute();
+    await trx.updateTable('blocks').set(columnsOf(c.after, BLOCK_IMPORT_COLUMNS)).where('id', '=', c.id).execute();
     audit.push({
       ...base,
       action: 'block.updated',
@@ -380,6 +421,12 @@ export async function listRegisterRecords(db: Db, trust: ActiveTrust): Promise<i
       'blocks.name as block_name',
       'blocks.year_built',
       'blocks.air_permeability_m3h_m2',
+      'schools.heating_fuel as school_fuel',
+      'schools.fuel_price_gbp_per_kwh as school_price',
+      'schools.heating_efficiency as school_efficiency',
+      'blocks.heating_fuel as block_fuel',
+      'blocks.fuel_price_gbp_per_kwh as block_price',
+      'blocks.heating_efficiency as block_efficiency',
     ])
     .orderBy('schools.name')
     .orderBy('blocks.name')
@@ -405,6 +452,15 @@ export async function listRegisterRecords(db: Db, trust: ActiveTrust): Promise<i
     ventilationType: r.ventilation_type,
     mechanicalSupplyLps: r.mechanical_supply_lps,
     airPermeabilityM3hM2: r.air_permeability_m3h_m2,
+    glazingGValue: r.glazing_g_value,
+    frameMaterial: r.frame_material,
+    winterWindowOpenFraction: r.winter_window_open_fraction === null ? null : 100 * r.winter_window_open_fraction,
+    schoolHeatingFuel: r.school_fuel,
+    schoolFuelPriceGbpPerKwh: r.school_price,
+    schoolHeatingEfficiency: r.school_efficiency,
+    blockHeatingFuel: r.block_fuel,
+    blockFuelPriceGbpPerKwh: r.block_price,
+    blockHeatingEfficiency: r.block_efficiency,
     notes: r.notes,
   }));
 }

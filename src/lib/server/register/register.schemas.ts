@@ -1,8 +1,19 @@
 import { z } from 'zod';
 import {
+  BLOCK_LIMITS,
+  type FieldLimit,
+  heatingEfficiencyLimit,
+  limitMessage,
+  MAX_GLAZING_PER_FLOOR_AREA,
+  MIN_FLOOR_AREA_PER_OCCUPANT_M2,
+  ROOM_LIMITS,
+  SCHOOL_LIMITS,
+} from '../../engine/limits';
+import {
   AGE_GROUPS,
   CLIMATE_REGIONS,
   CONSTRUCTION_TYPES,
+  FRAME_MATERIALS,
   HEATING_FUELS,
   HEATING_TYPES,
   ROOM_USES,
@@ -10,45 +21,41 @@ import {
   VENTILATION_TYPES,
   WINDOW_TYPES,
 } from '../../engine/vocabulary';
+import { TimetableTextSchema } from '../estate/timetable';
 import { REGISTER_FIELDS } from './columns';
 
 const oneOf = <T extends readonly [string, ...string[]]>(values: T, what: string) =>
   z.enum(values, { message: `${what} must be one of: ${values.join(', ')}` });
 
-/** A room's own attributes, in our units, as the import and the editing API both validate them. */
+/** A number within one of the limits of src/lib/engine/limits.ts, with its plain message. */
+export const limited = (limit: FieldLimit) => {
+  const message = limitMessage(limit);
+  const n = z.number({ message }).min(limit.min, message).max(limit.max, message);
+  return limit.integer ? n.int(message) : n;
+};
+
+/**
+ * A room's own attributes, in our units, as the import and the editing API both validate them. Ranges come from
+ * ROOM_LIMITS; null is an unknown value (the engine assumes one and says so), never 0.
+ */
 export const RoomFieldsSchema = z.object({
   code: z.string().trim().min(1, 'Room code is required').max(40, 'Room code can be at most 40 characters'),
   name: z.string().trim().max(200, 'Room name can be at most 200 characters'),
-  use: oneOf(ROOM_USES, 'Room use'),
-  floorAreaM2: z
-    .number({ message: 'Floor area is required' })
-    .gt(0, 'Floor area must be more than 0 m²')
-    .max(5000, 'Floor area must be at most 5,000 m²'),
-  ceilingHeightM: z
-    .number({ message: 'Ceiling height is required' })
-    .min(2, 'Ceiling height must be at least 2 m')
-    .max(12, 'Ceiling height must be at most 12 m'),
-  pupils: z
-    .number()
-    .int('Pupils must be a whole number')
-    .min(0, 'Pupils cannot be negative')
-    .max(2000, 'Pupils must be at most 2,000'),
-  adults: z
-    .number()
-    .int('Adults must be a whole number')
-    .min(0, 'Adults cannot be negative')
-    .max(200, 'Adults must be at most 200'),
-  ageGroup: oneOf(AGE_GROUPS, 'Age group'),
-  orientationDeg: z.number().int().min(0).max(359, 'Orientation must be a bearing from 0 to 359 degrees').nullable(),
-  glazingAreaM2: z.number().min(0, 'Glazing area cannot be negative').max(5000),
-  openableAreaM2: z.number().min(0, 'Openable area cannot be negative').max(5000),
+  use: oneOf(ROOM_USES, 'Room use').nullable(),
+  floorAreaM2: limited(ROOM_LIMITS.floorAreaM2),
+  ceilingHeightM: limited(ROOM_LIMITS.ceilingHeightM).nullable(),
+  pupils: limited(ROOM_LIMITS.pupils).nullable(),
+  adults: limited(ROOM_LIMITS.adults).nullable(),
+  ageGroup: oneOf(AGE_GROUPS, 'Age group').nullable(),
+  orientationDeg: limited(ROOM_LIMITS.orientationDeg).nullable(),
+  glazingAreaM2: limited(ROOM_LIMITS.glazingAreaM2).nullable(),
+  openableAreaM2: limited(ROOM_LIMITS.openableAreaM2).nullable(),
   windowType: oneOf(WINDOW_TYPES, 'Window type').nullable(),
-  ventilationType: oneOf(VENTILATION_TYPES, 'Ventilation type'),
-  mechanicalSupplyLps: z
-    .number()
-    .min(0, 'Mechanical supply cannot be negative')
-    .max(20000, 'Mechanical supply must be at most 20,000 l/s')
-    .nullable(),
+  frameMaterial: oneOf(FRAME_MATERIALS, 'Window frame').nullable(),
+  glazingGValue: limited(ROOM_LIMITS.glazingGValue).nullable(),
+  ventilationType: oneOf(VENTILATION_TYPES, 'Ventilation type').nullable(),
+  mechanicalSupplyLps: limited(ROOM_LIMITS.mechanicalSupplyLps).nullable(),
+  winterWindowOpenFraction: limited(ROOM_LIMITS.winterWindowOpenFraction).nullable(),
   notes: z.string().max(2000, 'Notes can be at most 2,000 characters').nullable(),
 });
 export type RoomFields = z.infer<typeof RoomFieldsSchema>;
@@ -64,21 +71,36 @@ export interface FieldProblem {
 /** The physical sense checks beyond each field's range (the same on import and in the editor). */
 export function physicalChecks(room: RoomFields): FieldProblem[] {
   const problems: FieldProblem[] = [];
-  if (room.openableAreaM2 > room.glazingAreaM2 + 1e-9) {
+  const occupants = (room.pupils ?? 0) + (room.adults ?? 0);
+  if (occupants * MIN_FLOOR_AREA_PER_OCCUPANT_M2 > room.floorAreaM2) {
+    problems.push({
+      field: room.pupils ? 'pupils' : 'adults',
+      severity: 'error',
+      message: `${occupants} people in ${room.floorAreaM2} m² is more than one per ${MIN_FLOOR_AREA_PER_OCCUPANT_M2} m²: no room can hold them. Check the floor area and the numbers.`,
+    });
+  }
+  if (room.glazingAreaM2 !== null && room.glazingAreaM2 > MAX_GLAZING_PER_FLOOR_AREA * room.floorAreaM2 + 1e-9) {
+    problems.push({
+      field: 'glazingAreaM2',
+      severity: 'error',
+      message: `Glazing area (${room.glazingAreaM2} m²) is more than ${MAX_GLAZING_PER_FLOOR_AREA} times the floor area; check the units.`,
+    });
+  }
+  if (room.openableAreaM2 !== null && room.glazingAreaM2 !== null && room.openableAreaM2 > room.glazingAreaM2 + 1e-9) {
     problems.push({
       field: 'openableAreaM2',
       severity: 'error',
       message: `Openable area (${room.openableAreaM2} m²) is larger than the glazing area (${room.glazingAreaM2} m²); a window cannot open more than its glass.`,
     });
   }
-  if (room.use === 'classroom' && room.ceilingHeightM >= 5) {
+  if (room.use === 'classroom' && room.ceilingHeightM !== null && room.ceilingHeightM >= 5) {
     problems.push({
       field: 'ceilingHeightM',
       severity: 'warning',
       message: `A ${room.ceilingHeightM} m ceiling is unusually high for a classroom; check it is not in millimetres or the height of the building.`,
     });
   }
-  if (room.pupils > 0 && room.floorAreaM2 / room.pupils < 1) {
+  if (room.pupils !== null && room.pupils > 0 && room.floorAreaM2 / room.pupils < 1) {
     problems.push({
       field: 'pupils',
       severity: 'warning',
@@ -93,14 +115,20 @@ export const RoomCreateSchema = RoomFieldsSchema.extend({
   schoolId: z.uuid({ message: 'schoolId must be a school id' }),
   blockId: z.uuid({ message: 'blockId must be a block id' }).nullable().default(null),
   name: RoomFieldsSchema.shape.name.default(''),
-  use: RoomFieldsSchema.shape.use.default('classroom'),
-  pupils: RoomFieldsSchema.shape.pupils.default(0),
-  adults: RoomFieldsSchema.shape.adults.default(0),
+  use: RoomFieldsSchema.shape.use.default(null),
+  ceilingHeightM: RoomFieldsSchema.shape.ceilingHeightM.default(null),
+  pupils: RoomFieldsSchema.shape.pupils.default(null),
+  adults: RoomFieldsSchema.shape.adults.default(null),
+  ageGroup: RoomFieldsSchema.shape.ageGroup.default(null),
   orientationDeg: RoomFieldsSchema.shape.orientationDeg.default(null),
-  glazingAreaM2: RoomFieldsSchema.shape.glazingAreaM2.default(0),
-  openableAreaM2: RoomFieldsSchema.shape.openableAreaM2.default(0),
+  glazingAreaM2: RoomFieldsSchema.shape.glazingAreaM2.default(null),
+  openableAreaM2: RoomFieldsSchema.shape.openableAreaM2.default(null),
   windowType: RoomFieldsSchema.shape.windowType.default(null),
+  frameMaterial: RoomFieldsSchema.shape.frameMaterial.default(null),
+  glazingGValue: RoomFieldsSchema.shape.glazingGValue.default(null),
+  ventilationType: RoomFieldsSchema.shape.ventilationType.default(null),
   mechanicalSupplyLps: RoomFieldsSchema.shape.mechanicalSupplyLps.default(null),
+  winterWindowOpenFraction: RoomFieldsSchema.shape.winterWindowOpenFraction.default(null),
   notes: RoomFieldsSchema.shape.notes.default(null),
 }).strict();
 export type RoomCreate = z.infer<typeof RoomCreateSchema>;
@@ -138,8 +166,11 @@ export const SchoolPatchSchema = z
     climateRegion: oneOf(CLIMATE_REGIONS, 'Climate region').optional(),
     address: z.string().trim().max(500).nullable().optional(),
     heatingFuel: oneOf(HEATING_FUELS, 'Heating fuel').optional(),
-    fuelPriceGbpPerKwh: z.number().gt(0).lt(5).nullable().optional(),
-    boilerEfficiency: z.number().gt(0).max(1).nullable().optional(),
+    fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullable().optional(),
+    /** Seasonal efficiency (seasonal COP for heat pumps, 1 for direct electric); checked against the fuel by the service. */
+    heatingEfficiency: z.number().min(0.3).max(6).nullable().optional(),
+    /** The school's own day as lines "09:00-10:00 lesson"; blank clears it (the assumption set's applies). */
+    timetable: TimetableTextSchema.optional(),
   })
   .strict();
 export type SchoolPatch = z.infer<typeof SchoolPatchSchema>;
@@ -148,11 +179,22 @@ const blockFields = {
   name: z.string().trim().min(1, 'Block name is required').max(200),
   yearBuilt: z.number().int().min(1700).max(2100).nullable(),
   constructionType: oneOf(CONSTRUCTION_TYPES, 'Construction type').nullable(),
-  airPermeabilityM3hM2: z.number().gt(0).max(100, 'Air permeability must be at most 100 m³/(h·m²) at 50 Pa').nullable(),
+  airPermeabilityM3hM2: limited(BLOCK_LIMITS.airPermeabilityM3hM2).nullable(),
   heatingType: oneOf(HEATING_TYPES, 'Heating type').nullable(),
   heatingFuel: oneOf(HEATING_FUELS, 'Heating fuel').nullable(),
-  heatingInstalledYear: z.number().int().min(1900).max(2100).nullable(),
+  fuelPriceGbpPerKwh: limited(BLOCK_LIMITS.fuelPriceGbpPerKwh).nullable(),
+  heatingEfficiency: z.number().min(0.3).max(6).nullable(),
+  heatingInstalledYear: limited(BLOCK_LIMITS.heatingInstalledYear).nullable(),
 };
+
+/** The heating efficiency a fuel allows (limits.ts): a message, or null when it fits. */
+export function efficiencyProblem(fuel: string, efficiency: number | null | undefined): string | null {
+  if (efficiency === null || efficiency === undefined) return null;
+  const limit = heatingEfficiencyLimit(fuel);
+  return efficiency >= limit.min && efficiency <= limit.max
+    ? null
+    : `${limit.label} for ${fuel.replace('_', ' ')} heating must be ${limit.min === limit.max ? `exactly ${limit.min}` : `between ${limit.min} and ${limit.max}`}.`;
+}
 
 /** POST /api/blocks. */
 export const BlockCreateSchema = z
@@ -164,6 +206,8 @@ export const BlockCreateSchema = z
     airPermeabilityM3hM2: blockFields.airPermeabilityM3hM2.default(null),
     heatingType: blockFields.heatingType.default(null),
     heatingFuel: blockFields.heatingFuel.default(null),
+    fuelPriceGbpPerKwh: blockFields.fuelPriceGbpPerKwh.default(null),
+    heatingEfficiency: blockFields.heatingEfficiency.default(null),
     heatingInstalledYear: blockFields.heatingInstalledYear.default(null),
   })
   .strict();
@@ -187,6 +231,11 @@ export type CommitBody = z.infer<typeof CommitBodySchema>;
 /** The optional form fields of POST /api/imports besides `file`. */
 export const ImportOptionsSchema = z.object({
   headerRow: z.coerce.number().int().min(1).max(30).optional(),
+  /** "true": a blank cell clears the stored value; otherwise blanks keep what is stored. */
+  clearBlanks: z
+    .enum(['true', 'false'], { message: 'clearBlanks must be true or false' })
+    .optional()
+    .transform((v) => v === 'true'),
   mapping: z
     .string()
     .optional()
@@ -205,5 +254,6 @@ export const ImportOptionsSchema = z.object({
 });
 export type ImportOptions = {
   headerRow?: number | undefined;
+  clearBlanks?: boolean | undefined;
   mapping?: Record<string, (typeof REGISTER_FIELDS)[number] | null> | undefined;
 };

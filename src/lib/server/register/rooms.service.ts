@@ -16,6 +16,7 @@ import {
   type RoomFields,
   type RoomPatch,
   type SchoolPatch,
+  efficiencyProblem,
 } from './register.schemas';
 import { roomFieldsOf } from './register.repository';
 
@@ -36,8 +37,11 @@ function roomColumns(f: { [K in keyof RoomFields]?: RoomFields[K] | undefined })
   if (f.glazingAreaM2 !== undefined) c.glazing_area_m2 = f.glazingAreaM2;
   if (f.openableAreaM2 !== undefined) c.openable_area_m2 = f.openableAreaM2;
   if (f.windowType !== undefined) c.window_type = f.windowType;
+  if (f.frameMaterial !== undefined) c.frame_material = f.frameMaterial;
+  if (f.glazingGValue !== undefined) c.glazing_g_value = f.glazingGValue;
   if (f.ventilationType !== undefined) c.ventilation_type = f.ventilationType;
   if (f.mechanicalSupplyLps !== undefined) c.mechanical_supply_lps = f.mechanicalSupplyLps;
+  if (f.winterWindowOpenFraction !== undefined) c.winter_window_open_fraction = f.winterWindowOpenFraction;
   if (f.notes !== undefined) c.notes = f.notes;
   return c;
 }
@@ -268,7 +272,13 @@ export async function updateSchool(
     if (patch.address !== undefined) set.address = patch.address;
     if (patch.heatingFuel !== undefined) set.heating_fuel = patch.heatingFuel;
     if (patch.fuelPriceGbpPerKwh !== undefined) set.fuel_price_gbp_per_kwh = patch.fuelPriceGbpPerKwh;
-    if (patch.boilerEfficiency !== undefined) set.boiler_efficiency = patch.boilerEfficiency;
+    if (patch.heatingEfficiency !== undefined) set.heating_efficiency = patch.heatingEfficiency;
+    if (patch.timetable !== undefined) set.timetable = patch.timetable === null ? null : JSON.stringify(patch.timetable);
+    const problem = efficiencyProblem(
+      (set.heating_fuel as string | undefined) ?? school.heating_fuel,
+      patch.heatingEfficiency !== undefined ? patch.heatingEfficiency : school.heating_efficiency,
+    );
+    if (problem) throw badRequest(problem, { field: 'heatingEfficiency' });
     if (Object.keys(set).length === 0) return { id };
     await trx.updateTable('schools').set(set).where('id', '=', id).execute();
     const before = Object.fromEntries(Object.keys(set).map((k) => [k, (school as Record<string, unknown>)[k]]));
@@ -294,8 +304,23 @@ function blockColumns(p: BlockPatch) {
   if (p.airPermeabilityM3hM2 !== undefined) set.air_permeability_m3h_m2 = p.airPermeabilityM3hM2;
   if (p.heatingType !== undefined) set.heating_type = p.heatingType;
   if (p.heatingFuel !== undefined) set.heating_fuel = p.heatingFuel;
+  if (p.fuelPriceGbpPerKwh !== undefined) set.fuel_price_gbp_per_kwh = p.fuelPriceGbpPerKwh;
+  if (p.heatingEfficiency !== undefined) set.heating_efficiency = p.heatingEfficiency;
   if (p.heatingInstalledYear !== undefined) set.heating_installed_year = p.heatingInstalledYear;
   return set;
+}
+
+/** Refuses an efficiency that does not fit the block's fuel (its own, else the school's). */
+async function checkBlockEfficiency(
+  trx: Transaction<Database>,
+  schoolId: string,
+  fuel: string | null,
+  efficiency: number | null | undefined,
+): Promise<void> {
+  if (efficiency === null || efficiency === undefined) return;
+  const school = await trx.selectFrom('schools').select('heating_fuel').where('id', '=', schoolId).executeTakeFirst();
+  const problem = efficiencyProblem(fuel ?? school?.heating_fuel ?? 'gas', efficiency);
+  if (problem) throw badRequest(problem, { field: 'heatingEfficiency' });
 }
 
 /** Adds a block to a school of the trust. */
@@ -303,6 +328,7 @@ export async function createBlock(db: Kysely<Database>, trust: ActiveTrust, acto
   return db.transaction().execute(async (trx) => {
     await schoolInScope(trx, trust, input.schoolId);
     const { schoolId, ...rest } = input;
+    await checkBlockEfficiency(trx, schoolId, rest.heatingFuel, rest.heatingEfficiency);
     const { id } = await trx
       .insertInto('blocks')
       .values({ school_id: schoolId, ...blockColumns(rest) } as never)
@@ -345,6 +371,12 @@ export async function updateBlock(
   return db.transaction().execute(async (trx) => {
     const block = await blockInScope(trx, trust, id);
     const set = blockColumns(patch);
+    await checkBlockEfficiency(
+      trx,
+      block.school_id,
+      patch.heatingFuel !== undefined ? patch.heatingFuel : block.heating_fuel,
+      patch.heatingEfficiency !== undefined ? patch.heatingEfficiency : block.heating_efficiency,
+    );
     if (Object.keys(set).length === 0) return { id };
     await trx.updateTable('blocks').set(set).where('id', '=', id).execute();
     const before = Object.fromEntries(Object.keys(set).map((k) => [k, (block as Record<string, unknown>)[k]]));

@@ -1,5 +1,7 @@
 import {
   AGE_GROUPS,
+  FRAME_MATERIALS,
+  HEATING_FUELS,
   ROOM_USES,
   SCHOOL_PHASES,
   VENTILATION_TYPES,
@@ -71,6 +73,11 @@ function parserFor(field: RegisterField, header: string): CellParser {
           return (v) => parseEnum(v, WINDOW_TYPES);
         case 'ventilationType':
           return (v) => parseEnum(v, VENTILATION_TYPES);
+        case 'frameMaterial':
+          return (v) => parseEnum(v, FRAME_MATERIALS);
+        case 'schoolHeatingFuel':
+        case 'blockHeatingFuel':
+          return (v) => parseEnum(v, HEATING_FUELS);
         default:
           return parseText;
       }

@@ -107,6 +107,9 @@ const UNITS: Record<Quantity, Record<string, number>> = {
   length: { '': 1, m: 1, metres: 1, meters: 1, mm: 0.001, cm: 0.01 },
   flow: { '': 1, 'l/s': 1, ls: 1, lps: 1, 'l/sec': 1, 'litres/s': 1, 'm3/h': 1 / 3.6, 'm3/hr': 1 / 3.6 },
   count: { '': 1, pupils: 1, people: 1, persons: 1, adults: 1, staff: 1, pax: 1 },
+  price: { '': 1, '£/kwh': 1, 'gbp/kwh': 1, '/kwh': 1, p: 0.01, 'p/kwh': 0.01 },
+  ratio: { '': 1 },
+  percent: { '': 0.01, '%': 0.01 },
   permeability: {
     '': 1,
     'm3/h.m2': 1,
@@ -150,7 +153,9 @@ export function parseNumberText(text: string): { value: number; unit: string } |
 /** Reads a measured quantity; numbers stored as text, typed units and decimal commas are accepted. */
 export function parseQuantity(value: CellValue, quantity: Quantity, headerScale = 1): Parsed<number> {
   if (typeof value === 'number')
-    return Number.isFinite(value) ? { ok: true, value: value * headerScale } : fail('is not a number');
+    return Number.isFinite(value)
+      ? { ok: true, value: value * headerScale * (UNITS[quantity][''] ?? 1) }
+      : fail('is not a number');
   if (typeof value === 'boolean' || value instanceof Date) return fail('should be a number');
   const text = cellText(value);
   if (text === '') return blank();
@@ -159,7 +164,7 @@ export function parseQuantity(value: CellValue, quantity: Quantity, headerScale 
   if (!parsed) return fail(`"${text}" is not a number`);
   const factor = UNITS[quantity][unitKey(parsed.unit)];
   if (factor === undefined) return fail(`"${parsed.unit}" is not a unit we can read here`);
-  return { ok: true, value: parsed.value * (parsed.unit === '' ? headerScale : factor) };
+  return { ok: true, value: parsed.value * (parsed.unit === '' ? headerScale * factor : factor) };
 }
 
 /** Reads a whole number (pupils, adults). */
@@ -317,6 +322,17 @@ const ENUM_SYNONYMS: Record<string, string[]> = {
   office: ['admin', 'administration', 'offices', 'meeting room'],
   staff_room: ['staffroom', 'staff', 'staff workroom'],
   other: ['misc', 'miscellaneous', 'store', 'circulation'],
+  // window frames
+  timber: ['wood', 'wooden', 'timber frame'],
+  pvc_u: ['pvc', 'upvc', 'u-pvc', 'pvcu', 'plastic'],
+  metal: ['aluminium', 'aluminum', 'steel', 'metal frame', 'crittall'],
+  metal_thermal_break: ['thermally broken aluminium', 'thermal break', 'aluminium thermal break'],
+  // heating fuels
+  gas: ['natural gas', 'mains gas', 'gas boiler'],
+  oil: ['heating oil', 'kerosene', 'oil boiler'],
+  electric: ['electricity', 'direct electric', 'electric heaters', 'storage heaters'],
+  heat_pump: ['ashp', 'gshp', 'air source heat pump', 'ground source heat pump', 'heat pump'],
+  district_heat: ['district heating', 'heat network'],
   // age groups
   early_years: ['eyfs', 'reception', 'nursery', 'foundation', 'early years foundation stage', '3-5', 'under 5'],
   sixth_form: ['post 16', 'post-16', 'ks5', 'key stage 5', '16-19', 'sixth form'],
