@@ -19,6 +19,9 @@ export interface DemoBlock {
   heatingType: string;
   heatingFuel: string;
   heatingInstalledYear: number;
+  /** The block's own price and efficiency (null: the school's, else the trust's). */
+  fuelPriceGbpPerKwh?: number;
+  heatingEfficiency?: number;
   /** How the rooms of this block are ventilated today, with weights. */
   ventilation: [string, number][];
   rooms: DemoRoomPlan[];
@@ -44,8 +47,11 @@ export interface DemoSchool {
   address: string;
   ageGroup: string;
   heatingFuel: string;
-  fuelPriceGbpPerKwh: number;
-  boilerEfficiency: number;
+  /** The school's own contract price; most demo schools inherit the trust's (null). */
+  fuelPriceGbpPerKwh: number | null;
+  heatingEfficiency: number;
+  /** The school's own day, as editor lines; null: the trust's timetable. */
+  timetable: string | null;
   blocks: DemoBlock[];
 }
 
@@ -74,8 +80,9 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     address: '14 Foundry Row, Brackenmoor, BV1 4TG',
     ageGroup: 'primary',
     heatingFuel: 'gas',
-    fuelPriceGbpPerKwh: 0.064,
-    boilerEfficiency: 0.78,
+    fuelPriceGbpPerKwh: null,
+    heatingEfficiency: 0.78,
+    timetable: '08:50-10:20 lesson\n10:20-10:35 break\n10:35-12:00 lesson\n12:00-13:00 lunch\n13:00-15:15 lesson',
     blocks: [
       {
         name: 'Board School Building',
@@ -132,6 +139,7 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
         heatingType: 'underfloor',
         heatingFuel: 'electric',
         heatingInstalledYear: 2012,
+        heatingEfficiency: 1,
         ventilation: [['hybrid', 1]],
         rooms: [{ ...classrooms('EY', 2, [24, 28], [60, 70]) }],
       },
@@ -146,7 +154,8 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     ageGroup: 'secondary',
     heatingFuel: 'gas',
     fuelPriceGbpPerKwh: 0.061,
-    boilerEfficiency: 0.8,
+    heatingEfficiency: 0.8,
+    timetable: null,
     blocks: [
       {
         name: 'Main Teaching Block',
@@ -233,6 +242,8 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
         heatingType: 'heat_pump_wet',
         heatingFuel: 'heat_pump',
         heatingInstalledYear: 2019,
+        heatingEfficiency: 3.1,
+        fuelPriceGbpPerKwh: 0.22,
         ventilation: [['heat_recovery_unit', 1]],
         rooms: [{ ...classrooms('SF', 8, [18, 24], [45, 52]) }],
       },
@@ -246,8 +257,9 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     address: '2 Fennimore Lane, Eastwick Vale, BV3 8FL',
     ageGroup: 'primary',
     heatingFuel: 'gas',
-    fuelPriceGbpPerKwh: 0.068,
-    boilerEfficiency: 0.84,
+    fuelPriceGbpPerKwh: null,
+    heatingEfficiency: 0.84,
+    timetable: null,
     blocks: [
       {
         name: 'Main Building',
@@ -297,7 +309,8 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     ageGroup: 'secondary',
     heatingFuel: 'oil',
     fuelPriceGbpPerKwh: 0.072,
-    boilerEfficiency: 0.76,
+    heatingEfficiency: 0.76,
+    timetable: null,
     blocks: [
       {
         name: 'North Block',
@@ -371,8 +384,9 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     address: '7 Wrenfield Close, Lower Pennock, BV4 1WN',
     ageGroup: 'early_years',
     heatingFuel: 'gas',
-    fuelPriceGbpPerKwh: 0.066,
-    boilerEfficiency: 0.86,
+    fuelPriceGbpPerKwh: null,
+    heatingEfficiency: 0.86,
+    timetable: null,
     blocks: [
       {
         name: 'Nursery and Infants',
@@ -407,8 +421,9 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     address: 'Kestrel Hill, Pontybrack, BV6 3KH',
     ageGroup: 'secondary',
     heatingFuel: 'gas',
-    fuelPriceGbpPerKwh: 0.067,
-    boilerEfficiency: 0.83,
+    fuelPriceGbpPerKwh: null,
+    heatingEfficiency: 0.83,
+    timetable: null,
     blocks: [
       {
         name: 'Teaching Block',
@@ -445,8 +460,9 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     address: '100 Vale Parade, Brackenmoor, BV2 9AV',
     ageGroup: 'secondary',
     heatingFuel: 'gas',
-    fuelPriceGbpPerKwh: 0.062,
-    boilerEfficiency: 0.81,
+    fuelPriceGbpPerKwh: null,
+    heatingEfficiency: 0.81,
+    timetable: null,
     blocks: [
       {
         name: 'Primary Phase',
@@ -514,6 +530,7 @@ export interface DemoRoom {
   glazingAreaM2: number;
   openableAreaM2: number;
   windowType: string;
+  frameMaterial: string;
   glazingGValue: number;
   ventilationType: string;
   mechanicalSupplyLps: number | null;
@@ -550,7 +567,7 @@ export function demoRooms(school: DemoSchool, schoolIndex: number): DemoRoom[] {
         // Every seventh teaching room has windows that barely open (restrictors, painted shut, or fixed lights).
         const tinyOpening = plan.pupils[1] > 0 && i % 7 === 3;
         const glazingAreaM2 = round(floorAreaM2 * between([0.14, 0.32]), 1);
-        const openable = tinyOpening ? between([0.2, 0.6]) : floorAreaM2 * between(plan.openableFraction);
+        const openable = tinyOpening ? between([0.5, 1.0]) : floorAreaM2 * between(plan.openableFraction);
         const mechanical =
           ventilationType === 'mechanical_supply_extract' ||
           ventilationType === 'heat_recovery_unit' ||
@@ -573,6 +590,7 @@ export function demoRooms(school: DemoSchool, schoolIndex: number): DemoRoom[] {
           glazingAreaM2,
           openableAreaM2: round(Math.min(openable, glazingAreaM2), 2),
           windowType: pick(WINDOWS_BY_ERA(block.yearBuilt)),
+          frameMaterial: block.yearBuilt < 1919 ? 'timber' : block.yearBuilt < 1990 ? 'metal' : 'pvc_u',
           glazingGValue: round(block.yearBuilt < 1990 ? between([0.7, 0.8]) : between([0.4, 0.6]), 2),
           ventilationType,
           mechanicalSupplyLps: mechanical ? round((pupils + plan.adults) * between([4, 9]), 0) : null,

@@ -2,6 +2,22 @@ import type { Kysely } from 'kysely';
 import type { Database } from '../database';
 import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from './demo-trust';
 
+/** "09:00-10:00 lesson" lines as the stored timetable (a seed may not import app code). */
+function parseTimetableLines(text: string) {
+  return text.split('\n').map((line, i) => {
+    const [span = '', kind = 'lesson'] = line.split(' ');
+    const [start = '', end = ''] = span.split('-');
+    const minute = (hhmm: string) => Number(hhmm.slice(0, 2)) * 60 + Number(hhmm.slice(3, 5));
+    return {
+      label: kind === 'lesson' ? `Lesson ${i + 1}` : kind,
+      kind,
+      startMinute: minute(start),
+      endMinute: minute(end),
+      occupancyFraction: kind === 'lesson' ? 1 : 0,
+    };
+  });
+}
+
 /**
  * Writes the demo trust, its schools, blocks and rooms in one transaction.
  * Idempotent: returns false without writing when the demo trust already exists.
@@ -23,7 +39,8 @@ export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
           address: school.address,
           heating_fuel: school.heatingFuel,
           fuel_price_gbp_per_kwh: school.fuelPriceGbpPerKwh,
-          boiler_efficiency: school.boilerEfficiency,
+          heating_efficiency: school.heatingEfficiency,
+          timetable: school.timetable === null ? null : JSON.stringify(parseTimetableLines(school.timetable)),
         })
         .returning('id')
         .executeTakeFirstOrThrow();
@@ -40,6 +57,8 @@ export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
             heating_type: block.heatingType,
             heating_fuel: block.heatingFuel,
             heating_installed_year: block.heatingInstalledYear,
+            fuel_price_gbp_per_kwh: block.fuelPriceGbpPerKwh ?? null,
+            heating_efficiency: block.heatingEfficiency ?? null,
           })
           .returning('id')
           .executeTakeFirstOrThrow();
@@ -60,6 +79,7 @@ export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
         glazing_area_m2: room.glazingAreaM2,
         openable_area_m2: room.openableAreaM2,
         window_type: room.windowType,
+        frame_material: room.frameMaterial,
         glazing_g_value: room.glazingGValue,
         ventilation_type: room.ventilationType,
         mechanical_supply_lps: room.mechanicalSupplyLps,

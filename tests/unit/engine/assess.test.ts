@@ -24,7 +24,8 @@ describe('assessRoom reproduces worked example 1 through the entry point', () =>
     const a = assessRoom(exampleOneRoom(155), ex1);
     expect(a.criterion.packId).toBe('bb101_2018_refurb_mechanical');
     expect(a.criteriaMet).toBe(true);
-    expect(a.retrofit).toBeNull();
+    // Appraised all the same (every assessed room is): the units would take over the 155 l/s fans.
+    expect(a.appraisal?.replacesExistingLps).toBe(155);
   });
 
   it('case B, 40 L/s: mean 2773.6 ppm and 205.0 min above 2000 ppm, so it fails (checks 5 and 8)', () => {
@@ -48,18 +49,19 @@ describe('assessRoom reproduces worked example 1 through the entry point', () =>
     );
   });
 
-  it('case B sizes one Wall unit 150 for the 120 l/s still needed', () => {
-    // Hand: required outdoor air 10^6·0.148319/(1350 − 420) = 159.48 L/s; less the existing 40 L/s → ceil(119.48) = 120 L/s.
-    // Cheapest ≥ 120 L/s in the default catalogue: Wall unit 150 £5,500 (2 × Sill 60 £5,600; Cassette 100 + Sill 60 £7,300).
-    const r = assessRoom(exampleOneRoom(40), ex1).retrofit;
-    expect(r).not.toBeNull();
-    expect(r?.requiredSupplyLps).toBe(120);
-    expect(r?.units).toEqual([{ modelId: 'wall-150', modelName: 'Wall unit 150', count: 1 }]);
-    expect(r?.capitalCostGbp).toBe(5500);
-    // With 190 L/s in total the steady state is 420 + 148319/190 = 1200.6 ppm < 1350: no pupil-hours remain above.
+  it('case B: units take over the 40 l/s fans (no heat recovery) and supply the whole 160 l/s', () => {
+    // Hand: required outdoor air 10^6·0.148319/(1350 − 420) = 159.48 L/s; the existing balanced fans recover no heat,
+    // so the units replace them and supply it all: ceil(159.48) = 160 L/s. Cheapest ≥ 160 L/s in the default
+    // catalogue: Ceiling cassette 100 + Sill unit 60 £7,300 (Wall 250 £7,500; Wall 150 + Sill 60 £8,300).
+    const r = assessRoom(exampleOneRoom(40), ex1).appraisal;
+    expect(r?.requiredSupplyLps).toBe(160);
+    expect(r?.replacesExistingLps).toBe(40);
+    expect(r?.capitalCostGbp).toBe(7300);
+    expect(r?.unitModels).toBe('1 × Sill unit 60 + 1 × Ceiling cassette 100');
+    // With 160 L/s the steady state is 420 + 148319/160 = 1347.0 ppm < 1350: no pupil-hours remain above.
     expect(Math.abs((r?.pupilHoursRemovedPerYear ?? 0) - 26579.7)).toBeLessThanOrEqual(1);
-    // 26,579.7 pupil-hours / £5.5k = 4,832.7 per £1,000
-    expect(Math.abs((r?.pupilHoursRemovedPer1000Gbp ?? 0) - 4832.7)).toBeLessThanOrEqual(0.5);
+    // 26,579.7 pupil-hours / £7.3k = 3,641.1 per £1,000
+    expect(Math.abs((r?.pupilHoursRemovedPer1000Gbp ?? 0) - 3641.1)).toBeLessThanOrEqual(0.5);
   });
 });
 
@@ -69,7 +71,7 @@ describe('assessRoom on a typical classroom under the default set', () => {
   it('records the assumption version, the cautions and the defaults it used', () => {
     expect(a.assumptionsVersion).toBe(DEFAULT_ASSUMPTIONS.version);
     expect(a.cautions.join(' ')).toMatch(/not a design/);
-    expect(a.defaultsUsed.some((d) => d.startsWith('block.airPermeabilityM3hM2 → 20'))).toBe(true);
+    expect(a.assumed.some((d) => d.field === 'block.airPermeabilityM3hM2' && d.value === 20)).toBe(true);
     expect(a.airPermeabilityM3hM2).toBe(20); // system-built default
   });
 
@@ -86,10 +88,11 @@ describe('assessRoom on a typical classroom under the default set', () => {
     expect(JSON.parse(JSON.stringify(a))).toEqual(a);
   });
 
-  it('says in words when better air costs energy compared with today', () => {
-    expect(a.retrofit).not.toBeNull();
-    if (a.retrofit && a.retrofit.vsToday.annualExtraCostGbp > 0)
-      expect(a.retrofit.comparisonWithToday).toMatch(/^Better air costs energy/);
+  it('appraises the units against all three named baselines', () => {
+    expect(a.appraisal?.feasible).toBe(true);
+    expect(a.appraisal?.baselines.today.baseline).toBe('today');
+    expect(a.appraisal?.baselines.same_air_without_recovery.baseline).toBe('same_air_without_recovery');
+    expect(a.appraisal?.headline).toBe('same_air_without_recovery');
   });
 
   it('leaves curves out when asked, for batch runs', () => {
@@ -101,6 +104,7 @@ describe('assessRoom on a typical classroom under the default set', () => {
   it('uses EN 16798-1 Category II when the set chooses the European categories (check 15: 1220 ppm)', () => {
     const set = structuredClone(DEFAULT_ASSUMPTIONS);
     set.criteria.family.value = 'en16798_1';
+    set.air.outdoorCo2Ppm.value = 420; // check 15 is at 420 ppm outdoors
     const en = assessRoom(typicalClassroom(), set);
     expect(en.criterion.packId).toBe('en16798_cat_II');
     expect(en.criterion.meanLimitPpm).toBe(1220);
@@ -110,7 +114,7 @@ describe('assessRoom on a typical classroom under the default set', () => {
   it('gives no retrofit for rooms that are not teaching rooms', () => {
     const office = typicalClassroom();
     office.room.use = 'office';
-    expect(assessRoom(office, DEFAULT_ASSUMPTIONS).retrofit).toBeNull();
+    expect(assessRoom(office, DEFAULT_ASSUMPTIONS).appraisal).toBeNull();
   });
 });
 
@@ -124,7 +128,22 @@ describe('invalid input', () => {
     ['room.orientationDeg', (i) => (i.room.orientationDeg = 400)],
     ['block.airPermeabilityM3hM2', (i) => (i.block.airPermeabilityM3hM2 = 0)],
     ['school.climateRegion', (i) => ((i.school as { climateRegion: string }).climateRegion = 'atlantis')],
-    ['school.boilerEfficiency', (i) => (i.school.boilerEfficiency = 10)],
+    ['school.heatingEfficiency', (i) => (i.school.heatingEfficiency = 10)],
+    // A gas boiler cannot have a COP: above 1 only heat pumps (limits.ts HEATING_EFFICIENCY_LIMITS).
+    ['school.heatingEfficiency', (i) => (i.school.heatingEfficiency = 2.5)],
+    ['room.pupils', (i) => (i.room.pupils = 27.5)],
+    // 550 people in a 1 m² × 2 m room (2 m³) is more than two a square metre (limits.ts).
+    [
+      'room.pupils',
+      (i) => {
+        i.room.floorAreaM2 = 1;
+        i.room.ceilingHeightM = 2;
+        i.room.pupils = 500;
+        i.room.adults = 50;
+        i.room.glazingAreaM2 = 1;
+        i.room.openableAreaM2 = 0.5;
+      },
+    ],
   ];
   for (const [field, spoil] of cases) {
     it(`rejects a bad ${field} with an EngineInputError naming it`, () => {

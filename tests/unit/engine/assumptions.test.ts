@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { assumedWords } from '~/lib/engine/assess';
 import {
   assessRoom,
   completeAssumptionSet,
@@ -26,9 +27,11 @@ describe('the default assumption set', () => {
     }
   });
 
-  it('uses the values the brief and domain reference fix: 420 ppm outdoors, 3.5 % discount rate (Green Book, confirmed)', () => {
+  it('uses the current outdoor CO2 (NOAA GML Mauna Loa annual mean 2024 ≈ 424.6 ppm, from memory), the newest DESNZ electricity factor (2025 ≈ 0.177, secondary) and 3.5 % (Green Book, confirmed)', () => {
     const get = (path: string) => entries.find((e) => e.path === path);
-    expect(get('air.outdoorCo2Ppm')?.value).toBe(420);
+    expect(get('air.outdoorCo2Ppm')?.value).toBe(425);
+    expect(get('finance.electricityKgCo2ePerKwh')?.value).toBe(0.177);
+    expect(get('windows.frameFactorByMaterial')?.value).toMatchObject({ timber: 0.7, pvc_u: 0.7, metal: 0.8 });
     expect(get('finance.discountRate')).toMatchObject({ value: 0.035, status: 'confirmed', kind: 'financial' });
     expect(get('finance.electricityPriceGbpPerKwh')?.kind).toBe('financial');
     expect(get('windows.dischargeCoefficient')?.kind).toBe('technical');
@@ -95,7 +98,7 @@ describe('sets stored by an earlier engine version', () => {
     expect(set.comfort.deskDistanceFromWindowM.value).toBe(DEFAULT_ASSUMPTIONS.comfort.deskDistanceFromWindowM.value);
     const a = assessRoom(typicalClassroom(), old as unknown as typeof DEFAULT_ASSUMPTIONS);
     expect(a.assumptionsVersion).toBe('stored-2026-11');
-    expect(a.defaultsUsed[0]).toMatch(/^assumptions\.comfort\.deskDistanceFromWindowM → Airtally default/);
+    expect(assumedWords(a)[0]).toMatch(/^assumptions\.comfort\.deskDistanceFromWindowM → Airtally default/);
   });
 
   it('keep their own values', () => {

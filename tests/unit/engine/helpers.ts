@@ -18,15 +18,19 @@ export function typicalClassroom(): RoomAssessmentInput {
       glazingAreaM2: 12,
       openableAreaM2: 3,
       windowType: 'top_hung',
+      frameMaterial: null,
       glazingGValue: null,
       ventilationType: 'natural_single_sided',
       mechanicalSupplyLps: null,
+      winterWindowOpenFraction: null,
     },
     block: {
       yearBuilt: 1968,
       constructionType: 'system_built',
       airPermeabilityM3hM2: null,
       heatingFuel: null,
+      fuelPriceGbpPerKwh: null,
+      heatingEfficiency: null,
       heatingInstalledYear: 1995,
     },
     school: {
@@ -34,7 +38,8 @@ export function typicalClassroom(): RoomAssessmentInput {
       climateRegion: 'midlands',
       heatingFuel: 'gas',
       fuelPriceGbpPerKwh: null,
-      boilerEfficiency: null,
+      heatingEfficiency: null,
+      timetable: null,
     },
   };
 }
@@ -47,6 +52,7 @@ export function exampleOneAssumptions(): AssumptionSet {
   const set = structuredClone(DEFAULT_ASSUMPTIONS);
   set.version = 'test-example-1';
   set.infiltration.envelopeAreaPerFloorArea.value = 0;
+  set.air.outdoorCo2Ppm.value = 420;
   set.windows.windowUseWithMechanical.value = 0;
   set.occupancy.adultMet.value = 1.4;
   set.occupancy.pupilMetByUse.value.classroom = 1.4;

@@ -25,6 +25,7 @@ export const POST = route(async ({ locals, request }) => {
   const options = ImportOptionsSchema.parse({
     headerRow: form.get('headerRow') ?? undefined,
     mapping: form.get('mapping') ?? undefined,
+    clearBlanks: form.get('clearBlanks') ?? undefined,
   });
   const bytes = Buffer.from(await file.arrayBuffer());
   const preview = await previewImport(
