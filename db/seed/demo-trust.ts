@@ -567,7 +567,7 @@ export function demoRooms(school: DemoSchool, schoolIndex: number): DemoRoom[] {
         // Every seventh teaching room has windows that barely open (restrictors, painted shut, or fixed lights).
         const tinyOpening = plan.pupils[1] > 0 && i % 7 === 3;
         const glazingAreaM2 = round(floorAreaM2 * between([0.14, 0.32]), 1);
-        const openable = tinyOpening ? between([0.5, 1.0]) : floorAreaM2 * between(plan.openableFraction);
+        const openable = tinyOpening ? between([0.7, 1.2]) : floorAreaM2 * between(plan.openableFraction);
         const mechanical =
           ventilationType === 'mechanical_supply_extract' ||
           ventilationType === 'heat_recovery_unit' ||
