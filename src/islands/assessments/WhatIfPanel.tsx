@@ -38,13 +38,13 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
     ['Criterion', a.criteriaMet ? 'Met' : 'Not met', b.criteriaMet ? 'Met' : 'Not met'],
     [
       'Units still recommended',
-      a.retrofit?.feasible ? a.retrofit.units.map((u) => `${u.count} × ${u.modelName}`).join(' + ') : '—',
-      b.retrofit?.feasible ? b.retrofit.units.map((u) => `${u.count} × ${u.modelName}`).join(' + ') : '—',
+      a.appraisal?.feasible ? a.appraisal.unitModels : '—',
+      b.appraisal?.feasible ? b.appraisal.unitModels : '—',
     ],
     [
       'Capital of those units',
-      a.retrofit?.feasible ? gbp(a.retrofit.capitalCostGbp) : '—',
-      b.retrofit?.feasible ? gbp(b.retrofit.capitalCostGbp) : '—',
+      a.appraisal?.feasible ? gbp(a.appraisal.capitalCostGbp) : '—',
+      b.appraisal?.feasible ? gbp(b.appraisal.capitalCostGbp) : '—',
     ],
   ];
   const curves = (['winter', 'mid', 'summer'] as const).map((s) => ({

@@ -27,7 +27,7 @@ function caption(kind: DashboardChartKind, d: Dashboard): string {
     case 'co2':
       return "Rooms in each school by their worst season's mean CO₂ over the school day. The longer the amber and red parts of a bar, the more rooms in that school have stale air.";
     case 'scatter':
-      return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years energy savings take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back on energy alone are not plotted.` : ''}`;
+      return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years the net savings (heating less fans and servicing, against the finance lead's baseline) take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back (the heat they save does not cover fans and servicing) are not plotted.` : ''}`;
     case 'cumulative':
       return `Capital spent (across) against the pupil-hours of poor air removed each year (up) if rooms are done in ranked order. A steep start means the first rooms on the list do most good per pound. All ${formatGbp(d.cumulative.totalCapitalGbp)} removes about ${formatInteger(d.cumulative.totalPupilHoursRemoved)} pupil-hours a year.`;
   }
@@ -181,7 +181,7 @@ function Figure({ kind, bandLabels }: Props) {
       ) : query.isError ? (
         <ErrorState message={query.error.message} onRetry={() => void query.refetch()} />
       ) : kind === 'scatter' && query.data.scatter.points.length === 0 && query.data.scatter.neverPayBack > 0 ? (
-        <EmptyState title="No recommended unit pays back on energy alone.">
+        <EmptyState title="No recommended unit pays back against the chosen baseline.">
           Under the current energy prices all {formatInteger(query.data.scatter.neverPayBack)} rooms with recommended
           units cost more to run than the heat they save, so there is no payback to plot. Rank them by need on the{' '}
           <a className="underline" href="/app/priorities">

@@ -10,7 +10,7 @@ export function SchoolsEditor({
   can,
 }: {
   schools: SchoolOption[];
-  options: { phases: Option[]; climateRegions: Option[]; constructionTypes: Option[] };
+  options: { phases: Option[]; climateRegions: Option[]; constructionTypes: Option[]; heatingFuels: Option[] };
   can: RegisterPermissions;
 }) {
   const [schoolId, setSchoolId] = useState(schools[0]?.id);
@@ -18,6 +18,7 @@ export function SchoolsEditor({
   const edit = useEstateEdit(schoolId);
   const [message, setMessage] = useState<string | null>(null);
   const [newBlock, setNewBlock] = useState('');
+  const [timetable, setTimetable] = useState<string | null>(null);
   const s = school.data?.school;
   const run = (change: Parameters<typeof edit.mutate>[0]) =>
     edit.mutate(change, {
@@ -92,7 +93,71 @@ export function SchoolsEditor({
                 onCommit={(v) => run({ kind: 'school', id: s.id, changes: { climateRegion: v } })}
               />
             </dd>
+            <dt className="text-ink-muted">Heating fuel</dt>
+            <dd>
+              <EditableCell
+                value={s.heatingFuel}
+                kind="select"
+                options={options.heatingFuels}
+                editable={can.canUpdate}
+                label="School heating fuel"
+                onCommit={(v) => run({ kind: 'school', id: s.id, changes: { heatingFuel: v } })}
+              />
+            </dd>
+            <dt className="text-ink-muted">Fuel price (£/kWh)</dt>
+            <dd>
+              <EditableCell
+                value={s.fuelPriceGbpPerKwh}
+                kind="number"
+                nullable
+                display={s.fuelPriceGbpPerKwh === null ? "The trust's price (blank)" : undefined}
+                editable={can.canUpdate}
+                label="School fuel price"
+                onCommit={(v) => run({ kind: 'school', id: s.id, changes: { fuelPriceGbpPerKwh: num(v) } })}
+              />
+            </dd>
+            <dt className="text-ink-muted">{s.heatingFuel === 'heat_pump' ? 'Seasonal COP' : 'Heating efficiency'}</dt>
+            <dd>
+              <EditableCell
+                value={s.heatingEfficiency}
+                kind="number"
+                nullable
+                display={s.heatingEfficiency === null ? "The trust's default (blank)" : undefined}
+                editable={can.canUpdate}
+                label="School heating efficiency"
+                onCommit={(v) => run({ kind: 'school', id: s.id, changes: { heatingEfficiency: num(v) } })}
+              />
+            </dd>
+            <dt className="text-ink-muted">School day</dt>
+            <dd>
+              {can.canUpdate ? (
+                <form
+                  onSubmit={(e) => {
+                    e.preventDefault();
+                    run({ kind: 'school', id: s.id, changes: { timetable: timetable ?? s.timetableText } });
+                  }}
+                >
+                  <textarea
+                    aria-label="School day, one period a line"
+                    className="w-full rounded-control border border-line bg-surface px-2 py-1 font-mono text-xs"
+                    rows={5}
+                    placeholder={"Blank: the trust's timetable. One period a line, e.g.\n09:00-10:00 lesson\n10:00-10:15 break"}
+                    value={timetable ?? s.timetableText}
+                    onChange={(e) => setTimetable(e.target.value)}
+                  />
+                  <button type="submit" className="mt-1 rounded-control border border-line px-2 py-1">
+                    Save the school day
+                  </button>
+                </form>
+              ) : (
+                <pre className="whitespace-pre-wrap">{s.timetableText || "The trust's timetable"}</pre>
+              )}
+            </dd>
           </dl>
+          <p className="max-w-2xl text-xs text-ink-muted">
+            Heating is priced block first, then school, then the trust's assumption set. A block with its own fuel never
+            takes the school's price or efficiency. Heat pumps record a seasonal COP (1–6); direct electric heating is 1.
+          </p>
           <div className="overflow-x-auto rounded-card border border-line bg-surface">
             <table className="w-full text-left text-sm" data-testid="blocks-table">
               <caption className="sr-only">Blocks of {s.name}</caption>
@@ -109,6 +174,15 @@ export function SchoolsEditor({
                   </th>
                   <th scope="col" className="px-2 py-2">
                     Air permeability (m³/(h·m²) @ 50 Pa)
+                  </th>
+                  <th scope="col" className="px-2 py-2">
+                    Heating fuel
+                  </th>
+                  <th scope="col" className="px-2 py-2">
+                    Fuel price (£/kWh)
+                  </th>
+                  <th scope="col" className="px-2 py-2">
+                    Efficiency / COP
                   </th>
                   <th scope="col" className="px-2 py-2">
                     Rooms
@@ -161,6 +235,40 @@ export function SchoolsEditor({
                         editable={can.canUpdate}
                         label={`Air permeability of block ${b.name}`}
                         onCommit={(v) => run({ kind: 'block', id: b.id, changes: { airPermeabilityM3hM2: num(v) } })}
+                      />
+                    </td>
+                    <td className="px-2 py-1">
+                      <EditableCell
+                        value={b.heatingFuel}
+                        kind="select"
+                        nullable
+                        options={options.heatingFuels}
+                        display={b.heatingFuel === null ? "The school's" : undefined}
+                        editable={can.canUpdate}
+                        label={`Heating fuel of block ${b.name}`}
+                        onCommit={(v) => run({ kind: 'block', id: b.id, changes: { heatingFuel: v } })}
+                      />
+                    </td>
+                    <td className="px-2 py-1">
+                      <EditableCell
+                        value={b.fuelPriceGbpPerKwh}
+                        kind="number"
+                        nullable
+                        display={b.fuelPriceGbpPerKwh === null ? 'Inherited' : undefined}
+                        editable={can.canUpdate}
+                        label={`Fuel price of block ${b.name}`}
+                        onCommit={(v) => run({ kind: 'block', id: b.id, changes: { fuelPriceGbpPerKwh: num(v) } })}
+                      />
+                    </td>
+                    <td className="px-2 py-1">
+                      <EditableCell
+                        value={b.heatingEfficiency}
+                        kind="number"
+                        nullable
+                        display={b.heatingEfficiency === null ? 'Inherited' : undefined}
+                        editable={can.canUpdate}
+                        label={`Heating efficiency of block ${b.name}`}
+                        onCommit={(v) => run({ kind: 'block', id: b.id, changes: { heatingEfficiency: num(v) } })}
                       />
                     </td>
                     <td className="px-2 py-1 tabular-nums">{b.roomCount}</td>

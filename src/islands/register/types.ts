@@ -18,6 +18,8 @@ export interface RegisterOptions {
   phases: Option[];
   climateRegions: Option[];
   constructionTypes: Option[];
+  frameMaterials: Option[];
+  heatingFuels: Option[];
   /** Register fields with their template headers, for the column-mapping step. */
   fields: Option[];
 }

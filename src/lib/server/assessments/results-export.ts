@@ -8,6 +8,15 @@ import type { ActiveTrust } from '../auth/context';
 import { getAssumptionSetById } from './assumptions.repository';
 import { inCanonicalOrder } from './assumptions.service';
 import { RISK_BANDS_BY_NUMBER } from './result-row';
+import { label } from '../../engine/vocabulary';
+import { ensureRanks } from '../portfolio/ranking.repository';
+
+/** Verdicts as people read them. */
+const VERDICT_WORDS = {
+  pays_back: 'Pays back',
+  saves_slowly: 'Saves, but not the capital within the period',
+  costs_to_run: 'Costs money to run (better air)',
+} as const;
 
 /** The first columns of the Results sheet, in this order (the brief of the export; more may follow). */
 export const RESULTS_HEADER = [
@@ -26,19 +35,46 @@ export const RESULTS_HEADER = [
 ] as const;
 
 const EXTRA_HEADER = [
+  'Unit models',
+  'Baseline of the money columns',
+  'Verdict',
+  'Heating saved (kWh a year)',
+  'Fan electricity saved (kWh a year)',
+  'Servicing saved (GBP a year)',
+  'Replacement in the period (GBP)',
   'Room name',
   'Pupils',
   'Worst season',
   'Criterion met',
   'Pupil-hours a year above threshold',
+  'Pupil-hours removed a year',
   'Reason',
   'Annual saving (kWh)',
   'Annual saving (kgCO2e)',
   'Discounted payback (years)',
   'Pupil-hours removed per GBP 1,000',
+  'Heating fuel',
+  'Fuel price (GBP/kWh)',
+  'Price from',
+  'Heating efficiency (COP for heat pumps)',
+  'Efficiency from',
+  'Heating degree-hours (K.h)',
+  'Unit run hours a year',
+  'Assumed values',
   'Assumptions version',
   'Run finished',
 ] as const;
+
+/** £ number formats, so a finance lead can sum the columns. */
+const GBP = '"£"#,##0;-"£"#,##0';
+const GBP_PRICE = '"£"0.000';
+const MONEY_COLUMNS = new Set<string>([
+  'Capital cost (GBP)',
+  'Annual saving (GBP)',
+  'NPV (GBP)',
+  'Servicing saved (GBP a year)',
+  'Replacement in the period (GBP)',
+]);
 
 /**
  * Text a spreadsheet would run as a formula (leading =, +, -, @, tab or carriage return) gets a leading
@@ -74,11 +110,18 @@ async function writeBook(
   sheet.columns = [...RESULTS_HEADER, ...EXTRA_HEADER].map((header) => ({
     header,
     width: header === 'Reason' ? 60 : Math.max(10, header.length + 2),
+    ...(MONEY_COLUMNS.has(header)
+      ? { style: { numFmt: GBP } }
+      : header === 'Fuel price (GBP/kWh)'
+        ? { style: { numFmt: GBP_PRICE } }
+        : {}),
   }));
   sheet.getRow(1).font = { bold: true };
   sheet.getRow(1).commit();
 
-  const limited = trust.schoolIds === null ? sql`TRUE` : sql`rr.school_id = ANY(${trust.schoolIds}::uuid[])`;
+  const limited = trust.schoolIds === null ? sql`TRUE` : sql`pr.school_id = ANY(${trust.schoolIds}::uuid[])`;
+  // The rank every page shows: portfolio_ranks, built by the engine's one ranking rule.
+  await ensureRanks(db, trust.id);
   const setIds = new Set<string>();
   let afterRank = 0;
   let written = 0;
@@ -93,6 +136,22 @@ async function writeBook(
       mean_co2_ppm: number;
       peak_co2_ppm: number;
       units_recommended: string;
+      unit_count: number;
+      baseline: string | null;
+      verdict: string | null;
+      annual_heating_saving_kwh: number | null;
+      annual_fan_saving_kwh: number | null;
+      annual_maintenance_saving_gbp: number | null;
+      replacement_cost_gbp: number | null;
+      pupil_hours_removed: number | null;
+      heating_fuel: string | null;
+      fuel_price_gbp_per_kwh: number | null;
+      price_source: string | null;
+      heating_efficiency: number | null;
+      efficiency_source: string | null;
+      heating_degree_hours_kh: number | null;
+      unit_run_hours: number | null;
+      assumed_count: number;
       capital_cost_gbp: number | null;
       annual_saving_gbp: number | null;
       simple_payback_years: number | null;
@@ -110,17 +169,22 @@ async function writeBook(
       assumption_set_id: string | null;
       finished_at: Date | null;
     }>`
-      SELECT rr.rank, s.name AS school, b.name AS block, r.code, r.name AS room_name, rr.risk_band, rr.mean_co2_ppm, rr.peak_co2_ppm,
-        rr.units_recommended, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupils,
+      SELECT pr.rank, s.name AS school, b.name AS block, r.code, r.name AS room_name, rr.risk_band, rr.mean_co2_ppm, rr.peak_co2_ppm,
+        rr.units_recommended, rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupils,
         rr.worst_season, rr.criteria_met, rr.pupil_hours_above, rr.reason, rr.annual_saving_kwh, rr.annual_saving_kgco2e,
-        rr.discounted_payback_years, rr.pupil_hours_removed_per_1000_gbp, ar.assumptions_version, ar.assumption_set_id, ar.finished_at
-      FROM room_results rr
+        rr.discounted_payback_years, rr.pupil_hours_removed_per_1000_gbp, rr.baseline, rr.verdict, rr.annual_heating_saving_kwh,
+        rr.annual_fan_saving_kwh, rr.annual_maintenance_saving_gbp, rr.replacement_cost_gbp, rr.pupil_hours_removed,
+        rr.heating_fuel, rr.fuel_price_gbp_per_kwh, rr.price_source, rr.heating_efficiency, rr.efficiency_source,
+        rr.heating_degree_hours_kh, rr.unit_run_hours, rr.assumed_count,
+        ar.assumptions_version, ar.assumption_set_id, ar.finished_at
+      FROM portfolio_ranks pr
+      JOIN room_results rr ON rr.room_id = pr.room_id AND rr.trust_id = pr.trust_id AND rr.is_current
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id
       JOIN assessment_runs ar ON ar.id = rr.run_id
-      WHERE rr.is_current AND rr.trust_id = ${trust.id} AND ${limited} AND rr.rank > ${afterRank}
-      ORDER BY rr.rank
+      WHERE pr.trust_id = ${trust.id} AND ${limited} AND pr.rank > ${afterRank}
+      ORDER BY pr.rank
       LIMIT ${BATCH}`.execute(db);
     for (const r of rows) {
       if (r.assumption_set_id) setIds.add(r.assumption_set_id);
@@ -134,21 +198,37 @@ async function writeBook(
           `${r.risk_band} ${RISK_BAND_LABELS[band]}`,
           round(r.mean_co2_ppm),
           round(r.peak_co2_ppm),
-          guardText(r.units_recommended),
+          r.unit_count,
           round(r.capital_cost_gbp),
           round(r.annual_saving_gbp),
           round(r.simple_payback_years, 1),
           round(r.npv_gbp),
+          guardText(r.units_recommended),
+          r.baseline ? label(r.baseline) : '',
+          r.verdict ? VERDICT_WORDS[r.verdict as keyof typeof VERDICT_WORDS] ?? r.verdict : '',
+          round(r.annual_heating_saving_kwh),
+          round(r.annual_fan_saving_kwh),
+          round(r.annual_maintenance_saving_gbp),
+          round(r.replacement_cost_gbp),
           guardText(r.room_name),
           r.pupils,
           r.worst_season,
           r.criteria_met ? 'Yes' : 'No',
           round(r.pupil_hours_above),
+          round(r.pupil_hours_removed),
           guardText(r.reason),
           round(r.annual_saving_kwh),
           round(r.annual_saving_kgco2e),
           round(r.discounted_payback_years, 1),
           round(r.pupil_hours_removed_per_1000_gbp, 1),
+          r.heating_fuel ? label(r.heating_fuel) : '',
+          round(r.fuel_price_gbp_per_kwh, 3),
+          r.price_source ?? '',
+          round(r.heating_efficiency, 2),
+          r.efficiency_source ?? '',
+          round(r.heating_degree_hours_kh),
+          round(r.unit_run_hours),
+          r.assumed_count,
           guardText(r.assumptions_version ?? ''),
           r.finished_at ? r.finished_at.toISOString().slice(0, 16).replace('T', ' ') : '',
         ])

@@ -23,8 +23,8 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     : sql`s.trust_id = ${trust.id}`;
   const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
   const [headline, register, lastRun] = await Promise.all([
-    sql<{ assessed: number; failing: number; pupils_failing: number; capital: number; saving: number }>`
-      SELECT count(*)::int AS assessed,
+    sql<{ assessed: number; failing: number; pupils_failing: number; capital: number; saving: number; baseline: string | null }>`
+      SELECT count(*)::int AS assessed, mode() WITHIN GROUP (ORDER BY rr.baseline) AS baseline,
         count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
         coalesce(sum(rr.pupils) FILTER (WHERE NOT rr.criteria_met), 0)::int AS pupils_failing,
         coalesce(sum(rr.capital_cost_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS capital,
@@ -50,6 +50,7 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     pupilsInFailingRooms: h.pupils_failing,
     capitalAllUnitsGbp: h.capital,
     annualSavingGbp: h.saving,
+    baseline: h.baseline,
     lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
   };
 }

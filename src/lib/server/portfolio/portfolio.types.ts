@@ -184,6 +184,8 @@ export interface Dashboard {
     pupilsInFailingRooms: number;
     capitalAllUnitsGbp: number;
     annualSavingGbp: number;
+    /** The baseline the saving is against (BaselineId of the latest results), null before any appraisal. */
+    baseline: string | null;
     lastRunFinishedAt: string | null;
   };
   co2BySchool: Co2BySchool[];
