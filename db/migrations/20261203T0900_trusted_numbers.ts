@@ -26,8 +26,16 @@ export async function up(db: Kysely<any>): Promise<void> {
   await sql`ALTER TABLE schools RENAME COLUMN boiler_efficiency TO heating_efficiency`.execute(db);
   await sql`ALTER TABLE schools DROP CONSTRAINT schools_boiler_efficiency_range`.execute(db);
   await sql`ALTER TABLE schools DROP CONSTRAINT schools_fuel_price_range`.execute(db);
-  await check('schools', 'schools_heating_efficiency_range', efficiencyByFuel('heating_fuel', 'heating_efficiency')).execute(db);
-  await check('schools', 'schools_fuel_price_range', 'fuel_price_gbp_per_kwh IS NULL OR fuel_price_gbp_per_kwh BETWEEN 0.001 AND 2').execute(db);
+  await check(
+    'schools',
+    'schools_heating_efficiency_range',
+    efficiencyByFuel('heating_fuel', 'heating_efficiency'),
+  ).execute(db);
+  await check(
+    'schools',
+    'schools_fuel_price_range',
+    'fuel_price_gbp_per_kwh IS NULL OR fuel_price_gbp_per_kwh BETWEEN 0.001 AND 2',
+  ).execute(db);
 
   // Blocks: own fuel price and efficiency; air permeability range.
   await db.schema
@@ -35,7 +43,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('fuel_price_gbp_per_kwh', 'double precision')
     .addColumn('heating_efficiency', 'double precision')
     .execute();
-  await check('blocks', 'blocks_fuel_price_range', 'fuel_price_gbp_per_kwh IS NULL OR fuel_price_gbp_per_kwh BETWEEN 0.001 AND 2').execute(db);
+  await check(
+    'blocks',
+    'blocks_fuel_price_range',
+    'fuel_price_gbp_per_kwh IS NULL OR fuel_price_gbp_per_kwh BETWEEN 0.001 AND 2',
+  ).execute(db);
   // A block without its own fuel burns the school's; the efficiency rule by fuel is checked by the API and engine.
   await check(
     'blocks',
@@ -43,7 +55,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     `heating_efficiency IS NULL OR (heating_fuel = 'heat_pump' AND heating_efficiency BETWEEN 1 AND 6) OR (heating_fuel = 'electric' AND heating_efficiency = 1) OR (coalesce(heating_fuel, '') NOT IN ('heat_pump', 'electric') AND heating_efficiency BETWEEN 0.3 AND 6)`,
   ).execute(db);
   await sql`ALTER TABLE blocks DROP CONSTRAINT blocks_air_permeability_range`.execute(db);
-  await check('blocks', 'blocks_air_permeability_range', 'air_permeability_m3h_m2 IS NULL OR air_permeability_m3h_m2 BETWEEN 0.5 AND 50').execute(db);
+  await check(
+    'blocks',
+    'blocks_air_permeability_range',
+    'air_permeability_m3h_m2 IS NULL OR air_permeability_m3h_m2 BETWEEN 0.5 AND 50',
+  ).execute(db);
 
   // Rooms: unknown values as null; new fields; the limits.
   for (const column of ['use', 'pupils', 'adults', 'glazing_area_m2', 'openable_area_m2'])
@@ -75,18 +91,52 @@ export async function up(db: Kysely<any>): Promise<void> {
     'rooms_mechanical_supply_not_negative',
   ])
     await sql.raw(`ALTER TABLE rooms DROP CONSTRAINT ${name}`).execute(db);
-  await check('rooms', 'rooms_frame_material_known', `frame_material IS NULL OR frame_material IN (${FRAMES.map((f) => `'${f}'`).join(', ')})`).execute(db);
+  await check(
+    'rooms',
+    'rooms_frame_material_known',
+    `frame_material IS NULL OR frame_material IN (${FRAMES.map((f) => `'${f}'`).join(', ')})`,
+  ).execute(db);
   await check('rooms', 'rooms_floor_area_range', 'floor_area_m2 BETWEEN 1 AND 5000').execute(db);
-  await check('rooms', 'rooms_ceiling_height_range', 'ceiling_height_m IS NULL OR ceiling_height_m BETWEEN 2 AND 12').execute(db);
+  await check(
+    'rooms',
+    'rooms_ceiling_height_range',
+    'ceiling_height_m IS NULL OR ceiling_height_m BETWEEN 2 AND 12',
+  ).execute(db);
   await check('rooms', 'rooms_pupils_range', 'pupils IS NULL OR pupils BETWEEN 0 AND 500').execute(db);
   await check('rooms', 'rooms_adults_range', 'adults IS NULL OR adults BETWEEN 0 AND 50').execute(db);
-  await check('rooms', 'rooms_occupant_density', '(coalesce(pupils, 0) + coalesce(adults, 0)) * 0.5 <= floor_area_m2').execute(db);
-  await check('rooms', 'rooms_orientation_range', 'orientation_deg IS NULL OR orientation_deg BETWEEN 0 AND 359').execute(db);
-  await check('rooms', 'rooms_glazing_range', 'glazing_area_m2 IS NULL OR (glazing_area_m2 BETWEEN 0 AND 5000 AND glazing_area_m2 <= 3 * floor_area_m2)').execute(db);
-  await check('rooms', 'rooms_openable_within_glazing', 'openable_area_m2 IS NULL OR (openable_area_m2 >= 0 AND openable_area_m2 <= coalesce(glazing_area_m2, 3 * floor_area_m2))').execute(db);
-  await check('rooms', 'rooms_g_value_range', 'glazing_g_value IS NULL OR glazing_g_value BETWEEN 0.1 AND 0.9').execute(db);
-  await check('rooms', 'rooms_mechanical_supply_range', 'mechanical_supply_lps IS NULL OR mechanical_supply_lps BETWEEN 0 AND 5000').execute(db);
-  await check('rooms', 'rooms_winter_window_range', 'winter_window_open_fraction IS NULL OR winter_window_open_fraction BETWEEN 0 AND 1').execute(db);
+  await check(
+    'rooms',
+    'rooms_occupant_density',
+    '(coalesce(pupils, 0) + coalesce(adults, 0)) * 0.5 <= floor_area_m2',
+  ).execute(db);
+  await check(
+    'rooms',
+    'rooms_orientation_range',
+    'orientation_deg IS NULL OR orientation_deg BETWEEN 0 AND 359',
+  ).execute(db);
+  await check(
+    'rooms',
+    'rooms_glazing_range',
+    'glazing_area_m2 IS NULL OR (glazing_area_m2 BETWEEN 0 AND 5000 AND glazing_area_m2 <= 3 * floor_area_m2)',
+  ).execute(db);
+  await check(
+    'rooms',
+    'rooms_openable_within_glazing',
+    'openable_area_m2 IS NULL OR (openable_area_m2 >= 0 AND openable_area_m2 <= coalesce(glazing_area_m2, 3 * floor_area_m2))',
+  ).execute(db);
+  await check('rooms', 'rooms_g_value_range', 'glazing_g_value IS NULL OR glazing_g_value BETWEEN 0.1 AND 0.9').execute(
+    db,
+  );
+  await check(
+    'rooms',
+    'rooms_mechanical_supply_range',
+    'mechanical_supply_lps IS NULL OR mechanical_supply_lps BETWEEN 0 AND 5000',
+  ).execute(db);
+  await check(
+    'rooms',
+    'rooms_winter_window_range',
+    'winter_window_open_fraction IS NULL OR winter_window_open_fraction BETWEEN 0 AND 1',
+  ).execute(db);
 
   // Room results: the appraisal's baseline, lines, hours and heating; no rank copies.
   await sql`DROP INDEX IF EXISTS room_results_current_rank_idx`.execute(db);
@@ -113,7 +163,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('unit_run_hours', 'double precision')
     .addColumn('assumed_count', 'integer', (c) => c.notNull().defaultTo(0))
     .execute();
-  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id) WHERE is_current`.execute(db);
+  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id) WHERE is_current`.execute(
+    db,
+  );
   // Ranks are derived data: rebuilt by the engine's rule on the next read.
   await sql`DELETE FROM portfolio_ranks`.execute(db);
   await sql`UPDATE portfolio_settings SET ranked_weights = NULL, ranked_stamp = NULL`.execute(db);
@@ -147,7 +199,9 @@ export async function down(db: Kysely<any>): Promise<void> {
     .addColumn('score_payback', 'double precision', (c) => c.notNull().defaultTo(0))
     .execute();
   await sql`CREATE INDEX room_results_current_rank_idx ON room_results (trust_id, rank) WHERE is_current`.execute(db);
-  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id, rank) WHERE is_current`.execute(db);
+  await sql`CREATE INDEX room_results_current_school_idx ON room_results (trust_id, school_id, rank) WHERE is_current`.execute(
+    db,
+  );
 
   for (const name of [
     'rooms_frame_material_known',
@@ -184,17 +238,33 @@ export async function down(db: Kysely<any>): Promise<void> {
     ALTER COLUMN adults SET DEFAULT 0, ALTER COLUMN glazing_area_m2 SET DEFAULT 0, ALTER COLUMN openable_area_m2 SET DEFAULT 0`.execute(
     db,
   );
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_floor_area_positive CHECK (floor_area_m2 > 0 AND floor_area_m2 <= 5000)`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_ceiling_height_range CHECK (ceiling_height_m BETWEEN 2 AND 12)`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_occupancy_not_negative CHECK (pupils >= 0 AND adults >= 0)`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_orientation_range CHECK (orientation_deg IS NULL OR orientation_deg BETWEEN 0 AND 359)`.execute(db);
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_floor_area_positive CHECK (floor_area_m2 > 0 AND floor_area_m2 <= 5000)`.execute(
+    db,
+  );
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_ceiling_height_range CHECK (ceiling_height_m BETWEEN 2 AND 12)`.execute(
+    db,
+  );
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_occupancy_not_negative CHECK (pupils >= 0 AND adults >= 0)`.execute(
+    db,
+  );
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_orientation_range CHECK (orientation_deg IS NULL OR orientation_deg BETWEEN 0 AND 359)`.execute(
+    db,
+  );
   await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_glazing_not_negative CHECK (glazing_area_m2 >= 0)`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_openable_within_glazing CHECK (openable_area_m2 >= 0 AND openable_area_m2 <= glazing_area_m2)`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_g_value_range CHECK (glazing_g_value IS NULL OR (glazing_g_value > 0 AND glazing_g_value <= 1))`.execute(db);
-  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_mechanical_supply_not_negative CHECK (mechanical_supply_lps IS NULL OR mechanical_supply_lps >= 0)`.execute(db);
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_openable_within_glazing CHECK (openable_area_m2 >= 0 AND openable_area_m2 <= glazing_area_m2)`.execute(
+    db,
+  );
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_g_value_range CHECK (glazing_g_value IS NULL OR (glazing_g_value > 0 AND glazing_g_value <= 1))`.execute(
+    db,
+  );
+  await sql`ALTER TABLE rooms ADD CONSTRAINT rooms_mechanical_supply_not_negative CHECK (mechanical_supply_lps IS NULL OR mechanical_supply_lps >= 0)`.execute(
+    db,
+  );
 
   await sql`ALTER TABLE blocks DROP CONSTRAINT blocks_air_permeability_range`.execute(db);
-  await sql`ALTER TABLE blocks ADD CONSTRAINT blocks_air_permeability_range CHECK (air_permeability_m3h_m2 IS NULL OR (air_permeability_m3h_m2 > 0 AND air_permeability_m3h_m2 <= 100))`.execute(db);
+  await sql`ALTER TABLE blocks ADD CONSTRAINT blocks_air_permeability_range CHECK (air_permeability_m3h_m2 IS NULL OR (air_permeability_m3h_m2 > 0 AND air_permeability_m3h_m2 <= 100))`.execute(
+    db,
+  );
   await sql`ALTER TABLE blocks DROP CONSTRAINT blocks_heating_efficiency_range`.execute(db);
   await sql`ALTER TABLE blocks DROP CONSTRAINT blocks_fuel_price_range`.execute(db);
   await db.schema.alterTable('blocks').dropColumn('fuel_price_gbp_per_kwh').dropColumn('heating_efficiency').execute();
@@ -203,6 +273,10 @@ export async function down(db: Kysely<any>): Promise<void> {
   await sql`ALTER TABLE schools DROP CONSTRAINT schools_heating_efficiency_range`.execute(db);
   await sql`UPDATE schools SET heating_efficiency = NULL WHERE heating_efficiency > 1`.execute(db);
   await sql`ALTER TABLE schools RENAME COLUMN heating_efficiency TO boiler_efficiency`.execute(db);
-  await sql`ALTER TABLE schools ADD CONSTRAINT schools_boiler_efficiency_range CHECK (boiler_efficiency IS NULL OR (boiler_efficiency > 0 AND boiler_efficiency <= 1))`.execute(db);
-  await sql`ALTER TABLE schools ADD CONSTRAINT schools_fuel_price_range CHECK (fuel_price_gbp_per_kwh IS NULL OR (fuel_price_gbp_per_kwh > 0 AND fuel_price_gbp_per_kwh < 5))`.execute(db);
+  await sql`ALTER TABLE schools ADD CONSTRAINT schools_boiler_efficiency_range CHECK (boiler_efficiency IS NULL OR (boiler_efficiency > 0 AND boiler_efficiency <= 1))`.execute(
+    db,
+  );
+  await sql`ALTER TABLE schools ADD CONSTRAINT schools_fuel_price_range CHECK (fuel_price_gbp_per_kwh IS NULL OR (fuel_price_gbp_per_kwh > 0 AND fuel_price_gbp_per_kwh < 5))`.execute(
+    db,
+  );
 }

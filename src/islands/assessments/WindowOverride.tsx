@@ -23,7 +23,11 @@ export default function WindowOverride({ roomId, value }: { roomId: string; valu
     }
   }
   return (
-    <form className="mt-3 flex flex-wrap items-end gap-2 text-sm" onSubmit={(e) => void save(e)} data-testid="window-override">
+    <form
+      className="mt-3 flex flex-wrap items-end gap-2 text-sm"
+      onSubmit={(e) => void save(e)}
+      data-testid="window-override"
+    >
       <label>
         <span className="block text-ink-muted">Winter window opening for this room (% of the openable area)</span>
         <input
@@ -34,11 +38,20 @@ export default function WindowOverride({ roomId, value }: { roomId: string; valu
           placeholder="assumed"
         />
       </label>
-      <button type="submit" disabled={busy} className="rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={busy}
+        className="rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-60"
+      >
         Save for this room
       </button>
       {value !== null && (
-        <button type="button" disabled={busy} className="rounded-control border border-line px-3 py-1.5" onClick={(e) => void save(e, true)}>
+        <button
+          type="button"
+          disabled={busy}
+          className="rounded-control border border-line px-3 py-1.5"
+          onClick={(e) => void save(e, true)}
+        >
           Use the default again
         </button>
       )}

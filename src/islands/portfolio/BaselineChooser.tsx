@@ -17,7 +17,10 @@ export default function BaselineChooser({ current, editable }: { current: string
     try {
       await apiFetch('/api/assumptions', {
         method: 'PATCH',
-        body: { changes: [{ path: 'finance.headlineBaseline', value }], summary: 'Headline baseline chosen on the finance page' },
+        body: {
+          changes: [{ path: 'finance.headlineBaseline', value }],
+          summary: 'Headline baseline chosen on the finance page',
+        },
       });
       setMessage('Saved as a new assumption version. Re-run the assessment to apply it to the figures.');
     } catch (error) {

@@ -531,8 +531,8 @@ function Priorities(props: PrioritiesProps) {
               </span>
             )}
             <p className="basis-full text-xs text-ink-muted">
-              Money is against the baseline the finance lead chose (shown per room). Payback “Never”: heating saved
-              does not cover fans and servicing; such units are recommended for the air, not the bill.
+              Money is against the baseline the finance lead chose (shown per room). Payback “Never”: heating saved does
+              not cover fans and servicing; such units are recommended for the air, not the bill.
             </p>
             {query.isError && query.data && (
               <span role="alert" className="text-danger">

@@ -33,6 +33,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
   const [outcome, setOutcome] = useState<ImportOutcome | null>(null);
   const [showWarnings, setShowWarnings] = useState(true);
   const [dragging, setDragging] = useState(false);
+  const [clearBlanks, setClearBlanks] = useState(false);
 
   const send = async (
     chosen: File,
@@ -49,6 +50,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
         {
           ...(opts.headerRow ? { headerRow: opts.headerRow } : {}),
           ...(opts.mapping && Object.keys(opts.mapping).length ? { mapping: opts.mapping } : {}),
+          ...(clearBlanks ? { clearBlanks: true } : {}),
         },
         setProgress,
       );
@@ -112,6 +114,10 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
           </button>
           . Nothing changes until you confirm the preview.
         </p>
+        <label className="mt-2 inline-flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={clearBlanks} onChange={(e) => setClearBlanks(e.target.checked)} />
+          Blank cells clear stored values (otherwise a blank keeps what Airtally holds)
+        </label>
         <input
           ref={input}
           type="file"
@@ -307,6 +313,58 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
               </p>
             )}
           </div>
+
+          {preview.roomChanges.length > 0 && (
+            <details className="rounded-card border border-line bg-surface p-4" data-testid="room-changes" open>
+              <summary className="cursor-pointer font-semibold">
+                What changes, room by room ({formatCount(preview.roomChanges.length, 'room')}
+                {preview.roomChanges.length >= 2000 ? ', first 2,000' : ''})
+              </summary>
+              <p className="mt-1 text-sm text-ink-muted">
+                {preview.clearBlanks
+                  ? 'Blank cells clear the stored values (you chose to clear blanks).'
+                  : 'Blank cells keep the stored values; "TBC" and "n/a" are read as blank.'}
+              </p>
+              <div className="mt-2 max-h-96 overflow-auto">
+                <table className="w-full text-left text-sm">
+                  <caption className="sr-only">Fields that change per room</caption>
+                  <thead className="border-b border-line text-ink-muted">
+                    <tr>
+                      <th scope="col" className="px-2 py-1">
+                        Row
+                      </th>
+                      <th scope="col" className="px-2 py-1">
+                        Room
+                      </th>
+                      <th scope="col" className="px-2 py-1">
+                        Changes
+                      </th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {preview.roomChanges.slice(0, 500).map((c) => (
+                      <tr key={`${c.row}-${c.code}`} className="border-b border-line align-top last:border-0">
+                        <td className="px-2 py-1 tabular-nums">{c.row}</td>
+                        <td className="px-2 py-1">
+                          {c.school} · {c.code}
+                          {c.kind === 'new' ? ' (new)' : ''}
+                        </td>
+                        <td className="px-2 py-1">
+                          {c.fields
+                            .map((f) =>
+                              c.kind === 'new'
+                                ? `${f.field} ${String(f.after)}`
+                                : `${f.field}: ${f.before === null ? 'unknown' : String(f.before)} → ${f.after === null ? 'unknown' : String(f.after)}`,
+                            )
+                            .join('; ')}
+                        </td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </details>
+          )}
 
           {preview.missingRooms.length > 0 && (
             <div className="rounded-card border border-line bg-surface p-4">

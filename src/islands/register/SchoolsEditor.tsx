@@ -141,7 +141,9 @@ export function SchoolsEditor({
                     aria-label="School day, one period a line"
                     className="w-full rounded-control border border-line bg-surface px-2 py-1 font-mono text-xs"
                     rows={5}
-                    placeholder={"Blank: the trust's timetable. One period a line, e.g.\n09:00-10:00 lesson\n10:00-10:15 break"}
+                    placeholder={
+                      "Blank: the trust's timetable. One period a line, e.g.\n09:00-10:00 lesson\n10:00-10:15 break"
+                    }
                     value={timetable ?? s.timetableText}
                     onChange={(e) => setTimetable(e.target.value)}
                   />
@@ -156,7 +158,8 @@ export function SchoolsEditor({
           </dl>
           <p className="max-w-2xl text-xs text-ink-muted">
             Heating is priced block first, then school, then the trust's assumption set. A block with its own fuel never
-            takes the school's price or efficiency. Heat pumps record a seasonal COP (1–6); direct electric heating is 1.
+            takes the school's price or efficiency. Heat pumps record a seasonal COP (1–6); direct electric heating is
+            1.
           </p>
           <div className="overflow-x-auto rounded-card border border-line bg-surface">
             <table className="w-full text-left text-sm" data-testid="blocks-table">

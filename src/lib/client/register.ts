@@ -138,12 +138,13 @@ export function useImports() {
 /** Uploads a register with upload progress (0–1); resolves to the preview. */
 export function uploadRegister(
   file: File,
-  options: { headerRow?: number; mapping?: Record<string, string | null> },
+  options: { headerRow?: number; mapping?: Record<string, string | null>; clearBlanks?: boolean },
   onProgress: (fraction: number) => void,
 ): Promise<ImportPreview> {
   const form = new FormData();
   form.set('file', file, file.name);
   if (options.headerRow) form.set('headerRow', String(options.headerRow));
+  if (options.clearBlanks) form.set('clearBlanks', 'true');
   if (options.mapping) form.set('mapping', JSON.stringify(options.mapping));
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();

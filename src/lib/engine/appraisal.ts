@@ -13,11 +13,7 @@ import { appraiseInvestment } from './finance';
 import { formatGbp, formatInt, formatOneDecimal } from './format';
 import type { SeasonHours } from './hours';
 import { type Prepared, type PreparedDay, unitsFor } from './prepared';
-import {
-  capitalPerTonneCo2eGbp,
-  pupilHoursPer1000Gbp,
-  requiredOutdoorAirLps,
-} from './retrofit';
+import { capitalPerTonneCo2eGbp, pupilHoursPer1000Gbp, requiredOutdoorAirLps } from './retrofit';
 import { minutesAboveThreshold } from './season-co2';
 import type {
   AnnualLines,
@@ -239,7 +235,12 @@ export function comparisonWords(r: RoomAppraisal): string {
 }
 
 /** An appraisal with no units: the room needs none, or no catalogue combination reaches the flow. */
-function noUnits(a: AppraisalInputs, requiredSupplyLps: number, replacesExistingLps: number, note: string): RoomAppraisal {
+function noUnits(
+  a: AppraisalInputs,
+  requiredSupplyLps: number,
+  replacesExistingLps: number,
+  note: string,
+): RoomAppraisal {
   const today: Scenario = { flows: a.todayFlows, fans: [], maintenanceGbp: 0, capitalGbp: 0, lifeYears: 1 };
   const energy = energyOf(a, today);
   const todayLps = occupiedTotalLps(a.todayFlows.winter);
@@ -325,7 +326,9 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
   const q = choice.flowLps;
   const years = set.finance.appraisalYears.value;
   if (years > perf.lifeYears)
-    notes.push(`Units are replaced after ${perf.lifeYears} years within the ${years}-year appraisal (a separate line).`);
+    notes.push(
+      `Units are replaced after ${perf.lifeYears} years within the ${years}-year appraisal (a separate line).`,
+    );
   const summerOff = r.operation.value.summerMode === 'off';
   const runHours = a.hoursUsed.unitRunHoursPerYear;
   const schoolHours = a.hoursUsed.schoolHoursPerYear;
@@ -334,7 +337,8 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     a.existing.balance === 'none' || a.existingFanLps <= 0
       ? []
       : [{ sfp: a.existing.specificFanPowerWPerLps, lps: a.existingFanLps, hours: existingFanHours }];
-  const existingMaintenance = replacesExistingLps > 0 ? set.mechanical.existingMaintenanceShareOfUnits.value * perf.maintenanceGbp : 0;
+  const existingMaintenance =
+    replacesExistingLps > 0 ? set.mechanical.existingMaintenanceShareOfUnits.value * perf.maintenanceGbp : 0;
   const keptHru = keepsExisting ? existingFans : [];
 
   // With units: windows as today times the share kept, units' balanced flow (plus any existing heat-recovery unit).
@@ -381,35 +385,18 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
   };
   const todayWinterLps = occupiedTotalLps(a.todayFlows.winter);
   const optionWinterLps = occupiedTotalLps(optionFlows.winter);
-  const vsToday = against(
-    a,
-    'today',
-    option,
-    optionEnergy,
-    today,
-    removed,
-  );
+  const vsToday = against(a, 'today', option, optionEnergy, today, removed);
 
   // (b) The same air without heat recovery: windows for natural rooms, the existing fans for mechanical ones.
   const byFans = replacesExistingLps > 0;
   const sameAir: Scenario = {
     flows: sameAirFlows,
-    fans: [
-      ...(byFans ? [{ sfp: a.existing.specificFanPowerWPerLps, lps: q, hours: runHours }] : []),
-      ...keptHru,
-    ],
+    fans: [...(byFans ? [{ sfp: a.existing.specificFanPowerWPerLps, lps: q, hours: runHours }] : []), ...keptHru],
     maintenanceGbp: existingMaintenance,
     capitalGbp: 0,
     lifeYears: perf.lifeYears,
   };
-  const vsSameAir = against(
-    a,
-    'same_air_without_recovery',
-    option,
-    optionEnergy,
-    sameAir,
-    0,
-  );
+  const vsSameAir = against(a, 'same_air_without_recovery', option, optionEnergy, sameAir, 0);
 
   // (c) The cheapest compliant option without heat recovery, where the units cost more.
   const simple = r.simplerOption.value;
@@ -423,14 +410,7 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
       capitalGbp: simpleCapital,
       lifeYears: simple.lifeYears,
     };
-    vsSimpler = against(
-      a,
-      'simpler_option',
-      option,
-      optionEnergy,
-      simpler,
-      0,
-    );
+    vsSimpler = against(a, 'simpler_option', option, optionEnergy, simpler, 0);
   }
 
   let headline = set.finance.headlineBaseline.value;
@@ -451,7 +431,9 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     heatRecoveryEfficiency: perf.heatRecoveryEfficiency,
   });
   if (supplyTempC < 16)
-    notes.push(`Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`);
+    notes.push(
+      `Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`,
+    );
 
   return {
     targetPackId: a.target.packId,

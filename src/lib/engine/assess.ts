@@ -48,7 +48,8 @@ function blockAirPermeability(block: BlockInput, set: AssumptionSet, assumed: As
   }
   const byEra = set.infiltration.defaultAirPermeabilityByEra.value;
   const y = block.yearBuilt;
-  const value = y === null ? byEra.unknown : y < 1980 ? byEra.before1980 : y < 2006 ? byEra.from1980to2005 : byEra.from2006;
+  const value =
+    y === null ? byEra.unknown : y < 1980 ? byEra.before1980 : y < 2006 ? byEra.from1980to2005 : byEra.from2006;
   assumed.push({ field: 'block.airPermeabilityM3hM2', value, reason: 'not measured: default by year built' });
   return value;
 }
@@ -94,7 +95,9 @@ function windowOpening(
 export function assumedWords(a: Pick<RoomAssessment, 'assumed' | 'assumptionsFilled'>): string[] {
   const out = a.assumptionsFilled.map((path) => `assumptions.${path} → Airtally default (not in this stored set)`);
   for (const v of a.assumed)
-    out.push(`${v.field} → ${typeof v.value === 'number' ? formatOneDecimal(v.value) : v.value.replace(/_/g, ' ')} (${v.reason})`);
+    out.push(
+      `${v.field} → ${typeof v.value === 'number' ? formatOneDecimal(v.value) : v.value.replace(/_/g, ' ')} (${v.reason})`,
+    );
   return out;
 }
 
@@ -126,7 +129,8 @@ export function assessRoom(
   const profiles = set.seasons.value;
 
   // --- Who is in the room and the CO2 they breathe out (Persily & de Jonge 2017 Table 4) ----------
-  const pupilMet = set.occupancy.pupilMetByUse.value[resolved.use] + set.occupancy.pupilMetAdjustByAge.value[resolved.ageGroup];
+  const pupilMet =
+    set.occupancy.pupilMetByUse.value[resolved.use] + set.occupancy.pupilMetAdjustByAge.value[resolved.ageGroup];
   const tableLps =
     (resolved.pupils > 0 ? resolved.pupils * perPersonGenerationLps(p, resolved.ageGroup, pupilMet) : 0) +
     (resolved.adults > 0 ? resolved.adults * perPersonGenerationLps(p, 'adult', set.occupancy.adultMet.value) : 0);

@@ -191,7 +191,7 @@ export function validateAssumptionSet(set: AssumptionSet): void {
   }
   const twelve = (path: string, values: readonly number[], min: number, max: number) => {
     if (values.length !== 12) throw new EngineInputError(`assumptions.${path}`, 'needs twelve months');
-    values.forEach((v, i) => r(`${path}.${i}`, v, min, max));
+    for (const [i, v] of values.entries()) r(`${path}.${i}`, v, min, max);
   };
   twelve('climate.dailyRangeK', set.climate.dailyRangeK.value, 0, 25);
   twelve('climate.dayToDaySdK', set.climate.dayToDaySdK.value, 0, 10);

@@ -97,7 +97,11 @@ export function appraiseInvestment(args: {
   for (const rep of replacements) npv -= rep.costGbp / (1 + r) ** rep.year;
   const simple = simplePaybackYears(c0, s);
   if (replacements.length === 0)
-    return { simplePaybackYears: simple, discountedPaybackYears: discountedPaybackYears({ capitalGbp: c0, annualSavingGbp: s, rate: r }), npvGbp: npv };
+    return {
+      simplePaybackYears: simple,
+      discountedPaybackYears: discountedPaybackYears({ capitalGbp: c0, annualSavingGbp: s, rate: r }),
+      npvGbp: npv,
+    };
   let cumulative = -c0;
   let dpb: number | null = cumulative >= 0 ? 0 : null;
   for (let year = 1; dpb === null && year <= 1000; year++) {

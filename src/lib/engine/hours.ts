@@ -118,7 +118,13 @@ export function schoolYearHours(args: {
         const mu = hourlyMeanTempC(mean, range, s.hour);
         const w = daysPerMonth * s.weightH;
         degreeHours +=
-          w * expectedDegreeHoursK({ meanTempC: mu, sdK: sd, indoorTempC: args.indoorTempC, cutoffTempC: args.cutoffTempC });
+          w *
+          expectedDegreeHoursK({
+            meanTempC: mu,
+            sdK: sd,
+            indoorTempC: args.indoorTempC,
+            cutoffTempC: args.cutoffTempC,
+          });
         heatingHours += w * heatingShare(mu, sd, Math.min(args.cutoffTempC, args.indoorTempC));
         tempHours += s.weightH * mu;
       }

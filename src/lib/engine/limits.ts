@@ -116,7 +116,9 @@ export const MAX_GLAZING_PER_FLOOR_AREA = 3;
 export function rangeWords(limit: FieldLimit): string {
   const n = (x: number) => x.toLocaleString('en-GB', { maximumFractionDigits: 3 });
   const unit = limit.unit && !limit.unit.includes(' ') ? ` ${limit.unit}` : '';
-  return limit.min === limit.max ? `exactly ${n(limit.min)}${unit}` : `between ${n(limit.min)} and ${n(limit.max)}${unit}`;
+  return limit.min === limit.max
+    ? `exactly ${n(limit.min)}${unit}`
+    : `between ${n(limit.min)} and ${n(limit.max)}${unit}`;
 }
 
 /** The message people read when a value is outside its range. */

@@ -56,7 +56,8 @@ const preparedCache = new WeakMap<AssumptionSet, Prepared>();
 
 /** Checks a school's timetable as the set's own is checked: ordered, back to back, within the day. */
 export function validateTimetable(field: string, timetable: readonly TimetableSegment[]): void {
-  if (!Array.isArray(timetable) || timetable.length === 0) throw new EngineInputError(field, 'needs at least one period');
+  if (!Array.isArray(timetable) || timetable.length === 0)
+    throw new EngineInputError(field, 'needs at least one period');
   timetable.forEach((seg, i) => {
     if (!(seg.startMinute >= 0 && seg.endMinute <= 1440 && seg.endMinute > seg.startMinute))
       throw new EngineInputError(`${field}.${i}`, 'must start and end within the day, end after start');
@@ -64,7 +65,10 @@ export function validateTimetable(field: string, timetable: readonly TimetableSe
       throw new EngineInputError(`${field}.${i}.occupancyFraction`, 'must be between 0 and 1');
     const prev = timetable[i - 1];
     if (prev && prev.endMinute !== seg.startMinute)
-      throw new EngineInputError(`${field}.${i}.startMinute`, `must start when the previous period ends (${prev.endMinute})`);
+      throw new EngineInputError(
+        `${field}.${i}.startMinute`,
+        `must start when the previous period ends (${prev.endMinute})`,
+      );
   });
 }
 
@@ -109,7 +113,10 @@ export function prepare(given: AssumptionSet): Prepared {
     generation: new Map(),
     unitChoices: new Map(),
     thresholds: new Map(),
-    windowShares: { occupied: seasonRecord(set, 'windowOpenFractionOccupied'), empty: seasonRecord(set, 'windowOpenFractionEmpty') },
+    windowShares: {
+      occupied: seasonRecord(set, 'windowOpenFractionOccupied'),
+      empty: seasonRecord(set, 'windowOpenFractionEmpty'),
+    },
   };
   preparedCache.set(given, prepared);
   return prepared;
@@ -201,10 +208,7 @@ export type ReportedChoice = UnitChoice & {
 
 /** The cheapest catalogue units for a whole-l/s supply, cached (the catalogue and limits are fixed per set);
  *  `lines` and `models` are the choice as a result reports it. */
-export function unitsFor(
-  p: Prepared,
-  requiredSupplyLps: number,
-): ReportedChoice | null {
+export function unitsFor(p: Prepared, requiredSupplyLps: number): ReportedChoice | null {
   let choice = p.unitChoices.get(requiredSupplyLps);
   if (choice === undefined) {
     const chosen = chooseUnits({

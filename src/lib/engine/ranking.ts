@@ -29,7 +29,7 @@ export function toRankInput(roomId: string, assessment: RoomAssessment): RankInp
     criteriaMet: assessment.criteriaMet,
     hasRetrofit: has,
     pupilHoursRemovedPer1000Gbp: has ? r.pupilHoursRemovedPer1000Gbp : null,
-    simplePaybackYears: has ? r.baselines[r.headline]?.simplePaybackYears ?? null : null,
+    simplePaybackYears: has ? (r.baselines[r.headline]?.simplePaybackYears ?? null) : null,
     capitalCostGbp: has ? r.capitalCostGbp : null,
   };
 }
@@ -137,10 +137,7 @@ function reasonFor(r: RankInput, rank: number, n: number, heaviest: string): str
       r.pupilHoursRemovedPer1000Gbp === null
         ? ''
         : `${formatInt(r.pupilHoursRemovedPer1000Gbp)} pupil-hours of poor air removed per £1,000`;
-    const pb =
-      r.simplePaybackYears === null
-        ? 'no payback'
-        : `payback ${formatOneDecimal(r.simplePaybackYears)} years`;
+    const pb = r.simplePaybackYears === null ? 'no payback' : `payback ${formatOneDecimal(r.simplePaybackYears)} years`;
     retrofit = ce ? `${ce}, ${pb}` : pb;
   }
   return `${ordinal(rank)} of ${n}: ${exposure}; ${retrofit} (weighted most on ${heaviest}).`;

@@ -57,11 +57,14 @@ export function resolveRoom(
   if (room.use === null) note(assumed, 'room.use', use, 'not recorded: assumed a classroom');
   const teaching = set.occupancy.teachingUses.value.includes(use);
   const ceilingHeightM = room.ceilingHeightM ?? d.ceilingHeightM;
-  if (room.ceilingHeightM === null) note(assumed, 'room.ceilingHeightM', ceilingHeightM, 'not recorded: typical classroom ceiling');
+  if (room.ceilingHeightM === null)
+    note(assumed, 'room.ceilingHeightM', ceilingHeightM, 'not recorded: typical classroom ceiling');
   let pupils = room.pupils;
   if (pupils === null) {
     pupils = teaching ? Math.max(1, Math.floor(room.floorAreaM2 / d.floorAreaPerPupilM2)) : 0;
-    note(assumed, 'room.pupils',
+    note(
+      assumed,
+      'room.pupils',
       pupils,
       teaching
         ? 'not recorded: the default floor area a pupil'
@@ -80,14 +83,13 @@ export function resolveRoom(
     note(assumed, 'room.glazingAreaM2', glazingAreaM2, 'not recorded: the default share of the floor');
   const openableAreaM2 = room.openableAreaM2 ?? glazingAreaM2 * d.openableShareOfGlazing;
   if (room.openableAreaM2 === null)
-    note(assumed, 'room.openableAreaM2',
-      openableAreaM2,
-      'not recorded: the default share of the glazing opens',
-    );
+    note(assumed, 'room.openableAreaM2', openableAreaM2, 'not recorded: the default share of the glazing opens');
   const windowType = room.windowType ?? d.windowType;
-  if (room.windowType === null) note(assumed, 'room.windowType', windowType, 'not recorded: the commonest classroom window');
+  if (room.windowType === null)
+    note(assumed, 'room.windowType', windowType, 'not recorded: the commonest classroom window');
   const glazingGValue = room.glazingGValue ?? d.glazingGValue;
-  if (room.glazingGValue === null) note(assumed, 'room.glazingGValue', glazingGValue, 'not recorded: typical double glazing');
+  if (room.glazingGValue === null)
+    note(assumed, 'room.glazingGValue', glazingGValue, 'not recorded: typical double glazing');
   const ventilationType = room.ventilationType ?? d.ventilationType;
   if (room.ventilationType === null)
     note(assumed, 'room.ventilationType', ventilationType, 'not recorded: windows on one side');

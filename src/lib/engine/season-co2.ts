@@ -71,7 +71,11 @@ export function assessSeasonDay(args: {
       generationLps: args.generationLps,
       steadyStateCo2Ppm:
         totalLps > 0
-          ? steadyStateCo2Ppm({ outdoorCo2Ppm: args.outdoorCo2Ppm, generationLps: args.generationLps, flowLps: totalLps })
+          ? steadyStateCo2Ppm({
+              outdoorCo2Ppm: args.outdoorCo2Ppm,
+              generationLps: args.generationLps,
+              flowLps: totalLps,
+            })
           : Number.MAX_VALUE,
       occupiedMeanCo2Ppm: day.meanPpm,
       peakCo2Ppm: day.peakPpm,

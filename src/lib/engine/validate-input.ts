@@ -64,7 +64,10 @@ export function validateRoomInput(input: RoomAssessmentInput): void {
   if (room.glazingAreaM2 !== null && room.glazingAreaM2 > MAX_GLAZING_PER_FLOOR_AREA * room.floorAreaM2)
     throw new EngineInputError('room.glazingAreaM2', `must be at most ${MAX_GLAZING_PER_FLOOR_AREA} × the floor area`);
   nullable('room.openableAreaM2', room.openableAreaM2, L.openableAreaM2);
-  if (room.openableAreaM2 !== null && room.openableAreaM2 > (room.glazingAreaM2 ?? MAX_GLAZING_PER_FLOOR_AREA * room.floorAreaM2))
+  if (
+    room.openableAreaM2 !== null &&
+    room.openableAreaM2 > (room.glazingAreaM2 ?? MAX_GLAZING_PER_FLOOR_AREA * room.floorAreaM2)
+  )
     throw new EngineInputError('room.openableAreaM2', 'must be at most the glazing area');
   nullableOneOf('room.windowType', room.windowType, WINDOW_TYPES);
   nullableOneOf('room.frameMaterial', room.frameMaterial, FRAME_MATERIALS);

@@ -21,7 +21,9 @@ export interface SeasonFlows {
 }
 
 /** Outdoor air of the non-window routes: Q_bal + √(Q_unbal² + Q_inf²), L/s (ASHRAE Fundamentals ch. 16). */
-export function fanAndInfiltrationLps(flows: Pick<SeasonFlows, 'balancedLps' | 'unbalancedLps' | 'infiltrationLps'>): number {
+export function fanAndInfiltrationLps(
+  flows: Pick<SeasonFlows, 'balancedLps' | 'unbalancedLps' | 'infiltrationLps'>,
+): number {
   const u = flows.unbalancedLps;
   const i = flows.infiltrationLps;
   return flows.balancedLps + (u === 0 ? i : Math.sqrt(u * u + i * i));
@@ -40,9 +42,7 @@ export function lowestTotalLps(flows: SeasonFlows): number {
 /** Time-weighted mean outdoor-air flow over the school day, L/s; `occupiedShare` the share of minutes with pupils in. */
 export function meanDayFlowLps(occupiedShare: number, flows: SeasonFlows): number {
   return (
-    fanAndInfiltrationLps(flows) +
-    occupiedShare * flows.windowOccupiedLps +
-    (1 - occupiedShare) * flows.windowEmptyLps
+    fanAndInfiltrationLps(flows) + occupiedShare * flows.windowOccupiedLps + (1 - occupiedShare) * flows.windowEmptyLps
   );
 }
 

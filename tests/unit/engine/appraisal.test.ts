@@ -67,7 +67,9 @@ describe('appraisal against the same air without heat recovery (baseline b)', ()
     expect(Math.abs((b?.annualNetSavingGbp ?? 0) - 400.66)).toBeLessThanOrEqual(0.01);
     expect(Math.abs((b?.simplePaybackYears ?? 0) - 18.719)).toBeLessThanOrEqual(0.01);
     expect(b?.verdict).toBe('saves_slowly');
-    expect(baselineWords(b!, 15)).toMatch(/^Against the same air without heat recovery, the units save about £401 a year after fans and servicing/);
+    expect(baselineWords(b!, 15)).toMatch(
+      /^Against the same air without heat recovery, the units save about £401 a year after fans and servicing/,
+    );
   });
 
   it('pays back within the period when the room is heated electrically (price £0.25, efficiency 1)', () => {
@@ -85,7 +87,7 @@ describe('appraisal against the same air without heat recovery (baseline b)', ()
 });
 
 describe('defects the independent check found', () => {
-  it("de Gids & Phaff take the 10 m meteorological wind, not the site-corrected wind (de Gids & Phaff 1982)", () => {
+  it('de Gids & Phaff take the 10 m meteorological wind, not the site-corrected wind (de Gids & Phaff 1982)', () => {
     const set = structuredClone(DEFAULT_ASSUMPTIONS);
     set.windows.method.value = 'de_gids_phaff';
     const input = typicalClassroom();
@@ -121,7 +123,10 @@ describe('defects the independent check found', () => {
     const h = assessRoom(input, DEFAULT_ASSUMPTIONS).heating;
     expect(h).toMatchObject({ fuel: 'electric', priceGbpPerKwh: 0.25, priceSource: 'trust', efficiency: 1 });
     input.block.fuelPriceGbpPerKwh = 0.21;
-    expect(assessRoom(input, DEFAULT_ASSUMPTIONS).heating).toMatchObject({ priceGbpPerKwh: 0.21, priceSource: 'block' });
+    expect(assessRoom(input, DEFAULT_ASSUMPTIONS).heating).toMatchObject({
+      priceGbpPerKwh: 0.21,
+      priceSource: 'block',
+    });
   });
 
   it('says "better air costs energy" only when the units bring more air and cost more; less air is said as less', () => {
@@ -156,7 +161,9 @@ describe('defects the independent check found', () => {
     input.room.ventilationType = null;
     const a = assessRoom(input, DEFAULT_ASSUMPTIONS);
     const fields = a.assumed.map((x) => x.field);
-    expect(fields).toEqual(expect.arrayContaining(['room.pupils', 'room.glazingAreaM2', 'room.openableAreaM2', 'room.ventilationType']));
+    expect(fields).toEqual(
+      expect.arrayContaining(['room.pupils', 'room.glazingAreaM2', 'room.openableAreaM2', 'room.ventilationType']),
+    );
     // 56 m² ÷ 2 m² a pupil = 28 pupils (defaults.room.floorAreaPerPupilM2).
     expect(a.pupils).toBe(28);
   });

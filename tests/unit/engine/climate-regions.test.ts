@@ -1,13 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { CLIMATE_REGION_DATA } from '~/lib/engine/climate-regions';
 import { DEFAULT_ASSUMPTIONS } from '~/lib/engine/assumptions';
-import {
-  expectedDegreeHoursK,
-  hourlyMeanTempC,
-  normalCdf,
-  schoolDayHours,
-  schoolYearHours,
-} from '~/lib/engine/hours';
+import { expectedDegreeHoursK, hourlyMeanTempC, normalCdf, schoolDayHours, schoolYearHours } from '~/lib/engine/hours';
 import type { ClimateRegionData, Season, SeasonProfile, TimetableSegment } from '~/lib/engine/types';
 
 const flat = (t: number): ClimateRegionData => ({
@@ -20,9 +14,27 @@ const flat = (t: number): ClimateRegionData => ({
 const zeros = Array.from({ length: 12 }, () => 0);
 
 const seasons: Record<Season, SeasonProfile> = {
-  winter: { months: [12, 1, 2], schoolDays: 60, indoorTempC: 20, windowOpenFractionOccupied: 0.1, windowOpenFractionEmpty: 0.1 },
-  mid: { months: [3, 4, 10, 11], schoolDays: 60, indoorTempC: 20, windowOpenFractionOccupied: 0.3, windowOpenFractionEmpty: 0.3 },
-  summer: { months: [5, 6, 7, 9], schoolDays: 70, indoorTempC: 22, windowOpenFractionOccupied: 0.7, windowOpenFractionEmpty: 0.7 },
+  winter: {
+    months: [12, 1, 2],
+    schoolDays: 60,
+    indoorTempC: 20,
+    windowOpenFractionOccupied: 0.1,
+    windowOpenFractionEmpty: 0.1,
+  },
+  mid: {
+    months: [3, 4, 10, 11],
+    schoolDays: 60,
+    indoorTempC: 20,
+    windowOpenFractionOccupied: 0.3,
+    windowOpenFractionEmpty: 0.3,
+  },
+  summer: {
+    months: [5, 6, 7, 9],
+    schoolDays: 70,
+    indoorTempC: 22,
+    windowOpenFractionOccupied: 0.7,
+    windowOpenFractionEmpty: 0.7,
+  },
 };
 const sevenHours: TimetableSegment[] = [
   { label: 'day', kind: 'lesson', startMinute: 540, endMinute: 960, occupancyFraction: 1 },
@@ -69,7 +81,11 @@ describe('occupied heating degree-hours from hourly temperatures (CIBSE TM41 deg
 
   it('counts cold days of a mild month when days scatter: the closed form equals a numerical integral over N(μ, σ)', () => {
     // μ 15 °C, σ 3 K, θ_i 20, θ_c 14: E[(20 − T)·1(T < 14)] by direct integration of (20 − t)·φ((t − 15)/3)/3 over t < 14.
-    const numeric = integrate((t) => ((20 - t) * Math.exp(-0.5 * ((t - 15) / 3) ** 2)) / (3 * Math.sqrt(2 * Math.PI)), -25, 14);
+    const numeric = integrate(
+      (t) => ((20 - t) * Math.exp(-0.5 * ((t - 15) / 3) ** 2)) / (3 * Math.sqrt(2 * Math.PI)),
+      -25,
+      14,
+    );
     const closed = expectedDegreeHoursK({ meanTempC: 15, sdK: 3, indoorTempC: 20, cutoffTempC: 14 });
     expect(Math.abs(closed - numeric)).toBeLessThanOrEqual(1e-4);
     expect(closed).toBeGreaterThan(0);

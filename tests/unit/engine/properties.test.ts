@@ -19,7 +19,8 @@ import {
 const num = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });
 
 /** An efficiency that fits the fuel (limits.ts): boilers 0.3–1, direct electric 1, heat pumps a seasonal COP 1–6. */
-const efficiencyFor = (fuel: string, x: number) => (fuel === 'electric' ? 1 : fuel === 'heat_pump' ? 1 + 5 * x : 0.3 + 0.7 * x);
+const efficiencyFor = (fuel: string, x: number) =>
+  fuel === 'electric' ? 1 : fuel === 'heat_pump' ? 1 + 5 * x : 0.3 + 0.7 * x;
 
 const inputArb: fc.Arbitrary<RoomAssessmentInput> = fc
   .record({
@@ -69,7 +70,8 @@ const inputArb: fc.Arbitrary<RoomAssessmentInput> = fc
     const s = input.school;
     if (s.heatingEfficiency !== null) s.heatingEfficiency = efficiencyFor(s.heatingFuel, s.heatingEfficiency);
     const b = input.block;
-    if (b.heatingEfficiency !== null) b.heatingEfficiency = efficiencyFor(b.heatingFuel ?? s.heatingFuel, b.heatingEfficiency);
+    if (b.heatingEfficiency !== null)
+      b.heatingEfficiency = efficiencyFor(b.heatingFuel ?? s.heatingFuel, b.heatingEfficiency);
     return input;
   });
 
@@ -95,7 +97,10 @@ describe('engine properties', () => {
         const a = run(input);
         const more = structuredClone(input);
         // Within the densest a room can be (limits.ts: one person a 0.5 m²).
-        more.room.pupils = Math.min(a.pupils + extra, Math.floor(input.room.floorAreaM2 / 0.5) - a.occupants + a.pupils);
+        more.room.pupils = Math.min(
+          a.pupils + extra,
+          Math.floor(input.room.floorAreaM2 / 0.5) - a.occupants + a.pupils,
+        );
         const b = run(more);
         for (const s of SEASONS) {
           expect(notAbove(a.seasons[s].occupiedMeanCo2Ppm, b.seasons[s].occupiedMeanCo2Ppm)).toBe(true);
@@ -186,7 +191,10 @@ describe('engine properties', () => {
       ['room.pupils', (i, x) => (i.room.pupils = -1 - x)],
       ['room.adults', (i, x) => (i.room.adults = 60 + x)],
       ['room.glazingAreaM2', (i, x) => (i.room.glazingAreaM2 = -0.1 - x)],
-      ['room.openableAreaM2', (i, x) => (i.room.openableAreaM2 = (i.room.glazingAreaM2 ?? 3 * i.room.floorAreaM2) + 1 + x)],
+      [
+        'room.openableAreaM2',
+        (i, x) => (i.room.openableAreaM2 = (i.room.glazingAreaM2 ?? 3 * i.room.floorAreaM2) + 1 + x),
+      ],
       ['room.glazingGValue', (i, x) => (i.room.glazingGValue = 1 + x)],
       ['room.mechanicalSupplyLps', (i, x) => (i.room.mechanicalSupplyLps = -1 - x)],
       ['block.yearBuilt', (i, x) => (i.block.yearBuilt = 1000 - x)],

@@ -97,7 +97,12 @@ describe('money, energy and carbon of the units (worked examples 5–7 chained, 
   const fuel = fuelForHeatKwh({ heatKwh: recovered, efficiency: 0.85 });
   const fan = fanEnergyKwh({ specificFanPowerWPerLps: 1.2, flowLps: 250, runHours: 1330 });
   const saving = fuel * 0.07 - fan * 0.25;
-  const carbon = netCarbonSavingKg({ fuelSavedKwh: fuel, fuelKgCo2ePerKwh: 0.183, fanKwh: fan, electricityKgCo2ePerKwh: 0.207 });
+  const carbon = netCarbonSavingKg({
+    fuelSavedKwh: fuel,
+    fuelKgCo2ePerKwh: 0.183,
+    fanKwh: fan,
+    electricityKgCo2ePerKwh: 0.207,
+  });
 
   it('recovers 2475 kWh, saves 2911.76 kWh of gas and uses 399 kWh of fan electricity (checks 20–22)', () => {
     expect(Math.abs(loss - 3300)).toBeLessThanOrEqual(0.01);
@@ -114,7 +119,13 @@ describe('money, energy and carbon of the units (worked examples 5–7 chained, 
 
   it('has NPV −£4,801.34 over 15 years at 3.5 % and no discounted payback', () => {
     // Hand: S = 2911.7647·0.07 − 399·0.25 = 104.0735; NPV = −6000 + 104.0735·11.517411 = −4801.34; r·C0/S = 2.02 ≥ 1 → never.
-    const money = appraiseInvestment({ capitalGbp: 6000, annualSavingGbp: saving, replacements: [], rate: 0.035, years: 15 });
+    const money = appraiseInvestment({
+      capitalGbp: 6000,
+      annualSavingGbp: saving,
+      replacements: [],
+      rate: 0.035,
+      years: 15,
+    });
     expect(Math.abs(money.npvGbp - -4801.34)).toBeLessThanOrEqual(0.05);
     expect(money.discountedPaybackYears).toBeNull();
   });

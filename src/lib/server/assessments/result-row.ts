@@ -57,7 +57,9 @@ export function describeUnits(assessment: RoomAssessment): string {
   const a = assessment.appraisal;
   if (!a) return '';
   if (!a.feasible)
-    return a.requiredSupplyLps > 0 ? `None: no catalogue combination reaches ${Math.round(a.requiredSupplyLps)} l/s` : '';
+    return a.requiredSupplyLps > 0
+      ? `None: no catalogue combination reaches ${Math.round(a.requiredSupplyLps)} l/s`
+      : '';
   return a.unitModels;
 }
 

@@ -205,7 +205,7 @@ async function writeBook(
           round(r.npv_gbp),
           guardText(r.units_recommended),
           r.baseline ? label(r.baseline) : '',
-          r.verdict ? VERDICT_WORDS[r.verdict as keyof typeof VERDICT_WORDS] ?? r.verdict : '',
+          r.verdict ? (VERDICT_WORDS[r.verdict as keyof typeof VERDICT_WORDS] ?? r.verdict) : '',
           round(r.annual_heating_saving_kwh),
           round(r.annual_fan_saving_kwh),
           round(r.annual_maintenance_saving_gbp),

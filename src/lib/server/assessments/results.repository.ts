@@ -163,7 +163,9 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
       trx,
     );
     // Applied in the order the rows were written, so the heap and indexes are walked forward.
-    await sql`UPDATE room_results SET is_current = true WHERE run_id = ${input.runId}::uuid AND NOT is_current`.execute(trx);
+    await sql`UPDATE room_results SET is_current = true WHERE run_id = ${input.runId}::uuid AND NOT is_current`.execute(
+      trx,
+    );
 
     await trx
       .updateTable('assessment_runs')

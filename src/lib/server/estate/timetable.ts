@@ -49,7 +49,9 @@ export const TimetableTextSchema = z
         return z.NEVER;
       }
       segments.push({
-        label: (m[6] ?? '').trim() || (kind === 'lesson' ? `Lesson ${segments.filter((s) => s.kind === 'lesson').length + 1}` : kind),
+        label:
+          (m[6] ?? '').trim() ||
+          (kind === 'lesson' ? `Lesson ${segments.filter((s) => s.kind === 'lesson').length + 1}` : kind),
         kind,
         startMinute: start,
         endMinute: end,
@@ -77,5 +79,7 @@ export function parseStoredTimetable(value: unknown): readonly TimetableSegment[
 /** Segments → the editor's lines. */
 export function timetableText(segments: readonly TimetableSegment[] | null): string {
   if (!segments) return '';
-  return segments.map((s) => `${toClock(s.startMinute)}-${toClock(s.endMinute)} ${s.kind} ${s.label}`.trim()).join('\n');
+  return segments
+    .map((s) => `${toClock(s.startMinute)}-${toClock(s.endMinute)} ${s.kind} ${s.label}`.trim())
+    .join('\n');
 }

@@ -23,7 +23,14 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     : sql`s.trust_id = ${trust.id}`;
   const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
   const [headline, register, lastRun] = await Promise.all([
-    sql<{ assessed: number; failing: number; pupils_failing: number; capital: number; saving: number; baseline: string | null }>`
+    sql<{
+      assessed: number;
+      failing: number;
+      pupils_failing: number;
+      capital: number;
+      saving: number;
+      baseline: string | null;
+    }>`
       SELECT count(*)::int AS assessed, mode() WITHIN GROUP (ORDER BY rr.baseline) AS baseline,
         count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
         coalesce(sum(rr.pupils) FILTER (WHERE NOT rr.criteria_met), 0)::int AS pupils_failing,

@@ -43,10 +43,7 @@ export function filterSql(trust: ActiveTrust, filter: PriorityFilter) {
  * rows with the places the engine's rule gives under preview weights. Either way a room's rank is its place in
  * the whole trust, computed by the one ranking rule.
  */
-export function rankedSource(
-  trust: ActiveTrust,
-  preview: { ids: string[]; ranks: number[]; scores: number[] } | null,
-) {
+export function rankedSource(trust: ActiveTrust, preview: { ids: string[]; ranks: number[]; scores: number[] } | null) {
   if (!preview) return sql`portfolio_ranks pr`;
   return sql`(
       SELECT p.*, v.rank AS preview_rank, v.score AS preview_score

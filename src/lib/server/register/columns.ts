@@ -191,7 +191,8 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
       'occupancy',
       'design occupancy',
     ],
-    guide: 'How many pupils the room is designed for (a whole number). Leave blank if not known: Airtally assumes a number from the floor area and says so.',
+    guide:
+      'How many pupils the room is designed for (a whole number). Leave blank if not known: Airtally assumes a number from the floor area and says so.',
   },
   {
     field: 'adults',
@@ -288,7 +289,8 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
       'supply air flow',
       'supply',
     ],
-    guide: 'Fresh air supplied by fans, in litres per second, if the room has a mechanical system. Leave blank if not known.',
+    guide:
+      'Fresh air supplied by fans, in litres per second, if the room has a mechanical system. Leave blank if not known.',
   },
   {
     field: 'airPermeabilityM3hM2',
@@ -394,7 +396,8 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     width: 22,
     numFmt: '0.00',
     synonyms: ['block heating efficiency', 'building heating efficiency', 'block boiler efficiency'],
-    guide: "Seasonal efficiency of the block's own heating (heat pumps: seasonal COP). Blank: the school's, else the trust's.",
+    guide:
+      "Seasonal efficiency of the block's own heating (heat pumps: seasonal COP). Blank: the school's, else the trust's.",
   },
   {
     field: 'notes',

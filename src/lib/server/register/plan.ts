@@ -77,7 +77,12 @@ export interface RoomWrite {
 
 /** Everything a commit would do, and the counts the preview shows. */
 export interface ImportPlan {
-  newSchools: ({ key: string; name: string; phase: SchoolPhase; climateRegion: ClimateRegion } & Partial<SchoolHeating>)[];
+  newSchools: ({
+    key: string;
+    name: string;
+    phase: SchoolPhase;
+    climateRegion: ClimateRegion;
+  } & Partial<SchoolHeating>)[];
   newBlocks: ({
     key: string;
     school: Ref;

@@ -180,7 +180,10 @@ const BLOCK_IMPORT_COLUMNS = {
 } as const;
 
 /** A change's fields as table columns (fields without a column are ignored). */
-function columnsOf(after: Record<string, string | number | null>, columns: Record<string, string>): Record<string, never> {
+function columnsOf(
+  after: Record<string, string | number | null>,
+  columns: Record<string, string>,
+): Record<string, never> {
   const out: Record<string, unknown> = {};
   for (const [field, value] of Object.entries(after)) {
     const column = columns[field];

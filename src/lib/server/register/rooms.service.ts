@@ -273,7 +273,8 @@ export async function updateSchool(
     if (patch.heatingFuel !== undefined) set.heating_fuel = patch.heatingFuel;
     if (patch.fuelPriceGbpPerKwh !== undefined) set.fuel_price_gbp_per_kwh = patch.fuelPriceGbpPerKwh;
     if (patch.heatingEfficiency !== undefined) set.heating_efficiency = patch.heatingEfficiency;
-    if (patch.timetable !== undefined) set.timetable = patch.timetable === null ? null : JSON.stringify(patch.timetable);
+    if (patch.timetable !== undefined)
+      set.timetable = patch.timetable === null ? null : JSON.stringify(patch.timetable);
     const problem = efficiencyProblem(
       (set.heating_fuel as string | undefined) ?? school.heating_fuel,
       patch.heatingEfficiency !== undefined ? patch.heatingEfficiency : school.heating_efficiency,
