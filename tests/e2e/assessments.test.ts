@@ -59,11 +59,11 @@ describe('assessments pages in Chromium', () => {
     const room = await db
       .selectFrom('room_results')
       .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
-      .select(['rooms.id', 'rooms.pupils'])
+      .select(['rooms.id', 'room_results.pupils'])
       .where('room_results.trust_id', '=', DEMO_TRUST.id)
       .where('room_results.is_current', '=', true)
       .where('room_results.unit_count', '>', 0)
-      .orderBy('room_results.rank')
+      .orderBy('room_results.risk_score', 'desc')
       .limit(1)
       .executeTakeFirstOrThrow();
     const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);
@@ -79,6 +79,11 @@ describe('assessments pages in Chromium', () => {
     expect((await page.locator('[data-testid="risk-reason"]').textContent())!.length).toBeGreaterThan(20);
     await expect(page.locator('[data-testid="units-recommended"]').textContent()).resolves.toMatch(/\d+ × /);
     await expect(page.locator('[data-testid="comparison-today"]').isVisible()).resolves.toBe(true);
+    // Every baseline is named, with its lines; the windows the model assumed are shown.
+    await expect(page.locator('[data-testid="baselines"]').textContent()).resolves.toMatch(/today's operation/);
+    await expect(page.locator('[data-testid="baselines"]').textContent()).resolves.toMatch(/the same air without heat recovery/);
+    await expect(page.locator('[data-testid="heating-used"]').textContent()).resolves.toMatch(/£0\.\d{3}\/kWh/);
+    await expect(page.locator('[data-testid="window-assumptions"]').textContent()).resolves.toMatch(/Winter/);
     await expect(page.getByRole('note', { name: 'Caution' }).first().textContent()).resolves.toMatch(
       /Screening estimates, not a design/,
     );

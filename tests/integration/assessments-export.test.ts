@@ -91,12 +91,14 @@ describe('results export (.xlsx)', () => {
     expect(ranks).toEqual(Array.from({ length: current.n }, (_, i) => i + 1));
     // Rank 1 matches the database's rank-1 row.
     const top = await db
-      .selectFrom('room_results')
+      .selectFrom('portfolio_ranks')
+      .innerJoin('room_results', (j) =>
+        j.onRef('room_results.room_id', '=', 'portfolio_ranks.room_id').on('room_results.is_current', '=', true),
+      )
       .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
       .select(['rooms.code', 'room_results.mean_co2_ppm'])
-      .where('room_results.trust_id', '=', DEMO_TRUST.id)
-      .where('is_current', '=', true)
-      .where('rank', '=', 1)
+      .where('portfolio_ranks.trust_id', '=', DEMO_TRUST.id)
+      .where('portfolio_ranks.rank', '=', 1)
       .executeTakeFirstOrThrow();
     const first = results.getRow(2);
     expect(String(first.getCell(4).value).replace(/^'/, '')).toBe(top.code);

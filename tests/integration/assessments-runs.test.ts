@@ -39,10 +39,21 @@ async function startRun(cookie: string, body: unknown): Promise<string> {
 const currentRows = () =>
   db
     .selectFrom('room_results')
-    .select(['run_id', 'room_id', 'school_id', 'rank', 'risk_band', 'score_risk'])
+    .select(['run_id', 'room_id', 'school_id', 'risk_band', 'baseline', 'heating_fuel', 'fuel_price_gbp_per_kwh'])
     .where('trust_id', '=', DEMO_TRUST.id)
     .where('is_current', '=', true)
     .execute();
+
+/** The trust's ranks as every page reads them (portfolio_ranks, rebuilt on the first read after a run). */
+async function ranksNow(cookie: string) {
+  const response = await api('/api/priorities?pageSize=1', { cookie });
+  expect(response.status).toBe(200);
+  return db
+    .selectFrom('portfolio_ranks')
+    .select(['room_id', 'rank', 'score_risk'])
+    .where('trust_id', '=', DEMO_TRUST.id)
+    .execute();
+}
 
 describe('assessment runs API', () => {
   let estates: string;
@@ -72,14 +83,20 @@ describe('assessment runs API', () => {
     expect(current.length).toBe(written.n);
     expect(new Set(current.map((r) => r.run_id))).toEqual(new Set([id]));
     // Ranks are 1..n without gaps or repeats; bands 1–4; component scores 0–1.
-    expect(current.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(
+    const ranks = await ranksNow(estates);
+    expect(ranks.map((r) => r.rank).sort((a, b) => a - b)).toEqual(
       Array.from({ length: current.length }, (_, i) => i + 1),
     );
     for (const row of current) {
       expect(row.risk_band).toBeGreaterThanOrEqual(1);
       expect(row.risk_band).toBeLessThanOrEqual(4);
-      expect(row.score_risk).toBeGreaterThanOrEqual(0);
-      expect(row.score_risk).toBeLessThanOrEqual(1);
+      // Every result records the fuel and price its figures used.
+      expect(row.heating_fuel).not.toBeNull();
+      expect(row.fuel_price_gbp_per_kwh).toBeGreaterThan(0);
+    }
+    for (const r of ranks) {
+      expect(r.score_risk).toBeGreaterThanOrEqual(0);
+      expect(r.score_risk).toBeLessThanOrEqual(1);
     }
   });
 
@@ -106,8 +123,8 @@ describe('assessment runs API', () => {
     expect(row.ventilation_type).toBe(row.room_vent);
     expect(row.units_recommended).toMatch(/^\d+ × .+/);
     expect(row.reason.length).toBeGreaterThan(10);
-    const detail = row.detail as { seasons: Record<string, { curve: unknown[] }>; retrofit: unknown };
-    expect(detail.retrofit).not.toBeNull();
+    const detail = row.detail as { seasons: Record<string, { curve: unknown[] }>; appraisal: unknown };
+    expect(detail.appraisal).not.toBeNull();
     for (const season of Object.values(detail.seasons)) expect(season.curve).toEqual([]);
   });
 
@@ -129,9 +146,8 @@ describe('assessment runs API', () => {
       if (row.school_id === school.id) expect(row.run_id).toBe(id);
       else expect(row.run_id).not.toBe(id);
     }
-    expect(after.map((r) => r.rank).sort((a, b) => a! - b!)).toEqual(
-      Array.from({ length: after.length }, (_, i) => i + 1),
-    );
+    const ranks = await ranksNow(estates);
+    expect(ranks.map((r) => r.rank).sort((a, b) => a - b)).toEqual(Array.from({ length: after.length }, (_, i) => i + 1));
   });
 
   it('lists recent runs newest first', async () => {

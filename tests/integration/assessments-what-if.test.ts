@@ -38,7 +38,7 @@ const snapshot = async () => {
 
 describe('what-if on a room', () => {
   let viewer: string;
-  let room: { id: string; pupils: number; openable_area_m2: number; glazing_area_m2: number };
+  let room: { id: string; pupils: number | null; openable_area_m2: number | null; glazing_area_m2: number | null };
   beforeAll(async () => {
     viewer = await signIn(DEMO_ACCOUNTS.viewer);
     // A naturally ventilated classroom with pupils and some openable window.
@@ -64,10 +64,10 @@ describe('what-if on a room', () => {
 
   it('answers a viewer without writing anything', async () => {
     const before = await snapshot();
-    const response = await ask({ pupils: room.pupils + 10 });
+    const response = await ask({ pupils: (room.pupils ?? 0) + 10 });
     expect(response.status).toBe(200);
     const answer = (await response.json()) as Answer;
-    expect(answer.changes).toEqual([`Pupils ${room.pupils} → ${room.pupils + 10}`]);
+    expect(answer.changes).toEqual([`Pupils ${room.pupils} → ${(room.pupils ?? 0) + 10}`]);
     expect(await snapshot()).toEqual(before);
     // More pupils in the same room: more occupants and never less CO2.
     expect(answer.whatIf.occupants).toBe(answer.current.occupants + 10);
@@ -105,7 +105,7 @@ describe('what-if on a room', () => {
     expect(unknown.status).toBe(400);
     expect(((await unknown.json()) as { error: { message: string } }).error.message).toMatch(/no-such-unit/);
     expect((await ask({})).status).toBe(400);
-    const window = await ask({ openableAreaM2: room.glazing_area_m2 + 5 });
+    const window = await ask({ openableAreaM2: (room.glazing_area_m2 ?? 0) + 5 });
     expect(window.status).toBe(400);
     expect(((await window.json()) as { error: { message: string } }).error.message).toMatch(/glazing/);
   });

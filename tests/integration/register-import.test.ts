@@ -243,7 +243,7 @@ describe('importing a register through the API', () => {
         await api(`/api/rooms/${room.id}`, {
           method: 'PATCH',
           cookie: admin.cookie,
-          body: JSON.stringify({ adults: room.adults + 1 }),
+          body: JSON.stringify({ adults: (room.adults ?? 0) + 1 }),
         })
       ).status,
     ).toBe(200);
