@@ -105,6 +105,29 @@ describe('results export (.xlsx)', () => {
     expect(first.getCell(6).value).toBe(Math.round(top.mean_co2_ppm));
   });
 
+  it('gives a finance lead columns to sum: a count of units, the models apart, £ formats and the baseline named', async () => {
+    const book = await download(estates);
+    const results = book.getWorksheet('Results')!;
+    const header = rowValues(results.getRow(1)) as string[];
+    const col = (name: string) => header.indexOf(name) + 1;
+    expect(col('Unit models')).toBeGreaterThan(0);
+    expect(col('Baseline of the money columns')).toBeGreaterThan(0);
+    let withUnits = 0;
+    results.eachRow((row, n) => {
+      if (n === 1) return;
+      const units = row.getCell(col('Units recommended')).value;
+      expect(typeof units).toBe('number');
+      if ((units as number) > 0) {
+        withUnits += 1;
+        expect(String(row.getCell(col('Unit models')).value)).toMatch(/^\d+ × /);
+        expect(String(row.getCell(col('Baseline of the money columns')).value)).toMatch(/heat recovery|today|compliant/);
+        expect(row.getCell(col('Capital cost (GBP)')).numFmt).toMatch(/£/);
+        expect(row.getCell(col('NPV (GBP)')).numFmt).toMatch(/£/);
+      }
+    });
+    expect(withUnits).toBeGreaterThan(0);
+  });
+
   it('writes formula-like text as text with a leading apostrophe', async () => {
     const book = await download(estates);
     const results = book.getWorksheet('Results')!;
@@ -130,10 +153,11 @@ describe('results export (.xlsx)', () => {
     expect(text).toMatch(/competent, licensed engineer/);
     expect(text).toMatch(/Assumptions used: /);
     const outdoor = lines.find((l) => l[0] === 'Outdoor CO2');
-    expect(outdoor?.[1]).toBe(420);
+    // NOAA GML Mauna Loa 2024 annual mean ≈ 424.6 ppm, rounded (from memory).
+    expect(outdoor?.[1]).toBe(425);
     expect(outdoor?.[2]).toBe('ppm');
     expect(String(outdoor?.[3])).toMatch(/NOAA|Mauna Loa/);
-    expect(outdoor?.[4]).toBe('common practice');
+    expect(outdoor?.[4]).toBe('from memory');
     const criteria = lines.find((l) => l[0] === 'CO2 criteria packs');
     expect(criteria?.[6]).toBe('Yes');
   });

@@ -1,17 +1,24 @@
 import type { Kysely } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { limitMessage, ROOM_LIMITS } from '../../src/lib/engine/limits';
 import type { Database, NewRoom } from '../../db/database';
 import { fromDatabaseError } from '../../src/lib/server/http/errors';
 import { testDb } from '../helpers/db';
 
 /** Rooms the schema must refuse, each with the constraint that refuses it. */
 const IMPOSSIBLE_ROOMS: [string, Partial<NewRoom>, string][] = [
-  ['a zero floor area', { floor_area_m2: 0 }, 'rooms_floor_area_positive'],
-  ['a negative floor area', { floor_area_m2: -5 }, 'rooms_floor_area_positive'],
+  ['a zero floor area', { floor_area_m2: 0 }, 'rooms_floor_area_range'],
+  ['a negative floor area', { floor_area_m2: -5 }, 'rooms_floor_area_range'],
+  [
+    '550 people in 2 m³',
+    { floor_area_m2: 1, ceiling_height_m: 2, pupils: 500, adults: 50, glazing_area_m2: 1, openable_area_m2: 0.5 },
+    'rooms_occupant_density',
+  ],
+  ['a winter window opening above 100 %', { winter_window_open_fraction: 1.5 }, 'rooms_winter_window_range'],
   ['a 1.5 m ceiling', { ceiling_height_m: 1.5 }, 'rooms_ceiling_height_range'],
   ['a 14 m ceiling', { ceiling_height_m: 14 }, 'rooms_ceiling_height_range'],
   ['more openable area than glazing', { glazing_area_m2: 4, openable_area_m2: 6 }, 'rooms_openable_within_glazing'],
-  ['negative pupils', { pupils: -1 }, 'rooms_occupancy_not_negative'],
+  ['negative pupils', { pupils: -1 }, 'rooms_pupils_range'],
   ['a bearing of 360°', { orientation_deg: 360 }, 'rooms_orientation_range'],
   ['an unknown ventilation type', { ventilation_type: 'open_door' }, 'rooms_ventilation_known'],
   ['a g-value above 1', { glazing_g_value: 1.4 }, 'rooms_g_value_range'],
@@ -70,6 +77,42 @@ describe('room constraints', () => {
       const appError = fromDatabaseError(error);
       expect(appError?.status).toBe(400);
       expect(appError?.message).not.toMatch(/violates|constraint|stack/i);
+    });
+  }
+
+  // One set of limits: the database's CHECK constraints accept each limit of src/lib/engine/limits.ts at its ends and
+  // refuse just beyond them, with the same words the API and the engine use.
+  const COLUMN_LIMITS: [keyof typeof ROOM_LIMITS, string, string, number][] = [
+    ['floorAreaM2', 'floor_area_m2', 'rooms_floor_area_range', 0.01],
+    ['ceilingHeightM', 'ceiling_height_m', 'rooms_ceiling_height_range', 0.01],
+    ['pupils', 'pupils', 'rooms_pupils_range', 1],
+    ['adults', 'adults', 'rooms_adults_range', 1],
+    ['orientationDeg', 'orientation_deg', 'rooms_orientation_range', 1],
+    ['glazingGValue', 'glazing_g_value', 'rooms_g_value_range', 0.01],
+    ['mechanicalSupplyLps', 'mechanical_supply_lps', 'rooms_mechanical_supply_range', 0.1],
+    ['winterWindowOpenFraction', 'winter_window_open_fraction', 'rooms_winter_window_range', 0.01],
+  ];
+  for (const [field, column, constraint, step] of COLUMN_LIMITS) {
+    it(`holds ${field} to the one declared range (${ROOM_LIMITS[field].min}–${ROOM_LIMITS[field].max})`, async () => {
+      const limit = ROOM_LIMITS[field];
+      // A big room so that occupant density and glazing never get in the way.
+      const room = (value: number) => ({ ...base(), floor_area_m2: 5000, glazing_area_m2: 100, [column]: value });
+      if (field !== 'floorAreaM2') {
+        await db.insertInto('rooms').values(room(limit.min)).execute();
+        await db.insertInto('rooms').values(room(limit.max)).execute();
+      }
+      for (const outside of [limit.min - step, limit.max + step]) {
+        const error = await db
+          .insertInto('rooms')
+          .values(room(outside))
+          .execute()
+          .then(
+            () => null,
+            (e: unknown) => e,
+          );
+        expect(error, `${field} = ${outside}`).toMatchObject({ constraint });
+        expect(fromDatabaseError(error)?.message).toContain(limitMessage(limit).replace(/\.$/, ''));
+      }
     });
   }
 

@@ -17,9 +17,8 @@ interface Raw {
   criteria_met: boolean;
   ventilation_type: string;
   pupil_hours_above: number;
-  score_risk: number;
-  score_cost_effectiveness: number;
-  score_payback: number;
+  risk_score: number;
+  pupil_hours_removed_per_1000_gbp: number | null;
   simple_payback_years: number | null;
   capital_cost_gbp: number | null;
   pupils: number;
@@ -42,11 +41,30 @@ interface Page {
   preview: boolean;
 }
 
-/** The ranking rule, restated: weighted score (weights in proportion), then pupil-hours, then id. */
+/**
+ * The ranking rule, restated here from the stored parts (independently of the app's ranking module): each part
+ * divided by the best room's (risk score ÷ highest; pupil-hours removed per £1,000 ÷ highest; shortest payback ÷
+ * own payback, 1 for a payback of 0, 0 without one), the weighted sum over the sum of the weights, highest first;
+ * ties to more pupil-hours above the threshold, then to the smaller room id.
+ */
 function expectedOrder(rows: Raw[], w: { risk: number; cost: number; payback: number }): string[] {
   const sum = w.risk + w.cost + w.payback;
-  const score = (r: Raw) =>
-    (w.risk / sum) * r.score_risk + (w.cost / sum) * r.score_cost_effectiveness + (w.payback / sum) * r.score_payback;
+  const maxRisk = Math.max(0, ...rows.map((r) => r.risk_score));
+  const ces = rows.map((r) => r.pupil_hours_removed_per_1000_gbp).filter((x): x is number => x !== null);
+  const maxCe = Math.max(0, ...ces);
+  const paybacks = rows.map((r) => r.simple_payback_years).filter((x): x is number => x !== null);
+  const minPb = paybacks.length ? Math.min(...paybacks) : Number.POSITIVE_INFINITY;
+  const parts = (r: Raw) => {
+    const risk = maxRisk > 0 ? r.risk_score / maxRisk : 0;
+    const ce = maxCe > 0 && r.pupil_hours_removed_per_1000_gbp !== null ? r.pupil_hours_removed_per_1000_gbp / maxCe : 0;
+    const pb =
+      r.simple_payback_years === null ? 0 : r.simple_payback_years <= 0 ? 1 : Math.min(1, minPb / r.simple_payback_years);
+    return { risk, ce, pb };
+  };
+  const score = (r: Raw) => {
+    const p = parts(r);
+    return (w.risk * p.risk + w.cost * p.ce + w.payback * p.pb) / sum;
+  };
   return [...rows]
     .sort(
       (a, b) => score(b) - score(a) || b.pupil_hours_above - a.pupil_hours_above || (a.room_id < b.room_id ? -1 : 1),
@@ -94,9 +112,17 @@ describe('portfolio API', () => {
       .where('school_id', '=', fixture.schoolIds[0]!)
       .where('code', '=', 'R00001')
       .execute();
+    // Ties: ten rooms with the same parts and pupil-hours (broken by room id), five more with the same parts but
+    // fewer pupil-hours (broken by pupil-hours).
+    const tied = await sql<{ room_id: string }>`SELECT room_id FROM room_results WHERE trust_id = ${admin.trustId}
+      AND is_current ORDER BY room_id DESC LIMIT 15`.execute(db);
+    const ids = tied.rows.map((r) => r.room_id);
+    await sql`UPDATE room_results SET risk_score = 0.61, pupil_hours_removed_per_1000_gbp = 300, simple_payback_years = 40,
+      pupil_hours_above = CASE WHEN room_id = ANY(${ids.slice(0, 10)}::uuid[]) THEN 2222 ELSE 1111 END
+      WHERE trust_id = ${admin.trustId} AND room_id = ANY(${ids}::uuid[])`.execute(db);
     raw = (
-      await sql<Raw>`SELECT room_id, school_id, block_id, risk_band, criteria_met, ventilation_type, pupil_hours_above, score_risk,
-        score_cost_effectiveness, score_payback, simple_payback_years, capital_cost_gbp, pupils
+      await sql<Raw>`SELECT room_id, school_id, block_id, risk_band, criteria_met, ventilation_type, pupil_hours_above, risk_score,
+        pupil_hours_removed_per_1000_gbp, simple_payback_years, capital_cost_gbp, pupils
         FROM room_results WHERE trust_id = ${admin.trustId} AND is_current`.execute(db)
     ).rows;
     expect(raw).toHaveLength(3000);
@@ -186,6 +212,48 @@ describe('portfolio API', () => {
       .execute();
     expect(audit).toHaveLength(1);
     expect(audit[0]!.after).toEqual({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 });
+  });
+
+  it('shows the same rank on the priorities list, the room page, results.xlsx and priorities.xlsx (saved weights, ties included)', async () => {
+    const expected = expectedOrder(raw, { risk: 0.1, cost: 0.1, payback: 0.8 });
+    const rankOf = new Map(expected.map((id, i) => [id, i + 1]));
+    // The tied rooms sit together, ordered by pupil-hours then room id.
+    const tiedRanks = raw
+      .filter((r) => r.risk_score === 0.61 && r.simple_payback_years === 40)
+      .sort((a, b) => b.pupil_hours_above - a.pupil_hours_above || (a.room_id < b.room_id ? -1 : 1))
+      .map((r) => rankOf.get(r.room_id)!);
+    expect(tiedRanks).toEqual(Array.from({ length: 15 }, (_, i) => tiedRanks[0]! + i));
+
+    const codes = new Map(
+      (await db.selectFrom('rooms').select(['id', 'code', 'school_id']).where('school_id', 'in', fixture.schoolIds).execute()).map(
+        (r) => [r.id, r],
+      ),
+    );
+    // results.xlsx: every room, in rank order, with the rank in column A.
+    const response = await api('/api/exports/results.xlsx', { cookie: admin.cookie });
+    expect(response.status).toBe(200);
+    const book = new ExcelJS.Workbook();
+    await book.xlsx.load(Buffer.from(await response.arrayBuffer()) as unknown as ArrayBuffer);
+    const sheet = book.getWorksheet('Results')!;
+    for (const rank of [1, 2, 3, tiedRanks[0]!, tiedRanks[14]!, 3000]) {
+      const row = sheet.getRow(rank + 1);
+      expect(row.getCell(1).value).toBe(rank);
+      expect(String(row.getCell(4).value).replace(/^'/, '')).toBe(codes.get(expected[rank - 1]!)!.code);
+    }
+    // The room page of a tied room says the same place.
+    const roomId = expected[tiedRanks[3]! - 1]!;
+    const page = await api(`/app/rooms/${roomId}`, { cookie: admin.cookie });
+    expect(page.status).toBe(200);
+    expect(await page.text()).toContain(`rank ${tiedRanks[3]} of 3,000`);
+    // priorities.xlsx of the whole trust: rank column in the same order.
+    const pri = await api('/api/exports/priorities.xlsx?sort=rank', { cookie: admin.cookie });
+    const priBook = new ExcelJS.Workbook();
+    await priBook.xlsx.load(Buffer.from(await pri.arrayBuffer()) as unknown as ArrayBuffer);
+    const priSheet = priBook.getWorksheet('Priorities')!;
+    expect(priSheet.getRow(2).getCell(1).value).toBe(1);
+    expect(String(priSheet.getRow(tiedRanks[0]! + 1).getCell(4).value).replace(/^'/, '')).toBe(
+      codes.get(expected[tiedRanks[0]! - 1]!)!.code,
+    );
   });
 
   it('refuses weights that are all zero or out of range', async () => {

@@ -71,24 +71,23 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
       INSERT INTO room_results (run_id, room_id, trust_id, school_id, block_id, ventilation_type, pupils, is_current, worst_season,
         mean_co2_ppm, peak_co2_ppm, criteria_met, risk_band, risk_score, pupil_hours_above, reason, units_recommended, unit_count,
         capital_cost_gbp, annual_saving_gbp, annual_saving_kwh, annual_saving_kgco2e, simple_payback_years, discounted_payback_years,
-        npv_gbp, pupil_hours_removed_per_1000_gbp, capital_per_tonne_co2e_gbp, score_risk, score_cost_effectiveness, score_payback, rank, detail)
+        npv_gbp, pupil_hours_removed_per_1000_gbp, capital_per_tonne_co2e_gbp, baseline, verdict, annual_heating_saving_kwh,
+        annual_fan_saving_kwh, annual_maintenance_saving_gbp, replacement_cost_gbp, pupil_hours_removed, heating_fuel,
+        fuel_price_gbp_per_kwh, heating_efficiency, price_source, efficiency_source, detail)
       SELECT ${run.id}, v.room_id, ${o.trustId}, v.school_id, v.block_id, v.ventilation_type, v.pupils, true, 'winter',
         v.mean, v.mean * 1.6, v.mean < 1500, v.band, v.risk, v.pupil_hours, 'Invented reason for ' || v.code,
         CASE WHEN v.units > 0 THEN v.units || ' × Wall unit 150' ELSE '' END, v.units,
         v.capital, v.saving, v.saving * 12, v.saving * 3, CASE WHEN v.saving > 0 THEN v.capital / v.saving END, NULL,
         v.saving * 12 - v.capital, CASE WHEN v.capital > 0 THEN v.pupil_hours * 0.8 * 1000 / v.capital END,
         CASE WHEN v.capital > 0 THEN v.capital / (v.saving * 3 * 15 / 1000) END,
-        v.risk, v.cost_eff, v.payback_score, NULL,
-        jsonb_build_object('retrofit', CASE WHEN v.units > 0 THEN jsonb_build_object(
-          'units', jsonb_build_array(jsonb_build_object('modelId', 'wall-150', 'modelName', 'Wall unit 150', 'count', v.units)),
-          'perUnit', jsonb_build_object('capitalCostGbp', v.capital / v.units, 'annualNetSavingGbp', v.saving / v.units,
-            'annualNetSavingKgCo2e', v.saving * 3 / v.units, 'annualMaintenanceGbp', 60, 'annualFuelSavedKwh', v.saving * 14 / v.units,
-            'annualFanKwh', v.saving * 2 / v.units, 'annualHeatRecoveredKwh', v.saving * 12 / v.units,
-            'simplePaybackYears', v.capital / v.saving, 'discountedPaybackYears', NULL, 'npvGbp', (v.saving * 12 - v.capital) / v.units)) END)
+        CASE WHEN v.units > 0 THEN 'same_air_without_recovery' END, CASE WHEN v.units > 0 THEN 'saves_slowly' END,
+        v.saving * 14, -v.saving * 2, -60.0 * v.units, 0, v.pupil_hours * 0.8, 'gas', 0.07, 0.85, 'trust', 'trust',
+        jsonb_build_object('appraisal', CASE WHEN v.units > 0 THEN jsonb_build_object(
+          'units', jsonb_build_array(jsonb_build_object('modelId', 'wall-150', 'modelName', 'Wall unit 150', 'count', v.units))) END)
       FROM (
         SELECT r.id AS room_id, r.school_id, r.block_id, r.ventilation_type, r.pupils, r.code,
           700 + floor(random() * 1800) AS mean, 1 + floor(random() * 4)::int AS band, random() AS risk,
-          round((random() * 4000)::numeric, 1)::float8 AS pupil_hours, random() AS cost_eff, random() AS payback_score,
+          round((random() * 4000)::numeric, 1)::float8 AS pupil_hours,
           u.units, u.units * 6500.0 AS capital, u.units * (50 + random() * 200) AS saving
         FROM rooms r JOIN LATERAL (SELECT (CASE WHEN random() < 0.3 THEN 0 ELSE 1 + floor(random() * 3) END)::int AS units WHERE r.id IS NOT NULL) u ON true
         WHERE r.school_id = ANY(${schoolIds}::uuid[])

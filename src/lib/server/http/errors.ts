@@ -1,4 +1,11 @@
 import { ZodError } from 'zod';
+import {
+  BLOCK_LIMITS,
+  limitMessage,
+  MAX_GLAZING_PER_FLOOR_AREA,
+  MIN_FLOOR_AREA_PER_OCCUPANT_M2,
+  ROOM_LIMITS,
+} from '../../engine/limits';
 
 /** An error we expect and can explain to the person who caused it. */
 export class AppError extends Error {
@@ -26,28 +33,39 @@ export const notFound = (what: string) => new AppError(404, 'not_found', `${what
 export const conflict = (message: string, details: unknown = null) => new AppError(409, 'conflict', message, details);
 export const paymentRequired = (message: string) => new AppError(402, 'payment_required', message);
 
-/** Plain-language messages for our named database constraints (see db/migrations). */
-const CONSTRAINT_MESSAGES: Record<string, string> = {
+/**
+ * Plain-language messages for our named database constraints (see db/migrations); range messages come from the one
+ * declaration of limits (src/lib/engine/limits.ts).
+ */
+export const CONSTRAINT_MESSAGES: Record<string, string> = {
   rooms_code_unique_in_school:
     'Another room in this school already has that room code. Room codes must be unique within a school.',
   rooms_openable_within_glazing: 'Openable window area cannot be larger than the glazing area, or negative.',
-  rooms_floor_area_positive: 'Floor area must be more than 0 m² (and at most 5,000 m²).',
-  rooms_ceiling_height_range: 'Ceiling height must be between 2 m and 12 m.',
-  rooms_occupancy_not_negative: 'Pupil and adult numbers cannot be negative.',
-  rooms_orientation_range: 'Orientation must be a bearing from 0° to 359° (0° = north).',
-  rooms_glazing_not_negative: 'Glazing area cannot be negative.',
-  rooms_g_value_range: 'Glazing g-value must be between 0 and 1.',
-  rooms_mechanical_supply_not_negative: 'Mechanical supply cannot be negative.',
+  rooms_floor_area_range: limitMessage(ROOM_LIMITS.floorAreaM2),
+  rooms_ceiling_height_range: limitMessage(ROOM_LIMITS.ceilingHeightM),
+  rooms_pupils_range: limitMessage(ROOM_LIMITS.pupils),
+  rooms_adults_range: limitMessage(ROOM_LIMITS.adults),
+  rooms_occupant_density: `No room can hold more than one person per ${MIN_FLOOR_AREA_PER_OCCUPANT_M2} m² of floor; check the floor area and the numbers.`,
+  rooms_orientation_range: `${limitMessage(ROOM_LIMITS.orientationDeg)} (0° = north)`,
+  rooms_glazing_range: `${limitMessage(ROOM_LIMITS.glazingAreaM2)} It can be at most ${MAX_GLAZING_PER_FLOOR_AREA} times the floor area.`,
+  rooms_g_value_range: limitMessage(ROOM_LIMITS.glazingGValue),
+  rooms_mechanical_supply_range: limitMessage(ROOM_LIMITS.mechanicalSupplyLps),
+  rooms_winter_window_range: limitMessage(ROOM_LIMITS.winterWindowOpenFraction),
+  rooms_frame_material_known: 'Window frame must be one of the listed materials.',
+  blocks_fuel_price_range: limitMessage(BLOCK_LIMITS.fuelPriceGbpPerKwh),
+  blocks_heating_efficiency_range:
+    'Heating efficiency must fit the fuel: 0.3–1 for boilers, exactly 1 for direct electric, a seasonal COP of 1–6 for heat pumps.',
+  schools_heating_efficiency_range:
+    'Heating efficiency must fit the fuel: 0.3–1 for boilers, exactly 1 for direct electric, a seasonal COP of 1–6 for heat pumps.',
   rooms_block_in_same_school:
     'A room can only be placed in a block of its own school, and a block that still has rooms cannot be deleted.',
   rooms_code_present: 'Every room needs a room code.',
   schools_name_unique_in_trust: 'This trust already has a school with that name.',
   schools_reference_unique_in_trust: 'This trust already has a school with that reference number.',
   blocks_name_unique_in_school: 'This school already has a block with that name.',
-  blocks_year_built_range: 'Year built must be between 1700 and 2100.',
-  blocks_air_permeability_range: 'Air permeability must be more than 0 and at most 100 m³/(h·m²) at 50 Pa.',
-  schools_boiler_efficiency_range: 'Boiler efficiency must be more than 0 and at most 1 (100 %).',
-  schools_fuel_price_range: 'Fuel price must be more than £0 and under £5 per kWh.',
+  blocks_year_built_range: limitMessage(BLOCK_LIMITS.yearBuilt),
+  blocks_air_permeability_range: limitMessage(BLOCK_LIMITS.airPermeabilityM3hM2),
+  schools_fuel_price_range: limitMessage(BLOCK_LIMITS.fuelPriceGbpPerKwh),
 };
 
 interface PgError {

@@ -1,7 +1,9 @@
 import { PassThrough, type Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { label } from '../../engine/vocabulary';
+import { limitMessage } from '../../engine/limits';
 import { REGISTER_COLUMNS, type RegisterField } from './columns';
+import { columnLetter } from './headers';
 import { guardFormula } from './values';
 
 /** One register row as the export writes it: every field in our units and codes. */
@@ -46,8 +48,8 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
       .dataValidations;
     const enumColumns = REGISTER_COLUMNS.map((c, i) => ({ c, i })).filter(({ c }) => c.kind === 'enum');
     enumColumns.forEach(({ c, i }, listIndex) => {
-      const letter = String.fromCharCode(65 + i);
-      const listLetter = String.fromCharCode(65 + listIndex);
+      const letter = columnLetter(i);
+      const listLetter = columnLetter(listIndex);
       validations.add(`${letter}2:${letter}${TEMPLATE_ROWS}`, {
         type: 'list',
         allowBlank: true,
@@ -59,17 +61,20 @@ export function writeRegisterXlsx(records: Iterable<RegisterRecord>): Readable {
       });
     });
     REGISTER_COLUMNS.forEach((c, i) => {
-      const letter = String.fromCharCode(65 + i);
+      const letter = columnLetter(i);
       if (c.kind === 'number' || c.kind === 'integer' || c.kind === 'year') {
+        // The field's range from limits.ts, in the sheet's unit (percentages × 100).
+        const scale = c.sheetScale ?? 1;
+        const limit = c.limit;
         validations.add(`${letter}2:${letter}${TEMPLATE_ROWS}`, {
           type: c.kind === 'number' ? 'decimal' : 'whole',
-          operator: 'greaterThanOrEqual',
+          operator: limit ? 'between' : 'greaterThanOrEqual',
           allowBlank: true,
           showErrorMessage: true,
           errorStyle: 'warning',
           errorTitle: c.header,
-          error: `${c.header} should be a number.`,
-          formulae: [0],
+          error: limit ? limitMessage(limit) : `${c.header} should be a number.`,
+          formulae: limit ? [limit.min * scale, limit.max * scale] : [0],
         });
       }
     });
