@@ -32,6 +32,15 @@ describe('the register template', () => {
       'Ventilation type',
       'Mechanical supply (l/s)',
       'Air permeability (m3/h.m2 @ 50 Pa)',
+      'Glazing g-value',
+      'Window frame',
+      'Winter window opening (%)',
+      'School heating fuel',
+      'School fuel price (£/kWh)',
+      'School heating efficiency',
+      'Block heating fuel',
+      'Block fuel price (£/kWh)',
+      'Block heating efficiency',
       'Notes',
     ]);
     expect(rooms.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 });
@@ -40,6 +49,12 @@ describe('the register template', () => {
       const validation = cell.dataValidation as { type?: string; formulae?: string[] } | undefined;
       if (c.kind === 'enum') expect(validation?.type, c.header).toBe('list');
       if (c.kind === 'number') expect(validation?.type, c.header).toBe('decimal');
+      // Ranges from the one declaration of limits (src/lib/engine/limits.ts), in the sheet's unit.
+      if (c.limit)
+        expect(validation?.formulae?.map(Number), c.header).toEqual([
+          c.limit.min * (c.sheetScale ?? 1),
+          c.limit.max * (c.sheetScale ?? 1),
+        ]);
       if (c.numFmt) expect(rooms.getColumn(i + 1).numFmt, c.header).toBe(c.numFmt);
     });
     const ventilationList = (rooms.getCell('Q2').dataValidation as { formulae: string[] }).formulae[0]!;
