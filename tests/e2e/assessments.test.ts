@@ -81,7 +81,9 @@ describe('assessments pages in Chromium', () => {
     await expect(page.locator('[data-testid="comparison-today"]').isVisible()).resolves.toBe(true);
     // Every baseline is named, with its lines; the windows the model assumed are shown.
     await expect(page.locator('[data-testid="baselines"]').textContent()).resolves.toMatch(/today's operation/);
-    await expect(page.locator('[data-testid="baselines"]').textContent()).resolves.toMatch(/the same air without heat recovery/);
+    await expect(page.locator('[data-testid="baselines"]').textContent()).resolves.toMatch(
+      /the same air without heat recovery/,
+    );
     await expect(page.locator('[data-testid="heating-used"]').textContent()).resolves.toMatch(/£0\.\d{3}\/kWh/);
     await expect(page.locator('[data-testid="window-assumptions"]').textContent()).resolves.toMatch(/Winter/);
     await expect(page.getByRole('note', { name: 'Caution' }).first().textContent()).resolves.toMatch(

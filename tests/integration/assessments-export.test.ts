@@ -120,7 +120,9 @@ describe('results export (.xlsx)', () => {
       if ((units as number) > 0) {
         withUnits += 1;
         expect(String(row.getCell(col('Unit models')).value)).toMatch(/^\d+ × /);
-        expect(String(row.getCell(col('Baseline of the money columns')).value)).toMatch(/heat recovery|today|compliant/);
+        expect(String(row.getCell(col('Baseline of the money columns')).value)).toMatch(
+          /heat recovery|today|compliant/,
+        );
         expect(row.getCell(col('Capital cost (GBP)')).numFmt).toMatch(/£/);
         expect(row.getCell(col('NPV (GBP)')).numFmt).toMatch(/£/);
       }

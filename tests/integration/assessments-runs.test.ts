@@ -147,7 +147,9 @@ describe('assessment runs API', () => {
       else expect(row.run_id).not.toBe(id);
     }
     const ranks = await ranksNow(estates);
-    expect(ranks.map((r) => r.rank).sort((a, b) => a - b)).toEqual(Array.from({ length: after.length }, (_, i) => i + 1));
+    expect(ranks.map((r) => r.rank).sort((a, b) => a - b)).toEqual(
+      Array.from({ length: after.length }, (_, i) => i + 1),
+    );
   });
 
   it('lists recent runs newest first', async () => {
