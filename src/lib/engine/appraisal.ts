@@ -75,7 +75,7 @@ function fanKwh(s: Scenario): number {
 /** Replacement years and costs within the appraisal period: units replaced at the end of each life. */
 function replacementsOf(capitalGbp: number, lifeYears: number, years: number): { year: number; costGbp: number }[] {
   const out: { year: number; costGbp: number }[] = [];
-  if (capitalGbp === 0) return out;
+  if (capitalGbp === 0 || lifeYears >= years) return out;
   for (let year = lifeYears; year < years; year += lifeYears) out.push({ year, costGbp: capitalGbp });
   return out;
 }
