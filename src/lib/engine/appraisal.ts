@@ -254,6 +254,7 @@ function noUnits(
     unitCount: 0,
     unitModels: '',
     feasible: false,
+    recommended: false,
     combinedSoundDbA: null,
     soundLimitMet: true,
     supplyTempC: null,
@@ -430,6 +431,10 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     extractTempC: set.energy.heatingIndoorTempC.value,
     heatRecoveryEfficiency: perf.heatRecoveryEfficiency,
   });
+  if (a.meetsTargetToday && head.verdict !== 'pays_back')
+    notes.push(
+      'Not recommended: the room meets the mechanical target today and the units would not pay back against the headline baseline.',
+    );
   if (supplyTempC < 16)
     notes.push(
       `Winter supply air about ${formatInt(supplyTempC)} °C after heat recovery: check throw and draught at head height.`,
@@ -445,6 +450,7 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     unitCount: choice.count,
     unitModels: choice.models,
     feasible: true,
+    recommended: !a.meetsTargetToday || head.verdict === 'pays_back',
     combinedSoundDbA: choice.soundDbA,
     soundLimitMet: choice.soundLimitMet,
     supplyTempC,

@@ -17,7 +17,7 @@ export const DEFAULT_RANK_WEIGHTS: RankWeights = { risk: 0.6, costEffectiveness:
 /** The few numbers ranking needs from an assessment. */
 export function toRankInput(roomId: string, assessment: RoomAssessment): RankInput {
   const r = assessment.appraisal;
-  const has = r?.feasible === true;
+  const has = r?.feasible === true && r.recommended;
   return {
     roomId,
     roomCode: assessment.roomCode,

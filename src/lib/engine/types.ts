@@ -640,6 +640,9 @@ export interface RoomAppraisal {
   unitModels: string;
   /** False when no combination within maxUnitsPerRoom meets the flow: units empty and money zero. */
   feasible: boolean;
+  /** True when the units are recommended: the room fails the mechanical target today, or the units pay back
+   *  against the headline baseline (the classic swap of old fans for heat recovery). Every appraisal is kept. */
+  recommended: boolean;
   combinedSoundDbA: number | null;
   soundLimitMet: boolean;
   /** Winter supply-air temperature after heat recovery (no fan heat), °C. */

@@ -66,7 +66,8 @@ export function describeUnits(assessment: RoomAssessment): string {
 /** One assessed room as a result row: the worst season's CO2, the risk, and the headline appraisal per room. */
 export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAssessment): ResultRow {
   const worst = assessment.seasons[assessment.worstSeason];
-  const appraisal = assessment.appraisal?.feasible ? assessment.appraisal : null;
+  // Columns carry recommended units only; every appraisal stays in the detail (room page, optimiser).
+  const appraisal = assessment.appraisal?.feasible && assessment.appraisal.recommended ? assessment.appraisal : null;
   const head = appraisal ? appraisal.baselines[appraisal.headline] : null;
   return {
     runId,
