@@ -9,8 +9,16 @@
  */
 export function annuityFactor(rate: number, years: number): number {
   if (rate === 0) return years;
-  return -Math.expm1(-years * Math.log1p(rate)) / rate;
+  if (rate === lastAf.rate && years === lastAf.years) return lastAf.value;
+  const value = -Math.expm1(-years * Math.log1p(rate)) / rate;
+  lastAf.rate = rate;
+  lastAf.years = years;
+  lastAf.value = value;
+  return value;
 }
+
+/** The last annuity factor computed (every room of a run asks for the same rate and period). */
+const lastAf = { rate: Number.NaN, years: Number.NaN, value: 0 };
 
 /** NPV of a level annual saving: −C0 + S·AF(r, n), £. */
 export function npvLevel(args: { capitalGbp: number; annualSavingGbp: number; rate: number; years: number }): number {

@@ -27,11 +27,13 @@ import {
 } from './vocabulary';
 
 function nullable(field: string, value: number | null, limit: FieldLimit): void {
-  if (value !== null) requireWithin(field, value, limit);
+  if (value === null || (value >= limit.min && value <= limit.max && (!limit.integer || Number.isInteger(value))))
+    return;
+  requireWithin(field, value, limit);
 }
 
 function nullableOneOf<T extends string>(field: string, value: T | null, allowed: readonly T[]): void {
-  if (value !== null) requireOneOf(field, value, allowed);
+  if (value !== null && !allowed.includes(value)) requireOneOf(field, value, allowed);
 }
 
 /** Valid ranges of every input field (limits.ts), plus the cross-field rules: openable ≤ glazing ≤ 3 × floor, and
@@ -48,7 +50,8 @@ export function validateRoomInput(input: RoomAssessmentInput): void {
   if (typeof room.code !== 'string') throw new EngineInputError('room.code', 'must be text');
   if (typeof room.name !== 'string') throw new EngineInputError('room.name', 'must be text');
   nullableOneOf('room.use', room.use, ROOM_USES);
-  requireWithin('room.floorAreaM2', room.floorAreaM2, L.floorAreaM2);
+  if (typeof room.floorAreaM2 !== 'number') requireWithin('room.floorAreaM2', room.floorAreaM2, L.floorAreaM2);
+  nullable('room.floorAreaM2', room.floorAreaM2, L.floorAreaM2);
   nullable('room.ceilingHeightM', room.ceilingHeightM, L.ceilingHeightM);
   nullable('room.pupils', room.pupils, L.pupils);
   nullable('room.adults', room.adults, L.adults);
@@ -88,9 +91,12 @@ export function validateRoomInput(input: RoomAssessmentInput): void {
   );
   nullable('block.heatingInstalledYear', block.heatingInstalledYear, BLOCK_LIMITS.heatingInstalledYear);
 
-  requireOneOf('school.phase', school.phase, SCHOOL_PHASES);
-  requireOneOf('school.climateRegion', school.climateRegion, CLIMATE_REGIONS);
-  requireOneOf('school.heatingFuel', school.heatingFuel, HEATING_FUELS);
+  if (school.phase === null) requireOneOf('school.phase', school.phase, SCHOOL_PHASES);
+  nullableOneOf('school.phase', school.phase, SCHOOL_PHASES);
+  if (school.climateRegion === null) requireOneOf('school.climateRegion', school.climateRegion, CLIMATE_REGIONS);
+  nullableOneOf('school.climateRegion', school.climateRegion, CLIMATE_REGIONS);
+  if (school.heatingFuel === null) requireOneOf('school.heatingFuel', school.heatingFuel, HEATING_FUELS);
+  nullableOneOf('school.heatingFuel', school.heatingFuel, HEATING_FUELS);
   nullable('school.fuelPriceGbpPerKwh', school.fuelPriceGbpPerKwh, SCHOOL_LIMITS.fuelPriceGbpPerKwh);
   nullable('school.heatingEfficiency', school.heatingEfficiency, heatingEfficiencyLimit(school.heatingFuel));
 }

@@ -70,7 +70,7 @@ export function fillDaySegments(
     seg.generationLps = generationLps * t.occupancyFraction;
     seg.flowLps = base + (t.occupancyFraction > 0 ? flows.windowOccupiedLps : flows.windowEmptyLps);
   }
-  out.length = timetable.length;
+  if (out.length !== timetable.length) out.length = timetable.length;
   return out;
 }
 
