@@ -212,7 +212,9 @@ async function checkRanksMatchEngine(): Promise<void> {
   if (stored.size !== expected.length) throw new Error(`${stored.size} stored ranks for ${expected.length} results`);
   for (const e of expected)
     if (stored.get(e.row.roomId) !== e.rank)
-      throw new Error(`stored rank of ${e.row.roomId} (${stored.get(e.row.roomId)}) differs from the engine's (${e.rank})`);
+      throw new Error(
+        `stored rank of ${e.row.roomId} (${stored.get(e.row.roomId)}) differs from the engine's (${e.rank})`,
+      );
   log(`stored ranks match rankOrder for ${expected.length} rooms`);
 }
 
