@@ -40,6 +40,8 @@ interface Scenario {
   maintenanceGbp: number;
   capitalGbp: number;
   lifeYears: number;
+  /** Heat loss already known (the same air as another scenario with less recovered), kWh. */
+  lossKwh?: number;
 }
 
 /** What the appraisal needs from the rest of the assessment. */
@@ -129,12 +131,14 @@ function pupilHoursWith(a: AppraisalInputs, flows: Record<Season, SeasonFlows>):
 /** A scenario's yearly ventilation heat loss over the heating hours and fan electricity, kWh. */
 function energyOf(a: AppraisalInputs, s: Scenario): { lossKwh: number; fanKwh: number } {
   return {
-    lossKwh: heatingSeasonLossKwh({
-      occupiedShare: a.day.occupiedShare,
-      flows: s.flows,
-      degreeHoursKh: a.degreeHoursKh,
-      airHeatCapacityWPerLpsK: a.p.set.energy.airHeatCapacityWPerLpsK.value,
-    }),
+    lossKwh:
+      s.lossKwh ??
+      heatingSeasonLossKwh({
+        occupiedShare: a.day.occupiedShare,
+        flows: s.flows,
+        degreeHoursKh: a.degreeHoursKh,
+        airHeatCapacityWPerLpsK: a.p.set.energy.airHeatCapacityWPerLpsK.value,
+      }),
     fanKwh: fanKwh(s),
   };
 }
@@ -372,14 +376,15 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
   // With units: windows as today times the share kept, units' balanced flow (plus any existing heat-recovery unit).
   const keptRecoveredLps = keepsExisting ? a.existing.heatRecoveryEfficiency * keptBalancedLps : 0;
   const optionFlows = {} as Record<Season, SeasonFlows>;
-  const sameAirFlows = {} as Record<Season, SeasonFlows>;
+  // Degree-hours of the seasons the units run: the same air without their recovery loses η·ρc_p·Q·DH more.
+  let unitDegreeHours = 0;
   for (const season of SEASONS) {
     const f = a.todayFlows[season];
     if (summerOff && season === 'summer') {
       optionFlows[season] = f;
-      sameAirFlows[season] = f;
       continue;
     }
+    unitDegreeHours += a.degreeHoursKh[season];
     const kept = r.windowKeptWithUnits.value[season];
     const withUnits: SeasonFlows = {
       windowOccupiedLps: f.windowOccupiedLps * kept,
@@ -390,14 +395,6 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
       recoveredLps: keptRecoveredLps + perf.heatRecoveryEfficiency * q,
     };
     optionFlows[season] = withUnits;
-    sameAirFlows[season] = {
-      windowOccupiedLps: withUnits.windowOccupiedLps,
-      windowEmptyLps: withUnits.windowEmptyLps,
-      infiltrationLps: withUnits.infiltrationLps,
-      balancedLps: withUnits.balancedLps,
-      unbalancedLps: 0,
-      recoveredLps: keptRecoveredLps,
-    };
   }
   const option: Scenario = {
     flows: optionFlows,
@@ -407,6 +404,10 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     lifeYears: perf.lifeYears,
   };
   const optionEnergy = energyOf(a, option);
+  // The same flows with only the kept recovery: ρc_p·η·Q·DH/1000 more heat lost (heatingSeasonLossKwh's form).
+  const sameAirLossKwh =
+    optionEnergy.lossKwh +
+    (set.energy.airHeatCapacityWPerLpsK.value * perf.heatRecoveryEfficiency * q * unitDegreeHours) / 1000;
   const optionPupilHours = pupilHoursWith(a, optionFlows);
   const removed = Math.max(0, a.todayPupilHours - optionPupilHours);
 
@@ -425,7 +426,8 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
   // (b) The same air without heat recovery: windows for natural rooms, the existing fans for mechanical ones.
   const byFans = replacesExistingLps > 0;
   const sameAir: Scenario = {
-    flows: sameAirFlows,
+    flows: optionFlows,
+    lossKwh: sameAirLossKwh,
     fans: byFans ? withFans({ sfp: a.existing.specificFanPowerWPerLps, lps: q, hours: runHours }, keptHru) : keptHru,
     maintenanceGbp: existingMaintenance,
     capitalGbp: 0,
@@ -439,7 +441,8 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
   let vsSimpler: BaselineAppraisal | null = null;
   if (!a.meetsTargetToday && simpleCapital < choice.capitalCostGbp) {
     const simpler: Scenario = {
-      flows: sameAirFlows,
+      flows: optionFlows,
+      lossKwh: sameAirLossKwh,
       fans: withFans({ sfp: simple.specificFanPowerWPerLps, lps: q, hours: runHours }, keptHru),
       maintenanceGbp: simple.annualMaintenanceGbp,
       capitalGbp: simpleCapital,
