@@ -97,10 +97,20 @@ function netReplacements(
   option: { year: number; costGbp: number }[],
   baseline: { year: number; costGbp: number }[],
 ): { year: number; costGbp: number }[] {
-  const byYear = new Map<number, number>();
-  for (const r of option) byYear.set(r.year, (byYear.get(r.year) ?? 0) + r.costGbp);
-  for (const r of baseline) byYear.set(r.year, (byYear.get(r.year) ?? 0) - r.costGbp);
-  return [...byYear].filter(([, c]) => c !== 0).map(([year, costGbp]) => ({ year, costGbp }));
+  // Each schedule has at most one entry a year; the option's years first, then years only the baseline has.
+  if (baseline.length === 0) return option;
+  const out: { year: number; costGbp: number }[] = [];
+  for (const o of option) {
+    let costGbp = o.costGbp;
+    for (const b of baseline) if (b.year === o.year) costGbp -= b.costGbp;
+    if (costGbp !== 0) out.push({ year: o.year, costGbp });
+  }
+  for (const b of baseline) {
+    let shared = false;
+    for (const o of option) if (o.year === b.year) shared = true;
+    if (!shared && b.costGbp !== 0) out.push({ year: b.year, costGbp: -b.costGbp });
+  }
+  return out;
 }
 
 /** Occupancy-weighted pupil-hours a year above the risk threshold with a scenario's flows. */

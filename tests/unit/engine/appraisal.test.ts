@@ -168,3 +168,25 @@ describe('defects the independent check found', () => {
     expect(a.pupils).toBe(28);
   });
 });
+
+describe('replacements within the appraisal period', () => {
+  it('nets the units replaced at 15 years against a simpler option replaced at 10 and 20 (Green Book: costs in the year they fall)', () => {
+    const set = flatSet();
+    set.finance.appraisalYears.value = 30;
+    set.retrofit.simplerOption.value = { ...set.retrofit.simplerOption.value, lifeYears: 10 };
+    const input = typicalClassroom();
+    input.room.winterWindowOpenFraction = 0;
+    const r = assessRoom(input, set).appraisal;
+    const simpler = r?.baselines.simpler_option;
+    expect(simpler).not.toBeNull();
+    const simpleCapital = 1500 + 12 * (r?.installedSupplyLps ?? 0);
+    // Units (life 15) are bought again in year 15; the simpler option (life 10) in years 10 and 20.
+    expect(simpler?.replacements).toEqual([
+      { year: 15, costGbp: r?.capitalCostGbp },
+      { year: 10, costGbp: -simpleCapital },
+      { year: 20, costGbp: -simpleCapital },
+    ]);
+    // Against today (no capital), only the units' own replacement in year 15.
+    expect(r?.baselines.today.replacements).toEqual([{ year: 15, costGbp: r?.capitalCostGbp }]);
+  });
+});
