@@ -48,6 +48,7 @@ import type {
   SeasonAssessment,
   TimetableSegment,
 } from './types';
+import { calibrationOf, describeCalibration } from './measured/calibration-hook';
 import { validateRoomInput } from './validate-input';
 import { windowAirflowLps } from './window-airflow';
 
@@ -264,12 +265,16 @@ export function assessRoom(
       defaultsUsed.push(`block.airPermeabilityM3hM2 → ${airPermeability} m³/(h·m²) (default by year built)`);
     }
   }
-  const infLps = infiltrationLps({
-    airPermeabilityM3hM2: airPermeability,
-    envelopeAreaM2: room.floorAreaM2 * set.infiltration.envelopeAreaPerFloorArea.value,
-    volumeM3,
-    divisor: set.infiltration.kpDivisor.value,
-  });
+  const calibration = calibrationOf(input);
+  if (calibration) defaultsUsed.push(describeCalibration(calibration));
+  const infLps =
+    calibration?.infiltrationLps ??
+    infiltrationLps({
+      airPermeabilityM3hM2: airPermeability,
+      envelopeAreaM2: room.floorAreaM2 * set.infiltration.envelopeAreaPerFloorArea.value,
+      volumeM3,
+      divisor: set.infiltration.kpDivisor.value,
+    });
 
   const hasFan = room.ventilationType !== 'natural_single_sided' && room.ventilationType !== 'natural_cross';
   let mechLps = 0;
@@ -328,9 +333,10 @@ export function assessRoom(
       dischargeCoefficient: set.windows.dischargeCoefficient.value,
       deltaCp: set.windows.crossWindDeltaCp.value,
     });
+    const seasonWindowUse = windowUse * (calibration?.windowUseFactor[season] ?? 1);
     const flows: SeasonFlows = {
-      windowOccupiedLps: capacityLps * profile.windowOpenFractionOccupied * windowUse,
-      windowEmptyLps: capacityLps * profile.windowOpenFractionEmpty * windowUse,
+      windowOccupiedLps: capacityLps * profile.windowOpenFractionOccupied * seasonWindowUse,
+      windowEmptyLps: capacityLps * profile.windowOpenFractionEmpty * seasonWindowUse,
       infiltrationLps: infLps,
       mechanicalLps: mechLps,
     };
@@ -364,7 +370,7 @@ export function assessRoom(
       outdoorTempC,
       indoorTempC: profile.indoorTempC,
       windSpeedMs,
-      windowOpenFraction: profile.windowOpenFractionOccupied * windowUse,
+      windowOpenFraction: profile.windowOpenFractionOccupied * seasonWindowUse,
       ventilation: { windowLps: flows.windowOccupiedLps, infiltrationLps: infLps, mechanicalLps: mechLps, totalLps },
       airChangesPerHour: (3.6 * totalLps) / volumeM3,
       generationLps,
