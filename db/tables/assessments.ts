@@ -86,6 +86,8 @@ export interface RoomResultsTable {
   score_payback: Generated<number>;
   rank: number | null;
   detail: Json<unknown>;
+  /** What the risk rests on: 'measured' readings, the 'calibrated' model, or the model's prediction. */
+  risk_evidence: Generated<'measured' | 'calibrated' | 'predicted'>;
 }
 
 /** Tables of the assessments feature: runs, per-room results and versioned assumption sets. */
