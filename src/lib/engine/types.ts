@@ -14,6 +14,7 @@ import type {
   VentilationType,
   WindowType,
 } from './vocabulary';
+import type { EvidenceSummary } from './measured/evidence';
 
 /** The vocabulary types, re-exported for callers of the engine. */
 export type {
@@ -544,6 +545,8 @@ export interface RoomAssessment {
   /** Defaults used for null inputs, e.g. 'block.airPermeabilityM3hM2 → 12 m³/(h·m²) (system-built default)'. */
   defaultsUsed: string[];
   cautions: string[];
+  /** What the risk rests on (measured readings, calibrated model, prediction), once measured evidence is applied. */
+  evidence?: EvidenceSummary;
 }
 
 // ---------------------------------------------------------------------------------------------

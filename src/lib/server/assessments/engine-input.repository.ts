@@ -1,6 +1,8 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { RoomAssessmentInput } from '../../engine';
+import type { MeasuredRoom } from '../../engine/measured';
+import { attachMeasuredEvidence } from '../monitor-logs/evidence.repository';
 
 /** A room of the register as the engine reads it, with the ids a result row needs. */
 export interface EngineRoom {
@@ -12,6 +14,8 @@ export interface EngineRoom {
   input: RoomAssessmentInput;
   /** Register gaps filled in here (not by the engine), reported with the result. */
   defaultsUsed: string[];
+  /** The room's measured-CO2 analysis, when it has readings (the calibration travels in `input`). */
+  measured?: MeasuredRoom | null;
 }
 
 /** Which rooms a run covers. */
@@ -136,7 +140,7 @@ export async function readRoomChunk(
     WHERE ${scopeWhere(scope)} AND ${after}
     ORDER BY rooms.id
     LIMIT ${limit}`.execute(db);
-  return rows.map(toEngineRoom);
+  return attachMeasuredEvidence(db, rows.map(toEngineRoom));
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */
@@ -151,5 +155,5 @@ export async function readEngineRoom(
     SELECT ${COLUMNS}
     FROM rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
     WHERE schools.trust_id = ${trustId} AND ${limited} AND rooms.id = ${roomId}::uuid`.execute(db);
-  return rows[0] ? toEngineRoom(rows[0]) : null;
+  return rows[0] ? ((await attachMeasuredEvidence(db, [toEngineRoom(rows[0])]))[0] ?? null) : null;
 }

@@ -35,6 +35,8 @@ export interface ResultRow {
   capitalPerTonneCo2eGbp: number | null;
   /** The RoomAssessment JSON (assessed without curves). */
   detailJson: string;
+  /** What the risk rests on: measured readings, the calibrated model, or the prediction. */
+  riskEvidence: 'measured' | 'calibrated' | 'predicted';
 }
 
 /** "2 × Wall unit 150 + 1 × Sill unit 60"; empty when no units are recommended. */
@@ -77,6 +79,7 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     npvGbp: retrofit?.npvGbp ?? null,
     pupilHoursRemovedPer1000Gbp: retrofit?.pupilHoursRemovedPer1000Gbp ?? null,
     capitalPerTonneCo2eGbp: retrofit?.capitalPerTonneCo2eGbp ?? null,
+    riskEvidence: assessment.evidence?.kind ?? 'predicted',
     detailJson: JSON.stringify(
       room.defaultsUsed.length > 0
         ? { ...assessment, defaultsUsed: [...assessment.defaultsUsed, ...room.defaultsUsed] }

@@ -35,6 +35,7 @@ const COPY_COLUMNS = [
   'pupil_hours_removed_per_1000_gbp',
   'capital_per_tonne_co2e_gbp',
   'detail',
+  'risk_evidence',
 ] as const;
 
 /** The COPY statement for result rows (also used by the benchmark's I/O floor). */
@@ -71,6 +72,7 @@ export function toCopyLine(r: ResultRow): string {
     r.pupilHoursRemovedPer1000Gbp,
     r.capitalPerTonneCo2eGbp,
     r.detailJson,
+    r.riskEvidence,
   ]);
 }
 
