@@ -35,7 +35,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('monitor_logs_file_kind_known', sql`file_kind IN ('csv', 'xlsx')`)
     .addCheckConstraint('monitor_logs_status_known', sql`status IN ('previewed', 'committed', 'cancelled', 'deleted')`)
     .execute();
-  await db.schema.createIndex('monitor_logs_trust_created_idx').on('monitor_logs').columns(['trust_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('monitor_logs_trust_created_idx')
+    .on('monitor_logs')
+    .columns(['trust_id', 'created_at'])
+    .execute();
   await sql`CREATE TRIGGER monitor_logs_set_updated_at BEFORE UPDATE ON monitor_logs
     FOR EACH ROW EXECUTE FUNCTION set_updated_at()`.execute(db);
 

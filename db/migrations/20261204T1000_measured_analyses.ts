@@ -37,7 +37,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('assumptions_version', 'text', (c) => c.notNull())
     .addColumn('analysed_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('monitor_room_analyses_trust_idx').on('monitor_room_analyses').column('trust_id').execute();
+  await db.schema
+    .createIndex('monitor_room_analyses_trust_idx')
+    .on('monitor_room_analyses')
+    .column('trust_id')
+    .execute();
 
   await db.schema
     .createTable('monitor_analysis_runs')
@@ -51,7 +55,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_by_email', 'text')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('finished_at', 'timestamptz')
-    .addCheckConstraint('monitor_analysis_runs_status_known', sql`status IN ('queued', 'running', 'succeeded', 'failed')`)
+    .addCheckConstraint(
+      'monitor_analysis_runs_status_known',
+      sql`status IN ('queued', 'running', 'succeeded', 'failed')`,
+    )
     .execute();
   await db.schema
     .createIndex('monitor_analysis_runs_trust_created_idx')

@@ -5,7 +5,9 @@ import { sql, type Kysely } from 'kysely';
 
 export async function up(db: Kysely<any>): Promise<void> {
   await sql`ALTER TABLE room_results ADD COLUMN risk_evidence text NOT NULL DEFAULT 'predicted'
-    CONSTRAINT room_results_risk_evidence_known CHECK (risk_evidence IN ('measured', 'calibrated', 'predicted'))`.execute(db);
+    CONSTRAINT room_results_risk_evidence_known CHECK (risk_evidence IN ('measured', 'calibrated', 'predicted'))`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

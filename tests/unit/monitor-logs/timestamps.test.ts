@@ -33,13 +33,22 @@ describe('timestamp formats', () => {
   });
 
   it('reads an explicit offset as an absolute instant', () => {
-    expect(parseTimestamp('2026-10-25T01:30:00+01:00', 'iso')).toEqual({ seconds: utc('2026-10-25T00:30:00Z'), absolute: true });
-    expect(parseTimestamp('2026-10-25T01:30:00Z', 'iso')).toEqual({ seconds: utc('2026-10-25T01:30:00Z'), absolute: true });
+    expect(parseTimestamp('2026-10-25T01:30:00+01:00', 'iso')).toEqual({
+      seconds: utc('2026-10-25T00:30:00Z'),
+      absolute: true,
+    });
+    expect(parseTimestamp('2026-10-25T01:30:00Z', 'iso')).toEqual({
+      seconds: utc('2026-10-25T01:30:00Z'),
+      absolute: true,
+    });
   });
 
   it('reads Excel serial numbers (1900 date system: 45658 is 2025-01-01, Microsoft DATEVALUE)', () => {
     expect(parseTimestamp(45658, 'excel_serial')).toEqual({ seconds: naive('2025-01-01T00:00:00'), absolute: false });
-    expect(parseTimestamp('45658.375', 'excel_serial')).toEqual({ seconds: naive('2025-01-01T09:00:00'), absolute: false });
+    expect(parseTimestamp('45658.375', 'excel_serial')).toEqual({
+      seconds: naive('2025-01-01T09:00:00'),
+      absolute: false,
+    });
   });
 
   it('refuses dates that do not exist and text that is not a time', () => {
@@ -55,7 +64,10 @@ describe('timestamp formats', () => {
   });
 
   it('detects day-first dates when a day is above 12', () => {
-    expect(detectFormat(['12/01/2026 09:00', '13/01/2026 09:00'])).toMatchObject({ format: 'day_first', assumedDayFirst: false });
+    expect(detectFormat(['12/01/2026 09:00', '13/01/2026 09:00'])).toMatchObject({
+      format: 'day_first',
+      assumedDayFirst: false,
+    });
   });
 
   it('detects month-first dates when a series read day-first would jump by months', () => {
@@ -64,7 +76,10 @@ describe('timestamp formats', () => {
   });
 
   it('takes the UK day-first reading when the sample cannot tell and says it assumed it', () => {
-    expect(detectFormat(['05/01/2026 09:00', '05/01/2026 09:05'])).toMatchObject({ format: 'day_first', assumedDayFirst: true });
+    expect(detectFormat(['05/01/2026 09:00', '05/01/2026 09:05'])).toMatchObject({
+      format: 'day_first',
+      assumedDayFirst: true,
+    });
   });
 
   it('detects ISO text, Excel serials and Unix seconds', () => {

@@ -25,7 +25,12 @@ let ready: Promise<void> | undefined;
 function ensureWorker(): Promise<void> {
   ready ??= (async () => {
     const { boss } = await getQueue();
-    await boss.createQueue(ANALYSIS_QUEUE, { name: ANALYSIS_QUEUE, retryLimit: 1, retryDelay: 2, expireInSeconds: 1800 });
+    await boss.createQueue(ANALYSIS_QUEUE, {
+      name: ANALYSIS_QUEUE,
+      retryLimit: 1,
+      retryDelay: 2,
+      expireInSeconds: 1800,
+    });
     await boss.work<{ runId: string }>(ANALYSIS_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
       if (job) await runAnalysis(getDb(), job.data.runId);
     });
@@ -66,7 +71,11 @@ export interface AnalysisRunView {
 }
 
 /** The trust's latest analysis run, or one by id. */
-export async function getAnalysisRun(db: Kysely<Database>, trustId: string, id: string | null): Promise<AnalysisRunView | null> {
+export async function getAnalysisRun(
+  db: Kysely<Database>,
+  trustId: string,
+  id: string | null,
+): Promise<AnalysisRunView | null> {
   let q = db.selectFrom('monitor_analysis_runs').selectAll().where('trust_id', '=', trustId);
   q = id ? q.where('id', '=', id) : q.orderBy('created_at', 'desc').limit(1);
   const r = await q.executeTakeFirst();
@@ -82,7 +91,8 @@ export async function getAnalysisRun(db: Kysely<Database>, trustId: string, id: 
   };
 }
 
-const arrayText = (values: readonly number[]) => `{${values.map((v) => (Number.isFinite(v) ? String(v) : 'NULL')).join(',')}}`;
+const arrayText = (values: readonly number[]) =>
+  `{${values.map((v) => (Number.isFinite(v) ? String(v) : 'NULL')).join(',')}}`;
 
 /** Works one analysis run to the end (the worker calls it; so do the benchmark and tests). */
 export async function runAnalysis(db: Kysely<Database>, runId: string): Promise<void> {
@@ -134,7 +144,12 @@ export async function runAnalysis(db: Kysely<Database>, runId: string): Promise<
           criterion: assessment.criterion,
           assumedOutdoorPpm: set.air.outdoorCo2Ppm.value,
         });
-        analyses.push({ roomId, schoolId: engineRoom.schoolId, room: result.room, packId: assessment.criterion.packId });
+        analyses.push({
+          roomId,
+          schoolId: engineRoom.schoolId,
+          room: result.room,
+          packId: assessment.criterion.packId,
+        });
         const thresholds = arrayText(measuredThresholds(assessment.criterion));
         for (const d of result.days)
           dayLines.push(
@@ -191,7 +206,11 @@ export async function runAnalysis(db: Kysely<Database>, runId: string): Promise<
         });
       });
     }
-    await db.updateTable('monitor_analysis_runs').set({ status: 'succeeded', finished_at: new Date() }).where('id', '=', runId).execute();
+    await db
+      .updateTable('monitor_analysis_runs')
+      .set({ status: 'succeeded', finished_at: new Date() })
+      .where('id', '=', runId)
+      .execute();
   } catch (error) {
     await db
       .updateTable('monitor_analysis_runs')

@@ -26,9 +26,18 @@ export interface CalibrationVersion {
 }
 
 /** The room's calibration versions, newest first (404 outside the member's scope). */
-export async function listCalibrations(db: Kysely<Database>, trust: ActiveTrust, roomId: string): Promise<CalibrationVersion[]> {
+export async function listCalibrations(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+): Promise<CalibrationVersion[]> {
   if (!(await readEngineRoom(db, trust.id, trust.schoolIds, roomId))) throw notFound('That room');
-  const rows = await db.selectFrom('room_calibrations').selectAll().where('room_id', '=', roomId).orderBy('version', 'desc').execute();
+  const rows = await db
+    .selectFrom('room_calibrations')
+    .selectAll()
+    .where('room_id', '=', roomId)
+    .orderBy('version', 'desc')
+    .execute();
   return rows.map((r) => ({
     id: r.id,
     version: r.version,
@@ -50,22 +59,39 @@ function bestAfterSchoolDecay(measured: MeasuredRoom): AirChangeEstimate | null 
   let best: AirChangeEstimate | null = null;
   for (const s of Object.values(measured.seasons)) {
     const d = s?.decayAfterSchool ?? null;
-    if (d && (!best || rank[d.confidence] > rank[best.confidence] || (rank[d.confidence] === rank[best.confidence] && d.events > best.events))) best = d;
+    if (
+      d &&
+      (!best ||
+        rank[d.confidence] > rank[best.confidence] ||
+        (rank[d.confidence] === rank[best.confidence] && d.events > best.events))
+    )
+      best = d;
   }
   return best;
 }
 
 /** Fits and stores a new calibration version for the room (the previous one is superseded). */
-export async function calibrate(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, roomId: string): Promise<CalibrationVersion> {
+export async function calibrate(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  roomId: string,
+): Promise<CalibrationVersion> {
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) throw notFound('That room');
-  if (!room.measured) throw badRequest('This room has no analysed readings yet. Import its monitor log (and wait for the analysis) first.');
+  if (!room.measured)
+    throw badRequest(
+      'This room has no analysed readings yet. Import its monitor log (and wait for the analysis) first.',
+    );
   const stored = await getCurrentAssumptionSet(db, trust.id);
   const measured = room.measured;
   const targets = Object.fromEntries(
     Object.values(measured.seasons)
       .filter((s) => s !== undefined && s.occupiedMeanPpm !== null)
-      .map((s) => [s!.season, { occupiedMeanPpm: s!.occupiedMeanPpm as number, baselinePpm: s!.baseline.ppm, days: s!.days }]),
+      .map((s) => [
+        s!.season,
+        { occupiedMeanPpm: s!.occupiedMeanPpm as number, baselinePpm: s!.baseline.ppm, days: s!.days },
+      ]),
   );
   return db.transaction().execute(async (trx) => {
     const last = await trx
@@ -82,7 +108,9 @@ export async function calibrate(db: Kysely<Database>, trust: ActiveTrust, actor:
       label: (days) => `calibrated from ${days} days of readings (version ${version})`,
     });
     if (!fit)
-      throw badRequest('Calibration needs at least 5 school days with readings in one season. Import more of this room’s log first.');
+      throw badRequest(
+        'Calibration needs at least 5 school days with readings in one season. Import more of this room’s log first.',
+      );
     await trx
       .updateTable('room_calibrations')
       .set({ status: 'superseded', ended_at: new Date(), ended_by_email: actor.actorEmail })
@@ -130,7 +158,12 @@ export async function calibrate(db: Kysely<Database>, trust: ActiveTrust, actor:
 }
 
 /** Reverts the room to its uncalibrated model (the version stays in the history). */
-export async function revertCalibration(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, roomId: string): Promise<void> {
+export async function revertCalibration(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  roomId: string,
+): Promise<void> {
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) throw notFound('That room');
   await db.transaction().execute(async (trx) => {

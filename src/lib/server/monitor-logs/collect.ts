@@ -85,8 +85,13 @@ export class LogCollector {
     let b = this.sensors.get(key);
     if (!b) {
       if (this.sensors.size >= MAX_SENSORS)
-        throw badRequest(`This file names more than ${MAX_SENSORS.toLocaleString('en-GB')} sensors. Split it and import the parts one by one.`);
-      b = new SensorBuffer(key, (this.extrasBySensor.get(extrasFor) ?? []).map((e) => e.key));
+        throw badRequest(
+          `This file names more than ${MAX_SENSORS.toLocaleString('en-GB')} sensors. Split it and import the parts one by one.`,
+        );
+      b = new SensorBuffer(
+        key,
+        (this.extrasBySensor.get(extrasFor) ?? []).map((e) => e.key),
+      );
       this.sensors.set(key, b);
     }
     return b;
@@ -104,7 +109,9 @@ export class LogCollector {
     if (blank) return;
     this.rows++;
     const rawTime =
-      L.dateColumn === null ? (cells[L.timeColumn] ?? null) : joinDateAndTime(cells[L.dateColumn] ?? null, cells[L.timeColumn] ?? null);
+      L.dateColumn === null
+        ? (cells[L.timeColumn] ?? null)
+        : joinDateAndTime(cells[L.dateColumn] ?? null, cells[L.timeColumn] ?? null);
     const time = parseTimestamp(rawTime, L.timeFormat.format);
     if (!time || time.seconds - EPOCH_2000_S < 0 || time.seconds - EPOCH_2000_S > 2_100_000_000) {
       this.problems.add('time_unreadable', { row: rowNumber, detail: `"${cellText(rawTime)}"` });
@@ -142,7 +149,11 @@ export class LogCollector {
         continue;
       }
       const extras = this.extrasBySensor.get(extrasFor);
-      buffer.push(time.seconds, Math.round(ppm), extras ? extras.map((e) => cellNumber(cells[e.column] ?? null) ?? Number.NaN) : null);
+      buffer.push(
+        time.seconds,
+        Math.round(ppm),
+        extras ? extras.map((e) => cellNumber(cells[e.column] ?? null) ?? Number.NaN) : null,
+      );
       this.readings++;
       if (this.readings > MAX_READINGS)
         throw badRequest(

@@ -4,7 +4,13 @@
  */
 import type { Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { assessRoom, type AssumptionSet, type RoomAssessment, type RoomAssessmentInput, type RoomCalibration } from '../../engine';
+import {
+  assessRoom,
+  type AssumptionSet,
+  type RoomAssessment,
+  type RoomAssessmentInput,
+  type RoomCalibration,
+} from '../../engine';
 import { applyMeasuredEvidence, type EvidenceSummary, type MeasuredRoom } from '../../engine/measured';
 
 /** A room as the engine input reader gives it, with what this feature adds. */
@@ -15,11 +21,19 @@ interface RoomWithEvidence {
 }
 
 /** Adds each room's active calibration and measured analysis (two indexed reads for the whole chunk). */
-export async function attachMeasuredEvidence<T extends RoomWithEvidence>(db: Kysely<Database>, rooms: T[]): Promise<T[]> {
+export async function attachMeasuredEvidence<T extends RoomWithEvidence>(
+  db: Kysely<Database>,
+  rooms: T[],
+): Promise<T[]> {
   if (rooms.length === 0) return rooms;
   const ids = rooms.map((r) => r.roomId);
   const [calibrations, analyses] = await Promise.all([
-    db.selectFrom('room_calibrations').select(['room_id', 'calibration']).where('room_id', 'in', ids).where('status', '=', 'active').execute(),
+    db
+      .selectFrom('room_calibrations')
+      .select(['room_id', 'calibration'])
+      .where('room_id', 'in', ids)
+      .where('status', '=', 'active')
+      .execute(),
     db.selectFrom('monitor_room_analyses').select(['room_id', 'result']).where('room_id', 'in', ids).execute(),
   ]);
   const calibrationOf = new Map(calibrations.map((c) => [c.room_id, c.calibration as unknown as RoomCalibration]));

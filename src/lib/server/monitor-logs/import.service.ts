@@ -43,7 +43,10 @@ export interface LogOptions {
 const PREVIEW_LIFETIME_HOURS = 24;
 
 /** Reads the whole file: layout from its first rows, then every row into the collector. */
-async function collect(rows: AsyncIterable<SheetRow>, fileName: string): Promise<{ layout: Layout; collector: LogCollector }> {
+async function collect(
+  rows: AsyncIterable<SheetRow>,
+  fileName: string,
+): Promise<{ layout: Layout; collector: LogCollector }> {
   const head: SheetRow[] = [];
   let layout: Layout | null = null;
   let collector: LogCollector | null = null;
@@ -74,7 +77,10 @@ async function collect(rows: AsyncIterable<SheetRow>, fileName: string): Promise
 }
 
 /** Problems of the whole file: its own plus every sensor's, summed by kind, with a plain label. */
-function fileProblems(own: ProblemTally[], sensors: PreparedSensor[]): (ProblemTally & { label: string; leftOut: boolean })[] {
+function fileProblems(
+  own: ProblemTally[],
+  sensors: PreparedSensor[],
+): (ProblemTally & { label: string; leftOut: boolean })[] {
   const byKind = new Map<string, ProblemTally>();
   for (const t of [...own, ...sensors.flatMap((s) => s.problems.list())]) {
     const hit = byKind.get(t.kind);
@@ -116,17 +122,32 @@ export async function previewLog(
   if (readings === 0) throw noReadings(problems);
 
   return withConnection(pool, async (db, client) => {
-    if (options.schoolId && trust.schoolIds && !trust.schoolIds.includes(options.schoolId)) throw notFound('That school');
+    if (options.schoolId && trust.schoolIds && !trust.schoolIds.includes(options.schoolId))
+      throw notFound('That school');
     const rooms = await roomsInScope(db, trust, options.schoolId);
     if (options.schoolId && rooms.length === 0) {
-      const school = await db.selectFrom('schools').select('id').where('id', '=', options.schoolId).where('trust_id', '=', trust.id).executeTakeFirst();
+      const school = await db
+        .selectFrom('schools')
+        .select('id')
+        .where('id', '=', options.schoolId)
+        .where('trust_id', '=', trust.id)
+        .executeTakeFirst();
       if (!school) throw notFound('That school');
     }
     const byCode = indexRooms(rooms);
     const scope = new Set(rooms.map((r) => r.id));
     const remembered = await rememberedMappings(db, trust.id);
-    const firstAt = sensors.map((s) => s.firstAt).filter(Boolean).sort()[0] ?? null;
-    const lastAt = sensors.map((s) => s.lastAt).filter(Boolean).sort().pop() ?? null;
+    const firstAt =
+      sensors
+        .map((s) => s.firstAt)
+        .filter(Boolean)
+        .sort()[0] ?? null;
+    const lastAt =
+      sensors
+        .map((s) => s.lastAt)
+        .filter(Boolean)
+        .sort()
+        .pop() ?? null;
     const extrasMeta = new Map(layout.extras.map((e) => [e.key, { key: e.key, label: e.label, kind: e.kind }]));
     return db.transaction().execute(async (trx) => {
       await sql`DELETE FROM monitor_logs WHERE trust_id = ${trust.id} AND status = 'previewed'
@@ -195,8 +216,11 @@ export async function previewLog(
   });
 }
 
-/** Locks a log for a write and checks a school-limited member may change it. */
-async function lockLog(trx: Kysely<Database>, trust: ActiveTrust, id: string) {
+/**
+ * Locks a log for a write. A school-limited member must be able to see it (they uploaded it, or it covers one
+ * of their schools: 404 otherwise) and may change it only when it covers no other school's rooms (403).
+ */
+async function lockLog(trx: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string) {
   const log = await trx
     .selectFrom('monitor_logs')
     .select(['id', 'status', 'file_name', 'created_by_user_id'])
@@ -206,14 +230,17 @@ async function lockLog(trx: Kysely<Database>, trust: ActiveTrust, id: string) {
     .executeTakeFirst();
   if (!log || log.status === 'cancelled') throw notFound('That monitor log');
   if (trust.schoolIds) {
-    const outside = await trx
+    const schools = await trx
       .selectFrom('monitor_log_sensors as s')
       .innerJoin('rooms as r', 'r.id', 's.room_id')
-      .select('s.id')
+      .select('r.school_id')
+      .distinct()
       .where('s.log_id', '=', id)
-      .where('r.school_id', 'not in', trust.schoolIds.length > 0 ? trust.schoolIds : ['00000000-0000-0000-0000-000000000000'])
-      .executeTakeFirst();
-    if (outside) throw otherSchoolsInLog();
+      .execute();
+    const mine = schools.filter((s) => trust.schoolIds?.includes(s.school_id));
+    const uploader = log.created_by_user_id !== null && log.created_by_user_id === actor.actorUserId;
+    if (!uploader && mine.length === 0) throw notFound('That monitor log');
+    if (mine.length < schools.length) throw otherSchoolsInLog();
   }
   return log;
 }
@@ -239,7 +266,7 @@ export async function mapSensors(
   changes: { sensorId: string; roomId: string | null }[],
 ): Promise<LogView> {
   const touched = await db.transaction().execute(async (trx) => {
-    const log = await lockLog(trx, trust, id);
+    const log = await lockLog(trx, trust, actor, id);
     if (log.status === 'deleted') throw conflict('This log has been deleted; upload it again to use its readings.');
     const rooms = await roomsInScope(trx, trust, null);
     const scope = new Map(rooms.map((r) => [r.id, r]));
@@ -262,7 +289,8 @@ export async function mapSensors(
         .execute();
       const room = change.roomId ? scope.get(change.roomId) : null;
       lines.push(`${sensor.sensor_key} → ${room ? `${room.schoolName} ${room.code}` : 'left out'}`);
-      if (change.roomId && log.status === 'committed') remember.push({ sensorKey: sensor.sensor_key, roomId: change.roomId });
+      if (change.roomId && log.status === 'committed')
+        remember.push({ sensorKey: sensor.sensor_key, roomId: change.roomId });
     }
     await rememberMappings(trx, trust.id, remember, actor.actorEmail);
     await recordAudit(trx, {
@@ -299,8 +327,9 @@ export async function commitLog(
   action: 'commit' | 'cancel',
 ): Promise<{ outcome: LogOutcome; analysisRunId: string | null }> {
   const result = await db.transaction().execute(async (trx) => {
-    const log = await lockLog(trx, trust, id);
-    if (log.status !== 'previewed') throw conflict(`This log is already ${log.status}; upload the file again to import it.`);
+    const log = await lockLog(trx, trust, actor, id);
+    if (log.status !== 'previewed')
+      throw conflict(`This log is already ${log.status}; upload the file again to import it.`);
     const sensors = await trx
       .selectFrom('monitor_log_sensors')
       .select(['id', 'sensor_key', 'room_id', 'reading_count'])
@@ -309,14 +338,30 @@ export async function commitLog(
     const audit = { trustId: trust.id, ...actor, entityType: 'monitor_log', entityId: id };
     if (action === 'cancel') {
       await trx.deleteFrom('monitor_log_sensors').where('log_id', '=', id).execute();
-      const outcome: LogOutcome = { status: 'cancelled', sensorsImported: 0, readingsImported: 0, sensorsLeftOut: sensors.length, readingsLeftOut: sensors.reduce((s, x) => s + x.reading_count, 0), rooms: 0 };
-      await trx.updateTable('monitor_logs').set({ status: 'cancelled', outcome: JSON.stringify(outcome) }).where('id', '=', id).execute();
-      await recordAudit(trx, { ...audit, action: 'monitor_log.cancelled', summary: `Cancelled the import of ${log.file_name}; nothing was stored` });
+      const outcome: LogOutcome = {
+        status: 'cancelled',
+        sensorsImported: 0,
+        readingsImported: 0,
+        sensorsLeftOut: sensors.length,
+        readingsLeftOut: sensors.reduce((s, x) => s + x.reading_count, 0),
+        rooms: 0,
+      };
+      await trx
+        .updateTable('monitor_logs')
+        .set({ status: 'cancelled', outcome: JSON.stringify(outcome) })
+        .where('id', '=', id)
+        .execute();
+      await recordAudit(trx, {
+        ...audit,
+        action: 'monitor_log.cancelled',
+        summary: `Cancelled the import of ${log.file_name}; nothing was stored`,
+      });
       return { outcome, rooms: [] as string[] };
     }
     const kept = sensors.filter((s) => s.room_id !== null);
     const left = sensors.filter((s) => s.room_id === null);
-    if (kept.length === 0) throw badRequest('No sensor of this log is matched to a room. Choose a room for at least one sensor, or cancel.');
+    if (kept.length === 0)
+      throw badRequest('No sensor of this log is matched to a room. Choose a room for at least one sensor, or cancel.');
     if (left.length > 0)
       await trx
         .deleteFrom('monitor_log_days')
@@ -343,7 +388,12 @@ export async function commitLog(
     };
     await trx
       .updateTable('monitor_logs')
-      .set({ status: 'committed', outcome: JSON.stringify(outcome), committed_at: sql<Date>`now()`, committed_by_email: actor.actorEmail })
+      .set({
+        status: 'committed',
+        outcome: JSON.stringify(outcome),
+        committed_at: sql<Date>`now()`,
+        committed_by_email: actor.actorEmail,
+      })
       .where('id', '=', id)
       .execute();
     await recordAudit(trx, {
@@ -354,14 +404,20 @@ export async function commitLog(
     });
     return { outcome, rooms };
   });
-  const analysisRunId = result.rooms.length > 0 ? await requestAnalysis(db, trust.id, result.rooms, actor.actorEmail) : null;
+  const analysisRunId =
+    result.rooms.length > 0 ? await requestAnalysis(db, trust.id, result.rooms, actor.actorEmail) : null;
   return { outcome: result.outcome, analysisRunId };
 }
 
 /** Deletes a log's readings (exactly those) and keeps its row for the history. */
-export async function deleteLog(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string): Promise<{ analysisRunId: string | null }> {
+export async function deleteLog(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+): Promise<{ analysisRunId: string | null }> {
   const rooms = await db.transaction().execute(async (trx) => {
-    const log = await lockLog(trx, trust, id);
+    const log = await lockLog(trx, trust, actor, id);
     if (log.status === 'deleted') throw conflict('This log is already deleted.');
     const touched = log.status === 'committed' ? await roomsOfLog(trx, id) : [];
     const removed = await sql<{ n: number }>`

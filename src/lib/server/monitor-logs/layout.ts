@@ -36,14 +36,16 @@ export interface Layout {
   fixedSensor: { key: string; source: 'title_lines' | 'file_name' } | null;
 }
 
-const TIME_HEADER = /^(date ?\/? ?time|timestamp|time ?stamp|time|datetime|local ?time|utc( time)?|recorded( at)?|reading time|sample time|date and time|zeit|horodatage)\b/i;
+const TIME_HEADER =
+  /^(date ?\/? ?time|timestamp|time ?stamp|time|datetime|local ?time|utc( time)?|recorded( at)?|reading time|sample time|date and time|zeit|horodatage)\b/i;
 const DATE_ONLY = /^date$/i;
 const TIME_ONLY = /^time( of day)?$/i;
 const CO2_HEADER = /co2|co₂|carbon dioxide|\bppm\b/i;
 const SENSOR_HEADER = /sensor|device|monitor|room|location|space|logger|serial|channel|name|unit id|\bid\b/i;
 const TEMP_HEADER = /temp|°c|deg ?c\b/i;
 const HUMIDITY_HEADER = /humid|\brh\b|%\s*rh|rh\s*%/i;
-const TITLE_SENSOR = /^(?:device(?: name)?|sensor(?: name)?|monitor(?: name)?|location|room|logger(?: name)?|name|serial(?: number)?)\s*[:=]?\s*(?<value>.*)$/i;
+const TITLE_SENSOR =
+  /^(?:device(?: name)?|sensor(?: name)?|monitor(?: name)?|location|room|logger(?: name)?|name|serial(?: number)?)\s*[:=]?\s*(?<value>.*)$/i;
 
 /** Words for what a file should look like, for every layout error. */
 const SHAPE_HELP =
@@ -98,9 +100,11 @@ export function detectLayout(rows: readonly CellValue[][], fileName: string): La
     dateColumn = dateIdx;
     timeColumn = timeOnlyIdx;
   } else if (timeColumn < 0) timeColumn = dateIdx >= 0 ? dateIdx : timeOnlyIdx;
-  const sample = data.slice(0, 200).map((r) =>
-    dateColumn === null ? (r[timeColumn] ?? null) : joinDateAndTime(r[dateColumn] ?? null, r[timeColumn] ?? null),
-  );
+  const sample = data
+    .slice(0, 200)
+    .map((r) =>
+      dateColumn === null ? (r[timeColumn] ?? null) : joinDateAndTime(r[dateColumn] ?? null, r[timeColumn] ?? null),
+    );
   const timeFormat = detectFormat(sample);
   if (!timeFormat)
     throw badRequest(
@@ -119,7 +123,9 @@ export function detectLayout(rows: readonly CellValue[][], fileName: string): La
     }
     return filled === 0 ? 0 : numbers / filled;
   };
-  const co2Candidates = header.map((h, i) => ({ h, i })).filter(({ h, i }) => !used.has(i) && CO2_HEADER.test(h) && !TEMP_HEADER.test(h) && !HUMIDITY_HEADER.test(h));
+  const co2Candidates = header
+    .map((h, i) => ({ h, i }))
+    .filter(({ h, i }) => !used.has(i) && CO2_HEADER.test(h) && !TEMP_HEADER.test(h) && !HUMIDITY_HEADER.test(h));
   const sensorCandidates = header
     .map((h, i) => ({ h, i }))
     .filter(({ h, i }) => !used.has(i) && !CO2_HEADER.test(h) && SENSOR_HEADER.test(h) && numericShare(i) < 0.5);
@@ -147,8 +153,12 @@ export function detectLayout(rows: readonly CellValue[][], fileName: string): La
     const looksLikeCo2 = header
       .map((h, i) => ({ h, i }))
       .filter(({ h, i }) => {
-        if (used.has(i) || h === '' || TEMP_HEADER.test(h) || HUMIDITY_HEADER.test(h) || numericShare(i) < 0.9) return false;
-        const values = data.slice(0, 200).map((r) => Number(cellText(r[i] ?? null).replace(',', '.'))).filter(Number.isFinite);
+        if (used.has(i) || h === '' || TEMP_HEADER.test(h) || HUMIDITY_HEADER.test(h) || numericShare(i) < 0.9)
+          return false;
+        const values = data
+          .slice(0, 200)
+          .map((r) => Number(cellText(r[i] ?? null).replace(',', '.')))
+          .filter(Number.isFinite);
         const m = median(values);
         return m >= 250 && m <= 6000;
       });
@@ -168,7 +178,11 @@ export function detectLayout(rows: readonly CellValue[][], fileName: string): La
       ignored.push(h);
       return;
     }
-    const kindOf: ExtraColumn['kind'] = TEMP_HEADER.test(h) ? 'temperature' : HUMIDITY_HEADER.test(h) ? 'humidity' : 'other';
+    const kindOf: ExtraColumn['kind'] = TEMP_HEADER.test(h)
+      ? 'temperature'
+      : HUMIDITY_HEADER.test(h)
+        ? 'humidity'
+        : 'other';
     let sensorKey: string | null = null;
     if (kind === 'wide') {
       sensorKey = sensorKeys.find((k) => h.toLowerCase().includes(k.toLowerCase())) ?? null;
@@ -194,15 +208,18 @@ export function detectLayout(rows: readonly CellValue[][], fileName: string): La
   };
 }
 
-/** "Location: G12" or a "Device name" cell followed by its value, in the lines above the header. */
+/** "Location: G12" or a "Device name" cell followed by its value, in the lines above the header; a room or location wins over a device name. */
 function sensorFromTitleLines(lines: string[][]): Layout['fixedSensor'] {
+  let fallback: Layout['fixedSensor'] = null;
   for (const cells of lines) {
     const filled = cells.filter((c) => c !== '');
     if (filled.length === 0) continue;
     const m = TITLE_SENSOR.exec(filled[0] as string);
     if (!m) continue;
     const value = (m.groups?.value ?? '').trim() || (filled[1] ?? '').trim();
-    if (value) return { key: value, source: 'title_lines' };
+    if (!value) continue;
+    if (/^(location|room)/i.test(filled[0] as string)) return { key: value, source: 'title_lines' };
+    fallback ??= { key: value, source: 'title_lines' };
   }
-  return null;
+  return fallback;
 }

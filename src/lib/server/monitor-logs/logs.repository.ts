@@ -7,21 +7,46 @@ import { normalKey, type RoomRef } from './match';
 import type { ProblemTally } from './problems';
 
 /** Rooms of the trust the member may see (and, when given, of one school only). */
-export async function roomsInScope(db: Kysely<Database>, trust: ActiveTrust, schoolId: string | null): Promise<RoomRef[]> {
+export async function roomsInScope(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  schoolId: string | null,
+): Promise<RoomRef[]> {
   let q = db
     .selectFrom('rooms')
     .innerJoin('schools', 'schools.id', 'rooms.school_id')
-    .select(['rooms.id', 'rooms.code', 'schools.id as school_id', 'schools.name as school_name', 'schools.reference_number'])
+    .select([
+      'rooms.id',
+      'rooms.code',
+      'schools.id as school_id',
+      'schools.name as school_name',
+      'schools.reference_number',
+    ])
     .where('schools.trust_id', '=', trust.id);
-  if (trust.schoolIds) q = q.where('schools.id', 'in', trust.schoolIds.length > 0 ? trust.schoolIds : ['00000000-0000-0000-0000-000000000000']);
+  if (trust.schoolIds)
+    q = q.where(
+      'schools.id',
+      'in',
+      trust.schoolIds.length > 0 ? trust.schoolIds : ['00000000-0000-0000-0000-000000000000'],
+    );
   if (schoolId) q = q.where('schools.id', '=', schoolId);
   const rows = await q.execute();
-  return rows.map((r) => ({ id: r.id, code: r.code, schoolId: r.school_id, schoolName: r.school_name, schoolReference: r.reference_number }));
+  return rows.map((r) => ({
+    id: r.id,
+    code: r.code,
+    schoolId: r.school_id,
+    schoolName: r.school_name,
+    schoolReference: r.reference_number,
+  }));
 }
 
 /** The trust's remembered sensor → room mappings, by normalised sensor name. */
 export async function rememberedMappings(db: Kysely<Database>, trustId: string): Promise<Map<string, string>> {
-  const rows = await db.selectFrom('monitor_sensor_mappings').select(['sensor_key', 'room_id']).where('trust_id', '=', trustId).execute();
+  const rows = await db
+    .selectFrom('monitor_sensor_mappings')
+    .select(['sensor_key', 'room_id'])
+    .where('trust_id', '=', trustId)
+    .execute();
   return new Map(rows.map((r) => [r.sensor_key, r.room_id]));
 }
 
@@ -36,7 +61,9 @@ export async function rememberMappings(
   if (unique.size === 0) return;
   await db
     .insertInto('monitor_sensor_mappings')
-    .values([...unique].map(([sensor_key, room_id]) => ({ trust_id: trustId, sensor_key, room_id, updated_by_email: email })))
+    .values(
+      [...unique].map(([sensor_key, room_id]) => ({ trust_id: trustId, sensor_key, room_id, updated_by_email: email })),
+    )
     .onConflict((oc) =>
       oc.columns(['trust_id', 'sensor_key']).doUpdateSet((eb) => ({
         room_id: eb.ref('excluded.room_id'),
@@ -138,7 +165,12 @@ export async function listLogs(db: Kysely<Database>, trust: ActiveTrust, userId:
 }
 
 /** One log with its sensors, as far as the member may see it; 404 otherwise. */
-export async function getLog(db: Kysely<Database>, trust: ActiveTrust, userId: string | null, id: string): Promise<LogView> {
+export async function getLog(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  userId: string | null,
+  id: string,
+): Promise<LogView> {
   const { rows } = await sql<{
     id: string;
     file_name: string;
@@ -157,7 +189,9 @@ export async function getLog(db: Kysely<Database>, trust: ActiveTrust, userId: s
     created_by_user_id: string | null;
     committed_at: Date | null;
     deleted_at: Date | null;
-  }>`SELECT l.* FROM monitor_logs l WHERE l.id = ${id}::uuid AND l.trust_id = ${trust.id} AND ${visibleSql(trust, userId)}`.execute(db);
+  }>`SELECT l.* FROM monitor_logs l WHERE l.id = ${id}::uuid AND l.trust_id = ${trust.id} AND ${visibleSql(trust, userId)}`.execute(
+    db,
+  );
   const log = rows[0];
   if (!log || log.status === 'cancelled') throw notFound('That monitor log');
   const sensors = await db

@@ -39,7 +39,12 @@ export function indexRooms(rooms: readonly RoomRef[]): Map<string, RoomRef[]> {
 
 function schoolNamed(key: string, room: RoomRef): boolean {
   const k = normalKey(key);
-  if (room.schoolReference && normalKey(room.schoolReference).length >= 3 && k.includes(normalKey(room.schoolReference))) return true;
+  if (
+    room.schoolReference &&
+    normalKey(room.schoolReference).length >= 3 &&
+    k.includes(normalKey(room.schoolReference))
+  )
+    return true;
   const firstWord = normalKey(room.schoolName.split(/\s+/)[0] ?? '');
   return firstWord.length >= 4 && k.includes(firstWord);
 }
@@ -56,7 +61,12 @@ export function matchSensor(
   if (saved && inScope.has(saved)) return { match: 'remembered', roomId: saved, candidates: [] };
   let candidates = byCode.get(key) ?? [];
   if (candidates.length === 0) {
-    const tokens = new Set(sensorKey.split(/[^A-Za-z0-9]+/).map(normalKey).filter((t) => t.length >= 2));
+    const tokens = new Set(
+      sensorKey
+        .split(/[^A-Za-z0-9]+/)
+        .map(normalKey)
+        .filter((t) => t.length >= 2),
+    );
     // "Room G 12" → also try adjacent tokens joined.
     const parts = sensorKey.split(/[^A-Za-z0-9]+/).filter(Boolean);
     for (let i = 0; i + 1 < parts.length; i++) tokens.add(normalKey(`${parts[i]}${parts[i + 1]}`));
@@ -73,6 +83,8 @@ export function matchSensor(
   return {
     match: 'ambiguous',
     roomId: null,
-    candidates: candidates.slice(0, 10).map((r) => ({ roomId: r.id, code: r.code, schoolId: r.schoolId, schoolName: r.schoolName })),
+    candidates: candidates
+      .slice(0, 10)
+      .map((r) => ({ roomId: r.id, code: r.code, schoolId: r.schoolId, schoolName: r.schoolName })),
   };
 }

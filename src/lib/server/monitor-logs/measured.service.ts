@@ -33,11 +33,20 @@ export interface RoomMeasuredView {
 }
 
 /** The room's measured seasons, its comparison with the model and chart data; null when it is out of scope. */
-export async function getRoomMeasured(db: Kysely<Database>, trust: ActiveTrust, roomId: string, marginPpm = 200): Promise<RoomMeasuredView | null> {
+export async function getRoomMeasured(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+  marginPpm = 200,
+): Promise<RoomMeasuredView | null> {
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) return null;
   const stored = await getCurrentAssumptionSet(db, trust.id);
-  const row = await db.selectFrom('monitor_room_analyses').select(['analysed_at']).where('room_id', '=', roomId).executeTakeFirst();
+  const row = await db
+    .selectFrom('monitor_room_analyses')
+    .select(['analysed_at'])
+    .where('room_id', '=', roomId)
+    .executeTakeFirst();
   const assessment = assessWithEvidence(room, stored.set, { withCurve: true });
   const measured = room.measured ?? null;
   const charts: SeasonChart[] = [];
@@ -46,7 +55,9 @@ export async function getRoomMeasured(db: Kysely<Database>, trust: ActiveTrust, 
     const all = byRoom.get(roomId) ?? [];
     const window = { from: 7 * 60, to: 18 * 60 };
     for (const season of ['winter', 'mid', 'summer'] as const) {
-      const days = all.filter((d) => d.season === season && d.weekday >= 1 && d.weekday <= 5 && d.co2Ppm.length > 20).slice(-CHART_DAYS);
+      const days = all
+        .filter((d) => d.season === season && d.weekday >= 1 && d.weekday <= 5 && d.co2Ppm.length > 20)
+        .slice(-CHART_DAYS);
       if (days.length === 0) continue;
       charts.push({
         season,
@@ -143,7 +154,8 @@ export async function listComparison(
     );
     for (const b of batch) if (b) out.push(b);
   }
-  const contradicts = (c: RoomComparison) => c.direction === 'staler_than_predicted' || c.direction === 'fresher_than_predicted';
+  const contradicts = (c: RoomComparison) =>
+    c.direction === 'staler_than_predicted' || c.direction === 'fresher_than_predicted';
   out.sort(
     (a, b) =>
       Number(contradicts(b.comparison)) - Number(contradicts(a.comparison)) ||

@@ -16,4 +16,6 @@ export const otherSchoolsInLog = () =>
 
 /** 400: the request body is missing (the upload must be the file itself). */
 export const bodyMissing = () =>
-  badRequest('Send the log file itself as the request body (not a form), with its name in the fileName query parameter.');
+  badRequest(
+    'Send the log file itself as the request body (not a form), with its name in the fileName query parameter.',
+  );

@@ -38,6 +38,12 @@ export const ComparisonQuerySchema = z.object({
 
 /** A room's measured days for the chart: a date range (at most 62 days). */
 export const RoomDaysQuerySchema = z.object({
-  from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'from must be a date like 2026-01-05').optional(),
-  to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'to must be a date like 2026-01-31').optional(),
+  from: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, 'from must be a date like 2026-01-05')
+    .optional(),
+  to: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, 'to must be a date like 2026-01-31')
+    .optional(),
 });

@@ -8,11 +8,19 @@ import type { PreparedDay } from './prepare';
 const hex = (a: ArrayBufferView) => `\\x${Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('hex')}`;
 
 /** COPY columns of monitor_log_days, in the order dayCopyLine writes them. */
-export const DAY_COPY_SQL = 'COPY monitor_log_days (sensor_id, day, reading_count, times_s, co2_ppm, extras) FROM STDIN';
+export const DAY_COPY_SQL =
+  'COPY monitor_log_days (sensor_id, day, reading_count, times_s, co2_ppm, extras) FROM STDIN';
 
 /** One sensor-day as a line of COPY text (bytea in hex form). */
 export function dayCopyLine(sensorId: string, day: PreparedDay): string {
-  return copyLine([sensorId, day.date, day.times.length, hex(day.times), hex(day.ppm), day.extras ? hex(day.extras) : null]);
+  return copyLine([
+    sensorId,
+    day.date,
+    day.times.length,
+    hex(day.times),
+    hex(day.ppm),
+    day.extras ? hex(day.extras) : null,
+  ]);
 }
 
 /** A typed view of a bytea copied to fresh, aligned memory. */

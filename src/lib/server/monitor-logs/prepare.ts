@@ -111,12 +111,19 @@ export function decideBasis(collector: LogCollector, chosen: TimeBasis | null): 
   if (chosen) return { basis: chosen, reason: `Read as ${chosen === 'UTC' ? 'UTC' : 'UK local time'}, as chosen.` };
   const votes = clockChangeEvidence(collector.sensors.values());
   if (votes.utc > votes.local)
-    return { basis: 'UTC', reason: 'Read as UTC: the file logs straight through a clock change without a missing or repeated hour.' };
+    return {
+      basis: 'UTC',
+      reason: 'Read as UTC: the file logs straight through a clock change without a missing or repeated hour.',
+    };
   if (votes.local > 0)
-    return { basis: 'Europe/London', reason: 'Read as UK local time: the file skips or repeats the hour at a clock change.' };
+    return {
+      basis: 'Europe/London',
+      reason: 'Read as UK local time: the file skips or repeats the hour at a clock change.',
+    };
   return {
     basis: 'Europe/London',
-    reason: 'Read as UK local time (the usual for school monitors; the file spans no clock change to tell). Choose UTC if the logger kept UTC.',
+    reason:
+      'Read as UK local time (the usual for school monitors; the file spans no clock change to tell). Choose UTC if the logger kept UTC.',
   };
 }
 
@@ -136,7 +143,10 @@ export function prepareSensor(b: SensorBuffer, basis: BasisDecision['basis']): P
     const naive = (b.naive[i] as number) + EPOCH_2000_S;
     const t = basis === 'Europe/London' ? localToUtc(naive, previous) : naive;
     if (Number.isNaN(t)) {
-      problems.add('clock_change_gap', { at: naiveText(b.naive[i] as number), detail: 'no such time in the UK that day' });
+      problems.add('clock_change_gap', {
+        at: naiveText(b.naive[i] as number),
+        detail: 'no such time in the UK that day',
+      });
       keep[i] = 0;
       continue;
     }
@@ -166,7 +176,11 @@ export function prepareSensor(b: SensorBuffer, basis: BasisDecision['basis']): P
       keep[i] = 0;
       problems.add('duplicate', { at: iso(utc[i] as number), detail: `${b.ppm[i]} ppm twice` });
     } else {
-      problems.add('conflicting_duplicate', { at: iso(utc[i] as number), detail: `${b.ppm[j]} and ${b.ppm[i]} ppm` }, 2);
+      problems.add(
+        'conflicting_duplicate',
+        { at: iso(utc[i] as number), detail: `${b.ppm[j]} and ${b.ppm[i]} ppm` },
+        2,
+      );
       keep[i] = 0;
       keep[j] = 0;
     }
@@ -209,7 +223,8 @@ export function prepareSensor(b: SensorBuffer, basis: BasisDecision['basis']): P
   const kept: number[] = [];
   for (let k = 0; k < n; k++) if (keep[at(k)]) kept.push(at(k));
   const steps: number[] = [];
-  for (let k = 1; k < kept.length; k++) steps.push((utc[kept[k] as number] as number) - (utc[kept[k - 1] as number] as number));
+  for (let k = 1; k < kept.length; k++)
+    steps.push((utc[kept[k] as number] as number) - (utc[kept[k - 1] as number] as number));
   const sortedSteps = [...steps].sort((x, y) => x - y);
   const interval = sortedSteps.length > 0 ? (sortedSteps[(sortedSteps.length - 1) >> 1] as number) : null;
   if (interval !== null && (interval < 50 || interval > 15.5 * 60))
@@ -221,7 +236,11 @@ export function prepareSensor(b: SensorBuffer, basis: BasisDecision['basis']): P
     for (let k = 1; k < kept.length; k++) {
       const from = utc[kept[k - 1] as number] as number;
       const to = utc[kept[k] as number] as number;
-      if (to - from > gapSeconds) problems.add('gap', { at: `${iso(from)} – ${iso(to)}`, detail: `${Math.round((to - from) / 60)} min without readings` });
+      if (to - from > gapSeconds)
+        problems.add('gap', {
+          at: `${iso(from)} – ${iso(to)}`,
+          detail: `${Math.round((to - from) / 60)} min without readings`,
+        });
     }
   }
 

@@ -26,19 +26,27 @@ export const logTooLarge = (kind: 'csv' | 'xlsx', bytes: number) =>
   );
 
 const tooManyLogRows = () =>
-  badRequest(`This sheet has more than ${MAX_LOG_ROWS.toLocaleString('en-GB')} rows. Split the log by month and import the parts one by one.`);
+  badRequest(
+    `This sheet has more than ${MAX_LOG_ROWS.toLocaleString('en-GB')} rows. Split the log by month and import the parts one by one.`,
+  );
 
 /** .csv or .xlsx from the file name; anything else is refused with what to do. */
 export function logKindOf(fileName: string): 'csv' | 'xlsx' {
   const lower = fileName.toLowerCase();
   if (lower.endsWith('.csv') || lower.endsWith('.txt') || lower.endsWith('.tsv')) return 'csv';
   if (lower.endsWith('.xlsx') || lower.endsWith('.xlsm')) return 'xlsx';
-  if (lower.endsWith('.xls')) throw badRequest('Old-style .xls workbooks cannot be read. Save the log as .xlsx or .csv and upload it again.');
+  if (lower.endsWith('.xls'))
+    throw badRequest('Old-style .xls workbooks cannot be read. Save the log as .xlsx or .csv and upload it again.');
   throw badRequest(`"${fileName}" is not a log we can read. Upload the monitor's export as .csv or .xlsx.`);
 }
 
 /** Counts bytes as they pass and refuses the stream past `limit`. */
-async function* capped(source: AsyncIterable<Buffer | string>, limit: number, kind: 'csv' | 'xlsx', onBytes?: (n: number) => void) {
+async function* capped(
+  source: AsyncIterable<Buffer | string>,
+  limit: number,
+  kind: 'csv' | 'xlsx',
+  onBytes?: (n: number) => void,
+) {
   let total = 0;
   for await (const chunk of source) {
     const buf = typeof chunk === 'string' ? Buffer.from(chunk) : chunk;
@@ -68,7 +76,9 @@ async function* csvRows(source: Readable, onBytes?: (n: number) => void): AsyncG
   const first = Buffer.concat(head);
   if (first.length === 0) throw badRequest('The file is empty. Choose the log file again.');
   if (first.subarray(0, 4096).includes(0))
-    throw badRequest('This file is not CSV text (it contains binary data). If it is a workbook, give it an .xlsx name.');
+    throw badRequest(
+      'This file is not CSV text (it contains binary data). If it is a workbook, give it an .xlsx name.',
+    );
   let encoding: BufferEncoding = 'utf8';
   try {
     // Cut at the last newline so a multi-byte character split by the 64 kB boundary is not taken for bad UTF-8.
@@ -78,7 +88,14 @@ async function* csvRows(source: Readable, onBytes?: (n: number) => void): AsyncG
     encoding = 'latin1';
   }
   const delimiter = sniffDelimiter(first.toString(encoding, 0, Math.min(first.length, 8192)));
-  const parser = parse({ delimiter, bom: true, encoding, relax_column_count: true, relax_quotes: true, max_record_size: 1024 * 1024 });
+  const parser = parse({
+    delimiter,
+    bom: true,
+    encoding,
+    relax_column_count: true,
+    relax_quotes: true,
+    max_record_size: 1024 * 1024,
+  });
   const feed = (async () => {
     try {
       if (!parser.write(first)) await new Promise((r) => parser.once('drain', r));
@@ -104,7 +121,9 @@ async function* csvRows(source: Readable, onBytes?: (n: number) => void): AsyncG
   } catch (error) {
     if (error instanceof AppError) throw error;
     const message = error instanceof Error ? error.message : String(error);
-    throw badRequest(`This CSV file cannot be read near row ${rowNumber + 1} (${message}). Export the log again and retry.`);
+    throw badRequest(
+      `This CSV file cannot be read near row ${rowNumber + 1} (${message}). Export the log again and retry.`,
+    );
   } finally {
     await feed.catch(() => undefined);
   }
@@ -118,7 +137,11 @@ async function readAll(source: Readable, limit: number, onBytes?: (n: number) =>
 }
 
 /** The rows of an upload's first sheet with any data. */
-export async function* logRows(kind: 'csv' | 'xlsx', source: Readable, onBytes?: (n: number) => void): AsyncGenerator<SheetRow> {
+export async function* logRows(
+  kind: 'csv' | 'xlsx',
+  source: Readable,
+  onBytes?: (n: number) => void,
+): AsyncGenerator<SheetRow> {
   if (kind === 'csv') {
     yield* csvRows(source, onBytes);
     return;

@@ -14,14 +14,19 @@ export function seasonOfMonth(set: AssumptionSet, month: number): Season | null 
 }
 
 /** Builds one measured day from its stored pieces (several logs may hold parts of the same day). */
-export function toMeasuredDay(date: string, season: Season, parts: { times: Int32Array; ppm: Int16Array }[]): MeasuredDay {
+export function toMeasuredDay(
+  date: string,
+  season: Season,
+  parts: { times: Int32Array; ppm: Int16Array }[],
+): MeasuredDay {
   let times: Int32Array;
   let ppm: Int16Array;
   if (parts.length === 1) ({ times, ppm } = parts[0]!);
   else {
     // Merge pieces in time order; the same instant from two logs is kept once.
     const all: [number, number][] = [];
-    for (const p of parts) for (let i = 0; i < p.times.length; i++) all.push([p.times[i] as number, p.ppm[i] as number]);
+    for (const p of parts)
+      for (let i = 0; i < p.times.length; i++) all.push([p.times[i] as number, p.ppm[i] as number]);
     all.sort((a, b) => a[0] - b[0]);
     const merged = all.filter((x, i) => i === 0 || x[0] !== (all[i - 1] as [number, number])[0]);
     times = Int32Array.from(merged.map((x) => x[0]));

@@ -100,8 +100,7 @@ function scan(text: string, out: { pm: number; offsetMin: number | null }): numb
       return -1;
     }
     // Separators: / - . : space T , and an optional "at" is not accepted.
-    if (c === 47 || c === 45 || c === 46 || c === 58 || c === 32 || c === 84 || c === 116 || c === 44 || c === 9)
-      i++;
+    if (c === 47 || c === 45 || c === 46 || c === 58 || c === 32 || c === 84 || c === 116 || c === 44 || c === 9) i++;
     else return -1;
   }
   return i < len && n >= 7 ? -1 : n;
@@ -148,7 +147,9 @@ export function parseTimestamp(value: CellValue, format: TimestampFormat): Parse
   const year = format === 'iso' ? fields[0]! : fields[2]!;
   if (format === 'iso' ? year < 1000 : year >= 100 && year < 1000) return null;
   const offset = scanState.offsetMin;
-  return offset === null ? { seconds: Math.round(t), absolute: false } : { seconds: Math.round(t - offset * 60), absolute: true };
+  return offset === null
+    ? { seconds: Math.round(t), absolute: false }
+    : { seconds: Math.round(t - offset * 60), absolute: true };
 }
 
 /** Joins a date cell and a time cell (text "HH:mm[:ss]", a day fraction, or a spreadsheet time) into one. */
@@ -181,7 +182,11 @@ export interface FormatChoice {
 function dateFnsPatterns(format: 'iso' | 'day_first' | 'month_first', sample: string): string[] {
   const sep = /\d([/.-])\d/.exec(sample)?.[1] ?? '/';
   const date =
-    format === 'iso' ? `yyyy${sep}MM${sep}dd` : format === 'day_first' ? `dd${sep}MM${sep}yyyy` : `MM${sep}dd${sep}yyyy`;
+    format === 'iso'
+      ? `yyyy${sep}MM${sep}dd`
+      : format === 'day_first'
+        ? `dd${sep}MM${sep}yyyy`
+        : `MM${sep}dd${sep}yyyy`;
   const dateShort = format === 'iso' ? date : date.replace('yyyy', 'yy');
   const out: string[] = [];
   for (const d of [date, dateShort])
@@ -193,11 +198,15 @@ function dateFnsPatterns(format: 'iso' | 'day_first' | 'month_first', sample: st
 
 /** True when date-fns reads the text as the same wall-clock time (offset-free text only). */
 export function agreesWithDateFns(text: string, format: 'iso' | 'day_first' | 'month_first', seconds: number): boolean {
-  const cleaned = text.trim().replace(/[.,]\d+(?=$|\s)/, '').replace(',', '');
+  const cleaned = text
+    .trim()
+    .replace(/[.,]\d+(?=$|\s)/, '')
+    .replace(',', '');
   for (const pattern of dateFnsPatterns(format, cleaned)) {
     const d = parseWithDateFns(cleaned, pattern, new Date(2000, 0, 1));
     if (!isValid(d)) continue;
-    const naive = Date.UTC(d.getFullYear(), d.getMonth(), d.getDate(), d.getHours(), d.getMinutes(), d.getSeconds()) / 1000;
+    const naive =
+      Date.UTC(d.getFullYear(), d.getMonth(), d.getDate(), d.getHours(), d.getMinutes(), d.getSeconds()) / 1000;
     return Math.abs(naive - Math.floor(seconds)) < 1;
   }
   return false;
@@ -206,7 +215,8 @@ export function agreesWithDateFns(text: string, format: 'iso' | 'day_first' | 'm
 function regularity(times: number[]): number {
   if (times.length < 3) return 0;
   let worst = 0;
-  for (let i = 1; i < times.length; i++) worst = Math.max(worst, Math.abs((times[i] as number) - (times[i - 1] as number)));
+  for (let i = 1; i < times.length; i++)
+    worst = Math.max(worst, Math.abs((times[i] as number) - (times[i - 1] as number)));
   return worst;
 }
 
@@ -275,7 +285,9 @@ export function offsetsForNaive(naiveSeconds: number): number[] {
     tzOffset(SCHOOL_TIME_ZONE, new Date((probe - 3 * 3600) * 1000)),
     tzOffset(SCHOOL_TIME_ZONE, new Date((probe + 3 * 3600) * 1000)),
   ]);
-  const valid = [...seen].filter((o) => tzOffset(SCHOOL_TIME_ZONE, new Date((probe - o * 60) * 1000)) === o).sort((a, b) => b - a);
+  const valid = [...seen]
+    .filter((o) => tzOffset(SCHOOL_TIME_ZONE, new Date((probe - o * 60) * 1000)) === o)
+    .sort((a, b) => b - a);
   if (hourCache.size > 200_000) hourCache.clear();
   hourCache.set(hour, valid);
   return valid;

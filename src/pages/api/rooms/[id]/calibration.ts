@@ -4,7 +4,11 @@ import { getDb } from '../../../../lib/server/db/client';
 import { IdParamSchema } from '../../../../lib/server/estate/estate.schemas';
 import { json } from '../../../../lib/server/http/respond';
 import { route } from '../../../../lib/server/http/route';
-import { calibrate, listCalibrations, revertCalibration } from '../../../../lib/server/monitor-logs/calibration.service';
+import {
+  calibrate,
+  listCalibrations,
+  revertCalibration,
+} from '../../../../lib/server/monitor-logs/calibration.service';
 
 /** The room's calibration versions, newest first. */
 export const GET = route(async ({ locals, params }) => {
