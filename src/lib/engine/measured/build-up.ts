@@ -91,14 +91,16 @@ export function fitBuildUp(
   };
   let result: { parameterValues: number[] };
   try {
+    // Started from the integral estimate, two parameters with the analytical Jacobian settle within a few
+    // iterations; the library stops only on an absolute error, so the iterations are capped instead.
     result = levenbergMarquardt({ x, y: ppm }, model, {
       initialValues: [start, ppm[0] as number],
-      jacobian,
+      jacobianFunction: jacobian,
       minValues: [R.minAch, 0],
       maxValues: [R.maxAch, 20_000],
-      maxIterations: 60,
+      maxIterations: 15,
       errorTolerance: 1e-6,
-    } as Parameters<typeof levenbergMarquardt>[2]);
+    });
   } catch {
     return null;
   }

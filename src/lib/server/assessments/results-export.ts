@@ -38,6 +38,7 @@ const EXTRA_HEADER = [
   'Pupil-hours removed per GBP 1,000',
   'Assumptions version',
   'Run finished',
+  'Risk evidence',
 ] as const;
 
 /**
@@ -47,6 +48,13 @@ const EXTRA_HEADER = [
 export function guardText(value: string): string {
   return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
 }
+
+/** How the exports name what a room's risk rests on. */
+export const EVIDENCE_WORDS: Record<string, string> = {
+  measured: 'Measured (monitor readings)',
+  calibrated: 'Calibrated model',
+  predicted: 'Predicted (model)',
+};
 
 const round = (v: number | null, digits = 0) => (v === null || !Number.isFinite(v) ? null : Number(v.toFixed(digits)));
 
@@ -109,11 +117,13 @@ async function writeBook(
       assumptions_version: string | null;
       assumption_set_id: string | null;
       finished_at: Date | null;
+      risk_evidence: string;
     }>`
       SELECT rr.rank, s.name AS school, b.name AS block, r.code, r.name AS room_name, rr.risk_band, rr.mean_co2_ppm, rr.peak_co2_ppm,
         rr.units_recommended, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupils,
         rr.worst_season, rr.criteria_met, rr.pupil_hours_above, rr.reason, rr.annual_saving_kwh, rr.annual_saving_kgco2e,
-        rr.discounted_payback_years, rr.pupil_hours_removed_per_1000_gbp, ar.assumptions_version, ar.assumption_set_id, ar.finished_at
+        rr.discounted_payback_years, rr.pupil_hours_removed_per_1000_gbp, ar.assumptions_version, ar.assumption_set_id, ar.finished_at,
+        rr.risk_evidence
       FROM room_results rr
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
@@ -151,6 +161,7 @@ async function writeBook(
           round(r.pupil_hours_removed_per_1000_gbp, 1),
           guardText(r.assumptions_version ?? ''),
           r.finished_at ? r.finished_at.toISOString().slice(0, 16).replace('T', ' ') : '',
+          EVIDENCE_WORDS[r.risk_evidence] ?? r.risk_evidence,
         ])
         .commit();
     }

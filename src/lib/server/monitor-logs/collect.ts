@@ -57,10 +57,28 @@ export class SensorBuffer {
 export function cellNumber(value: CellValue): number | null {
   if (typeof value === 'number') return Number.isFinite(value) ? value : null;
   if (value === null || typeof value === 'boolean' || value instanceof Date) return null;
+  // Fast path for plain digits ("612", "612.5", "-5"), what nearly every cell of a log is.
+  const first = value.charCodeAt(0);
+  if ((first >= 48 && first <= 57) || first === 45) {
+    const direct = Number(value);
+    if (Number.isFinite(direct)) return direct;
+  }
   const text = value.trim();
   if (text === '') return null;
   const m = /^(-?\d+(?:[.,]\d+)?)\s*(?:ppm|°c|%|%rh)?$/i.exec(text);
   return m ? Number((m[1] as string).replace(',', '.')) : null;
+}
+
+/** A cell's text: plain strings as they are (trimmed only when they need it), anything else through cellText. */
+function textOf(value: CellValue): string {
+  if (typeof value === 'string') {
+    const n = value.length;
+    if (n === 0) return value;
+    const a = value.charCodeAt(0);
+    const b = value.charCodeAt(n - 1);
+    if (a > 32 && a !== 160 && b > 32 && b !== 160 && a !== 39) return value;
+  }
+  return cellText(value);
 }
 
 /** Everything the rows gave: sensors' buffers, file-level problems, counts, and whether times were absolute. */
@@ -122,7 +140,7 @@ export class LogCollector {
       let key: string;
       let extrasFor: string | null = null;
       if (L.kind === 'long') {
-        key = cellText(cells[L.sensorColumn as number] ?? null);
+        key = textOf(cells[L.sensorColumn as number] ?? null);
         if (key === '') {
           this.problems.add('sensor_missing', { row: rowNumber, detail: 'the sensor cell is empty' });
           continue;
@@ -133,7 +151,7 @@ export class LogCollector {
         extrasFor = co2.sensorKey;
       }
       const raw = cells[co2.column] ?? null;
-      if (raw === null || cellText(raw) === '') continue;
+      if (raw === null || raw === '' || textOf(raw) === '') continue;
       const buffer = this.buffer(key, extrasFor);
       const ppm = cellNumber(raw);
       if (ppm === null) {

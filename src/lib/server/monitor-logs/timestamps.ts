@@ -108,15 +108,23 @@ function scan(text: string, out: { pm: number; offsetMin: number | null }): numb
 
 const scanState = { pm: 0, offsetMin: null as number | null };
 
+// The last calendar day built: a log repeats the same date on hundreds of rows in a row.
+let lastDayKey = -1;
+let lastDayStart = Number.NaN;
+
 function build(y: number, mo: number, d: number, h: number, mi: number, s: number, pm: number): number {
   if (y < 100) y += 2000;
   if (pm === 1 && h === 12) h = 0;
   else if (pm === 2 && h < 12) h += 12;
   if (mo < 1 || mo > 12 || d < 1 || d > 31 || h > 24 || mi > 59 || s >= 61) return Number.NaN;
-  const ms = Date.UTC(y, mo - 1, d, h, mi, Math.floor(s));
-  // Date.UTC rolls 31 April over to 1 May: refuse days the month does not have.
-  if (new Date(ms).getUTCDate() !== d && h < 24) return Number.NaN;
-  return ms / 1000 + (s - Math.floor(s));
+  const key = (y * 100 + mo) * 100 + d;
+  if (key !== lastDayKey) {
+    const ms = Date.UTC(y, mo - 1, d);
+    // Date.UTC rolls 31 April over to 1 May: refuse days the month does not have.
+    lastDayStart = new Date(ms).getUTCDate() === d ? ms / 1000 : Number.NaN;
+    lastDayKey = key;
+  }
+  return lastDayStart + h * 3600 + mi * 60 + s;
 }
 
 /** Parses a cell with a known format; null when the cell is not a valid time in that format. */
@@ -276,10 +284,18 @@ export type TimeBasis = 'Europe/London' | 'UTC';
 const hourCache = new Map<number, number[]>();
 
 /** The UTC offsets under which a naive wall-clock time exists in the school's zone: none (spring gap), one, or two (autumn repeat). */
+let lastHour = Number.NaN;
+let lastOffsets: number[] = [];
+
 export function offsetsForNaive(naiveSeconds: number): number[] {
   const hour = Math.floor(naiveSeconds / 3600);
+  if (hour === lastHour) return lastOffsets;
   const hit = hourCache.get(hour);
-  if (hit) return hit;
+  if (hit) {
+    lastHour = hour;
+    lastOffsets = hit;
+    return hit;
+  }
   const probe = hour * 3600 + 1800;
   const seen = new Set<number>([
     tzOffset(SCHOOL_TIME_ZONE, new Date((probe - 3 * 3600) * 1000)),

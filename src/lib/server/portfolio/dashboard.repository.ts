@@ -23,8 +23,18 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     : sql`s.trust_id = ${trust.id}`;
   const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
   const [headline, register, lastRun] = await Promise.all([
-    sql<{ assessed: number; failing: number; pupils_failing: number; capital: number; saving: number }>`
+    sql<{
+      assessed: number;
+      failing: number;
+      pupils_failing: number;
+      capital: number;
+      saving: number;
+      measured: number;
+      calibrated: number;
+    }>`
       SELECT count(*)::int AS assessed,
+        count(*) FILTER (WHERE rr.risk_evidence = 'measured')::int AS measured,
+        count(*) FILTER (WHERE rr.risk_evidence = 'calibrated')::int AS calibrated,
         count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
         coalesce(sum(rr.pupils) FILTER (WHERE NOT rr.criteria_met), 0)::int AS pupils_failing,
         coalesce(sum(rr.capital_cost_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS capital,
@@ -51,6 +61,7 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     capitalAllUnitsGbp: h.capital,
     annualSavingGbp: h.saving,
     lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
+    evidence: { measured: h.measured, calibrated: h.calibrated, predicted: h.assessed - h.measured - h.calibrated },
   };
 }
 

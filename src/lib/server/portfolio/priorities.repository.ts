@@ -75,6 +75,7 @@ interface Row {
   annual_saving_gbp: number | null;
   simple_payback_years: number | null;
   npv_gbp: number | null;
+  risk_evidence: PriorityRow['riskEvidence'];
 }
 
 const toPriorityRow = (r: Row): PriorityRow => ({
@@ -103,6 +104,7 @@ const toPriorityRow = (r: Row): PriorityRow => ({
   annualSavingGbp: r.annual_saving_gbp,
   simplePaybackYears: r.simple_payback_years,
   npvGbp: r.npv_gbp,
+  riskEvidence: r.risk_evidence,
 });
 
 /** Selects priority rows in the requested order; ranked set first (narrow), then the page's result rows. */
@@ -128,7 +130,7 @@ export async function selectPriorityRows(
     SELECT rr.room_id, page.rank, page.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
       r.code AS room_code, r.name AS room_name, rr.pupils, rr.ventilation_type, rr.worst_season, rr.mean_co2_ppm,
       rr.peak_co2_ppm, rr.criteria_met, rr.risk_band, rr.reason, rr.pupil_hours_above, rr.units_recommended,
-      rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp
+      rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.risk_evidence
     FROM page
       JOIN room_results rr ON rr.room_id = page.room_id AND rr.is_current AND rr.trust_id = ${trust.id}
       JOIN schools s ON s.id = rr.school_id
