@@ -12,6 +12,7 @@ import {
 } from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
 import { useMemo } from 'react';
+import { co2DayAxes } from '../co2-day-axes';
 import { useDarkTheme } from '../use-dark-theme';
 
 ModuleRegistry.registerModules([LineSeriesModule, NumberAxisModule, LegendModule, CrossLinesModule]);
@@ -21,9 +22,6 @@ export interface MeasuredDaysChartProps {
   days: { date: string; points: { minute: number; co2Ppm: number }[] }[];
   limits: { label: string; ppm: number }[];
 }
-
-const clock = (minute: number) =>
-  `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(Math.round(minute % 60)).padStart(2, '0')}`;
 
 export default function MeasuredDaysChart({ predicted, days, limits }: MeasuredDaysChartProps) {
   const dark = useDarkTheme();
@@ -58,28 +56,7 @@ export default function MeasuredDaysChart({ predicted, days, limits }: MeasuredD
           marker: { enabled: false },
         },
       ],
-      axes: {
-        x: {
-          type: 'number',
-          position: 'bottom',
-          nice: false,
-          label: { formatter: ({ value }: { value: number }) => clock(value) },
-          title: { text: 'Time of day' },
-        },
-        y: {
-          type: 'number',
-          position: 'left',
-          min: 0,
-          title: { text: 'CO2 (ppm)' },
-          crossLines: limits.map((l, i) => ({
-            type: 'line' as const,
-            value: l.ppm,
-            stroke: dark ? '#f08a83' : '#a1302b',
-            lineDash: [6, 4],
-            label: { text: l.label, position: i === 0 ? ('bottom-right' as const) : ('top-right' as const) },
-          })),
-        },
-      },
+      axes: co2DayAxes(limits, dark),
       legend: { position: 'bottom' },
     };
   }, [predicted, days, limits, dark]);

@@ -114,6 +114,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
         if (f >= 1) setBusy(`Reading and checking ${file.name}`);
       });
       setPreview(result);
+      await refreshLogs();
     } catch (e) {
       setError((e as Error).message);
     } finally {
@@ -231,6 +232,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
               multiple
               className="sr-only"
               aria-label="Monitor log files"
+              data-testid="log-files"
               onChange={(e) => choose(e.target.files)}
             />
             <button

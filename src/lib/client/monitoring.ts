@@ -3,7 +3,7 @@ import type { AnalysisRunView } from '../server/monitor-logs/analysis.service';
 import type { CalibrationVersion } from '../server/monitor-logs/calibration.service';
 import type { LogOutcome } from '../server/monitor-logs/import.service';
 import type { LogView } from '../server/monitor-logs/logs.repository';
-import { ApiError, apiFetch, errorFrom } from './api';
+import { apiFetch, uploadWithProgress } from './api';
 
 export type { AnalysisRunView, CalibrationVersion, LogOutcome, LogView };
 
@@ -18,25 +18,8 @@ export function uploadLog(
 ): Promise<LogView> {
   const params = new URLSearchParams({ fileName: file.name, timeBasis: options.timeBasis });
   if (options.schoolId) params.set('schoolId', options.schoolId);
-  return new Promise((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', `/api/monitor-logs?${params.toString()}`);
-    xhr.setRequestHeader('accept', 'application/json');
-    xhr.setRequestHeader('content-type', 'application/octet-stream');
-    xhr.upload.onprogress = (e) => {
-      if (e.lengthComputable) onProgress(e.loaded / e.total);
-    };
-    xhr.onload = async () => {
-      const response = new Response(xhr.responseText, {
-        status: xhr.status,
-        headers: { 'content-type': 'application/json' },
-      });
-      if (xhr.status >= 200 && xhr.status < 300) resolve((await response.json()) as LogView);
-      else reject(await errorFrom(response));
-    };
-    xhr.onerror = () =>
-      reject(new ApiError(0, 'network', 'The upload did not reach the server. Check your connection and try again.'));
-    xhr.send(file);
+  return uploadWithProgress<LogView>(`/api/monitor-logs?${params.toString()}`, file, onProgress, {
+    'content-type': 'application/octet-stream',
   });
 }
 

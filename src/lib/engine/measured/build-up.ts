@@ -10,7 +10,7 @@
  */
 import { levenbergMarquardt } from 'ml-levenberg-marquardt';
 import type { TimetableSegment } from '../types';
-import { iqr, median } from './statistics';
+import { summariseRates } from './statistics';
 import type { AirChangeEstimate, Confidence, MeasuredDay } from './types';
 
 export const BUILD_UP_NOTE = {
@@ -159,19 +159,12 @@ export function summariseBuildUps(
   rejected: number,
   volumeM3: number,
 ): AirChangeEstimate | null {
-  if (fits.length === 0) return null;
-  const rates = fits.map((f) => f.achPerH);
-  const ach = median(rates);
-  const spread = iqr(rates);
-  const rms = median(fits.map((f) => f.rmsPpm));
-  return {
-    achPerH: ach,
-    flowLps: (ach * volumeM3) / 3.6,
-    events: fits.length,
+  return summariseRates({
+    rates: fits.map((e) => e.achPerH),
+    qualities: fits.map((e) => e.rmsPpm),
     rejected,
-    iqrAchPerH: spread,
-    fitQuality: rms,
-    confidence: buildUpConfidence(fits.length, rms, ach > 0 ? spread / ach : Number.POSITIVE_INFINITY),
+    volumeM3,
+    confidence: buildUpConfidence,
     note: BUILD_UP_NOTE,
-  };
+  });
 }

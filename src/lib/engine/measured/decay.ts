@@ -8,7 +8,7 @@
  * CO2 rises again (people back) or at a gap; at least 4 readings over at least 15 minutes.
  */
 import type { TimetableSegment } from '../types';
-import { iqr, median } from './statistics';
+import { summariseRates } from './statistics';
 import type { AirChangeEstimate, Confidence, MeasuredDay } from './types';
 
 export const DECAY_NOTE = {
@@ -174,19 +174,12 @@ export function summariseDecays(
   rejected: number,
   volumeM3: number,
 ): AirChangeEstimate | null {
-  if (events.length === 0) return null;
-  const rates = events.map((e) => e.achPerH);
-  const ach = median(rates);
-  const spread = iqr(rates);
-  const r2 = median(events.map((e) => e.r2));
-  return {
-    achPerH: ach,
-    flowLps: (ach * volumeM3) / 3.6,
-    events: events.length,
+  return summariseRates({
+    rates: events.map((e) => e.achPerH),
+    qualities: events.map((e) => e.r2),
     rejected,
-    iqrAchPerH: spread,
-    fitQuality: r2,
-    confidence: decayConfidence(events.length, r2, ach > 0 ? spread / ach : Number.POSITIVE_INFINITY),
+    volumeM3,
+    confidence: decayConfidence,
     note: DECAY_NOTE,
-  };
+  });
 }

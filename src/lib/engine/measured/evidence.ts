@@ -20,7 +20,11 @@ export interface EvidenceSummary {
 }
 
 const SEASONS: readonly Season[] = ['winter', 'mid', 'summer'];
-const SEASON_WORDS: Record<Season, string> = { winter: 'winter', mid: 'spring and autumn', summer: 'summer' };
+const SEASON_WORDS: Record<Season, string> = {
+  winter: 'winter',
+  mid: 'mid-season (spring and autumn)',
+  summer: 'summer',
+};
 
 const list = (words: string[]) =>
   words.length <= 1 ? (words[0] ?? '') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;

@@ -90,6 +90,8 @@ export class LogCollector {
   /** True when times carried their own offset (or were Unix times), so no time basis applies. */
   absolute: boolean | null = null;
   private readonly extrasBySensor = new Map<string | null, { column: number; key: string }[]>();
+  private lastTimeText: string | null = null;
+  private lastTime: ReturnType<typeof parseTimestamp> = null;
 
   constructor(readonly layout: Layout) {
     for (const e of layout.extras) {
@@ -130,7 +132,16 @@ export class LogCollector {
       L.dateColumn === null
         ? (cells[L.timeColumn] ?? null)
         : joinDateAndTime(cells[L.dateColumn] ?? null, cells[L.timeColumn] ?? null);
-    const time = parseTimestamp(rawTime, L.timeFormat.format);
+    // Long files repeat each time once per sensor: the text parsed last is reused.
+    let time: ReturnType<typeof parseTimestamp>;
+    if (typeof rawTime === 'string' && rawTime === this.lastTimeText) time = this.lastTime;
+    else {
+      time = parseTimestamp(rawTime, L.timeFormat.format);
+      if (typeof rawTime === 'string') {
+        this.lastTimeText = rawTime;
+        this.lastTime = time;
+      }
+    }
     if (!time || time.seconds - EPOCH_2000_S < 0 || time.seconds - EPOCH_2000_S > 2_100_000_000) {
       this.problems.add('time_unreadable', { row: rowNumber, detail: `"${cellText(rawTime)}"` });
       return;
