@@ -156,9 +156,11 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
     setBusy(action === 'commit' ? 'Importing the readings' : 'Cancelling');
     try {
       const result = await commitLog(preview.id, action);
+      // The analysis this commit queued is fetched first, so the outcome never shows beside an older run's status.
+      const queued = result.analysisRunId ? (await latestAnalysis()).run : null;
+      if (queued) setRun(queued);
       setOutcome(result.outcome);
       setPreview(null);
-      if (result.analysisRunId) setRun((await latestAnalysis()).run);
       await refreshLogs();
       next();
     } catch (e) {
