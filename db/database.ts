@@ -3,6 +3,7 @@ import type { AssessmentsTables } from './tables/assessments';
 import type { AuthTables } from './tables/auth';
 import type { BillingTables } from './tables/billing';
 import type { EstateTables, AuditEventsTable, BlocksTable, RoomsTable, SchoolsTable } from './tables/estate';
+import type { MonitoringTables } from './tables/monitoring';
 import type { PortfolioTables } from './tables/portfolio';
 import type { RegisterTables } from './tables/register';
 
@@ -13,7 +14,8 @@ export interface Database
     RegisterTables,
     AssessmentsTables,
     BillingTables,
-    PortfolioTables {}
+    PortfolioTables,
+    MonitoringTables {}
 
 export type SchoolRow = Selectable<SchoolsTable>;
 export type NewSchool = Insertable<SchoolsTable>;

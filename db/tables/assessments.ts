@@ -99,6 +99,8 @@ export interface RoomResultsTable {
   unit_run_hours: number | null;
   assumed_count: Generated<number>;
   detail: Json<unknown>;
+  /** What the risk rests on: 'measured' readings, the 'calibrated' model, or the model's prediction. */
+  risk_evidence: Generated<'measured' | 'calibrated' | 'predicted'>;
 }
 
 /** Tables of the assessments feature: runs, per-room results and versioned assumption sets. */

@@ -12,6 +12,7 @@ import {
 } from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
 import { useMemo } from 'react';
+import { co2DayAxes } from '../co2-day-axes';
 import { useDarkTheme } from '../use-dark-theme';
 
 ModuleRegistry.registerModules([LineSeriesModule, NumberAxisModule, LegendModule, CrossLinesModule]);
@@ -27,8 +28,6 @@ export interface Co2DayChartProps {
   limits: { label: string; ppm: number }[];
 }
 
-const clock = (minute: number) =>
-  `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(Math.round(minute % 60)).padStart(2, '0')}`;
 const SEASON_COLOURS = { light: ['#1f6f6b', '#8a5a12', '#a1302b'], dark: ['#5cc3ba', '#e7b35f', '#f08a83'] };
 
 export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
@@ -49,28 +48,7 @@ export default function Co2DayChart({ curves, limits }: Co2DayChartProps) {
         stroke: colours[i % colours.length] ?? '#1f6f6b',
         marker: { enabled: false },
       })),
-      axes: {
-        x: {
-          type: 'number',
-          position: 'bottom',
-          nice: false,
-          label: { formatter: ({ value }: { value: number }) => clock(value) },
-          title: { text: 'Time of day' },
-        },
-        y: {
-          type: 'number',
-          position: 'left',
-          min: 0,
-          title: { text: 'CO2 (ppm)' },
-          crossLines: limits.map((l, i) => ({
-            type: 'line' as const,
-            value: l.ppm,
-            stroke: dark ? '#f08a83' : '#a1302b',
-            lineDash: [6, 4],
-            label: { text: l.label, position: i === 0 ? ('bottom-right' as const) : ('top-right' as const) },
-          })),
-        },
-      },
+      axes: co2DayAxes(limits, dark),
       legend: { position: 'bottom' },
     };
   }, [curves, limits, dark]);

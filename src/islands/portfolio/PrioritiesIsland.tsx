@@ -43,6 +43,8 @@ interface Filters {
   criteriaMet?: boolean | undefined;
 }
 
+/** What a room's risk rests on, as the list shows it. */
+const EVIDENCE_LABELS = { measured: 'measured', calibrated: 'calibrated model', predicted: 'predicted' } as const;
 const SORT_IDS = new Set([
   'rank',
   'school',
@@ -186,7 +188,14 @@ function Priorities(props: PrioritiesProps) {
       {
         id: 'riskBand',
         header: 'Band',
-        cell: ({ row }) => <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} />,
+        cell: ({ row }) => (
+          <span className="flex flex-col items-start gap-0.5">
+            <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} />
+            <span className="text-xs text-ink-muted" data-testid="risk-evidence">
+              {EVIDENCE_LABELS[row.original.riskEvidence]}
+            </span>
+          </span>
+        ),
       },
       {
         id: 'reason',

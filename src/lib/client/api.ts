@@ -41,3 +41,35 @@ export async function apiFetch<T>(path: string, init: Omit<RequestInit, 'body'> 
   if (response.status === 204) return undefined as T;
   return (await response.json()) as T;
 }
+
+/**
+ * Sends a body with XMLHttpRequest so the upload's progress can be shown (fetch cannot report it); resolves to
+ * the JSON answer or rejects with the ApiError our error shape carries.
+ */
+export function uploadWithProgress<T>(
+  url: string,
+  body: XMLHttpRequestBodyInit,
+  onProgress: (fraction: number) => void,
+  headers: Record<string, string> = {},
+): Promise<T> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', url);
+    xhr.setRequestHeader('accept', 'application/json');
+    for (const [name, value] of Object.entries(headers)) xhr.setRequestHeader(name, value);
+    xhr.upload.onprogress = (e) => {
+      if (e.lengthComputable) onProgress(e.loaded / e.total);
+    };
+    xhr.onload = async () => {
+      const response = new Response(xhr.responseText, {
+        status: xhr.status,
+        headers: { 'content-type': 'application/json' },
+      });
+      if (xhr.status >= 200 && xhr.status < 300) resolve((await response.json()) as T);
+      else reject(await errorFrom(response));
+    };
+    xhr.onerror = () =>
+      reject(new ApiError(0, 'network', 'The upload did not reach the server. Check your connection and try again.'));
+    xhr.send(body);
+  });
+}

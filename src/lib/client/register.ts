@@ -3,7 +3,7 @@ import { keepPreviousData, QueryClient, useMutation, useQuery, useQueryClient } 
 import type { Page, Room } from '../server/estate/estate.types';
 import type { ImportHistoryItem, ImportOutcome, ImportPreview } from '../server/register/import.service';
 import type { RoomCreate, RoomFields } from '../server/register/register.schemas';
-import { ApiError, apiFetch, errorFrom } from './api';
+import { apiFetch, uploadWithProgress } from './api';
 
 export type { ImportHistoryItem, ImportOutcome, ImportPreview, Page, Room, RoomFields };
 export type { RegisterField } from '../server/register/columns';
@@ -146,25 +146,7 @@ export function uploadRegister(
   if (options.headerRow) form.set('headerRow', String(options.headerRow));
   if (options.clearBlanks) form.set('clearBlanks', 'true');
   if (options.mapping) form.set('mapping', JSON.stringify(options.mapping));
-  return new Promise((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', '/api/imports');
-    xhr.setRequestHeader('accept', 'application/json');
-    xhr.upload.onprogress = (e) => {
-      if (e.lengthComputable) onProgress(e.loaded / e.total);
-    };
-    xhr.onload = async () => {
-      const response = new Response(xhr.responseText, {
-        status: xhr.status,
-        headers: { 'content-type': 'application/json' },
-      });
-      if (xhr.status >= 200 && xhr.status < 300) resolve((await response.json()) as ImportPreview);
-      else reject(await errorFrom(response));
-    };
-    xhr.onerror = () =>
-      reject(new ApiError(0, 'network', 'The upload did not reach the server. Check your connection and try again.'));
-    xhr.send(form);
-  });
+  return uploadWithProgress<ImportPreview>('/api/imports', form, onProgress);
 }
 
 /** Commits the valid rows of a previewed import, or cancels it. */

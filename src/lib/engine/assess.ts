@@ -26,6 +26,7 @@ import type {
   SeasonAssessment,
   WindowAssumptions,
 } from './types';
+import { calibrationOf, describeCalibration } from './measured/calibration-hook';
 import { validateRoomInput } from './validate-input';
 import type { SeasonFlows } from './ventilation';
 import { windowAirflowLps } from './window-airflow';
@@ -137,12 +138,18 @@ export function assessRoom(
 
   // --- The air each route brings ----------------------------------------------------------------
   const airPermeability = blockAirPermeability(block, set, assumed);
-  const infLps = infiltrationLps({
-    airPermeabilityM3hM2: airPermeability,
-    envelopeAreaM2: room.floorAreaM2 * set.infiltration.envelopeAreaPerFloorArea.value,
-    volumeM3,
-    divisor: set.infiltration.kpDivisor.value,
-  });
+  // A calibration from measured CO2 replaces the infiltration estimate and scales window use per season.
+  const calibration = calibrationOf(input);
+  if (calibration)
+    assumed.push({ field: 'calibration', value: 'from measured CO2', reason: describeCalibration(calibration) });
+  const infLps =
+    calibration?.infiltrationLps ??
+    infiltrationLps({
+      airPermeabilityM3hM2: airPermeability,
+      envelopeAreaM2: room.floorAreaM2 * set.infiltration.envelopeAreaPerFloorArea.value,
+      volumeM3,
+      divisor: set.infiltration.kpDivisor.value,
+    });
   const existing = set.mechanical.existingSystems.value[resolved.ventilationType];
   const hasFan = existing.balance !== 'none';
   let fanLps = 0;
@@ -187,9 +194,10 @@ export function assessRoom(
       dischargeCoefficient: set.windows.dischargeCoefficient.value,
       deltaCp: set.windows.crossWindDeltaCp.value,
     });
+    const seasonWindowUse = windows.useWithMechanical * (calibration?.windowUseFactor[season] ?? 1);
     const flows: SeasonFlows = {
-      windowOccupiedLps: capacityLps * windows.openFractionOccupied[season] * windows.useWithMechanical,
-      windowEmptyLps: capacityLps * windows.openFractionEmpty[season] * windows.useWithMechanical,
+      windowOccupiedLps: capacityLps * windows.openFractionOccupied[season] * seasonWindowUse,
+      windowEmptyLps: capacityLps * windows.openFractionEmpty[season] * seasonWindowUse,
       infiltrationLps: infLps,
       balancedLps: existing.balance === 'balanced' ? fanLps : 0,
       unbalancedLps: existing.balance === 'unbalanced' ? fanLps : 0,
@@ -211,7 +219,7 @@ export function assessRoom(
       outdoorTempC,
       indoorTempC: profile.indoorTempC,
       windSpeed10Ms,
-      windowOpenFraction: windows.openFractionOccupied[season] * windows.useWithMechanical,
+      windowOpenFraction: windows.openFractionOccupied[season] * seasonWindowUse,
       thresholdsPpm: thresholds,
       criterion,
       target,
@@ -265,7 +273,8 @@ export function assessRoom(
     winterOutdoorTempC: hours.winter.meanSchoolHoursTempC,
     summerDailyMeanTempC,
     summerFlows: seasonFlows.summer,
-    summerWindowOpenFraction: windows.openFractionOccupied.summer * windows.useWithMechanical,
+    summerWindowOpenFraction:
+      windows.openFractionOccupied.summer * windows.useWithMechanical * (calibration?.windowUseFactor.summer ?? 1),
   });
 
   // --- Hours behind every energy figure -----------------------------------------------------------

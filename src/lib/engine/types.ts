@@ -17,6 +17,7 @@ import type {
   VentilationType,
   WindowType,
 } from './vocabulary';
+import type { EvidenceSummary } from './measured/evidence';
 
 /** The vocabulary types, re-exported for callers of the engine. */
 export type {
@@ -117,6 +118,21 @@ export interface RoomAssessmentInput {
   room: RoomInput;
   block: BlockInput;
   school: SchoolInput;
+  /** The room's calibration from measured CO2 (engine/measured/calibrate.ts), if one is active. */
+  calibration?: RoomCalibration | null;
+}
+
+/**
+ * What a calibration from measured CO2 changes in a room's model: how far windows are really opened in each
+ * season (a factor on the season profile's opening fractions, occupied and empty alike) and the infiltration.
+ */
+export interface RoomCalibration {
+  /** Factor on the window opening of each calibrated season, ≥ 0 (a season not listed keeps 1). */
+  windowUseFactor: Partial<Record<Season, number>>;
+  /** Infiltration measured by after-school decays, L/s ≥ 0; null keeps the air-permeability estimate. */
+  infiltrationLps: number | null;
+  /** Words for results, e.g. 'calibrated from 42 days of readings (version 2)'. */
+  label: string;
 }
 
 /** Options for one call of assessRoom. */
@@ -723,6 +739,8 @@ export interface RoomAssessment {
   /** Assumptions missing from an older stored set and taken from Airtally's defaults (paths). */
   assumptionsFilled: string[];
   cautions: string[];
+  /** What the risk rests on (measured readings, calibrated model, prediction), once measured evidence is applied. */
+  evidence?: EvidenceSummary;
 }
 
 // ---------------------------------------------------------------------------------------------

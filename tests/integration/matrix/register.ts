@@ -1,16 +1,7 @@
-import { signedIn, type MatrixEntry } from './types';
+import { signedIn, writers, type MatrixEntry } from './types';
 
 // An id that exists nowhere, so write entries change nothing.
 const NOBODY = '00000000-0000-4000-8000-000000000000';
-/** Writers (estates manager, trust admin and the other trust's admin) get `status`; viewers and finance leads 403. */
-const writers = (status: number, other = status) => ({
-  anonymous: 401,
-  viewer: 403,
-  finance_lead: 403,
-  estates_manager: status,
-  trust_admin: status,
-  other_trust: other,
-});
 
 /**
  * The register API: everyone signed in reads the import history, the template and exports; only

@@ -39,3 +39,13 @@ export const all = (status: number): Record<Actor, number> =>
 
 /** 401 for anonymous callers, `status` for every signed-in actor. */
 export const signedIn = (status: number): Record<Actor, number> => ({ ...all(status), anonymous: 401 });
+
+/** Writers (estates manager, trust admin, and the other trust's admin in their own trust) get `status`; viewers and finance leads 403. */
+export const writers = (status: number, other = status): Record<Actor, number> => ({
+  anonymous: 401,
+  viewer: 403,
+  finance_lead: 403,
+  estates_manager: status,
+  trust_admin: status,
+  other_trust: other,
+});

@@ -1,7 +1,9 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { RoomAssessmentInput, TimetableSegment } from '../../engine';
+import type { MeasuredRoom } from '../../engine/measured';
 import { parseStoredTimetable } from '../estate/timetable';
+import { attachMeasuredEvidence } from '../monitor-logs/evidence.repository';
 
 /** A room of the register as the engine reads it, with the ids a result row needs. */
 export interface EngineRoom {
@@ -11,6 +13,8 @@ export interface EngineRoom {
   schoolId: string;
   blockId: string | null;
   input: RoomAssessmentInput;
+  /** The room's measured-CO2 analysis, when it has readings (the calibration travels in `input`). */
+  measured?: MeasuredRoom | null;
 }
 
 /** Which rooms a run covers. */
@@ -151,7 +155,10 @@ export async function readRoomChunk(
     ORDER BY rooms.id
     LIMIT ${limit}`.execute(db);
   const timetables: TimetableCache = new Map();
-  return rows.map((r) => toEngineRoom(r, timetables));
+  return attachMeasuredEvidence(
+    db,
+    rows.map((r) => toEngineRoom(r, timetables)),
+  );
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */
@@ -166,5 +173,5 @@ export async function readEngineRoom(
     SELECT ${COLUMNS}
     FROM rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
     WHERE schools.trust_id = ${trustId} AND ${limited} AND rooms.id = ${roomId}::uuid`.execute(db);
-  return rows[0] ? toEngineRoom(rows[0], new Map()) : null;
+  return rows[0] ? ((await attachMeasuredEvidence(db, [toEngineRoom(rows[0], new Map())]))[0] ?? null) : null;
 }

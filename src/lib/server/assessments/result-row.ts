@@ -50,6 +50,8 @@ export interface ResultRow {
   assumedCount: number;
   /** The RoomAssessment JSON (assessed without curves). */
   detailJson: string;
+  /** What the risk rests on: measured readings, the calibrated model, or the prediction. */
+  riskEvidence: 'measured' | 'calibrated' | 'predicted';
 }
 
 /** "2 × Wall unit 150 + 1 × Sill unit 60"; empty when no units are recommended. */
@@ -111,6 +113,7 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     heatingDegreeHoursKh: assessment.hours.heatingDegreeHoursKh,
     unitRunHours: assessment.hours.unitRunHoursPerYear,
     assumedCount: assessment.assumed.length,
+    riskEvidence: assessment.evidence?.kind ?? 'predicted',
     detailJson: JSON.stringify(assessment),
   };
 }

@@ -63,6 +63,7 @@ const EXTRA_HEADER = [
   'Assumed values',
   'Assumptions version',
   'Run finished',
+  'Risk evidence',
 ] as const;
 
 /** £ number formats, so a finance lead can sum the columns. */
@@ -83,6 +84,13 @@ const MONEY_COLUMNS = new Set<string>([
 export function guardText(value: string): string {
   return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
 }
+
+/** How the exports name what a room's risk rests on. */
+export const EVIDENCE_WORDS: Record<string, string> = {
+  measured: 'Measured (monitor readings)',
+  calibrated: 'Calibrated model',
+  predicted: 'Predicted (model)',
+};
 
 const round = (v: number | null, digits = 0) => (v === null || !Number.isFinite(v) ? null : Number(v.toFixed(digits)));
 
@@ -168,6 +176,7 @@ async function writeBook(
       assumptions_version: string | null;
       assumption_set_id: string | null;
       finished_at: Date | null;
+      risk_evidence: string;
     }>`
       SELECT pr.rank, s.name AS school, b.name AS block, r.code, r.name AS room_name, rr.risk_band, rr.mean_co2_ppm, rr.peak_co2_ppm,
         rr.units_recommended, rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupils,
@@ -176,7 +185,7 @@ async function writeBook(
         rr.annual_fan_saving_kwh, rr.annual_maintenance_saving_gbp, rr.replacement_cost_gbp, rr.pupil_hours_removed,
         rr.heating_fuel, rr.fuel_price_gbp_per_kwh, rr.price_source, rr.heating_efficiency, rr.efficiency_source,
         rr.heating_degree_hours_kh, rr.unit_run_hours, rr.assumed_count,
-        ar.assumptions_version, ar.assumption_set_id, ar.finished_at
+        ar.assumptions_version, ar.assumption_set_id, ar.finished_at, rr.risk_evidence
       FROM portfolio_ranks pr
       JOIN room_results rr ON rr.room_id = pr.room_id AND rr.trust_id = pr.trust_id AND rr.is_current
       JOIN rooms r ON r.id = rr.room_id
@@ -231,6 +240,7 @@ async function writeBook(
           r.assumed_count,
           guardText(r.assumptions_version ?? ''),
           r.finished_at ? r.finished_at.toISOString().slice(0, 16).replace('T', ' ') : '',
+          EVIDENCE_WORDS[r.risk_evidence] ?? r.risk_evidence,
         ])
         .commit();
     }

@@ -49,6 +49,7 @@ const COPY_COLUMNS = [
   'unit_run_hours',
   'assumed_count',
   'detail',
+  'risk_evidence',
 ] as const;
 
 /** The COPY statement for result rows (also used by the benchmark's I/O floor). */
@@ -100,6 +101,7 @@ export function toCopyLine(r: ResultRow): string {
     r.unitRunHours,
     r.assumedCount,
     r.detailJson,
+    r.riskEvidence,
   ]);
 }
 

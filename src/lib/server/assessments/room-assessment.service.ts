@@ -11,6 +11,7 @@ import { getDb } from '../db/client';
 import { badRequest, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { WhatIfBody } from './assessments.schemas';
+import { assessWithEvidence } from '../monitor-logs/evidence.repository';
 import { readEngineRoom } from './engine-input.repository';
 import { getRoomRank } from '../portfolio/ranking.repository';
 
@@ -31,8 +32,13 @@ export interface RoomAssessmentView {
 }
 
 function assessOrExplain(input: RoomAssessmentInput, set: AssumptionSet): RoomAssessment {
+  return explainEngineErrors(() => assessRoom(input, set, { withCurve: true }));
+}
+
+/** Runs an assessment, turning the engine's input errors into a 400 a person can act on. */
+function explainEngineErrors<T>(assess: () => T): T {
   try {
-    return assessRoom(input, set, { withCurve: true });
+    return assess();
   } catch (error) {
     if (error instanceof EngineInputError)
       throw badRequest(`This room cannot be assessed: ${error.message}`, { field: error.field });
@@ -65,7 +71,7 @@ export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Pro
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) return null;
   const stored = await getCurrentAssumptionSet(db, trust.id);
-  const assessment = assessOrExplain(room.input, stored.set);
+  const assessment = explainEngineErrors(() => assessWithEvidence(room, stored.set, { withCurve: true }));
   return {
     assessment,
     assumptionsLabel: stored.label,

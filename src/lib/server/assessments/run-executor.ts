@@ -1,4 +1,5 @@
-import { assessRoom, EngineInputError, type AssumptionSet } from '../../engine';
+import { EngineInputError, type AssumptionSet } from '../../engine';
+import { assessWithEvidence } from '../monitor-logs/evidence.repository';
 import type { RunProblem } from '../../../../db/tables/assessments';
 import { getDb, getPool } from '../db/client';
 import { getAssumptionSetById } from './assumptions.repository';
@@ -63,7 +64,7 @@ async function assessAndWrite(
       const problems: RunProblem[] = [];
       for (const room of rooms) {
         try {
-          const assessment = assessRoom(room.input, set, { withCurve: false });
+          const assessment = assessWithEvidence(room, set, { withCurve: false });
           rows.push(toResultRow(run.id, room, assessment));
         } catch (error) {
           if (!(error instanceof EngineInputError)) throw error;

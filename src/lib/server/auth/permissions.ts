@@ -11,6 +11,7 @@ export const STATEMENTS = {
   assessment: ['read', 'run', 'export'],
   assumptions: ['read', 'edit_technical', 'edit_financial'],
   portfolio: ['read', 'save_weights', 'export'],
+  monitoring: ['read', 'import', 'calibrate'],
   members: ['read', 'invite', 'update', 'remove'],
   billing: ['read', 'manage'],
   audit: ['read'],
@@ -25,6 +26,7 @@ const READ_ALL: Grants = {
   assessment: ['read'],
   assumptions: ['read'],
   portfolio: ['read'],
+  monitoring: ['read'],
   members: ['read'],
   billing: ['read'],
 };
@@ -38,6 +40,7 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
     assessment: ['read', 'run', 'export'],
     assumptions: ['read', 'edit_technical'],
     portfolio: ['read', 'save_weights', 'export'],
+    monitoring: ['read', 'import', 'calibrate'],
   },
   finance_lead: {
     ...READ_ALL,

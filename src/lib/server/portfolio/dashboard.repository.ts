@@ -30,8 +30,12 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
       capital: number;
       saving: number;
       baseline: string | null;
+      measured: number;
+      calibrated: number;
     }>`
       SELECT count(*)::int AS assessed, mode() WITHIN GROUP (ORDER BY rr.baseline) AS baseline,
+        count(*) FILTER (WHERE rr.risk_evidence = 'measured')::int AS measured,
+        count(*) FILTER (WHERE rr.risk_evidence = 'calibrated')::int AS calibrated,
         count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
         coalesce(sum(rr.pupils) FILTER (WHERE NOT rr.criteria_met), 0)::int AS pupils_failing,
         coalesce(sum(rr.capital_cost_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS capital,
@@ -59,6 +63,7 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     annualSavingGbp: h.saving,
     baseline: h.baseline,
     lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
+    evidence: { measured: h.measured, calibrated: h.calibrated, predicted: h.assessed - h.measured - h.calibrated },
   };
 }
 

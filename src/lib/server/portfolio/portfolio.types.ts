@@ -34,6 +34,8 @@ export interface PriorityRow {
   /** 1 (least concern) – 4 (most). */
   riskBand: number;
   riskBandLabel: string;
+  /** What the risk rests on: measured readings, the calibrated model, or the prediction. */
+  riskEvidence: 'measured' | 'calibrated' | 'predicted';
   reason: string;
   pupilHoursAbove: number;
   unitsRecommended: string;
@@ -187,6 +189,8 @@ export interface Dashboard {
     /** The baseline the saving is against (BaselineId of the latest results), null before any appraisal. */
     baseline: string | null;
     lastRunFinishedAt: string | null;
+    /** Assessed rooms by what their risk rests on. */
+    evidence: { measured: number; calibrated: number; predicted: number };
   };
   co2BySchool: Co2BySchool[];
   /** Rooms with units that pay back; `neverPayBack` counts those whose units never do (not plotted). */

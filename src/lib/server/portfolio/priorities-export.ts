@@ -7,6 +7,7 @@ import { ENGINE_CAUTIONS } from '../../engine/assess';
 import { label } from '../../engine/vocabulary';
 import type { ActiveTrust } from '../auth/context';
 import type { PrioritiesQuery } from './portfolio.schemas';
+import { EVIDENCE_WORDS } from '../assessments/results-export';
 import { selectPriorityRows } from './priorities.repository';
 import { ensureRanks } from './ranking.repository';
 
@@ -59,6 +60,7 @@ export async function exportPriorities(
     { header: 'Peak CO2 (ppm)', key: 'peak', width: 12 },
     { header: 'Criterion met', key: 'met', width: 10 },
     { header: 'Risk band', key: 'band', width: 18 },
+    { header: 'Risk evidence', key: 'evidence', width: 22 },
     { header: 'Reason', key: 'reason', width: 60 },
     { header: 'Units recommended', key: 'units', width: 10 },
     { header: 'Unit models', key: 'models', width: 28 },
@@ -87,6 +89,7 @@ export async function exportPriorities(
         peak: round(r.peakCo2Ppm),
         met: r.criteriaMet ? 'Yes' : 'No',
         band: `${r.riskBand} ${r.riskBandLabel}`,
+        evidence: EVIDENCE_WORDS[r.riskEvidence],
         reason: guardCell(r.reason),
         units: r.unitCount,
         models: guardCell(r.unitsRecommended),

@@ -82,6 +82,7 @@ interface Row {
   baseline: string | null;
   verdict: string | null;
   assumed_count: number;
+  risk_evidence: PriorityRow['riskEvidence'];
 }
 
 const toPriorityRow = (r: Row): PriorityRow => ({
@@ -113,6 +114,7 @@ const toPriorityRow = (r: Row): PriorityRow => ({
   baseline: r.baseline,
   verdict: r.verdict,
   assumedCount: r.assumed_count,
+  riskEvidence: r.risk_evidence,
 });
 
 /** Selects priority rows in the requested order; ranked set first (narrow), then the page's result rows. */
@@ -140,7 +142,7 @@ export async function selectPriorityRows(
       r.code AS room_code, r.name AS room_name, rr.pupils, rr.ventilation_type, rr.worst_season, rr.mean_co2_ppm,
       rr.peak_co2_ppm, rr.criteria_met, rr.risk_band, rr.reason, rr.pupil_hours_above, rr.units_recommended,
       rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.baseline,
-      rr.verdict, rr.assumed_count
+      rr.verdict, rr.assumed_count, rr.risk_evidence
     FROM page
       JOIN room_results rr ON rr.room_id = page.room_id AND rr.is_current AND rr.trust_id = ${trust.id}
       JOIN schools s ON s.id = rr.school_id

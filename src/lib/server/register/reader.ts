@@ -48,10 +48,17 @@ class MergeFiller {
   }
 }
 
-/** Streams the worksheets of an .xlsx (exceljs's streaming reader, cached shared strings and styles). */
-export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
+/**
+ * Streams the worksheets of an .xlsx (exceljs's streaming reader, cached shared strings and styles). `maxRows`
+ * (a register's MAX_ROWS unless given) refuses longer sheets with `tooMany`.
+ */
+export async function* readXlsx(
+  buf: Buffer,
+  maxRows = MAX_ROWS,
+  tooMany: () => Error = tooManyRows,
+): AsyncGenerator<SheetStream> {
   const facts = await inspectXlsx(buf);
-  for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > MAX_ROWS + 50) throw tooManyRows();
+  for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > maxRows + 50) throw tooMany();
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([buf]), {
     sharedStrings: 'cache',
     styles: 'cache',
@@ -69,7 +76,7 @@ export async function* readXlsx(buf: Buffer): AsyncGenerator<SheetStream> {
       const filler = merges.length ? new MergeFiller(merges) : null;
       async function* rows(): AsyncGenerator<SheetRow> {
         for await (const row of ws) {
-          if (row.number > MAX_ROWS + 50) throw tooManyRows();
+          if (row.number > maxRows + 50) throw tooMany();
           // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
           // shifted down in place rather than copied.
           const values = row.values as CellValue[];
