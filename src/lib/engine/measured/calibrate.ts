@@ -75,21 +75,21 @@ export function calibrateRoom(args: {
       'Infiltration kept from the air permeability: no trustworthy after-school decays (medium confidence or better) were logged.',
     );
 
-  const hasFan = !['natural_single_sided', 'natural_cross'].includes(input.room.ventilationType);
-  const windowUse = hasFan ? set.windows.windowUseWithMechanical.value : 1;
+  // The room's own window assumptions (its winter observation, the default for a fanned room) as assessed.
+  const windowUse = before.windows.useWithMechanical;
   const factors: Partial<Record<Season, number>> = {};
   const seasons: Partial<Record<Season, SeasonFit>> = {};
   let daysUsed = 0;
   for (const [season, target] of seasonsToFit) {
     daysUsed += target.days;
-    const profile = set.seasons.value[season];
-    const opening = Math.max(profile.windowOpenFractionOccupied, profile.windowOpenFractionEmpty) * windowUse;
+    const opening =
+      Math.max(before.windows.openFractionOccupied[season], before.windows.openFractionEmpty[season]) * windowUse;
     const measuredRise = target.occupiedMeanPpm - target.baselinePpm;
     const trial = (k: number) =>
       riseOf(input, set, season, { windowUseFactor: { [season]: k }, infiltrationLps, label: '' });
     let k = 1;
     let limit: SeasonFit['limit'] = 'none';
-    if (input.room.openableAreaM2 <= 0 || opening <= 0) limit = 'no_windows';
+    if (before.windows.effectiveAreaM2 <= 0 || opening <= 0) limit = 'no_windows';
     else {
       const kMax = 1 / opening;
       if (trial(0) <= measuredRise) {
