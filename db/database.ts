@@ -4,6 +4,7 @@ import type { AuthTables } from './tables/auth';
 import type { BillingTables } from './tables/billing';
 import type { EstateTables, AuditEventsTable, BlocksTable, RoomsTable, SchoolsTable } from './tables/estate';
 import type { PortfolioTables } from './tables/portfolio';
+import type { ProgrammeTables } from './tables/programmes';
 import type { RegisterTables } from './tables/register';
 
 /** The whole schema as Kysely sees it, assembled from each feature's tables in db/tables/. */
@@ -13,7 +14,8 @@ export interface Database
     RegisterTables,
     AssessmentsTables,
     BillingTables,
-    PortfolioTables {}
+    PortfolioTables,
+    ProgrammeTables {}
 
 export type SchoolRow = Selectable<SchoolsTable>;
 export type NewSchool = Insertable<SchoolsTable>;

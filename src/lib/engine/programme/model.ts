@@ -38,6 +38,8 @@ export interface BuiltProblem {
   problem: ProgrammeProblem;
   candidates: ProgrammeCandidate[];
   excluded: Exclusion[];
+  /** Every candidate given, by room id (including those set aside). */
+  byRoom: Map<string, ProgrammeCandidate>;
 }
 
 /** Checks the settings on their own (ranges, one entry per window, no room both forced in and kept out). */
@@ -168,6 +170,7 @@ export function buildProblem(settings: ProgrammeSettings, candidates: readonly P
     },
     candidates: placeable,
     excluded,
+    byRoom: new Map(sorted.map((c) => [c.roomId, c])),
   };
 }
 

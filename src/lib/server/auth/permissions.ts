@@ -11,6 +11,7 @@ export const STATEMENTS = {
   assessment: ['read', 'run', 'export'],
   assumptions: ['read', 'edit_technical', 'edit_financial'],
   portfolio: ['read', 'save_weights', 'export'],
+  programme: ['read', 'edit', 'export'],
   members: ['read', 'invite', 'update', 'remove'],
   billing: ['read', 'manage'],
   audit: ['read'],
@@ -25,6 +26,7 @@ const READ_ALL: Grants = {
   assessment: ['read'],
   assumptions: ['read'],
   portfolio: ['read'],
+  programme: ['read'],
   members: ['read'],
   billing: ['read'],
 };
@@ -38,6 +40,7 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
     assessment: ['read', 'run', 'export'],
     assumptions: ['read', 'edit_technical'],
     portfolio: ['read', 'save_weights', 'export'],
+    programme: ['read', 'edit', 'export'],
   },
   finance_lead: {
     ...READ_ALL,
@@ -45,8 +48,15 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
     assessment: ['read', 'run', 'export'],
     assumptions: ['read', 'edit_financial'],
     portfolio: ['read', 'export'],
+    programme: ['read', 'edit', 'export'],
   },
-  viewer: { ...READ_ALL, register: ['export'], assessment: ['read', 'export'], portfolio: ['read', 'export'] },
+  viewer: {
+    ...READ_ALL,
+    register: ['export'],
+    assessment: ['read', 'export'],
+    portfolio: ['read', 'export'],
+    programme: ['read', 'export'],
+  },
 };
 
 /** True when `role` holds `action` on `resource`. */
