@@ -52,7 +52,10 @@ export interface RoomLine {
   rank: number | null;
   riskBand: number;
   predictedMeanCo2Ppm: number;
+  predictedPeakCo2Ppm: number;
   measuredMeanCo2Ppm: number | null;
+  /** The assessment's reason for the room's risk, as evidence. */
+  riskReason: string;
   pinned: boolean;
   forcedIn: boolean;
   joinsHeating: boolean;
@@ -213,7 +216,9 @@ export function buildReport(args: {
       rank: c.rank,
       riskBand: c.riskBand,
       predictedMeanCo2Ppm: c.predictedMeanCo2Ppm,
+      predictedPeakCo2Ppm: c.predictedPeakCo2Ppm,
       measuredMeanCo2Ppm: c.measuredMeanCo2Ppm,
+      riskReason: c.riskReason,
       pinned: pinned.has(c.roomId),
       forcedIn: forced.has(c.roomId),
       joinsHeating: problem.items[i]!.mobilisationWaived && c.blockId !== null && joined.has(c.blockId),
