@@ -39,6 +39,8 @@ export interface ProgrammeView {
   source: CandidateSource;
   report: ProgrammeReport;
   yearLabels: string[];
+  /** Pupil-hours a year (or score) of the whole plan, all schools. */
+  planValue: number;
   /** Pupil-hours a year (or score) of the best plan without the rooms pinned by hand; null when nothing is pinned. */
   freeValue: number | null;
   canEdit: boolean;

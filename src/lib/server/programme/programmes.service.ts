@@ -496,7 +496,7 @@ export async function listProgrammes(db: Kysely<Database>, trust: ActiveTrust): 
 /** One programme as its page shows it. */
 export async function getProgramme(db: Kysely<Database>, trust: ActiveTrust, id: string): Promise<ProgrammeView> {
   const p = await readable(db, trust, id);
-  const { report, yearLabels } = materialise(trust, p);
+  const { report, yearLabels, built, assignment } = materialise(trust, p);
   const rooms: Record<string, string> = {};
   const blocks: Record<string, string> = {};
   for (const c of p.snapshot.candidates) {
@@ -510,6 +510,7 @@ export async function getProgramme(db: Kysely<Database>, trust: ActiveTrust, id:
     source: p.snapshot.source,
     report,
     yearLabels,
+    planValue: valueOf(built, assignment),
     freeValue: p.freeObjective,
     canEdit: mayEdit(trust, p),
     scopeSchoolIds: p.schoolIds,
