@@ -324,3 +324,54 @@ export function lagrangianBound(
   }
   return { bound: Math.max(bestBound, target), iterations: done, prices: { mu: bestMu, lambda: bestLambda, visitYears: bestVisits } };
 }
+
+/**
+ * Two bounds by sorting, each the exact optimum of a relaxation that keeps one resource: (a) window capacity
+ * only — each year's windows pooled, budgets, visits and restrictions dropped; (b) money only — capacity,
+ * visits and restrictions dropped. Both are transportation problems whose profit is a product (the room's
+ * benefit per unit, or per pound, times the year's weight), for which filling the best years with the densest
+ * rooms first is optimal (the Monge property; Hoffman 1963). Returns the lower of the two.
+ */
+export function resourceBounds(problem: ProgrammeProblem): number {
+  const { items, years } = problem;
+  const weight = (y: number) => yearWeight(problem, y + 1);
+  const byWeight = Array.from({ length: years }, (_, y) => y).sort((a, b) => weight(b) - weight(a) || a - b);
+  /** Fractional filling of the years (best weight first) with the densest rooms first. */
+  const fill = (size: (i: number) => number, capacityByYear: number[]) => {
+    let total = 0;
+    const sized: number[] = [];
+    for (let i = 0; i < items.length; i++) {
+      if (size(i) > 0) sized.push(i);
+      else total += items[i]!.value * weight(byWeight[0]!);
+    }
+    sized.sort((a, b) => items[b]!.value / size(b) - items[a]!.value / size(a) || a - b);
+    let y = 0;
+    let left = capacityByYear[byWeight[0]!] ?? 0;
+    for (const i of sized) {
+      let need = size(i);
+      const density = items[i]!.value / need;
+      while (need > 0 && y < byWeight.length) {
+        const take = Math.min(need, left);
+        total += density * weight(byWeight[y]!) * take;
+        need -= take;
+        left -= take;
+        if (left <= 0) {
+          y++;
+          left = capacityByYear[byWeight[y]!] ?? 0;
+        }
+      }
+      if (y >= byWeight.length) break;
+    }
+    return total;
+  };
+  const capacity = Array.from({ length: years }, (_, y) =>
+    problem.slots.filter((s) => s.year === y + 1).reduce((n, s) => n + s.capacityUnits, 0),
+  );
+  const byUnits = fill((i) => items[i]!.units, capacity);
+  // Money: each room measured in pounds at today's prices; a year holds its budget ÷ its cost factor of them.
+  const byMoney = fill(
+    (i) => items[i]!.baseCostGbp,
+    problem.budgetsGbp.map((b, y) => b / problem.costFactorByYear[y]!),
+  );
+  return Math.min(byUnits, byMoney);
+}

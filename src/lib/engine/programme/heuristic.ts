@@ -11,7 +11,7 @@
  *    priced in pounds at first; later rounds price money and window capacity with the Lagrangian bound's
  *    multipliers (Magazine & Oguz 1984 use multipliers so for multi-resource knapsacks).
  * 3. Improvement: merge two visits to one school in the same year when one window can take both (saving a
- *    mobilisation), swap a funded room for an unfunded one of greater benefit where the year's money and the
+ *    mobilisation), drop the weakest school visits and refill their year without them (kept only when better), swap a funded room for an unfunded one of greater benefit where the year's money and the
  *    window allow, and fill whatever money and capacity is left, earliest year first.
  */
 import type { ResourcePrices } from './bound';
@@ -29,6 +29,10 @@ interface YearPrices {
   /** Schools a new visit may go to this year (null: any). */
   visitSchools: ((school: number) => boolean) | null;
 }
+
+/** How many school visits the visit-removal step tries to drop, and the largest estate it runs on (rooms). */
+const VISIT_TRIALS = 60;
+const VISIT_SEARCH_MAX_ROOMS = 5000;
 
 /** The slot item `i` goes into: earliest year it fits (within `onlyYear` when given), a visited window first; −1 when nothing fits. */
 function chooseSlot(state: PlanState, i: number, onlyYear = 0): number {
@@ -333,6 +337,55 @@ function fillAnywhere(state: PlanState): void {
   }
 }
 
+/**
+ * Large-neighbourhood search over visits ("ruin and recreate", Schrimpf et al. 2000): for each of the weakest
+ * visits, take its rooms out, keep that school out of that year, refill the year by the package greedy, and
+ * keep the result only if the plan's objective rises.
+ */
+function dropWeakVisits(state: PlanState, prices: ResourcePrices | null): void {
+  const { problem } = state;
+  const visits: { school: number; year: number; rooms: number[]; ratio: number }[] = [];
+  const byKey = new Map<string, number>();
+  problem.items.forEach((item, i) => {
+    const k = state.assignment[i]!;
+    if (k < 0 || item.mobilisationWaived) return;
+    const year = problem.slots[k]!.year;
+    const key = `${item.school}:${year}`;
+    let v = byKey.get(key);
+    if (v === undefined) {
+      v = visits.length;
+      byKey.set(key, v);
+      visits.push({ school: item.school, year, rooms: [], ratio: 0 });
+    }
+    visits[v]!.rooms.push(i);
+  });
+  for (const v of visits) {
+    if (v.rooms.some((i) => problem.items[i]!.mustPlace)) {
+      v.ratio = Number.POSITIVE_INFINITY;
+      continue;
+    }
+    const value = v.rooms.reduce((s, i) => s + problem.items[i]!.value, 0);
+    const cost = v.rooms.reduce((s, i) => s + problem.items[i]!.baseCostGbp, problem.mobilisationGbp);
+    v.ratio = value / (cost || 1);
+  }
+  const weakest = visits
+    .map((v, index) => ({ v, index }))
+    .filter(({ v }) => Number.isFinite(v.ratio))
+    .sort((a, b) => a.v.ratio - b.v.ratio || a.index - b.index)
+    .slice(0, VISIT_TRIALS);
+  for (const { v } of weakest) {
+    if (v.rooms.some((i) => state.assignment[i]! < 0)) continue;
+    const before = state.objective();
+    const trial = state.clone();
+    for (const i of v.rooms) trial.remove(i);
+    const base = yearPrices(problem, prices, v.year);
+    const allowed = base.visitSchools;
+    fillYear(trial, v.year, { ...base, visitSchools: (school) => school !== v.school && (!allowed || allowed(school)) });
+    fillYear(trial, v.year, { ...base, visitSchools: (school) => school !== v.school });
+    if (trial.objective() > before * (1 + 1e-12)) state.adopt(trial);
+  }
+}
+
 /** Money and capacity prices per year from the bound's multipliers (capacity: the mean over the year's windows). */
 function yearPrices(problem: ProgrammeProblem, prices: ResourcePrices | null, year: number): YearPrices {
   if (!prices) return { perGbp: 1, perUnit: 0, visitSchools: null };
@@ -365,6 +418,7 @@ export function heuristicPlan(problem: ProgrammeProblem, prices: ResourcePrices 
       fillYear(state, year, { ...yearPrices(problem, prices, year), visitSchools: null });
   for (let round = 0; round < 3; round++) {
     mergeVisits(state);
+    if (problem.items.length <= VISIT_SEARCH_MAX_ROOMS) dropWeakVisits(state, prices);
     fillAnywhere(state);
     const swapped = swapAtMargin(state);
     fillAnywhere(state);

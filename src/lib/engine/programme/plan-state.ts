@@ -52,6 +52,35 @@ export class PlanState {
     return this.roomsInVisit[school * this.nSlots + k]! > 0;
   }
 
+  /** A copy to try a change on. */
+  clone(): PlanState {
+    const copy = new PlanState(this.problem);
+    copy.assignment.set(this.assignment);
+    copy.spendByYearGbp.set(this.spendByYearGbp);
+    copy.unitsBySlot.set(this.unitsBySlot);
+    copy.roomsInVisit.set(this.roomsInVisit);
+    return copy;
+  }
+
+  /** Takes over another state's plan (after a successful try). */
+  adopt(other: PlanState): void {
+    this.assignment.set(other.assignment);
+    this.spendByYearGbp.set(other.spendByYearGbp);
+    this.unitsBySlot.set(other.unitsBySlot);
+    this.roomsInVisit.set(other.roomsInVisit);
+  }
+
+  /** Objective of the current plan. */
+  objective(): number {
+    let total = 0;
+    const { items, slots, years, earlinessWeight } = this.problem;
+    for (let i = 0; i < items.length; i++) {
+      const k = this.assignment[i]!;
+      if (k >= 0) total += items[i]!.value * (1 + earlinessWeight * (years - slots[k]!.year));
+    }
+    return total;
+  }
+
   place(i: number, k: number): void {
     const cost = this.costIn(i, k);
     const item = this.problem.items[i]!;

@@ -6,12 +6,15 @@
  * Deterministic: the solver runs with a node limit and a fixed seed (its time limit is only a safety net and
  * is reported when reached); the heuristic and the bound have fixed orders and iteration counts.
  */
-import { lagrangianBound, pricesFromPlan, type ResourcePrices } from './bound';
+import { lagrangianBound, pricesFromPlan, type ResourcePrices, resourceBounds } from './bound';
 import { ProgrammeInfeasibleError } from './errors';
 import { evaluatePlan, gapPct } from './evaluate';
 import { heuristicPlan } from './heuristic';
 import { assignmentFromSolution, buildMilp, type MipSolver } from './milp';
 import type { Assignment, ProgrammeProblem, SolveInfo } from './types';
+
+/** A gap below which the planner stops improving the heuristic plan, %. */
+const GOOD_ENOUGH_GAP_PCT = 0.05;
 
 /** Largest number of room-in-window choices solved as an exact MIP by default (HiGHS proves these in seconds). */
 export const EXACT_MAX_COLUMNS = 300;
@@ -44,7 +47,9 @@ export interface PlanResult {
 function priceGuidedPlan(problem: ProgrammeProblem) {
   let assignment = heuristicPlan(problem);
   let objective = evaluatePlan(problem, assignment).objective;
-  let bound = Number.POSITIVE_INFINITY;
+  const simple = resourceBounds(problem);
+  let bound = simple;
+  let boundMethod: SolveInfo['boundMethod'] = 'resource_relaxation';
   const fromPlan = pricesFromPlan(problem, assignment);
   let previous: ResourcePrices | null = null;
   const runs = [
@@ -53,9 +58,14 @@ function priceGuidedPlan(problem: ProgrammeProblem) {
     { start: () => fromPlan, schedule: { theta: 2, patience: 20 } },
   ];
   for (const run of runs) {
+    // Close enough already: more rounds could not change the plan's quality by anything that matters.
+    if (gapPct(objective, bound) <= GOOD_ENOUGH_GAP_PCT) break;
     const relaxed = lagrangianBound(problem, objective, 250, run.start(), run.schedule);
     previous = relaxed.prices;
-    bound = Math.min(bound, relaxed.bound);
+    if (relaxed.bound < bound) {
+      bound = relaxed.bound;
+      boundMethod = 'lagrangian';
+    }
     const guided = heuristicPlan(problem, relaxed.prices);
     const guidedObjective = evaluatePlan(problem, guided).objective;
     if (guidedObjective > objective + 1e-9) {
@@ -63,7 +73,7 @@ function priceGuidedPlan(problem: ProgrammeProblem) {
       objective = guidedObjective;
     }
   }
-  return { assignment, objective, bound };
+  return { assignment, objective, bound, boundMethod };
 }
 
 const pct = (v: number) => `${v < 0.1 ? v.toFixed(2) : v.toFixed(1)} %`;
@@ -73,6 +83,7 @@ const BOUND_WORDS: Record<SolveInfo['boundMethod'], string> = {
   solver_dual_bound: "the HiGHS solver's proven bound",
   lp_relaxation: 'the LP relaxation solved by HiGHS',
   lagrangian: 'a Lagrangian relaxation of the budgets and window capacities',
+  resource_relaxation: 'the LP relaxation keeping only the money or only the window capacity, solved exactly',
 };
 
 /** The best plan this module can find for `problem`, with its bound and gap. */
@@ -93,6 +104,7 @@ export function planProgramme(problem: ProgrammeProblem, options: PlanOptions): 
     assignment = guided.assignment;
     objective = guided.objective;
     bound = guided.bound;
+    boundMethod = guided.boundMethod;
   } catch (error) {
     if (!(error instanceof ProgrammeInfeasibleError)) throw error;
     infeasible = error;

@@ -169,7 +169,7 @@ export interface SolveInfo {
   bound: number;
   /** 100 × (bound − objective) / bound; 0 when both are 0. */
   gapPct: number;
-  boundMethod: 'solver_dual_bound' | 'lp_relaxation' | 'lagrangian';
+  boundMethod: 'solver_dual_bound' | 'lp_relaxation' | 'lagrangian' | 'resource_relaxation';
   /** Words for the plan page and reports. */
   words: string;
   seconds: number;
