@@ -138,14 +138,14 @@ export default function ProgrammeView({ initial }: { initial: View }) {
 
       <h2 className="mt-8 text-xl font-semibold">Year by year</h2>
       {report.years.map((y) => (
-        <section key={y.year} className="mt-4 rounded-card border border-line bg-surface" aria-labelledby={`year-${y.year}`} data-testid="programme-year">
-          <header className="flex flex-wrap items-baseline gap-x-4 border-b border-line px-4 py-3">
+        <details key={y.year} open={y.year === 1} className="mt-4 rounded-card border border-line bg-surface" data-testid="programme-year">
+          <summary className="flex cursor-pointer flex-wrap items-baseline gap-x-4 border-b border-line px-4 py-3">
             <h3 id={`year-${y.year}`} className="text-lg font-semibold">{y.label}</h3>
             <span className="text-sm text-ink-muted" data-testid="year-capital">
               {formatGbp(y.totals.capitalGbp)} of {formatGbp(y.budgetGbp)} · {formatInteger(y.totals.rooms)} rooms · {formatInteger(y.totals.units)} units ·{' '}
               {formatInteger(y.totals.pupilHoursRemovedPerYear)} pupil-hours a year
             </span>
-          </header>
+          </summary>
           {y.totals.rooms === 0 ? (
             <p className="px-4 py-3 text-sm text-ink-muted">No rooms this year.</p>
           ) : (
@@ -176,7 +176,7 @@ export default function ProgrammeView({ initial }: { initial: View }) {
               </div>
             ))
           )}
-        </section>
+        </details>
       ))}
 
       <section className="mt-8" aria-labelledby="misses-heading">

@@ -3,7 +3,10 @@
  * feasibility check and the best plan found by trying every combination. Written apart from the engine's
  * evaluatePlan on purpose (the app is never its own oracle).
  */
+import { prng } from '@db/seed/prng';
 import type { ProgrammeProblem } from '~/lib/engine/programme/types';
+
+export { prng };
 
 /** Each year sooner is worth 1 % more (the rule the programme documents). */
 export const EARLINESS = 0.01;
@@ -62,18 +65,6 @@ export function bruteForce(p: ProgrammeProblem): { best: number; choice: number[
   };
   walk(0);
   return { best, choice: bestChoice };
-}
-
-/** A small deterministic PRNG (mulberry32). */
-export function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 /** A random small problem: `rooms` rooms in up to three schools, `years` years of two windows each. */
