@@ -1,0 +1,16 @@
+// Reads a PDF the way a viewer would (Mozilla's PDF.js, the pdfjs-dist package): page count and each page's text.
+import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
+
+/** The text of each page of `bytes`, in reading order; throws when the file is not a PDF. */
+export async function pdfPages(bytes: ArrayBuffer | Uint8Array): Promise<string[]> {
+  const data = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
+  const pdf = await getDocument({ data, useSystemFonts: false, isEvalSupported: false }).promise;
+  const pages: string[] = [];
+  for (let n = 1; n <= pdf.numPages; n++) {
+    const page = await pdf.getPage(n);
+    const content = await page.getTextContent();
+    pages.push(content.items.map((item) => ('str' in item ? item.str : '')).join(' ').replace(/\s+/g, ' '));
+  }
+  await pdf.destroy();
+  return pages;
+}
