@@ -3,7 +3,8 @@ import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 
 /** The text of each page of `bytes`, in reading order; throws when the file is not a PDF. */
 export async function pdfPages(bytes: ArrayBuffer | Uint8Array): Promise<string[]> {
-  const data = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
+  // PDF.js wants a plain Uint8Array (not a Buffer), which it may detach: always hand it a copy.
+  const data = bytes instanceof Uint8Array ? Uint8Array.from(bytes) : new Uint8Array(bytes.slice(0));
   const pdf = await getDocument({ data, useSystemFonts: false, isEvalSupported: false }).promise;
   const pages: string[] = [];
   for (let n = 1; n <= pdf.numPages; n++) {

@@ -126,7 +126,7 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                 className={input}
                 type="number"
                 min={0}
-                step={1000}
+                step="any"
                 value={b}
                 name={`budget-${i + 1}`}
                 onChange={(e) => set({ budgetsGbp: s.budgetsGbp.map((x, j) => (j === i ? Number(e.target.value) : x)) })}
@@ -155,7 +155,7 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                 type="number"
                 min={0}
                 max={100}
-                step={0.1}
+                step="any"
                 name={key}
                 value={pctOf(s.onCosts[key])}
                 onChange={(e) => setOnCost(key, Number(e.target.value) / 100)}
@@ -199,11 +199,11 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
         <div className="mt-3 grid gap-3 sm:grid-cols-3">
           <label className="block text-sm">
             Units fitted per working day
-            <input className={input} type="number" min={0.1} max={1000} step={0.5} name="unitsPerWorkingDay" value={s.unitsPerWorkingDay} onChange={(e) => set({ unitsPerWorkingDay: Number(e.target.value) })} />
+            <input className={input} type="number" min={0.1} max={1000} step="any" name="unitsPerWorkingDay" value={s.unitsPerWorkingDay} onChange={(e) => set({ unitsPerWorkingDay: Number(e.target.value) })} />
           </label>
           <label className="block text-sm">
             Mobilisation per school visit (£, before on-costs)
-            <input className={input} type="number" min={0} step={100} name="mobilisationGbp" value={s.mobilisationGbp} onChange={(e) => set({ mobilisationGbp: Number(e.target.value) })} />
+            <input className={input} type="number" min={0} step="any" name="mobilisationGbp" value={s.mobilisationGbp} onChange={(e) => set({ mobilisationGbp: Number(e.target.value) })} />
           </label>
         </div>
         <p className="mt-2 text-sm text-ink-muted">
@@ -225,7 +225,7 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
         </div>
         <label className="mt-3 block max-w-xs text-sm">
           Energy prices against the assessment's (%, e.g. 30 for 30 % higher)
-          <input className={input} type="number" min={-90} max={500} step={5} name="energyPriceChangePct" value={s.energyPriceChangePct} onChange={(e) => set({ energyPriceChangePct: Number(e.target.value) })} />
+          <input className={input} type="number" min={-90} max={500} step="any" name="energyPriceChangePct" value={s.energyPriceChangePct} onChange={(e) => set({ energyPriceChangePct: Number(e.target.value) })} />
         </label>
       </fieldset>
 
