@@ -63,6 +63,7 @@ export async function boardReportPdf(view: ProgrammeView, trustName: string, now
       { name: 'Capital used', colour: COLOURS.brand, values: report.years.map((y) => y.totals.capitalGbp) },
     ],
     compactGbp,
+    120,
   );
   heading(doc, 'Benefit against spend');
   lineChart(
@@ -78,11 +79,13 @@ export async function boardReportPdf(view: ProgrammeView, trustName: string, now
     compactGbp,
     (v) => formatInt(v),
     'Capital spent, with on-costs',
+    140,
   );
-  paragraph(doc, `Next £100,000: ${report.nextTranche.words}`);
-  paragraph(doc, `Last £100,000: ${report.lastTranche.words}`);
 
   doc.addPage();
+  heading(doc, 'What more, or less, money buys', 16);
+  paragraph(doc, `The next £100,000. ${report.nextTranche.words}`);
+  paragraph(doc, `The last £100,000. ${report.lastTranche.words}`);
   heading(doc, 'The programme, year by year', 16);
   table(
     doc,

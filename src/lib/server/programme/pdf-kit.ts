@@ -128,7 +128,8 @@ const niceMax = (v: number) => {
 /** Axes with four gridlines; returns the plot area. */
 function axes(doc: Doc, title: string, yLabel: (v: number) => string, yMax: number, heightPt: number) {
   const width = contentWidth(doc);
-  ensureSpace(doc, heightPt + 40);
+  // Title, plot, axis labels and legend must all fit on the page.
+  ensureSpace(doc, heightPt + 75);
   doc.font('bold').fontSize(10).fillColor(COLOURS.ink).text(title, doc.page.margins.left, doc.y);
   const top = doc.y + 6;
   const plot = { left: doc.page.margins.left + 60, top, width: width - 70, height: heightPt };
