@@ -55,7 +55,12 @@ function candidates(): ProgrammeCandidate[] {
 
 const base = defaultProgrammeSettings(new Date('2026-12-01T00:00:00Z'));
 /** A large local authority: £10m a year, a framework of contractors fitting 40 units a working day. */
-const moneyBound: ProgrammeSettings = { ...base, budgetsGbp: [10e6, 10e6, 10e6, 10e6, 10e6], unitsPerWorkingDay: 40, mobilisationGbp: 2500 };
+const moneyBound: ProgrammeSettings = {
+  ...base,
+  budgetsGbp: [10e6, 10e6, 10e6, 10e6, 10e6],
+  unitsPerWorkingDay: 40,
+  mobilisationGbp: 2500,
+};
 /** The same estate with £30m a year: the contractors' windows fill before the money runs out. */
 const capacityBound: ProgrammeSettings = { ...moneyBound, budgetsGbp: [30e6, 30e6, 30e6, 30e6, 30e6] };
 
@@ -71,7 +76,8 @@ function run(settings: ProgrammeSettings) {
     const built = buildProblem(settings, rooms);
     const plan = planProgramme(built.problem, { solver });
     times.push((performance.now() - start) / 1000);
-    if (last && [...last.assignment].join() !== [...plan.assignment].join()) throw new Error('same inputs gave another plan');
+    if (last && [...last.assignment].join() !== [...plan.assignment].join())
+      throw new Error('same inputs gave another plan');
     last = plan;
     problem = built.problem;
   }

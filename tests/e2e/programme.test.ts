@@ -52,9 +52,14 @@ describe('capital programme in Chromium', () => {
     await page.getByLabel('Programme name').fill(NAME);
     await page.getByLabel('Number of years (1–10)').fill('3');
     for (const n of [1, 2, 3]) await page.locator(`input[name="budget-${n}"]`).fill('150000');
-    await expect(page.getByTestId('on-cost-example').textContent()).resolves.toContain('£10,000 of units costs £13,552');
+    await expect(page.getByTestId('on-cost-example').textContent()).resolves.toContain(
+      '£10,000 of units costs £13,552',
+    );
     await page.screenshot({ path: join(SHOTS, 'programme-new.png'), fullPage: true });
-    await Promise.all([page.waitForURL(/\/app\/programme\/[0-9a-f-]{36}$/), page.getByRole('button', { name: 'Make the plan' }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/app\/programme\/[0-9a-f-]{36}$/),
+      page.getByRole('button', { name: 'Make the plan' }).click(),
+    ]);
     await expect(page.getByTestId('programme-name').textContent()).resolves.toBe(NAME);
     await hydrated(page, 'ProgrammeView');
     await expect(page.getByTestId('programme-year').count()).resolves.toBe(3);
@@ -72,7 +77,9 @@ describe('capital programme in Chromium', () => {
     await firstRoom.getByTestId('pin-room').click();
     const message = page.getByTestId('programme-message');
     await message.waitFor();
-    await expect(message.textContent()).resolves.toMatch(new RegExp(`^Pinned ${code} .* to 2029/30\\. The budgets and windows still hold`));
+    await expect(message.textContent()).resolves.toMatch(
+      new RegExp(`^Pinned ${code} .* to 2029/30\\. The budgets and windows still hold`),
+    );
     const lastYear = page.locator('[data-testid="programme-year"]').nth(2);
     await lastYear.locator('summary').click();
     await lastYear.locator(`[data-room-code="${code}"]`).getByText('pinned').waitFor();
@@ -95,7 +102,10 @@ describe('capital programme in Chromium', () => {
     await hydrated(page, 'SettingsForm');
     await page.getByLabel('Programme name').fill(`${NAME} more money`);
     for (const n of [1, 2, 3]) await page.locator(`input[name="budget-${n}"]`).fill('300000');
-    await Promise.all([page.waitForURL(/\/app\/programme\/[0-9a-f-]{36}$/), page.getByRole('button', { name: 'Make the plan' }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/app\/programme\/[0-9a-f-]{36}$/),
+      page.getByRole('button', { name: 'Make the plan' }).click(),
+    ]);
     await page.goto('/app/programme');
     for (const name of [NAME, `${NAME} more money`]) await page.getByLabel(`Compare ${name}`, { exact: true }).check();
     await Promise.all([page.waitForURL(/\/app\/programme\/compare/), page.getByTestId('compare-button').click()]);

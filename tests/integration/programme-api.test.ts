@@ -10,7 +10,14 @@ import { dropFixtureTrust, insertAssessedRooms, type Fixture } from './portfolio
 // A fresh trust (signed up through the app) with 3 schools × 15 invented assessed rooms. Budgets, capacity and
 // on-costs are checked here from the raw rows and the rates, worked out independently of the app.
 
-const RATES = { preliminariesRate: 0.1, feesRate: 0.12, contingencyRate: 0.1, inflationRatePerYear: 0.035, vatRate: 0.2, vatRecoverable: true };
+const RATES = {
+  preliminariesRate: 0.1,
+  feesRate: 0.12,
+  contingencyRate: 0.1,
+  inflationRatePerYear: 0.035,
+  vatRate: 0.2,
+  vatRecoverable: true,
+};
 /** NRM 1 order by hand: ×1.1 preliminaries, ×1.12 fees, ×1.1 contingency, ×1.035 per year after the first (VAT recovered). */
 const factor = (year: number) => 1.1 * 1.12 * 1.1 * 1.035 ** (year - 1);
 const settings = (over: Record<string, unknown> = {}) => ({
@@ -82,7 +89,13 @@ describe('capital programme API', () => {
     admin = await createOtherTrust();
     // Inviting needs a confirmed address; this admin signed up a moment ago.
     await sql`UPDATE "user" SET "emailVerified" = true WHERE email = ${admin.email}`.execute(db);
-    fixture = await insertAssessedRooms(db, { trustId: admin.trustId, createTrust: false, schools: 3, roomsPerSchool: 15, label: 'Programme API' });
+    fixture = await insertAssessedRooms(db, {
+      trustId: admin.trustId,
+      createTrust: false,
+      schools: 3,
+      roomsPerSchool: 15,
+      label: 'Programme API',
+    });
     // The fixture's results carry no pupil-hours removed: give each retrofit 80 % of the room's exposure.
     await sql`UPDATE room_results SET detail = jsonb_set(detail, '{retrofit,pupilHoursRemovedPerYear}', to_jsonb(pupil_hours_above * 0.8))
       WHERE trust_id = ${admin.trustId} AND unit_count > 0`.execute(db);
@@ -144,7 +157,9 @@ describe('capital programme API', () => {
   });
 
   it('moves a room to another year by hand, re-checks the budgets and says what it cost', async () => {
-    const { programme } = (await (await create({ name: 'To edit', settings: settings() })).json()) as { programme: View };
+    const { programme } = (await (await create({ name: 'To edit', settings: settings() })).json()) as {
+      programme: View;
+    };
     const room = roomsOf(programme).find((r) => r.year === 1)!;
     const response = await api(`/api/programmes/${programme.id}/edits`, {
       method: 'POST',
@@ -152,7 +167,10 @@ describe('capital programme API', () => {
       body: JSON.stringify({ action: 'pin', roomId: room.roomId, year: 3 }),
     });
     expect(response.status, await response.clone().text()).toBe(200);
-    const body = (await response.json()) as { programme: View; impact: { words: string; valueBefore: number; valueAfter: number } };
+    const body = (await response.json()) as {
+      programme: View;
+      impact: { words: string; valueBefore: number; valueAfter: number };
+    };
     expect(roomsOf(body.programme).find((r) => r.roomId === room.roomId)?.year).toBe(3);
     expect(body.impact.words).toMatch(/^Pinned .* to 2029\/30\. The budgets and windows still hold/);
     const audit = await db.selectFrom('audit_events').select('action').where('entity_id', '=', programme.id).execute();
@@ -160,11 +178,17 @@ describe('capital programme API', () => {
   });
 
   it('refuses a change that breaks a budget, and leaves the programme as it was', async () => {
-    const { programme } = (await (await create({ name: 'Tight', settings: settings({ budgetsGbp: [20_000, 20_000, 20_000] }) })).json()) as {
+    const { programme } = (await (
+      await create({ name: 'Tight', settings: settings({ budgetsGbp: [20_000, 20_000, 20_000] }) })
+    ).json()) as {
       programme: View;
     };
     const stored = () =>
-      db.selectFrom('programmes').select(['placements', 'settings']).where('id', '=', programme.id).executeTakeFirstOrThrow();
+      db
+        .selectFrom('programmes')
+        .select(['placements', 'settings'])
+        .where('id', '=', programme.id)
+        .executeTakeFirstOrThrow();
     const outside = [...installed.keys()].filter((id) => !roomsOf(programme).some((r) => r.roomId === id));
     let status = 0;
     let message = '';
@@ -189,11 +213,17 @@ describe('capital programme API', () => {
   });
 
   it('lets viewers read and export but not change; other trusts see nothing', async () => {
-    const list = (await (await api('/api/programmes', { cookie: viewer })).json()) as { programmes: { id: string; name: string }[] };
+    const list = (await (await api('/api/programmes', { cookie: viewer })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
     const id = list.programmes.find((p) => p.name === 'Three years')!.id;
     expect((await api(`/api/programmes/${id}`, { cookie: viewer })).status).toBe(200);
     expect((await api(`/api/programmes/${id}/programme.xlsx`, { cookie: viewer })).status).toBe(200);
-    const put = await api(`/api/programmes/${id}`, { method: 'PUT', cookie: viewer, body: JSON.stringify({ name: 'Mine' }) });
+    const put = await api(`/api/programmes/${id}`, {
+      method: 'PUT',
+      cookie: viewer,
+      body: JSON.stringify({ name: 'Mine' }),
+    });
     expect(put.status).toBe(403);
     const other = await createOtherTrust();
     expect((await api(`/api/programmes/${id}`, { cookie: other.cookie })).status).toBe(404);
@@ -201,32 +231,54 @@ describe('capital programme API', () => {
   });
 
   it('shows a school-limited member only their school, and keeps their own programmes to it', async () => {
-    const list = (await (await api('/api/programmes', { cookie: limited })).json()) as { programmes: { id: string; name: string; partial: boolean }[] };
+    const list = (await (await api('/api/programmes', { cookie: limited })).json()) as {
+      programmes: { id: string; name: string; partial: boolean }[];
+    };
     const shared = list.programmes.find((p) => p.name === 'Three years')!;
     expect(shared.partial).toBe(true);
-    const { programme } = (await (await api(`/api/programmes/${shared.id}`, { cookie: limited })).json()) as { programme: View };
+    const { programme } = (await (await api(`/api/programmes/${shared.id}`, { cookie: limited })).json()) as {
+      programme: View;
+    };
     expect(roomsOf(programme).every((r) => r.schoolId === fixture.schoolIds[0])).toBe(true);
     expect(programme.canEdit).toBe(false);
-    const put = await api(`/api/programmes/${shared.id}`, { method: 'PUT', cookie: limited, body: JSON.stringify({ name: 'Taken' }) });
+    const put = await api(`/api/programmes/${shared.id}`, {
+      method: 'PUT',
+      cookie: limited,
+      body: JSON.stringify({ name: 'Taken' }),
+    });
     expect(put.status).toBe(403);
     const own = await create({ name: 'Our school', settings: settings() }, limited);
     expect(own.status, await own.clone().text()).toBe(201);
     const ownView = ((await own.json()) as { programme: View }).programme;
     expect(roomsOf(ownView).length).toBeGreaterThan(0);
     expect(roomsOf(ownView).every((r) => r.schoolId === fixture.schoolIds[0])).toBe(true);
-    const bid = await api(`/api/programmes/${shared.id}/bid-pack.pdf?schoolId=${fixture.schoolIds[1]}`, { cookie: limited });
+    const bid = await api(`/api/programmes/${shared.id}/bid-pack.pdf?schoolId=${fixture.schoolIds[1]}`, {
+      cookie: limited,
+    });
     expect(bid.status).toBe(404);
   });
 
   it('exports a workbook with a summary, one sheet per year, the rooms left out, assumptions and cautions', async () => {
-    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as { programmes: { id: string; name: string }[] };
+    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
     const id = list.programmes.find((p) => p.name === 'Three years')!.id;
-    const { programme } = (await (await api(`/api/programmes/${id}`, { cookie: admin.cookie })).json()) as { programme: View };
+    const { programme } = (await (await api(`/api/programmes/${id}`, { cookie: admin.cookie })).json()) as {
+      programme: View;
+    };
     const response = await api(`/api/programmes/${id}/programme.xlsx`, { cookie: admin.cookie });
     expect(response.headers.get('content-type')).toContain('spreadsheetml');
     const book = new ExcelJS.Workbook();
     await book.xlsx.load(Buffer.from(await response.arrayBuffer()) as never);
-    expect(book.worksheets.map((s) => s.name)).toEqual(['Summary', '2027-28', '2028-29', '2029-30', 'Not in programme', 'Assumptions', 'Cautions']);
+    expect(book.worksheets.map((s) => s.name)).toEqual([
+      'Summary',
+      '2027-28',
+      '2028-29',
+      '2029-30',
+      'Not in programme',
+      'Assumptions',
+      'Cautions',
+    ]);
     // Each year sheet lists that year's rooms (room code in column C) and its visits.
     for (const [index, name] of ['2027-28', '2028-29', '2029-30'].entries()) {
       const sheet = book.getWorksheet(name)!;
@@ -244,7 +296,9 @@ describe('capital programme API', () => {
   });
 
   it('makes a board report PDF with its pages, figures, programme table, assumptions and cautions', async () => {
-    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as { programmes: { id: string; name: string }[] };
+    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
     const id = list.programmes.find((p) => p.name === 'Three years')!.id;
     const response = await api(`/api/programmes/${id}/report.pdf`, { cookie: admin.cookie });
     expect(response.headers.get('content-type')).toBe('application/pdf');
@@ -265,36 +319,61 @@ describe('capital programme API', () => {
       'competent, licensed engineer',
     ])
       expect(text).toContain(part);
-    pages.forEach((page, i) => expect(page).toContain(`page ${i + 1} of ${pages.length}`));
+    for (const [i, page] of pages.entries()) expect(page).toContain(`page ${i + 1} of ${pages.length}`);
   });
 
   it('makes a funding-bid pack for one school with its rooms, evidence, costs and carbon', async () => {
-    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as { programmes: { id: string; name: string }[] };
+    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
     const id = list.programmes.find((p) => p.name === 'Three years')!.id;
-    const { programme } = (await (await api(`/api/programmes/${id}`, { cookie: admin.cookie })).json()) as { programme: View };
+    const { programme } = (await (await api(`/api/programmes/${id}`, { cookie: admin.cookie })).json()) as {
+      programme: View;
+    };
     const school = roomsOf(programme)[0]!;
-    const response = await api(`/api/programmes/${id}/bid-pack.pdf?schoolId=${school.schoolId}`, { cookie: admin.cookie });
+    const response = await api(`/api/programmes/${id}/bid-pack.pdf?schoolId=${school.schoolId}`, {
+      cookie: admin.cookie,
+    });
     expect(response.status).toBe(200);
     const text = (await pdfPages(await response.arrayBuffer())).join(' ');
     expect(text).toContain(`Funding bid: ventilation with heat recovery at ${school.schoolName}`);
-    for (const part of ['Predicted mean / peak CO2', 'No monitor readings are held', 'Capital per tonne CO2e', 'Costs with on-costs', 'Preliminaries', 'competent, licensed engineer'])
+    for (const part of [
+      'Predicted mean / peak CO2',
+      'No monitor readings are held',
+      'Capital per tonne CO2e',
+      'Costs with on-costs',
+      'Preliminaries',
+      'competent, licensed engineer',
+    ])
       expect(text).toContain(part);
-    for (const r of roomsOf(programme).filter((x) => x.schoolId === school.schoolId)) expect(text).toContain((r as unknown as { roomCode: string }).roomCode);
+    for (const r of roomsOf(programme).filter((x) => x.schoolId === school.schoolId))
+      expect(text).toContain((r as unknown as { roomCode: string }).roomCode);
   });
 
   it('compares two scenarios, re-plans from the latest results and deletes (all audited)', async () => {
-    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as { programmes: { id: string; name: string }[] };
+    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
     const base = list.programmes.find((p) => p.name === 'Three years')!.id;
-    const scenario = await create({ name: 'Bigger budget', basedOn: base, settings: settings({ budgetsGbp: [120_000, 120_000, 120_000] }) });
+    const scenario = await create({
+      name: 'Bigger budget',
+      basedOn: base,
+      settings: settings({ budgetsGbp: [120_000, 120_000, 120_000] }),
+    });
     expect(scenario.status).toBe(201);
     const bigger = ((await scenario.json()) as { programme: View }).programme;
     const compare = await api(`/api/programmes/compare?ids=${base},${bigger.id}`, { cookie: viewer });
     expect(compare.status).toBe(200);
-    const body = (await compare.json()) as { programmes: { name: string; rooms: number }[]; series: { points: unknown[] }[] };
+    const body = (await compare.json()) as {
+      programmes: { name: string; rooms: number }[];
+      series: { points: unknown[] }[];
+    };
     expect(body.programmes.map((p) => p.name)).toEqual(['Three years', 'Bigger budget']);
     expect(body.programmes[1]!.rooms).toBeGreaterThanOrEqual(body.programmes[0]!.rooms);
     expect(body.series.every((s) => s.points.length > 1)).toBe(true);
-    expect((await api(`/api/programmes/${bigger.id}/refresh`, { method: 'POST', cookie: admin.cookie, body: '{}' })).status).toBe(200);
+    expect(
+      (await api(`/api/programmes/${bigger.id}/refresh`, { method: 'POST', cookie: admin.cookie, body: '{}' })).status,
+    ).toBe(200);
     expect((await api(`/api/programmes/${bigger.id}`, { method: 'DELETE', cookie: admin.cookie })).status).toBe(204);
     expect((await api(`/api/programmes/${bigger.id}`, { cookie: admin.cookie })).status).toBe(404);
     const audit = await db.selectFrom('audit_events').select('action').where('entity_id', '=', bigger.id).execute();

@@ -91,7 +91,14 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
     <form onSubmit={submit} className="max-w-4xl" aria-describedby={error ? 'settings-error' : undefined}>
       <label className="block font-semibold">
         Programme name
-        <input className={input} value={name} onChange={(e) => setName(e.target.value)} required maxLength={120} name="name" />
+        <input
+          className={input}
+          value={name}
+          onChange={(e) => setName(e.target.value)}
+          required
+          maxLength={120}
+          name="name"
+        />
       </label>
 
       <fieldset className={fieldset}>
@@ -110,14 +117,31 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
           </label>
           <label className="block text-sm">
             First year starts in
-            <input className={input} type="number" min={2020} max={2100} value={s.firstYear} onChange={(e) => set({ firstYear: Number(e.target.value) })} />
+            <input
+              className={input}
+              type="number"
+              min={2020}
+              max={2100}
+              value={s.firstYear}
+              onChange={(e) => set({ firstYear: Number(e.target.value) })}
+            />
           </label>
           <label className="block text-sm">
             Number of years (1–10)
-            <input className={input} type="number" min={1} max={10} value={years} onChange={(e) => setYears(Number(e.target.value))} name="years" />
+            <input
+              className={input}
+              type="number"
+              min={1}
+              max={10}
+              value={years}
+              onChange={(e) => setYears(Number(e.target.value))}
+              name="years"
+            />
           </label>
         </div>
-        <p className="mt-3 text-sm text-ink-muted">Capital available in each year, with on-costs (what the budget must carry):</p>
+        <p className="mt-3 text-sm text-ink-muted">
+          Capital available in each year, with on-costs (what the budget must carry):
+        </p>
         <div className="mt-1 grid gap-3 sm:grid-cols-3 lg:grid-cols-5">
           {s.budgetsGbp.map((b, i) => (
             <label key={i} className="block text-sm">
@@ -129,7 +153,9 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                 step="any"
                 value={b}
                 name={`budget-${i + 1}`}
-                onChange={(e) => set({ budgetsGbp: s.budgetsGbp.map((x, j) => (j === i ? Number(e.target.value) : x)) })}
+                onChange={(e) =>
+                  set({ budgetsGbp: s.budgetsGbp.map((x, j) => (j === i ? Number(e.target.value) : x)) })
+                }
               />
             </label>
           ))}
@@ -163,7 +189,11 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
             </label>
           ))}
           <label className="mt-6 flex items-center gap-2 text-sm">
-            <input type="checkbox" checked={s.onCosts.vatRecoverable} onChange={(e) => setOnCost('vatRecoverable', e.target.checked)} />
+            <input
+              type="checkbox"
+              checked={s.onCosts.vatRecoverable}
+              onChange={(e) => setOnCost('vatRecoverable', e.target.checked)}
+            />
             The trust recovers VAT
           </label>
         </div>
@@ -190,7 +220,9 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                 name={`window-${id}`}
                 value={s.windows.find((w) => w.id === id)?.workingDays ?? 0}
                 onChange={(e) =>
-                  set({ windows: s.windows.map((w) => (w.id === id ? { ...w, workingDays: Number(e.target.value) } : w)) })
+                  set({
+                    windows: s.windows.map((w) => (w.id === id ? { ...w, workingDays: Number(e.target.value) } : w)),
+                  })
                 }
               />
             </label>
@@ -199,15 +231,33 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
         <div className="mt-3 grid gap-3 sm:grid-cols-3">
           <label className="block text-sm">
             Units fitted per working day
-            <input className={input} type="number" min={0.1} max={1000} step="any" name="unitsPerWorkingDay" value={s.unitsPerWorkingDay} onChange={(e) => set({ unitsPerWorkingDay: Number(e.target.value) })} />
+            <input
+              className={input}
+              type="number"
+              min={0.1}
+              max={1000}
+              step="any"
+              name="unitsPerWorkingDay"
+              value={s.unitsPerWorkingDay}
+              onChange={(e) => set({ unitsPerWorkingDay: Number(e.target.value) })}
+            />
           </label>
           <label className="block text-sm">
             Mobilisation per school visit (£, before on-costs)
-            <input className={input} type="number" min={0} step="any" name="mobilisationGbp" value={s.mobilisationGbp} onChange={(e) => set({ mobilisationGbp: Number(e.target.value) })} />
+            <input
+              className={input}
+              type="number"
+              min={0}
+              step="any"
+              name="mobilisationGbp"
+              value={s.mobilisationGbp}
+              onChange={(e) => set({ mobilisationGbp: Number(e.target.value) })}
+            />
           </label>
         </div>
         <p className="mt-2 text-sm text-ink-muted">
-          One visit is one school in one window: doing several rooms of a school in the same window pays its mobilisation once.
+          One visit is one school in one window: doing several rooms of a school in the same window pays its
+          mobilisation once.
         </p>
       </fieldset>
 
@@ -215,35 +265,58 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
         <legend className="px-1 font-semibold">What to maximise, and the scenario</legend>
         <div className="flex flex-wrap gap-6 text-sm">
           <label className="flex items-center gap-2">
-            <input type="radio" name="objective" checked={s.objective === 'pupil_hours'} onChange={() => set({ objective: 'pupil_hours' })} />
+            <input
+              type="radio"
+              name="objective"
+              checked={s.objective === 'pupil_hours'}
+              onChange={() => set({ objective: 'pupil_hours' })}
+            />
             Pupil-hours of poor air removed
           </label>
           <label className="flex items-center gap-2">
-            <input type="radio" name="objective" checked={s.objective === 'rank_weights'} onChange={() => set({ objective: 'rank_weights' })} />
+            <input
+              type="radio"
+              name="objective"
+              checked={s.objective === 'rank_weights'}
+              onChange={() => set({ objective: 'rank_weights' })}
+            />
             The trust's saved ranking weights
           </label>
         </div>
         <label className="mt-3 block max-w-xs text-sm">
           Energy prices against the assessment's (%, e.g. 30 for 30 % higher)
-          <input className={input} type="number" min={-90} max={500} step="any" name="energyPriceChangePct" value={s.energyPriceChangePct} onChange={(e) => set({ energyPriceChangePct: Number(e.target.value) })} />
+          <input
+            className={input}
+            type="number"
+            min={-90}
+            max={500}
+            step="any"
+            name="energyPriceChangePct"
+            value={s.energyPriceChangePct}
+            onChange={(e) => set({ energyPriceChangePct: Number(e.target.value) })}
+          />
         </label>
       </fieldset>
 
       <fieldset className={fieldset}>
         <legend className="px-1 font-semibold">Heating replacements to join</legend>
         <p className="text-sm text-ink-muted">
-          Where a block's heating is replaced in a year of the programme, its ventilation work joins that project: its rooms,
-          if chosen, go in that year's summer and need no visit of their own.
+          Where a block's heating is replaced in a year of the programme, its ventilation work joins that project: its
+          rooms, if chosen, go in that year's summer and need no visit of their own.
         </p>
         {blocks.length === 0 ? (
           <p className="mt-2 text-sm">No blocks have rooms in the programme.</p>
         ) : (
-          <div className="mt-2 max-h-72 overflow-y-auto" tabIndex={0} role="region" aria-label="Blocks">
+          <section className="mt-2 max-h-72 overflow-y-auto" tabIndex={0} aria-label="Blocks">
             <table className="w-full text-left text-sm">
               <thead className="text-ink-muted">
                 <tr>
-                  <th scope="col" className="py-1 pr-3 font-semibold">Block</th>
-                  <th scope="col" className="py-1 font-semibold">Heating replaced in</th>
+                  <th scope="col" className="py-1 pr-3 font-semibold">
+                    Block
+                  </th>
+                  <th scope="col" className="py-1 font-semibold">
+                    Heating replaced in
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -253,7 +326,12 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                     <tr key={b.id} className="border-t border-line">
                       <th scope="row" className="py-1 pr-3 font-normal">
                         {b.label}
-                        {b.heatingDueYear && <span className="block text-xs text-ink-muted">plant due about {b.heatingDueYear}{suggested ? ` (${label(suggested)})` : ''}</span>}
+                        {b.heatingDueYear && (
+                          <span className="block text-xs text-ink-muted">
+                            plant due about {b.heatingDueYear}
+                            {suggested ? ` (${label(suggested)})` : ''}
+                          </span>
+                        )}
                       </th>
                       <td className="py-1">
                         <select
@@ -275,27 +353,38 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
                 })}
               </tbody>
             </table>
-          </div>
+          </section>
         )}
       </fieldset>
 
       {(s.forcedIn.length > 0 || s.keptOut.length > 0 || s.pins.length > 0) && (
         <p className="mt-4 text-sm text-ink-muted">
-          {s.pins.length} room(s) placed by hand, {s.forcedIn.length} forced in and {s.keptOut.length} kept out: change them on the
-          programme page.
+          {s.pins.length} room(s) placed by hand, {s.forcedIn.length} forced in and {s.keptOut.length} kept out: change
+          them on the programme page.
         </p>
       )}
 
       {error && (
-        <p id="settings-error" role="alert" className="mt-4 rounded-card border border-danger bg-danger-soft p-3 text-sm">
+        <p
+          id="settings-error"
+          role="alert"
+          className="mt-4 rounded-card border border-danger bg-danger-soft p-3 text-sm"
+        >
           {error}
         </p>
       )}
       <div className="mt-6 flex gap-3">
-        <button type="submit" disabled={busy} className="rounded-control bg-brand px-4 py-2 font-semibold text-white disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={busy}
+          className="rounded-control bg-brand px-4 py-2 font-semibold text-white disabled:opacity-60"
+        >
           {busy ? 'Planning…' : mode === 'create' ? 'Make the plan' : 'Save and re-plan'}
         </button>
-        <a href={programmeId ? `/app/programme/${programmeId}` : '/app/programme'} className="rounded-control border border-line px-4 py-2 font-semibold no-underline">
+        <a
+          href={programmeId ? `/app/programme/${programmeId}` : '/app/programme'}
+          className="rounded-control border border-line px-4 py-2 font-semibold no-underline"
+        >
           Cancel
         </a>
       </div>

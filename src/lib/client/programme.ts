@@ -22,7 +22,10 @@ export const updateProgramme = (id: string, body: { name?: string; settings?: Pr
   apiFetch<{ programme: ProgrammeView }>(`/api/programmes/${id}`, { method: 'PUT', body });
 
 export const editProgramme = (id: string, edit: ProgrammeEditRequest) =>
-  apiFetch<{ programme: ProgrammeView; impact: EditImpact }>(`/api/programmes/${id}/edits`, { method: 'POST', body: edit });
+  apiFetch<{ programme: ProgrammeView; impact: EditImpact }>(`/api/programmes/${id}/edits`, {
+    method: 'POST',
+    body: edit,
+  });
 
 export const refreshProgramme = (id: string) =>
   apiFetch<{ programme: ProgrammeView }>(`/api/programmes/${id}/refresh`, { method: 'POST', body: {} });

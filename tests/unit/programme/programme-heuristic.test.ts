@@ -13,10 +13,15 @@ import type { ProgrammeProblem } from '~/lib/engine/programme/types';
 describe('the heuristic plan', () => {
   it('never breaks a budget or a window, on any small programme', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 1_000_000 }), fc.integer({ min: 3, max: 7 }), fc.integer({ min: 1, max: 3 }), (seed, rooms, years) => {
-        const problem = smallProblem(seed, rooms, years);
-        expect(check(problem, [...heuristicPlan(problem)])).not.toBeNull();
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 1_000_000 }),
+        fc.integer({ min: 3, max: 7 }),
+        fc.integer({ min: 1, max: 3 }),
+        (seed, rooms, years) => {
+          const problem = smallProblem(seed, rooms, years);
+          expect(check(problem, [...heuristicPlan(problem)])).not.toBeNull();
+        },
+      ),
       { numRuns: 150 },
     );
   });

@@ -79,12 +79,16 @@ describe('building the problem', () => {
     const { problem } = buildProblem(settings({ heatingJoins: [{ blockId: 'block-a', year: 2 }] }), [room(1, 'a')]);
     const item = problem.items[0]!;
     expect(item.mobilisationWaived).toBe(true);
-    expect(item.allowedSlots.map((k) => `${problem.slots[k]!.year}:${problem.slots[k]!.windowId}`)).toEqual(['2:summer']);
+    expect(item.allowedSlots.map((k) => `${problem.slots[k]!.year}:${problem.slots[k]!.windowId}`)).toEqual([
+      '2:summer',
+    ]);
   });
 
   it('refuses a room that is both forced in and kept out', () => {
     const id = room(1, 'a').roomId;
-    expect(() => buildProblem(settings({ forcedIn: [id], keptOut: [id] }), [room(1, 'a')])).toThrow(/both forced in and kept out/);
+    expect(() => buildProblem(settings({ forcedIn: [id], keptOut: [id] }), [room(1, 'a')])).toThrow(
+      /both forced in and kept out/,
+    );
   });
 });
 
@@ -122,7 +126,11 @@ describe('the report', () => {
     const all = report.years.flatMap((y) => y.windows.flatMap((w) => w.schools.flatMap((v) => v.rooms)));
     // Same price for every room here, so least benefit per pound = least benefit.
     const weakest = [...all].sort((a, b) => a.pupilHoursRemovedPerYear - b.pupilHoursRemovedPerYear);
-    expect(chosen.sort((a, b) => a - b)).toEqual(weakest.slice(0, chosen.length).map((r) => r.pupilHoursRemovedPerYear));
-    expect(report.lastTranche.capitalGbp).toBeGreaterThanOrEqual(Math.min(100_000, report.totals.capitalGbp - report.totals.mobilisationGbp) - 1e-6);
+    expect(chosen.sort((a, b) => a - b)).toEqual(
+      weakest.slice(0, chosen.length).map((r) => r.pupilHoursRemovedPerYear),
+    );
+    expect(report.lastTranche.capitalGbp).toBeGreaterThanOrEqual(
+      Math.min(100_000, report.totals.capitalGbp - report.totals.mobilisationGbp) - 1e-6,
+    );
   });
 });

@@ -8,7 +8,8 @@ ModuleRegistry.registerModules([LineSeriesModule, NumberAxisModule, LegendModule
 
 const LIGHT = ['#2f6f4f', '#9b5a06', '#3c5a99'];
 const DARK = ['#7fcfa3', '#f0b45e', '#9db7f0'];
-const gbp = (v: number) => (v >= 1e6 ? `£${(v / 1e6).toFixed(1)}m` : `£${Math.round(v / 1000).toLocaleString('en-GB')}k`);
+const gbp = (v: number) =>
+  v >= 1e6 ? `£${(v / 1e6).toFixed(1)}m` : `£${Math.round(v / 1000).toLocaleString('en-GB')}k`;
 
 export default function CumulativeChart({ series }: { series: CumulativeSeries[] }) {
   const dark = useDarkTheme();
@@ -33,7 +34,10 @@ export default function CumulativeChart({ series }: { series: CumulativeSeries[]
               title: datum.label,
               data: [
                 { label: 'Capital spent', value: gbp(datum.cumulativeCapitalGbp) },
-                { label: 'Pupil-hours removed a year', value: Math.round(datum.cumulativePupilHoursRemoved).toLocaleString('en-GB') },
+                {
+                  label: 'Pupil-hours removed a year',
+                  value: Math.round(datum.cumulativePupilHoursRemoved).toLocaleString('en-GB'),
+                },
               ],
             }),
           },

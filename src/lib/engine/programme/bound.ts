@@ -140,7 +140,7 @@ function evaluate(
           const y = 31 - Math.clz32(low);
           const p = profit[i * years + y]!;
           const rest = best[s ^ low]!;
-          best[s] = p > rest ? p : rest;
+          best[s] = Math.max(p, rest);
         }
         for (let s = 0; s < subsets; s++) sums[s]! += best[s]!;
       }
@@ -277,7 +277,11 @@ export function lagrangianBound(
     return {
       bound: 0,
       iterations: 0,
-      prices: { mu: new Float64Array(years), lambda: new Float64Array(slots.length), visitYears: new Int32Array(nSchools) },
+      prices: {
+        mu: new Float64Array(years),
+        lambda: new Float64Array(slots.length),
+        visitYears: new Int32Array(nSchools),
+      },
     };
   // Scale the step per dimension: pounds for budgets, units for capacities (a diagonal preconditioner).
   const meanCost = items.reduce((s, it) => s + it.baseCostGbp * problem.costFactorByYear[0]!, 0) / items.length || 1;
@@ -322,7 +326,11 @@ export function lagrangianBound(
     for (let k = 0; k < slots.length; k++)
       lambda[k] = Math.max(0, lambda[k]! - (step * gLambda[k]!) / meanUnits / meanUnits);
   }
-  return { bound: Math.max(bestBound, target), iterations: done, prices: { mu: bestMu, lambda: bestLambda, visitYears: bestVisits } };
+  return {
+    bound: Math.max(bestBound, target),
+    iterations: done,
+    prices: { mu: bestMu, lambda: bestLambda, visitYears: bestVisits },
+  };
 }
 
 /**

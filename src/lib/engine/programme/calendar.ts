@@ -39,8 +39,7 @@ export function windowCalendarYear(
   windowId: WindowId,
 ): number {
   const start = firstYear + year - 1;
-  const inSecondCalendarYear =
-    convention === 'sep_aug' ? windowId !== 'october' : windowId === 'february';
+  const inSecondCalendarYear = convention === 'sep_aug' ? windowId !== 'october' : windowId === 'february';
   return inSecondCalendarYear ? start + 1 : start;
 }
 

@@ -18,7 +18,8 @@ export const DEFAULT_SOURCES = {
     'Academy trusts can recover VAT on non-business activity under s.33D of the VAT Act 1994, local authorities under s.33 (from memory): check with the trust’s finance team.',
   windows:
     'A week (5 working days) at each half-term, 8 at Easter (two weeks less the bank holidays) and 25 in the summer holiday a contractor can use: common practice (no single source).',
-  unitsPerWorkingDay: 'Four units a working day across the contractor’s teams: an Airtally starting value; ask the installer.',
+  unitsPerWorkingDay:
+    'Four units a working day across the contractor’s teams: an Airtally starting value; ask the installer.',
   mobilisationGbp:
     'Mobilisation of £1,500 per school visit (site set-up, access, welfare, clearing up): an Airtally starting value; ask the installer.',
   order:

@@ -380,7 +380,10 @@ function dropWeakVisits(state: PlanState, prices: ResourcePrices | null): void {
     for (const i of v.rooms) trial.remove(i);
     const base = yearPrices(problem, prices, v.year);
     const allowed = base.visitSchools;
-    fillYear(trial, v.year, { ...base, visitSchools: (school) => school !== v.school && (!allowed || allowed(school)) });
+    fillYear(trial, v.year, {
+      ...base,
+      visitSchools: (school) => school !== v.school && (!allowed || allowed(school)),
+    });
     fillYear(trial, v.year, { ...base, visitSchools: (school) => school !== v.school });
     if (trial.objective() > before * (1 + 1e-12)) state.adopt(trial);
   }

@@ -153,7 +153,11 @@ export function buildMilp(problem: ProgrammeProblem): BuiltMilp {
 }
 
 /** Reads an assignment from a solution's column values (x above ½ is in). */
-export function assignmentFromSolution(problem: ProgrammeProblem, milp: BuiltMilp, colValues: Float64Array): Assignment {
+export function assignmentFromSolution(
+  problem: ProgrammeProblem,
+  milp: BuiltMilp,
+  colValues: Float64Array,
+): Assignment {
   const assignment = new Int32Array(problem.items.length).fill(-1);
   for (let c = 0; c < milp.xCount; c++) if (colValues[c]! > 0.5) assignment[milp.xItem[c]!] = milp.xSlot[c]!;
   return assignment;

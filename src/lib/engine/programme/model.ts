@@ -45,8 +45,9 @@ export interface BuiltProblem {
 /** Checks the settings on their own (ranges, one entry per window, no room both forced in and kept out). */
 export function checkSettings(s: ProgrammeSettings): void {
   const years = s.budgetsGbp.length;
-  if (years < 1 || years > 10) throw new EngineInputError('budgetsGbp', `give a budget for 1 to 10 years, got ${years}`);
-  s.budgetsGbp.forEach((b, i) => requireRange(`budgetsGbp.${i}`, b, 0, 1e9, '£'));
+  if (years < 1 || years > 10)
+    throw new EngineInputError('budgetsGbp', `give a budget for 1 to 10 years, got ${years}`);
+  for (const [i, b] of s.budgetsGbp.entries()) requireRange(`budgetsGbp.${i}`, b, 0, 1e9, '£');
   requireRange('firstYear', s.firstYear, 2000, 2100);
   checkOnCostRates(s.onCosts);
   requireRange('unitsPerWorkingDay', s.unitsPerWorkingDay, 0, 1000, 'units');
@@ -62,10 +63,16 @@ export function checkSettings(s: ProgrammeSettings): void {
   for (const pin of s.pins) {
     if (kept.has(pin.roomId)) throw new EngineInputError('pins', 'a kept-out room cannot be pinned');
     if (!Number.isInteger(pin.year) || pin.year < 1 || pin.year > years)
-      throw new EngineInputError('pins', `a room is pinned to year ${pin.year}, outside the programme's ${years} years`);
+      throw new EngineInputError(
+        'pins',
+        `a room is pinned to year ${pin.year}, outside the programme's ${years} years`,
+      );
     const days = s.windows.find((w) => w.id === pin.windowId)?.workingDays;
     if (pin.windowId !== null && !(days && days > 0))
-      throw new EngineInputError('pins', `a room is pinned to the ${WINDOW_LABELS[pin.windowId]}, which has no working days`);
+      throw new EngineInputError(
+        'pins',
+        `a room is pinned to the ${WINDOW_LABELS[pin.windowId]}, which has no working days`,
+      );
   }
   for (const join of s.heatingJoins)
     if (!Number.isInteger(join.year) || join.year < 1) throw new EngineInputError('heatingJoins', 'years start at 1');
@@ -135,7 +142,9 @@ export function buildProblem(settings: ProgrammeSettings, candidates: readonly P
       excluded.push({ roomId: c.roomId, reason: 'too_many_units' });
       continue;
     }
-    const budgetOk = allowed.some((s) => c.installedCostGbp * costFactorByYear[s.year - 1]! <= settings.budgetsGbp[s.year - 1]!);
+    const budgetOk = allowed.some(
+      (s) => c.installedCostGbp * costFactorByYear[s.year - 1]! <= settings.budgetsGbp[s.year - 1]!,
+    );
     if (!budgetOk && !mustPlace) {
       excluded.push({ roomId: c.roomId, reason: 'costs_more_than_budget' });
       continue;

@@ -40,14 +40,16 @@ export function checkOnCostRates(r: OnCostRates): void {
   requireRange('onCosts.contingencyRate', r.contingencyRate, 0, 1);
   requireRange('onCosts.inflationRatePerYear', r.inflationRatePerYear, 0, 0.5);
   requireRange('onCosts.vatRate', r.vatRate, 0, 0.5);
-  if (typeof r.vatRecoverable !== 'boolean') throw new EngineInputError('onCosts.vatRecoverable', 'must be true or false');
+  if (typeof r.vatRecoverable !== 'boolean')
+    throw new EngineInputError('onCosts.vatRecoverable', 'must be true or false');
 }
 
 /**
  * The on-cost build-up of `worksGbp` (installed price at today's prices, ≥ 0) in programme year `year` (1-based).
  */
 export function onCostBreakdown(worksGbp: number, rates: OnCostRates, year: number): OnCostBreakdown {
-  if (!Number.isInteger(year) || year < 1) throw new EngineInputError('year', `must be a programme year from 1, got ${year}`);
+  if (!Number.isInteger(year) || year < 1)
+    throw new EngineInputError('year', `must be a programme year from 1, got ${year}`);
   const preliminariesGbp = worksGbp * rates.preliminariesRate;
   const worksEstimate = worksGbp + preliminariesGbp;
   const feesGbp = worksEstimate * rates.feesRate;

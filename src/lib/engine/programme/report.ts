@@ -105,7 +105,14 @@ export interface Tranche {
   capitalGbp: number;
   pupilHoursRemovedPerYear: number;
   pupils: number;
-  rooms: { roomId: string; roomCode: string; schoolName: string; year: number; capitalGbp: number; pupilHoursRemovedPerYear: number }[];
+  rooms: {
+    roomId: string;
+    roomCode: string;
+    schoolName: string;
+    year: number;
+    capitalGbp: number;
+    pupilHoursRemovedPerYear: number;
+  }[];
   words: string;
 }
 
@@ -251,7 +258,13 @@ export function buildReport(args: {
         const c = candidates[i]!;
         let visit = schools.get(c.schoolId);
         if (!visit) {
-          visit = { schoolId: c.schoolId, schoolName: c.schoolName, mobilisation: null, rooms: [], totals: emptyTotals() };
+          visit = {
+            schoolId: c.schoolId,
+            schoolName: c.schoolName,
+            mobilisation: null,
+            rooms: [],
+            totals: emptyTotals(),
+          };
           schools.set(c.schoolId, visit);
         }
         const room = line(i);
@@ -269,7 +282,8 @@ export function buildReport(args: {
       const visits = [...schools.values()].sort((a, b) => a.schoolName.localeCompare(b.schoolName, 'en-GB'));
       for (const visit of visits) {
         visit.rooms.sort(
-          (a, b) => b.pupilHoursRemovedPerYear - a.pupilHoursRemovedPerYear || a.roomCode.localeCompare(b.roomCode, 'en-GB'),
+          (a, b) =>
+            b.pupilHoursRemovedPerYear - a.pupilHoursRemovedPerYear || a.roomCode.localeCompare(b.roomCode, 'en-GB'),
         );
         addTotals(windowTotals, visit.totals);
         let capital = visit.mobilisation?.chargedGbp ?? 0;
@@ -369,7 +383,14 @@ function nextTranche(args: ReportArgs, shows: (schoolId: string) => boolean): Tr
       if (shows(c.schoolId)) {
         value += c.pupilHoursRemovedPerYear;
         pupils += c.pupils;
-        rooms.push({ roomId: c.roomId, roomCode: c.roomCode, schoolName: c.schoolName, year: y + 1, capitalGbp: cost, pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear });
+        rooms.push({
+          roomId: c.roomId,
+          roomCode: c.roomCode,
+          schoolName: c.schoolName,
+          year: y + 1,
+          capitalGbp: cost,
+          pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear,
+        });
       }
       break;
     }
@@ -406,7 +427,14 @@ function lastTranche(args: ReportArgs, shows: (schoolId: string) => boolean): Tr
     if (!shows(c.schoolId)) continue;
     value += c.pupilHoursRemovedPerYear;
     pupils += c.pupils;
-    rooms.push({ roomId: c.roomId, roomCode: c.roomCode, schoolName: c.schoolName, year: p.year, capitalGbp: p.capital, pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear });
+    rooms.push({
+      roomId: c.roomId,
+      roomCode: c.roomCode,
+      schoolName: c.schoolName,
+      year: p.year,
+      capitalGbp: p.capital,
+      pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear,
+    });
   }
   const words =
     rooms.length === 0
@@ -457,7 +485,8 @@ function misses(args: ReportArgs, shows: (schoolId: string) => boolean): MissLin
           : 'Its units would remove no pupil-hours of poor air (it meets its criterion, or the units do not change that).',
       too_many_units: `Needs ${c.units} units, more than any works window can fit (${maxCapacity} in the largest).`,
       costs_more_than_budget: `Costs ${formatGbp(capital1)} with on-costs, more than the capital of any year it may go in.`,
-      heating_year_outside: 'Its block’s heating is replaced after the programme ends; its ventilation waits for that project.',
+      heating_year_outside:
+        'Its block’s heating is replaced after the programme ends; its ventilation waits for that project.',
       not_funded: '',
     };
     push(c, e.reason, words[e.reason]);
@@ -475,8 +504,7 @@ function misses(args: ReportArgs, shows: (schoolId: string) => boolean): MissLin
     );
   });
   for (const u of args.unplannable ?? [])
-    if (shows(u.schoolId))
-      out.push({ ...u, reason: 'no_units_fit', words: u.reason, pupilHoursRemovedPerYear: 0 });
+    if (shows(u.schoolId)) out.push({ ...u, reason: 'no_units_fit', words: u.reason, pupilHoursRemovedPerYear: 0 });
   return out.sort(
     (a, b) =>
       b.pupilHoursRemovedPerYear - a.pupilHoursRemovedPerYear ||

@@ -13,7 +13,10 @@ import { assumptionLines } from './programme-assumptions';
 import type { ProgrammeView } from './programme.types';
 
 /** The school's rooms in the programme, in programme order. */
-export function schoolRooms(view: ProgrammeView, schoolId: string): { rooms: RoomLine[]; visitsGbp: number; schoolName: string } {
+export function schoolRooms(
+  view: ProgrammeView,
+  schoolId: string,
+): { rooms: RoomLine[]; visitsGbp: number; schoolName: string } {
   const rooms: RoomLine[] = [];
   let visitsGbp = 0;
   let schoolName = '';
@@ -29,7 +32,12 @@ export function schoolRooms(view: ProgrammeView, schoolId: string): { rooms: Roo
 }
 
 /** Builds the pack; 404 when the school has no rooms in the programme (or is not visible). */
-export async function bidPackPdf(view: ProgrammeView, schoolId: string, trustName: string, now = new Date()): Promise<Buffer> {
+export async function bidPackPdf(
+  view: ProgrammeView,
+  schoolId: string,
+  trustName: string,
+  now = new Date(),
+): Promise<Buffer> {
   const { rooms, visitsGbp, schoolName } = schoolRooms(view, schoolId);
   if (rooms.length === 0)
     throw new AppError(404, 'not_found', 'That school has no rooms in this programme, so there is no bid pack for it.');
@@ -110,7 +118,9 @@ export async function bidPackPdf(view: ProgrammeView, schoolId: string, trustNam
           `${r.roomCode} ${r.roomName}`.trim(),
           formatInt(r.annualSavingKgCo2e),
           r.lifetimeTonnesCo2e === null ? 'unknown' : formatOneDecimal(r.lifetimeTonnesCo2e),
-          r.lifetimeTonnesCo2e && r.lifetimeTonnesCo2e > 0 ? formatGbp(r.capital.chargedGbp / r.lifetimeTonnesCo2e) : 'no saving',
+          r.lifetimeTonnesCo2e && r.lifetimeTonnesCo2e > 0
+            ? formatGbp(r.capital.chargedGbp / r.lifetimeTonnesCo2e)
+            : 'no saving',
           formatGbp(r.annualSavingGbp),
         ],
       })),
@@ -142,7 +152,12 @@ export async function bidPackPdf(view: ProgrammeView, schoolId: string, trustNam
       { cells: ['Contingency (risk allowance)', formatGbp(b.contingencyGbp)] },
       { cells: ['Inflation to the year of the works', formatGbp(b.inflationGbp)] },
       { cells: ['Net of VAT', formatGbp(b.netGbp)], bold: true },
-      { cells: [`VAT${view.settings.onCosts.vatRecoverable ? ' (recovered by the trust, not charged to the budget)' : ''}`, formatGbp(b.vatGbp)] },
+      {
+        cells: [
+          `VAT${view.settings.onCosts.vatRecoverable ? ' (recovered by the trust, not charged to the budget)' : ''}`,
+          formatGbp(b.vatGbp),
+        ],
+      },
       { cells: ["Contractor's visits (mobilisation with on-costs)", formatGbp(visitsGbp)] },
       { cells: ['Capital charged to the programme', formatGbp(capital)], bold: true },
     ],

@@ -5,17 +5,7 @@
  */
 import { PROGRAMME_CAUTIONS } from '../../engine/programme/cautions';
 import { formatGbp, formatInt, formatOneDecimal } from '../../engine/format';
-import {
-  barChart,
-  box,
-  COLOURS,
-  createDocument,
-  footers,
-  heading,
-  lineChart,
-  paragraph,
-  table,
-} from './pdf-kit';
+import { barChart, box, COLOURS, createDocument, footers, heading, lineChart, paragraph, table } from './pdf-kit';
 import { assumptionLines } from './programme-assumptions';
 import type { ProgrammeView } from './programme.types';
 

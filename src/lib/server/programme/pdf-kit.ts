@@ -9,11 +9,20 @@ import PDFDocument from 'pdfkit';
 export type Doc = PDFKit.PDFDocument;
 
 const MARGIN = 50;
-export const COLOURS = { ink: '#1d2428', muted: '#5b6670', line: '#c9d1d6', brand: '#2f6f4f', accent: '#9b5a06', soft: '#eef3f0' };
+export const COLOURS = {
+  ink: '#1d2428',
+  muted: '#5b6670',
+  line: '#c9d1d6',
+  brand: '#2f6f4f',
+  accent: '#9b5a06',
+  soft: '#eef3f0',
+};
 
 function fontPath(weight: 400 | 700): string | null {
   try {
-    return createRequire(import.meta.url).resolve(`@fontsource/public-sans/files/public-sans-latin-${weight}-normal.woff`);
+    return createRequire(import.meta.url).resolve(
+      `@fontsource/public-sans/files/public-sans-latin-${weight}-normal.woff`,
+    );
   } catch {
     return null;
   }
@@ -72,8 +81,15 @@ export function box(doc: Doc, title: string, text: string, fill = COLOURS.soft):
   ensureSpace(doc, height + 10);
   const top = doc.y;
   doc.save().rect(doc.page.margins.left, top, width, height).fill(fill).restore();
-  doc.font('bold').fontSize(11).fillColor(COLOURS.ink).text(title, doc.page.margins.left + 10, top + 8, { width: width - 20 });
-  doc.font('body').fontSize(10).text(text, doc.page.margins.left + 10, doc.y + 2, { width: width - 20 });
+  doc
+    .font('bold')
+    .fontSize(11)
+    .fillColor(COLOURS.ink)
+    .text(title, doc.page.margins.left + 10, top + 8, { width: width - 20 });
+  doc
+    .font('body')
+    .fontSize(10)
+    .text(text, doc.page.margins.left + 10, doc.y + 2, { width: width - 20 });
   doc.y = top + height + 8;
   doc.x = doc.page.margins.left;
 }
@@ -104,13 +120,27 @@ export function table(doc: Doc, columns: Column[], rows: { cells: string[]; bold
     if (fill) doc.save().rect(left, top, width, height).fill(fill).restore();
     let x = left;
     cells.forEach((cell, i) => {
-      doc.fillColor(COLOURS.ink).text(cell, x + pad, top + pad, { width: widths[i]! - 2 * pad, align: columns[i]!.align ?? 'left' });
+      doc
+        .fillColor(COLOURS.ink)
+        .text(cell, x + pad, top + pad, { width: widths[i]! - 2 * pad, align: columns[i]!.align ?? 'left' });
       x += widths[i]!;
     });
-    doc.save().moveTo(left, top + height).lineTo(left + width, top + height).lineWidth(0.5).strokeColor(COLOURS.line).stroke().restore();
+    doc
+      .save()
+      .moveTo(left, top + height)
+      .lineTo(left + width, top + height)
+      .lineWidth(0.5)
+      .strokeColor(COLOURS.line)
+      .stroke()
+      .restore();
     doc.y = top + height;
   };
-  const drawHeader = () => drawRow(columns.map((c) => c.header), 'bold', COLOURS.soft);
+  const drawHeader = () =>
+    drawRow(
+      columns.map((c) => c.header),
+      'bold',
+      COLOURS.soft,
+    );
   ensureSpace(doc, 40);
   drawHeader();
   for (const row of rows) drawRow(row.cells, row.bold ? 'bold' : 'body', null);
@@ -137,7 +167,14 @@ function axes(doc: Doc, title: string, yLabel: (v: number) => string, yMax: numb
   for (let g = 0; g <= 4; g++) {
     const v = (yMax * g) / 4;
     const y = plot.top + plot.height - (plot.height * g) / 4;
-    doc.save().moveTo(plot.left, y).lineTo(plot.left + plot.width, y).lineWidth(0.4).strokeColor(COLOURS.line).stroke().restore();
+    doc
+      .save()
+      .moveTo(plot.left, y)
+      .lineTo(plot.left + plot.width, y)
+      .lineWidth(0.4)
+      .strokeColor(COLOURS.line)
+      .stroke()
+      .restore();
     doc.fillColor(COLOURS.muted).text(yLabel(v), doc.page.margins.left, y - 4, { width: 55, align: 'right' });
   }
   return plot;
@@ -160,9 +197,17 @@ export function barChart(
     series.forEach((s, j) => {
       const h = (plot.height * (s.values[i] ?? 0)) / yMax;
       const x = plot.left + i * group + group * 0.15 + j * bar;
-      doc.save().rect(x, plot.top + plot.height - h, bar * 0.9, h).fill(s.colour).restore();
+      doc
+        .save()
+        .rect(x, plot.top + plot.height - h, bar * 0.9, h)
+        .fill(s.colour)
+        .restore();
     });
-    doc.font('body').fontSize(7).fillColor(COLOURS.muted).text(label, plot.left + i * group, plot.top + plot.height + 3, { width: group, align: 'center' });
+    doc
+      .font('body')
+      .fontSize(7)
+      .fillColor(COLOURS.muted)
+      .text(label, plot.left + i * group, plot.top + plot.height + 3, { width: group, align: 'center' });
   });
   legend(doc, series, plot.left, plot.top + plot.height + 16);
 }
@@ -182,7 +227,11 @@ export function lineChart(
   const plot = axes(doc, title, yLabel, yMax, heightPt);
   for (let g = 0; g <= 4; g++) {
     const x = plot.left + (plot.width * g) / 4;
-    doc.font('body').fontSize(7).fillColor(COLOURS.muted).text(xLabel((xMax * g) / 4), x - 30, plot.top + plot.height + 3, { width: 60, align: 'center' });
+    doc
+      .font('body')
+      .fontSize(7)
+      .fillColor(COLOURS.muted)
+      .text(xLabel((xMax * g) / 4), x - 30, plot.top + plot.height + 3, { width: 60, align: 'center' });
   }
   for (const s of series) {
     if (s.points.length === 0) continue;
@@ -195,14 +244,22 @@ export function lineChart(
     });
     doc.stroke().restore();
   }
-  doc.font('body').fontSize(7).fillColor(COLOURS.muted).text(xTitle, plot.left, plot.top + plot.height + 14, { width: plot.width, align: 'center' });
+  doc
+    .font('body')
+    .fontSize(7)
+    .fillColor(COLOURS.muted)
+    .text(xTitle, plot.left, plot.top + plot.height + 14, { width: plot.width, align: 'center' });
   legend(doc, series, plot.left, plot.top + plot.height + 26);
 }
 
 function legend(doc: Doc, series: { name: string; colour: string }[], left: number, top: number): void {
   let x = left;
   for (const s of series) {
-    doc.save().rect(x, top + 1, 8, 8).fill(s.colour).restore();
+    doc
+      .save()
+      .rect(x, top + 1, 8, 8)
+      .fill(s.colour)
+      .restore();
     doc.font('body').fontSize(8).fillColor(COLOURS.ink);
     const w = doc.widthOfString(s.name);
     doc.text(s.name, x + 11, top, { lineBreak: false });

@@ -28,14 +28,26 @@ export function assumptionLines(view: Pick<ProgrammeView, 'settings' | 'source' 
     { name: 'Contingency (risk allowance)', value: pct(o.contingencyRate), source: DEFAULT_SOURCES.contingencyRate },
     { name: 'Inflation a year', value: pct(o.inflationRatePerYear), source: DEFAULT_SOURCES.inflationRatePerYear },
     { name: 'VAT', value: pct(o.vatRate), source: DEFAULT_SOURCES.vatRate },
-    { name: 'VAT recovered by the trust', value: o.vatRecoverable ? 'Yes' : 'No', source: DEFAULT_SOURCES.vatRecoverable },
+    {
+      name: 'VAT recovered by the trust',
+      value: o.vatRecoverable ? 'Yes' : 'No',
+      source: DEFAULT_SOURCES.vatRecoverable,
+    },
     {
       name: 'Works windows (working days)',
       value: s.windows.map((w) => `${WINDOW_LABELS[w.id]} ${w.workingDays}`).join('; '),
       source: DEFAULT_SOURCES.windows,
     },
-    { name: 'Units fitted per working day', value: String(s.unitsPerWorkingDay), source: DEFAULT_SOURCES.unitsPerWorkingDay },
-    { name: 'Mobilisation per school visit (before on-costs)', value: gbp(s.mobilisationGbp), source: DEFAULT_SOURCES.mobilisationGbp },
+    {
+      name: 'Units fitted per working day',
+      value: String(s.unitsPerWorkingDay),
+      source: DEFAULT_SOURCES.unitsPerWorkingDay,
+    },
+    {
+      name: 'Mobilisation per school visit (before on-costs)',
+      value: gbp(s.mobilisationGbp),
+      source: DEFAULT_SOURCES.mobilisationGbp,
+    },
     {
       name: 'What the plan maximises',
       value: s.objective === 'pupil_hours' ? 'Pupil-hours of poor air removed a year' : 'The trust’s ranking weights',

@@ -35,7 +35,16 @@ export async function programmeWorkbook(view: ProgrammeView, now = new Date()): 
   const { report } = view;
 
   const summary = book.addWorksheet('Summary');
-  summary.columns = [{ width: 44 }, { width: 18 }, { width: 18 }, { width: 16 }, { width: 16 }, { width: 18 }, { width: 16 }, { width: 16 }];
+  summary.columns = [
+    { width: 44 },
+    { width: 18 },
+    { width: 18 },
+    { width: 16 },
+    { width: 16 },
+    { width: 18 },
+    { width: 16 },
+    { width: 16 },
+  ];
   summary.addRow([text(`Capital programme: ${view.name}`)]).font = { bold: true, size: 14 };
   summary.addRow([text(report.solve.words)]);
   summary.addRow([`Assumption version(s): ${view.source.assumptionsVersions.join(', ') || 'not recorded'}`]);
@@ -85,7 +94,11 @@ export async function programmeWorkbook(view: ProgrammeView, now = new Date()): 
   for (const [name, value, fmt] of [
     ['Money saved a year at the scenario’s energy prices (£)', t.annualSavingGbp, GBP],
     ['Tonnes CO2e saved over the units’ life', t.lifetimeTonnesCo2e, '#,##0.0'],
-    ['Capital per tonne CO2e over the units’ life (£)', t.lifetimeTonnesCo2e > 0 ? t.capitalGbp / t.lifetimeTonnesCo2e : null, GBP],
+    [
+      'Capital per tonne CO2e over the units’ life (£)',
+      t.lifetimeTonnesCo2e > 0 ? t.capitalGbp / t.lifetimeTonnesCo2e : null,
+      GBP,
+    ],
     ['School visits', t.visits, INT],
     ['Mobilisation, with on-costs (£)', t.mobilisationGbp, GBP],
     ['Gap to the best possible plan (%)', report.solve.gapPct, '0.00'],
@@ -192,10 +205,20 @@ export async function programmeWorkbook(view: ProgrammeView, now = new Date()): 
   ];
   out.getRow(1).font = { bold: true };
   for (const m of report.misses)
-    out.addRow([text(m.schoolName), text(m.roomCode), text(m.roomName), Math.round(m.pupilHoursRemovedPerYear), text(m.words)]);
+    out.addRow([
+      text(m.schoolName),
+      text(m.roomCode),
+      text(m.roomName),
+      Math.round(m.pupilHoursRemovedPerYear),
+      text(m.words),
+    ]);
 
   const assumptions = book.addWorksheet('Assumptions');
-  assumptions.columns = [{ header: 'Assumption', width: 44 }, { header: 'Value', width: 30 }, { header: 'Source', width: 110 }];
+  assumptions.columns = [
+    { header: 'Assumption', width: 44 },
+    { header: 'Value', width: 30 },
+    { header: 'Source', width: 110 },
+  ];
   assumptions.getRow(1).font = { bold: true };
   for (const a of assumptionLines(view)) assumptions.addRow([a.name, a.value, a.source]);
   assumptions.addRow([]);

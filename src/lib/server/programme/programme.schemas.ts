@@ -28,7 +28,9 @@ export const OnCostRatesSchema = z.object({
 
 export const ProgrammeSettingsSchema = z
   .object({
-    yearConvention: z.enum(YEAR_CONVENTIONS, { message: 'Years run September–August (sep_aug) or April–March (apr_mar)' }),
+    yearConvention: z.enum(YEAR_CONVENTIONS, {
+      message: 'Years run September–August (sep_aug) or April–March (apr_mar)',
+    }),
     firstYear: z
       .number({ message: 'The first year must be a calendar year' })
       .int('The first year must be a whole year')
@@ -140,13 +142,13 @@ export type ProgrammeEdit = z.infer<typeof ProgrammeEditSchema>;
 export const CompareQuerySchema = z.object({
   ids: z
     .string({ message: 'Give ids: two or three programme ids separated by commas' })
-    .transform((v) => v.split(',').map((s) => s.trim()).filter(Boolean))
-    .pipe(
-      z
-        .array(id('Each id'))
-        .min(2, 'Compare at least two programmes')
-        .max(3, 'Compare at most three programmes'),
-    ),
+    .transform((v) =>
+      v
+        .split(',')
+        .map((s) => s.trim())
+        .filter(Boolean),
+    )
+    .pipe(z.array(id('Each id')).min(2, 'Compare at least two programmes').max(3, 'Compare at most three programmes')),
 });
 
 /** GET /api/programmes/[id]/bid-pack.pdf?schoolId= */

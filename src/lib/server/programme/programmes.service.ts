@@ -103,7 +103,7 @@ async function readable(db: Db, trust: ActiveTrust, id: string, forUpdate = fals
 function mayEdit(trust: ActiveTrust, p: Pick<Stored, 'schoolIds'>): boolean {
   if (!can(trust.role, 'programme', 'edit')) return false;
   if (!trust.schoolIds) return true;
-  return p.schoolIds !== null && p.schoolIds.every((id) => trust.schoolIds!.includes(id));
+  return p.schoolIds?.every((id) => trust.schoolIds!.includes(id)) ?? false;
 }
 
 function placementsOf(built: BuiltProblem, assignment: Assignment): Placement[] {
@@ -164,7 +164,7 @@ async function plan(settings: ProgrammeSettings, snapshot: CandidateSnapshot) {
 }
 
 /** The plan's benefit (pupil-hours a year, or score) without the earliness weighting. */
-const valueOf = (built: BuiltProblem, assignment: Assignment) => evaluatePlan(built.problem, assignment).value;
+const planValue = (built: BuiltProblem, assignment: Assignment) => evaluatePlan(built.problem, assignment).value;
 
 /** Plans with the settings, and (when rooms are pinned by hand) once more without the pins for comparison. */
 async function planWithFree(settings: ProgrammeSettings, snapshot: CandidateSnapshot) {
@@ -172,7 +172,7 @@ async function planWithFree(settings: ProgrammeSettings, snapshot: CandidateSnap
   let freeValue: number | null = null;
   if (settings.pins.length > 0) {
     const free = await plan({ ...settings, pins: [] }, snapshot);
-    freeValue = valueOf(free.built, free.assignment);
+    freeValue = planValue(free.built, free.assignment);
   }
   return { ...planned, freeValue };
 }
@@ -280,9 +280,18 @@ function applyEdit(settings: ProgrammeSettings, edit: ProgrammeEdit): ProgrammeS
     case 'unpin':
       return { ...settings, pins };
     case 'force_in':
-      return { ...settings, keptOut: without(settings.keptOut), forcedIn: [...without(settings.forcedIn), edit.roomId] };
+      return {
+        ...settings,
+        keptOut: without(settings.keptOut),
+        forcedIn: [...without(settings.forcedIn), edit.roomId],
+      };
     case 'keep_out':
-      return { ...settings, pins, forcedIn: without(settings.forcedIn), keptOut: [...without(settings.keptOut), edit.roomId] };
+      return {
+        ...settings,
+        pins,
+        forcedIn: without(settings.forcedIn),
+        keptOut: [...without(settings.keptOut), edit.roomId],
+      };
     case 'release':
       return { ...settings, pins, forcedIn: without(settings.forcedIn), keptOut: without(settings.keptOut) };
   }
@@ -326,10 +335,10 @@ export async function editProgramme(
     if (edit.action === 'pin' && edit.year > p.settings.budgetsGbp.length)
       throw badRequest(`The programme has ${p.settings.budgetsGbp.length} years; pin the room to one of them.`);
     const before = buildProblem(p.settings, p.snapshot.candidates);
-    const valueBefore = valueOf(before, assignmentOf(before, p.placements));
+    const valueBefore = planValue(before, assignmentOf(before, p.placements));
     const settings = applyEdit(p.settings, edit);
     const planned = await planWithFree(settings, p.snapshot);
-    const valueAfter = valueOf(planned.built, planned.assignment);
+    const valueAfter = planValue(planned.built, planned.assignment);
     await trx
       .updateTable('programmes')
       .set(rowValues(settings, planned, actor.actorEmail))
@@ -351,12 +360,7 @@ export async function editProgramme(
   });
 }
 
-function impactWords(
-  what: string,
-  before: number,
-  after: number,
-  objective: ProgrammeSettings['objective'],
-): string {
+function impactWords(what: string, before: number, after: number, objective: ProgrammeSettings['objective']): string {
   const unit = objective === 'rank_weights' ? 'ranking score points' : 'pupil-hours of poor air removed a year';
   const diff = after - before;
   const pct = before > 0 ? (100 * Math.abs(diff)) / before : 0;
@@ -409,7 +413,12 @@ export async function refreshProgramme(
   });
 }
 
-export async function deleteProgramme(db: Kysely<Database>, trust: ActiveTrust, actor: Actor, id: string): Promise<void> {
+export async function deleteProgramme(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+): Promise<void> {
   await db.transaction().execute(async (trx) => {
     const p = await readable(trx, trust, id, true);
     if (!mayEdit(trust, p)) throw programmeBeyondSchools();
@@ -510,7 +519,7 @@ export async function getProgramme(db: Kysely<Database>, trust: ActiveTrust, id:
     source: p.snapshot.source,
     report,
     yearLabels,
-    planValue: valueOf(built, assignment),
+    planValue: planValue(built, assignment),
     freeValue: p.freeObjective,
     canEdit: mayEdit(trust, p),
     scopeSchoolIds: p.schoolIds,

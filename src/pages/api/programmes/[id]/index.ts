@@ -5,11 +5,7 @@ import { json, parseJson } from '../../../../lib/server/http/respond';
 import { route } from '../../../../lib/server/http/route';
 import { programmeId } from '../../../../lib/server/programme/programme.params';
 import { UpdateProgrammeSchema } from '../../../../lib/server/programme/programme.schemas';
-import {
-  deleteProgramme,
-  getProgramme,
-  updateProgramme,
-} from '../../../../lib/server/programme/programmes.service';
+import { deleteProgramme, getProgramme, updateProgramme } from '../../../../lib/server/programme/programmes.service';
 
 /** One programme: settings, plan year by year, window by window, school by school, and how it was found. */
 export const GET = route(async ({ locals, params }) => {
