@@ -342,6 +342,16 @@ type ReportArgs = Parameters<typeof buildReport>[0];
 /** Benefit per £1,000 of capital, for the words. */
 const per1000 = (value: number, gbp: number) => (gbp > 0 ? (1000 * value) / gbp : 0);
 
+/** One room of a tranche. */
+const trancheRoom = (c: ProgrammeCandidate, year: number, capitalGbp: number): Tranche['rooms'][number] => ({
+  roomId: c.roomId,
+  roomCode: c.roomCode,
+  schoolName: c.schoolName,
+  year,
+  capitalGbp,
+  pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear,
+});
+
 /**
  * What £100k more would buy: rooms not in the plan, best benefit per pound first (a visit's mobilisation
  * counted when the school is not already there), each in the earliest window with room for it.
@@ -383,14 +393,7 @@ function nextTranche(args: ReportArgs, shows: (schoolId: string) => boolean): Tr
       if (shows(c.schoolId)) {
         value += c.pupilHoursRemovedPerYear;
         pupils += c.pupils;
-        rooms.push({
-          roomId: c.roomId,
-          roomCode: c.roomCode,
-          schoolName: c.schoolName,
-          year: y + 1,
-          capitalGbp: cost,
-          pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear,
-        });
+        rooms.push(trancheRoom(c, y + 1, cost));
       }
       break;
     }
@@ -427,14 +430,7 @@ function lastTranche(args: ReportArgs, shows: (schoolId: string) => boolean): Tr
     if (!shows(c.schoolId)) continue;
     value += c.pupilHoursRemovedPerYear;
     pupils += c.pupils;
-    rooms.push({
-      roomId: c.roomId,
-      roomCode: c.roomCode,
-      schoolName: c.schoolName,
-      year: p.year,
-      capitalGbp: p.capital,
-      pupilHoursRemovedPerYear: c.pupilHoursRemovedPerYear,
-    });
+    rooms.push(trancheRoom(c, p.year, p.capital));
   }
   const words =
     rooms.length === 0

@@ -9,7 +9,7 @@ import { sumBreakdowns } from '../../engine/programme/on-costs';
 import type { RoomLine } from '../../engine/programme/report';
 import { AppError } from '../http/errors';
 import { box, COLOURS, createDocument, footers, heading, paragraph, table } from './pdf-kit';
-import { assumptionLines } from './programme-assumptions';
+import { assumptionsAndCautions } from './board-report';
 import type { ProgrammeView } from './programme.types';
 
 /** The school's rooms in the programme, in programme order. */
@@ -167,18 +167,7 @@ export async function bidPackPdf(
   heading(doc, 'Why these rooms');
   for (const r of rooms) paragraph(doc, `${r.roomCode}: ${r.riskReason}`);
 
-  heading(doc, 'Assumptions and their sources');
-  table(
-    doc,
-    [
-      { header: 'Assumption', width: 0.24 },
-      { header: 'Value', width: 0.26 },
-      { header: 'Source', width: 0.5 },
-    ],
-    assumptionLines(view).map((a) => ({ cells: [a.name, a.value, a.source] })),
-  );
-  heading(doc, 'Cautions');
-  for (const c of PROGRAMME_CAUTIONS) paragraph(doc, `• ${c}`);
+  assumptionsAndCautions(doc, view);
   footers(doc, title);
   doc.end();
   return done;

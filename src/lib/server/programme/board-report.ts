@@ -5,7 +5,18 @@
  */
 import { PROGRAMME_CAUTIONS } from '../../engine/programme/cautions';
 import { formatGbp, formatInt, formatOneDecimal } from '../../engine/format';
-import { barChart, box, COLOURS, createDocument, footers, heading, lineChart, paragraph, table } from './pdf-kit';
+import {
+  barChart,
+  box,
+  COLOURS,
+  createDocument,
+  type Doc,
+  footers,
+  heading,
+  lineChart,
+  paragraph,
+  table,
+} from './pdf-kit';
 import { assumptionLines } from './programme-assumptions';
 import type { ProgrammeView } from './programme.types';
 
@@ -25,6 +36,22 @@ export function headline(view: ProgrammeView): string {
     `The units save about ${formatInt(t.annualSavingKgCo2e / 1000)} tonnes CO2e a year (${formatInt(t.lifetimeTonnesCo2e)} over their life) ` +
     `and ${t.annualSavingGbp >= 0 ? `${formatGbp(t.annualSavingGbp)} a year net` : `cost ${formatGbp(-t.annualSavingGbp)} a year more to run`}.`
   );
+}
+
+/** The assumptions with their sources and the cautions, closing the board report and every bid pack. */
+export function assumptionsAndCautions(doc: Doc, view: ProgrammeView, size = 14): void {
+  heading(doc, 'Assumptions and their sources', size);
+  table(
+    doc,
+    [
+      { header: 'Assumption', width: 0.24 },
+      { header: 'Value', width: 0.26 },
+      { header: 'Source', width: 0.5 },
+    ],
+    assumptionLines(view).map((a) => ({ cells: [a.name, a.value, a.source] })),
+  );
+  heading(doc, 'Cautions');
+  for (const c of PROGRAMME_CAUTIONS) paragraph(doc, `• ${c}`);
 }
 
 /** Builds the board report; resolves to the PDF's bytes. */
@@ -172,18 +199,7 @@ export async function boardReportPdf(view: ProgrammeView, trustName: string, now
     );
 
   doc.addPage();
-  heading(doc, 'Assumptions and their sources', 16);
-  table(
-    doc,
-    [
-      { header: 'Assumption', width: 0.24 },
-      { header: 'Value', width: 0.26 },
-      { header: 'Source', width: 0.5 },
-    ],
-    assumptionLines(view).map((a) => ({ cells: [a.name, a.value, a.source] })),
-  );
-  heading(doc, 'Cautions');
-  for (const c of PROGRAMME_CAUTIONS) paragraph(doc, `• ${c}`);
+  assumptionsAndCautions(doc, view, 16);
 
   footers(doc, title);
   doc.end();
