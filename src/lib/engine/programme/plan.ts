@@ -15,6 +15,8 @@ import type { Assignment, ProgrammeProblem, SolveInfo } from './types';
 
 /** A gap below which the planner stops improving the heuristic plan, %. */
 const GOOD_ENOUGH_GAP_PCT = 0.05;
+/** Subgradient steps per run of the Lagrangian bound. */
+const LAGRANGIAN_ITERATIONS = 250;
 
 /** Largest number of room-in-window choices solved as an exact MIP by default (HiGHS proves these in seconds). */
 export const EXACT_MAX_COLUMNS = 300;
@@ -60,7 +62,7 @@ function priceGuidedPlan(problem: ProgrammeProblem) {
   for (const run of runs) {
     // Close enough already: more rounds could not change the plan's quality by anything that matters.
     if (gapPct(objective, bound) <= GOOD_ENOUGH_GAP_PCT) break;
-    const relaxed = lagrangianBound(problem, objective, 250, run.start(), run.schedule);
+    const relaxed = lagrangianBound(problem, objective, LAGRANGIAN_ITERATIONS, run.start(), run.schedule);
     previous = relaxed.prices;
     if (relaxed.bound < bound) {
       bound = relaxed.bound;
