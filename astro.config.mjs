@@ -23,6 +23,6 @@ export default defineConfig({
   },
   vite: {
     plugins: [tailwindcss()],
-    ssr: { external: ['pg', 'pg-boss', 'exceljs', 'nodemailer', 'stripe', 'pg-copy-streams'] },
+    ssr: { external: ['pg', 'pg-boss', 'exceljs', 'nodemailer', 'stripe', 'pg-copy-streams', 'highs', 'pdfkit'] },
   },
 });

@@ -48,6 +48,8 @@ const CONSTRAINT_MESSAGES: Record<string, string> = {
   blocks_air_permeability_range: 'Air permeability must be more than 0 and at most 100 m³/(h·m²) at 50 Pa.',
   schools_boiler_efficiency_range: 'Boiler efficiency must be more than 0 and at most 1 (100 %).',
   schools_fuel_price_range: 'Fuel price must be more than £0 and under £5 per kWh.',
+  programmes_name_unique_in_trust: 'This trust already has a programme with that name. Choose another name.',
+  programmes_name_present: 'A programme needs a name of 1 to 120 characters.',
 };
 
 interface PgError {
