@@ -3,6 +3,8 @@ import { getAuth } from './lib/server/auth/auth';
 import { billingWriteGate } from './lib/server/billing/write-gate';
 import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
 import { getDb } from './lib/server/db/client';
+import { toErrorResponse } from './lib/server/http/errors';
+import { BODY_TOO_LARGE_HEADER, bodyTooLarge } from './lib/server/http/request-guard';
 
 /** Paths under /app that a signed-in person without a usable trust may still open. */
 const WITHOUT_TRUST = ['/app/account'];
@@ -16,6 +18,9 @@ export const onRequest = defineMiddleware(async (context, next) => {
   context.locals.user = null;
   context.locals.trust = null;
   const path = context.url.pathname;
+  // The request guard found a declared body over the limit: refuse it before anything reads it.
+  const limit = context.request.headers.get(BODY_TOO_LARGE_HEADER);
+  if (limit) return toErrorResponse(bodyTooLarge(Number(limit)));
   // better-auth reads its own session; static assets need none.
   if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
 

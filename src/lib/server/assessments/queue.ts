@@ -21,7 +21,7 @@ let started: Promise<{ boss: PgBoss; workerId: string }> | undefined;
  */
 export function getQueue(): Promise<{ boss: PgBoss; workerId: string }> {
   started ??= (async () => {
-    const boss = new PgBoss({ connectionString: config().DATABASE_URL, max: 4, application_name: 'airtally-queue' });
+    const boss = new PgBoss({ connectionString: config().databaseUrl, max: 4, application_name: 'airtally-queue' });
     boss.on('error', (error) => console.error('pg-boss error', error));
     await boss.start();
     await boss.createQueue(RUN_QUEUE, {
@@ -43,6 +43,11 @@ export function getQueue(): Promise<{ boss: PgBoss; workerId: string }> {
     throw error;
   });
   return started;
+}
+
+/** Starts the queue when the server starts (see startup.ts); a failure is logged and retried on first use. */
+export function startQueueOnBoot(): void {
+  getQueue().catch((error: unknown) => console.error('The assessment queue did not start', error));
 }
 
 /** Queues a run and wakes the worker; returns the job id. */

@@ -3,13 +3,13 @@
  * (sign-up, forgotten password, sign-in page), where better-auth's own HTTP rate limiter does not run.
  * In this process's memory: a single server process is how Airtally is deployed.
  */
-import { authConfig } from './auth-config';
+import { config } from '../config';
 
 const hits = new Map<string, number[]>();
 
 /** Limits of each form, per client address; sign-in and sign-up follow the configured per-address budget. */
 export function formLimits() {
-  const perAddress = authConfig().signInPerMinutePerAddress;
+  const perAddress = config().auth.signInPerMinutePerAddress;
   return {
     signUp: { max: Math.max(60, perAddress), windowMs: 60_000 },
     passwordReset: { max: 10, windowMs: 60_000 },

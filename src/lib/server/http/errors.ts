@@ -77,6 +77,18 @@ export function fromDatabaseError(error: unknown): AppError | null {
       });
     case '22P02':
       return badRequest('A value has the wrong format (for example an identifier that is not a valid id).');
+    case '22021':
+    case '22P05':
+      return badRequest(
+        'A text value contains a character that cannot be stored (such as a NUL byte from a binary file). Remove it and try again.',
+      );
+    case '22001':
+      return badRequest('A text value is longer than this field allows.');
+    case '22003':
+      return badRequest('A number is too large or too small for this field.');
+    case '22007':
+    case '22008':
+      return badRequest('A date or time is not valid.');
     default:
       return null;
   }
@@ -87,7 +99,11 @@ export function toErrorResponse(error: unknown): Response {
   const body = (status: number, code: string, message: string, details: unknown) =>
     new Response(JSON.stringify({ error: { code, message, details } }), {
       status,
-      headers: { 'content-type': 'application/json; charset=utf-8' },
+      // After a 413 the connection closes, so the rest of an oversized body is never read.
+      headers: {
+        'content-type': 'application/json; charset=utf-8',
+        ...(status === 413 ? { connection: 'close' } : {}),
+      },
     });
   if (error instanceof AppError) return body(error.status, error.code, error.message, error.details);
   if (error instanceof ZodError) {

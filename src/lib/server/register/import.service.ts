@@ -1,6 +1,7 @@
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
+import { config } from '../config';
 import { withConnection } from '../db/client';
 import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
@@ -29,7 +30,7 @@ type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /** Logs how long each step took to stderr when AIRTALLY_IMPORT_TIMINGS is set (the benchmark sets it). */
 function stepTimer(name: string): (step: string) => void {
-  if (!process.env.AIRTALLY_IMPORT_TIMINGS) return () => {};
+  if (!config().importTimings) return () => {};
   let last = performance.now();
   return (step) => {
     const now = performance.now();

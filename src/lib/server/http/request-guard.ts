@@ -1,0 +1,104 @@
+import { subscribe } from 'node:diagnostics_channel';
+import type { IncomingMessage, ServerResponse } from 'node:http';
+import { AppError } from './errors';
+
+/** The largest register upload (the file itself); the request may add a little multipart framing. */
+export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
+/** The largest request body anywhere but the register upload: JSON, forms and provider webhooks. */
+export const MAX_BODY_BYTES = 1024 * 1024;
+const UPLOAD_FRAMING_BYTES = 256 * 1024;
+
+/** Header the guard sets (replacing anything the client sent) to the caller's address. */
+export const CLIENT_IP_HEADER = 'x-airtally-client-ip';
+/** Header the guard sets (replacing anything the client sent) when the declared body is over the limit. */
+export const BODY_TOO_LARGE_HEADER = 'x-airtally-body-too-large';
+
+/** The most bytes a request to this path may send. */
+export function bodyLimitFor(method: string, pathname: string): number {
+  const path = pathname.replace(/\/+$/, '');
+  return method === 'POST' && path === '/api/imports' ? MAX_UPLOAD_BYTES + UPLOAD_FRAMING_BYTES : MAX_BODY_BYTES;
+}
+
+/** 413 with a message a person can act on. */
+export const bodyTooLarge = (limitBytes: number) =>
+  new AppError(
+    413,
+    'body_too_large',
+    limitBytes > MAX_BODY_BYTES
+      ? `The upload is larger than ${Math.round(MAX_UPLOAD_BYTES / 1024 / 1024)} MB. Split the register into smaller files (for example one per school) and import them one by one.`
+      : `The request is larger than ${Math.round(limitBytes / 1024)} KB, far more than this form or API needs.`,
+    { limitBytes },
+  );
+
+/**
+ * The caller's address: the socket's peer, or — only behind a trusted proxy that overwrites
+ * X-Forwarded-For — the last address in that header (the one the proxy appended; anything left of
+ * it was sent by the client and may be forged).
+ */
+export function clientAddressOf(req: IncomingMessage, trustProxy: boolean): string {
+  if (trustProxy) {
+    const raw = req.headers['x-forwarded-for'];
+    const hops = (Array.isArray(raw) ? raw.join(',') : (raw ?? ''))
+      .split(',')
+      .map((h) => h.trim())
+      .filter(Boolean);
+    const last = hops[hops.length - 1];
+    if (last) return last;
+  }
+  return req.socket.remoteAddress ?? 'unknown';
+}
+
+/** The body's chunks, refusing with 413 (and closing the connection) as soon as more than `limit` bytes arrive. */
+async function* limitedBody(req: IncomingMessage, res: ServerResponse, limit: number): AsyncGenerator<Buffer> {
+  let received = 0;
+  for await (const chunk of req as AsyncIterable<Buffer>) {
+    received += chunk.length;
+    if (received > limit) {
+      // Stop reading: the connection closes after the 413, so the rest is never read.
+      if (!res.headersSent) res.setHeader('connection', 'close');
+      throw bodyTooLarge(limit);
+    }
+    yield chunk;
+  }
+}
+
+const METHODS_WITH_BODY = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+/**
+ * Prepares each request before the app sees it: fixes the caller's address (Astro and better-auth read
+ * X-Forwarded-For's first entry, so it is replaced by the address we trust), and limits the body — a
+ * declared size over the limit is refused before anything is read, a body sent without a declared size
+ * is counted as it streams.
+ */
+export function guardRequest(req: IncomingMessage, res: ServerResponse, trustProxy: boolean): void {
+  const address = clientAddressOf(req, trustProxy);
+  req.headers['x-forwarded-for'] = address;
+  req.headers[CLIENT_IP_HEADER] = address;
+  delete req.headers[BODY_TOO_LARGE_HEADER];
+  const method = (req.method ?? 'GET').toUpperCase();
+  if (!METHODS_WITH_BODY.has(method)) return;
+  const limit = bodyLimitFor(method, (req.url ?? '/').split('?')[0] ?? '/');
+  const declared = Number(req.headers['content-length'] ?? Number.NaN);
+  if (declared > limit) {
+    req.headers[BODY_TOO_LARGE_HEADER] = String(limit);
+    res.setHeader('connection', 'close');
+    return;
+  }
+  // Astro builds the request body from `req.body` when it is set (see NodeApp.createRequest).
+  (req as IncomingMessage & { body?: AsyncIterable<Buffer> }).body = limitedBody(req, res, limit);
+}
+
+let installed = false;
+
+/**
+ * Runs guardRequest for every request the Node server receives, before its request handler (Node's
+ * `http.server.request.start` diagnostics channel is published just before the 'request' event).
+ */
+export function installRequestGuard(trustProxy: boolean): void {
+  if (installed) return;
+  installed = true;
+  subscribe('http.server.request.start', (message) => {
+    const { request, response } = message as { request: IncomingMessage; response: ServerResponse };
+    guardRequest(request, response, trustProxy);
+  });
+}
