@@ -6,17 +6,26 @@ import tailwindcss from '@tailwindcss/vite';
 import { fileURLToPath } from 'node:url';
 
 const STARTUP = fileURLToPath(new URL('./src/lib/server/startup.ts', import.meta.url));
+const PARSE_WORKER = fileURLToPath(new URL('./src/lib/server/register/parse-worker.ts', import.meta.url));
 
 /**
  * The built server runs src/lib/server/startup.ts before the Node adapter listens: imported at the top of
  * the adapter's server module, it refuses an unsafe configuration, guards every request and starts the
  * assessment queue, whether the server is started by `npm start` or by `node dist/server/entry.mjs`.
+ * It also emits the register reader's worker thread as dist/server/register-parse-worker.mjs.
  * @returns {import('vite').Plugin}
  */
 function airtallyServer() {
+  let ssr = false;
   return {
     name: 'airtally-server',
     apply: 'build',
+    configResolved(config) {
+      ssr = Boolean(config.build.ssr);
+    },
+    buildStart() {
+      if (ssr) this.emitFile({ type: 'chunk', id: PARSE_WORKER, fileName: 'register-parse-worker.mjs' });
+    },
     /** @param {string} code @param {string} id */
     transform(code, id) {
       if (!/@astrojs[\\/]node[\\/]dist[\\/]server\.js$/.test(id)) return null;

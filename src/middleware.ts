@@ -4,7 +4,7 @@ import { billingWriteGate } from './lib/server/billing/write-gate';
 import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
 import { getDb } from './lib/server/db/client';
 import { toErrorResponse } from './lib/server/http/errors';
-import { BODY_TOO_LARGE_HEADER, bodyTooLarge } from './lib/server/http/request-guard';
+import { BODY_TOO_LARGE_HEADER, bodyTooLarge, mustCloseUnreadBody } from './lib/server/http/request-guard';
 
 /** Paths under /app that a signed-in person without a usable trust may still open. */
 const WITHOUT_TRUST = ['/app/account'];
@@ -61,9 +61,22 @@ export const onRequest = defineMiddleware(async (context, next) => {
   }
   // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
   const readOnly = await billingWriteGate(context.locals, context.request);
-  if (readOnly) return readOnly;
-  return withCookies(await next(), refreshedCookies);
+  if (readOnly) return closeIfBodyUnread(context.request, readOnly);
+  return closeIfBodyUnread(context.request, withCookies(await next(), refreshedCookies));
 });
+
+/** Closes the connection after answering a request whose unbounded body was never read (see mustCloseUnreadBody). */
+function closeIfBodyUnread(request: Request, response: Response): Response {
+  if (!mustCloseUnreadBody(request)) return response;
+  try {
+    response.headers.set('connection', 'close');
+    return response;
+  } catch {
+    const copy = new Response(response.body, response);
+    copy.headers.set('connection', 'close');
+    return copy;
+  }
+}
 
 /** Adds re-issued session cookies to a response (copying it when its headers are immutable). */
 function withCookies(response: Response, cookies: string[]): Response {

@@ -99,11 +99,7 @@ export function toErrorResponse(error: unknown): Response {
   const body = (status: number, code: string, message: string, details: unknown) =>
     new Response(JSON.stringify({ error: { code, message, details } }), {
       status,
-      // After a 413 the connection closes, so the rest of an oversized body is never read.
-      headers: {
-        'content-type': 'application/json; charset=utf-8',
-        ...(status === 413 ? { connection: 'close' } : {}),
-      },
+      headers: { 'content-type': 'application/json; charset=utf-8' },
     });
   if (error instanceof AppError) return body(error.status, error.code, error.message, error.details);
   if (error instanceof ZodError) {

@@ -7,6 +7,12 @@ export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
 /** The largest request body anywhere but the register upload: JSON, forms and provider webhooks. */
 export const MAX_BODY_BYTES = 1024 * 1024;
 const UPLOAD_FRAMING_BYTES = 256 * 1024;
+/**
+ * A body over its limit is still read (and thrown away) up to twice the limit or 8 MB, so the client gets
+ * to read our 413 (browsers and fetch give up on a connection closed under an upload); beyond that the
+ * connection is closed and the rest is never read.
+ */
+const discardAtMost = (limit: number) => Math.max(8 * 1024 * 1024, 2 * limit);
 
 /** Header the guard sets (replacing anything the client sent) to the caller's address. */
 export const CLIENT_IP_HEADER = 'x-airtally-client-ip';
@@ -25,8 +31,8 @@ export const bodyTooLarge = (limitBytes: number) =>
     413,
     'body_too_large',
     limitBytes > MAX_BODY_BYTES
-      ? `The upload is larger than ${Math.round(MAX_UPLOAD_BYTES / 1024 / 1024)} MB. Split the register into smaller files (for example one per school) and import them one by one.`
-      : `The request is larger than ${Math.round(limitBytes / 1024)} KB, far more than this form or API needs.`,
+      ? `This upload is too large: the limit is ${Math.round(MAX_UPLOAD_BYTES / 1024 / 1024)} MB. Split the register into smaller files (for example one per school), or remove pictures and other sheets, and import them one by one.`
+      : `This request is too large: the limit is ${Math.round(limitBytes / 1024)} KB, far more than this form or API needs.`,
     { limitBytes },
   );
 
@@ -48,18 +54,21 @@ export function clientAddressOf(req: IncomingMessage, trustProxy: boolean): stri
   return req.socket.remoteAddress ?? 'unknown';
 }
 
-/** The body's chunks, refusing with 413 (and closing the connection) as soon as more than `limit` bytes arrive. */
+/**
+ * The body's chunks, refusing with 413 once more than `limit` bytes have arrived: the rest is read and
+ * thrown away up to discardAtMost(limit), past which the connection is closed instead.
+ */
 async function* limitedBody(req: IncomingMessage, res: ServerResponse, limit: number): AsyncGenerator<Buffer> {
   let received = 0;
   for await (const chunk of req as AsyncIterable<Buffer>) {
     received += chunk.length;
-    if (received > limit) {
-      // Stop reading: the connection closes after the 413, so the rest is never read.
+    if (received > discardAtMost(limit)) {
       if (!res.headersSent) res.setHeader('connection', 'close');
       throw bodyTooLarge(limit);
     }
-    yield chunk;
+    if (received <= limit) yield chunk;
   }
+  if (received > limit) throw bodyTooLarge(limit);
 }
 
 const METHODS_WITH_BODY = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -81,11 +90,22 @@ export function guardRequest(req: IncomingMessage, res: ServerResponse, trustPro
   const declared = Number(req.headers['content-length'] ?? Number.NaN);
   if (declared > limit) {
     req.headers[BODY_TOO_LARGE_HEADER] = String(limit);
-    res.setHeader('connection', 'close');
+    if (declared > discardAtMost(limit)) res.setHeader('connection', 'close');
     return;
   }
   // Astro builds the request body from `req.body` when it is set (see NodeApp.createRequest).
   (req as IncomingMessage & { body?: AsyncIterable<Buffer> }).body = limitedBody(req, res, limit);
+}
+
+/**
+ * True when answering without reading the body should close the connection: Node would otherwise read
+ * and discard the whole body to keep the connection, and a body sent without a declared size (or with a
+ * huge one) has no end we can count on.
+ */
+export function mustCloseUnreadBody(request: Request): boolean {
+  if (!request.body || request.bodyUsed) return false;
+  const declared = Number(request.headers.get('content-length') ?? Number.NaN);
+  return !(declared <= discardAtMost(bodyLimitFor(request.method, new URL(request.url).pathname)));
 }
 
 let installed = false;

@@ -10,7 +10,7 @@ import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
 import type { RegisterField } from './columns';
 import type { DetectedHeader } from './headers';
-import { readRegisterFile } from './parse';
+import { readRegisterFileIsolated } from './parse-in-worker';
 import { planImport, type ImportPlan, type ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
@@ -89,7 +89,7 @@ export async function previewImport(
   const kind = fileKindOf(upload.fileName);
   const mark = stepTimer('preview');
   const saved = await loadSavedMappings(db, trust.id);
-  const file = await readRegisterFile(upload.bytes, kind, saved, options);
+  const file = await readRegisterFileIsolated(upload.bytes, kind, saved, options);
   mark('read and check cells');
   const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
   const plan = planImport(file.read, file.header.columns, snapshot);
