@@ -126,10 +126,19 @@ describe('sheet contents', () => {
     await refused('entity.xlsx', writeZip(parts), /entities or a document type/);
   });
 
-  it('refuses an undefined entity in a sheet with a 400, not a 500', async () => {
-    const parts = editPart(await registerParts(), STRINGS, (xml) =>
-      xml.replace('<t>Oak Primary</t>', '<t>&undefinedthing;</t>'),
+  /** The sheet with the first room's name (cell F2) written inline as `text`. */
+  const roomNameInline = async (text: string) =>
+    editPart(await registerParts(), SHEET, (xml) =>
+      xml.replace(/<c r="F2" t="s"><v>\d+<\/v><\/c>/, `<c r="F2" t="inlineStr"><is><t>${text}</t></is></c>`),
     );
+
+  it('reads a room name written inline in the sheet (so the two tests below test what they say)', async () => {
+    const { status } = await upload('inline.xlsx', writeZip(await roomNameInline('Room inline')));
+    expect(status).toBe(201);
+  });
+
+  it('refuses an undefined entity in a sheet with a 400, not a 500', async () => {
+    const parts = await roomNameInline('&undefinedthing;');
     await refused('undefined-entity.xlsx', writeZip(parts), /could not read this workbook/);
   });
 
@@ -145,9 +154,7 @@ describe('sheet contents', () => {
   });
 
   it('refuses NUL bytes in a workbook cell', async () => {
-    const parts = editPart(await registerParts(), STRINGS, (xml) =>
-      xml.replace('<t>Oak Primary</t>', '<t>Oak&#0;Primary</t>'),
-    );
+    const parts = await roomNameInline('Room&#0;1');
     await refused('nul.xlsx', writeZip(parts), /NUL|could not read/);
   });
 
@@ -157,6 +164,37 @@ describe('sheet contents', () => {
     lines.push('Oak Primary,Primary,R\u0000NUL,50,2.7,30');
     await refused('nul.csv', Buffer.from(lines.join('\n')), /Row 32 contains a NUL character/);
   });
+});
+
+describe('reading off the request thread', () => {
+  it('keeps answering other requests while a 20 MB register is read and checked', async () => {
+    const lines = [
+      'School,School phase,Block,Room code,Room name,Room use,Floor area (m2),Ceiling height (m),Pupils,Adults,Notes',
+    ];
+    for (let i = 0; i < 190_000; i++)
+      lines.push(`School ${i % 40},Primary,Main,R${i},Room ${i},Classroom,55,2.7,30,2,Surveyed room ${i} in 2026`);
+    const bytes = Buffer.from(lines.join('\n'));
+    expect(bytes.length).toBeLessThan(20 * 1024 * 1024);
+    let uploading = true;
+    let longestWaitMs = 0;
+    const probe = (async () => {
+      while (uploading) {
+        const start = performance.now();
+        expect((await api('/api/health')).status).toBe(200);
+        longestWaitMs = Math.max(longestWaitMs, performance.now() - start);
+      }
+    })();
+    const started = performance.now();
+    const { status } = await upload('big.csv', bytes);
+    const uploadMs = performance.now() - started;
+    uploading = false;
+    await probe;
+    expect(status).toBe(201);
+    // Reading this file takes seconds of CPU; done in the request thread it held every other request
+    // for most of that time.
+    expect(uploadMs).toBeGreaterThan(1000);
+    expect(longestWaitMs).toBeLessThan(750);
+  }, 120_000);
 });
 
 describe('temporary files', () => {
@@ -180,8 +218,8 @@ describe('temporary files', () => {
 
 /**
  * Sends `totalBytes` to `path` as fast as the server takes them, with or without declaring the size, and
- * reports the status (if an answer came) and how many bytes the server had taken when it answered or
- * closed the connection.
+ * goes on sending after an answer for as long as the server reads; reports the status (if an answer came)
+ * and how many bytes the server had taken when it closed the connection (or all of them).
  */
 function flood(
   path: string,
@@ -193,7 +231,8 @@ function flood(
     const chunk = Buffer.alloc(1024 * 1024, 0x61);
     let sent = 0;
     let done = false;
-    const finish = (status: number | null) => {
+    let status: number | null = null;
+    const finish = () => {
       if (done) return;
       done = true;
       clearTimeout(timer);
@@ -215,11 +254,11 @@ function flood(
       },
     });
     request.on('response', (response) => {
+      status = response.statusCode ?? null;
       response.resume();
-      finish(response.statusCode ?? null);
     });
-    request.on('error', () => finish(null));
-    request.on('close', () => finish(null));
+    request.on('error', finish);
+    request.on('close', finish);
     const pump = (): void => {
       while (!done && sent < totalBytes) {
         sent += chunk.length;
@@ -228,7 +267,7 @@ function flood(
           return;
         }
       }
-      if (!done) request.end();
+      if (!done) request.end(finish);
     };
     pump();
   });

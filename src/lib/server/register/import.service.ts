@@ -1,4 +1,3 @@
-import { gunzipSync, gzipSync } from 'node:zlib';
 import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
 import { config } from '../config';
@@ -8,21 +7,13 @@ import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
-import type { RegisterField } from './columns';
 import type { DetectedHeader } from './headers';
-import { readRegisterFileIsolated } from './parse-in-worker';
-import { planImport, type ImportPlan, type ImportSummary } from './plan';
+import { analyseUploadIsolated } from './parse-in-worker';
+import { decodePlan } from './analyse';
+import type { ImportPlan, ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import {
-  applyPlan,
-  estateFingerprint,
-  loadSavedMappings,
-  loadSnapshot,
-  saveMappings,
-  stagedRoomLine,
-  type StoredPlan,
-} from './register.repository';
+import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -38,9 +29,6 @@ function stepTimer(name: string): (step: string) => void {
     last = now;
   };
 }
-
-/** Problems kept and returned per import; the counts in the summary stay exact beyond it. */
-export const MAX_PROBLEMS_KEPT = 10_000;
 
 /** The uploaded file as the route hands it over. */
 export interface Upload {
@@ -88,31 +76,17 @@ export async function previewImport(
   if (upload.bytes.length === 0) throw badRequest('The file is empty. Choose the register file again.');
   const kind = fileKindOf(upload.fileName);
   const mark = stepTimer('preview');
-  const saved = await loadSavedMappings(db, trust.id);
-  const file = await readRegisterFileIsolated(upload.bytes, kind, saved, options);
-  mark('read and check cells');
-  const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
-  const plan = planImport(file.read, file.header.columns, snapshot);
-  // The read rows are not needed past here; letting them go keeps peak memory down on big files.
-  file.read.rows = [];
-  mark('compare with the estate');
-  const rowsGz = encodePlan(plan);
-  plan.roomWrites = [];
-  const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
-  const header = {
-    row: file.header.row,
-    rowCount: file.header.rowCount,
-    confident: file.header.confident,
-    columns: file.header.columns,
-  };
+  const [saved, snapshot, fingerprint] = await Promise.all([
+    loadSavedMappings(db, trust.id),
+    loadSnapshot(db, trust),
+    estateFingerprint(db, trust),
+  ]);
+  mark('load the estate');
+  const analysis = await analyseUploadIsolated(upload.bytes, kind, saved, options, snapshot, config().importTimings);
+  mark('read, check and compare with the estate (worker)');
 
   const id = await db.transaction().execute(async (trx) => {
-    if (options.mapping) {
-      const pairs = file.header.columns
-        .filter((c) => c.field && c.letter in (options.mapping ?? {}))
-        .map((c) => ({ headerKey: c.headerKey, field: c.field as RegisterField }));
-      await saveMappings(trx, trust.id, pairs);
-    }
+    if (analysis.mappedPairs.length) await saveMappings(trx, trust.id, analysis.mappedPairs);
     const row = await trx
       .insertInto('register_imports')
       .values({
@@ -122,12 +96,12 @@ export async function previewImport(
         file_name: upload.fileName.slice(0, 255),
         file_kind: kind,
         file_size_bytes: upload.bytes.length,
-        header: JSON.stringify({ ...header, sheetName: file.sheetName }),
-        summary: JSON.stringify(plan.summary),
-        problems: JSON.stringify(problems),
-        problem_count: plan.problems.length,
-        missing_rooms: JSON.stringify(plan.missingRooms),
-        rows_gz: rowsGz,
+        header: JSON.stringify({ ...analysis.header, sheetName: analysis.sheetName }),
+        summary: JSON.stringify(analysis.summary),
+        problems: JSON.stringify(analysis.problems),
+        problem_count: analysis.problemCount,
+        missing_rooms: JSON.stringify(analysis.missingRooms),
+        rows_gz: analysis.rowsGz,
         estate_fingerprint: fingerprint,
       })
       .returning('id')
@@ -138,7 +112,7 @@ export async function previewImport(
       action: 'import.previewed',
       entityType: 'import',
       entityId: row.id,
-      summary: `Uploaded ${upload.fileName} for preview: ${plan.summary.roomsToCreate} rooms to create, ${plan.summary.roomsToChange} to change, ${plan.summary.rowsRejected} rows rejected`,
+      summary: `Uploaded ${upload.fileName} for preview: ${analysis.summary.roomsToCreate} rooms to create, ${analysis.summary.roomsToChange} to change, ${analysis.summary.rowsRejected} rows rejected`,
     });
     return row.id;
   });
@@ -147,32 +121,14 @@ export async function previewImport(
     id,
     status: 'previewed',
     fileName: upload.fileName,
-    sheetName: file.sheetName,
-    header,
-    topRows: file.topRows,
-    summary: plan.summary,
-    problems,
-    problemsTruncated: plan.problems.length > problems.length,
-    missingRooms: plan.missingRooms,
+    sheetName: analysis.sheetName,
+    header: analysis.header,
+    topRows: analysis.topRows,
+    summary: analysis.summary,
+    problems: analysis.problems,
+    problemsTruncated: analysis.problemCount > analysis.problems.length,
+    missingRooms: analysis.missingRooms,
   };
-}
-
-/**
- * The plan as the commit needs it, gzip-compressed: one line of JSON with everything but the room
- * writes, then the room writes as COPY text lines, ready to stream into the commit's staging table.
- */
-export function encodePlan(plan: ImportPlan): Buffer {
-  const { problems: _problems, roomWrites, ...rest } = plan;
-  const parts: string[] = [JSON.stringify(rest satisfies StoredPlan), '\n'];
-  for (const w of roomWrites) parts.push(stagedRoomLine(w));
-  return gzipSync(parts.join(''), { level: 1 });
-}
-
-/** The inverse of encodePlan: the plan without its room writes, and the room writes as COPY text. */
-export function decodePlan(gz: Buffer): { plan: StoredPlan; roomLines: Buffer } {
-  const bytes = gunzipSync(gz);
-  const end = bytes.indexOf(10);
-  return { plan: JSON.parse(bytes.toString('utf8', 0, end)) as StoredPlan, roomLines: bytes.subarray(end + 1) };
 }
 
 /** Outcome of a commit or cancel, as stored on the import and answered to the client. */

@@ -5,9 +5,10 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { AppError, badRequest } from '../http/errors';
+import { analyseUpload, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
-import { readRegisterFile, type ReadRegister } from './parse';
+import type { EstateSnapshot } from './plan';
 import type { ImportOptions } from './register.schemas';
 
 /** The file the build emits for parse-worker.ts (see astro.config.mjs). */
@@ -25,11 +26,14 @@ export interface ParseJob {
   kind: 'xlsx' | 'csv';
   saved: [string, RegisterField][];
   options: ImportOptions;
+  snapshot: EstateSnapshot;
+  /** Log how long each step takes (AIRTALLY_IMPORT_TIMINGS). */
+  timings: boolean;
 }
 
-/** What a worker answers: the read file, or the error as plain data. */
+/** What a worker answers: the analysis, or the error as plain data. */
 export type ParseReply =
-  | { ok: true; file: ReadRegister }
+  | { ok: true; analysis: UploadAnalysis }
   | { ok: false; error: { status?: number; code?: string; message: string; details?: unknown } };
 
 let workerUrl: URL | null | undefined;
@@ -72,7 +76,7 @@ const tooHungry = () =>
     'This file needs more memory to read than any room register does. Check that it is the register itself, remove other sheets, pictures and formatting, or split it into smaller files.',
   );
 
-function runWorker(url: URL, job: ParseJob, tmp: string): Promise<ReadRegister> {
+function runWorker(url: URL, job: ParseJob, tmp: string): Promise<UploadAnalysis> {
   return new Promise((resolve, reject) => {
     const worker = new Worker(url, {
       workerData: job,
@@ -93,7 +97,7 @@ function runWorker(url: URL, job: ParseJob, tmp: string): Promise<ReadRegister> 
     const timer = setTimeout(() => settle(() => reject(tooSlow())), PARSE_TIME_LIMIT_MS);
     worker.once('message', (reply: ParseReply) =>
       settle(() => {
-        if (reply.ok) return resolve(reply.file);
+        if (reply.ok) return resolve({ ...reply.analysis, rowsGz: Buffer.from(reply.analysis.rowsGz) });
         const e = reply.error;
         reject(
           e.status
@@ -118,25 +122,28 @@ function runWorker(url: URL, job: ParseJob, tmp: string): Promise<ReadRegister> 
 }
 
 /**
- * Reads a register upload off the request thread: in a worker with its own heap limit and a time limit,
- * at most two at once, so one hostile file can neither freeze every other request nor take the server's
- * memory, and its temporary files are removed afterwards. Running from source (no built worker), it
- * reads in this thread.
+ * Analyses a register upload (analyseUpload) off the request thread: in a worker with its own heap limit
+ * and a time limit, at most two at once, so one hostile file can neither freeze every other request nor
+ * take the server's memory, and its temporary files are removed afterwards. Running from source (no
+ * built worker: development, unit tests), it works in this thread.
  */
-export async function readRegisterFileIsolated(
+export async function analyseUploadIsolated(
   bytes: Buffer,
   kind: 'xlsx' | 'csv',
   saved: SavedMappings,
-  options: ImportOptions = {},
-): Promise<ReadRegister> {
+  options: ImportOptions,
+  snapshot: EstateSnapshot,
+  timings: boolean,
+): Promise<UploadAnalysis> {
   const url = findWorker();
-  if (!url) return readRegisterFile(bytes, kind, saved, options);
+  if (!url) return analyseUpload(bytes, kind, saved, options, snapshot);
   return withSlot(async () => {
     const tmp = await mkdtemp(join(tmpdir(), 'airtally-import-'));
     try {
       const copy = new Uint8Array(bytes.length);
       copy.set(bytes);
-      return await runWorker(url, { bytes: copy.buffer, kind, saved: [...saved], options }, tmp);
+      const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings };
+      return await runWorker(url, job, tmp);
     } finally {
       await rm(tmp, { recursive: true, force: true });
     }

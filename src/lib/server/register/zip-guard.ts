@@ -191,7 +191,12 @@ function unpack(buf: Buffer, entry: ZipEntry, budget: Budget, onText?: (text: st
       if (isXml && (/<!DOCTYPE|<!ENTITY/.test(window) || /<!DOCTYPE|<!ENTITY/.test(text)))
         return notXlsx(`the part "${entry.name}" declares XML entities or a document type, which Excel never writes`);
       carry = text.slice(-16);
-      onText?.(text);
+      try {
+        onText?.(text);
+      } catch (error) {
+        // Refused by the caller (too many merged ranges): reject the promise, never throw from the stream.
+        return error instanceof Error ? error : new Error(String(error));
+      }
     }
     return null;
   };
