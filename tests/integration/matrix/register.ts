@@ -2,12 +2,16 @@ import { signedIn, type MatrixEntry } from './types';
 
 // An id that exists nowhere, so write entries change nothing.
 const NOBODY = '00000000-0000-4000-8000-000000000000';
-/** Writers (estates manager, trust admin and the other trust's admin) get `status`; viewers and finance leads 403. */
-const writers = (status: number, other = status) => ({
+/**
+ * Writers (estates manager, trust admin and the other trust's admin) get `status`; viewers and finance leads
+ * 403. The school-limited estates manager gets `limited` (404 for rows of the school they may not see).
+ */
+const writers = (status: number, other = status, limited = status) => ({
   anonymous: 401,
   viewer: 403,
   finance_lead: 403,
   estates_manager: status,
+  school_limited: limited,
   trust_admin: status,
   other_trust: other,
 });
@@ -34,11 +38,26 @@ export const entries: MatrixEntry[] = [
   },
   { file: 'imports/[id]/index.ts', method: 'GET', path: `/api/imports/${NOBODY}`, expect: signedIn(404) },
   {
+    file: 'imports/[id]/index.ts',
+    method: 'GET',
+    path: (c) => `/api/imports/${c.foreignImportId}`,
+    expect: { ...signedIn(200), school_limited: 404, other_trust: 404 },
+    note: "the trust admin's import lists missing rooms of every school: a school-limited member sees only their own imports",
+  },
+  {
     file: 'imports/[id]/commit.ts',
     method: 'POST',
     path: `/api/imports/${NOBODY}/commit`,
     body: { rows: 'none' },
     expect: writers(404),
+  },
+  {
+    file: 'imports/[id]/commit.ts',
+    method: 'POST',
+    path: (c) => `/api/imports/${c.foreignImportId}/commit`,
+    body: { rows: 'none' },
+    expect: { ...writers(200, 404, 404), trust_admin: 409 },
+    note: "the estates manager cancels the preview (the estate is untouched), so it is no longer open for the trust admin; a school-limited member may not touch another member's preview",
   },
   {
     file: 'exports/register.xlsx.ts',
@@ -55,8 +74,8 @@ export const entries: MatrixEntry[] = [
     method: 'PATCH',
     path: (c) => `/api/rooms/${c.demoRoomId}`,
     body: {},
-    expect: writers(200, 404),
-    note: 'an empty patch changes nothing; another trust gets 404',
+    expect: writers(200, 404, 404),
+    note: 'an empty patch changes nothing; another trust, or a member limited to another school, gets 404',
   },
   { file: 'rooms/[id].ts', method: 'DELETE', path: `/api/rooms/${NOBODY}`, expect: writers(404) },
   {
@@ -71,7 +90,7 @@ export const entries: MatrixEntry[] = [
     method: 'PATCH',
     path: (c) => `/api/schools/${c.demoSchoolId}`,
     body: {},
-    expect: writers(200, 404),
+    expect: writers(200, 404, 404),
   },
   { file: 'blocks/index.ts', method: 'POST', path: '/api/blocks', body: {}, expect: writers(400) },
   { file: 'blocks/[id].ts', method: 'PATCH', path: `/api/blocks/${NOBODY}`, body: {}, expect: writers(404) },

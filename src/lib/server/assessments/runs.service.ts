@@ -101,13 +101,37 @@ export async function startRun(
 }
 
 /**
+ * The runs a member may see. A member limited to some schools sees no run of another school, and of a
+ * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms).
+ */
+async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
+  const allowed = trust.schoolIds;
+  if (allowed === null) return runs;
+  const visible = runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId));
+  const roomIds = [...new Set(visible.flatMap((r) => r.problems.map((p) => p.roomId)))];
+  const inSchools = new Set(
+    roomIds.length && allowed.length
+      ? (
+          await getDb()
+            .selectFrom('rooms')
+            .select('id')
+            .where('id', 'in', roomIds)
+            .where('school_id', 'in', allowed)
+            .execute()
+        ).map((r) => r.id)
+      : [],
+  );
+  return visible.map((r) => ({ ...r, problems: r.problems.filter((p) => inSchools.has(p.roomId)) }));
+}
+
+/**
  * A run's status. A run still marked queued or running whose job pg-boss has given up on (its worker died
  * on the last attempt) is failed here, cleanly, so nobody waits for it forever.
  */
 export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunStatusView> {
   const db = getDb();
   let run = await getRun(db, id, trust.id);
-  if (!run) throw notFound('That assessment run');
+  if (!run || (await visibleTo(trust, [run])).length === 0) throw notFound('That assessment run');
   if ((run.status === 'queued' || run.status === 'running') && run.jobId) {
     const state = await jobState(run.jobId);
     if (state === null || state === 'failed' || state === 'cancelled') {
@@ -118,11 +142,13 @@ export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunS
       }
     }
   }
-  return toStatusView(run);
+  const [visible] = await visibleTo(trust, [run]);
+  if (!visible) throw notFound('That assessment run');
+  return toStatusView(visible);
 }
 
 /** The trust's recent runs, newest first. */
 export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
   await getQueue();
-  return (await listRuns(getDb(), trust.id, limit)).map(toStatusView);
+  return (await visibleTo(trust, await listRuns(getDb(), trust.id, limit))).map(toStatusView);
 }

@@ -162,12 +162,14 @@ export async function commitImport(
     db.transaction().execute(async (trx) => {
       const found = await trx
         .selectFrom('register_imports')
-        .select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
+        .select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint', 'created_by_user_id'])
         .where('id', '=', importId)
         .where('trust_id', '=', trust.id)
         .forUpdate()
         .executeTakeFirst();
-      if (!found) throw notFound('That import');
+      // A member limited to some schools commits only their own previews (another's spans other schools).
+      if (!found || (trust.schoolIds !== null && found.created_by_user_id !== actor.actorUserId))
+        throw notFound('That import');
       if (found.status !== 'previewed' || !found.rows_gz)
         throw conflict(`This import is already ${found.status}; upload the file again to import it.`);
       const audit = { trustId: trust.id, ...actor, entityType: 'import', entityId: importId };
@@ -257,10 +259,21 @@ export interface ImportHistoryItem {
   outcome: ImportOutcome | null;
 }
 
-/** The trust's imports, newest first. */
-export async function listImports(db: Kysely<Database>, trustId: string, limit = 50): Promise<ImportHistoryItem[]> {
-  const rows = await db
-    .selectFrom('register_imports')
+/** Who reads the import history: a member limited to some schools sees only the imports they uploaded. */
+export interface ImportViewer {
+  trust: ActiveTrust;
+  userId: string;
+}
+
+/** The imports a viewer may see: the trust's, or only their own when they are limited to some schools. */
+function visibleImports(db: Kysely<Database>, viewer: ImportViewer) {
+  const q = db.selectFrom('register_imports').where('trust_id', '=', viewer.trust.id);
+  return viewer.trust.schoolIds === null ? q : q.where('created_by_user_id', '=', viewer.userId);
+}
+
+/** The trust's imports, newest first (a school-limited member's own only: others' name other schools' rooms). */
+export async function listImports(db: Kysely<Database>, viewer: ImportViewer, limit = 50): Promise<ImportHistoryItem[]> {
+  const rows = await visibleImports(db, viewer)
     .select([
       'id',
       'file_name',
@@ -273,7 +286,6 @@ export async function listImports(db: Kysely<Database>, trustId: string, limit =
       'problem_count',
       'outcome',
     ])
-    .where('trust_id', '=', trustId)
     .orderBy('created_at', 'desc')
     .limit(limit)
     .execute();
@@ -291,10 +303,12 @@ export async function listImports(db: Kysely<Database>, trustId: string, limit =
   }));
 }
 
-/** One import with its stored preview (problems and rooms missing from the file). */
-export async function getImport(db: Kysely<Database>, trustId: string, id: string) {
-  const r = await db
-    .selectFrom('register_imports')
+/**
+ * One import with its stored preview (problems and rooms missing from the file). A member limited to some
+ * schools gets only their own imports, and of the missing rooms only those still in their schools.
+ */
+export async function getImport(db: Kysely<Database>, viewer: ImportViewer, id: string) {
+  const r = await visibleImports(db, viewer)
     .select([
       'id',
       'file_name',
@@ -310,10 +324,25 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
       'outcome',
       'header',
     ])
-    .where('trust_id', '=', trustId)
     .where('id', '=', id)
     .executeTakeFirst();
   if (!r) throw notFound('That import');
+  let missingRooms = r.missing_rooms as unknown as ImportPlan['missingRooms'];
+  const schoolIds = viewer.trust.schoolIds;
+  if (schoolIds !== null && missingRooms.length > 0) {
+    const allowed = await db
+      .selectFrom('rooms')
+      .select('id')
+      .where(
+        'id',
+        'in',
+        missingRooms.map((m) => m.id),
+      )
+      .where('school_id', 'in', schoolIds.length ? schoolIds : ['00000000-0000-0000-0000-000000000000'])
+      .execute();
+    const ids = new Set(allowed.map((a) => a.id));
+    missingRooms = missingRooms.filter((m) => ids.has(m.id));
+  }
   return {
     id: r.id,
     fileName: r.file_name,
@@ -325,7 +354,7 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
     summary: r.summary as ImportSummary,
     problems: r.problems as unknown as ImportProblem[],
     problemCount: r.problem_count,
-    missingRooms: r.missing_rooms as unknown as ImportPlan['missingRooms'],
+    missingRooms,
     outcome: r.outcome as ImportOutcome | null,
     header: r.header,
   };

@@ -11,7 +11,7 @@ import { ImportOptionsSchema } from '../../../lib/server/register/register.schem
 /** The trust's import history, newest first. */
 export const GET = route(async ({ locals }) => {
   const trust = requirePermission(locals, 'estate', 'read');
-  return json({ imports: await listImports(getDb(), trust.id) });
+  return json({ imports: await listImports(getDb(), { trust, userId: actorOf(locals).actorUserId ?? '' }) });
 });
 
 /** Uploads a register (multipart, field `file`) and answers its preview; nothing is written to the estate yet. */
