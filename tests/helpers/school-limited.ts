@@ -40,7 +40,10 @@ async function finishedRun(admin: string, body: object): Promise<string> {
   );
   const deadline = Date.now() + 120_000;
   for (;;) {
-    const run = await json<{ status: string; error?: string }>(await api(`/api/assessments/${id}`, { cookie: admin }), 200);
+    const run = await json<{ status: string; error?: string }>(
+      await api(`/api/assessments/${id}`, { cookie: admin }),
+      200,
+    );
     if (run.status === 'succeeded') return id;
     if (run.status === 'failed') throw new Error(`The fixture run failed: ${run.error}`);
     if (Date.now() > deadline) throw new Error(`The fixture run ${id} did not finish within 120 s`);

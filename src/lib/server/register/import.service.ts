@@ -272,7 +272,11 @@ function visibleImports(db: Kysely<Database>, viewer: ImportViewer) {
 }
 
 /** The trust's imports, newest first (a school-limited member's own only: others' name other schools' rooms). */
-export async function listImports(db: Kysely<Database>, viewer: ImportViewer, limit = 50): Promise<ImportHistoryItem[]> {
+export async function listImports(
+  db: Kysely<Database>,
+  viewer: ImportViewer,
+  limit = 50,
+): Promise<ImportHistoryItem[]> {
   const rows = await visibleImports(db, viewer)
     .select([
       'id',
