@@ -5,6 +5,7 @@ import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import { ENGINE_CAUTIONS, listAssumptions, RISK_BAND_LABELS } from '../../engine';
 import type { ActiveTrust } from '../auth/context';
+import { guardFormula } from '../formula-guard';
 import { getAssumptionSetById } from './assumptions.repository';
 import { inCanonicalOrder } from './assumptions.service';
 import { RISK_BANDS_BY_NUMBER } from './result-row';
@@ -40,13 +41,8 @@ const EXTRA_HEADER = [
   'Run finished',
 ] as const;
 
-/**
- * Text a spreadsheet would run as a formula (leading =, +, -, @, tab or carriage return) gets a leading
- * apostrophe so it stays text (OWASP "CSV injection" guidance applies to .xlsx cells too).
- */
-export function guardText(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
+/** Text a spreadsheet would run as a formula gets a leading apostrophe so it stays text (see formula-guard.ts). */
+export const guardText = guardFormula;
 
 const round = (v: number | null, digits = 0) => (v === null || !Number.isFinite(v) ? null : Number(v.toFixed(digits)));
 
