@@ -225,7 +225,7 @@ describe('the rooms a run assesses', () => {
 
 describe('runs of several trusts', () => {
   it("do not wait on one trust's long run", async () => {
-    const large = await bigTrust(db, 30_000, 4);
+    const large = await bigTrust(db, 15_000, 3);
     const small = await bigTrust(db, 30, 1);
     const long = await startRun(large);
     await until(
@@ -245,7 +245,7 @@ describe('runs of several trusts', () => {
 
 describe('the app server killed during a run', () => {
   it('is started again, and resumes the interrupted run within a minute', async () => {
-    const trust = await bigTrust(db, 30_000, 4);
+    const trust = await bigTrust(db, 15_000, 3);
     const pidFile = process.env.APP_PID_FILE ?? '';
     const appPid = Number(readFileSync(pidFile, 'utf8'));
     const id = await startRun(trust);
