@@ -3,7 +3,7 @@
 import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { sql } from 'kysely';
+import { type RawBuilder, sql } from 'kysely';
 import { afterAll, describe, expect, it } from 'vitest';
 import { getDb } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
@@ -65,6 +65,14 @@ const currentRunIds = async (trustId: string) =>
       .execute()
   ).map((r) => r.run_id);
 
+/** Makes a run look as a worker elsewhere leaves it: running, one attempt made, its last heartbeat at `beatAt`. */
+const heldBy = (runId: string, workerId: string, beatAt: RawBuilder<Date>) =>
+  db
+    .updateTable('assessment_runs')
+    .set({ status: 'running', worker_id: workerId, attempts: 1, heartbeat_at: beatAt })
+    .where('id', '=', runId)
+    .execute();
+
 /** Starts a run through the API as the trust's admin. */
 async function startRun(trust: BigTrust): Promise<string> {
   const response = await api('/api/assessments', {
@@ -123,16 +131,7 @@ describe('a run whose worker dies', () => {
     const trust = await bigTrust(db, 120, 2);
     const run = await newRun(trust.trustId);
     // As a worker elsewhere would leave it: running, one attempt made, its last heartbeat long ago.
-    await db
-      .updateTable('assessment_runs')
-      .set({
-        status: 'running',
-        worker_id: 'another-host/4242/dead0000',
-        attempts: 1,
-        heartbeat_at: sql`now() - interval '2 minutes'`,
-      })
-      .where('id', '=', run.id)
-      .execute();
+    await heldBy(run.id, 'another-host/4242/dead0000', sql`now() - interval '2 minutes'`);
     const done = await until(() => runOf(run.id), finished, 60_000, 'The silent run was not resumed');
     expect(done.status).toBe('succeeded');
     expect(done.attempts).toBe(2);
@@ -142,11 +141,7 @@ describe('a run whose worker dies', () => {
   it('is left to its worker while that worker keeps beating', async () => {
     const trust = await bigTrust(db, 40, 1);
     const run = await newRun(trust.trustId);
-    await db
-      .updateTable('assessment_runs')
-      .set({ status: 'running', worker_id: 'another-host/4243/alive000', attempts: 1, heartbeat_at: sql`now()` })
-      .where('id', '=', run.id)
-      .execute();
+    await heldBy(run.id, 'another-host/4243/alive000', sql`now()`);
     expect(await executeRun(run.id)).toBe(false);
     const untouched = await runOf(run.id);
     expect(untouched).toMatchObject({

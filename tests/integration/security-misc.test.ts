@@ -15,15 +15,21 @@ afterAll(() => db.destroy());
 
 type ErrorBody = { error: { code: string; message: string } };
 
+/** A trust of its own with one room, and that room's id. */
+async function trustWithARoom() {
+  const trust = await bigTrust(db, 1, 1);
+  const room = await db
+    .selectFrom('rooms')
+    .select('id')
+    .where('school_id', '=', trust.schoolIds[0]!)
+    .executeTakeFirstOrThrow();
+  return { ...trust, roomId: room.id };
+}
+
 describe('bad input answers 400, not 500', () => {
   it('refuses ifUnmodifiedSince that is not a date', async () => {
-    const trust = await bigTrust(db, 2, 1);
-    const room = await db
-      .selectFrom('rooms')
-      .select('id')
-      .where('school_id', '=', trust.schoolIds[0]!)
-      .executeTakeFirstOrThrow();
-    const response = await api(`/api/rooms/${room.id}`, {
+    const trust = await trustWithARoom();
+    const response = await api(`/api/rooms/${trust.roomId}`, {
       method: 'PATCH',
       cookie: trust.cookie,
       body: JSON.stringify({ pupils: 25, ifUnmodifiedSince: 'garbage' }),
@@ -33,13 +39,8 @@ describe('bad input answers 400, not 500', () => {
   });
 
   it('refuses a NUL byte in a text field', async () => {
-    const trust = await bigTrust(db, 2, 1);
-    const room = await db
-      .selectFrom('rooms')
-      .select('id')
-      .where('school_id', '=', trust.schoolIds[0]!)
-      .executeTakeFirstOrThrow();
-    const response = await api(`/api/rooms/${room.id}`, {
+    const trust = await trustWithARoom();
+    const response = await api(`/api/rooms/${trust.roomId}`, {
       method: 'PATCH',
       cookie: trust.cookie,
       body: JSON.stringify({ notes: 'Window\u0000sticks' }),
@@ -123,14 +124,9 @@ describe('payment webhooks', () => {
 
 describe('exports', () => {
   it('keeps text that starts with white space before =, +, - or @ as text', async () => {
-    const trust = await bigTrust(db, 1, 1);
-    const room = await db
-      .selectFrom('rooms')
-      .select('id')
-      .where('school_id', '=', trust.schoolIds[0]!)
-      .executeTakeFirstOrThrow();
+    const trust = await trustWithARoom();
     const notes = ' =HYPERLINK("http://evil.test","Details")';
-    const patched = await api(`/api/rooms/${room.id}`, {
+    const patched = await api(`/api/rooms/${trust.roomId}`, {
       method: 'PATCH',
       cookie: trust.cookie,
       body: JSON.stringify({ notes, name: '\t+44 20 7946 0000' }),

@@ -132,13 +132,23 @@ async function joinByInvitation(db: Kysely<Database>, invitationId: string, user
   );
   await db.updateTable('invitation').set({ status: 'accepted' }).where('id', '=', invitationId).execute();
   if (member) await applyInvitationLimits(db, invitationId, member.id);
-  await recordAudit(db, {
+  await auditJoined(db, invitation, user, member?.id ?? null);
+}
+
+/** Audits a person joining a trust by its invitation. */
+function auditJoined(
+  db: Kysely<Database>,
+  invitation: { trustId: string; role: string | null },
+  user: { id: string; email: string },
+  memberId: string | null,
+) {
+  return recordAudit(db, {
     trustId: invitation.trustId,
     actorUserId: user.id,
     actorEmail: user.email,
     action: 'member.joined',
     entityType: 'member',
-    entityId: member?.id ?? null,
+    entityId: memberId,
     summary: `${user.email} accepted the invitation and joined as ${invitation.role}`,
     after: { role: invitation.role },
   });
@@ -196,16 +206,7 @@ export async function acceptInvitation(
     getAuth().api.acceptInvitation({ body: { invitationId }, headers: requestHeaders }),
   );
   if (result?.member) await applyInvitationLimits(db, invitationId, result.member.id);
-  await recordAudit(db, {
-    trustId: invitation.trustId,
-    actorUserId: user.id,
-    actorEmail: user.email,
-    action: 'member.joined',
-    entityType: 'member',
-    entityId: result?.member.id ?? null,
-    summary: `${user.email} accepted the invitation and joined as ${invitation.role}`,
-    after: { role: invitation.role },
-  });
+  await auditJoined(db, invitation, user, result?.member.id ?? null);
   const session = await getAuth().api.getSession({ headers: requestHeaders });
   if (session) await setSessionTrust(db, session.session.id, invitation.trustId);
   return { id: invitation.trustId, name: invitation.trustName };

@@ -7,9 +7,8 @@ import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
-import type { DetectedHeader } from './headers';
 import { analyseUploadIsolated } from './parse-in-worker';
-import { decodePlan } from './analyse';
+import { decodePlan, type UploadAnalysis } from './analyse';
 import type { ImportPlan, ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
@@ -37,18 +36,10 @@ export interface Upload {
 }
 
 /** The preview an import answers with (POST /api/imports) and keeps until commit. */
-export interface ImportPreview {
-  id: string;
-  status: 'previewed';
-  fileName: string;
-  sheetName: string;
-  header: { row: number; rowCount: number; confident: boolean; columns: DetectedHeader['columns'] };
-  topRows: string[][];
-  summary: ImportSummary;
-  problems: ImportProblem[];
-  problemsTruncated: boolean;
-  missingRooms: ImportPlan['missingRooms'];
-}
+export type ImportPreview = Pick<
+  UploadAnalysis,
+  'sheetName' | 'header' | 'topRows' | 'summary' | 'problems' | 'missingRooms'
+> & { id: string; status: 'previewed'; fileName: string; problemsTruncated: boolean };
 
 /** .xlsx or .csv from the file name; anything else is refused with what to do. */
 export function fileKindOf(fileName: string): 'xlsx' | 'csv' {
