@@ -134,12 +134,13 @@ export function config(): Config {
 
 /**
  * SHA-256 digests of secrets that were once committed to this repository (the loopback auth fallback,
- * the payments fake's API key and webhook signing secret). Anyone can read them, so they sign nothing.
+ * the payments fake's API key and its two webhook signing secrets). Anyone can read them, so they sign nothing.
  */
 const PUBLISHED_SECRET_SHA256 = new Set([
   'fada32cad017c35b33056498bb2acd836b234cdbf25a6cc274ac2c030f3f28e8',
   '78d00326aa98afb9029ead7ce04121bb861db0104b5434cfebfb5dc115b2bae6',
   'df9bcc5bc3cff9e8b4c929bb72afca983a87a2a24c4ef057a93b6812869ebf17',
+  '25bec64b6722a8bfae42e68778f730bf1d1c978ab39f9d101bf8173a76b51a1c',
 ]);
 
 const isPublished = (secret: string) => PUBLISHED_SECRET_SHA256.has(createHash('sha256').update(secret).digest('hex'));

@@ -7,8 +7,8 @@ const SAME_ORIGIN = 'http://same-origin.invalid';
 /**
  * A path on this site to return to after signing in; anything else falls back to /app. Browsers drop
  * tabs and line breaks from URLs and read backslashes as slashes, so `/\t/evil.test` would become
- * `//evil.test` (another site): only printable ASCII without backslashes or encoded slashes, backslashes
- * or control characters passes, and it must still point at this site once parsed.
+ * `//evil.test`, another site. So only printable ASCII passes, with no backslash and no encoded slash,
+ * backslash, percent sign or control character, and it must still point at this site once parsed.
  */
 export function safeNext(value: string | null | undefined): string {
   if (!value || value.length > 2048 || !value.startsWith('/') || value.startsWith('//')) return '/app';
