@@ -133,9 +133,15 @@ export function getQueue(): Promise<PgBoss> {
   return started;
 }
 
-/** Starts the queue when the server starts (see startup.ts); a failure is logged and retried on first use. */
+/**
+ * Starts the queue when the server starts (see startup.ts), so the sweep resumes runs left by a dead worker
+ * without waiting for anyone to ask; while the database cannot be reached it tries again every 10 s.
+ */
 export function startQueueOnBoot(): void {
-  getQueue().catch((error: unknown) => console.error('The assessment queue did not start', error));
+  getQueue().catch((error: unknown) => {
+    console.error('The assessment queue did not start; trying again in 10 s', error);
+    setTimeout(startQueueOnBoot, 10_000).unref();
+  });
 }
 
 /** Queues a new run; returns the job id. */
