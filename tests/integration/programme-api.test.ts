@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Database } from '../../db/database';
 import { testDb } from '../helpers/db';
 import { pdfPages } from '../helpers/pdf';
-import { DEMO_PASSWORD, api, cookieFrom, createOtherTrust, uniqueEmail } from '../helpers/session';
+import { DEMO_PASSWORD, api, createOtherTrust, signUp, uniqueEmail } from '../helpers/session';
 import { dropFixtureTrust, insertAssessedRooms, type Fixture } from './portfolio-fixture';
 
 // A fresh trust (signed up through the app) with 3 schools × 15 invented assessed rooms. Budgets, capacity and
@@ -74,12 +74,7 @@ describe('capital programme API', () => {
     });
     expect(invite.status, await invite.clone().text()).toBe(201);
     const { invitation } = (await invite.json()) as { invitation: { id: string } };
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: role, email, password: DEMO_PASSWORD, invitationId: invitation.id }),
-    });
-    expect(signUp.status, await signUp.clone().text()).toBe(201);
-    return cookieFrom(signUp);
+    return signUp({ name: role, email, password: DEMO_PASSWORD, invitationId: invitation.id });
   }
   const create = async (body: unknown, cookie = admin.cookie) =>
     api('/api/programmes', { method: 'POST', cookie, body: JSON.stringify(body) });

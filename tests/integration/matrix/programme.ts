@@ -12,6 +12,7 @@ const editors = (status: number) => ({
   viewer: 403,
   finance_lead: status,
   estates_manager: status,
+  school_limited: status,
   trust_admin: status,
   other_trust: status,
 });
