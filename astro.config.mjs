@@ -3,6 +3,36 @@ import { defineConfig } from 'astro/config';
 import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
+import { fileURLToPath } from 'node:url';
+
+const STARTUP = fileURLToPath(new URL('./src/lib/server/startup.ts', import.meta.url));
+const PARSE_WORKER = fileURLToPath(new URL('./src/lib/server/register/parse-worker.ts', import.meta.url));
+
+/**
+ * The built server runs src/lib/server/startup.ts before the Node adapter listens: imported at the top of
+ * the adapter's server module, it refuses an unsafe configuration, guards every request and starts the
+ * assessment queue, whether the server is started by `npm start` or by `node dist/server/entry.mjs`.
+ * It also emits the register reader's worker thread as dist/server/register-parse-worker.mjs.
+ * @returns {import('vite').Plugin}
+ */
+function airtallyServer() {
+  let ssr = false;
+  return {
+    name: 'airtally-server',
+    apply: 'build',
+    configResolved(config) {
+      ssr = Boolean(config.build.ssr);
+    },
+    buildStart() {
+      if (ssr) this.emitFile({ type: 'chunk', id: PARSE_WORKER, fileName: 'register-parse-worker.mjs' });
+    },
+    /** @param {string} code @param {string} id */
+    transform(code, id) {
+      if (!/@astrojs[\\/]node[\\/]dist[\\/]server\.js$/.test(id)) return null;
+      return { code: `import ${JSON.stringify(STARTUP)};\n${code}`, map: null };
+    },
+  };
+}
 
 // Server-rendered app on the Node adapter; React only for interactive islands.
 export default defineConfig({
@@ -22,7 +52,7 @@ export default defineConfig({
     ],
   },
   vite: {
-    plugins: [tailwindcss()],
-    ssr: { external: ['pg', 'pg-boss', 'exceljs', 'nodemailer', 'stripe', 'pg-copy-streams'] },
+    plugins: [tailwindcss(), airtallyServer()],
+    ssr: { external: ['pg', 'pg-boss', 'exceljs', 'nodemailer', 'stripe', 'pg-copy-streams', 'highs', 'pdfkit'] },
   },
 });

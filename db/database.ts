@@ -5,6 +5,7 @@ import type { BillingTables } from './tables/billing';
 import type { EstateTables, AuditEventsTable, BlocksTable, RoomsTable, SchoolsTable } from './tables/estate';
 import type { MonitoringTables } from './tables/monitoring';
 import type { PortfolioTables } from './tables/portfolio';
+import type { ProgrammeTables } from './tables/programmes';
 import type { RegisterTables } from './tables/register';
 
 /** The whole schema as Kysely sees it, assembled from each feature's tables in db/tables/. */
@@ -15,7 +16,8 @@ export interface Database
     AssessmentsTables,
     BillingTables,
     PortfolioTables,
-    MonitoringTables {}
+    MonitoringTables,
+    ProgrammeTables {}
 
 export type SchoolRow = Selectable<SchoolsTable>;
 export type NewSchool = Insertable<SchoolsTable>;

@@ -16,7 +16,9 @@ const outDir = join(ROOT, '.data', 'bench-dist');
 const only = process.argv.slice(2);
 
 let pg;
+let app;
 async function finish(code) {
+  app?.stop();
   await stopChildren();
   pg?.stop();
   process.exit(code);
@@ -28,7 +30,8 @@ try {
   pg = await startPostgres({ dataDir, port: pgPort, database: 'postgres' });
   recreateDatabase(pg, 'airtally_bench');
   const origin = `http://127.0.0.1:${port}`;
-  const { env } = await startStack({
+  let env;
+  ({ env, app } = await startStack({
     databaseUrl: pg.url.replace(/\/postgres$/, '/airtally_bench'),
     origin,
     port,
@@ -38,7 +41,8 @@ try {
     dataDir,
     outDir,
     payments: { persist: false, retryBaseMs: 1000 },
-  });
+    onGiveUp: (code) => void finish(code || 1),
+  }));
 
   const resultsFile = join(ROOT, 'bench', 'results.json');
   mkdirSync(join(ROOT, 'bench'), { recursive: true });

@@ -1,5 +1,6 @@
 // `npm start`: installs what is missing, starts PostgreSQL and the local fakes on loopback,
-// migrates and seeds the demo trust, builds and serves Airtally. Ctrl-C stops everything.
+// migrates and seeds the demo trust, builds and serves Airtally (restarting the server if it dies).
+// Ctrl-C stops everything.
 import { join } from 'node:path';
 import { ROOT, ensureNodeModules, startPostgres, stopChildren, step } from './lib/services.mjs';
 import { startStack } from './lib/app.mjs';
@@ -13,11 +14,13 @@ const dataDir = process.env.AIRTALLY_DATA_DIR ?? join(ROOT, '.data', 'dev');
 const outDir = join(ROOT, 'dist');
 
 let pg;
+let app;
 let stopping = false;
 async function shutdown(code = 0) {
   if (stopping) return;
   stopping = true;
   step('Stopping Airtally, the fakes and PostgreSQL');
+  app?.stop();
   await stopChildren();
   pg?.stop();
   process.exit(code);
@@ -29,7 +32,7 @@ try {
   ensureNodeModules();
   pg = await startPostgres({ dataDir, port: pgPort, database: 'airtally' });
   const origin = process.env.PUBLIC_ORIGIN ?? `http://127.0.0.1:${port}`;
-  const { app } = await startStack({
+  ({ app } = await startStack({
     databaseUrl: pg.url,
     origin,
     port,
@@ -41,9 +44,9 @@ try {
     payments: { persist: true, retryBaseMs: 2000 },
     // The first start assesses the demo estate so it opens on results.
     seedEnv: { AIRTALLY_SEED_ASSESSMENT: '1' },
-  });
+    onGiveUp: (code) => void shutdown(code || 1),
+  }));
   step(`Ready: ${origin}  (demo inbox: http://127.0.0.1:${mailWebPort})  Ctrl-C stops everything.`);
-  app.on('exit', (code) => void shutdown(code ?? 1));
 } catch (error) {
   console.error(error instanceof Error ? error.message : error);
   await shutdown(1);

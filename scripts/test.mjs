@@ -24,7 +24,9 @@ const outDir = process.env.AIRTALLY_TEST_DIST_DIR ?? join(ROOT, '.data', 'test-d
 const vitestArgs = process.argv.slice(2);
 
 let pg;
+let app;
 async function finish(code) {
+  app?.stop();
   await stopChildren();
   pg?.stop();
   process.exit(code);
@@ -41,7 +43,8 @@ try {
   recreateDatabase(pg, database);
   const databaseUrl = pg.url.replace(/\/postgres$/, `/${database}`);
   const origin = `http://127.0.0.1:${port}`;
-  const { env } = await startStack({
+  let env;
+  ({ env, app } = await startStack({
     databaseUrl,
     origin,
     port,
@@ -56,7 +59,8 @@ try {
       // Every test signs in from loopback; the per-account brute-force guard stays as in production.
       AUTH_SIGN_IN_PER_MINUTE_PER_ADDRESS: '5000',
     },
-  });
+    onGiveUp: (code) => void finish(code || 1),
+  }));
 
   step('Running vitest (unit, integration, browser)');
   const resultsFile = join(dataDir, 'vitest-results.json');

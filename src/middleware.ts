@@ -3,6 +3,8 @@ import { getAuth } from './lib/server/auth/auth';
 import { billingWriteGate } from './lib/server/billing/write-gate';
 import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
 import { getDb } from './lib/server/db/client';
+import { toErrorResponse } from './lib/server/http/errors';
+import { BODY_TOO_LARGE_HEADER, bodyTooLarge, mustCloseUnreadBody } from './lib/server/http/request-guard';
 
 /** Paths under /app that a signed-in person without a usable trust may still open. */
 const WITHOUT_TRUST = ['/app/account'];
@@ -16,6 +18,9 @@ export const onRequest = defineMiddleware(async (context, next) => {
   context.locals.user = null;
   context.locals.trust = null;
   const path = context.url.pathname;
+  // The request guard found a declared body over the limit: refuse it before anything reads it.
+  const limit = context.request.headers.get(BODY_TOO_LARGE_HEADER);
+  if (limit) return toErrorResponse(bodyTooLarge(Number(limit)));
   // better-auth reads its own session; static assets need none.
   if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
 
@@ -56,9 +61,22 @@ export const onRequest = defineMiddleware(async (context, next) => {
   }
   // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
   const readOnly = await billingWriteGate(context.locals, context.request);
-  if (readOnly) return readOnly;
-  return withCookies(await next(), refreshedCookies);
+  if (readOnly) return closeIfBodyUnread(context.request, readOnly);
+  return closeIfBodyUnread(context.request, withCookies(await next(), refreshedCookies));
 });
+
+/** Closes the connection after answering a request whose unbounded body was never read (see mustCloseUnreadBody). */
+function closeIfBodyUnread(request: Request, response: Response): Response {
+  if (!mustCloseUnreadBody(request)) return response;
+  try {
+    response.headers.set('connection', 'close');
+    return response;
+  } catch {
+    const copy = new Response(response.body, response);
+    copy.headers.set('connection', 'close');
+    return copy;
+  }
+}
 
 /** Adds re-issued session cookies to a response (copying it when its headers are immutable). */
 function withCookies(response: Response, cookies: string[]): Response {

@@ -1,7 +1,6 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
-import { countRoomsInScope } from '../../src/lib/server/assessments/engine-input.repository';
 import { executeRun } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
 import { DEMO_TRUST } from './demo-trust';
@@ -20,11 +19,9 @@ export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> 
     .executeTakeFirst();
   if (done) return 'already assessed';
   const assumptions = await getCurrentAssumptionSet(db, DEMO_TRUST.id);
-  const roomsTotal = await countRoomsInScope(db, { trustId: DEMO_TRUST.id, schoolId: null });
-  const runId = await insertRun(db, {
+  const { id: runId, roomsTotal } = await insertRun(db, {
     trustId: DEMO_TRUST.id,
     schoolId: null,
-    roomsTotal,
     assumptionSetId: assumptions.id,
     assumptionsVersion: assumptions.label,
     startedByUserId: null,

@@ -26,6 +26,18 @@ export interface AssessmentRunsTable {
   /** Rooms the engine could not assess: [{ roomId, roomCode, field, message }]. */
   problems: ColumnType<RunProblem[], string | undefined, string>;
   updated_at: Generated<Date>;
+  /** When the worker working the run last said it was alive. */
+  heartbeat_at: Timestamp | null;
+  /** The worker working the run: host/process id/boot nonce (see run-executor.ts). */
+  worker_id: string | null;
+  /** How many times a worker has started (or resumed) the run. */
+  attempts: Generated<number>;
+}
+
+/** The rooms a run assesses, fixed when it starts. */
+export interface AssessmentRunRoomsTable {
+  run_id: string;
+  room_id: string;
 }
 
 /** A room a run skipped, with the engine's reason. */
@@ -106,6 +118,7 @@ export interface RoomResultsTable {
 /** Tables of the assessments feature: runs, per-room results and versioned assumption sets. */
 export interface AssessmentsTables {
   assessment_runs: AssessmentRunsTable;
+  assessment_run_rooms: AssessmentRunRoomsTable;
   room_results: RoomResultsTable;
   assumption_sets: AssumptionSetsTable;
 }

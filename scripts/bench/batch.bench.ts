@@ -7,7 +7,7 @@ import { assessRoom, DEFAULT_RANK_WEIGHTS, rankOrder } from '../../src/lib/engin
 import { ensureRanks, loadRankParts } from '../../src/lib/server/portfolio/ranking.repository';
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
-import { countRoomsInScope, readRoomChunk } from '../../src/lib/server/assessments/engine-input.repository';
+import { readRoomChunk } from '../../src/lib/server/assessments/engine-input.repository';
 import { toResultRow } from '../../src/lib/server/assessments/result-row';
 import { copyResultsSql, toCopyLine } from '../../src/lib/server/assessments/results.repository';
 import { copyLines } from '../../src/lib/server/db/copy';
@@ -164,10 +164,9 @@ async function ioFloor(templateLine: (roomId: string) => string): Promise<number
 async function fullBatch(): Promise<number> {
   const db = getDb();
   const assumptions = await getCurrentAssumptionSet(db, TRUST_ID);
-  const runId = await insertRun(db, {
+  const { id: runId } = await insertRun(db, {
     trustId: TRUST_ID,
     schoolId: null,
-    roomsTotal: await countRoomsInScope(db, { trustId: TRUST_ID, schoolId: null }),
     assumptionSetId: assumptions.id,
     assumptionsVersion: assumptions.label,
     startedByUserId: null,

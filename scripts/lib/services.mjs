@@ -98,8 +98,15 @@ export async function startPostgres({ dataDir, port, database }) {
   const pgData = join(dataDir, 'pgdata');
   const socketDir = join(dataDir, 'socket');
   mkdirSync(socketDir, { recursive: true });
+  // The data folder holds secrets and mail: others may pass through it (the postgres user must reach
+  // pgdata) but not list or read it. The socket folder is the server's own, closed to everyone else.
+  chmodSync(dataDir, 0o711);
+  chmodSync(socketDir, 0o700);
   openParents(dataDir);
-  if (IS_ROOT) execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
+  if (IS_ROOT) {
+    mkdirSync(pgData, { recursive: true, mode: 0o700 });
+    execFileSync('chown', ['-R', 'postgres:postgres', pgData, socketDir]);
+  }
   if (!existsSync(join(pgData, 'PG_VERSION'))) {
     step(`Initialising PostgreSQL cluster in ${pgData}`);
     const pwFile = join(dataDir, 'pwfile');
@@ -135,7 +142,7 @@ export async function startPostgres({ dataDir, port, database }) {
       '-t',
       '60',
       '-o',
-      `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'}`,
+      `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c unix_socket_permissions=0700 -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'}`,
       'start',
     ]);
     run(cmd, args, { stdio: ['ignore', 'ignore', 'inherit'] });
@@ -230,6 +237,8 @@ export async function stopChildren() {
 export function startMailFake({ smtpPort, webPort, dataDir }) {
   const mailDir = join(dataDir, 'mail');
   mkdirSync(mailDir, { recursive: true });
+  // The messages carry sign-in and password links: readable by this user only.
+  chmodSync(mailDir, 0o700);
   return startChild(
     'maildev',
     join(ROOT, 'node_modules', '.bin', 'maildev'),

@@ -6,12 +6,19 @@ import { rmSync } from 'node:fs';
 import { ROOT, startChild, waitForPort } from '../lib/services.mjs';
 
 /**
- * @param {{ port: number, appOrigin: string, dataDir: string, persist?: boolean, retryBaseMs?: number }} options
+ * @param {{ port: number, appOrigin: string, dataDir: string, secretKey: string, webhookSecret: string, persist?: boolean, retryBaseMs?: number }} options
+ *   secretKey and webhookSecret come from the data folder (scripts/lib/secrets.mjs), never from the repository
  * @returns {Promise<Record<string, string>>} STRIPE_* variables for the app and PAYMENTS_FAKE_URL for tests
  */
-export async function startPaymentsFakeChild({ port, appOrigin, dataDir, persist = false, retryBaseMs = 1000 }) {
-  const secretKey = 'sk_test_airtally_local_fake';
-  const webhookSecret = 'whsec_airtally_local_fake_signing_secret';
+export async function startPaymentsFakeChild({
+  port,
+  appOrigin,
+  dataDir,
+  secretKey,
+  webhookSecret,
+  persist = false,
+  retryBaseMs = 1000,
+}) {
   const stateFile = join(dataDir, 'payments-fake.json');
   if (!persist) rmSync(stateFile, { force: true });
   startChild('payments-fake', process.execPath, [join(ROOT, 'scripts', 'payments-fake', 'server.mjs')], {

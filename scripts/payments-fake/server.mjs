@@ -6,7 +6,7 @@
 //   PAYMENTS_FAKE_PORT           port on 127.0.0.1 (default 54327)
 //   PAYMENTS_FAKE_API_KEY        the secret key clients must send (default: any key starting sk_test_)
 //   PAYMENTS_FAKE_WEBHOOK_URL    where events are POSTed (none: events are only stored)
-//   PAYMENTS_FAKE_WEBHOOK_SECRET the signing secret (whsec_…)
+//   PAYMENTS_FAKE_WEBHOOK_SECRET the signing secret (whsec_…; required)
 //   PAYMENTS_FAKE_STATE_FILE     JSON file the state is kept in across restarts (default: memory only)
 //   PAYMENTS_FAKE_RETRY_BASE_MS  first retry delay; doubles each attempt (default 1000)
 //   PAYMENTS_FAKE_MAX_ATTEMPTS   delivery attempts per event before giving up (default 8)
@@ -27,6 +27,10 @@ const API_VERSION = '2026-10-28.endive';
 export async function startPaymentsFake(options = {}) {
   const port = Number(options.port ?? process.env.PAYMENTS_FAKE_PORT ?? 54327);
   const apiKey = options.apiKey ?? process.env.PAYMENTS_FAKE_API_KEY ?? null;
+  // No default: a signing secret written here would be one anybody could read (launch.mjs generates one).
+  const webhookSecret = options.webhookSecret ?? process.env.PAYMENTS_FAKE_WEBHOOK_SECRET;
+  if (!webhookSecret)
+    throw new Error('Set PAYMENTS_FAKE_WEBHOOK_SECRET (the secret the fake signs webhook events with).');
   let publicUrl = options.publicUrl ?? process.env.PAYMENTS_FAKE_PUBLIC_URL ?? `http://127.0.0.1:${port}`;
   const log = options.log ?? ((line) => console.log(`[payments-fake] ${line}`));
   const { state, save, flush } = createStore(options.stateFile ?? process.env.PAYMENTS_FAKE_STATE_FILE ?? null);
@@ -35,7 +39,7 @@ export async function startPaymentsFake(options = {}) {
     save,
     endpoint: {
       url: options.webhookUrl ?? process.env.PAYMENTS_FAKE_WEBHOOK_URL ?? null,
-      secret: options.webhookSecret ?? process.env.PAYMENTS_FAKE_WEBHOOK_SECRET ?? 'whsec_local_fake',
+      secret: webhookSecret,
     },
     apiVersion: API_VERSION,
     retryBaseMs: Number(options.retryBaseMs ?? process.env.PAYMENTS_FAKE_RETRY_BASE_MS ?? 1000),

@@ -42,7 +42,8 @@ export function createStore(file) {
   const write = () => {
     timer = null;
     mkdirSync(dirname(file), { recursive: true });
-    writeFileSync(`${file}.tmp`, JSON.stringify(state));
+    // Customers' names and e-mails: readable by this user only.
+    writeFileSync(`${file}.tmp`, JSON.stringify(state), { mode: 0o600 });
     renameSync(`${file}.tmp`, file);
   };
   /** Schedules a write (changes come in bursts; one write covers them). */

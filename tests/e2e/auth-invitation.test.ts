@@ -16,7 +16,7 @@ describe('inviting a colleague in Chromium', () => {
     await inviteeBrowser?.close();
   });
 
-  it('a trust admin invites by e-mail; the colleague follows the link, creates an account and works as a finance lead', async () => {
+  it('a trust admin invites by e-mail; the colleague follows the link, creates an account, confirms it and works as a finance lead', async () => {
     const email = uniqueEmail('browser-invitee');
     const admin = await adminBrowser.newPage();
     await signInInBrowser(admin, DEMO_ACCOUNTS.trust_admin);
@@ -37,6 +37,12 @@ describe('inviting a colleague in Chromium', () => {
     await invitee.getByLabel('Your name').fill('Browser Invitee');
     await invitee.getByLabel('Password').fill('a-good-long-password');
     await invitee.getByRole('button', { name: 'Create account and join' }).click();
+    expect(await invitee.getByTestId('notice-ok').textContent()).toContain(`We have sent an e-mail to ${email}`);
+    // The e-mailed link confirms the address and signs the new account in.
+    const confirm = linkIn(await waitForMail(email, 'Confirm your e-mail'), '/verify-email');
+    await invitee.goto(confirm.href);
+    expect(await invitee.getByTestId('notice-ok').textContent()).toContain('your e-mail address is confirmed');
+    await invitee.getByRole('link', { name: 'Open Airtally' }).click();
     await invitee.waitForURL((url) => url.pathname === '/app/schools' || url.pathname === '/app');
     expect(await invitee.getByTestId('active-role').textContent()).toBe('finance lead');
 

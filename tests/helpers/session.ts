@@ -1,5 +1,6 @@
 // Signing in against the running app, for integration and browser tests of every feature.
 import { randomUUID } from 'node:crypto';
+import { waitForMail } from './mail';
 
 /** The app under test (scripts/test.mjs sets APP_URL). */
 export const APP_URL = (process.env.APP_URL ?? 'http://127.0.0.1:4399').replace(/\/$/, '');
@@ -54,21 +55,36 @@ export function uniqueEmail(label = 'user'): string {
 }
 
 /**
+ * Signs up a new account (naming a trust, or with an invitation) and signs it in with its password, still
+ * unconfirmed. Sign-up answers 202 and finishes in the background; its confirmation e-mail is sent last,
+ * so once it has arrived the account and its trust or membership exist.
+ */
+export async function signUp(fields: {
+  name: string;
+  email: string;
+  password?: string;
+  trustName?: string;
+  invitationId?: string;
+}): Promise<string> {
+  const password = fields.password ?? DEMO_PASSWORD;
+  const response = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ ...fields, password }) });
+  if (response.status !== 202) throw new Error(`Sign-up failed: ${response.status} ${await response.text()}`);
+  await waitForMail(fields.email, 'Confirm your e-mail');
+  return signIn(fields.email, password);
+}
+
+/**
  * Signs up a fresh user who names a new trust (and so is its trust admin), for cross-trust tests.
  * The new trust has no schools.
  */
 export async function createOtherTrust(): Promise<{ cookie: string; trustId: string; email: string }> {
   const email = uniqueEmail('other-trust');
-  const response = await api('/api/account/sign-up', {
-    method: 'POST',
-    body: JSON.stringify({
-      name: 'Other Trust Admin',
-      email,
-      password: DEMO_PASSWORD,
-      trustName: `Other Test Trust ${email.slice(12, 20)}`,
-    }),
+  const cookie = await signUp({
+    name: 'Other Trust Admin',
+    email,
+    trustName: `Other Test Trust ${email.slice(12, 20)}`,
   });
-  if (response.status !== 201) throw new Error(`Sign-up failed: ${response.status} ${await response.text()}`);
-  const body = (await response.json()) as { trust: { id: string } };
-  return { cookie: cookieFrom(response), trustId: body.trust.id, email };
+  const account = (await (await api('/api/account', { cookie })).json()) as { trust: { id: string } | null };
+  if (!account.trust) throw new Error(`The new account ${email} has no trust`);
+  return { cookie, trustId: account.trust.id, email };
 }

@@ -8,6 +8,7 @@ import {
   cookieFrom,
   createOtherTrust,
   signIn,
+  signUp,
   uniqueEmail,
 } from '../helpers/session';
 
@@ -23,7 +24,7 @@ interface AccountBody {
 }
 
 describe('sign-up', () => {
-  it('signs a new user straight in as trust admin of the trust they named, and audits it', async () => {
+  it('creates the account and the trust it names, with the person as its trust admin, and audits both', async () => {
     const { cookie, trustId, email } = await createOtherTrust();
     const account = await json<AccountBody>(await api('/api/account', { cookie }));
     expect(account.user.email).toBe(email);
@@ -35,20 +36,60 @@ describe('sign-up', () => {
     expect(actions.map((a) => a.action).sort()).toEqual(['account.signed_up', 'trust.created']);
   });
 
-  it('refuses an address that already has an account with 4xx and a message', async () => {
+  it('answers a sign-up with a taken address as for a new one, e-mails its owner, and changes nothing', async () => {
+    const trustName = `Duplicate Trust ${uniqueEmail('x').slice(2, 10)}`;
+    const before = await db
+      .selectFrom('account')
+      .select('password')
+      .where('userId', '=', 'demo-user-viewer')
+      .executeTakeFirstOrThrow();
+    const fresh = uniqueEmail('fresh');
+    const answers = await Promise.all(
+      [DEMO_ACCOUNTS.viewer, fresh].map((email) =>
+        api('/api/account/sign-up', {
+          method: 'POST',
+          body: JSON.stringify({ name: 'Dup', email, password: 'some-other-password-1', trustName }),
+        }),
+      ),
+    );
+    const [taken, unused] = await Promise.all(
+      answers.map(async (r) => ({ status: r.status, body: await r.json(), cookie: cookieFrom(r) })),
+    );
+    expect(taken!.status).toBe(202);
+    expect(unused!.status).toBe(202);
+    // The same answer apart from the address itself, and no session either way.
+    expect({ ...taken!.body, email: null }).toEqual({ ...unused!.body, email: null });
+    expect(taken!.cookie).toBe('');
+    const note = await waitForMail(DEMO_ACCOUNTS.viewer, 'already have an Airtally account');
+    expect(note.text).toContain('Nothing was changed');
+    linkIn(note, '/forgot-password');
+    await waitForMail(fresh, 'Confirm your e-mail');
+    const after = await db
+      .selectFrom('account')
+      .select('password')
+      .where('userId', '=', 'demo-user-viewer')
+      .executeTakeFirstOrThrow();
+    expect(after.password).toBe(before.password);
+    const trusts = await db.selectFrom('trusts').select('id').where('name', '=', trustName).execute();
+    expect(trusts).toHaveLength(1); // only the new address's trust
+    await expect(signIn(DEMO_ACCOUNTS.viewer, 'some-other-password-1')).rejects.toThrow(/401/);
+  });
+
+  it('signs the new account in from the e-mailed confirmation link', async () => {
+    const email = uniqueEmail('confirm');
     const response = await api('/api/account/sign-up', {
       method: 'POST',
-      body: JSON.stringify({
-        name: 'Dup',
-        email: DEMO_ACCOUNTS.viewer,
-        password: DEMO_PASSWORD,
-        trustName: 'Duplicate Trust',
-      }),
+      body: JSON.stringify({ name: 'Confirming', email, password: DEMO_PASSWORD, trustName: 'Confirming Trust' }),
     });
-    expect(response.status).toBeGreaterThanOrEqual(400);
-    expect(response.status).toBeLessThan(500);
-    const body = await json<{ error: { message: string } }>(response);
-    expect(body.error.message).toMatch(/already exists/);
+    expect(response.status).toBe(202);
+    const link = linkIn(await waitForMail(email, 'Confirm your e-mail'), '/verify-email');
+    const page = await api(`${link.pathname}${link.search}`);
+    expect(page.status).toBe(200);
+    const cookie = cookieFrom(page);
+    expect(cookie).toContain('session_token');
+    const account = await json<AccountBody>(await api('/api/account', { cookie }));
+    expect(account.user).toMatchObject({ email, emailVerified: true });
+    expect(account.trust).toMatchObject({ role: 'trust_admin' });
   });
 
   it('keeps an unverified user from inviting until the e-mailed link confirms the address', async () => {
@@ -101,12 +142,7 @@ describe('invitations', () => {
     expect(page.status).toBe(200);
     expect(await page.text()).toContain('as <strong>estates manager</strong>');
 
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: 'New Estates Colleague', email, password: DEMO_PASSWORD, invitationId }),
-    });
-    expect(signUp.status).toBe(201);
-    const cookie = cookieFrom(signUp);
+    const cookie = await signUp({ name: 'New Estates Colleague', email, invitationId });
     const account = await json<AccountBody>(await api('/api/account', { cookie }));
     expect(account.trust).toMatchObject({ id: 'demo-trust', role: 'estates_manager' });
     // An estates manager reads the estate but may not invite.
@@ -157,11 +193,7 @@ describe('invitations', () => {
     });
     expect(invite.status).toBe(201);
     const { invitation } = await json<{ invitation: { id: string } }>(invite);
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: 'Head Teacher', email, password: DEMO_PASSWORD, invitationId: invitation.id }),
-    });
-    const cookie = cookieFrom(signUp);
+    const cookie = await signUp({ name: 'Head Teacher', email, invitationId: invitation.id });
     expect((await json<AccountBody>(await api('/api/account', { cookie }))).trust).toMatchObject({
       role: 'viewer',
       schoolIds: [school.id],
@@ -263,11 +295,7 @@ describe('members', () => {
     const invite = await json<{ invitation: { id: string } }>(
       await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }),
     );
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: 'Consultant', email, password: DEMO_PASSWORD, invitationId: invite.invitation.id }),
-    });
-    const cookie = cookieFrom(signUp);
+    const cookie = await signUp({ name: 'Consultant', email, invitationId: invite.invitation.id });
     const { members } = await json<{ members: { id: string; email: string }[] }>(
       await api('/api/members', { cookie: admin }),
     );
@@ -488,11 +516,7 @@ describe('several trusts', () => {
     const first = await json<{ invitation: { id: string } }>(
       await api('/api/members', { method: 'POST', cookie: admin, body: JSON.stringify({ email, role: 'viewer' }) }),
     );
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: 'Two Trusts', email, password: DEMO_PASSWORD, invitationId: first.invitation.id }),
-    });
-    const cookie = cookieFrom(signUp);
+    const cookie = await signUp({ name: 'Two Trusts', email, invitationId: first.invitation.id });
     const second = await api('/api/members', {
       method: 'POST',
       cookie: other.cookie,

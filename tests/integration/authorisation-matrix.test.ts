@@ -1,7 +1,9 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { testDb } from '../helpers/db';
+import { bodyText, leaked, schoolLimitedFixture, type SchoolLimitedFixture } from '../helpers/school-limited';
 import { DEMO_ACCOUNTS, api, createOtherTrust, signIn, uniqueEmail } from '../helpers/session';
 import { ACTORS, type Actor, type MatrixContext, type MatrixEntry } from './matrix/types';
 
@@ -56,24 +58,30 @@ describe('authorisation matrix', () => {
 
   const cookies = {} as Record<Actor, string | undefined>;
   let context: MatrixContext;
+  let limited: SchoolLimitedFixture;
+  const db = testDb();
   beforeAll(async () => {
     cookies.anonymous = undefined;
     for (const role of ['viewer', 'finance_lead', 'estates_manager', 'trust_admin'] as const)
       cookies[role] = await signIn(DEMO_ACCOUNTS[role]);
     const other = await createOtherTrust();
     cookies.other_trust = other.cookie;
-    const schools = (await (await api('/api/schools', { cookie: cookies.trust_admin })).json()) as {
-      schools: { id: string }[];
-    };
-    const rooms = (await (await api('/api/rooms?pageSize=1', { cookie: cookies.trust_admin })).json()) as {
-      rows: { id: string }[];
-    };
+    limited = await schoolLimitedFixture(db);
+    cookies.school_limited = limited.cookie;
     context = {
-      demoSchoolId: schools.schools[0]!.id,
-      demoRoomId: rooms.rows[0]!.id,
+      demoSchoolId: limited.otherSchoolId,
+      demoRoomId: limited.otherRoomId,
+      limitedSchoolId: limited.allowedSchoolId,
+      foreignImportId: limited.foreignImportId,
+      otherSchoolRunId: limited.otherSchoolRunId,
+      trustRunId: limited.trustRunId,
       otherTrustId: other.trustId,
       uniqueEmail: () => uniqueEmail('matrix'),
     };
+  }, 300_000);
+  afterAll(async () => {
+    await limited?.cleanup();
+    await db.destroy();
   });
 
   for (const entry of entries) {
@@ -95,6 +103,8 @@ describe('authorisation matrix', () => {
           const text = await response.text();
           if (text) expect(JSON.parse(text), `${label} as ${actor}: error shape`).toHaveProperty('error.message');
         }
+        if (actor === 'school_limited' && response.ok)
+          expect(leaked(await bodyText(response), limited.forbidden), `${label}: other schools leaked`).toEqual([]);
       }
       expect(actual).toEqual(entry.expect);
     });

@@ -7,7 +7,7 @@ import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testDb } from '../helpers/db';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, api, cookieFrom, signIn, uniqueEmail } from '../helpers/session';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD, api, signIn, signUp, uniqueEmail } from '../helpers/session';
 import { dates, dayFirst, isoText, longCsv, wideCsv } from './monitor-logs-fixture';
 
 const db = testDb();
@@ -458,11 +458,7 @@ describe('a school-limited estates manager', () => {
       body: JSON.stringify({ email, role: 'estates_manager', schoolIds: [schoolA.id] }),
     });
     const { invitation } = (await invite.json()) as { invitation: { id: string } };
-    const signUp = await api('/api/account/sign-up', {
-      method: 'POST',
-      body: JSON.stringify({ name: 'Limited Estates', email, password: DEMO_PASSWORD, invitationId: invitation.id }),
-    });
-    limited = cookieFrom(signUp);
+    limited = await signUp({ name: 'Limited Estates', email, password: DEMO_PASSWORD, invitationId: invitation.id });
   });
 
   it('does not see, change or delete another school’s log, and matches sensors only in its own schools', async () => {

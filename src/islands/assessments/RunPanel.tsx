@@ -11,6 +11,8 @@ import {
 
 interface Props {
   canRun: boolean;
+  /** False for a member limited to some schools: they run their schools one at a time. */
+  canRunTrust: boolean;
   schools: { id: string; name: string }[];
   initialRuns: RunStatusView[];
 }
@@ -98,13 +100,13 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
   );
 }
 
-function Panel({ canRun, schools, initialRuns }: Props) {
+function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
   const client = useQueryClient();
   const runs = useRuns(initialRuns);
   const start = useStartRun();
   const active = initialRuns.find((r) => r.status === 'queued' || r.status === 'running');
   const [runId, setRunId] = useState<string | null>(active?.id ?? null);
-  const [scope, setScope] = useState('trust');
+  const [scope, setScope] = useState(canRunTrust ? 'trust' : (schools[0]?.id ?? ''));
 
   function submit(event: FormEvent) {
     event.preventDefault();
@@ -125,7 +127,7 @@ function Panel({ canRun, schools, initialRuns }: Props) {
               onChange={(e) => setScope(e.target.value)}
               className="mt-1 rounded-control border border-line bg-surface px-2 py-1.5"
             >
-              <option value="trust">The whole trust</option>
+              {canRunTrust && <option value="trust">The whole trust</option>}
               {schools.map((s) => (
                 <option key={s.id} value={s.id}>
                   {s.name}

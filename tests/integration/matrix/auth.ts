@@ -5,6 +5,7 @@ const adminOnly = (adminStatus: number, otherTrust: number) => ({
   viewer: 403,
   finance_lead: 403,
   estates_manager: 403,
+  school_limited: 403,
   trust_admin: adminStatus,
   other_trust: otherTrust,
 });

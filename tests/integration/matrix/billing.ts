@@ -5,6 +5,7 @@ const adminOnly = (admin: number, otherTrust: number) => ({
   viewer: 403,
   finance_lead: 403,
   estates_manager: 403,
+  school_limited: 403,
   trust_admin: admin,
   other_trust: otherTrust,
 });
@@ -67,8 +68,10 @@ export const entries: MatrixEntry[] = [
       viewer: 403,
       finance_lead: 403,
       estates_manager: 400,
+      school_limited: 400,
       trust_admin: 400,
       other_trust: 400,
     },
+    note: 'the body is refused after the permission check (a school-limited member may not add schools at all: see school-limited.test.ts)',
   },
 ];

@@ -14,13 +14,20 @@ export const entries: MatrixEntry[] = [
     file: 'schools/[id].ts',
     method: 'GET',
     path: (c) => `/api/schools/${c.demoSchoolId}`,
+    expect: { ...signedIn(200), school_limited: 404, other_trust: 404 },
+  },
+  {
+    file: 'schools/[id].ts',
+    method: 'GET',
+    path: (c) => `/api/schools/${c.limitedSchoolId}`,
     expect: { ...signedIn(200), other_trust: 404 },
+    note: 'the school-limited member reads their own school',
   },
   { file: 'rooms/index.ts', method: 'GET', path: '/api/rooms', expect: signedIn(200) },
   {
     file: 'rooms/[id].ts',
     method: 'GET',
     path: (c) => `/api/rooms/${c.demoRoomId}`,
-    expect: { ...signedIn(200), other_trust: 404 },
+    expect: { ...signedIn(200), school_limited: 404, other_trust: 404 },
   },
 ];

@@ -47,15 +47,15 @@ export const entries: MatrixEntry[] = [
     file: 'measured/rooms/[id].ts',
     method: 'GET',
     path: (c) => `/api/measured/rooms/${c.demoRoomId}`,
-    expect: { ...signedIn(200), other_trust: 404 },
-    note: 'another trust gets 404',
+    expect: { ...signedIn(200), other_trust: 404, school_limited: 404 },
+    note: 'another trust, and a member limited to another school, get 404',
   },
   { file: 'measured/comparison.ts', method: 'GET', path: '/api/measured/comparison', expect: signedIn(200) },
   {
     file: 'rooms/[id]/calibration.ts',
     method: 'GET',
     path: (c) => `/api/rooms/${c.demoRoomId}/calibration`,
-    expect: { ...signedIn(200), other_trust: 404 },
+    expect: { ...signedIn(200), other_trust: 404, school_limited: 404 },
   },
   {
     file: 'rooms/[id]/calibration.ts',

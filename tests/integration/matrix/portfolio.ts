@@ -17,7 +17,7 @@ export const entries: MatrixEntry[] = [
     method: 'GET',
     path: (c) => `/api/priorities?schoolId=${c.demoSchoolId}`,
     expect: signedIn(200),
-    note: "filtering by another trust's school returns no rows, not an error (checked in portfolio-api.test.ts)",
+    note: "filtering by another trust's (or another school's) school returns no rows, not an error (checked in portfolio-api.test.ts)",
   },
   { file: 'priorities/weights.ts', method: 'GET', path: '/api/priorities/weights', expect: signedIn(200) },
   {
@@ -30,6 +30,7 @@ export const entries: MatrixEntry[] = [
       viewer: 403,
       finance_lead: 403,
       estates_manager: 400,
+      school_limited: 400,
       trust_admin: 400,
       other_trust: 400,
     },

@@ -131,15 +131,6 @@ const scopeWhere = (scope: RoomScope) =>
     ? sql`schools.trust_id = ${scope.trustId}`
     : sql`schools.trust_id = ${scope.trustId} AND schools.id = ${scope.schoolId}`;
 
-/** Number of rooms a run of this scope will assess. */
-export async function countRoomsInScope(db: Kysely<Database>, scope: RoomScope): Promise<number> {
-  const { rows } = await sql<{ n: number }>`
-    SELECT count(*)::int AS n FROM rooms JOIN schools ON schools.id = rooms.school_id WHERE ${scopeWhere(scope)}`.execute(
-    db,
-  );
-  return rows[0]?.n ?? 0;
-}
-
 /** The next chunk of rooms in id order after `afterRoomId` (keyset paging, so a resumed run carries on where it stopped). */
 export async function readRoomChunk(
   db: Kysely<Database>,
@@ -159,6 +150,38 @@ export async function readRoomChunk(
     db,
     rows.map((r) => toEngineRoom(r, timetables)),
   );
+}
+
+/**
+ * The next chunk of a run's rooms (its snapshot, in id order) after `afterRoomId`: the rooms still in the
+ * register, the last snapshot id read (the resume point, even when that room has been deleted since) and
+ * how many snapshot entries the chunk covered.
+ */
+export async function readRunChunk(
+  db: Kysely<Database>,
+  runId: string,
+  afterRoomId: string | null,
+  limit: number,
+): Promise<{ rooms: EngineRoom[]; lastRoomId: string | null; covered: number }> {
+  const after = afterRoomId === null ? sql`TRUE` : sql`room_id > ${afterRoomId}::uuid`;
+  const { rows } = await sql<JoinedRow & { snapshot_id: string }>`
+    WITH ids AS (
+      SELECT room_id FROM assessment_run_rooms WHERE run_id = ${runId}::uuid AND ${after} ORDER BY room_id LIMIT ${limit}
+    )
+    SELECT ids.room_id AS snapshot_id, ${COLUMNS}
+    FROM ids LEFT JOIN rooms ON rooms.id = ids.room_id
+      LEFT JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+    ORDER BY ids.room_id`.execute(db);
+  const timetables: TimetableCache = new Map();
+  return {
+    // Each room's calibration and measured analysis travel with it, as in readRoomChunk.
+    rooms: await attachMeasuredEvidence(
+      db,
+      rows.filter((r) => r.id !== null).map((r) => toEngineRoom(r, timetables)),
+    ),
+    lastRoomId: rows[rows.length - 1]?.snapshot_id ?? null,
+    covered: rows.length,
+  };
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */

@@ -5,6 +5,7 @@ import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import { ENGINE_CAUTIONS, listAssumptions, RISK_BAND_LABELS } from '../../engine';
 import type { ActiveTrust } from '../auth/context';
+import { guardFormula } from '../formula-guard';
 import { getAssumptionSetById } from './assumptions.repository';
 import { inCanonicalOrder } from './assumptions.service';
 import { RISK_BANDS_BY_NUMBER } from './result-row';
@@ -77,13 +78,8 @@ const MONEY_COLUMNS = new Set<string>([
   'Replacement in the period (GBP)',
 ]);
 
-/**
- * Text a spreadsheet would run as a formula (leading =, +, -, @, tab or carriage return) gets a leading
- * apostrophe so it stays text (OWASP "CSV injection" guidance applies to .xlsx cells too).
- */
-export function guardText(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
+/** Text a spreadsheet would run as a formula gets a leading apostrophe so it stays text (see formula-guard.ts). */
+export const guardText = guardFormula;
 
 /** How the exports name what a room's risk rests on. */
 export const EVIDENCE_WORDS: Record<string, string> = {

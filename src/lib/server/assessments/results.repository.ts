@@ -52,6 +52,9 @@ const COPY_COLUMNS = [
   'risk_evidence',
 ] as const;
 
+/** Rows a run must have written before the switch to current refreshes the table's statistics first. */
+const ANALYZE_AFTER_ROWS = 1000;
+
 /** The COPY statement for result rows (also used by the benchmark's I/O floor). */
 export const copyResultsSql = (table = 'room_results') => `COPY ${table} (${COPY_COLUMNS.join(', ')}) FROM STDIN`;
 
@@ -105,26 +108,36 @@ export function toCopyLine(r: ResultRow): string {
   ]);
 }
 
+/** The run was taken over by another worker (this one was thought dead): stop without touching it. */
+export class RunTakenOver extends Error {
+  constructor(runId: string) {
+    super(`Another worker is working run ${runId} now`);
+    this.name = 'RunTakenOver';
+  }
+}
+
 /**
  * Commits one chunk: its result rows (not current) and the run's progress, in one transaction, so a crash
- * leaves either the whole chunk or none of it and the resume point always matches what is written.
+ * leaves either the whole chunk or none of it and the resume point always matches what is written. Only
+ * the worker that holds the run may commit (RunTakenOver otherwise, and nothing is written).
  */
 export async function commitChunk(
   pool: pg.Pool,
-  runId: string,
+  run: { id: string; workerId: string },
   rows: ResultRow[],
   chunk: { roomsDone: number; lastRoomId: string; problems: RunProblem[] },
 ): Promise<void> {
   const client = await pool.connect();
   try {
     await client.query('BEGIN');
-    if (rows.length > 0) await copyLines(client, copyResultsSql(), copyPieces(rows, toCopyLine));
-    await client.query(
+    const progress = await client.query(
       `UPDATE assessment_runs SET rooms_done = rooms_done + $2, rooms_total = GREATEST(rooms_total, rooms_done + $2),
-         resume_after_room_id = $3, problems = problems || $4::jsonb, updated_at = now()
-       WHERE id = $1`,
-      [runId, chunk.roomsDone, chunk.lastRoomId, JSON.stringify(chunk.problems)],
+         resume_after_room_id = $3, problems = problems || $4::jsonb, heartbeat_at = now(), updated_at = now()
+       WHERE id = $1 AND worker_id = $5 AND status = 'running'`,
+      [run.id, chunk.roomsDone, chunk.lastRoomId, JSON.stringify(chunk.problems), run.workerId],
     );
+    if (progress.rowCount !== 1) throw new RunTakenOver(run.id);
+    if (rows.length > 0) await copyLines(client, copyResultsSql(), copyPieces(rows, toCopyLine));
     await client.query('COMMIT');
   } catch (error) {
     await client.query('ROLLBACK').catch(() => undefined);
@@ -136,6 +149,8 @@ export async function commitChunk(
 
 export interface FlipInput {
   runId: string;
+  /** The worker holding the run: the flip changes nothing when another holds it now. */
+  workerId: string;
   trustId: string;
   schoolId: string | null;
 }
@@ -146,18 +161,22 @@ export interface FlipInput {
  * Ranks are not computed here: the trust's ranks (portfolio_ranks) are rebuilt by the engine's one ranking rule
  * when the succeeded-runs stamp changes (ranking.repository). Returns false when the run was no longer running
  * (another attempt finished or failed it), and then changes nothing.
+ *
+ * A large run first refreshes room_results' statistics: its rows were all written since the table was last
+ * analysed, and planning the switch on stale counts is what made it slow after a large import.
  */
-export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Promise<boolean> {
+export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput, roomsWritten = 0): Promise<boolean> {
+  if (roomsWritten >= ANALYZE_AFTER_ROWS) await sql`ANALYZE room_results`.execute(db);
   return db.transaction().execute(async (trx) => {
     // One flip at a time per trust, so two runs finishing together see each other's final state.
     await sql`SELECT pg_advisory_xact_lock(hashtext(${`assessment-flip:${input.trustId}`}))`.execute(trx);
     const run = await trx
       .selectFrom('assessment_runs')
-      .select('status')
+      .select(['status', 'worker_id'])
       .where('id', '=', input.runId)
       .forUpdate()
       .executeTakeFirst();
-    if (run?.status !== 'running') return false;
+    if (run?.status !== 'running' || run.worker_id !== input.workerId) return false;
 
     const inScope = input.schoolId === null ? sql`TRUE` : sql`school_id = ${input.schoolId}::uuid`;
     await sql`UPDATE room_results SET is_current = false
@@ -176,6 +195,7 @@ export async function flipRunCurrent(db: Kysely<Database>, input: FlipInput): Pr
         finished_at: new Date(),
         rooms_done: sql`GREATEST(rooms_done, rooms_total)`,
         error: null,
+        worker_id: null,
         updated_at: new Date(),
       })
       .where('id', '=', input.runId)

@@ -4,10 +4,8 @@ import { getDb } from '../db/client';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
-import { countRoomsInScope } from './engine-input.repository';
-import { enqueueRun, getQueue, jobState } from './queue';
-import { failRun } from './run-executor';
-import { findActiveRun, getRun, insertRun, listRuns, setRunJob, type Run } from './runs.repository';
+import { enqueueRun, getQueue } from './queue';
+import { findActiveRun, getRun, insertRun, listRuns, type Run } from './runs.repository';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
@@ -73,12 +71,10 @@ export async function startRun(
   if (active) return { id: active.id, alreadyRunning: true };
 
   const assumptions = await getCurrentAssumptionSet(db, trust.id);
-  const roomsTotal = await countRoomsInScope(db, { trustId: trust.id, schoolId });
   const id = await db.transaction().execute(async (trx) => {
-    const runId = await insertRun(trx, {
+    const { id: runId, roomsTotal } = await insertRun(trx, {
       trustId: trust.id,
       schoolId,
-      roomsTotal,
       assumptionSetId: assumptions.id,
       assumptionsVersion: assumptions.label,
       startedByUserId: actor.actorUserId,
@@ -95,34 +91,44 @@ export async function startRun(
     });
     return runId;
   });
-  const jobId = await enqueueRun(id);
-  await setRunJob(db, id, jobId);
+  await enqueueRun(id);
   return { id, alreadyRunning: false };
 }
 
 /**
- * A run's status. A run still marked queued or running whose job pg-boss has given up on (its worker died
- * on the last attempt) is failed here, cleanly, so nobody waits for it forever.
+ * The runs a member may see. A member limited to some schools sees no run of another school, and of a
+ * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms).
  */
+async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
+  const allowed = trust.schoolIds;
+  if (allowed === null) return runs;
+  const visible = runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId));
+  const roomIds = [...new Set(visible.flatMap((r) => r.problems.map((p) => p.roomId)))];
+  const inSchools = new Set(
+    roomIds.length && allowed.length
+      ? (
+          await getDb()
+            .selectFrom('rooms')
+            .select('id')
+            .where('id', 'in', roomIds)
+            .where('school_id', 'in', allowed)
+            .execute()
+        ).map((r) => r.id)
+      : [],
+  );
+  return visible.map((r) => ({ ...r, problems: r.problems.filter((p) => inSchools.has(p.roomId)) }));
+}
+
+/** A run's status (a run whose worker died is resumed or failed by the queue's sweep within a minute). */
 export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunStatusView> {
-  const db = getDb();
-  let run = await getRun(db, id, trust.id);
-  if (!run) throw notFound('That assessment run');
-  if ((run.status === 'queued' || run.status === 'running') && run.jobId) {
-    const state = await jobState(run.jobId);
-    if (state === null || state === 'failed' || state === 'cancelled') {
-      run = (await getRun(db, id, trust.id))!;
-      if (run.status === 'queued' || run.status === 'running') {
-        await failRun(id, 'The worker stopped before the run finished and its retries are used up. Start a new run.');
-        run = (await getRun(db, id, trust.id))!;
-      }
-    }
-  }
-  return toStatusView(run);
+  const run = await getRun(getDb(), id, trust.id);
+  const [visible] = run ? await visibleTo(trust, [run]) : [];
+  if (!visible) throw notFound('That assessment run');
+  return toStatusView(visible);
 }
 
 /** The trust's recent runs, newest first. */
 export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
   await getQueue();
-  return (await listRuns(getDb(), trust.id, limit)).map(toStatusView);
+  return (await visibleTo(trust, await listRuns(getDb(), trust.id, limit))).map(toStatusView);
 }

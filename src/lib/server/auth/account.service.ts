@@ -1,18 +1,16 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
+import { createEmailVerificationToken } from 'better-auth/api';
 import { recordAudit } from '../audit/audit.repository';
-import { getAuth } from './auth';
+import { runInBackground } from '../background';
+import { authSecret, config } from '../config';
+import { sendMail } from '../mail/mailer';
+import { existingAccountMail, verificationMail } from '../mail/templates';
+import { getAuth, VERIFICATION_SECONDS } from './auth';
 import { authCall, invitationNotUsable, membershipNotUsable } from './auth.errors';
 import type { SignUpInput } from './auth.schemas';
+import type { Role } from './context';
 import { listMemberships, setSessionTrust } from './membership.repository';
-
-/** Cookie header value built from Set-Cookie headers, to act as the new session straight away. */
-function cookieHeaderOf(headers: Headers): string {
-  return headers
-    .getSetCookie()
-    .map((line) => line.split(';')[0] ?? '')
-    .join('; ');
-}
 
 /** A URL-safe slug for a trust name, with a random tail so two trusts never clash. */
 function trustSlug(name: string): string {
@@ -44,20 +42,55 @@ export async function checkInvitation(db: Kysely<Database>, invitationId: string
 }
 
 /**
- * Creates an account and signs it in. With a trust name the person becomes the new trust's admin;
- * with an invitation they join the inviting trust. Returns the session's Set-Cookie headers.
+ * Starts creating an account for a sign-up: checks the invitation (if any), then finishes in the
+ * background, so the answer is the same, and as quick, whether or not the address already has an
+ * account. The owner of the address learns which by e-mail: a confirmation link that signs the new
+ * account in, or a note that they already have one.
  */
-export async function signUp(db: Kysely<Database>, input: SignUpInput, requestHeaders: Headers) {
+export async function requestSignUp(db: Kysely<Database>, input: SignUpInput): Promise<void> {
   if (input.invitationId) await checkInvitation(db, input.invitationId, input.email);
-  const auth = getAuth();
-  const { headers, response } = await authCall(() =>
-    auth.api.signUpEmail({
-      body: { name: input.name, email: input.email, password: input.password },
-      headers: requestHeaders,
-      returnHeaders: true,
+  runInBackground('sign-up', () => completeSignUp(db, input));
+}
+
+/** Sends the link that confirms the address and signs the account in (our /verify-email page). */
+export async function sendVerificationLink(user: { id: string; email: string; name: string }): Promise<void> {
+  const token = await createEmailVerificationToken(authSecret(), user.email, undefined, VERIFICATION_SECONDS, {
+    userId: user.id,
+  });
+  await sendMail(verificationMail(user, `${config().origin}/verify-email?token=${encodeURIComponent(token)}`));
+}
+
+/** Tells the owner of an address that already has an account that someone tried to sign up with it. */
+async function sendExistingAccountNote(user: { email: string; name: string }, invitationId: string | undefined) {
+  const origin = config().origin;
+  await sendMail(
+    existingAccountMail(user, {
+      signIn: `${origin}/sign-in`,
+      resetPassword: `${origin}/forgot-password`,
+      invitation: invitationId ? `${origin}/accept-invitation?id=${encodeURIComponent(invitationId)}` : null,
     }),
   );
-  const user = response.user;
+}
+
+/**
+ * Creates the account (unverified, not signed in) with the trust it names or the membership it was
+ * invited to, audits both, then e-mails the confirmation link. An address that already has an account
+ * gets a note instead and nothing changes.
+ */
+export async function completeSignUp(db: Kysely<Database>, input: SignUpInput): Promise<void> {
+  const existing = await db
+    .selectFrom('user')
+    .select(['email', 'name'])
+    .where('email', '=', input.email)
+    .executeTakeFirst();
+  if (existing) return sendExistingAccountNote(existing, input.invitationId);
+  const auth = getAuth();
+  const { user } = await authCall(() =>
+    auth.api.signUpEmail({ body: { name: input.name, email: input.email, password: input.password } }),
+  );
+  // Two sign-ups of one new address at once: the second gets better-auth's stand-in user, not a row.
+  const created = await db.selectFrom('user').select(['id', 'name']).where('id', '=', user.id).executeTakeFirst();
+  if (!created) return sendExistingAccountNote({ email: input.email, name: input.name }, input.invitationId);
   await recordAudit(db, {
     trustId: null,
     actorUserId: user.id,
@@ -67,17 +100,12 @@ export async function signUp(db: Kysely<Database>, input: SignUpInput, requestHe
     entityId: user.id,
     summary: `${user.email} created an account`,
   });
-  const sessionHeaders = new Headers({ cookie: cookieHeaderOf(headers) });
-  let trust: { id: string; name: string };
   if (input.trustName) {
-    const created = await authCall(() =>
-      auth.api.createOrganization({
-        body: { name: input.trustName!, slug: trustSlug(input.trustName!) },
-        headers: sessionHeaders,
-      }),
+    const trustName = input.trustName;
+    const trust = await authCall(() =>
+      auth.api.createOrganization({ body: { name: trustName, slug: trustSlug(trustName), userId: user.id } }),
     );
-    if (!created) throw new Error('The trust was not created');
-    trust = { id: created.id, name: created.name };
+    if (!trust) throw new Error('The trust was not created');
     await recordAudit(db, {
       trustId: trust.id,
       actorUserId: user.id,
@@ -88,14 +116,52 @@ export async function signUp(db: Kysely<Database>, input: SignUpInput, requestHe
       summary: `${user.email} created the trust ${trust.name} and became its trust admin`,
       after: { name: trust.name },
     });
-  } else {
-    trust = await acceptInvitation(db, input.invitationId!, { id: user.id, email: user.email }, sessionHeaders);
+  } else if (input.invitationId) {
+    await joinByInvitation(db, input.invitationId, { id: user.id, email: user.email });
   }
-  return {
-    headers,
-    user: { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerified },
-    trust,
-  };
+  await sendVerificationLink({ id: user.id, email: user.email, name: user.name });
+}
+
+/** Makes a new account a member as its invitation says (the person is not signed in yet). */
+async function joinByInvitation(db: Kysely<Database>, invitationId: string, user: { id: string; email: string }) {
+  const invitation = await checkInvitation(db, invitationId, user.email);
+  const member = await authCall(() =>
+    getAuth().api.addMember({
+      body: { userId: user.id, role: invitation.role as Role, organizationId: invitation.trustId },
+    }),
+  );
+  await db.updateTable('invitation').set({ status: 'accepted' }).where('id', '=', invitationId).execute();
+  if (member) await applyInvitationLimits(db, invitationId, member.id);
+  await auditJoined(db, invitation, user, member?.id ?? null);
+}
+
+/** Audits a person joining a trust by its invitation. */
+function auditJoined(
+  db: Kysely<Database>,
+  invitation: { trustId: string; role: string | null },
+  user: { id: string; email: string },
+  memberId: string | null,
+) {
+  return recordAudit(db, {
+    trustId: invitation.trustId,
+    actorUserId: user.id,
+    actorEmail: user.email,
+    action: 'member.joined',
+    entityType: 'member',
+    entityId: memberId,
+    summary: `${user.email} accepted the invitation and joined as ${invitation.role}`,
+    after: { role: invitation.role },
+  });
+}
+
+/**
+ * Asks better-auth to e-mail a password link, in the background: the answer takes the same time
+ * whether or not the address has an account (better-auth itself answers alike for both).
+ */
+export function requestPasswordReset(email: string): void {
+  runInBackground('password reset', () =>
+    getAuth().api.requestPasswordReset({ body: { email, redirectTo: '/reset-password' } }),
+  );
 }
 
 /** Copies the limits chosen when inviting (schools, end date) onto the new membership. */
@@ -140,16 +206,7 @@ export async function acceptInvitation(
     getAuth().api.acceptInvitation({ body: { invitationId }, headers: requestHeaders }),
   );
   if (result?.member) await applyInvitationLimits(db, invitationId, result.member.id);
-  await recordAudit(db, {
-    trustId: invitation.trustId,
-    actorUserId: user.id,
-    actorEmail: user.email,
-    action: 'member.joined',
-    entityType: 'member',
-    entityId: result?.member.id ?? null,
-    summary: `${user.email} accepted the invitation and joined as ${invitation.role}`,
-    after: { role: invitation.role },
-  });
+  await auditJoined(db, invitation, user, result?.member.id ?? null);
   const session = await getAuth().api.getSession({ headers: requestHeaders });
   if (session) await setSessionTrust(db, session.session.id, invitation.trustId);
   return { id: invitation.trustId, name: invitation.trustName };

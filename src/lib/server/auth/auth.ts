@@ -1,19 +1,20 @@
 import { betterAuth, type BetterAuthOptions } from 'better-auth';
-import { createAuthMiddleware } from 'better-auth/api';
+import { APIError, createAuthMiddleware } from 'better-auth/api';
 import { organization } from 'better-auth/plugins';
 import type { Kysely } from 'kysely';
 import { recordAudit } from '../audit/audit.repository';
+import { runInBackground } from '../background';
 import { getDb } from '../db/client';
+import { CLIENT_IP_HEADER } from '../http/request-guard';
 import { sendMail } from '../mail/mailer';
 import { invitationMail, passwordResetMail, verificationMail } from '../mail/templates';
 import { ac, isRole, roles } from './access';
-import { authConfig } from './auth-config';
+import { authSecret, config as serverConfig } from '../config';
 import { ROLE_LABELS } from './context';
 
-/** The header our auth route fills with the caller's address, so rate limits work on loopback too. */
-export const CLIENT_IP_HEADER = 'x-airtally-client-ip';
-
 const INVITATION_SECONDS = 7 * 24 * 3600;
+/** How long an e-mailed confirmation link works. */
+export const VERIFICATION_SECONDS = 24 * 3600;
 
 /** Account writes that better-auth performs itself, audited after they succeed. */
 const AUDITED_ACCOUNT_WRITES: Record<string, { action: string; summary: string }> = {
@@ -41,6 +42,30 @@ function auditAccountWrites(db: Kysely<any>) {
     });
   });
 }
+
+/** The payload of a verification token, read without checking its signature (better-auth checks that). */
+function tokenPayload(token: unknown): Record<string, unknown> | null {
+  if (typeof token !== 'string') return null;
+  try {
+    const part = token.split('.')[1] ?? '';
+    const payload: unknown = JSON.parse(Buffer.from(part, 'base64url').toString('utf8'));
+    return payload && typeof payload === 'object' ? (payload as Record<string, unknown>) : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Changing one's e-mail address is not a feature: a verification token that asks for one (better-auth's
+ * `updateTo` flows) is refused before better-auth acts on it, however it is signed.
+ */
+const refuseEmailChange = createAuthMiddleware(async (ctx) => {
+  if (ctx.path !== '/verify-email') return;
+  const payload = tokenPayload((ctx.query as { token?: unknown } | undefined)?.token);
+  if (payload && ('updateTo' in payload || 'requestType' in payload)) {
+    throw new APIError('BAD_REQUEST', { code: 'INVALID_TOKEN', message: 'This link cannot be used.' });
+  }
+});
 
 /**
  * better-auth's organization plugin, with trusts as organisations: the plugin's organisation model is
@@ -72,24 +97,26 @@ function organizationPlugin(origin: string) {
 /** The options of our better-auth instance over a given Kysely database (also used to generate its schema). */
 // biome-ignore lint/suspicious/noExplicitAny: better-auth's schema generator passes an untyped Kysely instance.
 export function createAuthOptions(db: Kysely<any>) {
-  const config = authConfig();
+  const { origin, auth: config } = serverConfig();
   return {
     appName: 'Airtally',
-    baseURL: config.origin,
+    baseURL: origin,
     basePath: '/api/auth',
-    secret: config.secret,
-    trustedOrigins: [config.origin],
+    secret: authSecret(),
+    trustedOrigins: [origin],
     database: { db, type: 'postgres' as const },
     emailAndPassword: {
       enabled: true,
-      autoSignIn: true,
+      // Sign-up answers alike whether or not the address has an account (no enumeration), so it signs
+      // nobody in: the e-mailed confirmation link does (autoSignInAfterVerification).
+      autoSignIn: false,
       requireEmailVerification: false,
       minPasswordLength: 10,
       maxPasswordLength: 128,
       resetPasswordTokenExpiresIn: 3600,
       revokeSessionsOnPasswordReset: true,
       sendResetPassword: async ({ user, token }) => {
-        await sendMail(passwordResetMail(user, `${config.origin}/reset-password?token=${encodeURIComponent(token)}`));
+        await sendMail(passwordResetMail(user, `${origin}/reset-password?token=${encodeURIComponent(token)}`));
       },
       onPasswordReset: async ({ user }) => {
         await recordAudit(db, {
@@ -104,10 +131,12 @@ export function createAuthOptions(db: Kysely<any>) {
       },
     },
     emailVerification: {
-      sendOnSignUp: true,
-      expiresIn: 24 * 3600,
+      // Sent by our sign-up once the trust or membership exists (account.service.ts).
+      sendOnSignUp: false,
+      autoSignInAfterVerification: true,
+      expiresIn: VERIFICATION_SECONDS,
       sendVerificationEmail: async ({ user, token }) => {
-        await sendMail(verificationMail(user, `${config.origin}/verify-email?token=${encodeURIComponent(token)}`));
+        await sendMail(verificationMail(user, `${origin}/verify-email?token=${encodeURIComponent(token)}`));
       },
       afterEmailVerification: async (user) => {
         await recordAudit(db, {
@@ -122,7 +151,7 @@ export function createAuthOptions(db: Kysely<any>) {
       },
     },
     session: { expiresIn: config.sessionSeconds, updateAge: 24 * 3600 },
-    hooks: { after: auditAccountWrites(db) },
+    hooks: { before: refuseEmailChange, after: auditAccountWrites(db) },
     rateLimit: {
       enabled: true,
       storage: 'memory',
@@ -153,13 +182,17 @@ export function createAuthOptions(db: Kysely<any>) {
       '/delete-user',
       '/change-email',
       '/update-user',
+      // E-mailed links open our /verify-email page, which calls better-auth on the server.
+      '/verify-email',
     ],
     advanced: {
       useSecureCookies: config.secureCookies,
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true, secure: config.secureCookies },
       ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
+      // E-mails go out after the response, so answers take the same time whether or not one is sent.
+      backgroundTasks: { handler: (task: Promise<unknown>) => runInBackground('auth e-mail', () => task) },
     },
-    plugins: [organizationPlugin(config.origin)],
+    plugins: [organizationPlugin(origin)],
   } satisfies BetterAuthOptions;
 }
 

@@ -1,17 +1,8 @@
-import { authConfig } from './auth-config';
-
 /**
- * The caller's address: the socket's peer, or — only when AUTH_TRUST_PROXY=true — the last hop the
- * proxy appended to X-Forwarded-For (the left-hand entries can be forged by the client).
+ * The caller's address, for rate limits. The request guard (http/request-guard.ts) has already replaced
+ * X-Forwarded-For, which Astro's `clientAddress` reads, with the socket's peer — or, only when
+ * AUTH_TRUST_PROXY=true, with the address the proxy appended — so a client cannot choose it.
  */
-export function clientIpOf(request: Request, socketAddress: string | undefined): string {
-  if (authConfig().trustProxy) {
-    const hops = (request.headers.get('x-forwarded-for') ?? '')
-      .split(',')
-      .map((h) => h.trim())
-      .filter(Boolean);
-    const last = hops[hops.length - 1];
-    if (last) return last;
-  }
-  return socketAddress ?? 'unknown';
+export function clientIpOf(_request: Request, clientAddress: string | undefined): string {
+  return clientAddress ?? 'unknown';
 }

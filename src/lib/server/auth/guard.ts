@@ -24,6 +24,7 @@ const ACTION_WORDS: Record<string, string> = {
   edit_technical: 'change technical assumptions',
   edit_financial: 'change financial assumptions',
   save_weights: 'save ranking weights for the trust',
+  edit: 'create or change capital programmes',
   invite: 'invite members',
   remove: 'remove members',
   manage: 'manage the plan and billing',

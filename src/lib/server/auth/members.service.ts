@@ -111,6 +111,23 @@ export async function listMembers(
   };
 }
 
+/**
+ * The member list as a member limited to some schools may see it: other members' and invitations' school
+ * limits show only the schools the viewer may see (the ids of the others would name them).
+ */
+export function membersAsSeenBy(
+  list: { members: MemberView[]; invitations: InvitationView[] },
+  viewer: ActiveTrust,
+): { members: MemberView[]; invitations: InvitationView[] } {
+  const visible = viewer.schoolIds;
+  if (visible === null) return list;
+  const only = (ids: string[] | null) => (ids === null ? null : ids.filter((id) => visible.includes(id)));
+  return {
+    members: list.members.map((m) => ({ ...m, schoolIds: only(m.schoolIds) })),
+    invitations: list.invitations.map((i) => ({ ...i, schoolIds: only(i.schoolIds) })),
+  };
+}
+
 async function findMember(db: Kysely<Database>, trust: ActiveTrust, memberId: string): Promise<MemberView> {
   const member = (await listMembers(db, trust)).members.find((m) => m.id === memberId);
   if (!member) throw notFound('That member');

@@ -12,6 +12,7 @@ export const STATEMENTS = {
   assumptions: ['read', 'edit_technical', 'edit_financial'],
   portfolio: ['read', 'save_weights', 'export'],
   monitoring: ['read', 'import', 'calibrate'],
+  programme: ['read', 'edit', 'export'],
   members: ['read', 'invite', 'update', 'remove'],
   billing: ['read', 'manage'],
   audit: ['read'],
@@ -27,6 +28,7 @@ const READ_ALL: Grants = {
   assumptions: ['read'],
   portfolio: ['read'],
   monitoring: ['read'],
+  programme: ['read'],
   members: ['read'],
   billing: ['read'],
 };
@@ -41,6 +43,7 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
     assumptions: ['read', 'edit_technical'],
     portfolio: ['read', 'save_weights', 'export'],
     monitoring: ['read', 'import', 'calibrate'],
+    programme: ['read', 'edit', 'export'],
   },
   finance_lead: {
     ...READ_ALL,
@@ -48,8 +51,15 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
     assessment: ['read', 'run', 'export'],
     assumptions: ['read', 'edit_financial'],
     portfolio: ['read', 'export'],
+    programme: ['read', 'edit', 'export'],
   },
-  viewer: { ...READ_ALL, register: ['export'], assessment: ['read', 'export'], portfolio: ['read', 'export'] },
+  viewer: {
+    ...READ_ALL,
+    register: ['export'],
+    assessment: ['read', 'export'],
+    portfolio: ['read', 'export'],
+    programme: ['read', 'export'],
+  },
 };
 
 /** True when `role` holds `action` on `resource`. */

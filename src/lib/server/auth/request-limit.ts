@@ -3,16 +3,16 @@
  * (sign-up, forgotten password, sign-in page), where better-auth's own HTTP rate limiter does not run.
  * In this process's memory: a single server process is how Airtally is deployed.
  */
-import { authConfig } from './auth-config';
+import { config } from '../config';
 
 const hits = new Map<string, number[]>();
 
-/** Limits of each form, per client address; sign-in and sign-up follow the configured per-address budget. */
+/** Limits of each form, per client address; every one grows with the configured per-address budget (raised in tests). */
 export function formLimits() {
-  const perAddress = authConfig().signInPerMinutePerAddress;
+  const perAddress = config().auth.signInPerMinutePerAddress;
   return {
     signUp: { max: Math.max(60, perAddress), windowMs: 60_000 },
-    passwordReset: { max: 10, windowMs: 60_000 },
+    passwordReset: { max: Math.max(10, Math.floor(perAddress / 10)), windowMs: 60_000 },
     signIn: { max: Math.max(120, perAddress * 2), windowMs: 60_000 },
   } as const;
 }

@@ -1,4 +1,4 @@
-import { authConfig } from '../auth/auth-config';
+import { config } from '../config';
 import { requirePermission } from '../auth/guard';
 import { unauthenticated } from '../http/errors';
 import type { BillingRequest } from './billing.service';
@@ -10,6 +10,6 @@ export function requireBillingManager(locals: App.Locals): BillingRequest {
   return {
     trust: { id: trust.id, name: trust.name },
     actor: { actorUserId: locals.user.id, actorEmail: locals.user.email },
-    origin: authConfig().origin,
+    origin: config().origin,
   };
 }

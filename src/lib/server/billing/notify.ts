@@ -1,6 +1,7 @@
 import { sql, type Kysely } from 'kysely';
 import type Stripe from 'stripe';
 import type { Database } from '../../../../db/database';
+import { config } from '../config';
 import { sendMail } from '../mail/mailer';
 import { billingStanding } from './standing';
 import { getBillingAccount } from './billing.repository';
@@ -29,8 +30,7 @@ export async function notifyPaymentFailed(
   const standing = billingStanding(await getBillingAccount(db, trustId));
   const amount = `£${(invoice.amount_due / 100).toFixed(2)}`;
   const until = standing.graceEndsAt ? standing.graceEndsAt.toISOString().slice(0, 10) : null;
-  const origin = (process.env['PUBLIC_ORIGIN'] ?? `http://127.0.0.1:${process.env['PORT'] ?? 4321}`).replace(/\/$/, '');
-  const link = `${origin}/app/settings/billing`;
+  const link = `${config().origin}/app/settings/billing`;
   const next =
     standing.mode === 'read_only'
       ? 'Airtally is now read-only for your trust: everyone can still read and export, but changes are paused until the payment goes through.'

@@ -1,19 +1,9 @@
 import Stripe from 'stripe';
-import { z } from 'zod';
+import { config } from '../config';
 import { AppError } from '../http/errors';
 
-/**
- * How the app reaches the payment provider, declared once from the environment. Locally
- * scripts/payments-fake/launch.mjs points these at the fake on loopback; in production leave
- * STRIPE_API_HOST/PORT/PROTOCOL unset and set the live keys.
- */
-const ProviderEnvSchema = z.object({
-  STRIPE_SECRET_KEY: z.string().min(1).optional(),
-  STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
-  STRIPE_API_HOST: z.string().min(1).optional(),
-  STRIPE_API_PORT: z.coerce.number().int().positive().optional(),
-  STRIPE_API_PROTOCOL: z.enum(['http', 'https']).optional(),
-});
+// How the app reaches the payment provider (see config.ts). Locally scripts/payments-fake/launch.mjs points
+// it at the fake on loopback; in production STRIPE_API_HOST/PORT/PROTOCOL stay unset and the live keys are set.
 
 const notConfigured = (variable: string) =>
   new AppError(
@@ -27,26 +17,26 @@ let client: Stripe | undefined;
 /** The provider SDK client, configured only from the environment. */
 export function paymentProvider(): Stripe {
   if (client) return client;
-  const env = ProviderEnvSchema.parse(process.env);
-  if (!env.STRIPE_SECRET_KEY) throw notConfigured('STRIPE_SECRET_KEY');
-  client = new Stripe(env.STRIPE_SECRET_KEY, {
+  const billing = config().billing;
+  if (!billing.secretKey) throw notConfigured('STRIPE_SECRET_KEY');
+  client = new Stripe(billing.secretKey, {
     maxNetworkRetries: 2,
     timeout: 20_000,
-    ...(env.STRIPE_API_HOST ? { host: env.STRIPE_API_HOST } : {}),
-    ...(env.STRIPE_API_PORT ? { port: env.STRIPE_API_PORT } : {}),
-    ...(env.STRIPE_API_PROTOCOL ? { protocol: env.STRIPE_API_PROTOCOL } : {}),
+    ...(billing.apiHost ? { host: billing.apiHost } : {}),
+    ...(billing.apiPort ? { port: billing.apiPort } : {}),
+    ...(billing.apiProtocol ? { protocol: billing.apiProtocol } : {}),
   });
   return client;
 }
 
 /** The secret the provider signs webhook events with. */
 export function webhookSecret(): string {
-  const secret = ProviderEnvSchema.parse(process.env).STRIPE_WEBHOOK_SECRET;
+  const secret = config().billing.webhookSecret;
   if (!secret) throw notConfigured('STRIPE_WEBHOOK_SECRET');
   return secret;
 }
 
 /** True when the provider is configured (the seed skips the demo subscription otherwise). */
 export function providerConfigured(): boolean {
-  return Boolean(ProviderEnvSchema.parse(process.env).STRIPE_SECRET_KEY);
+  return Boolean(config().billing.secretKey);
 }

@@ -15,11 +15,13 @@ import {
 } from './subscription-sync';
 import { notifyPaymentFailed } from './notify';
 
-/** Where an event's object points: its subscription, customer and (when stated) trust. */
+/**
+ * Where an event's object points: its subscription and customer. Never the trust its metadata names:
+ * the trust is the one whose customer (or subscription) we stored ourselves (resolveTrust).
+ */
 interface EventSubject {
   subscriptionId: string | null;
   customerId: string | null;
-  trustId: string | null;
 }
 
 const idOf = (value: unknown): string | null => {
@@ -30,40 +32,23 @@ const idOf = (value: unknown): string | null => {
 
 /** Finds the subscription an event is about, whatever kind of object it carries. */
 export function subjectOf(event: Stripe.Event): EventSubject {
-  const object = event.data.object as unknown as Record<string, unknown> & {
-    object?: string;
-    metadata?: Record<string, string>;
-  };
+  const object = event.data.object as unknown as Record<string, unknown> & { object?: string };
   switch (object.object) {
     case 'subscription':
-      return {
-        subscriptionId: idOf(object['id']),
-        customerId: idOf(object['customer']),
-        trustId: object.metadata?.['trust_id'] ?? null,
-      };
+      return { subscriptionId: idOf(object['id']), customerId: idOf(object['customer']) };
     case 'invoice': {
       const invoice = object as unknown as Stripe.Invoice;
-      const details = invoice.parent?.subscription_details;
       return {
-        subscriptionId: idOf(details?.subscription),
+        subscriptionId: idOf(invoice.parent?.subscription_details?.subscription),
         customerId: idOf(invoice.customer),
-        trustId: details?.metadata?.['trust_id'] ?? null,
       };
     }
     case 'checkout.session': {
       const session = object as unknown as Stripe.Checkout.Session;
-      return {
-        subscriptionId: idOf(session.subscription),
-        customerId: idOf(session.customer),
-        trustId: session.metadata?.['trust_id'] ?? session.client_reference_id ?? null,
-      };
+      return { subscriptionId: idOf(session.subscription), customerId: idOf(session.customer) };
     }
     default:
-      return {
-        subscriptionId: null,
-        customerId: idOf(object['customer']),
-        trustId: object.metadata?.['trust_id'] ?? null,
-      };
+      return { subscriptionId: null, customerId: idOf(object['customer']) };
   }
 }
 
@@ -77,16 +62,28 @@ async function readSubscriptionIfExists(stripe: Stripe, subscriptionId: string):
   }
 }
 
-/** Verifies the provider's signature on the raw body; anything wrong is a 400 and nothing changes. */
+/** How far ahead of this server's clock a signed event's timestamp may be (clocks drift a little). */
+const CLOCK_SKEW_SECONDS = 10;
+
+/**
+ * Verifies the provider's signature on the raw body, and that it was signed neither too long ago (the
+ * SDK's five minutes) nor in the future; anything wrong is a 400 and nothing changes.
+ */
 export function verifyEvent(stripe: Stripe, rawBody: string, signature: string | null): Stripe.Event {
   if (!signature) throw badRequest('The Stripe-Signature header is missing; the event was ignored.');
+  let event: Stripe.Event;
   try {
-    return stripe.webhooks.constructEvent(rawBody, signature, webhookSecret());
+    event = stripe.webhooks.constructEvent(rawBody, signature, webhookSecret());
   } catch {
     throw badRequest(
       "The webhook signature does not match this server's signing secret (or is too old); the event was ignored.",
     );
   }
+  // The SDK refuses old timestamps only; the signed timestamp is `t=` in the header.
+  const signedAt = Number(/(?:^|,)\s*t=(\d+)/.exec(signature)?.[1] ?? Number.NaN);
+  if (!(signedAt <= Date.now() / 1000 + CLOCK_SKEW_SECONDS))
+    throw badRequest('The webhook signature is dated in the future; the event was ignored.');
+  return event;
 }
 
 /**
@@ -102,7 +99,7 @@ export async function receiveEvent(
   const seen = await db.selectFrom('payment_events').select('id').where('id', '=', event.id).executeTakeFirst();
   if (seen) return { duplicate: true };
   const subject = subjectOf(event);
-  const trustId = await resolveTrust(db, stripe, subject);
+  const trustId = await resolveTrust(db, subject);
   const store = async (trx: Transaction<Database> | Kysely<Database>) => {
     const inserted = await trx
       .insertInto('payment_events')
@@ -129,8 +126,11 @@ export async function receiveEvent(
         .where('trust_id', '=', trustId)
         .execute();
     }
-    // Read inside the lock: whatever order events come in, the last one stores the freshest state.
-    const state = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
+    // Read inside the lock: whatever order events come in, the last one stores the freshest state. A
+    // subscription of another customer than the trust's own is not the trust's, whatever the event says.
+    const fetched = subject.subscriptionId ? await readSubscriptionIfExists(stripe, subject.subscriptionId) : null;
+    const owner = (await getBillingAccount(trx, trustId)).customerId;
+    const state = fetched && fetched.customerId === owner ? fetched : null;
     if (
       state &&
       LIVE.has(state.status) &&
@@ -183,12 +183,21 @@ async function cancelIfSecondSubscription(
   return true;
 }
 
-/** The trust an event belongs to (stated in metadata, or found by customer), if it is one of ours. */
-async function resolveTrust(db: Kysely<Database>, stripe: Stripe, subject: EventSubject): Promise<string | null> {
-  let trustId = subject.trustId ?? (subject.customerId ? await trustForCustomer(db, subject.customerId) : null);
-  if (!trustId && subject.subscriptionId)
-    trustId = (await readSubscriptionIfExists(stripe, subject.subscriptionId))?.trustId ?? null;
-  if (!trustId) return null;
-  const known = await db.selectFrom('trusts').select('id').where('id', '=', trustId).executeTakeFirst();
-  return known ? known.id : null;
+/**
+ * The trust an event belongs to: the one whose provider customer we stored when it started checkout, or
+ * failing that whose stored subscription it is. Never the trust named in the event's metadata, which is
+ * not ours to trust.
+ */
+async function resolveTrust(db: Kysely<Database>, subject: EventSubject): Promise<string | null> {
+  if (subject.customerId) {
+    const trustId = await trustForCustomer(db, subject.customerId);
+    if (trustId) return trustId;
+  }
+  if (!subject.subscriptionId) return null;
+  const row = await db
+    .selectFrom('billing_accounts')
+    .select('trust_id')
+    .where('provider_subscription_id', '=', subject.subscriptionId)
+    .executeTakeFirst();
+  return row?.trust_id ?? null;
 }

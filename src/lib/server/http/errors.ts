@@ -66,6 +66,8 @@ export const CONSTRAINT_MESSAGES: Record<string, string> = {
   blocks_year_built_range: limitMessage(BLOCK_LIMITS.yearBuilt),
   blocks_air_permeability_range: limitMessage(BLOCK_LIMITS.airPermeabilityM3hM2),
   schools_fuel_price_range: limitMessage(BLOCK_LIMITS.fuelPriceGbpPerKwh),
+  programmes_name_unique_in_trust: 'This trust already has a programme with that name. Choose another name.',
+  programmes_name_present: 'A programme needs a name of 1 to 120 characters.',
 };
 
 interface PgError {
@@ -95,6 +97,18 @@ export function fromDatabaseError(error: unknown): AppError | null {
       });
     case '22P02':
       return badRequest('A value has the wrong format (for example an identifier that is not a valid id).');
+    case '22021':
+    case '22P05':
+      return badRequest(
+        'A text value contains a character that cannot be stored (such as a NUL byte from a binary file). Remove it and try again.',
+      );
+    case '22001':
+      return badRequest('A text value is longer than this field allows.');
+    case '22003':
+      return badRequest('A number is too large or too small for this field.');
+    case '22007':
+    case '22008':
+      return badRequest('A date or time is not valid.');
     default:
       return null;
   }

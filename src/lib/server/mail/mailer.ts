@@ -1,15 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
-import { z } from 'zod';
-
-/** SMTP settings from the environment: maildev on loopback in development and tests, a real relay in production. */
-const MailConfigSchema = z.object({
-  SMTP_HOST: z.string().min(1).default('127.0.0.1'),
-  SMTP_PORT: z.coerce.number().int().positive().default(54325),
-  SMTP_SECURE: z.enum(['true', 'false']).default('false'),
-  SMTP_USER: z.string().optional(),
-  SMTP_PASSWORD: z.string().optional(),
-  MAIL_FROM: z.string().min(3).default('Airtally <no-reply@airtally.test>'),
-});
+import { config } from '../config';
 
 /** One message in both forms; every template supplies both. */
 export interface MailMessage {
@@ -24,13 +14,14 @@ let from = '';
 
 function transport(): Transporter {
   if (!transporter) {
-    const env = MailConfigSchema.parse(process.env);
-    from = env.MAIL_FROM;
+    // SMTP: maildev on loopback in development and tests, a real relay in production.
+    const mail = config().mail;
+    from = mail.from;
     transporter = nodemailer.createTransport({
-      host: env.SMTP_HOST,
-      port: env.SMTP_PORT,
-      secure: env.SMTP_SECURE === 'true',
-      ...(env.SMTP_USER ? { auth: { user: env.SMTP_USER, pass: env.SMTP_PASSWORD ?? '' } } : {}),
+      host: mail.host,
+      port: mail.port,
+      secure: mail.secure,
+      ...(mail.user ? { auth: { user: mail.user, pass: mail.password } } : {}),
     });
   }
   return transporter;

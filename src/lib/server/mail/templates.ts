@@ -99,3 +99,27 @@ export function invitationMail(
     'If you were not expecting this, you can ignore it; no account is created unless you accept.',
   );
 }
+
+/**
+ * Answers a sign-up with an address that already has an account: the sign-up itself answered as for a
+ * new address (so nobody learns which addresses have accounts); only the owner of the inbox learns it.
+ */
+export function existingAccountMail(
+  to: { email: string; name: string },
+  links: { signIn: string; resetPassword: string; invitation: string | null },
+): MailMessage {
+  return message(
+    to.email,
+    'You already have an Airtally account',
+    `Hello ${to.name}, you already have an account`,
+    [
+      'Someone (we hope you) tried to create a new Airtally account with this e-mail address, which already has one. Nothing was changed.',
+      links.invitation
+        ? `To accept the invitation, sign in with your password and open the invitation again: ${links.invitation}`
+        : 'Sign in with your password as usual.',
+      `Forgotten your password? Choose a new one here: ${links.resetPassword}`,
+    ],
+    { label: 'Sign in', url: links.signIn },
+    'If you did not try to create an account, you can ignore this message.',
+  );
+}

@@ -24,7 +24,7 @@ let ready: Promise<void> | undefined;
 /** Registers the analysis queue and its worker on the app's pg-boss (once per process). */
 function ensureWorker(): Promise<void> {
   ready ??= (async () => {
-    const { boss } = await getQueue();
+    const boss = await getQueue();
     await boss.createQueue(ANALYSIS_QUEUE, {
       name: ANALYSIS_QUEUE,
       retryLimit: 1,
@@ -54,7 +54,7 @@ export async function requestAnalysis(
     .returning('id')
     .executeTakeFirstOrThrow();
   await ensureWorker();
-  const { boss } = await getQueue();
+  const boss = await getQueue();
   await boss.send(ANALYSIS_QUEUE, { runId: run.id });
   return run.id;
 }

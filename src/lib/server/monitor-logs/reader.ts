@@ -7,10 +7,11 @@
 import type { Readable } from 'node:stream';
 import { parse } from 'csv-parse';
 import { AppError, badRequest } from '../http/errors';
+import { MAX_LOG_UPLOAD_BYTES } from '../http/request-guard';
 import { readXlsx, sniffDelimiter, type SheetRow } from '../register/reader';
 
 /** Largest CSV log accepted (10 million readings in long format are about 300 MB). */
-export const MAX_CSV_BYTES = 1024 * 1024 * 1024;
+export const MAX_CSV_BYTES = MAX_LOG_UPLOAD_BYTES;
 /** Largest .xlsx log accepted: a workbook is unpacked whole by the guard before it is read. */
 export const MAX_XLSX_BYTES = 100 * 1024 * 1024;
 /** Most rows a log's sheet may have (an .xlsx sheet holds at most 1,048,576). */

@@ -6,6 +6,7 @@ import type { Database } from '../../../../db/database';
 import { ENGINE_CAUTIONS } from '../../engine/assess';
 import { label } from '../../engine/vocabulary';
 import type { ActiveTrust } from '../auth/context';
+import { guardFormula } from '../formula-guard';
 import type { PrioritiesQuery } from './portfolio.schemas';
 import { EVIDENCE_WORDS } from '../assessments/results-export';
 import { selectPriorityRows } from './priorities.repository';
@@ -14,13 +15,8 @@ import { ensureRanks } from './ranking.repository';
 /** Most rows an export holds (a whole 100,000-room estate fits). */
 export const EXPORT_MAX_ROWS = 200_000;
 
-/**
- * Text a spreadsheet would run as a formula (leading =, +, -, @, tab or carriage return) gets a leading
- * apostrophe so it stays text (OWASP "CSV injection" guidance applies to .xlsx cells too).
- */
-export function guardCell(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
+/** Text a spreadsheet would run as a formula gets a leading apostrophe so it stays text (see formula-guard.ts). */
+export const guardCell = guardFormula;
 
 const round = (v: number | null, digits = 0) => (v === null ? null : Number(v.toFixed(digits)));
 

@@ -1,27 +1,18 @@
-import { gunzipSync, gzipSync } from 'node:zlib';
 import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
+import { config } from '../config';
 import { withConnection } from '../db/client';
 import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
-import type { RegisterField } from './columns';
-import type { DetectedHeader } from './headers';
-import { readRegisterFile } from './parse';
-import { planImport, type ImportPlan, type ImportSummary, type RoomChange } from './plan';
+import { analyseUploadIsolated } from './parse-in-worker';
+import { decodePlan, type UploadAnalysis } from './analyse';
+import type { ImportPlan, ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import {
-  applyPlan,
-  estateFingerprint,
-  loadSavedMappings,
-  loadSnapshot,
-  saveMappings,
-  stagedRoomLine,
-  type StoredPlan,
-} from './register.repository';
+import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -29,7 +20,7 @@ type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /** Logs how long each step took to stderr when AIRTALLY_IMPORT_TIMINGS is set (the benchmark sets it). */
 function stepTimer(name: string): (step: string) => void {
-  if (!process.env.AIRTALLY_IMPORT_TIMINGS) return () => {};
+  if (!config().importTimings) return () => {};
   let last = performance.now();
   return (step) => {
     const now = performance.now();
@@ -38,9 +29,6 @@ function stepTimer(name: string): (step: string) => void {
   };
 }
 
-/** Problems kept and returned per import; the counts in the summary stay exact beyond it. */
-export const MAX_PROBLEMS_KEPT = 10_000;
-
 /** The uploaded file as the route hands it over. */
 export interface Upload {
   fileName: string;
@@ -48,22 +36,17 @@ export interface Upload {
 }
 
 /** The preview an import answers with (POST /api/imports) and keeps until commit. */
-export interface ImportPreview {
+export type ImportPreview = Pick<
+  UploadAnalysis,
+  'sheetName' | 'header' | 'topRows' | 'summary' | 'problems' | 'missingRooms' | 'roomChanges'
+> & {
   id: string;
   status: 'previewed';
   fileName: string;
-  sheetName: string;
-  header: { row: number; rowCount: number; confident: boolean; columns: DetectedHeader['columns'] };
-  topRows: string[][];
-  summary: ImportSummary;
-  problems: ImportProblem[];
   problemsTruncated: boolean;
-  missingRooms: ImportPlan['missingRooms'];
-  /** Per room, the fields that change from what to what (at most MAX_ROOM_CHANGES_LISTED rooms). */
-  roomChanges: RoomChange[];
   /** Whether blank cells clear stored values (chosen at upload). */
   clearBlanks: boolean;
-}
+};
 
 /** .xlsx or .csv from the file name; anything else is refused with what to do. */
 export function fileKindOf(fileName: string): 'xlsx' | 'csv' {
@@ -91,31 +74,17 @@ export async function previewImport(
   if (upload.bytes.length === 0) throw badRequest('The file is empty. Choose the register file again.');
   const kind = fileKindOf(upload.fileName);
   const mark = stepTimer('preview');
-  const saved = await loadSavedMappings(db, trust.id);
-  const file = await readRegisterFile(upload.bytes, kind, saved, options);
-  mark('read and check cells');
-  const [snapshot, fingerprint] = await Promise.all([loadSnapshot(db, trust), estateFingerprint(db, trust)]);
-  const plan = planImport(file.read, file.header.columns, snapshot, { clearBlanks: options.clearBlanks === true });
-  // The read rows are not needed past here; letting them go keeps peak memory down on big files.
-  file.read.rows = [];
-  mark('compare with the estate');
-  const rowsGz = encodePlan(plan);
-  plan.roomWrites = [];
-  const problems = plan.problems.slice(0, MAX_PROBLEMS_KEPT);
-  const header = {
-    row: file.header.row,
-    rowCount: file.header.rowCount,
-    confident: file.header.confident,
-    columns: file.header.columns,
-  };
+  const [saved, snapshot, fingerprint] = await Promise.all([
+    loadSavedMappings(db, trust.id),
+    loadSnapshot(db, trust),
+    estateFingerprint(db, trust),
+  ]);
+  mark('load the estate');
+  const analysis = await analyseUploadIsolated(upload.bytes, kind, saved, options, snapshot, config().importTimings);
+  mark('read, check and compare with the estate (worker)');
 
   const id = await db.transaction().execute(async (trx) => {
-    if (options.mapping) {
-      const pairs = file.header.columns
-        .filter((c) => c.field && c.letter in (options.mapping ?? {}))
-        .map((c) => ({ headerKey: c.headerKey, field: c.field as RegisterField }));
-      await saveMappings(trx, trust.id, pairs);
-    }
+    if (analysis.mappedPairs.length) await saveMappings(trx, trust.id, analysis.mappedPairs);
     const row = await trx
       .insertInto('register_imports')
       .values({
@@ -125,13 +94,13 @@ export async function previewImport(
         file_name: upload.fileName.slice(0, 255),
         file_kind: kind,
         file_size_bytes: upload.bytes.length,
-        header: JSON.stringify({ ...header, sheetName: file.sheetName }),
-        summary: JSON.stringify(plan.summary),
-        problems: JSON.stringify(problems),
-        problem_count: plan.problems.length,
-        missing_rooms: JSON.stringify(plan.missingRooms),
-        room_changes: JSON.stringify({ clearBlanks: options.clearBlanks === true, rooms: plan.roomChanges }),
-        rows_gz: rowsGz,
+        header: JSON.stringify({ ...analysis.header, sheetName: analysis.sheetName }),
+        summary: JSON.stringify(analysis.summary),
+        problems: JSON.stringify(analysis.problems),
+        problem_count: analysis.problemCount,
+        missing_rooms: JSON.stringify(analysis.missingRooms),
+        room_changes: JSON.stringify({ clearBlanks: options.clearBlanks === true, rooms: analysis.roomChanges }),
+        rows_gz: analysis.rowsGz,
         estate_fingerprint: fingerprint,
       })
       .returning('id')
@@ -142,7 +111,7 @@ export async function previewImport(
       action: 'import.previewed',
       entityType: 'import',
       entityId: row.id,
-      summary: `Uploaded ${upload.fileName} for preview: ${plan.summary.roomsToCreate} rooms to create, ${plan.summary.roomsToChange} to change, ${plan.summary.rowsRejected} rows rejected`,
+      summary: `Uploaded ${upload.fileName} for preview: ${analysis.summary.roomsToCreate} rooms to create, ${analysis.summary.roomsToChange} to change, ${analysis.summary.rowsRejected} rows rejected`,
     });
     return row.id;
   });
@@ -151,34 +120,16 @@ export async function previewImport(
     id,
     status: 'previewed',
     fileName: upload.fileName,
-    sheetName: file.sheetName,
-    header,
-    topRows: file.topRows,
-    summary: plan.summary,
-    problems,
-    problemsTruncated: plan.problems.length > problems.length,
-    missingRooms: plan.missingRooms,
-    roomChanges: plan.roomChanges,
+    sheetName: analysis.sheetName,
+    header: analysis.header,
+    topRows: analysis.topRows,
+    summary: analysis.summary,
+    problems: analysis.problems,
+    problemsTruncated: analysis.problemCount > analysis.problems.length,
+    missingRooms: analysis.missingRooms,
+    roomChanges: analysis.roomChanges,
     clearBlanks: options.clearBlanks === true,
   };
-}
-
-/**
- * The plan as the commit needs it, gzip-compressed: one line of JSON with everything but the room
- * writes, then the room writes as COPY text lines, ready to stream into the commit's staging table.
- */
-export function encodePlan(plan: ImportPlan): Buffer {
-  const { problems: _problems, roomWrites, roomChanges: _changes, ...rest } = plan;
-  const parts: string[] = [JSON.stringify(rest satisfies StoredPlan), '\n'];
-  for (const w of roomWrites) parts.push(stagedRoomLine(w));
-  return gzipSync(parts.join(''), { level: 1 });
-}
-
-/** The inverse of encodePlan: the plan without its room writes, and the room writes as COPY text. */
-export function decodePlan(gz: Buffer): { plan: StoredPlan; roomLines: Buffer } {
-  const bytes = gunzipSync(gz);
-  const end = bytes.indexOf(10);
-  return { plan: JSON.parse(bytes.toString('utf8', 0, end)) as StoredPlan, roomLines: bytes.subarray(end + 1) };
 }
 
 /** Outcome of a commit or cancel, as stored on the import and answered to the client. */
@@ -212,12 +163,14 @@ export async function commitImport(
     db.transaction().execute(async (trx) => {
       const found = await trx
         .selectFrom('register_imports')
-        .select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint'])
+        .select(['id', 'status', 'rows_gz', 'file_name', 'estate_fingerprint', 'created_by_user_id'])
         .where('id', '=', importId)
         .where('trust_id', '=', trust.id)
         .forUpdate()
         .executeTakeFirst();
-      if (!found) throw notFound('That import');
+      // A member limited to some schools commits only their own previews (another's spans other schools).
+      if (!found || (trust.schoolIds !== null && found.created_by_user_id !== actor.actorUserId))
+        throw notFound('That import');
       if (found.status !== 'previewed' || !found.rows_gz)
         throw conflict(`This import is already ${found.status}; upload the file again to import it.`);
       const audit = { trustId: trust.id, ...actor, entityType: 'import', entityId: importId };
@@ -307,10 +260,25 @@ export interface ImportHistoryItem {
   outcome: ImportOutcome | null;
 }
 
-/** The trust's imports, newest first. */
-export async function listImports(db: Kysely<Database>, trustId: string, limit = 50): Promise<ImportHistoryItem[]> {
-  const rows = await db
-    .selectFrom('register_imports')
+/** Who reads the import history: a member limited to some schools sees only the imports they uploaded. */
+export interface ImportViewer {
+  trust: ActiveTrust;
+  userId: string;
+}
+
+/** The imports a viewer may see: the trust's, or only their own when they are limited to some schools. */
+function visibleImports(db: Kysely<Database>, viewer: ImportViewer) {
+  const q = db.selectFrom('register_imports').where('trust_id', '=', viewer.trust.id);
+  return viewer.trust.schoolIds === null ? q : q.where('created_by_user_id', '=', viewer.userId);
+}
+
+/** The trust's imports, newest first (a school-limited member's own only: others' name other schools' rooms). */
+export async function listImports(
+  db: Kysely<Database>,
+  viewer: ImportViewer,
+  limit = 50,
+): Promise<ImportHistoryItem[]> {
+  const rows = await visibleImports(db, viewer)
     .select([
       'id',
       'file_name',
@@ -323,7 +291,6 @@ export async function listImports(db: Kysely<Database>, trustId: string, limit =
       'problem_count',
       'outcome',
     ])
-    .where('trust_id', '=', trustId)
     .orderBy('created_at', 'desc')
     .limit(limit)
     .execute();
@@ -341,10 +308,12 @@ export async function listImports(db: Kysely<Database>, trustId: string, limit =
   }));
 }
 
-/** One import with its stored preview (problems and rooms missing from the file). */
-export async function getImport(db: Kysely<Database>, trustId: string, id: string) {
-  const r = await db
-    .selectFrom('register_imports')
+/**
+ * One import with its stored preview (problems and rooms missing from the file). A member limited to some
+ * schools gets only their own imports, and of the missing rooms only those still in their schools.
+ */
+export async function getImport(db: Kysely<Database>, viewer: ImportViewer, id: string) {
+  const r = await visibleImports(db, viewer)
     .select([
       'id',
       'file_name',
@@ -361,10 +330,25 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
       'outcome',
       'header',
     ])
-    .where('trust_id', '=', trustId)
     .where('id', '=', id)
     .executeTakeFirst();
   if (!r) throw notFound('That import');
+  let missingRooms = r.missing_rooms as unknown as ImportPlan['missingRooms'];
+  const schoolIds = viewer.trust.schoolIds;
+  if (schoolIds !== null && missingRooms.length > 0) {
+    const allowed = await db
+      .selectFrom('rooms')
+      .select('id')
+      .where(
+        'id',
+        'in',
+        missingRooms.map((m) => m.id),
+      )
+      .where('school_id', 'in', schoolIds.length ? schoolIds : ['00000000-0000-0000-0000-000000000000'])
+      .execute();
+    const ids = new Set(allowed.map((a) => a.id));
+    missingRooms = missingRooms.filter((m) => ids.has(m.id));
+  }
   return {
     id: r.id,
     fileName: r.file_name,
@@ -376,8 +360,7 @@ export async function getImport(db: Kysely<Database>, trustId: string, id: strin
     summary: r.summary as ImportSummary,
     problems: r.problems as unknown as ImportProblem[],
     problemCount: r.problem_count,
-    missingRooms: r.missing_rooms as unknown as ImportPlan['missingRooms'],
-    roomChanges: ((r.room_changes as { rooms?: RoomChange[] } | null)?.rooms ?? []) as RoomChange[],
+    missingRooms,
     outcome: r.outcome as ImportOutcome | null,
     header: r.header,
   };

@@ -1,13 +1,18 @@
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
-import { badRequest } from '../http/errors';
+import { AppError, badRequest } from '../http/errors';
+import { MAX_UPLOAD_BYTES } from '../http/request-guard';
 import { plainCellValue, type CellValue } from './values';
 import { inspectXlsx, type MergedRange } from './zip-guard';
 
 /** The most rows a register may have; larger files are refused before they are read. */
 export const MAX_ROWS = 200_000;
 /** The largest upload we accept, in bytes. */
-export const MAX_FILE_BYTES = 20 * 1024 * 1024;
+export const MAX_FILE_BYTES = MAX_UPLOAD_BYTES;
+/** Columns read from each row; a register has about twenty, a surveyor's sheet a few dozen. */
+export const MAX_COLUMNS = 256;
+/** The last row number a spreadsheet program can have (Excel's limit, 2^20). */
+const LAST_SHEET_ROW = 1_048_576;
 
 /** One row as read: its row number as the spreadsheet shows it, and its cells from column A. */
 export interface SheetRow {
@@ -26,12 +31,25 @@ export const tooManyRows = () =>
     `This file has more than ${MAX_ROWS.toLocaleString('en-GB')} rows. Split it into smaller files (for example one per school) and import them one by one.`,
   );
 
+const unreadable = (error: unknown) =>
+  error instanceof AppError
+    ? error
+    : badRequest(
+        `We could not read this workbook (${error instanceof Error ? error.message : 'unknown reason'}). Open it in your spreadsheet program, save it again as .xlsx and retry.`,
+      );
+
+const nulInRow = (rowNumber: number) =>
+  badRequest(
+    `Row ${rowNumber} contains a NUL character (binary data, not text). Check that this is the register itself, open it in your spreadsheet program and save it again.`,
+  );
+
 /** Copies each merged range's top-left value into the rest of the range, row by row as rows arrive. */
 class MergeFiller {
   private readonly byRow = new Map<number, MergedRange[]>();
   private readonly topValues = new Map<MergedRange, CellValue>();
   constructor(merges: MergedRange[]) {
     for (const m of merges) {
+      // The guard has capped the cells merges cover (zip-guard.ts); columns past MAX_COLUMNS are not read.
       for (let r = m.top; r <= m.bottom && r - m.top < 5000; r++) {
         const list = this.byRow.get(r) ?? [];
         list.push(m);
@@ -43,7 +61,8 @@ class MergeFiller {
     for (const m of this.byRow.get(row.rowNumber) ?? []) {
       if (row.rowNumber === m.top) this.topValues.set(m, row.values[m.left] ?? null);
       const value = this.topValues.get(m) ?? null;
-      for (let c = m.left; c <= m.right; c++) if (!(row.rowNumber === m.top && c === m.left)) row.values[c] = value;
+      for (let c = m.left; c <= Math.min(m.right, MAX_COLUMNS - 1); c++)
+        if (!(row.rowNumber === m.top && c === m.left)) row.values[c] = value;
     }
   }
 }
@@ -75,26 +94,38 @@ export async function* readXlsx(
       const merges = facts.sheets.get(`xl/worksheets/sheet${ws.id}.xml`)?.merges ?? [];
       const filler = merges.length ? new MergeFiller(merges) : null;
       async function* rows(): AsyncGenerator<SheetRow> {
-        for await (const row of ws) {
-          if (row.number > maxRows + 50) throw tooMany();
-          // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
-          // shifted down in place rather than copied.
-          const values = row.values as CellValue[];
-          const length = values.length;
-          for (let i = 1; i < length; i++) values[i - 1] = plainCellValue(values[i]);
-          if (length > 0) values.length = length - 1;
-          const sheetRow = { rowNumber: row.number, values };
-          filler?.fill(sheetRow);
-          yield sheetRow;
+        let previous = 0;
+        try {
+          for await (const row of ws) {
+            // Row numbers come from the file: each must be a sheet row after the one before.
+            if (!Number.isInteger(row.number) || row.number <= previous || row.number > LAST_SHEET_ROW)
+              throw badRequest(
+                `The sheet "${ws.name ?? ws.id}" lists its rows out of order or with impossible row numbers (after row ${previous}), so the file is damaged. Open it in your spreadsheet program, save it again as .xlsx and retry.`,
+              );
+            if (row.number > maxRows + 50) throw tooMany();
+            previous = row.number;
+            // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
+            // shifted down in place rather than copied.
+            const values = row.values as CellValue[];
+            const length = Math.min(values.length, MAX_COLUMNS + 1);
+            for (let i = 1; i < length; i++) {
+              const value = plainCellValue(values[i]);
+              if (typeof value === 'string' && value.includes('\u0000')) throw nulInRow(row.number);
+              values[i - 1] = value;
+            }
+            if (length > 0) values.length = length - 1;
+            const sheetRow = { rowNumber: row.number, values };
+            filler?.fill(sheetRow);
+            yield sheetRow;
+          }
+        } catch (error) {
+          throw unreadable(error);
         }
       }
       yield { name: ws.name ?? `Sheet ${ws.id}`, rows: rows() };
     }
   } catch (error) {
-    if (error instanceof Error && error.name === 'AppError') throw error;
-    throw badRequest(
-      `We could not read this workbook (${error instanceof Error ? error.message : 'unknown reason'}). Open it in your spreadsheet program, save it again as .xlsx and retry.`,
-    );
+    throw unreadable(error);
   }
 }
 
@@ -165,12 +196,14 @@ export function* parseCsv(text: string, delimiter = sniffDelimiter(text)): Gener
 /** Reads a CSV upload as one sheet. */
 export async function* readCsv(buf: Buffer): AsyncGenerator<SheetStream> {
   const text = decodeCsv(buf);
+  const hasNul = text.includes('\u0000');
   async function* rows(): AsyncGenerator<SheetRow> {
     let rowNumber = 0;
     for (const values of parseCsv(text)) {
       rowNumber++;
       if (rowNumber > MAX_ROWS + 50) throw tooManyRows();
-      yield { rowNumber, values };
+      if (hasNul && values.some((v) => v.includes('\u0000'))) throw nulInRow(rowNumber);
+      yield { rowNumber, values: values.length > MAX_COLUMNS ? values.slice(0, MAX_COLUMNS) : values };
     }
   }
   yield { name: 'CSV', rows: rows() };

@@ -138,7 +138,14 @@ export const RoomPatchSchema = RoomFieldsSchema.partial()
   .extend({
     blockId: z.uuid({ message: 'blockId must be a block id' }).nullable().optional(),
     /** The updatedAt the editor last saw; a newer row means someone else changed it (409). */
-    ifUnmodifiedSince: z.string().optional(),
+    ifUnmodifiedSince: z
+      .string()
+      .max(64)
+      .refine(
+        (v) => !Number.isNaN(Date.parse(v)),
+        'ifUnmodifiedSince must be a date and time, such as 2026-12-01T09:30:00.000Z.',
+      )
+      .optional(),
   })
   .strict();
 export type RoomPatch = z.infer<typeof RoomPatchSchema>;

@@ -1,5 +1,8 @@
 import { label } from '../../engine/vocabulary';
 import type { Quantity } from './columns';
+import { looksLikeFormula } from '../formula-guard';
+
+export { guardFormula } from '../formula-guard';
 
 /** A cell as the readers hand it over: exceljs objects already reduced to a plain value. */
 export type CellValue = string | number | boolean | Date | null;
@@ -28,9 +31,6 @@ export function plainCellValue(raw: unknown): CellValue {
   return null;
 }
 
-// Text that would run as a formula in a spreadsheet program (see the export's guard).
-const FORMULA_START = /^[=+\-@\t\r]/;
-
 /** Trimmed text of a cell, without the quote our export puts before formula-like text. */
 export function cellText(value: CellValue): string {
   if (value === null) return '';
@@ -38,12 +38,7 @@ export function cellText(value: CellValue): string {
   const text = String(value)
     .replace(/\u00a0/g, ' ')
     .trim();
-  return text.startsWith("'") && FORMULA_START.test(text.slice(1)) ? text.slice(1).trim() : text;
-}
-
-/** Text written to an exported cell so that no spreadsheet program runs it as a formula. */
-export function guardFormula(text: string): string {
-  return FORMULA_START.test(text) ? `'${text}` : text;
+  return text.startsWith("'") && looksLikeFormula(text.slice(1)) ? text.slice(1).trim() : text;
 }
 
 const PLACEHOLDERS = new Set([

@@ -1,28 +1,50 @@
-import { createInflateRaw, inflateRawSync } from 'node:zlib';
+import { createInflateRaw } from 'node:zlib';
 import { badRequest } from '../http/errors';
 
 /** A zip entry as its central directory describes it. */
 interface ZipEntry {
   name: string;
   method: number;
+  flags: number;
+  crc: number;
   compressedSize: number;
   uncompressedSize: number;
+  localOffset: number;
   dataStart: number;
 }
 
 /** Largest size any one part of a workbook may unpack to; a real 200,000-row sheet stays well under it. */
 export const MAX_ENTRY_BYTES = 256 * 1024 * 1024;
+/** Largest size all parts together may unpack to, counted as they are unpacked (not as the zip claims). */
+export const MAX_TOTAL_BYTES = 384 * 1024 * 1024;
+/** Most merged ranges a sheet may have; a register merges school or block cells, a few thousand at most. */
+export const MAX_MERGED_RANGES = 5000;
+/** Most cells all of a sheet's merged ranges may cover (each is filled with its top-left value). */
+export const MAX_MERGED_CELLS = 1_000_000;
+
+const LOCAL_HEADER = 0x04034b50;
+const CENTRAL_HEADER = 0x02014b50;
+const END_OF_DIRECTORY = 0x06054b50;
+const DATA_DESCRIPTOR = 0x08074b50;
+const DATA_DESCRIPTOR_SIGNATURE = Buffer.from([0x50, 0x4b, 0x07, 0x08]);
+const FLAG_ENCRYPTED = 0x0001;
+const FLAG_DATA_DESCRIPTOR = 0x0008;
 
 const notXlsx = (why: string) =>
   badRequest(
     `This file is not an Excel workbook we can read: ${why}. Save it from your spreadsheet program as .xlsx (or .csv) and upload it again.`,
   );
+const damaged = (why: string) => notXlsx(`its zip structure is damaged or unusual (${why})`);
+const tooBig = (what: string, limitBytes: number) =>
+  notXlsx(
+    `${what} unpacks to more than ${limitBytes / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
+  );
 
-function readCentralDirectory(buf: Buffer): ZipEntry[] {
+function readCentralDirectory(buf: Buffer): { entries: ZipEntry[]; dirOffset: number } {
   const min = Math.max(0, buf.length - 65_557);
   let eocd = -1;
   for (let i = buf.length - 22; i >= min; i--) {
-    if (buf.readUInt32LE(i) === 0x06054b50) {
+    if (buf.readUInt32LE(i) === END_OF_DIRECTORY) {
       eocd = i;
       break;
     }
@@ -39,10 +61,13 @@ function readCentralDirectory(buf: Buffer): ZipEntry[] {
   if (dirOffset + dirSize > eocd)
     throw notXlsx('it seems to be cut short or damaged (its table of contents points past the end of the file)');
   const entries: ZipEntry[] = [];
+  const names = new Set<string>();
   let p = dirOffset;
   for (let n = 0; n < count; n++) {
-    if (p + 46 > buf.length || buf.readUInt32LE(p) !== 0x02014b50) throw notXlsx('its table of contents is damaged');
+    if (p + 46 > eocd || buf.readUInt32LE(p) !== CENTRAL_HEADER) throw notXlsx('its table of contents is damaged');
+    const flags = buf.readUInt16LE(p + 8);
     const method = buf.readUInt16LE(p + 10);
+    const crc = buf.readUInt32LE(p + 16);
     const compressedSize = buf.readUInt32LE(p + 20);
     const uncompressedSize = buf.readUInt32LE(p + 24);
     const nameLength = buf.readUInt16LE(p + 28);
@@ -50,31 +75,72 @@ function readCentralDirectory(buf: Buffer): ZipEntry[] {
     const commentLength = buf.readUInt16LE(p + 32);
     const localOffset = buf.readUInt32LE(p + 42);
     const name = buf.toString('utf8', p + 46, p + 46 + nameLength);
-    if (localOffset + 30 > buf.length || buf.readUInt32LE(localOffset) !== 0x04034b50)
+    if (names.has(name)) throw damaged(`the part "${name}" appears twice`);
+    names.add(name);
+    if (flags & FLAG_ENCRYPTED) throw notXlsx('it is password-protected; remove the password and save it again');
+    if (method !== 0 && method !== 8) throw notXlsx(`the part "${name}" is compressed in a way Excel files never are`);
+    if (localOffset + 30 > buf.length || buf.readUInt32LE(localOffset) !== LOCAL_HEADER)
       throw notXlsx(`the part "${name}" is missing or damaged`);
     const dataStart = localOffset + 30 + buf.readUInt16LE(localOffset + 26) + buf.readUInt16LE(localOffset + 28);
     if (dataStart + compressedSize > buf.length)
       throw notXlsx(`it seems to be cut short (the part "${name}" runs past the end of the file)`);
-    entries.push({ name, method, compressedSize, uncompressedSize, dataStart });
+    entries.push({ name, method, flags, crc, compressedSize, uncompressedSize, localOffset, dataStart });
     p += 46 + nameLength + extraLength + commentLength;
   }
-  return entries;
+  return { entries, dirOffset };
 }
 
-function inflateEntry(buf: Buffer, entry: ZipEntry): Buffer {
-  const data = buf.subarray(entry.dataStart, entry.dataStart + entry.compressedSize);
-  if (entry.method === 0) return data;
-  if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
-  try {
-    return inflateRawSync(data, { maxOutputLength: MAX_ENTRY_BYTES });
-  } catch (error) {
-    if (error instanceof RangeError || (error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE') {
-      throw notXlsx(
-        `the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
+/**
+ * Walks the parts in the order they lie in the file, as the spreadsheet library reads them, and checks that
+ * they are exactly the parts of the table of contents: same names, methods and sizes, one after another
+ * with nothing between them. A part hidden from the table of contents (or one that disagrees with it)
+ * would otherwise be read without having been checked.
+ */
+function checkLocalHeaders(buf: Buffer, entries: ZipEntry[], dirOffset: number): void {
+  const byOffset = [...entries].sort((a, b) => a.localOffset - b.localOffset);
+  let p = 0;
+  for (const e of byOffset) {
+    if (e.localOffset !== p)
+      throw damaged(
+        p < e.localOffset
+          ? 'there is data the table of contents does not list'
+          : `the part "${e.name}" overlaps another`,
       );
+    const flags = buf.readUInt16LE(p + 6);
+    const method = buf.readUInt16LE(p + 8);
+    const nameLength = buf.readUInt16LE(p + 26);
+    const name = buf.toString('utf8', p + 30, p + 30 + nameLength);
+    if (name !== e.name || method !== e.method || (flags & FLAG_DATA_DESCRIPTOR) !== (e.flags & FLAG_DATA_DESCRIPTOR))
+      throw damaged(`the part "${e.name}" is described differently in two places`);
+    const localCompressed = buf.readUInt32LE(p + 18);
+    const localSizesMatch =
+      buf.readUInt32LE(p + 14) === e.crc &&
+      localCompressed === e.compressedSize &&
+      buf.readUInt32LE(p + 22) === e.uncompressedSize;
+    const data = buf.subarray(e.dataStart, e.dataStart + e.compressedSize);
+    p = e.dataStart + e.compressedSize;
+    if (flags & FLAG_DATA_DESCRIPTOR) {
+      // The sizes follow the data in a record that starts with its signature. A streaming reader that
+      // finds no size in the local header looks for that signature to end the part, so it may not
+      // appear inside the data; a size in the local header must agree with the table of contents.
+      if (localCompressed !== 0 && !localSizesMatch)
+        throw damaged(`the part "${e.name}" is described differently in two places`);
+      if (data.includes(DATA_DESCRIPTOR_SIGNATURE))
+        throw damaged(`the part "${e.name}" contains a marker that would cut it short`);
+      if (p + 16 > buf.length || buf.readUInt32LE(p) !== DATA_DESCRIPTOR)
+        throw damaged(`the part "${e.name}" has no size record after it`);
+      if (
+        buf.readUInt32LE(p + 4) !== e.crc ||
+        buf.readUInt32LE(p + 8) !== e.compressedSize ||
+        buf.readUInt32LE(p + 12) !== e.uncompressedSize
+      )
+        throw damaged(`the part "${e.name}" is described differently in two places`);
+      p += 16;
+    } else if (!localSizesMatch) {
+      throw damaged(`the part "${e.name}" is described differently in two places`);
     }
-    throw notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`);
   }
+  if (p !== dirOffset) throw damaged('there is data the table of contents does not list');
 }
 
 /** A merged range, 1-based rows and 0-based columns, as the sheet's XML lists it. */
@@ -98,85 +164,117 @@ function decodeRef(ref: string): { row: number; col: number } {
   return { row: Number(m[2]), col: col - 1 };
 }
 
-function parseMerges(xml: string, merges: MergedRange[]): void {
-  for (const m of xml.matchAll(/<mergeCell ref="([A-Z]+\d+):([A-Z]+\d+)"/g)) {
-    const a = decodeRef(m[1] ?? '');
-    const b = decodeRef(m[2] ?? '');
-    merges.push({ top: a.row, left: a.col, bottom: b.row, right: b.col });
-  }
+/** Bytes of unpacked text still allowed across the whole workbook. */
+interface Budget {
+  remaining: number;
 }
 
 /**
- * Unpacks a worksheet chunk by chunk (never whole, so memory stays flat), refusing it past
- * MAX_ENTRY_BYTES, and picks out its declared size and merged ranges on the way.
+ * Unpacks one part chunk by chunk (never whole, so memory stays flat), counting the bytes actually produced
+ * against the part's and the workbook's limits, and refusing XML that declares a document type or entities
+ * (Excel never writes them; they are how XML parsers are made to expand or fetch things). `onText` sees the
+ * unpacked text, chunk by chunk, as Latin-1.
  */
-async function sheetFacts(buf: Buffer, entry: ZipEntry): Promise<{ merges: MergedRange[]; lastRow: number | null }> {
+function unpack(buf: Buffer, entry: ZipEntry, budget: Budget, onText?: (text: string) => void): Promise<void> {
   const data = buf.subarray(entry.dataStart, entry.dataStart + entry.compressedSize);
+  const isXml = /\.(xml|rels|vml)$/i.test(entry.name);
+  let total = 0;
+  let carry = '';
+  const take = (chunk: Buffer): Error | null => {
+    total += chunk.length;
+    budget.remaining -= chunk.length;
+    if (total > MAX_ENTRY_BYTES) return tooBig(`the part "${entry.name}"`, MAX_ENTRY_BYTES);
+    if (budget.remaining < 0) return tooBig('the workbook as a whole', MAX_TOTAL_BYTES);
+    if (isXml || onText) {
+      const text = chunk.toString('latin1');
+      const window = carry + text.slice(0, 16);
+      if (isXml && (/<!DOCTYPE|<!ENTITY/.test(window) || /<!DOCTYPE|<!ENTITY/.test(text)))
+        return notXlsx(`the part "${entry.name}" declares XML entities or a document type, which Excel never writes`);
+      carry = text.slice(-16);
+      try {
+        onText?.(text);
+      } catch (error) {
+        // Refused by the caller (too many merged ranges): reject the promise, never throw from the stream.
+        return error instanceof Error ? error : new Error(String(error));
+      }
+    }
+    return null;
+  };
   if (entry.method === 0) {
-    const text = data.toString('utf8');
-    const merges: MergedRange[] = [];
-    parseMerges(text.slice(text.lastIndexOf('<mergeCells')), merges);
-    return {
-      merges,
-      lastRow: Number(/<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(text.slice(0, 4096))?.[1] ?? 0) || null,
-    };
+    const problem = take(data);
+    return problem ? Promise.reject(problem) : Promise.resolve();
   }
-  if (entry.method !== 8) throw notXlsx(`the part "${entry.name}" is compressed in a way Excel files never are`);
   return new Promise((resolve, reject) => {
     const inflate = createInflateRaw({ chunkSize: 1024 * 1024 });
-    let total = 0;
-    let head = '';
-    let tail = '';
-    let inMerges = false;
-    const merges: MergedRange[] = [];
-    let carry = Buffer.alloc(0);
+    let failed = false;
     inflate.on('data', (chunk: Buffer) => {
-      total += chunk.length;
-      if (total > MAX_ENTRY_BYTES) {
+      if (failed) return;
+      const problem = take(chunk);
+      if (problem) {
+        failed = true;
         inflate.destroy();
-        reject(
-          notXlsx(
-            `the part "${entry.name}" unpacks to more than ${MAX_ENTRY_BYTES / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
-          ),
-        );
-        return;
+        reject(problem);
       }
-      if (head.length < 4096) head += chunk.toString('latin1', 0, 4096);
-      // Only text from <mergeCells> on is decoded; the rows before it are counted, not read.
-      const bytes = carry.length ? Buffer.concat([carry, chunk]) : chunk;
-      if (!inMerges) {
-        const at = bytes.indexOf('<mergeCells');
-        if (at < 0) {
-          carry = Buffer.from(bytes.subarray(Math.max(0, bytes.length - 16)));
-          return;
-        }
-        inMerges = true;
-        tail = '';
-        carry = Buffer.alloc(0);
-        const text = bytes.toString('latin1', at);
-        const cut = text.lastIndexOf('>') + 1;
-        parseMerges(text.slice(0, cut), merges);
-        tail = text.slice(cut);
-        return;
-      }
-      const text = tail + chunk.toString('latin1');
-      const cut = text.lastIndexOf('>') + 1;
-      parseMerges(text.slice(0, cut), merges);
-      tail = text.slice(cut);
     });
-    inflate.on('error', () => reject(notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`)));
-    inflate.on('end', () => {
-      const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
-      resolve({ merges, lastRow: dim ? Number(dim[1]) : null });
+    inflate.on('error', () => {
+      if (!failed) reject(notXlsx(`the part "${entry.name}" is damaged and cannot be unpacked`));
     });
+    inflate.on('end', () => resolve());
     inflate.end(data);
   });
 }
 
+/** Reads a worksheet's declared size and merged ranges while it is unpacked, refusing too many of them. */
+async function sheetFacts(
+  buf: Buffer,
+  entry: ZipEntry,
+  budget: Budget,
+): Promise<{ merges: MergedRange[]; lastRow: number | null }> {
+  let head = '';
+  let tail = '';
+  let inMerges = false;
+  let mergedCells = 0;
+  const merges: MergedRange[] = [];
+  const tooManyMerges = () =>
+    badRequest(
+      `The sheet "${entry.name.replace(/^xl\/worksheets\//, '')}" has more merged cells than a room register needs (at most ${MAX_MERGED_RANGES.toLocaleString('en-GB')} merged ranges covering ${MAX_MERGED_CELLS.toLocaleString('en-GB')} cells). Unmerge the cells (select all, then Unmerge) and upload it again.`,
+    );
+  const parseMerges = (xml: string) => {
+    for (const m of xml.matchAll(/<mergeCell ref="([A-Z]+\d+):([A-Z]+\d+)"/g)) {
+      const a = decodeRef(m[1] ?? '');
+      const b = decodeRef(m[2] ?? '');
+      const range = { top: a.row, left: a.col, bottom: b.row, right: b.col };
+      mergedCells += Math.max(0, range.bottom - range.top + 1) * Math.max(0, range.right - range.left + 1);
+      merges.push(range);
+      if (merges.length > MAX_MERGED_RANGES || mergedCells > MAX_MERGED_CELLS) throw tooManyMerges();
+    }
+  };
+  await unpack(buf, entry, budget, (text) => {
+    if (head.length < 4096) head += text.slice(0, 4096);
+    // Only text from <mergeCells> on is examined; the rows before it are counted, not read.
+    if (!inMerges) {
+      const joined = tail + text;
+      const at = joined.indexOf('<mergeCells');
+      if (at < 0) {
+        tail = joined.slice(-16);
+        return;
+      }
+      inMerges = true;
+      tail = joined.slice(at);
+    } else tail += text;
+    const cut = tail.lastIndexOf('>') + 1;
+    parseMerges(tail.slice(0, cut));
+    tail = tail.slice(cut);
+  });
+  const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
+  return { merges, lastRow: dim ? Number(dim[1]) : null };
+}
+
 /**
- * Checks that an upload is a whole, sane .xlsx before the spreadsheet library sees it: a zip,
- * not cut short, every part unpacking within a sane size, and holding a workbook. Reads the
- * merged ranges on the way (the streaming reader does not report them).
+ * Checks that an upload is a whole, sane .xlsx before the spreadsheet library sees it: a zip, not cut
+ * short, whose parts lie in the file exactly as its table of contents says, every part unpacking within
+ * a sane size (counted while unpacking) and free of XML entity declarations, and holding a workbook.
+ * Reads the merged ranges on the way (the streaming reader does not report them).
  */
 export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
   if (buf.length >= 4 && buf.readUInt32BE(0) === 0xd0cf11e0) {
@@ -184,7 +282,7 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
       'This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.',
     );
   }
-  if (buf.length < 4 || buf.readUInt32LE(0) !== 0x04034b50) {
+  if (buf.length < 4 || buf.readUInt32LE(0) !== LOCAL_HEADER) {
     const looksLikeText = buf.length > 0 && !buf.subarray(0, 512).includes(0);
     throw notXlsx(
       looksLikeText
@@ -192,16 +290,19 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
         : 'it is not a zip-based .xlsx file (perhaps a PDF or a picture renamed)',
     );
   }
-  const entries = readCentralDirectory(buf);
+  const { entries, dirOffset } = readCentralDirectory(buf);
   if (!entries.some((e) => e.name === 'xl/workbook.xml')) {
     throw notXlsx(
       "it is a zip archive but holds no Excel workbook (perhaps a Word document or another program's file renamed)",
     );
   }
+  checkLocalHeaders(buf, entries, dirOffset);
+  const budget: Budget = { remaining: MAX_TOTAL_BYTES };
   const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
   for (const entry of entries) {
-    if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name)) sheets.set(entry.name, await sheetFacts(buf, entry));
-    else if (/\.(xml|rels)$/.test(entry.name)) inflateEntry(buf, entry);
+    if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name))
+      sheets.set(entry.name, await sheetFacts(buf, entry, budget));
+    else await unpack(buf, entry, budget);
   }
   return { sheets };
 }

@@ -1,6 +1,6 @@
 import { InviteSchema } from '../../../lib/server/auth/auth.schemas';
 import { requirePermission, requireVerifiedEmail } from '../../../lib/server/auth/guard';
-import { inviteMember, listMembers } from '../../../lib/server/auth/members.service';
+import { inviteMember, listMembers, membersAsSeenBy } from '../../../lib/server/auth/members.service';
 import { getDb } from '../../../lib/server/db/client';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
@@ -8,7 +8,7 @@ import { route } from '../../../lib/server/http/route';
 /** The trust's members and pending invitations. */
 export const GET = route(async ({ locals }) => {
   const trust = requirePermission(locals, 'members', 'read');
-  return json(await listMembers(getDb(), trust));
+  return json(membersAsSeenBy(await listMembers(getDb(), trust), trust));
 });
 
 /** Invites someone by e-mail with a role (the inviter's address must be confirmed). */

@@ -1,3 +1,4 @@
+import { actorOf } from '../../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../../lib/server/auth/guard';
 import { getDb } from '../../../../lib/server/db/client';
 import { IdParamSchema } from '../../../../lib/server/estate/estate.schemas';
@@ -8,5 +9,6 @@ import { getImport } from '../../../../lib/server/register/import.service';
 /** One import with its problems and outcome. */
 export const GET = route(async ({ locals, params }) => {
   const trust = requirePermission(locals, 'estate', 'read');
-  return json({ import: await getImport(getDb(), trust.id, IdParamSchema.parse(params.id)) });
+  const viewer = { trust, userId: actorOf(locals).actorUserId ?? '' };
+  return json({ import: await getImport(getDb(), viewer, IdParamSchema.parse(params.id)) });
 });

@@ -1,0 +1,113 @@
+// A member limited to one school sees no other school anywhere (issue 17, item 4): the answers that
+// used to leak, and every page of the app, searched for the other schools' ids and names.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { testDb } from '../helpers/db';
+import { bodyText, leaked, schoolLimitedFixture, type SchoolLimitedFixture } from '../helpers/school-limited';
+import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+
+const db = testDb();
+let f: SchoolLimitedFixture;
+let admin = '';
+beforeAll(async () => {
+  f = await schoolLimitedFixture(db);
+  admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+}, 300_000);
+afterAll(async () => {
+  await f?.cleanup();
+  await db.destroy();
+});
+
+type RunView = { id: string; scope: string; schoolId: string | null; problems: { roomId: string }[] };
+
+describe('a member limited to one school', () => {
+  it("gets 404 for the trust admin's import, whose missing rooms span every school", async () => {
+    const asAdmin = (await (await api(`/api/imports/${f.foreignImportId}`, { cookie: admin })).json()) as {
+      import: { missingRooms: { schoolName: string }[] };
+    };
+    // The fixture is what it says: rooms of several schools are listed as missing.
+    expect(new Set(asAdmin.import.missingRooms.map((m) => m.schoolName)).size).toBeGreaterThan(1);
+    expect((await api(`/api/imports/${f.foreignImportId}`, { cookie: f.cookie })).status).toBe(404);
+    const list = await api('/api/imports', { cookie: f.cookie });
+    expect(((await list.json()) as { imports: { id: string }[] }).imports.map((i) => i.id)).not.toContain(
+      f.foreignImportId,
+    );
+  });
+
+  it('sees only their own school among the missing rooms of their own import', async () => {
+    const school = await db
+      .selectFrom('schools')
+      .select('name')
+      .where('id', '=', f.allowedSchoolId)
+      .executeTakeFirstOrThrow();
+    const form = new FormData();
+    const csv = `School,School phase,Room code,Floor area (m2),Ceiling height (m),Pupils\n${school.name},Primary,ONLY-ONE,50,2.7,30\n`;
+    form.append('file', new Blob([csv]), 'my school.csv');
+    const preview = await api('/api/imports', { method: 'POST', cookie: f.cookie, body: form });
+    expect(preview.status).toBe(201);
+    const { id } = (await preview.json()) as { id: string };
+    const detail = await api(`/api/imports/${id}`, { cookie: f.cookie });
+    const text = await detail.text();
+    expect(leaked(text, f.forbidden)).toEqual([]);
+    const { import: mine } = JSON.parse(text) as { import: { missingRooms: { schoolName: string }[] } };
+    expect(mine.missingRooms.length).toBeGreaterThan(0);
+    expect(new Set(mine.missingRooms.map((m) => m.schoolName))).toEqual(new Set([school.name]));
+    await api(`/api/imports/${id}/commit`, {
+      method: 'POST',
+      cookie: f.cookie,
+      body: JSON.stringify({ rows: 'none' }),
+    });
+  });
+
+  it("sees no run of another school, and no problem naming another school's room", async () => {
+    const asAdmin = (await (await api(`/api/assessments/${f.trustRunId}`, { cookie: admin })).json()) as RunView;
+    const otherRooms = new Set(f.forbidden);
+    // The fixture's trust-wide run has a problem naming a room of the other school.
+    expect(asAdmin.problems.some((p) => otherRooms.has(p.roomId))).toBe(true);
+    const mine = await api(`/api/assessments/${f.trustRunId}`, { cookie: f.cookie });
+    expect(mine.status).toBe(200);
+    expect(leaked(await mine.text(), f.forbidden)).toEqual([]);
+    expect((await api(`/api/assessments/${f.otherSchoolRunId}`, { cookie: f.cookie })).status).toBe(404);
+    const { runs } = (await (await api('/api/assessments?limit=50', { cookie: f.cookie })).json()) as {
+      runs: RunView[];
+    };
+    expect(runs.map((r) => r.id)).toContain(f.trustRunId);
+    expect(runs.map((r) => r.id)).not.toContain(f.otherSchoolRunId);
+    expect(runs.every((r) => r.schoolId === null || r.schoolId === f.allowedSchoolId)).toBe(true);
+  });
+
+  it.each([
+    ['/app'],
+    ['/app/schools'],
+    ['/app/register'],
+    ['/app/assessments'],
+    ['/app/priorities'],
+    ['/app/finance'],
+    ['/app/settings'],
+    ['/app/settings/members'],
+    ['/app/settings/assumptions'],
+    ['/app/account'],
+  ])('sees no other school on the page %s', async (path) => {
+    const page = await api(path, { cookie: f.cookie });
+    expect(page.status).toBe(200);
+    expect(leaked(await bodyText(page), f.forbidden)).toEqual([]);
+  });
+
+  it("gets no page for another school or another school's room", async () => {
+    for (const [path, id] of [
+      [`/app/schools/${f.otherSchoolId}`, f.otherSchoolId],
+      [`/app/rooms/${f.otherRoomId}`, f.otherRoomId],
+    ] as const) {
+      const page = await api(path, { cookie: f.cookie });
+      expect(page.status, path).toBe(404);
+      // The page may repeat the address asked for; it says nothing else about the other school.
+      expect(
+        leaked(
+          await bodyText(page),
+          f.forbidden.filter((x) => x !== id),
+        ),
+      ).toEqual([]);
+    }
+    // The trust admin does get them (the ids are real).
+    expect((await api(`/app/schools/${f.otherSchoolId}`, { cookie: admin })).status).toBe(200);
+  });
+});
