@@ -82,7 +82,9 @@ export async function schoolLimitedFixture(db: Kysely<Database>): Promise<School
     201,
   );
 
-  // A room the engine cannot assess (floor area beyond its 2,000 m² range; the register allows 5,000).
+  // A room the engine cannot assess. The register and the engine share one set of limits (limits.ts), so no
+  // stored register value can be refused; the room gets a stored calibration with a negative infiltration flow,
+  // which the engine's calibration check refuses (EngineInputError naming the field).
   const otherRoom = await db
     .selectFrom('rooms')
     .selectAll()
@@ -95,7 +97,7 @@ export async function schoolLimitedFixture(db: Kysely<Database>): Promise<School
       school_id: other.id,
       block_id: otherRoom.block_id,
       code: `LEAK-${email.slice(11, 19)}`,
-      name: 'Sports hall beyond the engine range',
+      name: 'Sports hall with a corrupt calibration',
       use: 'classroom',
       floor_area_m2: 3000,
       ceiling_height_m: 6,
@@ -108,6 +110,20 @@ export async function schoolLimitedFixture(db: Kysely<Database>): Promise<School
     })
     .returning('id')
     .executeTakeFirstOrThrow();
+  await db
+    .insertInto('room_calibrations')
+    .values({
+      trust_id: 'demo-trust',
+      room_id: problemRoomId,
+      version: 1,
+      status: 'active',
+      days_used: 10,
+      label: 'calibrated from 10 days of readings (version 1)',
+      calibration: JSON.stringify({ windowUseFactor: {}, infiltrationLps: -1, label: 'calibrated (corrupt)' }),
+      fit: JSON.stringify({}),
+      assumptions_version: 'test',
+    })
+    .execute();
 
   // One new room per school: the preview lists every existing room of every school as missing.
   const lines = ['School,School phase,Room code,Floor area (m2),Ceiling height (m),Pupils'];

@@ -83,7 +83,8 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
         CASE WHEN v.units > 0 THEN 'same_air_without_recovery' END, CASE WHEN v.units > 0 THEN 'saves_slowly' END,
         v.saving * 14, -v.saving * 2, -60.0 * v.units, 0, v.pupil_hours * 0.8, 'gas', 0.07, 0.85, 'trust', 'trust',
         jsonb_build_object('appraisal', CASE WHEN v.units > 0 THEN jsonb_build_object(
-          'units', jsonb_build_array(jsonb_build_object('modelId', 'wall-150', 'modelName', 'Wall unit 150', 'count', v.units))) END)
+          'units', jsonb_build_array(jsonb_build_object('modelId', 'wall-150', 'modelName', 'Wall unit 150', 'count', v.units)),
+          'unitCount', v.units, 'capitalCostGbp', v.capital, 'lifeYears', 15) END)
       FROM (
         SELECT r.id AS room_id, r.school_id, r.block_id, r.ventilation_type, r.pupils, r.code,
           700 + floor(random() * 1800) AS mean, 1 + floor(random() * 4)::int AS band, random() AS risk,

@@ -92,7 +92,7 @@ describe('capital programme API', () => {
       label: 'Programme API',
     });
     // The fixture's results carry no pupil-hours removed: give each retrofit 80 % of the room's exposure.
-    await sql`UPDATE room_results SET detail = jsonb_set(detail, '{retrofit,pupilHoursRemovedPerYear}', to_jsonb(pupil_hours_above * 0.8))
+    await sql`UPDATE room_results SET pupil_hours_removed = pupil_hours_above * 0.8
       WHERE trust_id = ${admin.trustId} AND unit_count > 0`.execute(db);
     const rows = await db
       .selectFrom('room_results')
