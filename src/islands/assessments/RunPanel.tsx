@@ -8,6 +8,7 @@ import {
   useStartRun,
   type RunStatusView,
 } from '../../lib/client/assessments';
+import { formatDateTime, formatDecimals, formatInteger } from '../../lib/format';
 
 interface Props {
   canRun: boolean;
@@ -23,11 +24,10 @@ const STATUS_WORDS: Record<RunStatusView['status'], string> = {
   succeeded: 'Finished',
   failed: 'Failed',
 };
-const when = (iso: string | null) =>
-  iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—';
+const when = (iso: string | null) => formatDateTime(iso);
 const seconds = (run: RunStatusView) =>
   run.startedAt && run.finishedAt
-    ? `${((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000).toFixed(1)} s`
+    ? `${formatDecimals((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000, 1, 1)} s`
     : '—';
 
 function Progress({ id, onDone }: { id: string; onDone: () => void }) {
@@ -53,7 +53,7 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
           {data.scope === 'school' && data.schoolName ? ` · ${data.schoolName}` : ' · whole trust'}
         </span>
         <span>
-          {data.roomsDone.toLocaleString('en-GB')} of {data.roomsTotal.toLocaleString('en-GB')} rooms
+          {formatInteger(data.roomsDone)} of {formatInteger(data.roomsTotal)} rooms
         </span>
       </div>
       <div
@@ -188,7 +188,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
                     {r.status === 'failed' && r.error ? `: ${r.error}` : ''}
                   </td>
                   <td className="pr-4 text-right">
-                    {r.roomsDone.toLocaleString('en-GB')} / {r.roomsTotal.toLocaleString('en-GB')}
+                    {formatInteger(r.roomsDone)} / {formatInteger(r.roomsTotal)}
                   </td>
                   <td className="pr-4 text-right">{seconds(r)}</td>
                   <td className="pr-4">{r.assumptionsVersion ?? '—'}</td>

@@ -15,7 +15,7 @@ import {
   type LogOutcome,
   type LogView,
 } from '../../lib/client/monitoring';
-import { formatCount } from '../../lib/format';
+import { formatCount, formatDate, formatDateTime } from '../../lib/format';
 
 export interface RoomChoice {
   id: string;
@@ -52,7 +52,7 @@ const MATCH_WORDS: Record<string, string> = {
   skipped: 'left out',
 };
 
-const day = (iso: string | null) => (iso ? iso.slice(0, 10) : '—');
+const day = (iso: string | null) => formatDate(iso);
 
 function ProgressBar({ label, fraction }: { label: string; fraction: number | null }) {
   return (
@@ -404,7 +404,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
           ) : (
             <p className="mt-1 text-sm" role="status">
               {run.status === 'succeeded'
-                ? `Last analysed ${run.finishedAt?.slice(0, 16).replace('T', ' ')} UTC (${formatCount(run.roomsTotal, 'room')}). Run a new assessment to bring the readings into the ranking.`
+                ? `Last analysed ${formatDateTime(run.finishedAt)} (${formatCount(run.roomsTotal, 'room')}). Run a new assessment to bring the readings into the ranking.`
                 : `The last analysis failed: ${run.error}`}
             </p>
           )}

@@ -32,13 +32,17 @@ export const UNIT_MODEL_FIELD_KIND: Record<keyof UnitModel, AssumptionKind | 'id
   soundDbA: 'technical',
 };
 
+const isRecord = (x: unknown): x is Record<string, unknown> =>
+  typeof x === 'object' && x !== null && !Array.isArray(x);
+
 function isAssumed(x: unknown): x is Assumed<unknown> {
   return typeof x === 'object' && x !== null && 'value' in x && 'status' in x && 'kind' in x && 'source' in x;
 }
 
 /**
- * A set stored by an earlier engine version may lack assumptions added since. This returns the set with every
- * missing assumption (or group) taken from `defaults`, and the paths it filled. Values present are kept as they are.
+ * A set stored by an earlier engine version may lack assumptions added since, or keep ones the engine no longer
+ * reads. This returns the set with every missing assumption (or group) taken from `defaults` and every assumption
+ * the defaults no longer have left out, and the paths it filled. Values present are kept as they are.
  */
 export function completeAssumptionSet(
   set: AssumptionSet,
@@ -51,6 +55,12 @@ export function completeAssumptionSet(
     path: string,
   ): Record<string, unknown> => {
     let out = node;
+    for (const [key, here] of Object.entries(node)) {
+      if (!(key in base) && (isAssumed(here) || path === '') && key !== 'version' && key !== 'dated') {
+        if (out === node) out = { ...node };
+        delete out[key];
+      }
+    }
     for (const [key, baseValue] of Object.entries(base)) {
       const here = node[key];
       const childPath = path ? `${path}.${key}` : key;
@@ -58,6 +68,18 @@ export function completeAssumptionSet(
         if (out === node) out = { ...node };
         out[key] = structuredClone(baseValue);
         filled.push(childPath);
+      } else if (isAssumed(baseValue) && isAssumed(here) && isRecord(baseValue.value) && isRecord(here.value)) {
+        // A table keyed by a vocabulary (e.g. activity by room use) gains the rows added to the vocabulary since.
+        const missing = Object.keys(baseValue.value).filter((k) => !(k in (here.value as Record<string, unknown>)));
+        if (missing.length > 0) {
+          if (out === node) out = { ...node };
+          const value = { ...(here.value as Record<string, unknown>) };
+          for (const k of missing) {
+            value[k] = structuredClone((baseValue.value as Record<string, unknown>)[k]);
+            filled.push(`${childPath}.${k}`);
+          }
+          out[key] = { ...here, value };
+        }
       } else if (
         !isAssumed(baseValue) &&
         typeof baseValue === 'object' &&
@@ -222,10 +244,7 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     if (p.maxMinutesCap !== null) r(`criteria.packs.${p.id}.maxMinutesCap`, p.maxMinutesCap, 0, 1440);
   }
   r('criteria.newBuildFromYear', set.criteria.newBuildFromYear.value, 1900, 2100);
-  const bands = set.risk.bandUpperPupilHours.value;
-  r('risk.bandUpperPupilHours.0', bands[0], 0, 1e9);
-  r('risk.bandUpperPupilHours.1', bands[1], bands[0], 1e9);
-  r('risk.bandUpperPupilHours.2', bands[2], bands[1], 1e9);
+  r('risk.farOverShare', set.risk.farOverShare.value, 0.01, 2);
   r('risk.scoreHalfPupilHours', set.risk.scoreHalfPupilHours.value, 1, 1e9);
   r('energy.heatingIndoorTempC', set.energy.heatingIndoorTempC.value, 10, 30);
   r('energy.heatingCutoffTempC', set.energy.heatingCutoffTempC.value, 0, 30);

@@ -8,7 +8,7 @@ const row = (roomId: string, riskScore: number, ce: number | null, payback: numb
   roomCode: roomId,
   pupils: 30,
   riskScore,
-  riskBand: 'stale',
+  riskBand: 'over',
   pupilHoursPerYearAbove: riskScore * 10000,
   thresholdPpm: 1500,
   criteriaMet: false,

@@ -131,7 +131,7 @@ export async function readCandidates(
         schoolId: r.school_id,
         schoolName: r.school_name,
         reason: r.units_recommended
-          ? `Fails its criterion, but no unit fits: ${r.units_recommended}.`
+          ? `Fails its criterion, but gets no units: ${r.units_recommended.replace(/^None: /, '')}.`
           : 'Fails its criterion, but the appraisal recommends no units for it.',
       });
     }
