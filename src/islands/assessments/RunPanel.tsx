@@ -9,6 +9,7 @@ import {
   type RunStatusView,
 } from '../../lib/client/assessments';
 import { formatDateTime, formatDecimals, formatInteger } from '../../lib/format';
+import { useHydrated } from '../use-hydrated';
 
 interface Props {
   canRun: boolean;
@@ -101,6 +102,7 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
 }
 
 function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
+  const hydrated = useHydrated();
   const client = useQueryClient();
   const runs = useRuns(initialRuns);
   const start = useStartRun();
@@ -137,7 +139,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
           </label>
           <button
             type="submit"
-            disabled={start.isPending}
+            disabled={!hydrated || start.isPending}
             className="rounded-control bg-brand px-4 py-2 text-sm font-semibold text-white disabled:opacity-60"
           >
             Run assessment
