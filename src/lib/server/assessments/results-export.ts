@@ -305,7 +305,7 @@ async function writeNotes(
 
 /** The status tags as people read them. */
 export const STATUS_WORDS = {
-  confirmed: 'confirmed',
+  confirmed: 'published source',
   secondary: 'secondary source',
   from_memory: 'from memory',
   common_practice: 'common practice',
