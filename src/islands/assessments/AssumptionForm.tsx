@@ -86,6 +86,16 @@ const KEY_WORDS: Record<string, string> = {
   summer: 'Summer',
 };
 const MET_STEPS = ['1.0', '1.2', '1.4', '1.6', '2.0', '3.0', '4.0'];
+/** Rows and columns in the order people expect (stored tables come back from the database in any key order). */
+const ORDER = [...Object.keys(KEY_WORDS), 'winter', 'mid', 'summer'];
+const byOrder = (a: string, b: string) => {
+  const rank = (k: string) => {
+    const last = k.split('.')[0]!;
+    const i = ORDER.indexOf(last);
+    return i < 0 ? ORDER.length : i;
+  };
+  return rank(a) - rank(b);
+};
 
 function keyWords(key: string, parent?: string): string {
   if (parent === 'monthlyMeanTempC' || parent === 'dailyRangeK' || parent === 'dayToDaySdK')
@@ -326,7 +336,7 @@ function Layout({
       <div className={monthly ? 'overflow-x-auto' : ''}>
         <table className="text-sm">
           <tbody className={monthly ? 'flex' : ''}>
-            {cells.map((c) => {
+            {[...cells].sort((a, b) => byOrder(a.rel, b.rel)).map((c) => {
               const words = keyWords(c.rel, entry.path.split('.').pop());
               return monthly ? (
                 <tr key={c.full} className="flex flex-col pr-1">
@@ -350,8 +360,8 @@ function Layout({
     );
   }
   // A grid: the first part of each path is the row, the rest the column.
-  const rowKeys = [...new Set(cells.map((c) => c.rel.split('.')[0]!))];
-  const columns = [...new Set(cells.map((c) => c.rel.split('.').slice(1).join('.')))];
+  const rowKeys = [...new Set(cells.map((c) => c.rel.split('.')[0]!))].sort(byOrder);
+  const columns = [...new Set(cells.map((c) => c.rel.split('.').slice(1).join('.')))].sort(byOrder);
   const byRel = new Map(cells.map((c) => [c.rel, c]));
   const columnWords = (col: string) => {
     const parts = col.split('.');
@@ -517,7 +527,7 @@ function Form({ groups, editorWords, anyEditable }: Props) {
 
       {anyEditable && (
         <section
-          className="sticky bottom-0 z-10 mt-6 rounded-card border border-brand bg-surface p-4 shadow-lg"
+          className={`${changes.length > 0 || errors.size > 0 ? 'sticky bottom-0 z-10 shadow-lg' : ''} mt-6 rounded-card border border-brand bg-surface p-4`}
           aria-labelledby="preview-heading"
           data-testid="assumption-preview"
         >

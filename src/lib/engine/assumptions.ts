@@ -529,7 +529,7 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     headlineBaseline: a(
       'same_air_without_recovery',
       '-',
-      'Baseline of the headline figures (today | same_air_without_recovery | simpler_option)',
+      'Baseline of the headline figures',
       'The value of heat recovery itself: the same air without it. Every baseline is shown on the room page and in exports; choose which one the totals and payback ranking use',
       'common_practice',
       F,
@@ -660,7 +660,7 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     operation: a(
       { summerMode: 'bypass', extraRunHoursPerDay: 1 },
       'table',
-      'How units run: summer mode (bypass | off) and extra hours a school day',
+      'How units run: in summer, and extra hours a school day',
       'Units run through the school day plus a purge before and after; in summer the recovery is bypassed (or the units are off and windows used)',
       'common_practice',
       T,
