@@ -246,8 +246,7 @@ function Input({
 }) {
   const id = `a-${cell.full.replace(/[^a-zA-Z0-9]/g, '-')}`;
   const unit = cell.kind === 'number' ? displayUnit(cell.limit?.display, entry.unit) : '';
-  const hint =
-    cell.kind === 'number' && cell.limit ? `Allowed ${rangeInWords(cell.limit, entry.unit)}` : undefined;
+  const hint = cell.kind === 'number' && cell.limit ? `Allowed ${rangeInWords(cell.limit, entry.unit)}` : undefined;
   if (cell.kind === 'choice')
     return (
       <select
@@ -336,24 +335,26 @@ function Layout({
       <div className={monthly ? 'overflow-x-auto' : ''}>
         <table className="text-sm">
           <tbody className={monthly ? 'flex' : ''}>
-            {[...cells].sort((a, b) => byOrder(a.rel, b.rel)).map((c) => {
-              const words = keyWords(c.rel, entry.path.split('.').pop());
-              return monthly ? (
-                <tr key={c.full} className="flex flex-col pr-1">
-                  <th scope="col" className="px-1 text-left text-xs font-normal text-ink-muted">
-                    {MONTH_NAMES[Number(c.rel)]}
-                  </th>
-                  <td className="px-1">{render(c, `${entry.label}, ${words}`)}</td>
-                </tr>
-              ) : (
-                <tr key={c.full} className="border-b border-line last:border-0">
-                  <th scope="row" className="py-1 pr-4 text-left font-normal">
-                    {words}
-                  </th>
-                  <td className="py-1">{render(c, `${entry.label}, ${words}`)}</td>
-                </tr>
-              );
-            })}
+            {[...cells]
+              .sort((a, b) => byOrder(a.rel, b.rel))
+              .map((c) => {
+                const words = keyWords(c.rel, entry.path.split('.').pop());
+                return monthly ? (
+                  <tr key={c.full} className="flex flex-col pr-1">
+                    <th scope="col" className="px-1 text-left text-xs font-normal text-ink-muted">
+                      {MONTH_NAMES[Number(c.rel)]}
+                    </th>
+                    <td className="px-1">{render(c, `${entry.label}, ${words}`)}</td>
+                  </tr>
+                ) : (
+                  <tr key={c.full} className="border-b border-line last:border-0">
+                    <th scope="row" className="py-1 pr-4 text-left font-normal">
+                      {words}
+                    </th>
+                    <td className="py-1">{render(c, `${entry.label}, ${words}`)}</td>
+                  </tr>
+                );
+              })}
           </tbody>
         </table>
       </div>
@@ -548,8 +549,8 @@ function Form({ groups, editorWords, anyEditable }: Props) {
           )}
           {errors.size > 0 && (
             <p role="alert" className="mt-2 text-sm text-danger">
-              {errors.size === 1 ? 'One value needs' : `${errors.size} values need`} correcting before saving (marked
-              in red).
+              {errors.size === 1 ? 'One value needs' : `${errors.size} values need`} correcting before saving (marked in
+              red).
             </p>
           )}
           {changes.length > 0 && (

@@ -105,11 +105,7 @@ function UnitsCell({ row }: { row: PriorityRow }) {
       </span>
     );
   if (row.unitCount > 0) return <span className="text-xs">{row.unitsRecommended}</span>;
-  return (
-    <span className="text-xs text-ink-muted">
-      {row.unitsRecommended || 'None: see the room page for why'}
-    </span>
-  );
+  return <span className="text-xs text-ink-muted">{row.unitsRecommended || 'None: see the room page for why'}</span>;
 }
 
 function Priorities(props: PrioritiesProps) {

@@ -3,15 +3,7 @@
  * engine's check of a set (validateAssumptionSet), the API's 400 messages and the assumptions form all read this
  * table. Paths are dotted; `*` stands for any key of a table or index of a list (e.g. 'seasons.*.schoolDays').
  */
-import {
-  AGE_GROUPS,
-  BASELINES,
-  label,
-  ROOM_USES,
-  SUMMER_MODES,
-  VENTILATION_TYPES,
-  WINDOW_TYPES,
-} from './vocabulary';
+import { AGE_GROUPS, BASELINES, label, ROOM_USES, SUMMER_MODES, VENTILATION_TYPES, WINDOW_TYPES } from './vocabulary';
 
 /** How a stored value is shown and typed: as stored, a share as %, £/kWh as p/kWh, minutes as hh:mm, months by name. */
 export type DisplayUnit = 'as_stored' | 'percent' | 'pence' | 'clock' | 'months';
@@ -252,8 +244,7 @@ export function checkTyped(text: string, limit: AssumptionLimit, storedUnit: str
       : limit.display === 'months'
         ? 'Enter a month such as Sep.'
         : 'Enter a number.';
-  if (value < limit.min - 1e-12 || value > limit.max + 1e-12)
-    return `Must be ${rangeInWords(limit, storedUnit)}.`;
+  if (value < limit.min - 1e-12 || value > limit.max + 1e-12) return `Must be ${rangeInWords(limit, storedUnit)}.`;
   if (limit.integer && !Number.isInteger(Math.round(value * 1e9) / 1e9)) return 'Must be a whole number.';
   return null;
 }

@@ -33,8 +33,7 @@ export const UNIT_MODEL_FIELD_KIND: Record<keyof UnitModel, AssumptionKind | 'id
   soundDbA: 'technical',
 };
 
-const isRecord = (x: unknown): x is Record<string, unknown> =>
-  typeof x === 'object' && x !== null && !Array.isArray(x);
+const isRecord = (x: unknown): x is Record<string, unknown> => typeof x === 'object' && x !== null && !Array.isArray(x);
 
 function isAssumed(x: unknown): x is Assumed<unknown> {
   return typeof x === 'object' && x !== null && 'value' in x && 'status' in x && 'kind' in x && 'source' in x;
@@ -186,7 +185,8 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     const limit = assumptionLimit(path);
     if (limit && value !== null) {
       requireRange(`assumptions.${path}`, value as number, limit.min, limit.max);
-      if (limit.integer && !Number.isInteger(value)) throw new EngineInputError(`assumptions.${path}`, 'must be a whole number');
+      if (limit.integer && !Number.isInteger(value))
+        throw new EngineInputError(`assumptions.${path}`, 'must be a whole number');
       continue;
     }
     const choices = assumptionChoices(path);
@@ -217,7 +217,8 @@ export function validateAssumptionSet(set: AssumptionSet): void {
     }
   });
   for (const [season, s] of Object.entries(set.seasons.value))
-    if (s.months.length === 0) throw new EngineInputError(`assumptions.seasons.${season}.months`, 'needs at least one month');
+    if (s.months.length === 0)
+      throw new EngineInputError(`assumptions.seasons.${season}.months`, 'needs at least one month');
   const twelve = (path: string, values: readonly number[]) => {
     if (values.length !== 12) throw new EngineInputError(`assumptions.${path}`, 'needs twelve months');
   };
@@ -230,5 +231,8 @@ export function validateAssumptionSet(set: AssumptionSet): void {
       throw new EngineInputError(`assumptions.mechanical.existingSystems.${type}`, 'is missing');
   for (const [i, p] of set.criteria.packs.value.entries())
     if (p.maxLimitPpm !== null && p.maxLimitPpm < p.meanLimitPpm)
-      throw new EngineInputError(`assumptions.criteria.packs.${i}.maxLimitPpm`, 'must not be below the daily-mean limit');
+      throw new EngineInputError(
+        `assumptions.criteria.packs.${i}.maxLimitPpm`,
+        'must not be below the daily-mean limit',
+      );
 }

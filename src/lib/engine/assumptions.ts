@@ -101,7 +101,17 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
       T,
     ),
     teachingUses: a(
-      ['classroom', 'science_lab', 'practical', 'ict_room', 'music_room', 'library', 'sen_room', 'group_room', 'studio'],
+      [
+        'classroom',
+        'science_lab',
+        'practical',
+        'ict_room',
+        'music_room',
+        'library',
+        'sen_room',
+        'group_room',
+        'studio',
+      ],
       'list',
       'Room uses judged against the CO2 criteria',
       'BB101 (2018) sets its CO2 criteria for teaching and learning spaces: classrooms, labs and practical rooms, ICT and music rooms, libraries used for lessons, SEN and small group rooms, and studios used for drama or dance lessons (from memory). Halls, sports halls, dining rooms, offices and staff rooms are large-volume or non-teaching spaces outside those figures',

@@ -20,7 +20,8 @@ export const RISK_BAND_LABELS: Record<RiskBand, string> = {
 
 /** The rule of each band in one sentence, for hover text, the room page and the exports. */
 export const RISK_BAND_RULES: Record<RiskBand, string> = {
-  meets: 'In every season the daily mean CO2 stays within the criterion and any peak above its maximum is shorter than allowed.',
+  meets:
+    'In every season the daily mean CO2 stays within the criterion and any peak above its maximum is shorter than allowed.',
   peaks_over:
     'The daily mean stays within the criterion in every season, but CO2 stays above the criterion’s maximum for longer than allowed in a row.',
   over: 'In at least one season the daily mean CO2 is above the criterion’s limit, by less than the far-over margin.',

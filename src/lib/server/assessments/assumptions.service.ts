@@ -99,7 +99,12 @@ function requireKind(trust: ActiveTrust, kind: 'technical' | 'financial', what: 
 function assumptionProblemWords(set: AssumptionSet, path: string, reason: string): string {
   const entry = listAssumptions(set).find((e) => path === e.path || path.startsWith(`${e.path}.`));
   if (!entry) return `An assumption ${reason}.`;
-  const where = path.slice(entry.path.length + 1).split('.').filter(Boolean).map((p) => label(p)).join(', ');
+  const where = path
+    .slice(entry.path.length + 1)
+    .split('.')
+    .filter(Boolean)
+    .map((p) => label(p))
+    .join(', ');
   const limit = assumptionLimit(path);
   const rule = limit ? `must be ${rangeInWords(limit, entry.unit)}` : reason;
   return `${entry.label}${where ? ` (${where})` : ''} ${rule}.`;
