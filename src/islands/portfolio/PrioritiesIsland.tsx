@@ -361,7 +361,7 @@ function Priorities(props: PrioritiesProps) {
               <option value="">All bands</option>
               {props.bandLabels.map((b) => (
                 <option key={b.value} value={b.value}>
-                  {b.value} {b.label}
+                  {b.label}
                 </option>
               ))}
             </select>
