@@ -19,8 +19,7 @@ const BEFORE = [
 ];
 const ADDED = ['sen_room', 'group_room', 'studio', 'dining_room'];
 
-const inList = (values: readonly string[]) =>
-  sql.raw(`use IN (${values.map((v) => `'${v}'`).join(', ')})`);
+const inList = (values: readonly string[]) => sql.raw(`use IN (${values.map((v) => `'${v}'`).join(', ')})`);
 
 export async function up(db: Kysely<any>): Promise<void> {
   await db.schema.alterTable('rooms').dropConstraint('rooms_use_known').execute();
@@ -32,11 +31,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 export async function down(db: Kysely<any>): Promise<void> {
   // The earlier list has no code for the added uses: such rooms become 'other' so the old check holds.
-  await db
-    .updateTable('rooms')
-    .set({ use: 'other' })
-    .where('use', 'in', ADDED)
-    .execute();
+  await db.updateTable('rooms').set({ use: 'other' }).where('use', 'in', ADDED).execute();
   await db.schema.alterTable('rooms').dropConstraint('rooms_use_known').execute();
   await db.schema.alterTable('rooms').addCheckConstraint('rooms_use_known', inList(BEFORE)).execute();
 }

@@ -158,7 +158,7 @@ function cellsOf(entry: FormEntry): Cell[] {
         out.push({ full, rel, kind: 'uses', limit: null, choices: assumptionChoices(`${full}.0`) });
         return;
       }
-      node.forEach((item, i) => walk(item, rel ? `${rel}.${i}` : String(i)));
+      for (const [i, item] of node.entries()) walk(item, rel ? `${rel}.${i}` : String(i));
       return;
     }
     if (isObj(node)) for (const [k, v] of Object.entries(node)) walk(v, rel ? `${rel}.${k}` : k);
@@ -369,7 +369,7 @@ function Layout({
     return keyWords(parts[parts.length - 1]!, parts[parts.length - 2]);
   };
   return (
-    <div className="overflow-x-auto" role="region" aria-label={entry.label} tabIndex={0}>
+    <section className="overflow-x-auto" aria-label={entry.label} tabIndex={0}>
       <table className="text-sm">
         <thead>
           <tr className="border-b border-line text-left text-ink-muted">
@@ -404,7 +404,7 @@ function Layout({
           })}
         </tbody>
       </table>
-    </div>
+    </section>
   );
 }
 

@@ -167,7 +167,7 @@ export function assumptionLeaves(set: AssumptionSet): [path: string, value: unkn
       out.push([path, node]);
       return;
     }
-    if (Array.isArray(node)) node.forEach((item, i) => walk(item, `${path}.${i}`));
+    if (Array.isArray(node)) for (const [i, item] of node.entries()) walk(item, `${path}.${i}`);
     else if (typeof node === 'object') for (const [k, v] of Object.entries(node)) walk(v, `${path}.${k}`);
   };
   for (const entry of listAssumptions(set)) walk(entry.value, entry.path);

@@ -143,7 +143,12 @@ describe('the one declaration of assumption ranges', () => {
   });
 
   it('refuses a value outside its declared range through the engine check, naming the path', () => {
-    const bad = withAssumptionValue(DEFAULT_ASSUMPTIONS, 'finance.fuelPricesGbpPerKwh', { ...DEFAULT_ASSUMPTIONS.finance.fuelPricesGbpPerKwh.value, gas: 3 }, 'x');
+    const bad = withAssumptionValue(
+      DEFAULT_ASSUMPTIONS,
+      'finance.fuelPricesGbpPerKwh',
+      { ...DEFAULT_ASSUMPTIONS.finance.fuelPricesGbpPerKwh.value, gas: 3 },
+      'x',
+    );
     expect(() => validateAssumptionSet(bad)).toThrow(/finance\.fuelPricesGbpPerKwh\.gas/);
   });
 });

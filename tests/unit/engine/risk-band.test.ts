@@ -53,13 +53,14 @@ describe('the band rule: how far and how long above the criterion', () => {
   });
 
   it('stores bands as 1 (meets) … 4 (far over) and reads them back', () => {
-    for (const b of ['meets', 'peaks_over', 'over', 'far_over'] as const) expect(riskBandOfNumber(riskBandNumber(b))).toBe(b);
+    for (const b of ['meets', 'peaks_over', 'over', 'far_over'] as const)
+      expect(riskBandOfNumber(riskBandNumber(b))).toBe(b);
     expect(riskBandNumber('far_over')).toBe(4);
   });
 
   it('has no maximum test when the criterion has none (EN 16798-1 categories): a long run alone is not a band', () => {
-    expect(criterionBand({ meanLimitPpm: 1200, maxMinutesCap: null, farOverShare: 0.25, seasons: [season(1100, 0)] })).toBe(
-      'meets',
-    );
+    expect(
+      criterionBand({ meanLimitPpm: 1200, maxMinutesCap: null, farOverShare: 0.25, seasons: [season(1100, 0)] }),
+    ).toBe('meets');
   });
 });
