@@ -172,7 +172,7 @@ describe('the first hour, part 1, in Chromium', () => {
     const badge = rows.first().locator('[data-testid="band-badge"]');
     await expect(badge.getAttribute('title')).resolves.toMatch(/^Priority \d: /);
     await expect(badge.textContent()).resolves.not.toMatch(/stale|stuffy|fresh/i);
-    const options = await page.getByLabel('Band').locator('option').allTextContents();
+    const options = await page.getByRole('combobox', { name: /^Band/ }).locator('option').allTextContents();
     expect(options.slice(1, 2)[0]).toMatch(/^Priority 1 · Daily mean far over the limit/);
     // Capital and payback headers are inside the 820 px window without scrolling sideways.
     for (const name of ['Capital', 'Payback']) {
@@ -181,8 +181,10 @@ describe('the first hour, part 1, in Chromium', () => {
       expect(box!.x + box!.width, name).toBeLessThanOrEqual(820);
     }
     // Rooms that meet their criterion get no units.
-    await page.getByLabel('Criterion').selectOption({ label: 'Met' });
-    await page.waitForResponse((r) => r.url().includes('/api/priorities') && r.url().includes('criteriaMet=true'));
+    await Promise.all([
+      page.waitForResponse((r) => r.url().includes('/api/priorities') && r.url().includes('criteriaMet=true')),
+      page.getByRole('combobox', { name: /^Criterion/ }).selectOption({ label: 'Met' }),
+    ]);
     await rows.first().waitFor();
     const units = await rows.locator('td:nth-child(5)').allTextContents();
     expect(units.length).toBeGreaterThan(0);

@@ -602,7 +602,7 @@ function Form({ groups, editorWords, anyEditable }: Props) {
 
 export default function AssumptionForm(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Form {...props} />
     </QueryClientProvider>
   );

@@ -136,7 +136,7 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
 
 export default function CatalogueEditor(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Editor {...props} />
     </QueryClientProvider>
   );

@@ -207,7 +207,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
 
 export default function RunPanel(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Panel {...props} />
     </QueryClientProvider>
   );

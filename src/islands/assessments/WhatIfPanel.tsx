@@ -184,7 +184,7 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
 
 export default function WhatIfPanel(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Panel {...props} />
     </QueryClientProvider>
   );
