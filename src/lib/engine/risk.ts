@@ -24,8 +24,9 @@ export const RISK_BAND_RULES: Record<RiskBand, string> = {
     'In every season the daily mean CO2 stays within the criterion and any peak above its maximum is shorter than allowed.',
   peaks_over:
     'The daily mean stays within the criterion in every season, but CO2 stays above the criterion’s maximum for longer than allowed in a row.',
-  over: 'In at least one season the daily mean CO2 is above the criterion’s limit, by less than the far-over margin.',
-  far_over: 'In at least one season the daily mean CO2 is above the criterion’s limit by the far-over margin or more.',
+  over: 'In at least one season the daily mean CO2 is above the criterion’s limit, by less than the far-over margin (a quarter of the limit unless the assumptions say otherwise).',
+  far_over:
+    'In at least one season the daily mean CO2 is above the criterion’s limit by the far-over margin or more (a quarter of the limit unless the assumptions say otherwise).',
 };
 
 /** Stored number of a band (room_results.risk_band): 1 meets … 4 far over, so higher is worse. */
