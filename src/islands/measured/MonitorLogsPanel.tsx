@@ -16,6 +16,7 @@ import {
   type LogView,
 } from '../../lib/client/monitoring';
 import { formatCount, formatDate, formatDateTime } from '../../lib/format';
+import { useHydrated } from '../use-hydrated';
 
 export interface RoomChoice {
   id: string;
@@ -82,6 +83,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
   const [schoolId, setSchoolId] = useState('');
   const [progress, setProgress] = useState<number | null>(null);
   const [busy, setBusy] = useState<string | null>(null);
+  const hydrated = useHydrated();
   const [preview, setPreview] = useState<LogView | null>(null);
   const [choices, setChoices] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
@@ -240,7 +242,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
             <button
               type="button"
               className="rounded-control bg-brand px-4 py-2 font-semibold text-white"
-              disabled={busy !== null}
+              disabled={!hydrated || busy !== null}
               onClick={() => input.current?.click()}
             >
               Choose log files…
@@ -371,7 +373,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
                 <button
                   type="button"
                   className="rounded-control bg-brand px-4 py-2 font-semibold text-white"
-                  disabled={busy !== null}
+                  disabled={!hydrated || busy !== null}
                   onClick={() => void finish('commit')}
                 >
                   {unmatched.length > 0
