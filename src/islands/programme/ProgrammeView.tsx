@@ -13,7 +13,7 @@ import {
   refreshProgramme,
   deleteProgramme,
 } from '../../lib/client/programme';
-import { formatGbp, formatInteger, formatNumber } from '../../lib/format';
+import { formatGbp, formatInteger, formatDecimals, formatNumber } from '../../lib/format';
 import ProgrammeChart from './ProgrammeChart';
 import { useHydrated } from '../use-hydrated';
 
@@ -102,7 +102,7 @@ export default function ProgrammeView({ initial }: { initial: View }) {
         />
         <Card
           label="Gap to the best possible plan"
-          value={`${report.solve.gapPct < 0.1 ? report.solve.gapPct.toFixed(2) : formatNumber(report.solve.gapPct)} %`}
+          value={`${report.solve.gapPct < 0.1 ? formatDecimals(report.solve.gapPct, 2, 2) : formatNumber(report.solve.gapPct)} %`}
           testId="gap"
         />
       </dl>
