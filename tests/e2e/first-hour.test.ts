@@ -137,6 +137,12 @@ describe('the first hour, part 1, in Chromium', () => {
       'Seasons: months, school days, room temperature and how far windows are opened, Winter, Windows open in lessons',
     );
     await expect(winterOpen.inputValue()).resolves.toBe('15');
+    // Each cell of a table says its unit: room temperatures in °C, a list by month in K.
+    const winterTemp = page.getByLabel(
+      'Seasons: months, school days, room temperature and how far windows are opened, Winter, Room temperature',
+    );
+    await expect(winterTemp.locator('xpath=..').textContent()).resolves.toContain('°C');
+    await expect(page.locator('[data-path="climate.dailyRangeK"]').textContent()).resolves.not.toContain('by month');
     await winterOpen.fill('20');
     await expect(page.locator('[data-testid="preview-changes"]').textContent()).resolves.toMatch(/15 % → .*20 %/);
     await page.getByLabel('Why (recorded with the version)').fill('Staff open windows more than assumed');

@@ -202,7 +202,7 @@ function shown(entry: FormEntry, cell: Cell, value: Json): string {
   if (cell.kind === 'months') return monthsText(value as number[]);
   if (cell.kind === 'uses') return (value as string[]).map((u) => label(u)).join(', ') || 'none';
   if (cell.kind === 'choice') return choiceWords(String(value));
-  const unit = displayUnit(cell.limit?.display, entry.unit);
+  const unit = displayUnit(cell.limit?.display, entry.unit, cell.limit?.unit);
   return `${toDisplay(value as number, cell.limit?.display)}${unit ? ` ${unit}` : ''}`;
 }
 
@@ -245,7 +245,7 @@ function Input({
   labelText: string;
 }) {
   const id = `a-${cell.full.replace(/[^a-zA-Z0-9]/g, '-')}`;
-  const unit = cell.kind === 'number' ? displayUnit(cell.limit?.display, entry.unit) : '';
+  const unit = cell.kind === 'number' ? displayUnit(cell.limit?.display, entry.unit, cell.limit?.unit) : '';
   const hint = cell.kind === 'number' && cell.limit ? `Allowed ${rangeInWords(cell.limit, entry.unit)}` : undefined;
   if (cell.kind === 'choice')
     return (

@@ -15,6 +15,8 @@ export interface AssumptionLimit {
   integer?: boolean;
   /** How people read and type it (default: as stored, in the assumption's own unit). */
   display?: DisplayUnit;
+  /** The stored unit of one cell, where the assumption as a whole is a table (its own unit says only 'table'). */
+  unit?: string;
 }
 
 const share = (max = 1): AssumptionLimit => ({ min: 0, max, display: 'percent' });
@@ -32,11 +34,11 @@ export const ASSUMPTION_LIMITS: Record<string, AssumptionLimit> = {
   'occupancy.timetable.*.occupancyFraction': share(),
   'seasons.*.months.*': { min: 1, max: 12, integer: true, display: 'months' },
   'seasons.*.schoolDays': { min: 0, max: 366, integer: true },
-  'seasons.*.indoorTempC': { min: 10, max: 30 },
+  'seasons.*.indoorTempC': { min: 10, max: 30, unit: '°C' },
   'seasons.*.windowOpenFractionOccupied': share(),
   'seasons.*.windowOpenFractionEmpty': share(),
-  'climate.regions.*.monthlyMeanTempC.*': { min: -30, max: 40 },
-  'climate.regions.*.windSpeedMs.*': { min: 0, max: 30 },
+  'climate.regions.*.monthlyMeanTempC.*': { min: -30, max: 40, unit: '°C' },
+  'climate.regions.*.windSpeedMs.*': { min: 0, max: 30, unit: 'm/s' },
   'climate.dailyRangeK.*': { min: 0, max: 25 },
   'climate.dayToDaySdK.*': { min: 0, max: 10 },
   'windows.dischargeCoefficient': { min: 0.1, max: 1 },
@@ -194,12 +196,16 @@ export function toDisplay(value: number, display: DisplayUnit = 'as_stored'): st
   }
 }
 
-/** The unit people read beside a displayed number (the stored unit unless converted). */
-export function displayUnit(display: DisplayUnit | undefined, storedUnit: string): string {
+/**
+ * The unit people read beside one displayed number: the stored unit unless converted; a table cell's own unit where
+ * the limit declares one; per cell of a list by month, the unit without "by month".
+ */
+export function displayUnit(display: DisplayUnit | undefined, storedUnit: string, cellUnit?: string): string {
   if (display === 'percent') return '%';
   if (display === 'pence') return 'p/kWh';
   if (display === 'clock' || display === 'months') return '';
-  return storedUnit === '-' || storedUnit === 'table' || storedUnit === 'list' ? '' : storedUnit;
+  const unit = (cellUnit ?? storedUnit).replace(/ by month$/, '');
+  return unit === '-' || unit === 'table' || unit === 'list' ? '' : unit;
 }
 
 /**
@@ -227,7 +233,7 @@ export function fromDisplay(text: string, display: DisplayUnit = 'as_stored'): n
 
 /** The range in the unit people type, e.g. "between 0 and 20 %" or "between 09:00 and 15:00". */
 export function rangeInWords(limit: AssumptionLimit, storedUnit: string): string {
-  const unit = displayUnit(limit.display, storedUnit);
+  const unit = displayUnit(limit.display, storedUnit, limit.unit);
   const n = (x: number) =>
     limit.display === 'clock' || limit.display === 'months'
       ? toDisplay(x, limit.display)

@@ -124,7 +124,7 @@ describe('the one declaration of assumption ranges', () => {
   });
 
   it('reads and writes values in the unit people type: 3.5 % is 0.035, 24.55 p/kWh is £0.2455, 09:15 is minute 555', async () => {
-    const { fromDisplay, toDisplay, checkTyped, assumptionLimit } = await import(
+    const { fromDisplay, toDisplay, checkTyped, assumptionLimit, displayUnit } = await import(
       '../../../src/lib/engine/assumption-limits'
     );
     expect(fromDisplay('3.5', 'percent')).toBe(0.035);
@@ -140,6 +140,11 @@ describe('the one declaration of assumption ranges', () => {
     const rate = assumptionLimit('finance.discountRate')!;
     expect(checkTyped('3.5', rate, '-')).toBeNull();
     expect(checkTyped('25', rate, '-')).toBe('Must be between 0 and 20 %.');
+    // A cell of a table says its own unit; a cell of a list by month says the unit alone.
+    const roomTemp = assumptionLimit('seasons.winter.indoorTempC')!;
+    expect(checkTyped('35', roomTemp, 'table')).toBe('Must be between 10 and 30 °C.');
+    expect(displayUnit(roomTemp.display, 'table', roomTemp.unit)).toBe('°C');
+    expect(displayUnit(undefined, 'K by month')).toBe('K');
   });
 
   it('refuses a value outside its declared range through the engine check, naming the path', () => {
