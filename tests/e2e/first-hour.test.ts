@@ -213,6 +213,52 @@ describe('the first hour, part 1, in Chromium', () => {
     await expect(page.locator('[data-testid="risk-band"]').textContent()).resolves.toMatch(/^Priority [1-4] · /);
   });
 
+  it('keeps the room code in view on a laptop while the register scrolls sideways, with a link to each room’s page', async () => {
+    const page = await asRole(DEMO_ACCOUNTS.estates_manager, { width: 1366, height: 768 });
+    await page.goto('/app/register');
+    const firstRow = page.locator('[data-testid="register-table"] tbody tr').first();
+    await firstRow.waitFor();
+    const code = (await firstRow.getAttribute('data-room-code')) ?? '';
+    expect(code).not.toBe('');
+    const codeCell = firstRow.locator('td', { hasText: code }).first();
+    const before = (await codeCell.boundingBox())!;
+    // Scroll the table as far right as it goes: the code cell stays where it was.
+    const scroller = page.locator('[data-testid="register-table"]').locator('xpath=..');
+    const scrolled = await scroller.evaluate((el) => {
+      el.scrollLeft = el.scrollWidth;
+      return el.scrollLeft;
+    });
+    expect(scrolled).toBeGreaterThan(0);
+    await expect.poll(async () => (await codeCell.boundingBox())?.x).toBe(before.x);
+    const link = firstRow.getByRole('link', { name: new RegExp(`^Open room ${code} of `) });
+    await expect(link.getAttribute('href')).resolves.toMatch(/^\/app\/rooms\/[0-9a-f-]{36}$/);
+    await Promise.all([page.waitForURL(/\/app\/rooms\//), link.click()]);
+    await expect(page.locator('h1').textContent()).resolves.toContain(code);
+    expect(await seriousAxeViolations(page)).toEqual([]);
+  });
+
+  it('shows the finance tables’ NPV unclipped on a tablet', async () => {
+    const page = await asRole(DEMO_ACCOUNTS.finance_lead, { width: 820, height: 1180 });
+    await page.goto('/app/finance');
+    const total = page.locator('[data-testid="finance-trust-total"]');
+    const npvHeader = total.getByRole('columnheader', { name: 'NPV', exact: true });
+    const box = (await npvHeader.boundingBox())!;
+    expect(box.x + box.width).toBeLessThanOrEqual(820);
+    await page.locator('[data-testid="finance-school"] summary').first().click();
+    const school = page.locator('[data-testid="finance-school-table"]').first();
+    const schoolNpv = (await school.getByRole('columnheader', { name: 'NPV', exact: true }).boundingBox())!;
+    expect(schoolNpv.x + schoolNpv.width).toBeLessThanOrEqual(820);
+    // Every NPV figure fits its cell: nothing cut off.
+    const column = await school
+      .getByRole('columnheader')
+      .evaluateAll((ths) => ths.findIndex((th) => th.textContent?.trim() === 'NPV'));
+    const clipped = await school
+      .locator(`tbody tr td:nth-child(${column + 1})`)
+      .evaluateAll((tds) => tds.filter((td) => td.scrollWidth > td.clientWidth).length);
+    expect(clipped).toBe(0);
+    expect(await seriousAxeViolations(page)).toEqual([]);
+  });
+
   it('offers sign-up and the plans with their prices on the landing page', async () => {
     const context = await launchBrowser();
     contexts.push(context);
