@@ -117,7 +117,9 @@ describe('assessments pages in Chromium', () => {
     await expect(page.locator('[data-path="finance.discountRate"]').textContent()).resolves.toMatch(
       /published source.*Green Book/s,
     );
-    // A finance lead types financial values; technical ones are shown, not offered.
+    // A finance lead types financial values; technical ones are shown, not offered. Inputs are disabled until the
+    // form's island has hydrated, so wait for it before asking.
+    await page.locator('astro-island[component-url*="AssumptionForm"]:not([ssr])').waitFor({ timeout: 20_000 });
     await expect(page.getByLabel('Real discount rate', { exact: true }).isEnabled()).resolves.toBe(true);
     expect(await page.locator('[data-path="air.outdoorCo2Ppm"] input').count()).toBe(0);
     // Costs are editable, flows are not.
