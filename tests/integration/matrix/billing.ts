@@ -51,6 +51,13 @@ export const entries: MatrixEntry[] = [
     note: 'resuming a subscription that is not cancelling changes nothing; the other trust has none',
   },
   {
+    file: 'billing/quantity.ts',
+    method: 'POST',
+    path: '/api/billing/quantity',
+    expect: adminOnly(200, 200),
+    note: 'idempotent: the demo subscription already covers its schools; the other trust has no subscription',
+  },
+  {
     file: 'billing/webhook.ts',
     method: 'POST',
     path: '/api/billing/webhook',

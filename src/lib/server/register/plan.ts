@@ -1,7 +1,16 @@
 import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
+import type { ActiveTrust } from '../auth/context';
+import type { EstateRecords } from '../estate/estate.types';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
-import { physicalChecks, RoomFieldsSchema, type RoomFieldName, type RoomFields } from './register.schemas';
+import { efficiencyProblem, physicalChecks } from '../estate/checks';
+import {
+  BlockPatchSchema,
+  RoomFieldsSchema,
+  type RoomFieldName,
+  type RoomFields,
+  SchoolPatchSchema,
+} from '../estate/estate.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
@@ -19,6 +28,14 @@ export interface EstateSnapshot {
   defaultClimateRegion: ClimateRegion;
   /** False for members limited to some schools: they may only import rooms of those schools. */
   canCreateSchools?: boolean;
+}
+
+/** The estate as the import compares against it: its records, the usual climate region, who may add schools. */
+export function estateSnapshot(records: EstateRecords, trust: Pick<ActiveTrust, 'schoolIds'>): EstateSnapshot {
+  const regionCounts = new Map<ClimateRegion, number>();
+  for (const s of records.schools) regionCounts.set(s.climateRegion, (regionCounts.get(s.climateRegion) ?? 0) + 1);
+  const defaultClimateRegion = [...regionCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'midlands';
+  return { ...records, defaultClimateRegion, canCreateSchools: trust.schoolIds === null };
 }
 
 /** A school's heating as the register's school columns give it. */
@@ -126,6 +143,20 @@ export interface ImportSummary {
   warnings: number;
 }
 
+/** Register columns of a school's or block's own attributes, checked with the estate's declaration of each field. */
+const ESTATE_VALUE_SCHEMAS = {
+  schoolPhase: SchoolPatchSchema.shape.phase,
+  schoolHeatingFuel: SchoolPatchSchema.shape.heatingFuel,
+  schoolFuelPriceGbpPerKwh: SchoolPatchSchema.shape.fuelPriceGbpPerKwh,
+  schoolHeatingEfficiency: SchoolPatchSchema.shape.heatingEfficiency,
+  yearBuilt: BlockPatchSchema.shape.yearBuilt,
+  airPermeabilityM3hM2: BlockPatchSchema.shape.airPermeabilityM3hM2,
+  blockHeatingFuel: BlockPatchSchema.shape.heatingFuel,
+  blockFuelPriceGbpPerKwh: BlockPatchSchema.shape.fuelPriceGbpPerKwh,
+  blockHeatingEfficiency: BlockPatchSchema.shape.heatingEfficiency,
+} as const satisfies Partial<Record<RegisterField, unknown>>;
+const ESTATE_VALUE_FIELDS = Object.keys(ESTATE_VALUE_SCHEMAS) as (keyof typeof ESTATE_VALUE_SCHEMAS)[];
+
 /** A key for matching school and block names whatever their case and spacing. */
 export const nameKey = (name: string) => name.toLowerCase().replace(/\s+/g, ' ').trim();
 
@@ -205,6 +236,30 @@ export function planImport(
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
   const roomsByKey = new Map(estate.rooms.map((r) => [`${r.schoolId}|${r.fields.code}`, r]));
 
+  // School and block values the estate's editors would refuse are refused here too: the value is not applied and its
+  // row is rejected. A register repeats the same few values on every row, so each is checked once.
+  const refusedRows = new Set<number>();
+  const verdicts = new Map<string, string | null>();
+  for (const row of read.rows) {
+    for (const field of ESTATE_VALUE_FIELDS) {
+      const value = row.values[field];
+      if (value === null || value === undefined) continue;
+      const key = `${field}|${value}`;
+      let message = verdicts.get(key);
+      if (message === undefined) {
+        const parsed = ESTATE_VALUE_SCHEMAS[field].safeParse(value);
+        message = parsed.success
+          ? null
+          : (parsed.error.issues[0]?.message ?? `${columnOf(field).header} is not valid.`);
+        verdicts.set(key, message);
+      }
+      if (message === null) continue;
+      problem(row, field, 'error', message);
+      delete row.values[field];
+      refusedRows.add(row.rowNumber);
+    }
+  }
+
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
   const schoolHeatingOf = new Map<string, Partial<SchoolHeating>>();
@@ -271,6 +326,38 @@ export function planImport(
     }
   }
 
+  // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits
+  // its fuel; a block without its own fuel burns the school's). Where it does not, the file's fuel and efficiency are
+  // not applied and the rows that carry them are refused.
+  const schoolHeatingProblem = new Map<string, string>();
+  const schoolFuelAfter = new Map<string, string>();
+  for (const [sk, heating] of schoolHeatingOf) {
+    const existing = schoolsByKey.get(sk);
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      schoolHeatingProblem.set(sk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+    schoolFuelAfter.set(sk, heating.heatingFuel ?? existing?.heatingFuel ?? 'gas');
+  }
+  const blockHeatingProblem = new Map<string, string>();
+  for (const [bk, heating] of blockHeatingOf) {
+    const sk = bk.slice(0, bk.indexOf('|'));
+    const school = schoolsByKey.get(sk);
+    const existing = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? schoolFuelAfter.get(sk) ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      blockHeatingProblem.set(bk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+  }
+  const carried = (row: ParsedRow, field: RegisterField) =>
+    row.values[field] !== null && row.values[field] !== undefined;
+
   // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
   const writes: RoomWrite[] = [];
   const codesInFile = new Set<string>();
@@ -282,7 +369,7 @@ export function planImport(
   let unchanged = 0;
 
   for (const row of read.rows) {
-    let hasError = row.problems.some((p) => p.severity === 'error');
+    let hasError = row.problems.some((p) => p.severity === 'error') || refusedRows.has(row.rowNumber);
     problems.push(...row.problems);
     const error = (field: RegisterField, message: string) => {
       problem(row, field, 'error', message);
@@ -299,6 +386,13 @@ export function planImport(
     const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
     const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
+    const schoolHeating = schoolHeatingProblem.get(sk);
+    if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
+    else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
+    const blockHeating =
+      typeof row.values.block === 'string' ? blockHeatingProblem.get(`${sk}|${keyOf(row.values.block)}`) : undefined;
+    if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
+    else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
     if (!existingSchool && estate.canCreateSchools === false)
       error(
         'school',
