@@ -75,10 +75,10 @@ export const entries: MatrixEntry[] = [
       viewer: 403,
       finance_lead: 403,
       estates_manager: 400,
-      school_limited: 400,
+      school_limited: 403,
       trust_admin: 400,
       other_trust: 400,
     },
-    note: 'the body is refused after the permission check (a school-limited member may not add schools at all: see school-limited.test.ts)',
+    note: 'the body is refused after the permission check; a school-limited member may not add schools at all (see school-limited.test.ts)',
   },
 ];
