@@ -3,6 +3,7 @@ import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
 import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
+import { assess } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL!);
@@ -23,18 +24,8 @@ const REQUIRED_HEADER = [
   'NPV (GBP)',
 ];
 
-async function runTrust(cookie: string): Promise<void> {
-  const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
-  expect(response.status).toBe(202);
-  const { id } = (await response.json()) as { id: string };
-  for (let i = 0; i < 200; i += 1) {
-    const status = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
-    if (status.status === 'succeeded') return;
-    if (status.status === 'failed') throw new Error('run failed');
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error('run did not finish');
-}
+/** Runs the whole trust and waits for it to succeed (throws when it fails or takes over 60 s). */
+const runTrust = (cookie: string) => assess(cookie, { scope: 'trust' }, 60_000);
 
 async function download(cookie: string): Promise<ExcelJS.Workbook> {
   const response = await api('/api/exports/results.xlsx', { cookie });

@@ -1,5 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { createDb } from '../../src/lib/server/db/client';
+import { removeDemoMembersAddedSince } from '../helpers/db';
 import { linkIn, listMail, waitForMail } from '../helpers/mail';
 import { waitFor } from '../helpers/wait';
 import { verifiedTrust } from './billing-fixture';
@@ -17,7 +18,10 @@ import {
 } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL ?? '');
+/** When this file started: what it added to the shared demo trust after that is taken out again at the end. */
+const fileStartedAt = new Date();
 afterAll(async () => {
+  await removeDemoMembersAddedSince(db, fileStartedAt);
   await db.destroy();
 });
 
