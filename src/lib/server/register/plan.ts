@@ -1,7 +1,13 @@
 import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
-import { physicalChecks, RoomFieldsSchema, type RoomFieldName, type RoomFields } from './register.schemas';
+import {
+  efficiencyProblem,
+  physicalChecks,
+  RoomFieldsSchema,
+  type RoomFieldName,
+  type RoomFields,
+} from './register.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
@@ -271,6 +277,38 @@ export function planImport(
     }
   }
 
+  // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits
+  // its fuel; a block without its own fuel burns the school's). Where it does not, the file's fuel and efficiency are
+  // not applied and the rows that carry them are refused.
+  const schoolHeatingProblem = new Map<string, string>();
+  const schoolFuelAfter = new Map<string, string>();
+  for (const [sk, heating] of schoolHeatingOf) {
+    const existing = schoolsByKey.get(sk);
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      schoolHeatingProblem.set(sk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+    schoolFuelAfter.set(sk, heating.heatingFuel ?? existing?.heatingFuel ?? 'gas');
+  }
+  const blockHeatingProblem = new Map<string, string>();
+  for (const [bk, heating] of blockHeatingOf) {
+    const sk = bk.slice(0, bk.indexOf('|'));
+    const school = schoolsByKey.get(sk);
+    const existing = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? schoolFuelAfter.get(sk) ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      blockHeatingProblem.set(bk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+  }
+  const carried = (row: ParsedRow, field: RegisterField) =>
+    row.values[field] !== null && row.values[field] !== undefined;
+
   // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
   const writes: RoomWrite[] = [];
   const codesInFile = new Set<string>();
@@ -299,6 +337,13 @@ export function planImport(
     const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
     const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
+    const schoolHeating = schoolHeatingProblem.get(sk);
+    if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
+    else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
+    const blockHeating =
+      typeof row.values.block === 'string' ? blockHeatingProblem.get(`${sk}|${keyOf(row.values.block)}`) : undefined;
+    if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
+    else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
     if (!existingSchool && estate.canCreateSchools === false)
       error(
         'school',
