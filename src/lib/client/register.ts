@@ -2,7 +2,7 @@
 import { keepPreviousData, QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Page, Room } from '../server/estate/estate.types';
 import type { ImportHistoryItem, ImportOutcome, ImportPreview } from '../server/register/import.service';
-import type { RoomCreate, RoomFields } from '../server/register/register.schemas';
+import type { RoomCreate, RoomFields } from '../server/estate/estate.schemas';
 import { apiFetch, uploadWithProgress } from './api';
 
 export type { ImportHistoryItem, ImportOutcome, ImportPreview, Page, Room, RoomFields };
@@ -158,7 +158,7 @@ export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteM
 }
 
 /** The same checks the server runs on an edit, so the editor can say what is wrong before sending. */
-export { physicalChecks, RoomFieldsSchema } from '../server/register/register.schemas';
+export { physicalChecks, RoomFieldsSchema } from '../server/estate/estate.schemas';
 
 /** A school with its blocks, as GET /api/schools/[id] answers. */
 export type { School, Block } from '../server/estate/estate.types';

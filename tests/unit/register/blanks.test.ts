@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import type { DetectedColumn } from '~/lib/server/register/headers';
 import { planImport, type EstateSnapshot } from '~/lib/server/register/plan';
-import type { RoomFields } from '~/lib/server/register/register.schemas';
+import type { RoomFields } from '~/lib/server/estate/estate.schemas';
 import { parseRow, compileColumns } from '~/lib/server/register/rows';
 
 const FIELDS = ['school', 'code', 'floorAreaM2', 'pupils', 'glazingAreaM2', 'openableAreaM2'] as const;

@@ -1,28 +1,10 @@
 import type { Kysely } from 'kysely';
-import { z } from 'zod';
 import type { Database } from '../../../../db/database';
-import { CLIMATE_REGIONS, HEATING_FUELS, SCHOOL_PHASES } from '../../engine/vocabulary';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { badRequest, forbidden } from '../http/errors';
-import { SCHOOL_LIMITS } from '../../engine/limits';
-import { efficiencyProblem, limited } from '../register/register.schemas';
+import { efficiencyProblem, type NewSchoolInput } from './estate.schemas';
 import { assertWithinPlan } from '../billing/plan-limits';
-
-/** POST /api/schools body. */
-export const NewSchoolSchema = z.object({
-  name: z.string().trim().min(1, 'name is required').max(200),
-  referenceNumber: z.string().trim().min(1).max(50).nullish(),
-  phase: z.enum(SCHOOL_PHASES, { message: `phase must be one of: ${SCHOOL_PHASES.join(', ')}` }),
-  climateRegion: z.enum(CLIMATE_REGIONS, { message: `climateRegion must be one of: ${CLIMATE_REGIONS.join(', ')}` }),
-  address: z.string().trim().max(500).nullish(),
-  heatingFuel: z
-    .enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` })
-    .default('gas'),
-  fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullish(),
-  heatingEfficiency: z.number().min(0.3).max(6).nullish(),
-});
-export type NewSchoolInput = z.infer<typeof NewSchoolSchema>;
 
 /**
  * Adds a school to the trust, within the plan's limits (402 past the free plan's one school),

@@ -7,7 +7,7 @@ import {
   RoomFieldsSchema,
   type RoomFieldName,
   type RoomFields,
-} from './register.schemas';
+} from '../estate/estate.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */

@@ -6,8 +6,8 @@ import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
-import { RoomPatchSchema } from '../../../lib/server/register/register.schemas';
-import { deleteRoom, updateRoom } from '../../../lib/server/register/rooms.service';
+import { RoomPatchSchema } from '../../../lib/server/estate/estate.schemas';
+import { deleteRoom, updateRoom } from '../../../lib/server/estate/rooms.service';
 
 /** One room with every attribute. */
 export const GET = route(async ({ locals, params }) => {

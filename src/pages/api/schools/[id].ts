@@ -6,8 +6,8 @@ import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
-import { SchoolPatchSchema } from '../../../lib/server/register/register.schemas';
-import { updateSchool } from '../../../lib/server/register/rooms.service';
+import { SchoolPatchSchema } from '../../../lib/server/estate/estate.schemas';
+import { updateSchool } from '../../../lib/server/estate/rooms.service';
 
 /** One school with its blocks. */
 export const GET = route(async ({ locals, params }) => {

@@ -3,7 +3,8 @@ import { requirePermission } from '../../../lib/server/auth/guard';
 import { followSchoolCount } from '../../../lib/server/billing/billing.service';
 import { getDb } from '../../../lib/server/db/client';
 import { listSchools } from '../../../lib/server/estate/estate.repository';
-import { NewSchoolSchema, createSchool } from '../../../lib/server/estate/schools.service';
+import { NewSchoolSchema } from '../../../lib/server/estate/estate.schemas';
+import { createSchool } from '../../../lib/server/estate/schools.service';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 

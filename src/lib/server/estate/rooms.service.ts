@@ -3,7 +3,7 @@ import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
-import { inTrustScope } from '../estate/estate.repository';
+import { inTrustScope } from './estate.repository';
 import { AppError, badRequest, conflict, notFound } from '../http/errors';
 import {
   physicalChecks,
@@ -17,8 +17,8 @@ import {
   type RoomPatch,
   type SchoolPatch,
   efficiencyProblem,
-} from './register.schemas';
-import { roomFieldsOf } from './register.repository';
+} from './estate.schemas';
+import { roomFieldsOf } from './rooms.repository';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
