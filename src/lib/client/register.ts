@@ -158,7 +158,8 @@ export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteM
 }
 
 /** The same checks the server runs on an edit, so the editor can say what is wrong before sending. */
-export { physicalChecks, RoomFieldsSchema } from '../server/estate/estate.schemas';
+export { physicalChecks } from '../server/estate/checks';
+export { RoomFieldsSchema } from '../server/estate/estate.schemas';
 
 /** A school with its blocks, as GET /api/schools/[id] answers. */
 export type { School, Block } from '../server/estate/estate.types';

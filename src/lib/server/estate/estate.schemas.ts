@@ -1,14 +1,5 @@
 import { z } from 'zod';
-import {
-  BLOCK_LIMITS,
-  type FieldLimit,
-  heatingEfficiencyLimit,
-  limitMessage,
-  MAX_GLAZING_PER_FLOOR_AREA,
-  MIN_FLOOR_AREA_PER_OCCUPANT_M2,
-  ROOM_LIMITS,
-  SCHOOL_LIMITS,
-} from '../../engine/limits';
+import { BLOCK_LIMITS, type FieldLimit, limitMessage, ROOM_LIMITS, SCHOOL_LIMITS } from '../../engine/limits';
 import {
   AGE_GROUPS,
   CLIMATE_REGIONS,
@@ -92,55 +83,6 @@ export const RoomFieldsSchema = z.object({
 export type RoomFields = z.infer<typeof RoomFieldsSchema>;
 export type RoomFieldName = keyof RoomFields;
 
-/** A problem with one value: which field, how bad, and what to do about it. */
-export interface FieldProblem {
-  field: RoomFieldName;
-  severity: 'error' | 'warning';
-  message: string;
-}
-
-/** The physical sense checks beyond each field's range (the same on import and in the editor). */
-export function physicalChecks(room: RoomFields): FieldProblem[] {
-  const problems: FieldProblem[] = [];
-  const occupants = (room.pupils ?? 0) + (room.adults ?? 0);
-  if (occupants * MIN_FLOOR_AREA_PER_OCCUPANT_M2 > room.floorAreaM2) {
-    problems.push({
-      field: room.pupils ? 'pupils' : 'adults',
-      severity: 'error',
-      message: `${occupants} people in ${room.floorAreaM2} m² is more than one per ${MIN_FLOOR_AREA_PER_OCCUPANT_M2} m²: no room can hold them. Check the floor area and the numbers.`,
-    });
-  }
-  if (room.glazingAreaM2 !== null && room.glazingAreaM2 > MAX_GLAZING_PER_FLOOR_AREA * room.floorAreaM2 + 1e-9) {
-    problems.push({
-      field: 'glazingAreaM2',
-      severity: 'error',
-      message: `Glazing area (${room.glazingAreaM2} m²) is more than ${MAX_GLAZING_PER_FLOOR_AREA} times the floor area; check the units.`,
-    });
-  }
-  if (room.openableAreaM2 !== null && room.glazingAreaM2 !== null && room.openableAreaM2 > room.glazingAreaM2 + 1e-9) {
-    problems.push({
-      field: 'openableAreaM2',
-      severity: 'error',
-      message: `Openable area (${room.openableAreaM2} m²) is larger than the glazing area (${room.glazingAreaM2} m²); a window cannot open more than its glass.`,
-    });
-  }
-  if (room.use === 'classroom' && room.ceilingHeightM !== null && room.ceilingHeightM >= 5) {
-    problems.push({
-      field: 'ceilingHeightM',
-      severity: 'warning',
-      message: `A ${room.ceilingHeightM} m ceiling is unusually high for a classroom; check it is not in millimetres or the height of the building.`,
-    });
-  }
-  if (room.pupils !== null && room.pupils > 0 && room.floorAreaM2 / room.pupils < 1) {
-    problems.push({
-      field: 'pupils',
-      severity: 'warning',
-      message: `${room.pupils} pupils in ${room.floorAreaM2} m² is less than 1 m² each; check the floor area and the pupil number.`,
-    });
-  }
-  return problems;
-}
-
 /** POST /api/rooms: a new room in a school (and optionally a block of that school). */
 export const RoomCreateSchema = RoomFieldsSchema.extend({
   schoolId: z.uuid({ message: 'schoolId must be a school id' }),
@@ -195,46 +137,69 @@ export const RoomBulkSchema = z.discriminatedUnion('action', [
 ]);
 export type RoomBulk = z.infer<typeof RoomBulkSchema>;
 
-/** PATCH /api/schools/[id]. */
-export const SchoolPatchSchema = z
-  .object({
-    name: z.string().trim().min(1, 'School name is required').max(200).optional(),
-    referenceNumber: z.string().trim().max(40).nullable().optional(),
-    phase: oneOf(SCHOOL_PHASES, 'Phase').optional(),
-    climateRegion: oneOf(CLIMATE_REGIONS, 'Climate region').optional(),
-    address: z.string().trim().max(500).nullable().optional(),
-    heatingFuel: oneOf(HEATING_FUELS, 'Heating fuel').optional(),
-    fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullable().optional(),
-    /** Seasonal efficiency (seasonal COP for heat pumps, 1 for direct electric); checked against the fuel by the service. */
-    heatingEfficiency: z.number().min(0.3).max(6).nullable().optional(),
-    /** The school's own day as lines "09:00-10:00 lesson"; blank clears it (the assumption set's applies). */
-    timetable: TimetableTextSchema.optional(),
-  })
-  .strict();
+/** Any heating efficiency (0.3–6); whether it fits the fuel is checked by checks.ts efficiencyProblem. */
+const heatingEfficiency = z
+  .number()
+  .min(0.3, 'Heating efficiency must be between 0.3 (a poor boiler) and 6 (a heat pump’s seasonal COP).')
+  .max(6, 'Heating efficiency must be between 0.3 (a poor boiler) and 6 (a heat pump’s seasonal COP).');
+
+/** A school's own attributes, declared once for adding and editing. */
+const schoolFields = {
+  name: z.string().trim().min(1, 'School name is required').max(200, 'School name can be at most 200 characters'),
+  // Blank is none: reference numbers are unique within a trust, so '' must never be stored.
+  referenceNumber: z
+    .string()
+    .trim()
+    .max(50, 'Reference number can be at most 50 characters')
+    .nullable()
+    .transform((v) => v || null),
+  phase: oneOf(SCHOOL_PHASES, 'Phase'),
+  climateRegion: oneOf(CLIMATE_REGIONS, 'Climate region'),
+  address: z
+    .string()
+    .trim()
+    .max(500, 'Address can be at most 500 characters')
+    .nullable()
+    .transform((v) => v || null),
+  heatingFuel: oneOf(HEATING_FUELS, 'Heating fuel'),
+  fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullable(),
+  /** Seasonal efficiency (seasonal COP for heat pumps, 1 for direct electric); checked against the fuel by the service. */
+  heatingEfficiency: heatingEfficiency.nullable(),
+  /** The school's own day as lines "09:00-10:00 lesson"; blank clears it (the assumption set's applies). */
+  timetable: TimetableTextSchema,
+};
+
+/** POST /api/schools: a new school; heating gas unless said, price and efficiency the trust's unless given. */
+export const SchoolCreateSchema = z.object({
+  name: schoolFields.name,
+  referenceNumber: schoolFields.referenceNumber.optional(),
+  phase: schoolFields.phase,
+  climateRegion: schoolFields.climateRegion,
+  address: schoolFields.address.optional(),
+  heatingFuel: schoolFields.heatingFuel.default('gas'),
+  fuelPriceGbpPerKwh: schoolFields.fuelPriceGbpPerKwh.optional(),
+  heatingEfficiency: schoolFields.heatingEfficiency.optional(),
+});
+export type SchoolCreate = z.infer<typeof SchoolCreateSchema>;
+
+/** PATCH /api/schools/[id]: any of the school's attributes. */
+export const SchoolPatchSchema = z.object(schoolFields).partial().strict();
 export type SchoolPatch = z.infer<typeof SchoolPatchSchema>;
 
+/** A block's own attributes, declared once for adding and editing. */
 const blockFields = {
-  name: z.string().trim().min(1, 'Block name is required').max(200),
-  yearBuilt: z.number().int().min(1700).max(2100).nullable(),
+  name: z.string().trim().min(1, 'Block name is required').max(200, 'Block name can be at most 200 characters'),
+  yearBuilt: limited(BLOCK_LIMITS.yearBuilt).nullable(),
   constructionType: oneOf(CONSTRUCTION_TYPES, 'Construction type').nullable(),
   airPermeabilityM3hM2: limited(BLOCK_LIMITS.airPermeabilityM3hM2).nullable(),
   heatingType: oneOf(HEATING_TYPES, 'Heating type').nullable(),
   heatingFuel: oneOf(HEATING_FUELS, 'Heating fuel').nullable(),
   fuelPriceGbpPerKwh: limited(BLOCK_LIMITS.fuelPriceGbpPerKwh).nullable(),
-  heatingEfficiency: z.number().min(0.3).max(6).nullable(),
+  heatingEfficiency: heatingEfficiency.nullable(),
   heatingInstalledYear: limited(BLOCK_LIMITS.heatingInstalledYear).nullable(),
 };
 
-/** The heating efficiency a fuel allows (limits.ts): a message, or null when it fits. */
-export function efficiencyProblem(fuel: string, efficiency: number | null | undefined): string | null {
-  if (efficiency === null || efficiency === undefined) return null;
-  const limit = heatingEfficiencyLimit(fuel);
-  return efficiency >= limit.min && efficiency <= limit.max
-    ? null
-    : `${limit.label} for ${fuel.replace('_', ' ')} heating must be ${limit.min === limit.max ? `exactly ${limit.min}` : `between ${limit.min} and ${limit.max}`}.`;
-}
-
-/** POST /api/blocks. */
+/** POST /api/blocks: a new block of a school; attributes not given are unknown. */
 export const BlockCreateSchema = z
   .object({
     schoolId: z.uuid({ message: 'schoolId must be a school id' }),
@@ -251,21 +216,6 @@ export const BlockCreateSchema = z
   .strict();
 export type BlockCreate = z.infer<typeof BlockCreateSchema>;
 
-/** PATCH /api/blocks/[id]. */
+/** PATCH /api/blocks/[id]: any of the block's attributes. */
 export const BlockPatchSchema = z.object(blockFields).partial().strict();
 export type BlockPatch = z.infer<typeof BlockPatchSchema>;
-
-/** POST /api/schools body. */
-export const NewSchoolSchema = z.object({
-  name: z.string().trim().min(1, 'name is required').max(200),
-  referenceNumber: z.string().trim().min(1).max(50).nullish(),
-  phase: z.enum(SCHOOL_PHASES, { message: `phase must be one of: ${SCHOOL_PHASES.join(', ')}` }),
-  climateRegion: z.enum(CLIMATE_REGIONS, { message: `climateRegion must be one of: ${CLIMATE_REGIONS.join(', ')}` }),
-  address: z.string().trim().max(500).nullish(),
-  heatingFuel: z
-    .enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` })
-    .default('gas'),
-  fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullish(),
-  heatingEfficiency: z.number().min(0.3).max(6).nullish(),
-});
-export type NewSchoolInput = z.infer<typeof NewSchoolSchema>;

@@ -3,7 +3,7 @@ import type { RegisterField } from './columns';
 import type { DetectedHeader, SavedMappings } from './headers';
 import { readRegisterFile } from './parse';
 import { planImport, type EstateSnapshot, type ImportPlan, type ImportSummary, type RoomChange } from './plan';
-import { stagedRoomLine, type StoredPlan } from './register.repository';
+import { stagedRoomLine, type StoredPlan } from './staging';
 import type { ImportOptions } from './register.schemas';
 import type { ImportProblem } from './rows';
 

@@ -9,10 +9,12 @@ import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
 import { analyseUploadIsolated } from './parse-in-worker';
 import { decodePlan, type UploadAnalysis } from './analyse';
-import type { ImportPlan, ImportSummary } from './plan';
+import { estateSnapshot, type ImportPlan, type ImportSummary } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
+import { estateFingerprint, loadEstateRecords } from '../estate/estate.repository';
+import { applyPlan } from './apply';
+import { loadSavedMappings, saveMappings } from './register.repository';
 import type { ImportProblem } from './rows';
 import { fileTooLarge } from './register.errors';
 
@@ -76,7 +78,7 @@ export async function previewImport(
   const mark = stepTimer('preview');
   const [saved, snapshot, fingerprint] = await Promise.all([
     loadSavedMappings(db, trust.id),
-    loadSnapshot(db, trust),
+    loadEstateRecords(db, trust).then((records) => estateSnapshot(records, trust)),
     estateFingerprint(db, trust),
   ]);
   mark('load the estate');
@@ -211,7 +213,7 @@ export async function commitImport(
         schools: plan.summary.schoolsToCreate,
         rooms: plan.summary.roomsToCreate,
       });
-      const { roomsDeleted } = await applyPlan(trx, client, trust.id, actor, plan, roomLines, body.deleteMissing);
+      const { roomsDeleted } = await applyPlan(trx, client, trust, actor, plan, roomLines, body.deleteMissing);
       mark('write schools, blocks, rooms and audit');
       const outcome: ImportOutcome = {
         status: 'committed',

@@ -1,13 +1,10 @@
 import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
+import type { ActiveTrust } from '../auth/context';
+import type { EstateRecords } from '../estate/estate.types';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
-import {
-  efficiencyProblem,
-  physicalChecks,
-  RoomFieldsSchema,
-  type RoomFieldName,
-  type RoomFields,
-} from '../estate/estate.schemas';
+import { efficiencyProblem, physicalChecks } from '../estate/checks';
+import { RoomFieldsSchema, type RoomFieldName, type RoomFields } from '../estate/estate.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
@@ -25,6 +22,14 @@ export interface EstateSnapshot {
   defaultClimateRegion: ClimateRegion;
   /** False for members limited to some schools: they may only import rooms of those schools. */
   canCreateSchools?: boolean;
+}
+
+/** The estate as the import compares against it: its records, the usual climate region, who may add schools. */
+export function estateSnapshot(records: EstateRecords, trust: Pick<ActiveTrust, 'schoolIds'>): EstateSnapshot {
+  const regionCounts = new Map<ClimateRegion, number>();
+  for (const s of records.schools) regionCounts.set(s.climateRegion, (regionCounts.get(s.climateRegion) ?? 0) + 1);
+  const defaultClimateRegion = [...regionCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'midlands';
+  return { ...records, defaultClimateRegion, canCreateSchools: trust.schoolIds === null };
 }
 
 /** A school's heating as the register's school columns give it. */

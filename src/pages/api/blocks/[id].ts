@@ -5,7 +5,7 @@ import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 import { BlockPatchSchema } from '../../../lib/server/estate/estate.schemas';
-import { deleteBlock, updateBlock } from '../../../lib/server/estate/rooms.service';
+import { deleteBlock, updateBlock } from '../../../lib/server/estate/blocks.service';
 
 /** Changes a block's attributes. */
 export const PATCH = route(async ({ locals, params, request }) => {

@@ -1,7 +1,7 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
-import { getRoom } from '../../../lib/server/estate/estate.repository';
+import { getRoom } from '../../../lib/server/estate/rooms.repository';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
 import { json, parseJson } from '../../../lib/server/http/respond';

@@ -1,7 +1,7 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
-import { listRooms } from '../../../lib/server/estate/estate.repository';
+import { listRooms } from '../../../lib/server/estate/rooms.repository';
 import { RoomListQuerySchema } from '../../../lib/server/estate/estate.schemas';
 import { json, parseJson, parseQuery } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';

@@ -1,13 +1,13 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
-import { getSchool } from '../../../lib/server/estate/estate.repository';
+import { getSchool } from '../../../lib/server/estate/schools.repository';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { notFound } from '../../../lib/server/http/errors';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 import { SchoolPatchSchema } from '../../../lib/server/estate/estate.schemas';
-import { updateSchool } from '../../../lib/server/estate/rooms.service';
+import { updateSchool } from '../../../lib/server/estate/schools.service';
 
 /** One school with its blocks. */
 export const GET = route(async ({ locals, params }) => {
