@@ -4,7 +4,13 @@ import type { EstateRecords } from '../estate/estate.types';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
 import { efficiencyProblem, physicalChecks } from '../estate/checks';
-import { RoomFieldsSchema, type RoomFieldName, type RoomFields } from '../estate/estate.schemas';
+import {
+  BlockPatchSchema,
+  RoomFieldsSchema,
+  type RoomFieldName,
+  type RoomFields,
+  SchoolPatchSchema,
+} from '../estate/estate.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
@@ -137,6 +143,20 @@ export interface ImportSummary {
   warnings: number;
 }
 
+/** Register columns of a school's or block's own attributes, checked with the estate's declaration of each field. */
+const ESTATE_VALUE_SCHEMAS = {
+  schoolPhase: SchoolPatchSchema.shape.phase,
+  schoolHeatingFuel: SchoolPatchSchema.shape.heatingFuel,
+  schoolFuelPriceGbpPerKwh: SchoolPatchSchema.shape.fuelPriceGbpPerKwh,
+  schoolHeatingEfficiency: SchoolPatchSchema.shape.heatingEfficiency,
+  yearBuilt: BlockPatchSchema.shape.yearBuilt,
+  airPermeabilityM3hM2: BlockPatchSchema.shape.airPermeabilityM3hM2,
+  blockHeatingFuel: BlockPatchSchema.shape.heatingFuel,
+  blockFuelPriceGbpPerKwh: BlockPatchSchema.shape.fuelPriceGbpPerKwh,
+  blockHeatingEfficiency: BlockPatchSchema.shape.heatingEfficiency,
+} as const satisfies Partial<Record<RegisterField, unknown>>;
+const ESTATE_VALUE_FIELDS = Object.keys(ESTATE_VALUE_SCHEMAS) as (keyof typeof ESTATE_VALUE_SCHEMAS)[];
+
 /** A key for matching school and block names whatever their case and spacing. */
 export const nameKey = (name: string) => name.toLowerCase().replace(/\s+/g, ' ').trim();
 
@@ -215,6 +235,30 @@ export function planImport(
   const schoolsByKey = new Map(estate.schools.map((s) => [nameKey(s.name), s]));
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
   const roomsByKey = new Map(estate.rooms.map((r) => [`${r.schoolId}|${r.fields.code}`, r]));
+
+  // School and block values the estate's editors would refuse are refused here too: the value is not applied and its
+  // row is rejected. A register repeats the same few values on every row, so each is checked once.
+  const refusedRows = new Set<number>();
+  const verdicts = new Map<string, string | null>();
+  for (const row of read.rows) {
+    for (const field of ESTATE_VALUE_FIELDS) {
+      const value = row.values[field];
+      if (value === null || value === undefined) continue;
+      const key = `${field}|${value}`;
+      let message = verdicts.get(key);
+      if (message === undefined) {
+        const parsed = ESTATE_VALUE_SCHEMAS[field].safeParse(value);
+        message = parsed.success
+          ? null
+          : (parsed.error.issues[0]?.message ?? `${columnOf(field).header} is not valid.`);
+        verdicts.set(key, message);
+      }
+      if (message === null) continue;
+      problem(row, field, 'error', message);
+      delete row.values[field];
+      refusedRows.add(row.rowNumber);
+    }
+  }
 
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
@@ -325,7 +369,7 @@ export function planImport(
   let unchanged = 0;
 
   for (const row of read.rows) {
-    let hasError = row.problems.some((p) => p.severity === 'error');
+    let hasError = row.problems.some((p) => p.severity === 'error') || refusedRows.has(row.rowNumber);
     problems.push(...row.problems);
     const error = (field: RegisterField, message: string) => {
       problem(row, field, 'error', message);
