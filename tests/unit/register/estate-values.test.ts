@@ -5,9 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { BLOCK_LIMITS, SCHOOL_LIMITS } from '~/lib/engine/limits';
 import { BlockPatchSchema, SchoolPatchSchema } from '~/lib/server/estate/estate.schemas';
-import type { DetectedColumn } from '~/lib/server/register/headers';
-import { planImport, type EstateSnapshot } from '~/lib/server/register/plan';
-import { compileColumns, parseRow } from '~/lib/server/register/rows';
+import type { EstateSnapshot } from '~/lib/server/register/plan';
+import { plannerFor } from './plan-helper';
 
 const FIELDS = [
   'school',
@@ -18,22 +17,13 @@ const FIELDS = [
   'schoolFuelPriceGbpPerKwh',
   'blockFuelPriceGbpPerKwh',
 ] as const;
-const columns: DetectedColumn[] = FIELDS.map((field, index) => ({
-  index,
-  letter: String.fromCharCode(65 + index),
-  header: field,
-  headerKey: field,
-  field,
-}));
-const compiled = compileColumns(columns);
 const estate: EstateSnapshot = {
   schools: [{ id: 's1', name: 'Oak School', phase: 'primary', heatingFuel: 'gas' }],
   blocks: [{ id: 'b1', schoolId: 's1', name: 'Main', yearBuilt: 1968, airPermeabilityM3hM2: null }],
   rooms: [],
   defaultClimateRegion: 'midlands',
 };
-const plan = (cells: (string | number | null)[][]) =>
-  planImport({ rows: cells.map((c, i) => parseRow(i + 2, c, compiled)), skipped: 0 }, columns, estate);
+const plan = plannerFor(FIELDS, estate);
 const errorColumns = (p: ReturnType<typeof plan>) =>
   p.problems.filter((x) => x.severity === 'error').map((x) => x.column);
 

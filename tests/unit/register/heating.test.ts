@@ -4,9 +4,8 @@
  * A block without a fuel of its own burns its school's.
  */
 import { describe, expect, it } from 'vitest';
-import type { DetectedColumn } from '~/lib/server/register/headers';
-import { planImport, type EstateSnapshot } from '~/lib/server/register/plan';
-import { compileColumns, parseRow } from '~/lib/server/register/rows';
+import type { EstateSnapshot } from '~/lib/server/register/plan';
+import { plannerFor } from './plan-helper';
 
 const FIELDS = [
   'school',
@@ -18,15 +17,6 @@ const FIELDS = [
   'blockHeatingFuel',
   'blockHeatingEfficiency',
 ] as const;
-const columns: DetectedColumn[] = FIELDS.map((field, index) => ({
-  index,
-  letter: String.fromCharCode(65 + index),
-  header: field,
-  headerKey: field,
-  field,
-}));
-const compiled = compileColumns(columns);
-
 const estate: EstateSnapshot = {
   schools: [
     {
@@ -54,9 +44,7 @@ const estate: EstateSnapshot = {
   defaultClimateRegion: 'midlands',
 };
 
-type Cell = string | number | null;
-const plan = (cells: Cell[][]) =>
-  planImport({ rows: cells.map((c, i) => parseRow(i + 2, c, compiled)), skipped: 0 }, columns, estate);
+const plan = plannerFor(FIELDS, estate);
 const errorsOf = (p: ReturnType<typeof plan>) => p.problems.filter((x) => x.severity === 'error');
 
 describe('heating efficiency on import', () => {

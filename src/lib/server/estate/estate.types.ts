@@ -27,24 +27,17 @@ export interface SchoolRecord {
 export type SchoolFields = Omit<SchoolRecord, 'id'>;
 
 /** A school with its headline counts, as the estate overview lists it. */
-export interface SchoolSummary {
-  id: string;
-  name: string;
-  referenceNumber: string | null;
-  phase: SchoolPhase;
-  climateRegion: ClimateRegion;
-  address: string | null;
+export interface SchoolSummary
+  extends Pick<SchoolRecord, 'id' | 'name' | 'referenceNumber' | 'phase' | 'climateRegion' | 'address'> {
   blockCount: number;
   roomCount: number;
   pupilCount: number;
 }
 
 /** One school with its heating, timetable (as editor lines) and blocks, as the school page and API show it. */
-export interface School extends SchoolSummary {
-  heatingFuel: HeatingFuel;
-  fuelPriceGbpPerKwh: number | null;
-  /** Seasonal efficiency (seasonal COP for heat pumps, 1 for direct electric); null: the trust's default. */
-  heatingEfficiency: number | null;
+export interface School
+  extends SchoolSummary,
+    Pick<SchoolRecord, 'heatingFuel' | 'fuelPriceGbpPerKwh' | 'heatingEfficiency'> {
   /** The school's own day as editor lines; '' when the assumption set's timetable applies. */
   timetableText: string;
   blocks: Block[];
