@@ -13,7 +13,7 @@ import { copyResultsSql, toCopyLine } from '../../src/lib/server/assessments/res
 import { copyLines } from '../../src/lib/server/db/copy';
 import { executeRun } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 
 const ROOMS = Number(process.env.BENCH_BATCH_ROOMS ?? 100_000);
 const SCHOOLS = 50;

@@ -12,7 +12,7 @@ import { label } from '../../src/lib/engine/vocabulary';
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 
 const ROOMS = Number(process.env.BENCH_IMPORT_ROOMS ?? 100_000);
 const SCHOOLS = 50;

@@ -1,9 +1,9 @@
 // Seeds the demo trust and its demo accounts into DATABASE_URL once; a second run changes nothing.
 import { createDb } from '../../src/lib/server/db/client';
-import { seedDemoEstate } from '../../db/seed/seed';
-import { seedDemoAccounts } from '../../db/seed/demo-accounts';
-import { seedDemoBilling } from '../../db/seed/demo-billing';
-import { seedDemoAssessment } from '../../db/seed/demo-assessment';
+import { seedDemoEstate } from '../seed/demo-estate';
+import { seedDemoAccounts } from '../seed/demo-accounts';
+import { seedDemoBilling } from '../seed/demo-billing';
+import { seedDemoAssessment } from '../seed/demo-assessment';
 import { getPool } from '../../src/lib/server/db/client';
 
 const db = createDb(process.env.DATABASE_URL ?? '');

@@ -2,7 +2,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';

@@ -5,7 +5,7 @@ import { waitForMail } from './mail';
 /** The app under test (scripts/test.mjs sets APP_URL). */
 export const APP_URL = (process.env.APP_URL ?? 'http://127.0.0.1:4399').replace(/\/$/, '');
 
-/** The demo accounts' shared password (db/seed/demo-accounts.ts). */
+/** The demo accounts' shared password (scripts/seed/demo-accounts.ts). */
 export const DEMO_PASSWORD = 'airtally-demo-2026';
 
 /** The seeded demo account for each role in the demo trust ('demo-trust'). */

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 

@@ -4,7 +4,7 @@
  * gives them; each figure names its baseline, fuel, price and hours.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 

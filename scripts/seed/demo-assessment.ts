@@ -1,5 +1,5 @@
 import type { Kysely } from 'kysely';
-import type { Database } from '../database';
+import type { Database } from '../../db/database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { executeRun } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';

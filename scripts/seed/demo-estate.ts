@@ -1,5 +1,5 @@
 import type { Kysely } from 'kysely';
-import type { Database } from '../database';
+import type { Database } from '../../db/database';
 import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from './demo-trust';
 
 /** "09:00-10:00 lesson" lines as the stored timetable (a seed may not import app code). */
