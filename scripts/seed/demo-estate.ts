@@ -1,25 +1,15 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../../db/database';
+import { recordAudit } from '../../src/lib/server/audit/audit.repository';
+import { insertBlocks } from '../../src/lib/server/estate/blocks.repository';
+import { insertRooms } from '../../src/lib/server/estate/rooms.repository';
+import { insertSchools } from '../../src/lib/server/estate/schools.repository';
+import { TimetableTextSchema } from '../../src/lib/server/estate/timetable';
 import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from './demo-trust';
 
-/** "09:00-10:00 lesson" lines as the stored timetable (a seed may not import app code). */
-function parseTimetableLines(text: string) {
-  return text.split('\n').map((line, i) => {
-    const [span = '', kind = 'lesson'] = line.split(' ');
-    const [start = '', end = ''] = span.split('-');
-    const minute = (hhmm: string) => Number(hhmm.slice(0, 2)) * 60 + Number(hhmm.slice(3, 5));
-    return {
-      label: kind === 'lesson' ? `Lesson ${i + 1}` : kind,
-      kind,
-      startMinute: minute(start),
-      endMinute: minute(end),
-      occupancyFraction: kind === 'lesson' ? 1 : 0,
-    };
-  });
-}
-
 /**
- * Writes the demo trust, its schools, blocks and rooms in one transaction.
+ * Writes the demo trust, its schools, blocks and rooms in one transaction, through the estate's repositories (the
+ * same row mapping as every other write; no plan limits or per-record audit: the whole estate is one 'seed' event).
  * Idempotent: returns false without writing when the demo trust already exists.
  */
 export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
@@ -27,76 +17,57 @@ export async function seedDemoEstate(db: Kysely<Database>): Promise<boolean> {
   if (existing) return false;
   await db.transaction().execute(async (trx) => {
     await trx.insertInto('trusts').values(DEMO_TRUST).execute();
+    const schoolIds = await insertSchools(
+      trx,
+      DEMO_TRUST.id,
+      DEMO_SCHOOLS.map((school) => ({
+        name: school.name,
+        referenceNumber: school.referenceNumber,
+        phase: school.phase,
+        climateRegion: school.climateRegion,
+        address: school.address,
+        heatingFuel: school.heatingFuel,
+        fuelPriceGbpPerKwh: school.fuelPriceGbpPerKwh,
+        heatingEfficiency: school.heatingEfficiency,
+        timetable: school.timetable === null ? null : TimetableTextSchema.parse(school.timetable),
+      })),
+    );
     for (const [index, school] of DEMO_SCHOOLS.entries()) {
-      const { id: schoolId } = await trx
-        .insertInto('schools')
-        .values({
-          trust_id: DEMO_TRUST.id,
-          name: school.name,
-          reference_number: school.referenceNumber,
-          phase: school.phase,
-          climate_region: school.climateRegion,
-          address: school.address,
-          heating_fuel: school.heatingFuel,
-          fuel_price_gbp_per_kwh: school.fuelPriceGbpPerKwh,
-          heating_efficiency: school.heatingEfficiency,
-          timetable: school.timetable === null ? null : JSON.stringify(parseTimetableLines(school.timetable)),
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      const blockIds = new Map<string, string>();
-      for (const block of school.blocks) {
-        const { id } = await trx
-          .insertInto('blocks')
-          .values({
-            school_id: schoolId,
-            name: block.name,
-            year_built: block.yearBuilt,
-            construction_type: block.constructionType,
-            air_permeability_m3h_m2: block.airPermeabilityM3hM2,
-            heating_type: block.heatingType,
-            heating_fuel: block.heatingFuel,
-            heating_installed_year: block.heatingInstalledYear,
-            fuel_price_gbp_per_kwh: block.fuelPriceGbpPerKwh ?? null,
-            heating_efficiency: block.heatingEfficiency ?? null,
-          })
-          .returning('id')
-          .executeTakeFirstOrThrow();
-        blockIds.set(block.name, id);
-      }
-      const rooms = demoRooms(school, index).map((room) => ({
-        school_id: schoolId,
-        block_id: blockIds.get(room.blockName) ?? null,
-        code: room.code,
-        name: room.name,
-        use: room.use,
-        floor_area_m2: room.floorAreaM2,
-        ceiling_height_m: room.ceilingHeightM,
-        pupils: room.pupils,
-        adults: room.adults,
-        age_group: room.ageGroup,
-        orientation_deg: room.orientationDeg,
-        glazing_area_m2: room.glazingAreaM2,
-        openable_area_m2: room.openableAreaM2,
-        window_type: room.windowType,
-        frame_material: room.frameMaterial,
-        glazing_g_value: room.glazingGValue,
-        ventilation_type: room.ventilationType,
-        mechanical_supply_lps: room.mechanicalSupplyLps,
-        notes: room.notes,
-      }));
-      await trx.insertInto('rooms').values(rooms).execute();
+      const schoolId = schoolIds[index] as string;
+      const blockIds = await insertBlocks(
+        trx,
+        school.blocks.map((block) => ({
+          schoolId,
+          name: block.name,
+          yearBuilt: block.yearBuilt,
+          constructionType: block.constructionType,
+          airPermeabilityM3hM2: block.airPermeabilityM3hM2,
+          heatingType: block.heatingType,
+          heatingFuel: block.heatingFuel,
+          heatingInstalledYear: block.heatingInstalledYear,
+          fuelPriceGbpPerKwh: block.fuelPriceGbpPerKwh ?? null,
+          heatingEfficiency: block.heatingEfficiency ?? null,
+        })),
+      );
+      const blockIdByName = new Map(school.blocks.map((block, i) => [block.name, blockIds[i] as string]));
+      await insertRooms(
+        trx,
+        demoRooms(school, index).map(({ blockName, ...room }) => ({
+          schoolId,
+          blockId: blockIdByName.get(blockName) ?? null,
+          fields: { ...room, winterWindowOpenFraction: null },
+        })),
+      );
     }
-    await trx
-      .insertInto('audit_events')
-      .values({
-        trust_id: DEMO_TRUST.id,
-        action: 'seed',
-        entity_type: 'trust',
-        entity_id: DEMO_TRUST.id,
-        summary: 'Demo estate created',
-      })
-      .execute();
+    await recordAudit(trx, {
+      trustId: DEMO_TRUST.id,
+      actorUserId: null,
+      actorEmail: null,
+      action: 'seed',
+      entityType: 'trust',
+      entityId: DEMO_TRUST.id,
+      summary: 'Demo estate created',
+    });
   });
   return true;
 }

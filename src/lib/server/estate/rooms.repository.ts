@@ -159,24 +159,34 @@ export async function lockRooms(
   return rows.map((r) => ({ ...toRoomRecord(r), updatedAt: r.updated_at }));
 }
 
+/** Inserts rooms; answers their ids in the order given. */
+export async function insertRooms(
+  db: Kysely<Database>,
+  rooms: readonly { schoolId: string; blockId: string | null; fields: RoomFields }[],
+): Promise<string[]> {
+  if (rooms.length === 0) return [];
+  const values = rooms.map(
+    ({ schoolId, blockId, fields }): Insertable<RoomsTable> => ({
+      ...roomColumns(fields),
+      school_id: schoolId,
+      block_id: blockId,
+      code: fields.code,
+      floor_area_m2: fields.floorAreaM2,
+    }),
+  );
+  const created = await db.insertInto('rooms').values(values).returning(['id', 'school_id', 'code']).execute();
+  const idByPlace = new Map(created.map((r) => [`${r.school_id}|${r.code}`, r.id]));
+  return rooms.map((r) => idByPlace.get(`${r.schoolId}|${r.fields.code}`) as string);
+}
+
 /** Inserts one room; answers its id. */
 export async function insertRoom(
   db: Kysely<Database>,
   place: { schoolId: string; blockId: string | null },
   fields: RoomFields,
 ): Promise<string> {
-  const { id } = await db
-    .insertInto('rooms')
-    .values({
-      ...roomColumns(fields),
-      school_id: place.schoolId,
-      block_id: place.blockId,
-      code: fields.code,
-      floor_area_m2: fields.floorAreaM2,
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  return id;
+  const [id] = await insertRooms(db, [{ ...place, fields }]);
+  return id as string;
 }
 
 /** Writes some attributes (and, when given, the block) of the rooms `ids`. */
