@@ -60,7 +60,7 @@ export const onRequest = defineMiddleware(async (context, next) => {
     }
   }
   // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
-  const readOnly = await billingWriteGate(context.locals, context.request);
+  const readOnly = await billingWriteGate(getDb(), context.locals, context.request);
   if (readOnly) return closeIfBodyUnread(context.request, readOnly);
   return closeIfBodyUnread(context.request, withCookies(await next(), refreshedCookies));
 });

@@ -174,7 +174,7 @@ async function fullBatch(): Promise<number> {
   });
   const started = performance.now();
   let lastChunkAt = started;
-  await executeRun(runId, {
+  await executeRun(db, getPool(), runId, {
     chunkSize: CHUNK,
     afterChunk: () => {
       lastChunkAt = performance.now();

@@ -213,7 +213,7 @@ try {
     .returning('id')
     .executeTakeFirstOrThrow();
   const t1 = performance.now();
-  await runAnalysis(db, run.id);
+  await runAnalysis(db, getPool(), run.id);
   const analysisSeconds = (performance.now() - t1) / 1000;
   const analysed = await db
     .selectFrom('monitor_room_analyses')

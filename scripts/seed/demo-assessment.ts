@@ -1,4 +1,5 @@
 import type { Kysely } from 'kysely';
+import type pg from 'pg';
 import type { Database } from '../../db/database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { executeRun } from '../../src/lib/server/assessments/run-executor';
@@ -10,7 +11,7 @@ import { DEMO_TRUST } from './demo-trust';
  * dashboard. Runs the same executor the batch queue uses, in this process. Skipped when the demo trust
  * already has a succeeded run.
  */
-export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> {
+export async function seedDemoAssessment(db: Kysely<Database>, pool: pg.Pool): Promise<string> {
   const done = await db
     .selectFrom('assessment_runs')
     .select('id')
@@ -27,7 +28,7 @@ export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> 
     startedByUserId: null,
     startedByEmail: null,
   });
-  await executeRun(runId);
+  await executeRun(db, pool, runId);
   const run = await getRun(db, runId, DEMO_TRUST.id);
   return `${run?.status ?? 'unknown'} (${roomsTotal} rooms)`;
 }

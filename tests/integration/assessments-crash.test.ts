@@ -5,7 +5,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { type RawBuilder, sql } from 'kysely';
 import { afterAll, describe, expect, it } from 'vitest';
-import { getDb } from '../../src/lib/server/db/client';
+import { getDb, getPool } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { attemptRun, executeRun, MAX_ATTEMPTS } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun, markFailed, type Run } from '../../src/lib/server/assessments/runs.repository';
@@ -13,6 +13,7 @@ import { bigTrust, type BigTrust } from '../helpers/big-trust';
 import { api } from '../helpers/session';
 
 const db = getDb();
+const pool = getPool();
 afterAll(async () => {
   await db.destroy();
 });
@@ -88,7 +89,7 @@ describe('a run whose worker dies', () => {
   it('is resumed by the app within a minute when its worker process is killed, and completes without duplicates', async () => {
     const trust = await bigTrust(db, 400, 2);
     const previous = await newRun(trust.trustId);
-    expect(await executeRun(previous.id)).toBe(true);
+    expect(await executeRun(db, pool, previous.id)).toBe(true);
     const run = await newRun(trust.trustId);
     // Node itself with tsx's loader (the tsx command would run the worker in a grandchild a kill does not reach).
     const child = spawn(
@@ -142,7 +143,7 @@ describe('a run whose worker dies', () => {
     const trust = await bigTrust(db, 40, 1);
     const run = await newRun(trust.trustId);
     await heldBy(run.id, 'another-host/4243/alive000', sql`now()`);
-    expect(await executeRun(run.id)).toBe(false);
+    expect(await executeRun(db, pool, run.id)).toBe(false);
     const untouched = await runOf(run.id);
     expect(untouched).toMatchObject({
       status: 'running',
@@ -156,16 +157,16 @@ describe('a run whose worker dies', () => {
   it('fails cleanly after its last attempt: status failed with the reason, its rows removed, current results kept', async () => {
     const trust = await bigTrust(db, 200, 2);
     const previous = await newRun(trust.trustId);
-    await executeRun(previous.id);
+    await executeRun(db, pool, previous.id);
     const run = await newRun(trust.trustId);
     const crash = () => {
       throw new Error('simulated worker fault');
     };
     for (let attempt = 1; attempt < MAX_ATTEMPTS; attempt++) {
-      expect(await attemptRun(run.id, { chunkSize: 25, afterChunk: crash })).toMatchObject({ next: 'retry' });
+      expect(await attemptRun(db, pool, run.id, { chunkSize: 25, afterChunk: crash })).toMatchObject({ next: 'retry' });
       expect((await runOf(run.id)).status).toBe('running');
     }
-    expect(await attemptRun(run.id, { chunkSize: 25, afterChunk: crash })).toEqual({ next: 'failed' });
+    expect(await attemptRun(db, pool, run.id, { chunkSize: 25, afterChunk: crash })).toEqual({ next: 'failed' });
     const failed = await runOf(run.id);
     expect(failed.status).toBe('failed');
     expect(failed.attempts).toBe(MAX_ATTEMPTS);
@@ -206,7 +207,7 @@ describe('the rooms a run assesses', () => {
       .where('code', '=', 'R000001')
       .returning('id')
       .executeTakeFirstOrThrow();
-    expect(await executeRun(run.id, { chunkSize: 7 })).toBe(true);
+    expect(await executeRun(db, pool, run.id, { chunkSize: 7 })).toBe(true);
     const done = await runOf(run.id);
     expect(done.status).toBe('succeeded');
     expect(done.roomsDone).toBe(60);

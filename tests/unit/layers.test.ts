@@ -38,3 +38,20 @@ describe('import directions', () => {
     ).toEqual([]);
   });
 });
+
+describe('the database handle', () => {
+  it('is obtained by routes, pages and job entry points and passed down; lib/server never reaches for it mid-call', () => {
+    const reach = files(join(ROOT, 'src/lib/server'))
+      .filter((f) => /\b(getDb|getPool)\(\)/.test(readFileSync(f, 'utf8')))
+      .map((f) => relative(ROOT, f))
+      .sort();
+    expect(reach).toEqual([
+      // Job entry points: the queues' workers take the process's handles and pass them down.
+      'src/lib/server/assessments/queue.ts',
+      // The better-auth instance is built once on the process's Kysely (the library keeps its own handle).
+      'src/lib/server/auth/auth.ts',
+      'src/lib/server/db/client.ts',
+      'src/lib/server/monitor-logs/analysis.service.ts',
+    ]);
+  });
+});

@@ -1,7 +1,10 @@
 import { hostname } from 'node:os';
+import type { Kysely } from 'kysely';
 import PgBoss from 'pg-boss';
+import type pg from 'pg';
+import type { Database } from '../../../../db/database';
 import { config } from '../config';
-import { getDb } from '../db/client';
+import { getDb, getPool } from '../db/client';
 import { attemptRun, DEAD_AFTER_SECONDS, failRun, MAX_ATTEMPTS, WORKER_ID } from './run-executor';
 import { getRun, idleQueuedRuns, requeueRun, runningRuns } from './runs.repository';
 
@@ -33,6 +36,7 @@ const busyTrusts = new Set<string>();
 
 /** Sends a job for a run (a first attempt or a resumption) and records it on the run as queued. */
 async function queueRun(
+  db: Kysely<Database>,
   boss: PgBoss,
   runId: string,
   note: string | null,
@@ -44,23 +48,26 @@ async function queueRun(
     startAfterSeconds ? { startAfter: startAfterSeconds } : {},
   );
   if (!jobId) throw new Error('pg-boss did not accept the job');
-  await requeueRun(getDb(), runId, jobId, note, fromWorker);
+  await requeueRun(db, runId, jobId, note, fromWorker);
   return jobId;
 }
 
 /** Works one job: the run, unless its trust already has one being worked here (then it waits its turn). */
-async function work(boss: PgBoss, runId: string): Promise<void> {
-  const run = await getRun(getDb(), runId, null);
+async function work(db: Kysely<Database>, pool: pg.Pool, boss: PgBoss, runId: string): Promise<void> {
+  const run = await getRun(db, runId, null);
   if (!run || run.status === 'succeeded' || run.status === 'failed') return;
   if (busyTrusts.has(run.trustId)) {
-    await queueRun(boss, runId, null, { startAfterSeconds: DEFER_SECONDS });
+    await queueRun(db, boss, runId, null, { startAfterSeconds: DEFER_SECONDS });
     return;
   }
   busyTrusts.add(run.trustId);
   try {
-    const outcome = await attemptRun(runId);
+    const outcome = await attemptRun(db, pool, runId);
     if (outcome.next === 'retry')
-      await queueRun(boss, runId, `Retrying after: ${outcome.reason}`, { startAfterSeconds: 2, fromWorker: WORKER_ID });
+      await queueRun(db, boss, runId, `Retrying after: ${outcome.reason}`, {
+        startAfterSeconds: 2,
+        fromWorker: WORKER_ID,
+      });
   } finally {
     busyTrusts.delete(run.trustId);
   }
@@ -84,17 +91,20 @@ function deadOnThisHost(workerId: string | null): boolean {
  * died (so a restart resumes its runs at once) — and resumes each, or fails it after its last attempt.
  * Also re-queues a queued run whose job has been lost.
  */
-export async function sweepRuns(boss: PgBoss): Promise<void> {
-  const db = getDb();
+export async function sweepRuns(db: Kysely<Database>, boss: PgBoss): Promise<void> {
   for (const run of await runningRuns(db, DEAD_AFTER_SECONDS)) {
     if (!run.silent && !deadOnThisHost(run.workerId)) continue;
     const current = await getRun(db, run.id, null);
     // Another sweep (or the worker itself) got there first.
     if (current?.status !== 'running' || current.workerId !== run.workerId) continue;
     if (current.attempts >= MAX_ATTEMPTS) {
-      await failRun(run.id, `The worker stopped ${current.attempts} times before the run finished. Start a new run.`);
+      await failRun(
+        db,
+        run.id,
+        `The worker stopped ${current.attempts} times before the run finished. Start a new run.`,
+      );
     } else {
-      await queueRun(boss, run.id, 'Resuming: the worker stopped before the run finished.', {
+      await queueRun(db, boss, run.id, 'Resuming: the worker stopped before the run finished.', {
         fromWorker: current.workerId,
       });
     }
@@ -102,7 +112,7 @@ export async function sweepRuns(boss: PgBoss): Promise<void> {
   for (const run of await idleQueuedRuns(db, QUEUED_IDLE_SECONDS)) {
     const job = run.jobId ? await boss.getJobById(RUN_QUEUE, run.jobId, { includeArchive: true }) : null;
     if (job && (job.state === 'created' || job.state === 'retry' || job.state === 'active')) continue;
-    await queueRun(boss, run.id, null);
+    await queueRun(db, boss, run.id, null);
   }
 }
 
@@ -114,14 +124,18 @@ export function getQueue(): Promise<PgBoss> {
   started ??= (async () => {
     const boss = new PgBoss({ connectionString: config().databaseUrl, max: 4, application_name: 'airtally-queue' });
     boss.on('error', (error) => console.error('pg-boss error', error));
+    // The queue's jobs are entry points: they take the process's database handles here and pass them down.
+    const db = getDb();
+    const pool = getPool();
     await boss.start();
     await boss.createQueue(RUN_QUEUE, { name: RUN_QUEUE, retryLimit: 0, expireInSeconds: EXPIRE_SECONDS });
     for (let i = 0; i < WORKERS; i++) {
       await boss.work<RunJob>(RUN_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-        if (job) await work(boss, job.data.runId);
+        if (job) await work(db, pool, boss, job.data.runId);
       });
     }
-    const sweep = () => sweepRuns(boss).catch((error: unknown) => console.error('Assessment run sweep failed', error));
+    const sweep = () =>
+      sweepRuns(db, boss).catch((error: unknown) => console.error('Assessment run sweep failed', error));
     await sweep();
     sweeper = setInterval(sweep, SWEEP_MS);
     sweeper.unref();
@@ -145,9 +159,9 @@ export function startQueueOnBoot(): void {
 }
 
 /** Queues a new run; returns the job id. */
-export async function enqueueRun(runId: string): Promise<string> {
+export async function enqueueRun(db: Kysely<Database>, runId: string): Promise<string> {
   const boss = await getQueue();
-  return queueRun(boss, runId, null);
+  return queueRun(db, boss, runId, null);
 }
 
 /** Stops the queue (tests and shutdown). */

@@ -1,4 +1,5 @@
-import { sql } from 'kysely';
+import { type Kysely, sql } from 'kysely';
+import type { Database } from '../../../../db/database';
 import {
   assessRoom,
   EngineInputError,
@@ -7,7 +8,6 @@ import {
   type RoomAssessmentInput,
 } from '../../engine';
 import type { ActiveTrust } from '../auth/context';
-import { getDb } from '../db/client';
 import { badRequest, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { WhatIfBody } from './assessments.schemas';
@@ -47,8 +47,7 @@ function explainEngineErrors<T>(assess: () => T): T {
 }
 
 /** The room's latest stored result with its rank from the one ranking (the same as every page and export). */
-async function latestResult(trustId: string, roomId: string): Promise<LatestResult | null> {
-  const db = getDb();
+async function latestResult(db: Kysely<Database>, trustId: string, roomId: string): Promise<LatestResult | null> {
   const { rows } = await sql<{ run_id: string; finished_at: Date | null; assumptions_version: string | null }>`
     SELECT rr.run_id, ar.finished_at, ar.assumptions_version
     FROM room_results rr JOIN assessment_runs ar ON ar.id = rr.run_id
@@ -66,8 +65,11 @@ async function latestResult(trustId: string, roomId: string): Promise<LatestResu
 }
 
 /** The room page's assessment: computed now, so it reflects the register as it is; null when the room is not in scope. */
-export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Promise<RoomAssessmentView | null> {
-  const db = getDb();
+export async function getRoomAssessment(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+): Promise<RoomAssessmentView | null> {
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) return null;
   const stored = await getCurrentAssumptionSet(db, trust.id);
@@ -75,7 +77,7 @@ export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Pro
   return {
     assessment,
     assumptionsLabel: stored.label,
-    latest: await latestResult(trust.id, roomId),
+    latest: await latestResult(db, trust.id, roomId),
   };
 }
 
@@ -91,8 +93,12 @@ export interface WhatIfAnswer {
  * added from the catalogue (the room is then judged as mechanically ventilated with the units' supply on top of
  * any it has). Reads only; writes nothing.
  */
-export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBody): Promise<WhatIfAnswer> {
-  const db = getDb();
+export async function whatIf(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+  body: WhatIfBody,
+): Promise<WhatIfAnswer> {
   const room = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!room) throw notFound('That room');
   const { set } = await getCurrentAssumptionSet(db, trust.id);

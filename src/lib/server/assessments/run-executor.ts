@@ -3,7 +3,9 @@ import { hostname } from 'node:os';
 import { EngineInputError, type AssumptionSet } from '../../engine';
 import { assessWithEvidence } from '../monitor-logs/evidence.repository';
 import type { RunProblem } from '../../../../db/tables/assessments';
-import { getDb, getPool } from '../db/client';
+import type { Kysely } from 'kysely';
+import type pg from 'pg';
+import type { Database } from '../../../../db/database';
 import { getAssumptionSetById } from './assumptions.repository';
 import { readRunChunk } from './engine-input.repository';
 import { toResultRow, type ResultRow } from './result-row';
@@ -35,14 +37,14 @@ export interface ExecuteOptions {
 export const defaultChunkSize = (roomsTotal: number) => Math.min(2000, Math.max(100, Math.ceil(roomsTotal / 20)));
 
 /** Beats the run's heartbeat until stopped; `lost` turns true once the run is no longer this worker's. */
-function startHeartbeat(runId: string, workerId: string) {
+function startHeartbeat(db: Kysely<Database>, runId: string, workerId: string) {
   const state = { lost: false, stop: () => clearInterval(timer) };
   let beating = false;
   const timer = setInterval(() => {
     // One beat at a time: a beat waiting on the switch to current (which locks the run) is not repeated.
     if (beating) return;
     beating = true;
-    beat(getDb(), runId, workerId)
+    beat(db, runId, workerId)
       .then((mine) => {
         if (!mine) state.lost = true;
       })
@@ -63,8 +65,12 @@ function startHeartbeat(runId: string, workerId: string) {
  * switched current in one transaction. Returns false when the run was not this worker's to work
  * (finished, or held by another worker); throws on any unexpected error, leaving the run resumable.
  */
-export async function executeRun(runId: string, options: ExecuteOptions = {}): Promise<boolean> {
-  const db = getDb();
+export async function executeRun(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  runId: string,
+  options: ExecuteOptions = {},
+): Promise<boolean> {
   const workerId = options.workerId ?? WORKER_ID;
   const found = await getRun(db, runId, null);
   if (!found || found.status === 'succeeded' || found.status === 'failed') return false;
@@ -75,10 +81,10 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
   }
   if ((await claimRun(db, runId, workerId, DEAD_AFTER_SECONDS)) === null) return false;
   const run = (await getRun(db, runId, null))!;
-  const heartbeat = startHeartbeat(runId, workerId);
+  const heartbeat = startHeartbeat(db, runId, workerId);
   try {
     const chunkSize = options.chunkSize ?? defaultChunkSize(run.roomsTotal);
-    const written = await assessAndWrite(run, workerId, stored.set, chunkSize, heartbeat, options.afterChunk);
+    const written = await assessAndWrite(db, pool, run, workerId, stored.set, chunkSize, heartbeat, options.afterChunk);
     const flipped = await flipRunCurrent(
       db,
       { runId, workerId, trustId: run.trustId, schoolId: run.schoolId },
@@ -98,6 +104,8 @@ export async function executeRun(runId: string, options: ExecuteOptions = {}): P
  * the resume point always matches what is written.
  */
 async function assessAndWrite(
+  db: Kysely<Database>,
+  pool: pg.Pool,
   run: Run,
   workerId: string,
   set: AssumptionSet,
@@ -105,7 +113,6 @@ async function assessAndWrite(
   heartbeat: { lost: boolean },
   afterChunk: ExecuteOptions['afterChunk'],
 ): Promise<number> {
-  const db = getDb();
   let cursor = run.resumeAfterRoomId;
   let roomsDone = run.roomsDone;
   let written = 0;
@@ -129,7 +136,7 @@ async function assessAndWrite(
       cursor = lastRoomId;
       await pending;
       const chunk = { roomsDone: covered, lastRoomId, problems };
-      pending = commitChunk(getPool(), { id: run.id, workerId }, rows, chunk).then(async () => {
+      pending = commitChunk(pool, { id: run.id, workerId }, rows, chunk).then(async () => {
         roomsDone += chunk.roomsDone;
         written += rows.length;
         await afterChunk?.(roomsDone);
@@ -155,16 +162,21 @@ export type AttemptOutcome = { next: 'none' } | { next: 'retry'; reason: string 
  * One attempt at a run (the queue's job): work it; on an error either ask for another attempt, or after the
  * last one fail it cleanly and remove its half-written rows. A run another worker took over is left to it.
  */
-export async function attemptRun(runId: string, options: ExecuteOptions = {}): Promise<AttemptOutcome> {
+export async function attemptRun(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  runId: string,
+  options: ExecuteOptions = {},
+): Promise<AttemptOutcome> {
   try {
-    await executeRun(runId, options);
+    await executeRun(db, pool, runId, options);
     return { next: 'none' };
   } catch (error) {
     if (error instanceof RunTakenOver) return { next: 'none' };
-    const run = await getRun(getDb(), runId, null);
+    const run = await getRun(db, runId, null);
     if (!run || run.status === 'succeeded' || run.status === 'failed') return { next: 'none' };
     if (run.attempts >= MAX_ATTEMPTS) {
-      await failRun(runId, `The run stopped with an error after ${run.attempts} attempts: ${describe(error)}`);
+      await failRun(db, runId, `The run stopped with an error after ${run.attempts} attempts: ${describe(error)}`);
       return { next: 'failed' };
     }
     return { next: 'retry', reason: describe(error) };
@@ -172,8 +184,7 @@ export async function attemptRun(runId: string, options: ExecuteOptions = {}): P
 }
 
 /** Fails a run and deletes the results it wrote (none of them ever became current). */
-export async function failRun(runId: string, message: string): Promise<void> {
-  const db = getDb();
+export async function failRun(db: Kysely<Database>, runId: string, message: string): Promise<void> {
   await markFailed(db, runId, message);
   await deleteNonCurrentResults(db, runId);
 }

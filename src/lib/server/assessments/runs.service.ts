@@ -1,6 +1,8 @@
+import type { Kysely } from 'kysely';
+import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
-import { getDb } from '../db/client';
+import { findSchool } from '../estate/schools.repository';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
@@ -49,23 +51,15 @@ export const toStatusView = (run: Run): RunStatusView => ({
  * same scope that is still queued or running is returned instead of starting a second one.
  */
 export async function startRun(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   actor: Actor,
   body: StartRunBody,
 ): Promise<{ id: string; alreadyRunning: boolean }> {
-  const db = getDb();
   const schoolId = body.scope === 'school' ? body.schoolId : null;
   if (schoolId === null && trust.schoolIds !== null)
     throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
-  if (schoolId !== null) {
-    const school = await db
-      .selectFrom('schools')
-      .select('id')
-      .where('trust_id', '=', trust.id)
-      .where('id', '=', schoolId)
-      .executeTakeFirst();
-    if (!school || (trust.schoolIds !== null && !trust.schoolIds.includes(schoolId))) throw notFound('That school');
-  }
+  if (schoolId !== null && !(await findSchool(db, trust, schoolId))) throw notFound('That school');
   await getQueue();
   const active = await findActiveRun(db, trust.id, schoolId);
   if (active) return { id: active.id, alreadyRunning: true };
@@ -91,7 +85,7 @@ export async function startRun(
     });
     return runId;
   });
-  await enqueueRun(id);
+  await enqueueRun(db, id);
   return { id, alreadyRunning: false };
 }
 
@@ -99,7 +93,7 @@ export async function startRun(
  * The runs a member may see. A member limited to some schools sees no run of another school, and of a
  * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms).
  */
-async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
+async function visibleTo(db: Kysely<Database>, trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
   const allowed = trust.schoolIds;
   if (allowed === null) return runs;
   const visible = runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId));
@@ -107,7 +101,7 @@ async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
   const inSchools = new Set(
     roomIds.length && allowed.length
       ? (
-          await getDb()
+          await db
             .selectFrom('rooms')
             .select('id')
             .where('id', 'in', roomIds)
@@ -120,15 +114,19 @@ async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
 }
 
 /** A run's status (a run whose worker died is resumed or failed by the queue's sweep within a minute). */
-export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunStatusView> {
-  const run = await getRun(getDb(), id, trust.id);
-  const [visible] = run ? await visibleTo(trust, [run]) : [];
+export async function getRunStatus(db: Kysely<Database>, trust: ActiveTrust, id: string): Promise<RunStatusView> {
+  const run = await getRun(db, id, trust.id);
+  const [visible] = run ? await visibleTo(db, trust, [run]) : [];
   if (!visible) throw notFound('That assessment run');
   return toStatusView(visible);
 }
 
 /** The trust's recent runs, newest first. */
-export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
+export async function listRecentRuns(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  limit: number,
+): Promise<RunStatusView[]> {
   await getQueue();
-  return (await visibleTo(trust, await listRuns(getDb(), trust.id, limit))).map(toStatusView);
+  return (await visibleTo(db, trust, await listRuns(db, trust.id, limit))).map(toStatusView);
 }

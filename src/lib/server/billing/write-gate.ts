@@ -1,6 +1,5 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { getDb } from '../db/client';
 import { AppError, toErrorResponse } from '../http/errors';
 import { getBillingAccount } from './billing.repository';
 import { billingStanding } from './standing';
@@ -44,7 +43,11 @@ function readOnlyPage(message: string, back: string): Response {
  * to an /app page's form by a member of a read-only trust, the 402 response to send; otherwise null.
  * Reads, exports, sign-in, the account and billing always pass.
  */
-export async function billingWriteGate(locals: App.Locals, request: Request): Promise<Response | null> {
+export async function billingWriteGate(
+  db: Kysely<Database>,
+  locals: App.Locals,
+  request: Request,
+): Promise<Response | null> {
   if (READ_METHODS.has(request.method) || !locals.trust) return null;
   const path = new URL(request.url).pathname;
   const api = path.startsWith('/api/');
@@ -53,7 +56,7 @@ export async function billingWriteGate(locals: App.Locals, request: Request): Pr
   if (page && PAGES_OPEN.some((p) => p.test(path))) return null;
   if (!api && !page) return null;
   try {
-    await assertWritable(getDb(), locals.trust.id);
+    await assertWritable(db, locals.trust.id);
     return null;
   } catch (error) {
     if (api || !(error instanceof AppError)) return toErrorResponse(error);
