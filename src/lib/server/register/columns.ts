@@ -64,6 +64,7 @@ export const REGISTER_FIELDS = [
   'blockFuelPriceGbpPerKwh',
   'blockHeatingEfficiency',
   'notes',
+  'schoolPostcode',
 ] as const;
 export type RegisterField = (typeof REGISTER_FIELDS)[number];
 
@@ -406,6 +407,15 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     width: 40,
     synonyms: ['notes', 'note', 'comments', 'comment', 'remarks'],
     guide: 'Anything else worth keeping with the room.',
+  },
+  {
+    field: 'schoolPostcode',
+    header: 'School postcode',
+    kind: 'text',
+    width: 14,
+    synonyms: ['school postcode', 'postcode', 'post code', 'site postcode', 'postal code'],
+    guide:
+      "Only read when the row creates a new school: its postcode area gives the school's climate region (kept as its address).",
   },
 ];
 
