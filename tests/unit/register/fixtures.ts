@@ -248,5 +248,5 @@ export const TRUST_SURVEY_EXPECTED = {
       regionSource: 'postcode',
     },
     'Oakfield Academy': { phaseSource: 'default', regionSource: 'default' },
-  },
+  } as Record<string, Record<string, string>>,
 };

@@ -46,9 +46,11 @@ export interface ParsedRow {
 /** What a row is: nothing, a total line to skip, a note or heading to skip, or a room. */
 export type RowKind = 'blank' | 'subtotal' | 'note' | 'room';
 
-type CellParser = (value: CellValue) => Parsed<string | number>;
+/** Reads one cell of a column. */
+export type CellParser = (value: CellValue) => Parsed<string | number>;
 
-function parserFor(field: RegisterField, header: string): CellParser {
+/** The reader of a register column's cells (its header may carry a unit, e.g. "Ceiling height (mm)"). */
+export function parserFor(field: RegisterField, header: string): CellParser {
   const column = columnOf(field);
   switch (column.kind) {
     case 'text':
