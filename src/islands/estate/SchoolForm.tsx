@@ -228,6 +228,7 @@ export function SchoolForm({
           <div className="mt-1 grid gap-2 sm:grid-cols-3">
             {blocks.map((b) => (
               <label key={b.id}>
+                <span className="sr-only">Heating plant year of block </span>
                 {b.name}
                 <input
                   inputMode="numeric"

@@ -92,6 +92,19 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
   const problems = preview?.problems.filter((p) => showWarnings || p.severity === 'error') ?? [];
   const errors = preview?.summary.errors ?? 0;
   const fieldLabel = (field: string | null) => options.fields.find((f) => f.value === field)?.label ?? 'Not imported';
+  // Codes as people read them ("natural_single_sided" → "Natural, single-sided").
+  const codeLabels = new Map(
+    [
+      ...options.uses,
+      ...options.ventilationTypes,
+      ...options.ageGroups,
+      ...options.windowTypes,
+      ...options.frameMaterials,
+      ...options.heatingFuels,
+    ].map((o) => [o.value, o.label]),
+  );
+  const valueLabel = (value: string | number | null) =>
+    typeof value === 'string' ? (codeLabels.get(value) ?? value) : String(value);
 
   return (
     <section aria-label="Import a register" className="space-y-4">
@@ -267,8 +280,10 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
               schools={preview.newSchools}
               options={options}
               onChoose={(choices) => {
-                setSchoolChoices(choices);
-                void send(file, { headerRow, mapping, schools: choices });
+                // Earlier choices stand; the new ones are added to them.
+                const merged = { ...schoolChoices, ...choices };
+                setSchoolChoices(merged);
+                void send(file, { headerRow, mapping, schools: merged });
               }}
             />
           )}
@@ -376,8 +391,8 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                           {c.fields
                             .map((f) =>
                               c.kind === 'new'
-                                ? `${fieldLabel(f.field)} ${String(f.after)}`
-                                : `${fieldLabel(f.field)}: ${f.before === null ? 'unknown' : String(f.before)} → ${f.after === null ? 'unknown' : String(f.after)}`,
+                                ? `${fieldLabel(f.field)} ${valueLabel(f.after)}`
+                                : `${fieldLabel(f.field)}: ${f.before === null ? 'unknown' : valueLabel(f.before)} → ${f.after === null ? 'unknown' : valueLabel(f.after)}`,
                             )
                             .join('; ')}
                         </td>
@@ -568,7 +583,16 @@ function NewSchoolsList({
         type="button"
         className="mt-3 rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-50"
         disabled={!changed}
-        onClick={() => onChoose(draft)}
+        onClick={() =>
+          // Only what the person changed: values the file, name or postcode gave keep saying where they came from.
+          onChoose(
+            Object.fromEntries(
+              schools
+                .filter((s) => draft[s.name]?.phase !== s.phase || draft[s.name]?.climateRegion !== s.climateRegion)
+                .map((s) => [s.name, draft[s.name] ?? {}]),
+            ),
+          )
+        }
       >
         Use these phases and regions
       </button>
