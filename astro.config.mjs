@@ -7,12 +7,14 @@ import { fileURLToPath } from 'node:url';
 
 const STARTUP = fileURLToPath(new URL('./src/lib/server/startup.ts', import.meta.url));
 const PARSE_WORKER = fileURLToPath(new URL('./src/lib/server/register/parse-worker.ts', import.meta.url));
+const LOG_XLSX_WORKER = fileURLToPath(new URL('./src/lib/server/monitor-logs/xlsx-worker.ts', import.meta.url));
 
 /**
  * The built server runs src/lib/server/startup.ts before the Node adapter listens: imported at the top of
  * the adapter's server module, it refuses an unsafe configuration, guards every request and starts the
  * assessment queue, whether the server is started by `npm start` or by `node dist/server/entry.mjs`.
- * It also emits the register reader's worker thread as dist/server/register-parse-worker.mjs.
+ * It also emits the upload readers' worker threads as dist/server/register-parse-worker.mjs (register
+ * previews) and dist/server/log-xlsx-worker.mjs (monitor-log workbooks).
  * @returns {import('vite').Plugin}
  */
 function airtallyServer() {
@@ -24,7 +26,9 @@ function airtallyServer() {
       ssr = Boolean(config.build.ssr);
     },
     buildStart() {
-      if (ssr) this.emitFile({ type: 'chunk', id: PARSE_WORKER, fileName: 'register-parse-worker.mjs' });
+      if (!ssr) return;
+      this.emitFile({ type: 'chunk', id: PARSE_WORKER, fileName: 'register-parse-worker.mjs' });
+      this.emitFile({ type: 'chunk', id: LOG_XLSX_WORKER, fileName: 'log-xlsx-worker.mjs' });
     },
     /** @param {string} code @param {string} id */
     transform(code, id) {

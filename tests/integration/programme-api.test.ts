@@ -345,6 +345,62 @@ describe('capital programme API', () => {
       expect(text).toContain((r as unknown as { roomCode: string }).roomCode);
   });
 
+  it("puts a room's measured CO2 in the bid pack: the stalest season with enough school days", async () => {
+    const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
+      programmes: { id: string; name: string }[];
+    };
+    const baseId = list.programmes.find((p) => p.name === 'Three years')!.id;
+    const { programme: base } = (await (await api(`/api/programmes/${baseId}`, { cookie: admin.cookie })).json()) as {
+      programme: View;
+    };
+    const line = roomsOf(base)[0]!;
+    const schoolRooms = roomsOf(base).filter((r) => r.schoolId === line.schoolId);
+    // Invented readings summary: winter 1,432 ppm over 21 days, mid-season 1,610 ppm over only 3 days
+    // (too few to count), summer 905 ppm over 14 days. The pack should show 1,432.
+    const season = (name: string, days: number, occupiedMeanPpm: number) => ({ season: name, days, occupiedMeanPpm });
+    await db
+      .insertInto('monitor_room_analyses')
+      .values({
+        room_id: line.roomId,
+        trust_id: admin.trustId,
+        school_id: line.schoolId,
+        days: 38,
+        first_date: '2026-01-05',
+        last_date: '2026-07-10',
+        result: JSON.stringify({
+          seasons: {
+            winter: season('winter', 21, 1432.4),
+            mid: season('mid', 3, 1610),
+            summer: season('summer', 14, 905),
+          },
+          days: 38,
+          firstDate: '2026-01-05',
+          lastDate: '2026-07-10',
+        }),
+        criterion_pack_id: 'test',
+        assumptions_version: 'test',
+      })
+      .execute();
+    try {
+      const created = await create({ name: 'With measurements', settings: settings() });
+      expect(created.status, await created.clone().text()).toBe(201);
+      const { programme } = (await created.json()) as { programme: View };
+      const response = await api(`/api/programmes/${programme.id}/bid-pack.pdf?schoolId=${line.schoolId}`, {
+        cookie: admin.cookie,
+      });
+      expect(response.status).toBe(200);
+      const text = (await pdfPages(await response.arrayBuffer())).join(' ');
+      expect(text).toContain('1,432');
+      expect(text).not.toContain('1,610');
+      expect(text).toContain(`where they exist (1 of ${schoolRooms.length} rooms)`);
+      expect(text).not.toContain('No monitor readings are held');
+      const removed = await api(`/api/programmes/${programme.id}`, { method: 'DELETE', cookie: admin.cookie });
+      expect(removed.status).toBeLessThan(300);
+    } finally {
+      await db.deleteFrom('monitor_room_analyses').where('room_id', '=', line.roomId).execute();
+    }
+  });
+
   it('compares two scenarios, re-plans from the latest results and deletes (all audited)', async () => {
     const list = (await (await api('/api/programmes', { cookie: admin.cookie })).json()) as {
       programmes: { id: string; name: string }[];

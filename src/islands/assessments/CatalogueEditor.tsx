@@ -3,6 +3,7 @@ import { QueryClientProvider } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
 import type { UnitModel } from '../../lib/engine';
 import { assessmentsQueryClient, useSaveCatalogue } from '../../lib/client/assessments';
+import { useHydrated } from '../use-hydrated';
 
 type Model = UnitModel;
 
@@ -25,6 +26,7 @@ const COLUMNS: { key: keyof Model; label: string; kind: 'technical' | 'financial
 ];
 
 function Editor({ models: initial, canTechnical, canFinancial }: Props) {
+  const hydrated = useHydrated();
   const [models, setModels] = useState(initial);
   const save = useSaveCatalogue();
   const isNew = (m: Model) => !initial.some((x) => x.id === m.id);
@@ -116,7 +118,7 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
         {(canTechnical || canFinancial) && (
           <button
             type="submit"
-            disabled={save.isPending}
+            disabled={!hydrated || save.isPending}
             className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60"
           >
             Save catalogue as a new version
@@ -134,7 +136,7 @@ function Editor({ models: initial, canTechnical, canFinancial }: Props) {
 
 export default function CatalogueEditor(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Editor {...props} />
     </QueryClientProvider>
   );

@@ -8,6 +8,8 @@ import {
   useStartRun,
   type RunStatusView,
 } from '../../lib/client/assessments';
+import { formatDateTime, formatDecimals, formatInteger } from '../../lib/format';
+import { useHydrated } from '../use-hydrated';
 
 interface Props {
   canRun: boolean;
@@ -23,11 +25,10 @@ const STATUS_WORDS: Record<RunStatusView['status'], string> = {
   succeeded: 'Finished',
   failed: 'Failed',
 };
-const when = (iso: string | null) =>
-  iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—';
+const when = (iso: string | null) => formatDateTime(iso);
 const seconds = (run: RunStatusView) =>
   run.startedAt && run.finishedAt
-    ? `${((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000).toFixed(1)} s`
+    ? `${formatDecimals((new Date(run.finishedAt).getTime() - new Date(run.startedAt).getTime()) / 1000, 1, 1)} s`
     : '—';
 
 function Progress({ id, onDone }: { id: string; onDone: () => void }) {
@@ -53,7 +54,7 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
           {data.scope === 'school' && data.schoolName ? ` · ${data.schoolName}` : ' · whole trust'}
         </span>
         <span>
-          {data.roomsDone.toLocaleString('en-GB')} of {data.roomsTotal.toLocaleString('en-GB')} rooms
+          {formatInteger(data.roomsDone)} of {formatInteger(data.roomsTotal)} rooms
         </span>
       </div>
       <div
@@ -101,6 +102,7 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
 }
 
 function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
+  const hydrated = useHydrated();
   const client = useQueryClient();
   const runs = useRuns(initialRuns);
   const start = useStartRun();
@@ -137,7 +139,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
           </label>
           <button
             type="submit"
-            disabled={start.isPending}
+            disabled={!hydrated || start.isPending}
             className="rounded-control bg-brand px-4 py-2 text-sm font-semibold text-white disabled:opacity-60"
           >
             Run assessment
@@ -188,7 +190,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
                     {r.status === 'failed' && r.error ? `: ${r.error}` : ''}
                   </td>
                   <td className="pr-4 text-right">
-                    {r.roomsDone.toLocaleString('en-GB')} / {r.roomsTotal.toLocaleString('en-GB')}
+                    {formatInteger(r.roomsDone)} / {formatInteger(r.roomsTotal)}
                   </td>
                   <td className="pr-4 text-right">{seconds(r)}</td>
                   <td className="pr-4">{r.assumptionsVersion ?? '—'}</td>
@@ -205,7 +207,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
 
 export default function RunPanel(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Panel {...props} />
     </QueryClientProvider>
   );

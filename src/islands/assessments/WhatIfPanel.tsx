@@ -2,6 +2,9 @@
 import { QueryClientProvider } from '@tanstack/react-query';
 import { lazy, Suspense, useState, type FormEvent } from 'react';
 import { assessmentsQueryClient, useWhatIf, type WhatIfAnswer, type WhatIfBody } from '../../lib/client/assessments';
+import { useHydrated } from '../use-hydrated';
+import { riskBandTitle } from '../../lib/engine/risk';
+import { formatGbp, formatInteger } from '../../lib/format';
 
 const Co2DayChart = lazy(() => import('./Co2DayChart'));
 
@@ -13,8 +16,8 @@ interface Props {
   catalogue: { id: string; name: string; nominalFlowLps: number }[];
 }
 
-const int = (v: number) => Math.round(v).toLocaleString('en-GB');
-const gbp = (v: number) => `£${int(v)}`;
+const int = (v: number) => (Number.isFinite(v) ? formatInteger(Math.round(v)) : '—');
+const gbp = (v: number) => (Number.isFinite(v) ? formatGbp(v) : '—');
 const SEASON_LABELS = { winter: 'Winter', mid: 'Spring and autumn', summer: 'Summer' } as const;
 
 function Comparison({ answer }: { answer: WhatIfAnswer }) {
@@ -22,7 +25,7 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
   const worstA = a.seasons[a.worstSeason];
   const worstB = b.seasons[b.worstSeason];
   const rows: [string, string, string][] = [
-    ['Risk band', a.risk.bandLabel, b.risk.bandLabel],
+    ['Band', riskBandTitle(a.risk.band), riskBandTitle(b.risk.band)],
     ['Pupil-hours a year above threshold', int(a.risk.pupilHoursPerYearAbove), int(b.risk.pupilHoursPerYearAbove)],
     [
       'Worst-season occupied mean CO2',
@@ -37,14 +40,14 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
     ],
     ['Criterion', a.criteriaMet ? 'Met' : 'Not met', b.criteriaMet ? 'Met' : 'Not met'],
     [
-      'Units still recommended',
-      a.appraisal?.feasible ? a.appraisal.unitModels : '—',
-      b.appraisal?.feasible ? b.appraisal.unitModels : '—',
+      'Units recommended',
+      a.appraisal?.feasible && a.appraisal.recommended ? a.appraisal.unitModels : 'None',
+      b.appraisal?.feasible && b.appraisal.recommended ? b.appraisal.unitModels : 'None',
     ],
     [
       'Capital of those units',
-      a.appraisal?.feasible ? gbp(a.appraisal.capitalCostGbp) : '—',
-      b.appraisal?.feasible ? gbp(b.appraisal.capitalCostGbp) : '—',
+      a.appraisal?.feasible && a.appraisal.recommended ? gbp(a.appraisal.capitalCostGbp) : '—',
+      b.appraisal?.feasible && b.appraisal.recommended ? gbp(b.appraisal.capitalCostGbp) : '—',
     ],
   ];
   const curves = (['winter', 'mid', 'summer'] as const).map((s) => ({
@@ -86,6 +89,7 @@ function Comparison({ answer }: { answer: WhatIfAnswer }) {
 }
 
 function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Props) {
+  const hydrated = useHydrated();
   const [pupilsText, setPupilsText] = useState(String(pupils));
   const [openableText, setOpenableText] = useState(String(openableAreaM2));
   const [modelId, setModelId] = useState('');
@@ -162,7 +166,7 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
         </div>
         <button
           type="submit"
-          disabled={ask.isPending}
+          disabled={!hydrated || ask.isPending}
           className="rounded-control bg-brand px-4 py-1.5 text-sm font-semibold text-white disabled:opacity-60"
         >
           {ask.isPending ? 'Working it out…' : 'Show what changes'}
@@ -180,7 +184,7 @@ function Panel({ roomId, pupils, openableAreaM2, glazingAreaM2, catalogue }: Pro
 
 export default function WhatIfPanel(props: Props) {
   return (
-    <QueryClientProvider client={assessmentsQueryClient}>
+    <QueryClientProvider client={assessmentsQueryClient()}>
       <Panel {...props} />
     </QueryClientProvider>
   );

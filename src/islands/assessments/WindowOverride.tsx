@@ -1,8 +1,10 @@
 /** Correct the winter window opening the model assumed, for one room (saved to the register through the room API). */
 import { useState, type FormEvent } from 'react';
 import { apiFetch } from '../../lib/client/api';
+import { useHydrated } from '../use-hydrated';
 
 export default function WindowOverride({ roomId, value }: { roomId: string; value: number | null }) {
+  const hydrated = useHydrated();
   const [percent, setPercent] = useState(value === null ? '' : String(Math.round(value * 100)));
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
@@ -40,7 +42,7 @@ export default function WindowOverride({ roomId, value }: { roomId: string; valu
       </label>
       <button
         type="submit"
-        disabled={busy}
+        disabled={!hydrated || busy}
         className="rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-60"
       >
         Save for this room
@@ -48,7 +50,7 @@ export default function WindowOverride({ roomId, value }: { roomId: string; valu
       {value !== null && (
         <button
           type="button"
-          disabled={busy}
+          disabled={!hydrated || busy}
           className="rounded-control border border-line px-3 py-1.5"
           onClick={(e) => void save(e, true)}
         >

@@ -1,6 +1,7 @@
 /** Calibrate a room's model from its readings, or revert to the uncalibrated model. */
 import { useState } from 'react';
 import { calibrateRoom, revertCalibration } from '../../lib/client/monitoring';
+import { useHydrated } from '../use-hydrated';
 
 export default function CalibrationPanel({
   roomId,
@@ -11,6 +12,7 @@ export default function CalibrationPanel({
   label: string | null;
   canCalibrate: boolean;
 }) {
+  const hydrated = useHydrated();
   const [current, setCurrent] = useState(label);
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
@@ -53,7 +55,7 @@ export default function CalibrationPanel({
           <button
             type="button"
             className="rounded-control bg-brand px-3 py-1.5 font-semibold text-white"
-            disabled={busy}
+            disabled={!hydrated || busy}
             onClick={() => void act('calibrate')}
           >
             {current ? 'Calibrate again from the latest readings' : 'Calibrate the model from these readings'}
@@ -62,7 +64,7 @@ export default function CalibrationPanel({
             <button
               type="button"
               className="rounded-control border border-line px-3 py-1.5"
-              disabled={busy}
+              disabled={!hydrated || busy}
               onClick={() => void act('revert')}
             >
               Revert to the uncalibrated model

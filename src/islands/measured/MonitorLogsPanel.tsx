@@ -15,7 +15,8 @@ import {
   type LogOutcome,
   type LogView,
 } from '../../lib/client/monitoring';
-import { formatCount } from '../../lib/format';
+import { formatCount, formatDate, formatDateTime, formatInteger } from '../../lib/format';
+import { useHydrated } from '../use-hydrated';
 
 export interface RoomChoice {
   id: string;
@@ -52,7 +53,7 @@ const MATCH_WORDS: Record<string, string> = {
   skipped: 'left out',
 };
 
-const day = (iso: string | null) => (iso ? iso.slice(0, 10) : '—');
+const day = (iso: string | null) => formatDate(iso);
 
 function ProgressBar({ label, fraction }: { label: string; fraction: number | null }) {
   return (
@@ -82,6 +83,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
   const [schoolId, setSchoolId] = useState('');
   const [progress, setProgress] = useState<number | null>(null);
   const [busy, setBusy] = useState<string | null>(null);
+  const hydrated = useHydrated();
   const [preview, setPreview] = useState<LogView | null>(null);
   const [choices, setChoices] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
@@ -173,7 +175,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
   const remove = async (log: LogListItem) => {
     if (
       !window.confirm(
-        `Delete ${log.fileName} and its ${log.readings.toLocaleString('en-GB')} readings? Other logs stay as they are.`,
+        `Delete ${log.fileName} and its ${formatInteger(log.readings)} readings? Other logs stay as they are.`,
       )
     )
       return;
@@ -240,7 +242,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
             <button
               type="button"
               className="rounded-control bg-brand px-4 py-2 font-semibold text-white"
-              disabled={busy !== null}
+              disabled={!hydrated || busy !== null}
               onClick={() => input.current?.click()}
             >
               Choose log files…
@@ -258,7 +260,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
           {outcome && (
             <p className="mt-3 rounded-control bg-brand-soft px-3 py-2" role="status">
               {outcome.status === 'committed'
-                ? `Imported ${outcome.readingsImported.toLocaleString('en-GB')} readings for ${formatCount(outcome.rooms, 'room')}${outcome.sensorsLeftOut > 0 ? `; ${formatCount(outcome.sensorsLeftOut, 'sensor')} left out` : ''}.`
+                ? `Imported ${formatInteger(outcome.readingsImported)} readings for ${formatCount(outcome.rooms, 'room')}${outcome.sensorsLeftOut > 0 ? `; ${formatCount(outcome.sensorsLeftOut, 'sensor')} left out` : ''}.`
                 : 'Cancelled: nothing was stored.'}
             </p>
           )}
@@ -267,8 +269,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
               <div>
                 <h3 className="font-semibold">{preview.fileName}</h3>
                 <p className="text-sm">
-                  {preview.readings.toLocaleString('en-GB')} readings from {day(preview.firstAt)} to{' '}
-                  {day(preview.lastAt)};{' '}
+                  {formatInteger(preview.readings)} readings from {day(preview.firstAt)} to {day(preview.lastAt)};{' '}
                   {(preview.layout as { kind: string }).kind === 'long'
                     ? 'one row per reading'
                     : (preview.layout as { kind: string }).kind === 'wide'
@@ -327,7 +328,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
                             </label>
                           )}
                         </td>
-                        <td className="pr-3 text-right">{s.readings.toLocaleString('en-GB')}</td>
+                        <td className="pr-3 text-right">{formatInteger(s.readings)}</td>
                         <td className="pr-3 text-right">{s.days}</td>
                         <td className="pr-3">
                           {s.intervalSeconds ? `${Math.round(s.intervalSeconds / 60) || '<1'} min` : '—'}
@@ -356,7 +357,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
                     const named = p as typeof p & { label?: string; leftOut?: boolean };
                     return (
                       <li key={p.kind}>
-                        <strong>{named.label ?? p.kind}</strong>: {p.count.toLocaleString('en-GB')}
+                        <strong>{named.label ?? p.kind}</strong>: {formatInteger(p.count)}
                         {named.leftOut ? ' (left out)' : ''}. e.g.{' '}
                         {p.examples
                           .slice(0, 3)
@@ -371,12 +372,12 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
                 <button
                   type="button"
                   className="rounded-control bg-brand px-4 py-2 font-semibold text-white"
-                  disabled={busy !== null}
+                  disabled={!hydrated || busy !== null}
                   onClick={() => void finish('commit')}
                 >
                   {unmatched.length > 0
                     ? `Import; leave out ${formatCount(unmatched.length, 'sensor')} without a room`
-                    : `Import ${preview.readings.toLocaleString('en-GB')} readings`}
+                    : `Import ${formatInteger(preview.readings)} readings`}
                 </button>
                 <button
                   type="button"
@@ -404,7 +405,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
           ) : (
             <p className="mt-1 text-sm" role="status">
               {run.status === 'succeeded'
-                ? `Last analysed ${run.finishedAt?.slice(0, 16).replace('T', ' ')} UTC (${formatCount(run.roomsTotal, 'room')}). Run a new assessment to bring the readings into the ranking.`
+                ? `Last analysed ${formatDateTime(run.finishedAt)} (${formatCount(run.roomsTotal, 'room')}). Run a new assessment to bring the readings into the ranking.`
                 : `The last analysis failed: ${run.error}`}
             </p>
           )}
@@ -442,7 +443,7 @@ export default function MonitorLogsPanel({ canImport, rooms, schools, initialLog
                     <td className="pr-3">
                       {l.status === 'committed' ? 'imported' : l.status === 'previewed' ? 'awaiting import' : 'deleted'}
                     </td>
-                    <td className="pr-3 text-right">{l.readings.toLocaleString('en-GB')}</td>
+                    <td className="pr-3 text-right">{formatInteger(l.readings)}</td>
                     <td className="pr-3 text-right">{l.rooms}</td>
                     <td className="pr-3">{day(l.firstAt)}</td>
                     <td className="pr-3">{day(l.lastAt)}</td>

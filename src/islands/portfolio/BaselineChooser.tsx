@@ -1,6 +1,7 @@
 /** The finance lead chooses the baseline of the headline figures (an assumption: saving it makes a new version). */
 import { useState } from 'react';
 import { apiFetch } from '../../lib/client/api';
+import { useHydrated } from '../use-hydrated';
 
 const CHOICES = [
   ['today', "Today's operation as registered"],
@@ -9,6 +10,7 @@ const CHOICES = [
 ] as const;
 
 export default function BaselineChooser({ current, editable }: { current: string; editable: boolean }) {
+  const hydrated = useHydrated();
   const [value, setValue] = useState(current);
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
@@ -49,7 +51,7 @@ export default function BaselineChooser({ current, editable }: { current: string
       {editable && (
         <button
           type="button"
-          disabled={busy || value === current}
+          disabled={!hydrated || busy || value === current}
           className="rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-60"
           onClick={() => void save()}
         >

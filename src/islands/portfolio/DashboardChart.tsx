@@ -17,7 +17,7 @@ interface Props {
 }
 
 const TITLES: Record<DashboardChartKind, string> = {
-  co2: 'Stale air by school',
+  co2: 'Daily mean CO₂ by school',
   scatter: 'Risk against payback',
   cumulative: 'What each pound buys, in ranked order',
 };
@@ -25,7 +25,7 @@ const TITLES: Record<DashboardChartKind, string> = {
 function caption(kind: DashboardChartKind, d: Dashboard): string {
   switch (kind) {
     case 'co2':
-      return "Rooms in each school by their worst season's mean CO₂ over the school day. The longer the amber and red parts of a bar, the more rooms in that school have stale air.";
+      return "Rooms in each school by their worst season's mean CO₂ over the school day, in ppm: the darker the part of a bar, the higher the CO₂. These are levels, not the bands: each room's band compares it with its own criterion (see the priorities).";
     case 'scatter':
       return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years the net savings (heating less fans and servicing, against the finance lead's baseline) take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back (the heat they save does not cover fans and servicing) are not plotted.` : ''}`;
     case 'cumulative':
@@ -121,7 +121,7 @@ function TableAlternative({ kind, d, bandLabels }: { kind: DashboardChartKind; d
           {byBand.map((b) => (
             <tr key={b.band} className="border-t border-line">
               <th scope="row" className={`${cell} font-normal`}>
-                {b.band} {bandLabels[b.band - 1]}
+                {bandLabels[b.band - 1]}
               </th>
               <td className={`${cell} text-right tabular-nums`}>{b.count}</td>
               <td className={`${cell} text-right tabular-nums`}>

@@ -19,6 +19,7 @@ import {
   type PriorityRow,
   type Weights,
 } from '../../lib/client/portfolio';
+import { RISK_BAND_RULES, riskBandOfNumber, riskPriority } from '../../lib/engine/risk';
 import { formatGbp, formatInteger, formatNumber } from '../../lib/format';
 import { QueryRoot } from './QueryRoot';
 import { EmptyState, ErrorState, Skeleton } from './States';
@@ -67,7 +68,8 @@ const years = (v: number | null, hasUnits: boolean) =>
 /** Selected rooms across pages, with what the running totals need. */
 type Selection = Map<string, { capital: number; pupils: number }>;
 
-function BandBadge({ band, label }: { band: number; label: string }) {
+/** A band as people read it: its priority (1 = most urgent), its name, and its rule on hover. */
+export function BandBadge({ band, label }: { band: number; label: string }) {
   const colour =
     [
       '',
@@ -76,14 +78,34 @@ function BandBadge({ band, label }: { band: number; label: string }) {
       'border-band-3 text-band-3',
       'border-band-4 text-band-4',
     ][band] ?? '';
+  const named = riskBandOfNumber(band);
+  const priority = riskPriority(named);
   return (
     <span
-      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-control border px-2 py-0.5 text-xs font-semibold ${colour}`}
+      className={`inline-flex cursor-help items-center gap-1 rounded-control border px-2 py-0.5 text-xs font-semibold ${colour}`}
+      title={`Priority ${priority}: ${RISK_BAND_RULES[named]}`}
+      data-testid="band-badge"
+      data-priority={priority}
     >
-      <span aria-hidden="true">{band}</span>
+      <span>
+        <span className="sr-only">Priority </span>P{priority}
+      </span>
+      <span className="sr-only">:</span>
       {label}
     </span>
   );
+}
+
+/** The units column: the models for a room that needs them, "None needed" for one that meets its criterion, else why not. */
+function UnitsCell({ row }: { row: PriorityRow }) {
+  if (row.criteriaMet)
+    return (
+      <span className="text-xs text-ink-muted" title="The room meets its criterion: no units are recommended.">
+        None needed
+      </span>
+    );
+  if (row.unitCount > 0) return <span className="text-xs">{row.unitsRecommended}</span>;
+  return <span className="text-xs text-ink-muted">{row.unitsRecommended || 'None: see the room page for why'}</span>;
 }
 
 function Priorities(props: PrioritiesProps) {
@@ -153,24 +175,54 @@ function Priorities(props: PrioritiesProps) {
       },
       {
         id: 'school',
-        header: 'School and block',
+        header: 'Room, school and block',
         cell: ({ row }) => (
-          <span>
-            {row.original.schoolName}
-            <span className="block text-xs text-ink-muted">{row.original.blockName ?? 'No block'}</span>
+          <span className="block min-w-40">
+            <a href={`/app/rooms/${row.original.roomId}`} className="font-semibold">
+              {row.original.roomCode}
+              <span className="block text-xs font-normal">{row.original.roomName}</span>
+            </a>
+            <span className="block text-xs text-ink-muted">
+              {row.original.schoolName} · {row.original.blockName ?? 'No block'}
+            </span>
           </span>
         ),
       },
       {
-        id: 'room',
-        enableSorting: false,
-        header: 'Room',
+        id: 'riskBand',
+        header: 'Band',
         cell: ({ row }) => (
-          <a href={`/app/rooms/${row.original.roomId}`}>
-            {row.original.roomCode}
-            <span className="block text-xs text-ink-muted">{row.original.roomName}</span>
-          </a>
+          <span className="flex min-w-36 flex-col items-start gap-0.5">
+            <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} />
+            <span className="text-xs text-ink-muted" data-testid="risk-evidence">
+              {EVIDENCE_LABELS[row.original.riskEvidence]}
+            </span>
+          </span>
         ),
+      },
+      {
+        id: 'unitCount',
+        header: 'Units recommended',
+        cell: ({ row }) => <UnitsCell row={row.original} />,
+      },
+      {
+        id: 'capitalCostGbp',
+        header: 'Capital',
+        meta: { numeric: true },
+        cell: ({ row }) => money(row.original.capitalCostGbp),
+      },
+      {
+        id: 'simplePaybackYears',
+        header: 'Payback',
+        meta: { numeric: true },
+        cell: ({ row }) => years(row.original.simplePaybackYears, row.original.unitCount > 0),
+      },
+      {
+        id: 'pupilHours',
+        enableSorting: false,
+        header: 'Pupil-hours a year above the limit',
+        meta: { numeric: true },
+        cell: ({ row }) => formatInteger(row.original.pupilHoursAbove),
       },
       { id: 'pupils', header: 'Pupils', meta: { numeric: true }, cell: ({ row }) => row.original.pupils },
       {
@@ -186,39 +238,10 @@ function Priorities(props: PrioritiesProps) {
         cell: ({ row }) => formatInteger(row.original.peakCo2Ppm),
       },
       {
-        id: 'riskBand',
-        header: 'Band',
-        cell: ({ row }) => (
-          <span className="flex flex-col items-start gap-0.5">
-            <BandBadge band={row.original.riskBand} label={row.original.riskBandLabel} />
-            <span className="text-xs text-ink-muted" data-testid="risk-evidence">
-              {EVIDENCE_LABELS[row.original.riskEvidence]}
-            </span>
-          </span>
-        ),
-      },
-      {
         id: 'reason',
         enableSorting: false,
         header: 'Why',
         cell: ({ row }) => <span className="block min-w-64 text-xs">{row.original.reason}</span>,
-      },
-      {
-        id: 'unitCount',
-        header: 'Units recommended',
-        cell: ({ row }) => <span className="text-xs">{row.original.unitsRecommended || '—'}</span>,
-      },
-      {
-        id: 'capitalCostGbp',
-        header: 'Capital',
-        meta: { numeric: true },
-        cell: ({ row }) => money(row.original.capitalCostGbp),
-      },
-      {
-        id: 'simplePaybackYears',
-        header: 'Payback',
-        meta: { numeric: true },
-        cell: ({ row }) => years(row.original.simplePaybackYears, row.original.unitCount > 0),
       },
     ],
     [selection],
@@ -338,7 +361,7 @@ function Priorities(props: PrioritiesProps) {
               <option value="">All bands</option>
               {props.bandLabels.map((b) => (
                 <option key={b.value} value={b.value}>
-                  {b.value} {b.label}
+                  {b.label}
                 </option>
               ))}
             </select>

@@ -1,8 +1,8 @@
 /** Wraps an island in the page's shared QueryClient. */
 import { QueryClientProvider } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
-import { queryClient } from '../../lib/client/portfolio';
+import { portfolioQueryClient } from '../../lib/client/portfolio';
 
 export function QueryRoot({ children }: { children: ReactNode }) {
-  return <QueryClientProvider client={queryClient}>{children}</QueryClientProvider>;
+  return <QueryClientProvider client={portfolioQueryClient()}>{children}</QueryClientProvider>;
 }

@@ -1,8 +1,10 @@
 /** Starts a trust-wide assessment, shows its progress, and reloads the page when the results are in. */
 import { useState } from 'react';
 import { runTrustAssessment } from '../../lib/client/portfolio';
+import { useHydrated } from '../use-hydrated';
 
 export default function RunAssessmentButton({ label = 'Run an assessment' }: { label?: string }) {
+  const hydrated = useHydrated();
   const [state, setState] = useState<
     { kind: 'idle' } | { kind: 'running'; done: number; total: number } | { kind: 'failed'; message: string }
   >({ kind: 'idle' });
@@ -20,7 +22,7 @@ export default function RunAssessmentButton({ label = 'Run an assessment' }: { l
       <button
         type="button"
         className="rounded-control bg-brand px-3 py-1.5 font-semibold text-surface disabled:opacity-60"
-        disabled={state.kind === 'running'}
+        disabled={!hydrated || state.kind === 'running'}
         onClick={() => void start()}
       >
         {state.kind === 'running' ? 'Assessing…' : label}

@@ -1,5 +1,6 @@
 /** Three sliders for the ranking weights, the share each has of the score, and saving them for the trust. */
 import type { Weights } from '../../lib/client/portfolio';
+import { useHydrated } from '../use-hydrated';
 
 interface Props {
   weights: Weights;
@@ -22,6 +23,7 @@ const SLIDERS: { key: keyof Weights; label: string; help: string }[] = [
 const pct = (v: number) => `${Math.round(v * 100)} %`;
 
 export function WeightSliders(props: Props) {
+  const hydrated = useHydrated();
   const { weights } = props;
   const sum = weights.risk + weights.costEffectiveness + weights.payback;
   const changed = SLIDERS.some((s) => Math.abs(weights[s.key] - props.savedWeights[s.key]) > 1e-9);
@@ -79,7 +81,7 @@ export function WeightSliders(props: Props) {
           <button
             type="button"
             className="rounded-control bg-brand px-3 py-1.5 font-semibold text-surface disabled:opacity-50"
-            disabled={!changed || sum === 0 || props.saving}
+            disabled={!hydrated || !changed || sum === 0 || props.saving}
             onClick={props.onSave}
           >
             {props.saving ? 'Saving…' : "Save as the trust's weights"}
@@ -90,7 +92,7 @@ export function WeightSliders(props: Props) {
         <button
           type="button"
           className="font-semibold text-brand underline disabled:opacity-50 disabled:no-underline"
-          disabled={!changed}
+          disabled={!hydrated || !changed}
           onClick={() => props.onChange(props.savedWeights)}
         >
           Back to the saved weights

@@ -13,8 +13,9 @@ import {
   refreshProgramme,
   deleteProgramme,
 } from '../../lib/client/programme';
-import { formatGbp, formatInteger, formatNumber } from '../../lib/format';
+import { formatGbp, formatInteger, formatDecimals, formatNumber } from '../../lib/format';
 import ProgrammeChart from './ProgrammeChart';
+import { useHydrated } from '../use-hydrated';
 
 const num = 'px-2 py-1.5 text-right tabular-nums whitespace-nowrap';
 const button =
@@ -31,7 +32,10 @@ function Card({ label, value, testId }: { label: string; value: string; testId?:
 
 export default function ProgrammeView({ initial }: { initial: View }) {
   const [view, setView] = useState(initial);
-  const [busy, setBusy] = useState(false);
+  const [working, setBusy] = useState(false);
+  // Buttons stay disabled until the island has hydrated, so a first click is never lost.
+  const hydrated = useHydrated();
+  const busy = working || !hydrated;
   const [message, setMessage] = useState<{ kind: 'ok' | 'error'; text: string } | null>(null);
   const [bidSchool, setBidSchool] = useState('');
   const { report } = view;
@@ -98,7 +102,7 @@ export default function ProgrammeView({ initial }: { initial: View }) {
         />
         <Card
           label="Gap to the best possible plan"
-          value={`${report.solve.gapPct < 0.1 ? report.solve.gapPct.toFixed(2) : formatNumber(report.solve.gapPct)} %`}
+          value={`${report.solve.gapPct < 0.1 ? formatDecimals(report.solve.gapPct, 2, 2) : formatNumber(report.solve.gapPct)} %`}
           testId="gap"
         />
       </dl>

@@ -9,6 +9,7 @@ import { onCostBreakdown } from '../../lib/engine/programme/on-costs';
 import type { ProgrammeSettings, WindowId } from '../../lib/engine/programme/types';
 import { ApiError, createProgramme, updateProgramme } from '../../lib/client/programme';
 import { formatGbp } from '../../lib/format';
+import { useHydrated } from '../use-hydrated';
 
 export interface BlockOption {
   id: string;
@@ -34,6 +35,7 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
   const [name, setName] = useState(initialName);
   const [s, setS] = useState<ProgrammeSettings>(initial);
   const [busy, setBusy] = useState(false);
+  const hydrated = useHydrated();
   const [error, setError] = useState<string | null>(null);
   const years = s.budgetsGbp.length;
   const set = (patch: Partial<ProgrammeSettings>) => setS((old) => ({ ...old, ...patch }));
@@ -376,7 +378,7 @@ export default function SettingsForm({ mode, programmeId, basedOn, initialName, 
       <div className="mt-6 flex gap-3">
         <button
           type="submit"
-          disabled={busy}
+          disabled={!hydrated || busy}
           className="rounded-control bg-brand px-4 py-2 font-semibold text-white disabled:opacity-60"
         >
           {busy ? 'Planning…' : mode === 'create' ? 'Make the plan' : 'Save and re-plan'}

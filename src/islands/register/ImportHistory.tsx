@@ -1,4 +1,5 @@
 import { useImports } from '../../lib/client/register';
+import { formatDateTime } from '../../lib/format';
 
 const STATUS: Record<string, string> = {
   previewed: 'Previewed, not imported',
@@ -54,7 +55,7 @@ export function ImportHistory() {
         <tbody>
           {list.map((i) => (
             <tr key={i.id} className="border-b border-line last:border-0">
-              <td className="px-3 py-2 whitespace-nowrap">{new Date(i.createdAt).toLocaleString('en-GB')}</td>
+              <td className="px-3 py-2 whitespace-nowrap">{formatDateTime(i.createdAt)}</td>
               <td className="px-3 py-2">{i.createdByEmail ?? '—'}</td>
               <td className="px-3 py-2">{i.fileName}</td>
               <td className="px-3 py-2">{STATUS[i.status] ?? i.status}</td>

@@ -23,7 +23,7 @@ export default function RegisterApp(props: {
     ['history', 'Import history'],
   ];
   return (
-    <QueryClientProvider client={registerQueryClient}>
+    <QueryClientProvider client={registerQueryClient()}>
       <div role="tablist" aria-label="Register" className="flex gap-1 border-b border-line">
         {tabs.map(([id, text]) => (
           <button

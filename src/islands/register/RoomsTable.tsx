@@ -18,6 +18,7 @@ import {
   type RoomFields,
   type RoomsQuery,
 } from '../../lib/client/register';
+import { formatDecimals } from '../../lib/format';
 import { EditableCell } from './EditableCell';
 import { AddRoomForm } from './AddRoomForm';
 import type { Option, RegisterOptions, RegisterPermissions, SchoolOption } from './types';
@@ -54,6 +55,17 @@ const roomFields = (r: Room): RoomFields => ({
   winterWindowOpenFraction: r.winterWindowOpenFraction,
   notes: r.notes,
 });
+
+/** Numbers as en-GB text with at most two decimals, so a height entered as 2.75 m reads 2.75 (never 2.8). */
+const numberDisplay = (value: unknown): string | undefined =>
+  typeof value === 'number' ? formatDecimals(value, 2) : undefined;
+
+/** The select box and the room code stay in view while the table scrolls sideways. */
+function stickyClass(meta: unknown, id: string, afterSelect: boolean): string {
+  if (!(meta as { sticky?: boolean } | undefined)?.sticky) return '';
+  if (id === 'select') return 'sticky left-0 z-10 w-9 min-w-9 bg-surface';
+  return `sticky z-10 bg-surface shadow-[2px_0_0_0_var(--color-line)] ${afterSelect ? 'left-9' : 'left-0'}`;
+}
 
 /** Checks an edited room the way the import does; null when it may be sent. */
 function problemWith(room: Room, change: Partial<RoomFields>): string | null {
@@ -127,6 +139,7 @@ export function RoomsTable({
         <EditableCell
           value={row.original[id] as string | number | null}
           kind={kind}
+          display={numberDisplay(row.original[id])}
           nullable={nullable}
           editable={editable}
           label={`${header} of room ${row.original.code}`}
@@ -153,6 +166,7 @@ export function RoomsTable({
     if (can.canUpdate || can.canDelete) {
       cols.push({
         id: 'select',
+        meta: { sticky: true },
         header: ({ table }) => (
           <input
             type="checkbox"
@@ -171,11 +185,44 @@ export function RoomsTable({
         ),
       });
     }
+    const code = text('code', 'Room code', 'text');
     cols.push(
-      { id: 'school', header: 'School', cell: ({ row }) => row.original.schoolName },
-      { id: 'block', header: 'Block', cell: ({ row }) => row.original.blockName ?? '—' },
-      text('code', 'Room code', 'text'),
+      {
+        ...code,
+        // The room code stays in view while the table scrolls sideways, with the way to the room's page.
+        meta: { sticky: true },
+        cell: (ctx) => (
+          <span className="flex items-center gap-2">
+            <span className="min-w-12">{flexRender(code.cell, ctx)}</span>
+            <a
+              href={`/app/rooms/${ctx.row.original.id}`}
+              className="text-xs font-semibold whitespace-nowrap"
+              aria-label={`Open room ${ctx.row.original.code} of ${ctx.row.original.schoolName}`}
+            >
+              Open ›
+            </a>
+          </span>
+        ),
+      },
       text('name', 'Room name', 'text'),
+      {
+        id: 'school',
+        header: 'School',
+        cell: ({ row }) => (
+          <span className="block max-w-48 truncate" title={row.original.schoolName}>
+            {row.original.schoolName}
+          </span>
+        ),
+      },
+      {
+        id: 'block',
+        header: 'Block',
+        cell: ({ row }) => (
+          <span className="block max-w-36 truncate" title={row.original.blockName ?? undefined}>
+            {row.original.blockName ?? '—'}
+          </span>
+        ),
+      },
       select('use', 'Use', options.uses, true),
       text('floorAreaM2', 'Floor m²', 'number'),
       text('ceilingHeightM', 'Ceiling m', 'number', true),
@@ -431,7 +478,7 @@ export function RoomsTable({
                     <th
                       key={h.id}
                       scope="col"
-                      className="whitespace-nowrap px-2 py-2"
+                      className={`whitespace-nowrap px-2 py-2 ${stickyClass(h.column.columnDef.meta, h.column.id, can.canUpdate || can.canDelete)}`}
                       aria-sort={SORTABLE.has(h.column.id) ? sorted : undefined}
                     >
                       {SORTABLE.has(h.column.id) ? (
@@ -452,7 +499,10 @@ export function RoomsTable({
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-b border-line last:border-0" data-room-code={row.original.code}>
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="whitespace-nowrap px-2 py-1">
+                  <td
+                    key={cell.id}
+                    className={`whitespace-nowrap px-2 py-1 ${stickyClass(cell.column.columnDef.meta, cell.column.id, can.canUpdate || can.canDelete)}`}
+                  >
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

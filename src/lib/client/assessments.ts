@@ -1,5 +1,6 @@
 /** Data fetching for the assessments islands: typed calls of our API and react-query hooks. */
-import { QueryClient, useMutation, useQuery } from '@tanstack/react-query';
+import { useMutation, useQuery } from '@tanstack/react-query';
+import { pageQueryClient } from './query-client';
 import type { RunStatusView } from '../server/assessments/runs.service';
 import type { WhatIfAnswer } from '../server/assessments/room-assessment.service';
 import type {
@@ -12,10 +13,9 @@ import { apiFetch } from './api';
 
 export type { RunStatusView, WhatIfAnswer, AssumptionEditBody, StartRunBody, UnitCatalogueBody, WhatIfBody };
 
-/** One QueryClient for the assessments islands of a page. */
-export const assessmentsQueryClient = new QueryClient({
-  defaultOptions: { queries: { retry: 1, refetchOnWindowFocus: false } },
-});
+/** The assessments islands' client: shared by the islands of a page in the browser, new for each server render. */
+export const assessmentsQueryClient = () =>
+  pageQueryClient('assessments', { defaultOptions: { queries: { retry: 1, refetchOnWindowFocus: false } } });
 
 export { ApiError } from './api';
 

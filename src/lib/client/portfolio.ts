@@ -1,5 +1,6 @@
 /** Data fetching for the portfolio islands: one QueryClient shared by every island on a page, and typed hooks. */
-import { keepPreviousData, QueryClient, useMutation, useQuery } from '@tanstack/react-query';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { pageQueryClient } from './query-client';
 import type { Dashboard, PrioritiesPage, WeightSettings, Weights } from '../server/portfolio/portfolio.types';
 import { apiFetch } from './api';
 
@@ -15,10 +16,11 @@ export type {
   Weights,
 } from '../server/portfolio/portfolio.types';
 
-/** Shared by all islands of a page (islands are separate React roots, the module is loaded once). */
-export const queryClient = new QueryClient({
-  defaultOptions: { queries: { staleTime: 30_000, retry: 1, refetchOnWindowFocus: false } },
-});
+/** The portfolio islands' client: shared by the islands of a page in the browser, new for each server render. */
+export const portfolioQueryClient = () =>
+  pageQueryClient('portfolio', {
+    defaultOptions: { queries: { staleTime: 30_000, retry: 1, refetchOnWindowFocus: false } },
+  });
 
 export { ApiError } from './api';
 
@@ -74,6 +76,7 @@ export function useWeights() {
 
 /** Saves the trust's ranking weights, then refreshes the weights and the list. */
 export function useSaveWeights() {
+  const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (weights: Weights) =>
       apiFetch<WeightSettings>('/api/priorities/weights', { method: 'PUT', body: weights }),

@@ -1,5 +1,6 @@
 /** Data fetching for the register islands: rooms (paged on the server), edits with optimistic updates, imports. */
-import { keepPreviousData, QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { pageQueryClient } from './query-client';
 import type { Page, Room } from '../server/estate/estate.types';
 import type { ImportHistoryItem, ImportOutcome, ImportPreview } from '../server/register/import.service';
 import type { RoomCreate, RoomFields } from '../server/estate/estate.schemas';
@@ -8,10 +9,11 @@ import { apiFetch, uploadWithProgress } from './api';
 export type { ImportHistoryItem, ImportOutcome, ImportPreview, Page, Room, RoomFields };
 export type { RegisterField } from '../server/register/columns';
 
-/** One QueryClient for the register page. */
-export const registerQueryClient = new QueryClient({
-  defaultOptions: { queries: { staleTime: 15_000, retry: 1, refetchOnWindowFocus: false } },
-});
+/** The register islands' client: shared by the islands of a page in the browser, new for each server render. */
+export const registerQueryClient = () =>
+  pageQueryClient('register', {
+    defaultOptions: { queries: { staleTime: 15_000, retry: 1, refetchOnWindowFocus: false } },
+  });
 
 /** What the rooms table asks the server for. */
 export interface RoomsQuery {

@@ -61,6 +61,8 @@ export interface AppraisalInputs {
   target: AppliedCriterion;
   criterion: AppliedCriterion;
   meetsTargetToday: boolean;
+  /** True when the room meets its own criterion today: units are then shown as an option, never recommended. */
+  criterionMetToday: boolean;
   todayPupilHours: number;
   heating: HeatingUsed;
   hoursUsed: HoursUsed;
@@ -478,9 +480,11 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     extractTempC: set.energy.heatingIndoorTempC.value,
     heatRecoveryEfficiency: perf.heatRecoveryEfficiency,
   });
-  if (a.meetsTargetToday && head.verdict !== 'pays_back')
+  if (a.criterionMetToday)
     notes.push(
-      'Not recommended: the room meets the mechanical target today and the units would not pay back against the headline baseline.',
+      head.verdict === 'pays_back'
+        ? 'No units needed for air: the room meets its criterion today. Heat recovery would still pay back against the headline baseline, as an energy saving.'
+        : 'No units needed: the room meets its criterion today. The figures show what heat recovery would do for energy and money alone.',
     );
   if (supplyTempC < 16)
     notes.push(
@@ -497,7 +501,7 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
     unitCount: choice.count,
     unitModels: choice.models,
     feasible: true,
-    recommended: !a.meetsTargetToday || head.verdict === 'pays_back',
+    recommended: !a.criterionMetToday,
     combinedSoundDbA: choice.soundDbA,
     soundLimitMet: choice.soundLimitMet,
     supplyTempC,

@@ -12,7 +12,7 @@ import { heatingSupply } from './heating-supply';
 import { infiltrationLps } from './infiltration';
 import { generationAtRoomLps } from './occupancy';
 import { dayOf, hoursOf, hoursUsedOf, perPersonGenerationLps, prepare, thresholdsFor, type Prepared } from './prepared';
-import { assessRisk, pupilHoursPerYear } from './risk';
+import { assessRisk, criterionBand, pupilHoursPerYear } from './risk';
 import { resolveRoom, type ResolvedRoom } from './room-defaults';
 import { assessSeasonDay } from './season-co2';
 import type {
@@ -249,7 +249,12 @@ export function assessRoom(
     mechanicalLps: fanLps,
     pupilHours: todayPupilHours,
     thresholdPpm: criterion.riskThresholdPpm,
-    bandUpper: set.risk.bandUpperPupilHours.value,
+    band: criterionBand({
+      seasons: SEASONS.map((s) => seasons[s]),
+      meanLimitPpm: criterion.meanLimitPpm,
+      maxMinutesCap: criterion.maxMinutesCap,
+      farOverShare: set.risk.farOverShare.value,
+    }),
     halfPupilHours: set.risk.scoreHalfPupilHours.value,
     worstSeason,
     worstMeanPpm: worst.occupiedMeanCo2Ppm,
@@ -302,6 +307,7 @@ export function assessRoom(
           target,
           criterion,
           meetsTargetToday: meetsTarget,
+          criterionMetToday: criteriaMet,
           todayPupilHours,
           heating,
           hoursUsed,

@@ -63,6 +63,10 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
         library: 1.2,
         office: 1.2,
         staff_room: 1.2,
+        sen_room: 1.4,
+        group_room: 1.4,
+        studio: 2.0,
+        dining_room: 1.4,
         other: 1.4,
       },
       'met',
@@ -97,10 +101,20 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
       T,
     ),
     teachingUses: a(
-      ['classroom', 'science_lab', 'practical', 'ict_room', 'music_room', 'library'],
+      [
+        'classroom',
+        'science_lab',
+        'practical',
+        'ict_room',
+        'music_room',
+        'library',
+        'sen_room',
+        'group_room',
+        'studio',
+      ],
       'list',
       'Room uses judged against the CO2 criteria',
-      'BB101 (2018) applies to teaching and learning spaces',
+      'BB101 (2018) sets its CO2 criteria for teaching and learning spaces: classrooms, labs and practical rooms, ICT and music rooms, libraries used for lessons, SEN and small group rooms, and studios used for drama or dance lessons (from memory). Halls, sports halls, dining rooms, offices and staff rooms are large-volume or non-teaching spaces outside those figures',
       'common_practice',
       T,
     ),
@@ -363,15 +377,15 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     ),
   },
   risk: {
-    bandUpperPupilHours: a(
-      [250, 2500, 10000],
-      'pupil-hours a year',
-      'Risk band limits (fresh / stuffy / stale / very stale)',
-      'Airtally screening rule; no published banding',
+    farOverShare: a(
+      0.25,
+      'share of the mean limit',
+      'How far above the daily-mean limit counts as “far over”',
+      'Airtally screening rule (common practice, no single source): bands are measured against the room’s own criterion; a quarter above it (e.g. 1,875 ppm against 1,500 ppm) separates rooms that need more than a tweak to window use',
       'common_practice',
       T,
       {
-        note: 'Our own banding: 2,500 pupil-hours ≈ a class of 30 over the threshold for half an hour a day all year.',
+        note: 'Bands: meets its criterion; peaks over the maximum for longer than allowed; daily mean over the limit; daily mean far over it. Pupil-hours above the threshold are shown separately and drive the ranking.',
       },
     ),
     scoreHalfPupilHours: a(
@@ -525,7 +539,7 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     headlineBaseline: a(
       'same_air_without_recovery',
       '-',
-      'Baseline of the headline figures (today | same_air_without_recovery | simpler_option)',
+      'Baseline of the headline figures',
       'The value of heat recovery itself: the same air without it. Every baseline is shown on the room page and in exports; choose which one the totals and payback ranking use',
       'common_practice',
       F,
@@ -656,7 +670,7 @@ export const DEFAULT_ASSUMPTIONS: AssumptionSet = {
     operation: a(
       { summerMode: 'bypass', extraRunHoursPerDay: 1 },
       'table',
-      'How units run: summer mode (bypass | off) and extra hours a school day',
+      'How units run: in summer, and extra hours a school day',
       'Units run through the school day plus a purge before and after; in summer the recovery is bypassed (or the units are off and windows used)',
       'common_practice',
       T,

@@ -322,7 +322,8 @@ export interface AssumptionSet {
   };
   risk: {
     /** Upper bounds of the first three bands in pupil-hours a year above the threshold. */
-    bandUpperPupilHours: Assumed<[number, number, number]>;
+    /** How far above the mean limit (share of it, 0–1) a daily mean counts as far over. */
+    farOverShare: Assumed<number>;
     /** Pupil-hours a year at which the risk score reaches 0.5. */
     scoreHalfPupilHours: Assumed<number>;
   };
@@ -504,8 +505,8 @@ export interface AppliedCriterion {
   note: string | null;
 }
 
-/** Four bands of our own naming, least to most concern. */
-export type RiskBand = 'fresh' | 'stuffy' | 'stale' | 'very_stale';
+/** Four bands on the criterion measures (how far and how long above the criterion), least to most concern. */
+export type RiskBand = 'meets' | 'peaks_over' | 'over' | 'far_over';
 
 /** How much poor air pupils breathe in this room, banded, with the reason in words. */
 export interface RiskResult {
@@ -656,8 +657,8 @@ export interface RoomAppraisal {
   unitModels: string;
   /** False when no combination within maxUnitsPerRoom meets the flow: units empty and money zero. */
   feasible: boolean;
-  /** True when the units are recommended: the room fails the mechanical target today, or the units pay back
-   *  against the headline baseline (the classic swap of old fans for heat recovery). Every appraisal is kept. */
+  /** True when the units are recommended: the room fails its criterion today. A room that meets it gets no units
+   *  recommended, though its appraisal is kept (the swap of old fans for heat recovery can still pay back). */
   recommended: boolean;
   combinedSoundDbA: number | null;
   soundLimitMet: boolean;

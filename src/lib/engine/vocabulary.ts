@@ -14,7 +14,12 @@ export const SCHOOL_PHASES = [
 ] as const;
 export type SchoolPhase = (typeof SCHOOL_PHASES)[number];
 
-/** What a room is used for; drives the default activity level and whether CO2 criteria apply. */
+/**
+ * What a room is used for; drives the default activity level and whether CO2 criteria apply. The spaces follow the
+ * Department for Education's area guidelines (BB103 (2014) for mainstream and BB104 (2015) for SEND schools: basic
+ * teaching incl. small group and SEN resource rooms, practical, halls and studios, dining, learning resources, staff
+ * and administration; recalled, from memory).
+ */
 export const ROOM_USES = [
   'classroom',
   'science_lab',
@@ -26,6 +31,10 @@ export const ROOM_USES = [
   'library',
   'office',
   'staff_room',
+  'sen_room',
+  'group_room',
+  'studio',
+  'dining_room',
   'other',
 ] as const;
 export type RoomUse = (typeof ROOM_USES)[number];
@@ -138,6 +147,10 @@ const LABELS: Record<string, string> = {
   library: 'Library',
   office: 'Office',
   staff_room: 'Staff room',
+  sen_room: 'SEN / intervention room',
+  group_room: 'Small group room',
+  studio: 'Drama or dance studio',
+  dining_room: 'Dining room',
   other: 'Other',
   early_years: 'Early years (3–5)',
   sixth_form: 'Sixth form (16–19)',

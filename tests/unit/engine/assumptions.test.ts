@@ -108,3 +108,52 @@ describe('sets stored by an earlier engine version', () => {
     expect(set.air.outdoorCo2Ppm.value).toBe(450);
   });
 });
+
+describe('the one declaration of assumption ranges', () => {
+  it('declares a range for every number of the default set, and the defaults sit inside them', async () => {
+    const { assumptionLeaves } = await import('../../../src/lib/engine/assumption-tools');
+    const { assumptionLimit } = await import('../../../src/lib/engine/assumption-limits');
+    const numbers = assumptionLeaves(DEFAULT_ASSUMPTIONS).filter(([, v]) => typeof v === 'number');
+    expect(numbers.length).toBeGreaterThan(100);
+    for (const [path, value] of numbers) {
+      const limit = assumptionLimit(path);
+      expect(limit, path).not.toBeNull();
+      expect(value as number, path).toBeGreaterThanOrEqual(limit!.min);
+      expect(value as number, path).toBeLessThanOrEqual(limit!.max);
+    }
+  });
+
+  it('reads and writes values in the unit people type: 3.5 % is 0.035, 24.55 p/kWh is £0.2455, 09:15 is minute 555', async () => {
+    const { fromDisplay, toDisplay, checkTyped, assumptionLimit, displayUnit } = await import(
+      '../../../src/lib/engine/assumption-limits'
+    );
+    expect(fromDisplay('3.5', 'percent')).toBe(0.035);
+    expect(fromDisplay('3.5 %', 'percent')).toBe(0.035);
+    expect(fromDisplay('24.55', 'pence')).toBe(0.2455);
+    expect(fromDisplay('09:15', 'clock')).toBe(555);
+    expect(fromDisplay('Sep', 'months')).toBe(9);
+    expect(fromDisplay('abc', 'percent')).toBeNull();
+    expect(toDisplay(0.035, 'percent')).toBe('3.5');
+    expect(toDisplay(0.07, 'pence')).toBe('7');
+    expect(toDisplay(540, 'clock')).toBe('09:00');
+    // The Green Book rate is allowed; 25 % is outside the declared 0–20 % and says so in the unit typed.
+    const rate = assumptionLimit('finance.discountRate')!;
+    expect(checkTyped('3.5', rate, '-')).toBeNull();
+    expect(checkTyped('25', rate, '-')).toBe('Must be between 0 and 20 %.');
+    // A cell of a table says its own unit; a cell of a list by month says the unit alone.
+    const roomTemp = assumptionLimit('seasons.winter.indoorTempC')!;
+    expect(checkTyped('35', roomTemp, 'table')).toBe('Must be between 10 and 30 °C.');
+    expect(displayUnit(roomTemp.display, 'table', roomTemp.unit)).toBe('°C');
+    expect(displayUnit(undefined, 'K by month')).toBe('K');
+  });
+
+  it('refuses a value outside its declared range through the engine check, naming the path', () => {
+    const bad = withAssumptionValue(
+      DEFAULT_ASSUMPTIONS,
+      'finance.fuelPricesGbpPerKwh',
+      { ...DEFAULT_ASSUMPTIONS.finance.fuelPricesGbpPerKwh.value, gas: 3 },
+      'x',
+    );
+    expect(() => validateAssumptionSet(bad)).toThrow(/finance\.fuelPricesGbpPerKwh\.gas/);
+  });
+});

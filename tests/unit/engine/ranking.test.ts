@@ -8,7 +8,7 @@ const row = (roomId: string, riskScore: number, ce: number | null, payback: numb
   roomCode: roomId,
   pupils: 30,
   riskScore,
-  riskBand: 'stale',
+  riskBand: 'over',
   pupilHoursPerYearAbove: riskScore * 10000,
   thresholdPpm: 1500,
   criteriaMet: false,
@@ -54,7 +54,7 @@ describe('rankRooms', () => {
   it('gives each room a plain-language reason for its place', () => {
     const ranked = rankRooms(rows, { risk: 2, costEffectiveness: 1, payback: 0 });
     expect(ranked[0]?.rankReason).toBe(
-      '1st of 3: often stale: about 8,000 pupil-hours a year above 1,500 ppm; 100 pupil-hours of poor air removed per £1,000, payback 20 years (weighted most on risk).',
+      '1st of 3: daily mean over the limit: about 8,000 pupil-hours a year above 1,500 ppm; 100 pupil-hours of poor air removed per £1,000, payback 20 years (weighted most on risk).',
     );
     expect(ranked[2]?.rankReason).toMatch(/^3rd of 3: .*no catalogue units recommended/);
   });

@@ -14,6 +14,7 @@ import {
 } from 'ag-charts-community';
 import { AgCharts } from 'ag-charts-react';
 import type { ChartData } from '../chart-data';
+import { formatGbp, formatInteger } from '../../../lib/format';
 import { useDarkTheme } from '../../use-dark-theme';
 
 ModuleRegistry.registerModules([
@@ -25,17 +26,23 @@ ModuleRegistry.registerModules([
   LegendModule,
 ]);
 
-const gbp = (v: number) => `£${Math.round(v).toLocaleString('en-GB')}`;
+const gbp = (v: number) => formatGbp(v);
 const BAND_COLOURS: Record<'light' | 'dark', [string, string, string, string]> = {
   light: ['#2f6f4f', '#6e7d1c', '#9b5a06', '#a1302b'],
   dark: ['#7fcfa3', '#c8d46b', '#f0b45e', '#f08a83'],
+};
+/** CO2 levels in one hue, light to dark: a scale of ppm, deliberately unlike the band colours. */
+const LEVEL_COLOURS: Record<'light' | 'dark', [string, string, string, string]> = {
+  light: ['#c9d6e8', '#8ea9cf', '#4f73a8', '#233f6b'],
+  dark: ['#2b3d57', '#44648f', '#7397c8', '#b4cbea'],
 };
 
 function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
   const bands = dark ? BAND_COLOURS.dark : BAND_COLOURS.light;
   const base = { background: { visible: false }, theme: dark ? 'ag-default-dark' : 'ag-default' } as const;
   switch (data.kind) {
-    case 'co2':
+    case 'co2': {
+      const levels = dark ? LEVEL_COLOURS.dark : LEVEL_COLOURS.light;
       return {
         ...base,
         data: data.rows,
@@ -47,7 +54,8 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
             xKey: 'schoolName',
             yKey: 'below1000',
             yName: 'Below 1,000 ppm',
-            fill: bands[0],
+            fill: levels[0],
+            stroke: levels[0],
           },
           {
             type: 'bar',
@@ -56,7 +64,8 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
             xKey: 'schoolName',
             yKey: 'from1000to1500',
             yName: '1,000–1,499 ppm',
-            fill: bands[1],
+            fill: levels[1],
+            stroke: levels[1],
           },
           {
             type: 'bar',
@@ -65,7 +74,8 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
             xKey: 'schoolName',
             yKey: 'from1500to2000',
             yName: '1,500–1,999 ppm',
-            fill: bands[2],
+            fill: levels[2],
+            stroke: levels[2],
           },
           {
             type: 'bar',
@@ -74,7 +84,8 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
             xKey: 'schoolName',
             yKey: 'above2000',
             yName: '2,000 ppm and above',
-            fill: bands[3],
+            fill: levels[3],
+            stroke: levels[3],
           },
         ],
         axes: {
@@ -83,6 +94,7 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
         },
         legend: { position: 'bottom' },
       };
+    }
     case 'scatter':
       return {
         ...base,
@@ -132,7 +144,7 @@ function options(data: ChartData, dark: boolean): AgCartesianChartOptions {
             type: 'number',
             position: 'left',
             title: { text: 'Pupil-hours removed a year' },
-            label: { formatter: ({ value }) => Math.round(Number(value)).toLocaleString('en-GB') },
+            label: { formatter: ({ value }) => formatInteger(Number(value)) },
           },
         },
         legend: { enabled: false },

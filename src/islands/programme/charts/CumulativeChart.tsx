@@ -3,13 +3,14 @@ import { LegendModule, LineSeriesModule, ModuleRegistry, NumberAxisModule } from
 import { AgCharts } from 'ag-charts-react';
 import { useDarkTheme } from '../../use-dark-theme';
 import type { CumulativeSeries } from '../chart-types';
+import { formatDecimals, formatInteger } from '../../../lib/format';
 
 ModuleRegistry.registerModules([LineSeriesModule, NumberAxisModule, LegendModule]);
 
 const LIGHT = ['#2f6f4f', '#9b5a06', '#3c5a99'];
 const DARK = ['#7fcfa3', '#f0b45e', '#9db7f0'];
 const gbp = (v: number) =>
-  v >= 1e6 ? `£${(v / 1e6).toFixed(1)}m` : `£${Math.round(v / 1000).toLocaleString('en-GB')}k`;
+  v >= 1e6 ? `£${formatDecimals(v / 1e6, 1, 1)}m` : `£${formatInteger(Math.round(v / 1000))}k`;
 
 export default function CumulativeChart({ series }: { series: CumulativeSeries[] }) {
   const dark = useDarkTheme();
@@ -36,7 +37,7 @@ export default function CumulativeChart({ series }: { series: CumulativeSeries[]
                 { label: 'Capital spent', value: gbp(datum.cumulativeCapitalGbp) },
                 {
                   label: 'Pupil-hours removed a year',
-                  value: Math.round(datum.cumulativePupilHoursRemoved).toLocaleString('en-GB'),
+                  value: formatInteger(Math.round(datum.cumulativePupilHoursRemoved)),
                 },
               ],
             }),
@@ -53,7 +54,7 @@ export default function CumulativeChart({ series }: { series: CumulativeSeries[]
             type: 'number',
             position: 'left',
             title: { text: 'Pupil-hours of poor air removed a year' },
-            label: { formatter: ({ value }) => Math.round(Number(value)).toLocaleString('en-GB') },
+            label: { formatter: ({ value }) => formatInteger(Math.round(Number(value))) },
           },
         },
         legend: { enabled: series.length > 1, position: 'bottom' },

@@ -64,3 +64,19 @@ export function compareWithModel(
           : 'agrees';
   return { seasons, largest, direction };
 }
+
+/**
+ * The measured occupied-period mean of the room's stalest season among those with enough good days to
+ * compare (MIN_DAYS_TO_COMPARE), to set beside the model's worst-season mean; null without such a season.
+ */
+export function worstMeasuredSeasonMean(
+  measured: MeasuredRoom,
+): { season: Season; meanPpm: number; days: number } | null {
+  let worst: { season: Season; meanPpm: number; days: number } | null = null;
+  for (const s of Object.values(measured.seasons)) {
+    if (!s || s.occupiedMeanPpm === null || s.days < MIN_DAYS_TO_COMPARE) continue;
+    if (!worst || s.occupiedMeanPpm > worst.meanPpm)
+      worst = { season: s.season, meanPpm: s.occupiedMeanPpm, days: s.days };
+  }
+  return worst;
+}

@@ -1,12 +1,13 @@
 /**
  * Measured evidence in the risk: where a room has enough good readings in a season, the occupancy-weighted
- * minutes above the criterion's risk threshold per school day come from the log instead of the model, and the
- * year's pupil-hours are built the same way as the model's (pupils × minutes over per day × school days ÷ 60,
- * summed over seasons). Seasons without enough readings keep the model's figure (calibrated when the room is).
- * Bands and score are the engine's own (risk.ts). An Airtally screening rule.
+ * minutes above the criterion's risk threshold per school day, the daily mean and the longest run above the maximum come
+ * from the log instead of the model, and the year's pupil-hours are built the same way as the model's (pupils × minutes
+ * over per day × school days ÷ 60, summed over seasons). Seasons without enough readings keep the model's figures
+ * (calibrated when the room is). Band (criterion measures) and score (exposure) are the engine's own rules (risk.ts).
+ * An Airtally screening rule.
  */
 import { formatInt } from '../format';
-import { RISK_BAND_LABELS, riskBand, riskScore } from '../risk';
+import { criterionBand, RISK_BAND_LABELS, riskScore, type SeasonCriterionMeasures } from '../risk';
 import type { AssumptionSet, RiskResult, RoomAssessment, Season } from '../types';
 import { MIN_DAYS_FOR_MEASURED_RISK } from './analyse-room';
 import type { Evidence, MeasuredRoom } from './types';
@@ -43,6 +44,7 @@ export function applyMeasuredEvidence(args: {
   let measuredDays = 0;
   let pupilHours = 0;
   let worst: { season: Season; meanPpm: number; runMinutes: number } | null = null;
+  const measures: SeasonCriterionMeasures[] = [];
   for (const season of SEASONS) {
     const m = measured?.seasons[season];
     const entry = m?.thresholds.find((t) => t.thresholdPpm === threshold);
@@ -52,11 +54,16 @@ export function applyMeasuredEvidence(args: {
       measuredDays += m.days;
       pupilHours += (assessment.pupils * entry.occupiedMinutesOverPerDay * schoolDays) / 60;
       const run = m.thresholds.find((t) => t.thresholdPpm === runThreshold)?.longestRunMinutesMedianDay ?? 0;
+      measures.push({
+        occupiedMeanCo2Ppm: m.occupiedMeanPpm,
+        longestRunAboveMaxMinutes: assessment.criterion.maxLimitPpm === null ? 0 : run,
+      });
       if (!worst || m.occupiedMeanPpm > worst.meanPpm) worst = { season, meanPpm: m.occupiedMeanPpm, runMinutes: run };
     } else {
       const s = assessment.seasons[season];
       const over = s.thresholds.find((t) => t.thresholdPpm === threshold)?.occupiedMinutesOver ?? 0;
       pupilHours += (assessment.pupils * over * schoolDays) / 60;
+      measures.push(s);
     }
   }
   if (measuredSeasons.length === 0 || worst === null)
@@ -70,7 +77,12 @@ export function applyMeasuredEvidence(args: {
       },
     };
   const predicted = SEASONS.filter((s) => !measuredSeasons.includes(s)).map((s) => SEASON_WORDS[s]);
-  const band = riskBand(pupilHours, set.risk.bandUpperPupilHours.value);
+  const band = criterionBand({
+    seasons: measures,
+    meanLimitPpm: assessment.criterion.meanLimitPpm,
+    maxMinutesCap: assessment.criterion.maxMinutesCap,
+    farOverShare: set.risk.farOverShare.value,
+  });
   const run =
     worst.runMinutes >= 1
       ? `over ${formatInt(runThreshold)} ppm for ${formatInt(worst.runMinutes)} minutes in a row on a typical day`

@@ -13,7 +13,14 @@ export {
   type SeasonFit,
 } from './calibrate';
 export { applyMeasuredEvidence, type EvidenceSummary } from './evidence';
-export { compareWithModel, DEFAULT_MARGIN_PPM, type RoomComparison, type SeasonComparison } from './compare';
+export {
+  compareWithModel,
+  DEFAULT_MARGIN_PPM,
+  MIN_DAYS_TO_COMPARE,
+  worstMeasuredSeasonMean,
+  type RoomComparison,
+  type SeasonComparison,
+} from './compare';
 export { fitDecayLogLinear, findDecays, DECAY_RULES } from './decay';
 export { fitBuildUp, riseRatePpmPerH } from './build-up';
 export { outdoorBaseline } from './baseline';

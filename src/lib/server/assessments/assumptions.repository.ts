@@ -1,6 +1,6 @@
 import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { DEFAULT_ASSUMPTIONS, type AssumptionSet } from '../../engine';
+import { completeAssumptionSet, DEFAULT_ASSUMPTIONS, type AssumptionSet } from '../../engine';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
@@ -29,22 +29,6 @@ export interface AssumptionVersionSummary {
 /** The version string results record: the shipped defaults it started from, plus the trust's version number. */
 export const versionLabel = (version: number) => `${DEFAULT_ASSUMPTIONS.version}+trust.${version}`;
 
-const isPlainObject = (x: unknown): x is Record<string, unknown> =>
-  typeof x === 'object' && x !== null && !Array.isArray(x);
-
-/**
- * A stored set with any assumption added to the engine's defaults since it was saved filled in from the
- * defaults, so versions saved by an older release still run. Stored values always win; an assumed value
- * (an object with `value`) is taken whole, never merged inside.
- */
-export function withNewDefaults(stored: unknown, defaults: unknown): unknown {
-  if (!isPlainObject(stored) || !isPlainObject(defaults) || 'value' in defaults) return stored;
-  const out: Record<string, unknown> = { ...stored };
-  for (const [key, fallback] of Object.entries(defaults))
-    out[key] = key in stored ? withNewDefaults(stored[key], fallback) : fallback;
-  return out;
-}
-
 type Row = Database['assumption_sets'] extends infer T ? { [K in keyof T]: unknown } : never;
 
 const toStored = (row: Row): StoredAssumptionSet => ({
@@ -52,7 +36,8 @@ const toStored = (row: Row): StoredAssumptionSet => ({
   trustId: row.trust_id as string,
   version: row.version as number,
   label: row.label as string,
-  set: withNewDefaults(row.values, DEFAULT_ASSUMPTIONS) as AssumptionSet,
+  // Versions saved by an older release run: assumptions added since come from the defaults, retired ones are left out.
+  set: completeAssumptionSet(row.values as AssumptionSet, DEFAULT_ASSUMPTIONS).set,
   changeSummary: row.change_summary as string,
   createdByEmail: row.created_by_email as string | null,
   createdAt: (row.created_at as Date).toISOString(),

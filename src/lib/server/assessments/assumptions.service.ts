@@ -10,6 +10,8 @@ import {
   type AssumptionSet,
   type UnitModel,
 } from '../../engine';
+import { assumptionLimit, rangeInWords } from '../../engine/assumption-limits';
+import { label } from '../../engine/vocabulary';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { can } from '../auth/permissions';
@@ -93,14 +95,31 @@ function requireKind(trust: ActiveTrust, kind: 'technical' | 'financial', what: 
   if (!can(trust.role, 'assumptions', action)) throw forbidden(`change ${kind} assumptions (${what})`);
 }
 
+/** A refused value in words: the assumption's label, where in its table, and the range in the unit people type. */
+function assumptionProblemWords(set: AssumptionSet, path: string, reason: string): string {
+  const entry = listAssumptions(set).find((e) => path === e.path || path.startsWith(`${e.path}.`));
+  if (!entry) return `An assumption ${reason}.`;
+  const where = path
+    .slice(entry.path.length + 1)
+    .split('.')
+    .filter(Boolean)
+    .map((p) => label(p))
+    .join(', ');
+  const limit = assumptionLimit(path);
+  const rule = limit ? `must be ${rangeInWords(limit, entry.unit)}` : reason;
+  return `${entry.label}${where ? ` (${where})` : ''} ${rule}.`;
+}
+
 /** Validates the edited set with the engine's own ranges; a bad value is a 400 naming the assumption. */
 function validated(set: AssumptionSet): AssumptionSet {
   try {
     validateAssumptionSet(set);
     return set;
   } catch (error) {
-    if (error instanceof EngineInputError)
-      throw badRequest(error.message, { path: error.field.replace(/^assumptions\./, '') });
+    if (error instanceof EngineInputError) {
+      const path = error.field.replace(/^assumptions\./, '');
+      throw badRequest(assumptionProblemWords(set, path, error.message.slice(error.field.length + 2)), { path });
+    }
     throw error;
   }
 }

@@ -1,9 +1,7 @@
-import type { RiskBand, RoomAssessment } from '../../engine';
+import type { RoomAssessment } from '../../engine';
+import { riskBandNumber } from '../../engine/risk';
+import { label } from '../../engine/vocabulary';
 import type { EngineRoom } from './engine-input.repository';
-
-/** Risk bands stored as 1–4 (least to most concern) so views can sort and filter on a number. */
-export const RISK_BAND_NUMBERS: Record<RiskBand, number> = { fresh: 1, stuffy: 2, stale: 3, very_stale: 4 };
-export const RISK_BANDS_BY_NUMBER: readonly RiskBand[] = ['fresh', 'stuffy', 'stale', 'very_stale'];
 
 /** A room_results row. Money columns are against the headline baseline (`baseline`); ranks live in portfolio_ranks. */
 export interface ResultRow {
@@ -54,14 +52,20 @@ export interface ResultRow {
   riskEvidence: 'measured' | 'calibrated' | 'predicted';
 }
 
-/** "2 × Wall unit 150 + 1 × Sill unit 60"; empty when no units are recommended. */
-export function describeUnits(assessment: RoomAssessment): string {
+/**
+ * "2 × Wall unit 150 + 1 × Sill unit 60" for a room that fails its criterion and gets units; empty for a room that
+ * meets it (none needed); "None: <why>" for a room that fails it without units (room type, no pupils, no model).
+ */
+export function describeUnits(assessment: RoomAssessment, use: string | null = null): string {
+  if (assessment.criteriaMet) return '';
   const a = assessment.appraisal;
-  if (!a) return '';
+  if (!a) {
+    if (!assessment.isTeachingRoom)
+      return `None: ${use ? `${label(use).toLowerCase()} rooms are` : 'this room type is'} not sized for units (not a teaching room)`;
+    return 'None: no pupils recorded, so no flow to size units for';
+  }
   if (!a.feasible)
-    return a.requiredSupplyLps > 0
-      ? `None: no catalogue combination reaches ${Math.round(a.requiredSupplyLps)} l/s`
-      : '';
+    return `None: no catalogue model reaches ${Math.round(a.requiredSupplyLps)} l/s within the most units a room takes`;
   return a.unitModels;
 }
 
@@ -83,11 +87,11 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     meanCo2Ppm: worst.occupiedMeanCo2Ppm,
     peakCo2Ppm: worst.peakCo2Ppm,
     criteriaMet: assessment.criteriaMet,
-    riskBand: RISK_BAND_NUMBERS[assessment.risk.band],
+    riskBand: riskBandNumber(assessment.risk.band),
     riskScore: assessment.risk.score,
     pupilHoursAbove: assessment.risk.pupilHoursPerYearAbove,
     reason: assessment.risk.reason,
-    unitsRecommended: describeUnits(assessment),
+    unitsRecommended: describeUnits(assessment, room.input.room.use ?? null),
     unitCount: appraisal?.unitCount ?? 0,
     capitalCostGbp: head?.capitalCostGbp ?? null,
     annualSavingGbp: head?.annualNetSavingGbp ?? null,

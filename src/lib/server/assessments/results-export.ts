@@ -3,12 +3,12 @@ import ExcelJS from 'exceljs';
 import { PassThrough, type Readable } from 'node:stream';
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { ENGINE_CAUTIONS, listAssumptions, RISK_BAND_LABELS } from '../../engine';
+import { ENGINE_CAUTIONS, listAssumptions } from '../../engine';
+import { riskBandOfNumber, riskBandTitle } from '../../engine/risk';
 import type { ActiveTrust } from '../auth/context';
 import { guardFormula } from '../formula-guard';
 import { getAssumptionSetById } from './assumptions.repository';
 import { inCanonicalOrder } from './assumptions.service';
-import { RISK_BANDS_BY_NUMBER } from './result-row';
 import { label } from '../../engine/vocabulary';
 import { ensureRanks } from '../portfolio/ranking.repository';
 
@@ -193,14 +193,13 @@ async function writeBook(
       LIMIT ${BATCH}`.execute(db);
     for (const r of rows) {
       if (r.assumption_set_id) setIds.add(r.assumption_set_id);
-      const band = RISK_BANDS_BY_NUMBER[r.risk_band - 1] ?? 'fresh';
       sheet
         .addRow([
           r.rank,
           guardText(r.school),
           guardText(r.block ?? ''),
           guardText(r.code),
-          `${r.risk_band} ${RISK_BAND_LABELS[band]}`,
+          riskBandTitle(riskBandOfNumber(r.risk_band)),
           round(r.mean_co2_ppm),
           round(r.peak_co2_ppm),
           r.unit_count,
@@ -306,7 +305,7 @@ async function writeNotes(
 
 /** The status tags as people read them. */
 export const STATUS_WORDS = {
-  confirmed: 'confirmed',
+  confirmed: 'published source',
   secondary: 'secondary source',
   from_memory: 'from memory',
   common_practice: 'common practice',

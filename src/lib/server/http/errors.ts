@@ -114,6 +114,58 @@ export function fromDatabaseError(error: unknown): AppError | null {
   }
 }
 
+const FIELD_LABELS: Record<string, string> = Object.fromEntries(
+  [...Object.entries(ROOM_LIMITS), ...Object.entries(BLOCK_LIMITS)].map(([key, limit]) => [key, limit.label]),
+);
+/** Unit suffixes of our field names (house style), left out of the words people read. */
+const UNIT_SUFFIX = /(M2|M3hM2|M|Lps|Gbp|Kwh|Ppm|Deg|C|Pct|Years|PerKwh|GbpPerKwh)$/;
+
+/**
+ * The words for a request field a person reads instead of its internal name: the declared label where there is one
+ * ("Openable area"), else the name split into words without its unit suffix ("school id" → "School").
+ */
+export function fieldWords(path: readonly PropertyKey[]): string {
+  const leaf = [...path].reverse().find((p) => typeof p === 'string') as string | undefined;
+  if (!leaf) return '';
+  const known = FIELD_LABELS[leaf];
+  if (known) return known;
+  const words = leaf
+    .replace(UNIT_SUFFIX, '')
+    .replace(/Id$/, '')
+    .replace(/([a-z0-9])([A-Z])/g, '$1 $2')
+    .replace(/_/g, ' ')
+    .toLowerCase()
+    .trim();
+  return words ? words[0]!.toUpperCase() + words.slice(1) : '';
+}
+
+/** Zod's own messages (not ones our schemas wrote) start like this; they are replaced by words. */
+const ZOD_DEFAULT = /^(Too big|Too small|Invalid input|Invalid option|Invalid|Required|Expected)/;
+
+/**
+ * One zod issue in words. Messages our schemas wrote are kept (they say what to do); zod's defaults become a
+ * sentence naming the field by its label, never by its internal name.
+ */
+function issueWords(issue: ZodError['issues'][number]): string {
+  const leaf = [...issue.path].reverse().find((p) => typeof p === 'string') as string | undefined;
+  const field = fieldWords(issue.path);
+  if (!ZOD_DEFAULT.test(issue.message)) {
+    if (!leaf || issue.message.includes(leaf) || issue.message.includes(field)) return issue.message;
+    return `${field}: ${issue.message}`;
+  }
+  const subject = field || 'A value';
+  switch (issue.code) {
+    case 'too_big':
+      return `${subject} must be at most ${Number(issue.maximum).toLocaleString('en-GB')}.`;
+    case 'too_small':
+      return `${subject} must be at least ${Number(issue.minimum).toLocaleString('en-GB')}.`;
+    case 'invalid_type':
+      return issue.input === undefined ? `${subject} is missing.` : `${subject} must be a ${issue.expected}.`;
+    default:
+      return `${subject} is not valid: ${issue.message.replace(ZOD_DEFAULT, '').replace(/^[:\s]+/, '')}`;
+  }
+}
+
 /** The one place errors become HTTP responses: `{ error: { code, message, details } }`. */
 export function toErrorResponse(error: unknown): Response {
   const body = (status: number, code: string, message: string, details: unknown) =>
@@ -123,9 +175,9 @@ export function toErrorResponse(error: unknown): Response {
     });
   if (error instanceof AppError) return body(error.status, error.code, error.message, error.details);
   if (error instanceof ZodError) {
-    const details = error.issues.map((issue) => ({ path: issue.path.join('.'), message: issue.message }));
+    const details = error.issues.map((issue) => ({ path: issue.path.join('.'), message: issueWords(issue) }));
     const first = details[0];
-    const message = first ? `${first.path ? `${first.path}: ` : ''}${first.message}` : 'The request is not valid.';
+    const message = first ? first.message : 'The request is not valid.';
     return body(400, 'invalid_request', message, details);
   }
   const fromDb = fromDatabaseError(error);

@@ -9,6 +9,7 @@ import { parse } from 'csv-parse';
 import { AppError, badRequest } from '../http/errors';
 import { MAX_LOG_UPLOAD_BYTES } from '../http/request-guard';
 import { readXlsx, sniffDelimiter, type SheetRow } from '../register/reader';
+import { xlsxRowBatchesIsolated } from './xlsx-in-worker';
 
 /** Largest CSV log accepted (10 million readings in long format are about 300 MB). */
 export const MAX_CSV_BYTES = MAX_LOG_UPLOAD_BYTES;
@@ -157,17 +158,8 @@ async function readAll(source: Readable, limit: number, onBytes?: (n: number) =>
   return Buffer.concat(parts);
 }
 
-/** The rows of an upload's first sheet with any data, in batches. */
-export async function* logRowBatches(
-  kind: 'csv' | 'xlsx',
-  source: Readable,
-  onBytes?: (n: number) => void,
-): AsyncGenerator<SheetRow[]> {
-  if (kind === 'csv') {
-    yield* csvBatches(source, onBytes);
-    return;
-  }
-  const bytes = await readAll(source, MAX_XLSX_BYTES, onBytes);
+/** The rows of a workbook's first sheet with any data, in batches of 1,000 (this thread). */
+export async function* xlsxRowBatches(bytes: Buffer): AsyncGenerator<SheetRow[]> {
   if (bytes.length === 0) throw badRequest('The file is empty. Choose the log file again.');
   for await (const sheet of readXlsx(bytes, MAX_LOG_ROWS, tooManyLogRows)) {
     let batch: SheetRow[] = [];
@@ -184,4 +176,20 @@ export async function* logRowBatches(
     if (any) return;
   }
   throw badRequest('The workbook has no rows. Check that the log is on the first sheet.');
+}
+
+/**
+ * The rows of an upload's first sheet with any data, in batches: a CSV parsed as it arrives, a workbook
+ * read whole (its zip directory is at its end) and then unpacked in a worker thread (xlsx-in-worker.ts).
+ */
+export async function* logRowBatches(
+  kind: 'csv' | 'xlsx',
+  source: Readable,
+  onBytes?: (n: number) => void,
+): AsyncGenerator<SheetRow[]> {
+  if (kind === 'csv') {
+    yield* csvBatches(source, onBytes);
+    return;
+  }
+  yield* xlsxRowBatchesIsolated(await readAll(source, MAX_XLSX_BYTES, onBytes));
 }

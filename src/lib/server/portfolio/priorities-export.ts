@@ -1,4 +1,5 @@
 /** The priorities list as .xlsx: the current view (filters, sort, weights) plus a Cautions sheet. */
+import { riskBandOfNumber, riskBandTitle } from '../../engine/risk';
 import ExcelJS from 'exceljs';
 import { PassThrough } from 'node:stream';
 import type { Kysely } from 'kysely';
@@ -84,7 +85,7 @@ export async function exportPriorities(
         mean: round(r.meanCo2Ppm),
         peak: round(r.peakCo2Ppm),
         met: r.criteriaMet ? 'Yes' : 'No',
-        band: `${r.riskBand} ${r.riskBandLabel}`,
+        band: riskBandTitle(riskBandOfNumber(r.riskBand)),
         evidence: EVIDENCE_WORDS[r.riskEvidence],
         reason: guardCell(r.reason),
         units: r.unitCount,

@@ -1,16 +1,14 @@
 /** The priorities list: every current room result of the trust, ranked, filtered, sorted and paged in SQL. */
 import { sql, type Kysely, type RawBuilder } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { RISK_BAND_LABELS } from '../../engine/risk';
-import type { RiskBand } from '../../engine/types';
+import { RISK_BAND_LABELS, riskBandOfNumber } from '../../engine/risk';
 import type { ActiveTrust } from '../auth/context';
 import type { PrioritiesQuery, PriorityFilter, PrioritySortKey } from './portfolio.schemas';
 import type { PrioritiesPage, PriorityRow } from './portfolio.types';
 import { ensureRanks, previewRanks } from './ranking.repository';
 
-/** room_results.risk_band (1–4) to the engine's band names, least concern first. */
-export const BAND_BY_NUMBER: Record<number, RiskBand> = { 1: 'fresh', 2: 'stuffy', 3: 'stale', 4: 'very_stale' };
-export const bandLabel = (band: number) => RISK_BAND_LABELS[BAND_BY_NUMBER[band] ?? 'fresh'];
+/** The label of a stored band number (room_results.risk_band, 1 meets … 4 far over). */
+export const bandLabel = (band: number) => RISK_BAND_LABELS[riskBandOfNumber(band)];
 
 /** Sort keys as columns of the ranked set `pr` (portfolio_ranks or the preview ranking over it). */
 const SORT_SQL: Record<PrioritySortKey, RawBuilder<unknown>> = {

@@ -7,6 +7,7 @@ import { PROGRAMME_CAUTIONS } from '../../engine/programme/cautions';
 import { formatGbp, formatInt, formatOneDecimal } from '../../engine/format';
 import { sumBreakdowns } from '../../engine/programme/on-costs';
 import type { RoomLine } from '../../engine/programme/report';
+import { MIN_DAYS_TO_COMPARE } from '../../engine/measured';
 import { AppError } from '../http/errors';
 import { box, COLOURS, createDocument, footers, heading, paragraph, table } from './pdf-kit';
 import { assumptionsAndCautions } from './board-report';
@@ -50,7 +51,7 @@ export async function bidPackPdf(
   const kg = rooms.reduce((s, r) => s + r.annualSavingKgCo2e, 0);
   const lifetime = rooms.reduce((s, r) => s + (r.lifetimeTonnesCo2e ?? 0), 0);
   const units = rooms.reduce((s, r) => s + r.units, 0);
-  const measured = rooms.filter((r) => r.measuredMeanCo2Ppm !== null).length;
+  const measured = rooms.filter((r) => r.measuredMeanCo2Ppm != null).length;
 
   doc.font('bold').fontSize(18).fillColor(COLOURS.brand).text(title);
   doc.font('body').fontSize(10).fillColor(COLOURS.muted);
@@ -72,7 +73,7 @@ export async function bidPackPdf(
   paragraph(
     doc,
     measured > 0
-      ? `Predicted CO2 comes from Airtally's model of each room; measured CO2 from the school's monitor readings where they exist (${measured} of ${rooms.length} rooms).`
+      ? `Predicted CO2 comes from Airtally's model of each room (the worst season's occupied-period mean and peak); measured CO2 from the school's monitor readings where they exist (${measured} of ${rooms.length} rooms): the occupied-period mean of the stalest season with at least ${MIN_DAYS_TO_COMPARE} school days of readings.`
       : "Predicted CO2 comes from Airtally's model of each room (the worst season's occupied-period mean and peak). No monitor readings are held for these rooms: add measurements to strengthen the bid.",
     { colour: COLOURS.muted },
   );
@@ -83,7 +84,7 @@ export async function bidPackPdf(
       { header: 'When', width: 0.15 },
       { header: 'Units', width: 0.16 },
       { header: 'Predicted mean / peak CO2 (ppm)', width: 0.13, align: 'right' },
-      { header: 'Measured mean CO2 (ppm)', width: 0.1, align: 'right' },
+      { header: 'Measured mean CO2, worst season (ppm)', width: 0.1, align: 'right' },
       { header: 'Pupils', width: 0.07, align: 'right' },
       { header: 'Pupil-hours removed a year', width: 0.11, align: 'right' },
       { header: 'Capital with on-costs', width: 0.13, align: 'right' },
@@ -94,7 +95,7 @@ export async function bidPackPdf(
         `${view.report.years[r.year - 1]?.windows.find((w) => w.windowId === r.windowId)?.label ?? view.yearLabels[r.year - 1]}`,
         r.unitsLabel,
         `${formatInt(r.predictedMeanCo2Ppm)} / ${formatInt(r.predictedPeakCo2Ppm)}`,
-        r.measuredMeanCo2Ppm === null ? 'none held' : formatInt(r.measuredMeanCo2Ppm),
+        r.measuredMeanCo2Ppm == null ? 'none held' : formatInt(r.measuredMeanCo2Ppm),
         formatInt(r.pupils),
         formatInt(r.pupilHoursRemovedPerYear),
         formatGbp(r.capital.chargedGbp),

@@ -5,6 +5,7 @@
  */
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
+import { type MeasuredRoom, worstMeasuredSeasonMean } from '../../engine/measured';
 import type { UnplannableRoom } from '../../engine/programme/report';
 import type { ProgrammeCandidate } from '../../engine/programme/types';
 import { ensureRanks } from '../portfolio/ranking.repository';
@@ -52,6 +53,7 @@ interface Row {
   maintenance_gbp: number | null;
   installed_cost_gbp: number | null;
   life_years: number | null;
+  measured: MeasuredRoom | null;
 }
 
 /** The units' life from the appraisal (null when it recommends none). */
@@ -79,12 +81,14 @@ export async function readCandidates(
       -- The headline baseline's servicing line is a saving; the programme counts the units' extra servicing a year.
       -rr.annual_maintenance_saving_gbp AS maintenance_gbp,
       (rr.detail->'appraisal'->>'capitalCostGbp')::float8 AS installed_cost_gbp,
-      (rr.detail->'appraisal'->>'lifeYears')::float8 AS life_years
+      (rr.detail->'appraisal'->>'lifeYears')::float8 AS life_years,
+      ma.result AS measured
     FROM room_results rr
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id
       LEFT JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
+      LEFT JOIN monitor_room_analyses ma ON ma.room_id = rr.room_id AND ma.trust_id = rr.trust_id
     WHERE rr.trust_id = ${trustId} AND rr.is_current ${scope}
     ORDER BY rr.room_id`.execute(db);
 
@@ -116,8 +120,7 @@ export async function readCandidates(
         lifeYears: lifeYears(r),
         predictedMeanCo2Ppm: r.mean_co2_ppm,
         predictedPeakCo2Ppm: r.peak_co2_ppm,
-        // Monitor logs are not stored yet; the bid pack says so.
-        measuredMeanCo2Ppm: null,
+        measuredMeanCo2Ppm: r.measured ? (worstMeasuredSeasonMean(r.measured)?.meanPpm ?? null) : null,
         riskReason: r.reason,
       });
     } else if (!r.criteria_met && r.unit_count === 0) {
@@ -128,7 +131,7 @@ export async function readCandidates(
         schoolId: r.school_id,
         schoolName: r.school_name,
         reason: r.units_recommended
-          ? `Fails its criterion, but no unit fits: ${r.units_recommended}.`
+          ? `Fails its criterion, but gets no units: ${r.units_recommended.replace(/^None: /, '')}.`
           : 'Fails its criterion, but the appraisal recommends no units for it.',
       });
     }

@@ -1,10 +1,9 @@
-import { existsSync } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { AppError, badRequest } from '../http/errors';
+import { FILE_READ_SLOTS, findBuiltWorker } from '../workers/built-worker';
 import { analyseUpload, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
@@ -17,8 +16,6 @@ const WORKER_FILE = 'register-parse-worker.mjs';
 export const PARSE_TIME_LIMIT_MS = 120_000;
 /** Heap a file may use while it is read; a real 200,000-row register needs a fraction of it. */
 const PARSE_HEAP_LIMIT_MB = 1024;
-/** Files read at once (two cores); more wait their turn. */
-const PARSE_SLOTS = 2;
 
 /** What a worker is given. */
 export interface ParseJob {
@@ -35,37 +32,6 @@ export interface ParseJob {
 export type ParseReply =
   | { ok: true; analysis: UploadAnalysis }
   | { ok: false; error: { status?: number; code?: string; message: string; details?: unknown } };
-
-let workerUrl: URL | null | undefined;
-
-/** The built worker next to the server's chunks, or null when running from source (dev, unit tests). */
-function findWorker(): URL | null {
-  if (workerUrl !== undefined) return workerUrl;
-  workerUrl = null;
-  let dir = dirname(fileURLToPath(import.meta.url));
-  for (let up = 0; up < 4; up++, dir = dirname(dir)) {
-    const candidate = join(dir, WORKER_FILE);
-    if (existsSync(candidate)) {
-      workerUrl = pathToFileURL(candidate);
-      break;
-    }
-  }
-  return workerUrl;
-}
-
-let busy = 0;
-const waiting: (() => void)[] = [];
-
-async function withSlot<T>(work: () => Promise<T>): Promise<T> {
-  if (busy >= PARSE_SLOTS) await new Promise<void>((resolve) => waiting.push(resolve));
-  busy++;
-  try {
-    return await work();
-  } finally {
-    busy--;
-    waiting.shift()?.();
-  }
-}
 
 const tooSlow = () =>
   badRequest(
@@ -135,9 +101,9 @@ export async function analyseUploadIsolated(
   snapshot: EstateSnapshot,
   timings: boolean,
 ): Promise<UploadAnalysis> {
-  const url = findWorker();
+  const url = findBuiltWorker(WORKER_FILE);
   if (!url) return analyseUpload(bytes, kind, saved, options, snapshot);
-  return withSlot(async () => {
+  return FILE_READ_SLOTS.run(async () => {
     const tmp = await mkdtemp(join(tmpdir(), 'airtally-import-'));
     try {
       const copy = new Uint8Array(bytes.length);
