@@ -1,4 +1,5 @@
-import { type FormEvent, useEffect, useId, useState } from 'react';
+import { type FormEvent, useId, useState } from 'react';
+import { useHydrated } from '../use-hydrated';
 import { addSchool, changeBlockPlantYear, changeSchool, type SchoolInput } from '../../lib/client/schools';
 import type { Option } from '../register/types';
 
@@ -49,8 +50,7 @@ export function SchoolForm({
   options: SchoolFormOptions;
 }) {
   const id = useId();
-  const [ready, setReady] = useState(false);
-  useEffect(() => setReady(true), []);
+  const ready = useHydrated();
   const [open, setOpen] = useState(false);
   const [values, setValues] = useState<SchoolInput>(initial ?? EMPTY);
   // The price is typed in pence per kWh, as bills show it; the API takes pounds.

@@ -1,4 +1,5 @@
-import { useEffect, useId, useState } from 'react';
+import { useId, useState } from 'react';
+import { useHydrated } from '../use-hydrated';
 import { removeSchool, schoolRemoval } from '../../lib/client/schools';
 import { formatCount } from '../../lib/format';
 
@@ -7,8 +8,7 @@ type Impact = Awaited<ReturnType<typeof schoolRemoval>>;
 /** Removes a school after saying what goes with it (its blocks, rooms, results, members' access) and asking to confirm. */
 export function SchoolRemoval({ schoolId, schoolName }: { schoolId: string; schoolName: string }) {
   const id = useId();
-  const [ready, setReady] = useState(false);
-  useEffect(() => setReady(true), []);
+  const ready = useHydrated();
   const [impact, setImpact] = useState<Impact | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
