@@ -3,28 +3,14 @@
 import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testDb } from '../helpers/db';
+import { commit as commitAs, upload } from '../helpers/imports';
+
+const commit = (cookie: string, id: string) => commitAs(cookie, id, { rows: 'valid' });
 import { api, createOtherTrust } from '../helpers/session';
 import { TRUST_SURVEY_EXPECTED as EXPECTED, trustSurvey } from '../unit/register/fixtures';
 
 const db = testDb();
 afterAll(() => db.destroy());
-
-async function upload(cookie: string, name: string, bytes: Buffer, fields: Record<string, string> = {}) {
-  const form = new FormData();
-  form.set('file', new Blob([new Uint8Array(bytes)]), name);
-  for (const [k, v] of Object.entries(fields)) form.set(k, v);
-  const response = await api('/api/imports', { method: 'POST', cookie, body: form });
-  return { status: response.status, body: (await response.json()) as any };
-}
-
-async function commit(cookie: string, id: string) {
-  const response = await api(`/api/imports/${id}/commit`, {
-    method: 'POST',
-    cookie,
-    body: JSON.stringify({ rows: 'valid' }),
-  });
-  return { status: response.status, body: (await response.json()) as any };
-}
 
 /** A trust of its own on the per-school plan, so a register may create several schools. */
 async function payingTrust() {

@@ -29,6 +29,24 @@ const EMPTY: SchoolInput = {
   timetable: '',
 };
 
+const FIELD = 'mt-1 block w-full rounded-control border border-line bg-surface px-2 py-1';
+
+/** A labelled drop-down of options. */
+function Choice(props: { label: string; value: string; options: Option[]; onChange: (value: string) => void }) {
+  return (
+    <label className="text-sm">
+      {props.label}
+      <select className={FIELD} value={props.value} onChange={(e) => props.onChange(e.target.value)}>
+        {props.options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
+
 /** A number typed in a form field: blank is unknown (null); a comma may be the decimal mark. */
 const numberOrNull = (text: string) => (text.trim() === '' ? null : Number(text.replace(',', '.')));
 
@@ -124,7 +142,7 @@ export function SchoolForm({
       </button>
     );
 
-  const field = 'mt-1 block w-full rounded-control border border-line bg-surface px-2 py-1';
+  const field = FIELD;
   return (
     <form
       onSubmit={(e) => void submit(e)}
@@ -160,26 +178,13 @@ export function SchoolForm({
             onChange={(e) => set('referenceNumber', e.target.value)}
           />
         </label>
-        <label className="text-sm">
-          Phase
-          <select className={field} value={values.phase} onChange={(e) => set('phase', e.target.value)}>
-            {options.phases.map((o) => (
-              <option key={o.value} value={o.value}>
-                {o.label}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm">
-          Climate region
-          <select className={field} value={values.climateRegion} onChange={(e) => set('climateRegion', e.target.value)}>
-            {options.climateRegions.map((o) => (
-              <option key={o.value} value={o.value}>
-                {o.label}
-              </option>
-            ))}
-          </select>
-        </label>
+        <Choice label="Phase" value={values.phase} options={options.phases} onChange={(v) => set('phase', v)} />
+        <Choice
+          label="Climate region"
+          value={values.climateRegion}
+          options={options.climateRegions}
+          onChange={(v) => set('climateRegion', v)}
+        />
         <label className="text-sm sm:col-span-2">
           Address and postcode (optional)
           <input
@@ -189,16 +194,12 @@ export function SchoolForm({
             onChange={(e) => set('address', e.target.value)}
           />
         </label>
-        <label className="text-sm">
-          Heating fuel
-          <select className={field} value={values.heatingFuel} onChange={(e) => set('heatingFuel', e.target.value)}>
-            {options.heatingFuels.map((o) => (
-              <option key={o.value} value={o.value}>
-                {o.label}
-              </option>
-            ))}
-          </select>
-        </label>
+        <Choice
+          label="Heating fuel"
+          value={values.heatingFuel}
+          options={options.heatingFuels}
+          onChange={(v) => set('heatingFuel', v)}
+        />
         <label className="text-sm">
           Fuel price (p/kWh; blank: the trust’s)
           <input inputMode="decimal" className={field} value={pence} onChange={(e) => setPence(e.target.value)} />

@@ -181,7 +181,10 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
         <div className="space-y-4" data-testid="import-preview">
           <h3 className="text-lg font-semibold">
             Preview of {preview.fileName}{' '}
-            <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span>
+            {/* A CSV file has no sheets; a workbook's sheet is named as the workbook names it. */}
+            {!/\.(csv|txt)$/i.test(preview.fileName) && (
+              <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span>
+            )}
           </h3>
           <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4 lg:grid-cols-7">
             {SUMMARY_LABELS.map(([key, text]) => (

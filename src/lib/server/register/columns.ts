@@ -86,7 +86,8 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     values: SCHOOL_PHASES,
     width: 16,
     synonyms: ['school phase', 'phase', 'phase of education', 'school type'],
-    guide: "Needed when the row creates a new school; otherwise it updates the school's phase.",
+    guide:
+      'Optional. For a school Airtally does not know yet it is read from the name where it says (Primary, Infant, High School, Sixth Form College…) or asked once in the preview; for a known school it updates its phase.',
   },
   {
     field: 'block',

@@ -121,21 +121,26 @@ const CODE_LIKE = /^\S{1,40}$/;
  * that text is in the room-code column and reads like a code (a room with everything else missing is reported).
  */
 export function classifyRow(values: CellValue[], columns: CompiledColumn[]): RowKind {
-  if (columns.every((c) => cellText(values[c.index] ?? null) === '')) return 'blank';
-  const codeColumn = columns.find((c) => c.field === 'code');
-  const code = codeColumn ? cellText(values[codeColumn.index] ?? null) : '';
-  if (code !== '' && TOTAL_WORDS.test(code)) return 'subtotal';
+  // One pass over the mapped cells: blank, or the first two different texts (then a room or a total line).
   let only: string | null = null;
-  for (const value of values) {
-    const text = cellText(value ?? null);
+  let code = '';
+  let several = false;
+  for (const c of columns) {
+    const text = cellText(values[c.index] ?? null);
+    if (c.field === 'code') code = text;
     if (text === '' || text === only) continue;
-    if (only !== null) {
-      // More than one thing said: a room, unless a total line.
-      return code === '' && values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v)) ? 'subtotal' : 'room';
-    }
-    only = text;
+    if (only === null) only = text;
+    else several = true;
   }
   if (only === null) return 'blank';
+  if (code !== '' && TOTAL_WORDS.test(code)) return 'subtotal';
+  const totalLine = () => code === '' && values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v));
+  if (several) return totalLine() ? 'subtotal' : 'room';
+  // One text among the mapped cells: a note or heading unless an unmapped cell says something else too.
+  for (const value of values) {
+    const text = cellText(value ?? null);
+    if (text !== '' && text !== only) return totalLine() ? 'subtotal' : 'room';
+  }
   if (TOTAL_WORDS.test(only)) return 'subtotal';
   return code === only && CODE_LIKE.test(only) ? 'room' : 'note';
 }
