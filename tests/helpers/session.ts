@@ -88,3 +88,25 @@ export async function createOtherTrust(): Promise<{ cookie: string; trustId: str
   if (!account.trust) throw new Error(`The new account ${email} has no trust`);
   return { cookie, trustId: account.trust.id, email };
 }
+
+/** Posts an HTML form (urlencoded, as a browser without JavaScript would) to `path`; the answer is not followed. */
+export function postForm(path: string, fields: Record<string, string | string[]>, cookie?: string): Promise<Response> {
+  const body = new URLSearchParams();
+  for (const [name, value] of Object.entries(fields))
+    for (const one of Array.isArray(value) ? value : [value]) body.append(name, one);
+  return api(path, {
+    method: 'POST',
+    cookie,
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: body.toString(),
+  });
+}
+
+/** The one-time message a form's answer leaves for the next page (the `airtally_flash` cookie), or null. */
+export function flashOf(response: Response): { kind: string; message: string } | null {
+  for (const line of response.headers.getSetCookie()) {
+    const match = /^airtally_flash=([^;]*)/.exec(line);
+    if (match?.[1]) return JSON.parse(decodeURIComponent(match[1])) as { kind: string; message: string };
+  }
+  return null;
+}

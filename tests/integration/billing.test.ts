@@ -1,6 +1,6 @@
 // Plans, checkout and plan limits against the running app, real Postgres and the payments fake.
 import { afterAll, describe, expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
+import { DEMO_ACCOUNTS, api, createOtherTrust, flashOf, postForm, signIn } from '../helpers/session';
 import { testDb } from '../helpers/db';
 import {
   addSchool,
@@ -18,6 +18,10 @@ const db = testDb();
 afterAll(() => db.destroy());
 
 type ErrorBody = { error: { code: string; message: string; details: unknown } };
+
+/** The trust's billing record as stored. */
+const billingRow = (trustId: string) =>
+  db.selectFrom('billing_accounts').selectAll().where('trust_id', '=', trustId).executeTakeFirstOrThrow();
 
 describe('plans', () => {
   it('starts a new trust on the free plan with one school and a room limit', async () => {
@@ -365,14 +369,85 @@ describe('only trust admins manage billing', () => {
     });
   }
 
-  it('refuses a form post to the billing page from a viewer', async () => {
+  it('refuses a form post to the billing page itself: the page only shows, its forms post to /api/billing', async () => {
+    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const before = await billingRow('demo-trust');
+    const response = await postForm('/app/settings/billing', { action: 'cancel' }, cookie);
+    expect(response.status).toBe(405);
+    expect(await billingRow('demo-trust')).toEqual(before);
+  });
+
+  it("sends a viewer's billing form back to the page with the reason, and changes nothing", async () => {
     const cookie = await signIn(DEMO_ACCOUNTS.viewer);
-    const response = await api('/app/settings/billing', {
-      method: 'POST',
+    const before = await billingRow('demo-trust');
+    const response = await postForm(
+      '/api/billing/cancel',
+      { atPeriodEnd: 'true', back: '/app/settings/billing' },
       cookie,
-      headers: { 'content-type': 'application/x-www-form-urlencoded' },
-      body: 'action=cancel',
-    });
-    expect(response.status).toBe(403);
+    );
+    expect(response.status).toBe(303);
+    expect(response.headers.get('location')).toBe('/app/settings/billing');
+    expect(flashOf(response)).toMatchObject({ kind: 'error', message: expect.stringMatching(/does not allow/) });
+    expect(await billingRow('demo-trust')).toEqual(before);
+  });
+});
+
+describe('showing the billing page never changes the subscription', () => {
+  it('leaves a quantity that is behind the schools alone on every GET, and updates it only through the form', async () => {
+    const { cookie, trustId } = await verifiedTrust();
+    await upgrade(cookie);
+    const stripe = provider();
+    const subscriptionId = await subscriptionIdOf(db, trustId);
+    // Fixture: two schools written straight to the database, as when adding them could not reach the provider.
+    await db
+      .insertInto('schools')
+      .values(
+        ['North', 'South'].map((name) => ({
+          trust_id: trustId,
+          name: `${name} Quantity School`,
+          phase: 'primary' as const,
+          climate_region: 'midlands' as const,
+        })),
+      )
+      .execute();
+    const before = await billingRow(trustId);
+    expect(before.quantity).toBe(1);
+    const queries = [
+      '',
+      '?checkout=success',
+      '?checkout=success&wait=3',
+      '?checkout=cancelled',
+      '?action=quantity',
+      '?sync=1&quantity=2',
+      '?interval=year&cancel=true',
+    ];
+    for (const query of queries) {
+      const page = await api(`/app/settings/billing${query}`, { cookie });
+      expect(page.status, query).toBe(200);
+      expect(await page.text(), query).toContain('data-testid="quantity-behind"');
+    }
+    expect(await billingRow(trustId)).toEqual(before);
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.quantity).toBe(1);
+    const auditCount = async () =>
+      (
+        await db
+          .selectFrom('audit_events')
+          .select('id')
+          .where('trust_id', '=', trustId)
+          .where('summary', 'like', '%school count is now%')
+          .execute()
+      ).length;
+    expect(await auditCount()).toBe(0);
+
+    // The page's button posts to the API route, which updates the provider and audits, then returns to the page.
+    const updated = await postForm('/api/billing/quantity', { back: '/app/settings/billing' }, cookie);
+    expect(updated.status).toBe(303);
+    expect(updated.headers.get('location')).toBe('/app/settings/billing');
+    expect(flashOf(updated)).toEqual({ kind: 'ok', message: 'The subscription now covers 2 schools.' });
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.quantity).toBe(2);
+    expect((await billingRow(trustId)).quantity).toBe(2);
+    expect(await auditCount()).toBe(1);
+    const page = await (await api('/app/settings/billing', { cookie })).text();
+    expect(page).not.toContain('data-testid="quantity-behind"');
   });
 });

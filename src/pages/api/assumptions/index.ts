@@ -1,6 +1,6 @@
 import { getDb } from '../../../lib/server/db/client';
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { AssumptionEditSchema } from '../../../lib/server/assessments/assessments.schemas';
 import {
   editAssumptions,
@@ -20,6 +20,7 @@ export const GET = route(async ({ locals }) => {
 export const PATCH = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
   requireAssumptionEditor(trust);
+  requireWholeTrust(trust, 'change assumptions');
   const body = await parseJson(request, AssumptionEditSchema);
   const saved = await editAssumptions(getDb(), trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);

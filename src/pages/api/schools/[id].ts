@@ -1,5 +1,5 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { getSchool } from '../../../lib/server/estate/schools.repository';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
@@ -30,7 +30,7 @@ export const PATCH = route(async ({ locals, params, request }) => {
 
 /** Removes a school with its blocks, rooms and results (GET ./removal says what goes first). */
 export const DELETE = route(async ({ locals, params }) => {
-  const trust = requirePermission(locals, 'register', 'delete');
+  const trust = requireWholeTrust(requirePermission(locals, 'register', 'delete'), 'remove a school');
   const id = IdParamSchema.parse(params.id);
   const removed = await deleteSchool(getDb(), trust, actorOf(locals), id);
   // Billing hook: one school fewer changes a paid plan's quantity. Telling the person about the change before it is

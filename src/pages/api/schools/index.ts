@@ -1,5 +1,5 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { followSchoolCount } from '../../../lib/server/billing/billing.service';
 import { getDb } from '../../../lib/server/db/client';
 import { listSchools } from '../../../lib/server/estate/schools.repository';
@@ -16,7 +16,7 @@ export const GET = route(async ({ locals }) => {
 
 /** Adds a school (402 beyond the free plan); on the paid plan the subscription quantity follows, prorated. */
 export const POST = route(async ({ locals, request }) => {
-  const trust = requirePermission(locals, 'register', 'create');
+  const trust = requireWholeTrust(requirePermission(locals, 'register', 'create'), 'add a school');
   const input = await parseJson(request, SchoolCreateSchema);
   const school = await createSchool(getDb(), trust, actorOf(locals), input);
   await followSchoolCount(getDb(), trust.id, actorOf(locals));

@@ -1,6 +1,6 @@
 import { getDb } from '../../../lib/server/db/client';
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { UnitCatalogueSchema } from '../../../lib/server/assessments/assessments.schemas';
 import {
   getAssumptionsView,
@@ -21,6 +21,7 @@ export const GET = route(async ({ locals }) => {
 export const PUT = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
   requireAssumptionEditor(trust);
+  requireWholeTrust(trust, 'change the unit catalogue');
   const body = await parseJson(request, UnitCatalogueSchema);
   const saved = await saveUnitCatalogue(getDb(), trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);
