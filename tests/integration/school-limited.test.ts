@@ -143,6 +143,18 @@ describe('what applies to the whole trust', () => {
     const annexe = await db.selectFrom('schools').select('id').where('name', '=', 'Limited Member Annexe').execute();
     expect(annexe).toEqual([]);
   });
+
+  it('is not offered on the pages: assumptions read-only with the reason, no trust-wide re-run', async () => {
+    const assumptions = await bodyText(await api('/app/settings/assumptions', { cookie: f.cookie }));
+    expect(assumptions).toContain('Your access is limited to some schools');
+    const asManager = await bodyText(
+      await api('/app/settings/assumptions', { cookie: await signIn(DEMO_ACCOUNTS.estates_manager) }),
+    );
+    expect(asManager).not.toContain('Your access is limited to some schools');
+    const finance = await bodyText(await api('/app/finance', { cookie: f.cookie }));
+    expect(finance).not.toContain('Re-run assessment');
+    expect(await bodyText(await api('/app/finance', { cookie: admin }))).toContain('Re-run assessment');
+  });
 });
 
 describe('a trust admin limited to one school', () => {

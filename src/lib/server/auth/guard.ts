@@ -55,3 +55,8 @@ export function requireWholeTrust(trust: ActiveTrust, action: string): ActiveTru
   if (trust.schoolIds !== null) throw limitedToSchools(`${action}: it applies to every school in the trust`);
   return trust;
 }
+
+/** Whether the member may do `action` on `resource` where it applies to every school (pages offer it or not). */
+export function mayChangeTrustWide<R extends Resource>(trust: ActiveTrust, resource: R, action: Action<R>): boolean {
+  return trust.schoolIds === null && can(trust.role, resource, action);
+}
