@@ -140,16 +140,26 @@ export function useImports() {
 /** Uploads a register with upload progress (0–1); resolves to the preview. */
 export function uploadRegister(
   file: File,
-  options: { headerRow?: number; mapping?: Record<string, string | null>; clearBlanks?: boolean },
+  options: {
+    headerRow?: number;
+    mapping?: Record<string, string | null>;
+    clearBlanks?: boolean;
+    /** Phase and region chosen for the schools the file creates, by school name. */
+    schools?: Record<string, { phase?: string; climateRegion?: string }>;
+  },
   onProgress: (fraction: number) => void,
 ): Promise<ImportPreview> {
   const form = new FormData();
   form.set('file', file, file.name);
+  if (options.schools && Object.keys(options.schools).length) form.set('schools', JSON.stringify(options.schools));
   if (options.headerRow) form.set('headerRow', String(options.headerRow));
   if (options.clearBlanks) form.set('clearBlanks', 'true');
   if (options.mapping) form.set('mapping', JSON.stringify(options.mapping));
   return uploadWithProgress<ImportPreview>('/api/imports', form, onProgress);
 }
+
+/** Where the rows an import rejected can be downloaded, with what to fix, as a workbook ready to upload again. */
+export const rejectedRowsUrl = (importId: string) => `/api/imports/${importId}/rejected.xlsx`;
 
 /** Commits the valid rows of a previewed import, or cancels it. */
 export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteMissing: boolean) {

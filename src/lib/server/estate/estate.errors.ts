@@ -25,3 +25,7 @@ export const schoolsLimited = () => forbidden('add schools while your membership
 /** The room changed since the editor opened it (409). */
 export const roomChangedSince = () =>
   conflict('Someone else changed this room since you opened it. Reload to see their change, then edit again.');
+
+/** 403: members limited to chosen schools cannot remove schools (removing one changes the whole trust's estate). */
+export const schoolRemovalLimited = () =>
+  forbidden('remove schools while your membership is limited to chosen schools');

@@ -179,6 +179,7 @@ export const SchoolCreateSchema = z.object({
   heatingFuel: schoolFields.heatingFuel.default('gas'),
   fuelPriceGbpPerKwh: schoolFields.fuelPriceGbpPerKwh.optional(),
   heatingEfficiency: schoolFields.heatingEfficiency.optional(),
+  timetable: schoolFields.timetable.optional(),
 });
 export type SchoolCreate = z.infer<typeof SchoolCreateSchema>;
 

@@ -211,3 +211,43 @@ export async function updateSchoolRow(db: Kysely<Database>, id: string, fields: 
 export async function lockTrustForNewSchools(db: Kysely<Database>, trustId: string): Promise<void> {
   await db.selectFrom('trusts').select('id').where('id', '=', trustId).forUpdate().executeTakeFirst();
 }
+
+/** What goes with a school when it is removed: its blocks, rooms, assessed rooms and the members limited to it. */
+export interface SchoolRemovalImpact {
+  blocks: number;
+  rooms: number;
+  assessedRooms: number;
+  limitedMembers: number;
+}
+
+/** Counts what removing a school would take with it (its rows cascade: blocks, rooms, results, readings). */
+export async function countSchoolDependants(db: Kysely<Database>, schoolId: string): Promise<SchoolRemovalImpact> {
+  const row = await db
+    .selectNoFrom((eb) => [
+      eb.selectFrom('blocks').select(eb.fn.countAll<string>().as('n')).where('school_id', '=', schoolId).as('blocks'),
+      eb.selectFrom('rooms').select(eb.fn.countAll<string>().as('n')).where('school_id', '=', schoolId).as('rooms'),
+      eb
+        .selectFrom('room_results')
+        .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+        .select((e) => e.fn.count<string>('room_results.room_id').distinct().as('n'))
+        .where('rooms.school_id', '=', schoolId)
+        .as('assessed'),
+      eb
+        .selectFrom('membership_schools')
+        .select(eb.fn.countAll<string>().as('n'))
+        .where('school_id', '=', schoolId)
+        .as('limited'),
+    ])
+    .executeTakeFirstOrThrow();
+  return {
+    blocks: Number(row.blocks ?? 0),
+    rooms: Number(row.rooms ?? 0),
+    assessedRooms: Number(row.assessed ?? 0),
+    limitedMembers: Number(row.limited ?? 0),
+  };
+}
+
+/** Deletes a school's row; its blocks, rooms and everything hanging from them go with it (ON DELETE CASCADE). */
+export async function deleteSchoolRow(db: Kysely<Database>, id: string): Promise<void> {
+  await db.deleteFrom('schools').where('id', '=', id).execute();
+}

@@ -7,10 +7,18 @@ import { assertWithinPlan } from '../billing/plan-limits';
 import { inTransaction } from '../db/transaction';
 import { notFound } from '../http/errors';
 import { efficiencyProblem } from './checks';
-import { efficiencyDoesNotFit, schoolsLimited } from './estate.errors';
+import { efficiencyDoesNotFit, schoolRemovalLimited, schoolsLimited } from './estate.errors';
 import type { SchoolCreate, SchoolPatch } from './estate.schemas';
 import type { SchoolFields } from './estate.types';
-import { findSchool, insertSchools, lockTrustForNewSchools, updateSchoolRow } from './schools.repository';
+import {
+  countSchoolDependants,
+  deleteSchoolRow,
+  findSchool,
+  insertSchools,
+  lockTrustForNewSchools,
+  type SchoolRemovalImpact,
+  updateSchoolRow,
+} from './schools.repository';
 
 /** Who writes, for the audit trail. */
 export type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
@@ -95,5 +103,47 @@ export async function updateSchool(
       after: Object.fromEntries(keys.map((k) => [k, patch[k]])),
     });
     return { id };
+  });
+}
+
+/** What removing a school takes with it, for the confirmation (404 outside the member's scope). */
+export async function schoolRemovalImpact(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  id: string,
+): Promise<SchoolRemovalImpact & { name: string }> {
+  const school = await findSchool(db, trust, id);
+  if (!school) throw notFound('That school');
+  return { name: school.name, ...(await countSchoolDependants(db, id)) };
+}
+
+/**
+ * Removes a school with its blocks, rooms, results and readings, audited in the same transaction with what went.
+ * Members limited to chosen schools cannot remove schools. After it the trust has one school fewer: the caller tells
+ * billing (followSchoolCount), as after adding one.
+ */
+export async function deleteSchool(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+): Promise<SchoolRemovalImpact & { name: string }> {
+  if (trust.schoolIds) throw schoolRemovalLimited();
+  return inTransaction(db, async (trx) => {
+    await lockTrustForNewSchools(trx, trust.id);
+    const school = await findSchool(trx, trust, id, true);
+    if (!school) throw notFound('That school');
+    const impact = await countSchoolDependants(trx, id);
+    await deleteSchoolRow(trx, id);
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'school.deleted',
+      entityType: 'school',
+      entityId: id,
+      summary: `Removed school ${school.name} with ${impact.blocks} blocks and ${impact.rooms} rooms`,
+      before: { ...school, ...impact },
+    });
+    return { name: school.name, ...impact };
   });
 }

@@ -49,6 +49,8 @@ async function writeSchools(trx: Kysely<Database>, trust: ActiveTrust, actor: Ac
       name: s.name,
       phase: s.phase,
       climateRegion: s.climateRegion,
+      // The sheet's postcode is kept as the school's address (until someone writes the full one).
+      address: s.postcode ?? null,
       heatingFuel: s.heatingFuel ?? 'gas',
       fuelPriceGbpPerKwh: s.fuelPriceGbpPerKwh ?? null,
       heatingEfficiency: s.heatingEfficiency ?? null,

@@ -5,6 +5,7 @@ import type { ActiveTrust } from '../auth/context';
 import { listPlacedRooms } from '../estate/estate.repository';
 import type { PlacedRoom } from '../estate/estate.types';
 import type { RegisterRecord } from './workbook';
+import { postcodeIn } from '../../engine/school-inference';
 
 /** One room as a register row: every field in the template's units (winter window opening in %). */
 export function toRegisterRecord({ school, block, room }: PlacedRoom): RegisterRecord {
@@ -38,6 +39,7 @@ export function toRegisterRecord({ school, block, room }: PlacedRoom): RegisterR
     blockFuelPriceGbpPerKwh: block?.fuelPriceGbpPerKwh ?? null,
     blockHeatingEfficiency: block?.heatingEfficiency ?? null,
     notes: room.notes,
+    schoolPostcode: postcodeIn(school.address),
   };
 }
 

@@ -1,5 +1,7 @@
 import { z } from 'zod';
+import { CLIMATE_REGIONS, SCHOOL_PHASES } from '../../engine/vocabulary';
 import { REGISTER_FIELDS } from './columns';
+import { nameKey, type SchoolChoices } from './plan';
 
 /** POST /api/imports/[id]/commit. */
 export const CommitBodySchema = z
@@ -11,6 +13,22 @@ export const CommitBodySchema = z
   })
   .strict();
 export type CommitBody = z.infer<typeof CommitBodySchema>;
+
+/** The preview's choices for new schools: school name → phase and climate region (either may be left out). */
+const SchoolChoicesSchema = z
+  .record(
+    z.string().max(200),
+    z
+      .object({
+        phase: z.enum(SCHOOL_PHASES, { message: `phase must be one of: ${SCHOOL_PHASES.join(', ')}` }).optional(),
+        climateRegion: z
+          .enum(CLIMATE_REGIONS, { message: `climateRegion must be one of: ${CLIMATE_REGIONS.join(', ')}` })
+          .optional(),
+      })
+      .strict(),
+  )
+  .refine((r) => Object.keys(r).length <= 500, 'schools can name at most 500 schools')
+  .transform((r) => Object.fromEntries(Object.entries(r).map(([name, choice]) => [nameKey(name), choice])));
 
 /** The optional form fields of POST /api/imports besides `file`. */
 export const ImportOptionsSchema = z.object({
@@ -35,8 +53,32 @@ export const ImportOptionsSchema = z.object({
         return z.NEVER;
       }
     }),
+  /** JSON: the phase and region chosen in the preview for schools the file creates, by their name as the file has it. */
+  schools: z
+    .string()
+    .max(100_000, 'schools is too long')
+    .optional()
+    .transform((text, ctx) => {
+      if (!text) return undefined;
+      const parsed = SchoolChoicesSchema.safeParse(
+        (() => {
+          try {
+            return JSON.parse(text);
+          } catch {
+            return null;
+          }
+        })(),
+      );
+      if (parsed.success) return parsed.data;
+      ctx.addIssue({
+        code: 'custom',
+        message: `schools must be JSON like {"Oakfield Primary": {"phase": "primary", "climateRegion": "midlands"}}: ${parsed.error.issues[0]?.message ?? 'not valid'}`,
+      });
+      return z.NEVER;
+    }),
 });
 export type ImportOptions = {
+  schools?: SchoolChoices | undefined;
   headerRow?: number | undefined;
   clearBlanks?: boolean | undefined;
   mapping?: Record<string, (typeof REGISTER_FIELDS)[number] | null> | undefined;

@@ -39,4 +39,4 @@ export function stagedRoomLine(w: RoomWrite): string {
 }
 
 /** An import plan as stored between preview and commit: everything but the room writes, which travel as COPY text. */
-export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems' | 'roomChanges'>;
+export type StoredPlan = Omit<ImportPlan, 'roomWrites' | 'problems' | 'roomChanges' | 'rejectedRows'>;
