@@ -73,9 +73,14 @@ async function changeableItem(db: Kysely<Database>, stripe: Stripe, trustId: str
   return { account, sub, item };
 }
 
-const sumLines = (invoice: Stripe.Invoice, proration: boolean) =>
+/**
+ * The sum of the preview's proration lines for this change (those starting at its proration moment; earlier
+ * prorations already pending are left out), or of its regular lines.
+ */
+const sumLines = (invoice: Stripe.Invoice, proration: boolean, at?: number) =>
   invoice.lines.data
     .filter((l) => Boolean(l.parent?.subscription_item_details?.proration) === proration)
+    .filter((l) => !proration || at === undefined || l.period.start === at)
     .reduce((sum, l) => sum + l.amount, 0);
 
 /** Prices a switch of billing period with the provider's preview (credit for the unused time, the new period). */
@@ -102,7 +107,7 @@ export async function previewPeriodChange(
   });
   const schools = item.quantity ?? 1;
   const trialing = sub.status === 'trialing';
-  const creditPence = -sumLines(preview, true);
+  const creditPence = -sumLines(preview, true, prorationDate);
   const newPeriodPence = sumLines(preview, false);
   const dueNowPence = trialing ? 0 : preview.amount_due;
   const renewsPence = PER_SCHOOL_PLAN.unitAmountPence[to] * schools;
@@ -174,14 +179,16 @@ export async function describeSchoolCountChange(
       words: `The subscription stays at ${schoolsWord(quantityAfter)}, ${formatPence(unit * quantityAfter)} ${perPeriod(interval)} (VAT included).`,
     };
   }
+  const prorationDate = Math.floor(Date.now() / 1000);
   const preview = await stripe.invoices.createPreview({
     subscription: sub.id,
     subscription_details: {
       items: [{ id: item.id, quantity: quantityAfter }],
+      proration_date: prorationDate,
       proration_behavior: 'create_prorations',
     },
   });
-  const prorationPence = sumLines(preview, true);
+  const prorationPence = sumLines(preview, true, prorationDate);
   const at = preview.next_payment_attempt ?? preview.period_end;
   const nextInvoiceOn = at ? new Date(at * 1000).toISOString() : null;
   const perPeriodPence = unit * quantityAfter;
