@@ -639,7 +639,7 @@ export function createSubscriptions(ctx, catalog) {
       item.current_period_end = addInterval(item.current_period_start, price.recurring.interval, price.recurring.interval_count);
     }
     sub.billing_cycle_anchor = sub._items[0]?.current_period_start ?? sub.billing_cycle_anchor;
-    return viewSubscription(sub);
+    return sub;
   }
 
   function listInvoices(query) {

@@ -290,9 +290,11 @@ describe('payments fake: subscription changes', () => {
       recurring: { interval: 'year' },
       product_data: { name: 'Whole Estate yearly' },
     });
-    await admin(`/_fake/subscriptions/${sub.id}/backdate`, { days: '12' });
+    const backdated = await admin(`/_fake/subscriptions/${sub.id}/backdate`, { days: '12' });
     const current = await stripe.subscriptions.retrieve(sub.id);
     const item = current.items.data[0]!;
+    expect(backdated).toMatchObject({ id: sub.id, object: 'subscription' });
+    expect(Math.abs(item.current_period_start - (Math.floor(Date.now() / 1000) - 12 * DAY_S))).toBeLessThan(5);
     const at = Math.floor(Date.now() / 1000);
     const preview = await stripe.invoices.createPreview({
       subscription: sub.id,
