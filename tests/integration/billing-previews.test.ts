@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { createDb } from '../../src/lib/server/db/client';
 import { listMail, waitForMail } from '../helpers/mail';
 import { api, postForm, uniqueEmail } from '../helpers/session';
+import { messyRegister } from '../unit/register/fixtures';
 import {
   addSchool,
   billingOf,
@@ -186,7 +187,34 @@ describe('adding schools says how the subscription will change, before it does',
     expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.quantity).toBe(2);
   });
 
-  it('lets an estates manager of the demo trust see it, refuses a viewer, and says the free plan covers one school', async () => {
+  it('says on the register import preview how the subscription changes for the new schools in the file', async () => {
+    const { cookie, item, stripe, subscriptionId } = await activeTrust(2, 6);
+    const form = new FormData();
+    form.set('file', new Blob([new Uint8Array(await messyRegister())]), 'survey with a new school.xlsx');
+    const before = Math.floor(Date.now() / 1000);
+    const response = await api('/api/imports', { method: 'POST', cookie, body: form });
+    const after = Math.ceil(Date.now() / 1000);
+    expect(response.status).toBe(201);
+    const body = (await response.json()) as {
+      summary: { schoolsToCreate: number };
+      subscriptionChange: QuantityPreviewBody['preview'] | null;
+    };
+    expect(body.summary.schoolsToCreate).toBe(1);
+    const change = body.subscriptionChange!;
+    expect(change).toMatchObject({ changes: true, quantityBefore: 2, quantityAfter: 3 });
+    const unit = item.price.unit_amount!;
+    expect(change.prorationPence).toBeGreaterThanOrEqual(
+      prorated(unit, 1, item.current_period_start, item.current_period_end, after) - 1,
+    );
+    expect(change.prorationPence).toBeLessThanOrEqual(
+      prorated(unit, 1, item.current_period_start, item.current_period_end, before) + 1,
+    );
+    expect(change.words).toContain('from 2 schools to 3 schools');
+    // The preview changed nothing at the provider.
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.quantity).toBe(2);
+  });
+
+  it('says the free plan covers one school, and refuses a negative count in words', async () => {
     const { cookie } = await verifiedTrust();
     const free = await api('/api/billing/quantity-preview?schoolsAfter=3', { cookie });
     const { preview } = (await free.json()) as QuantityPreviewBody;

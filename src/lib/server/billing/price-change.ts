@@ -5,7 +5,8 @@ import type { Kysely } from 'kysely';
 import type Stripe from 'stripe';
 import type { Database } from '../../../../db/database';
 import { conflict } from '../http/errors';
-import { getBillingAccount } from './billing.repository';
+import { countEstate, getBillingAccount } from './billing.repository';
+import { paymentProvider, providerConfigured } from './provider';
 import { formatDate, formatPence } from './billing.format';
 import { planPrices } from './catalogue';
 import { FREE_PLAN, PER_SCHOOL_PLAN, type BillingInterval } from './plans';
@@ -215,4 +216,38 @@ export async function describeSchoolCountChange(
     changes: true,
     words,
   };
+}
+
+/**
+ * The notice for a write that would add (or, negative, remove) `schoolsAdded` schools — the register import preview
+ * and the school form call it before the change. Null when nothing is added, or for a member limited to some schools
+ * (the answer counts the whole trust). If the provider cannot be reached, says so rather than failing the preview.
+ */
+export async function schoolCountNotice(
+  db: Kysely<Database>,
+  trust: { id: string; schoolIds: string[] | null },
+  schoolsAdded: number,
+): Promise<QuantityChangePreview | null> {
+  if (schoolsAdded === 0 || trust.schoolIds !== null) return null;
+  const { schools } = await countEstate(db, trust.id);
+  const stripe = providerConfigured() ? paymentProvider() : null;
+  try {
+    return await describeSchoolCountChange(db, stripe, trust.id, schools, Math.max(0, schools + schoolsAdded));
+  } catch (error) {
+    console.error('The subscription change could not be priced', error);
+    const after = Math.max(0, schools + schoolsAdded);
+    return {
+      changes: true,
+      schoolsBefore: schools,
+      schoolsAfter: after,
+      quantityBefore: billableSchools(schools),
+      quantityAfter: billableSchools(after),
+      interval: null,
+      prorationPence: 0,
+      nextInvoicePence: 0,
+      nextInvoiceOn: null,
+      perPeriodPence: 0,
+      words: `The subscription will change to ${schoolsWord(billableSchools(after))}; its price could not be worked out just now (the billing page shows it).`,
+    };
+  }
 }
