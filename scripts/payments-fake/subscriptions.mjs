@@ -531,7 +531,8 @@ export function createSubscriptions(ctx, catalog) {
       });
     }
     const at = int(details.proration_date) ?? now();
-    if (Number.isNaN(at)) throw invalid('proration_date must be a Unix timestamp.', 'subscription_details[proration_date]');
+    if (Number.isNaN(at))
+      throw invalid('proration_date must be a Unix timestamp.', 'subscription_details[proration_date]');
     const behaviour = details.proration_behavior ?? 'create_prorations';
     if (!['create_prorations', 'none', 'always_invoice'].includes(behaviour)) {
       throw invalid(
@@ -572,7 +573,10 @@ export function createSubscriptions(ctx, catalog) {
       for (const item of items) {
         const price = priceOf(item);
         const start = resetAt ?? periodEnd(sub);
-        const next = resetAt !== null ? item.current_period_end : addInterval(start, price.recurring.interval, price.recurring.interval_count);
+        const next =
+          resetAt !== null
+            ? item.current_period_end
+            : addInterval(start, price.recurring.interval, price.recurring.interval_count);
         lines.push(
           line({
             sub,
@@ -632,11 +636,16 @@ export function createSubscriptions(ctx, catalog) {
   function backdate(id, days) {
     const sub = getSubscription(id);
     const n = int(days);
-    if (n === undefined || Number.isNaN(n) || n < 0) throw invalid('days must be a whole number of days, 0 or more.', 'days');
+    if (n === undefined || Number.isNaN(n) || n < 0)
+      throw invalid('days must be a whole number of days, 0 or more.', 'days');
     for (const item of sub._items) {
       const price = priceOf(item);
       item.current_period_start = now() - n * DAY_S;
-      item.current_period_end = addInterval(item.current_period_start, price.recurring.interval, price.recurring.interval_count);
+      item.current_period_end = addInterval(
+        item.current_period_start,
+        price.recurring.interval,
+        price.recurring.interval_count,
+      );
     }
     sub.billing_cycle_anchor = sub._items[0]?.current_period_start ?? sub.billing_cycle_anchor;
     return sub;

@@ -133,7 +133,9 @@ describe('changing the billing period shows the amount and the proration first',
     const { cookie } = await activeTrust(1, 1);
     const response = await api('/api/billing/period-preview?interval=month', { cookie });
     expect(response.status).toBe(409);
-    expect(((await response.json()) as { error: { message: string } }).error.message).toContain('already billed monthly');
+    expect(((await response.json()) as { error: { message: string } }).error.message).toContain(
+      'already billed monthly',
+    );
     const bad = await api('/api/billing/period-preview?interval=weekly', { cookie });
     expect(bad.status).toBe(400);
     expect(((await bad.json()) as { error: { message: string } }).error.message).toContain('"month" or "year"');
@@ -241,7 +243,12 @@ async function addSchoolsQuietly(trustId: string, n: number) {
   for (let i = 0; i < n; i++) {
     await db
       .insertInto('schools')
-      .values({ trust_id: trustId, name: `Quiet School ${Date.now()}-${i}`, phase: 'primary', climate_region: 'midlands' })
+      .values({
+        trust_id: trustId,
+        name: `Quiet School ${Date.now()}-${i}`,
+        phase: 'primary',
+        climate_region: 'midlands',
+      })
       .execute();
   }
 }
@@ -280,7 +287,11 @@ describe('paying by invoice with a purchase order', () => {
     const response = await api('/api/billing/invoice-payment', {
       method: 'POST',
       cookie,
-      body: JSON.stringify({ purchaseOrder: 'PO-2026/0417', billingEmail, note: 'Finance office, please quote the PO' }),
+      body: JSON.stringify({
+        purchaseOrder: 'PO-2026/0417',
+        billingEmail,
+        note: 'Finance office, please quote the PO',
+      }),
     });
     expect(response.status).toBe(201);
     const rows = await db.selectFrom('invoice_payment_requests').selectAll().where('trust_id', '=', trustId).execute();
@@ -321,9 +332,9 @@ describe('paying by invoice with a purchase order', () => {
       cookie,
     );
     expect(form.status).toBe(303);
-    expect(await db.selectFrom('invoice_payment_requests').selectAll().where('trust_id', '=', trustId).execute()).toEqual(
-      [],
-    );
+    expect(
+      await db.selectFrom('invoice_payment_requests').selectAll().where('trust_id', '=', trustId).execute(),
+    ).toEqual([]);
     expect((await listMail()).some((m) => m.to.some((t) => t.address === billingEmail))).toBe(false);
   });
 });

@@ -11,7 +11,8 @@ afterAll(async () => {
 });
 
 const verified = async (email: string) =>
-  (await db.selectFrom('user').select('emailVerified').where('email', '=', email).executeTakeFirstOrThrow()).emailVerified;
+  (await db.selectFrom('user').select('emailVerified').where('email', '=', email).executeTakeFirstOrThrow())
+    .emailVerified;
 
 describe('invitation e-mail', () => {
   it('says the role in words, the schools by name, the access end date (en-GB) and who invited', async () => {

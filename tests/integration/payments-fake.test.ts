@@ -248,7 +248,7 @@ describe('payments fake: subscription changes', () => {
   // difference; https://docs.stripe.com/billing/subscriptions/prorations), computed here in whole days from the
   // subscription's own period and prices.
   const proratedPence = (unitPence: number, qty: number, start: number, end: number, at: number) =>
-    Math.round(((unitPence * qty * ((end - at) / DAY_S)) / ((end - start) / DAY_S)));
+    Math.round((unitPence * qty * ((end - at) / DAY_S)) / ((end - start) / DAY_S));
 
   it('previews a quantity change with its proration (time remaining ÷ period × price) and stores nothing', async () => {
     const { sub, price } = await activeSubscription(2);

@@ -212,10 +212,16 @@ export async function inviteMember(db: Kysely<Database>, actor: Actor, input: In
       after: { email: input.email, role: input.role, schoolIds, accessEndsOn },
     });
   });
-  await sendInvitation(db, actor, { id: invitation.id, email: invitation.email, expiresAt: invitation.expiresAt }, input.role, {
-    schoolIds,
-    accessEndsOn,
-  });
+  await sendInvitation(
+    db,
+    actor,
+    { id: invitation.id, email: invitation.email, expiresAt: invitation.expiresAt },
+    input.role,
+    {
+      schoolIds,
+      accessEndsOn,
+    },
+  );
   return {
     id: invitation.id,
     email: invitation.email,

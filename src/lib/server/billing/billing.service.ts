@@ -25,7 +25,6 @@ export interface BillingRequest {
   origin: string;
 }
 
-
 /** Plan, standing and counts for the billing page (no provider calls). */
 export async function billingOverview(db: Kysely<Database>, trustId: string): Promise<BillingOverview> {
   const account = await getBillingAccount(db, trustId);
@@ -49,7 +48,6 @@ export async function billingOverview(db: Kysely<Database>, trustId: string): Pr
     pricePerSchoolPence: PER_SCHOOL_PLAN.unitAmountPence,
   };
 }
-
 
 async function ensureCustomer(
   db: Kysely<Database>,
@@ -255,7 +253,12 @@ export async function followSchoolCount(db: Kysely<Database>, trustId: string, a
 /** An invoice total split into net and VAT (our prices include VAT at the UK standard rate). */
 function vatOf(totalPence: number) {
   const split = splitVatInclusive(totalPence);
-  return { netPence: split.netPence, vatPence: split.vatPence, grossPence: split.grossPence, vatRatePct: split.ratePct };
+  return {
+    netPence: split.netPence,
+    vatPence: split.vatPence,
+    grossPence: split.grossPence,
+    vatRatePct: split.ratePct,
+  };
 }
 
 /** The trust's invoices, newest first. */

@@ -112,7 +112,9 @@ export async function previewPeriodChange(
   const newPeriodPence = sumLines(preview, false);
   const dueNowPence = trialing ? 0 : preview.amount_due;
   const renewsPence = PER_SCHOOL_PLAN.unitAmountPence[to] * schools;
-  const renewsAt = trialing ? (sub.trial_end ?? null) : preview.lines.data.find((l) => !l.parent?.subscription_item_details?.proration)?.period.end;
+  const renewsAt = trialing
+    ? (sub.trial_end ?? null)
+    : preview.lines.data.find((l) => !l.parent?.subscription_item_details?.proration)?.period.end;
   const renewsOn = renewsAt ? new Date(renewsAt * 1000).toISOString() : null;
   const words = trialing
     ? `Nothing is charged during the free trial. From ${formatDate(renewsOn)} the subscription costs ${formatPence(renewsPence)} ${perPeriod(to)} for ${schoolsWord(schools)} (VAT included).`

@@ -127,7 +127,11 @@ export function invitationMail(to: string, d: InvitationMailDetails): MailMessag
 }
 
 /** Tells a person who signed up from their invitation that the account is ready (the invitation proved the address). */
-export function joinedByInvitationMail(to: { email: string; name: string }, trustName: string, signInUrl: string): MailMessage {
+export function joinedByInvitationMail(
+  to: { email: string; name: string },
+  trustName: string,
+  signInUrl: string,
+): MailMessage {
   return message(
     to.email,
     `Your Airtally account is ready: you have joined ${trustName}`,
