@@ -1,10 +1,9 @@
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { QuantityPreviewQuerySchema } from '../../../lib/server/billing/billing.schemas';
 import { countEstate } from '../../../lib/server/billing/billing.repository';
 import { describeSchoolCountChange } from '../../../lib/server/billing/price-change';
 import { paymentProvider, providerConfigured } from '../../../lib/server/billing/provider';
 import { getDb } from '../../../lib/server/db/client';
-import { AppError } from '../../../lib/server/http/errors';
 import { json, parseQuery } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
@@ -14,14 +13,10 @@ import { route } from '../../../lib/server/http/route';
  * may ask; a member limited to some schools may not, as the answer counts every school of the trust.
  */
 export const GET = route(async ({ locals, url }) => {
-  const trust = requirePermission(locals, 'register', 'create');
-  if (trust.schoolIds !== null) {
-    throw new AppError(
-      403,
-      'forbidden',
-      'Your access is limited to some schools, so the whole trust’s subscription is not shown to you. A trust admin sees what adding schools costs on the billing page.',
-    );
-  }
+  const trust = requireWholeTrust(
+    requirePermission(locals, 'register', 'create'),
+    'see what adding schools does to the subscription',
+  );
   const { schoolsAfter } = parseQuery(url, QuantityPreviewQuerySchema);
   const db = getDb();
   const { schools } = await countEstate(db, trust.id);
