@@ -12,6 +12,7 @@ import {
   billingOf,
   fakeAdmin,
   provider,
+  proratedPence,
   subscriptionIdOf,
   upgrade,
   verifiedTrust,
@@ -19,7 +20,6 @@ import {
 } from '../integration/billing-fixture';
 
 const SHOTS = join(process.cwd(), '.data', 'screenshots');
-const DAY_S = 86_400;
 const pounds = (pence: number) =>
   new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'GBP' }).format(pence / 100);
 
@@ -63,10 +63,7 @@ describe('billing period change in Chromium', () => {
     // unused part of the month (days remaining ÷ days in the period × 2 × £24).
     const yearly = (await stripe.prices.list({ lookup_keys: ['airtally_whole_estate_yearly'] })).data[0]!;
     const credit = (at: number) =>
-      Math.round(
-        (item.price.unit_amount! * 2 * ((item.current_period_end - at) / DAY_S)) /
-          ((item.current_period_end - item.current_period_start) / DAY_S),
-      );
+      proratedPence(item.price.unit_amount!, 2, item.current_period_start, item.current_period_end, at);
     const dueTexts = new Set([before, after].map((at) => pounds(yearly.unit_amount! * 2 - credit(at))));
     const due = (await page.getByTestId('period-due').textContent())?.trim() ?? '';
     expect(dueTexts.has(due)).toBe(true);

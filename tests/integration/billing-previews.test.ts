@@ -11,6 +11,7 @@ import {
   billingOf,
   fakeAdmin,
   provider,
+  proratedPence,
   subscriptionIdOf,
   upgrade,
   verifiedTrust,
@@ -22,14 +23,7 @@ afterAll(async () => {
   await db.destroy();
 });
 
-const DAY_S = 86_400;
-
-/**
- * Proration by the provider's documented rule (https://docs.stripe.com/billing/subscriptions/prorations): the price
- * times the time remaining in the period over the length of the period, here in days, rounded to the penny.
- */
-const prorated = (unitPence: number, qty: number, start: number, end: number, at: number) =>
-  Math.round((unitPence * qty * ((end - at) / DAY_S)) / ((end - start) / DAY_S));
+const prorated = proratedPence;
 
 /** A fresh trust on the paid plan, trial over, `days` into a monthly period, paying for `schools` schools. */
 async function activeTrust(schools: number, days: number) {
