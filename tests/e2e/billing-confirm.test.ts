@@ -99,6 +99,15 @@ describe('billing period change in Chromium', () => {
     expect(await page.getByTestId('invoices').textContent()).toContain('VAT (20 %)');
     await page.screenshot({ path: join(SHOTS, 'billing-period-changed.png'), fullPage: true });
     expect(await seriousAxeViolations(page)).toEqual([]);
+
+    // The add-school form says what a third school does to the subscription before it is added.
+    await page.goto(`${APP_URL}/app/schools`);
+    await page.getByRole('button', { name: 'Add a school' }).click();
+    const notice = page.getByTestId('school-subscription-change');
+    expect(await notice.textContent()).toContain('from 2 schools to 3 schools');
+    expect(await notice.textContent()).toContain('a year');
+    await page.screenshot({ path: join(SHOTS, 'school-add-subscription-notice.png'), fullPage: true });
+    expect((await stripe.subscriptions.retrieve(subscriptionId)).items.data[0]!.quantity).toBe(2);
     await page.close();
   });
 });
