@@ -8,6 +8,7 @@ import {
   toRankInput,
 } from '~/lib/engine/index';
 import type { RankInput } from '~/lib/engine/types';
+import { prng } from '../../../scripts/seed/prng';
 import { typicalClassroom } from './helpers';
 
 const row = (roomId: string, riskScore: number, ce: number | null, payback: number | null): RankInput => ({
@@ -91,18 +92,6 @@ describe('rankRooms', () => {
   });
 });
 
-/** Deterministic pseudo-random numbers in [0, 1) (mulberry32), so the rows below are the same on every run. */
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /**
  * The rule as the ranking module's comment states it, restated here without its code: every part divided by the best
  * among the rows (risk ÷ highest risk; pupil-hours removed per £1,000 ÷ highest; shortest payback ÷ own payback, 1 for
@@ -147,7 +136,7 @@ function byHand(rows: RankInput[], w: { risk: number; costEffectiveness: number;
 describe('rankRooms against a computation by hand of the stated rule', () => {
   // 400 invented rooms: a fifth without units (no cost-effectiveness, no payback), some paying back at once, and
   // groups of exact twins (same parts) that only the pupil-hours or the room id can separate.
-  const random = seeded(20261202);
+  const random = prng(20261202);
   const many: RankInput[] = [];
   for (let i = 0; i < 400; i += 1) {
     const id = `room-${String(1000 - i).padStart(4, '0')}`;
