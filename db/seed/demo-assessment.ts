@@ -1,13 +1,13 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
-import { executeRun } from '../../src/lib/server/assessments/run-executor';
+import { workRunHere } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
 import { DEMO_TRUST } from './demo-trust';
 
 /**
  * Assesses the demo estate once, so a first `npm start` opens on ranked results rather than an empty
- * dashboard. Runs the same executor the batch queue uses, in this process. Skipped when the demo trust
+ * dashboard. Works its chunks with the same executor the queue's workers use, in this process. Skipped when the demo trust
  * already has a succeeded run.
  */
 export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> {
@@ -27,7 +27,7 @@ export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> 
     startedByUserId: null,
     startedByEmail: null,
   });
-  await executeRun(runId);
+  await workRunHere(runId);
   const run = await getRun(db, runId, DEMO_TRUST.id);
   return `${run?.status ?? 'unknown'} (${roomsTotal} rooms)`;
 }

@@ -4,7 +4,8 @@ import { getDb } from '../db/client';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
-import { enqueueRun, getQueue } from './queue';
+import { chunkCounts } from './chunks.repository';
+import { sendChunkJobs } from './queue';
 import { findActiveRun, getRun, insertRun, listRuns, type Run } from './runs.repository';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
@@ -25,9 +26,15 @@ export interface RunStatusView {
   assumptionsVersion: string | null;
   error?: string;
   problems: Run['problems'];
+  /** The chunks the run is split into: committed, being worked now, waiting. */
+  chunks: { total: number; done: number; running: number; pending: number };
+  /** When the retention rule removed its results (it stays in the history). */
+  resultsPrunedAt: string | null;
 }
 
-export const toStatusView = (run: Run): RunStatusView => ({
+type ChunkCounts = { pending: number; running: number; done: number };
+
+export const toStatusView = (run: Run, counts?: ChunkCounts): RunStatusView => ({
   id: run.id,
   scope: run.scope,
   schoolId: run.schoolId,
@@ -42,11 +49,26 @@ export const toStatusView = (run: Run): RunStatusView => ({
   assumptionsVersion: run.assumptionsVersion,
   ...(run.error ? { error: run.error } : {}),
   problems: run.problems,
+  chunks: {
+    total: run.chunksTotal,
+    done: run.chunksDone,
+    running: counts?.running ?? 0,
+    pending: counts?.pending ?? Math.max(0, run.chunksTotal - run.chunksDone),
+  },
+  resultsPrunedAt: run.resultsPrunedAt,
 });
 
+/** The runs as the API shows them, each with how its chunks stand. */
+async function statusViews(runs: Run[]): Promise<RunStatusView[]> {
+  const active = runs.filter((r) => r.status === 'queued' || r.status === 'running').map((r) => r.id);
+  const counts = await chunkCounts(getDb(), active);
+  return runs.map((r) => toStatusView(r, counts.get(r.id)));
+}
+
 /**
- * Queues an assessment of the trust or one school under the trust's current assumption set. A run of the
- * same scope that is still queued or running is returned instead of starting a second one.
+ * Queues an assessment of the trust or one school under the trust's current assumption set: the run, its snapshot of
+ * rooms split into chunks, one queue job per chunk and the audit event, in one transaction. A run of the same scope
+ * that is still queued or running is returned instead of starting a second one.
  */
 export async function startRun(
   trust: ActiveTrust,
@@ -66,13 +88,16 @@ export async function startRun(
       .executeTakeFirst();
     if (!school || (trust.schoolIds !== null && !trust.schoolIds.includes(schoolId))) throw notFound('That school');
   }
-  await getQueue();
   const active = await findActiveRun(db, trust.id, schoolId);
   if (active) return { id: active.id, alreadyRunning: true };
 
   const assumptions = await getCurrentAssumptionSet(db, trust.id);
   const id = await db.transaction().execute(async (trx) => {
-    const { id: runId, roomsTotal } = await insertRun(trx, {
+    const {
+      id: runId,
+      roomsTotal,
+      chunksTotal,
+    } = await insertRun(trx, {
       trustId: trust.id,
       schoolId,
       assumptionSetId: assumptions.id,
@@ -87,11 +112,11 @@ export async function startRun(
       entityType: 'assessment_run',
       entityId: runId,
       summary: `Assessment of ${schoolId ? 'one school' : 'the whole trust'} started (${roomsTotal} rooms, assumptions ${assumptions.label})`,
-      after: { scope: body.scope, schoolId, roomsTotal, assumptionsVersion: assumptions.label },
+      after: { scope: body.scope, schoolId, roomsTotal, chunksTotal, assumptionsVersion: assumptions.label },
     });
+    await sendChunkJobs(runId, chunksTotal, { db: trx });
     return runId;
   });
-  await enqueueRun(id);
   return { id, alreadyRunning: false };
 }
 
@@ -124,11 +149,11 @@ export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunS
   const run = await getRun(getDb(), id, trust.id);
   const [visible] = run ? await visibleTo(trust, [run]) : [];
   if (!visible) throw notFound('That assessment run');
-  return toStatusView(visible);
+  const [view] = await statusViews([visible]);
+  return view!;
 }
 
 /** The trust's recent runs, newest first. */
 export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
-  await getQueue();
-  return (await visibleTo(trust, await listRuns(getDb(), trust.id, limit))).map(toStatusView);
+  return statusViews(await visibleTo(trust, await listRuns(getDb(), trust.id, limit)));
 }
