@@ -386,6 +386,8 @@ async function main(): Promise<void> {
     batch_input_snapshot_bytes_per_room: stored.inputBytesPerRoom,
     batch_rooms_per_s_by_workers: scaling,
     batch_machine_cores: cpus().length,
+    batch_note:
+      'rooms/s through the queue with N `npm run worker` processes (2 chunks at a time each) on this machine; the cores are shared with the database and any other work on the machine',
   };
   if (NATIONAL_ROOMS > 0) {
     log(`generating ${NATIONAL_ROOMS} rooms in ${NATIONAL_SCHOOLS} schools`);
