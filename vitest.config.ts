@@ -3,7 +3,6 @@ import { fileURLToPath } from 'node:url';
 
 const alias = {
   '~': fileURLToPath(new URL('./src', import.meta.url)),
-  '@db': fileURLToPath(new URL('./db', import.meta.url)),
 };
 
 /**

@@ -3,11 +3,23 @@ import { getAuth } from './lib/server/auth/auth';
 import { billingWriteGate } from './lib/server/billing/write-gate';
 import { listMemberships, setSessionTrust } from './lib/server/auth/membership.repository';
 import { getDb } from './lib/server/db/client';
-import { toErrorResponse } from './lib/server/http/errors';
+import { methodNotAllowed, toErrorResponse } from './lib/server/http/errors';
 import { BODY_TOO_LARGE_HEADER, bodyTooLarge, mustCloseUnreadBody } from './lib/server/http/request-guard';
 
 /** Paths under /app that a signed-in person without a usable trust may still open. */
 const WITHOUT_TRUST = ['/app/account'];
+
+/** The methods an app page answers; everything else is a write, which belongs to an /api route. */
+const PAGE_METHODS = new Set(['GET', 'HEAD']);
+
+/** The 405 for a write sent to an app page rather than to its API route. */
+const pageWriteRefused = () => {
+  const response = toErrorResponse(
+    methodNotAllowed('App pages only show information; changes are sent to the /api routes their forms name.'),
+  );
+  response.headers.set('allow', 'GET, HEAD');
+  return response;
+};
 
 /**
  * Puts the signed-in person and the trust they act in on Astro.locals, then guards the app pages:
@@ -51,6 +63,8 @@ export const onRequest = defineMiddleware(async (context, next) => {
   }
 
   if (path === '/app' || path.startsWith('/app/')) {
+    // App pages only show things: their forms post to /api routes, which authorise, validate and audit each write.
+    if (!PAGE_METHODS.has(context.request.method)) return pageWriteRefused();
     if (!context.locals.user) {
       const nextPath = `${path}${context.url.search}`;
       return context.redirect(`/sign-in?next=${encodeURIComponent(nextPath)}`, 303);
@@ -60,7 +74,7 @@ export const onRequest = defineMiddleware(async (context, next) => {
     }
   }
   // Billing: after an unpaid renewal's grace period, writes to /api answer 402 (reads and exports still work).
-  const readOnly = await billingWriteGate(context.locals, context.request);
+  const readOnly = await billingWriteGate(getDb(), context.locals, context.request);
   if (readOnly) return closeIfBodyUnread(context.request, readOnly);
   return closeIfBodyUnread(context.request, withCookies(await next(), refreshedCookies));
 });

@@ -1,4 +1,16 @@
 import type { ColumnType, Generated } from 'kysely';
+import type {
+  AgeGroup,
+  ClimateRegion,
+  ConstructionType,
+  FrameMaterial,
+  HeatingFuel,
+  HeatingType,
+  RoomUse,
+  SchoolPhase,
+  VentilationType,
+  WindowType,
+} from '../../src/lib/engine/vocabulary';
 import type { Json } from './json';
 
 /** Timestamps are written by Postgres defaults and triggers, read as Date. */
@@ -18,11 +30,11 @@ export interface SchoolsTable {
   trust_id: string;
   name: string;
   reference_number: string | null;
-  phase: string;
-  climate_region: string;
+  phase: SchoolPhase;
+  climate_region: ClimateRegion;
   address: string | null;
   timetable: Json<unknown> | null;
-  heating_fuel: Generated<string>;
+  heating_fuel: Generated<HeatingFuel>;
   fuel_price_gbp_per_kwh: number | null;
   /** Seasonal efficiency of the school's heating (seasonal COP for heat pumps, 1 for direct electric). */
   heating_efficiency: number | null;
@@ -35,10 +47,10 @@ export interface BlocksTable {
   school_id: string;
   name: string;
   year_built: number | null;
-  construction_type: string | null;
+  construction_type: ConstructionType | null;
   air_permeability_m3h_m2: number | null;
-  heating_type: string | null;
-  heating_fuel: string | null;
+  heating_type: HeatingType | null;
+  heating_fuel: HeatingFuel | null;
   fuel_price_gbp_per_kwh: number | null;
   heating_efficiency: number | null;
   heating_installed_year: number | null;
@@ -46,26 +58,26 @@ export interface BlocksTable {
   updated_at: UpdatedAt;
 }
 
-/** Room columns; a null is an unknown value the engine assumes (and says so). */
+/** Room columns; a null is an unknown value the engine assumes (and says so). Enumerations are CHECKed in the migrations. */
 export interface RoomsTable {
   id: Generated<string>;
   school_id: string;
   block_id: string | null;
   code: string;
   name: Generated<string>;
-  use: string | null;
+  use: RoomUse | null;
   floor_area_m2: number;
   ceiling_height_m: number | null;
   pupils: number | null;
   adults: number | null;
-  age_group: string | null;
+  age_group: AgeGroup | null;
   orientation_deg: number | null;
   glazing_area_m2: number | null;
   openable_area_m2: number | null;
-  window_type: string | null;
-  frame_material: string | null;
+  window_type: WindowType | null;
+  frame_material: FrameMaterial | null;
   glazing_g_value: number | null;
-  ventilation_type: string | null;
+  ventilation_type: VentilationType | null;
   mechanical_supply_lps: number | null;
   winter_window_open_fraction: number | null;
   notes: string | null;

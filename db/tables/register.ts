@@ -23,6 +23,10 @@ export interface RegisterImportsTable {
   room_changes: Json<unknown> | null;
   /** What the commit will write (the import plan), gzip-compressed JSON; cleared once committed or cancelled. */
   rows_gz: Buffer | null;
+  /** The schools the import creates, as the preview lists them (NewSchool[]). */
+  new_schools: Json<unknown> | null;
+  /** The rejected rows as the file held them, with what to fix: gzip-compressed JSON (RejectedRows). */
+  rejected_rows_gz: Buffer | null;
   /** Counts and latest change times of the trust's schools, blocks and rooms when the preview was made. */
   estate_fingerprint: string | null;
   outcome: Json<unknown> | null;

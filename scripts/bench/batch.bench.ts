@@ -23,7 +23,7 @@ import { copyLines } from '../../src/lib/server/db/copy';
 import { sendChunkJobs, stopQueue } from '../../src/lib/server/assessments/queue';
 import { workRunHere } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 
 const ROOMS = Number(process.env.BENCH_BATCH_ROOMS ?? 100_000);
 const SCHOOLS = 50;
@@ -189,7 +189,7 @@ async function newRun(trustId: string, jobs: boolean): Promise<string> {
       },
       CHUNK,
     );
-    if (jobs) await sendChunkJobs(id, chunksTotal, { db: trx });
+    if (jobs) await sendChunkJobs(trx, id, chunksTotal);
     return id;
   });
 }
@@ -216,7 +216,7 @@ async function inProcessBatch(trustId: string, rooms: number): Promise<number> {
   const runId = await newRun(trustId, false);
   const started = performance.now();
   let lastChunkAt = started;
-  await workRunHere(runId, {
+  await workRunHere(db, getPool(), runId, {
     beforeCommit: () => {
       lastChunkAt = performance.now();
     },

@@ -7,7 +7,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 import {
   AGE_GROUPS,
   CLIMATE_REGIONS,

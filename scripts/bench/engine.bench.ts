@@ -13,7 +13,7 @@ import {
   VENTILATION_TYPES,
   WINDOW_TYPES,
 } from '../../src/lib/engine/vocabulary';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 
 const ROOMS = 20_000;
 const ROUNDS = 10;

@@ -14,7 +14,7 @@ import { runAnalysis } from '../../src/lib/server/monitor-logs/analysis.service'
 import { commitLog, previewLog } from '../../src/lib/server/monitor-logs/import.service';
 import { DAY_COPY_SQL, dayCopyLine } from '../../src/lib/server/monitor-logs/packing';
 import { localMidnightUtc } from '../../src/lib/server/monitor-logs/timestamps';
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 
 const ROOMS = 300;
 const READINGS = Number(process.env.BENCH_LOG_READINGS ?? 10_000_000);
@@ -213,7 +213,7 @@ try {
     .returning('id')
     .executeTakeFirstOrThrow();
   const t1 = performance.now();
-  await runAnalysis(db, run.id);
+  await runAnalysis(db, getPool(), run.id);
   const analysisSeconds = (performance.now() - t1) / 1000;
   const analysed = await db
     .selectFrom('monitor_room_analyses')

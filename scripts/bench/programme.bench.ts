@@ -5,7 +5,7 @@
  * Two estates: one where money runs out first (the usual case), one where the contractor's capacity does.
  * Run: npx tsx scripts/bench/programme.bench.ts
  */
-import { prng } from '../../db/seed/prng';
+import { prng } from '../seed/prng';
 import { evaluatePlan } from '../../src/lib/engine/programme/evaluate';
 import { defaultProgrammeSettings } from '../../src/lib/engine/programme/defaults';
 import { buildProblem } from '../../src/lib/engine/programme/model';

@@ -2,10 +2,11 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
-import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+import { assess } from '../helpers/assessments';
+import { DEMO_ACCOUNTS, signIn } from '../helpers/session';
 
 // The assessments pages in Chromium: start a run and watch it finish, a room's results with its chart and
 // what-if, and the assumptions page.
@@ -18,15 +19,7 @@ describe('assessments pages in Chromium', () => {
   beforeAll(async () => {
     mkdirSync(SHOTS, { recursive: true });
     // Results to show on the room page, whichever test runs first.
-    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const { id } = (await (
-      await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) })
-    ).json()) as { id: string };
-    for (let i = 0; i < 150; i += 1) {
-      const { status } = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
-      if (status === 'succeeded' || status === 'failed') break;
-      await new Promise((r) => setTimeout(r, 200));
-    }
+    await assess(await signIn(DEMO_ACCOUNTS.trust_admin), { scope: 'trust' }, 120_000);
   });
   afterAll(async () => {
     for (const c of contexts) await c.close();

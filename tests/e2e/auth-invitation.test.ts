@@ -1,10 +1,13 @@
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, signInInBrowser } from '../helpers/browser';
+import { removeDemoMembersAddedSince, testDb } from '../helpers/db';
 import { linkIn, waitForMail } from '../helpers/mail';
 import { DEMO_ACCOUNTS, uniqueEmail } from '../helpers/session';
 
 describe('inviting a colleague in Chromium', () => {
+  const db = testDb();
+  const startedAt = new Date();
   let adminBrowser: BrowserContext;
   let inviteeBrowser: BrowserContext;
   beforeAll(async () => {
@@ -14,6 +17,8 @@ describe('inviting a colleague in Chromium', () => {
   afterAll(async () => {
     await adminBrowser?.close();
     await inviteeBrowser?.close();
+    await removeDemoMembersAddedSince(db, startedAt);
+    await db.destroy();
   });
 
   it('a trust admin invites by e-mail; the colleague follows the link, creates an account, confirms it and works as a finance lead', async () => {

@@ -1,6 +1,6 @@
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_SCHOOLS } from '../../db/seed/demo-trust';
+import { DEMO_SCHOOLS } from '../../scripts/seed/demo-trust';
 import { launchBrowser, signInInBrowser } from '../helpers/browser';
 import { APP_URL, DEMO_ACCOUNTS } from '../helpers/session';
 

@@ -2,6 +2,7 @@ import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { PER_SCHOOL_PLAN } from '../../src/lib/server/billing/plans';
 import { launchBrowser, openSignedInPage, seriousAxeViolations } from '../helpers/browser';
+import { assess } from '../helpers/assessments';
 import { APP_URL, DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 // Issue 14 part 1 in Chromium, as the roles concerned: our own error pages, no lost clicks, assumptions as forms,
@@ -18,16 +19,7 @@ async function asRole(email: string, viewport?: { width: number; height: number 
 describe('the first hour, part 1, in Chromium', () => {
   beforeAll(async () => {
     // Results to show, whichever test runs first.
-    const cookie = await signIn(DEMO_ACCOUNTS.trust_admin);
-    const { id } = (await (
-      await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) })
-    ).json()) as { id: string };
-    for (let i = 0; ; i += 1) {
-      const { status } = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
-      if (status === 'succeeded') break;
-      if (status === 'failed' || i > 300) throw new Error(`the assessment run did not finish (${status})`);
-      await new Promise((r) => setTimeout(r, 200));
-    }
+    await assess(await signIn(DEMO_ACCOUNTS.trust_admin), { scope: 'trust' }, 90_000);
   });
   afterAll(async () => {
     for (const c of contexts) await c.close();

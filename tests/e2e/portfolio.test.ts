@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
+import { assess } from '../helpers/assessments';
 import { APP_URL, DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 
 // The portfolio pages in Chromium over the demo trust, after a real assessment run of the whole trust.
@@ -33,22 +34,7 @@ describe('portfolio pages in Chromium', () => {
       cookie: managerCookie,
       body: JSON.stringify({ risk: 0.6, costEffectiveness: 0.3, payback: 0.1 }),
     });
-    const start = await api('/api/assessments', {
-      method: 'POST',
-      cookie: managerCookie,
-      body: JSON.stringify({ scope: 'trust' }),
-    });
-    expect(start.status).toBe(202);
-    const { id } = (await start.json()) as { id: string };
-    for (let i = 0; i < 240; i += 1) {
-      const run = (await (await api(`/api/assessments/${id}`, { cookie: managerCookie })).json()) as {
-        status: string;
-        error?: string;
-      };
-      if (run.status === 'succeeded') break;
-      if (run.status === 'failed') throw new Error(`Assessment failed: ${run.error}`);
-      await new Promise((r) => setTimeout(r, 500));
-    }
+    await assess(managerCookie, { scope: 'trust' }, 120_000);
   });
   afterAll(async () => {
     await api('/api/priorities/weights', {
@@ -182,7 +168,8 @@ describe('portfolio pages in Chromium', () => {
     await page.goto(`${APP_URL}/app`);
     const headline = await page.locator('[data-testid="headline"]').textContent();
     expect(headline).toContain('Rooms assessed');
-    await page.waitForTimeout(500);
+    // Once the page has settled (no request for half a second), no chart has been fetched above the fold's end.
+    await page.waitForLoadState('networkidle');
     expect(chartRequests).toEqual([]);
     await page.evaluate(() => window.scrollTo(0, 400));
     await page.locator('[data-testid="chart-co2"] canvas').first().waitFor({ timeout: 20_000 });
@@ -196,7 +183,7 @@ describe('portfolio pages in Chromium', () => {
     await page.evaluate(() => window.scrollTo(0, 0));
     await page.screenshot({ path: join(SHOTS, 'dashboard-top-light.png') });
     await setTheme(page, 'dark');
-    await page.waitForTimeout(300);
+    await page.locator('html.dark').waitFor({ state: 'attached' });
     await page.screenshot({ path: join(SHOTS, 'dashboard-dark.png') });
     await context.close();
   });

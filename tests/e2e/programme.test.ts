@@ -3,7 +3,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
 import { pdfPages } from '../helpers/pdf';
-import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+import { assess } from '../helpers/assessments';
+import { DEMO_ACCOUNTS, signIn } from '../helpers/session';
 import type { BrowserContext, Page } from 'playwright-core';
 
 // An estates manager builds a programme for the demo trust in Chromium, moves a room to another year, saves a
@@ -17,19 +18,7 @@ const hydrated = (page: Page, component: string) =>
 const NAME = `Board plan ${Date.now()}`;
 
 /** Runs a trust-wide assessment of the demo trust and waits for it (throws if it fails or takes over 3 minutes). */
-async function assessDemoTrust(cookie: string) {
-  const start = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
-  expect(start.status).toBe(202);
-  const { id } = (await start.json()) as { id: string };
-  const deadline = Date.now() + 180_000;
-  for (;;) {
-    const run = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string; error?: string };
-    if (run.status === 'succeeded') return;
-    if (run.status === 'failed') throw new Error(`Assessment failed: ${run.error}`);
-    if (Date.now() > deadline) throw new Error('The assessment did not finish within 3 minutes');
-    await new Promise((r) => setTimeout(r, 500));
-  }
-}
+const assessDemoTrust = (cookie: string) => assess(cookie, { scope: 'trust' }, 180_000);
 
 describe('capital programme in Chromium', () => {
   let context: BrowserContext;

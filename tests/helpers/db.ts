@@ -31,3 +31,16 @@ export async function createScratchDatabase(name: string) {
     },
   };
 }
+
+/**
+ * Takes out of the shared demo trust the invitations and memberships a test file added since `since` (their limits
+ * and chosen schools cascade), so the next file finds the demo trust's members as seeded.
+ */
+export async function removeDemoMembersAddedSince(db: ReturnType<typeof testDb>, since: Date): Promise<void> {
+  await db
+    .deleteFrom('invitation')
+    .where('organizationId', '=', 'demo-trust')
+    .where('createdAt', '>=', since)
+    .execute();
+  await db.deleteFrom('member').where('organizationId', '=', 'demo-trust').where('createdAt', '>=', since).execute();
+}

@@ -1,4 +1,5 @@
 // Reading the local SMTP fake's inbox (maildev 3: GET /api/email) in tests.
+import { waitFor } from './wait';
 
 const INBOX_URL = (process.env.MAIL_INBOX_URL ?? 'http://127.0.0.1:54336').replace(/\/$/, '');
 
@@ -20,20 +21,18 @@ export async function listMail(): Promise<ReceivedMail[]> {
   return (await response.json()) as ReceivedMail[];
 }
 
-/** Waits for the newest message to `to` whose subject contains `subjectIncludes` (case-insensitive). */
-export async function waitForMail(to: string, subjectIncludes = '', timeoutMs = 10_000): Promise<ReceivedMail> {
-  const deadline = Date.now() + timeoutMs;
+/** Waits for the newest message to `to` whose subject contains `subjectIncludes` (case-insensitive); throws after `timeoutMs`. */
+export function waitForMail(to: string, subjectIncludes = '', timeoutMs = 10_000): Promise<ReceivedMail> {
   const wanted = to.toLowerCase();
-  for (;;) {
-    const found = (await listMail())
-      .filter((m) => m.to.some((r) => r.address.toLowerCase() === wanted))
-      .filter((m) => m.subject.toLowerCase().includes(subjectIncludes.toLowerCase()));
-    const newest = found[found.length - 1];
-    if (newest) return newest;
-    if (Date.now() > deadline)
-      throw new Error(`No e-mail to ${to} about "${subjectIncludes}" arrived within ${timeoutMs} ms`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
+  return waitFor(
+    `an e-mail to ${to} about "${subjectIncludes}" arrives`,
+    async () =>
+      (await listMail())
+        .filter((m) => m.to.some((r) => r.address.toLowerCase() === wanted))
+        .filter((m) => m.subject.toLowerCase().includes(subjectIncludes.toLowerCase()))
+        .at(-1),
+    { timeoutMs, intervalMs: 200 },
+  );
 }
 
 /** The first link in a message's plain text whose path starts with `pathPrefix` (e.g. '/reset-password'). */

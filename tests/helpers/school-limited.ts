@@ -4,6 +4,7 @@
 import { inflateRawSync } from 'node:zlib';
 import type { Kysely } from 'kysely';
 import type { Database } from '../../db/database';
+import { assess } from './assessments';
 import { DEMO_ACCOUNTS, api, signIn, signUp, uniqueEmail } from './session';
 
 export interface SchoolLimitedFixture {
@@ -33,23 +34,7 @@ async function json<T>(response: Response, expected: number): Promise<T> {
 }
 
 /** Starts a run as the trust admin and waits until it has finished; throws when it fails or takes too long. */
-async function finishedRun(admin: string, body: object): Promise<string> {
-  const { id } = await json<{ id: string }>(
-    await api('/api/assessments', { method: 'POST', cookie: admin, body: JSON.stringify(body) }),
-    202,
-  );
-  const deadline = Date.now() + 120_000;
-  for (;;) {
-    const run = await json<{ status: string; error?: string }>(
-      await api(`/api/assessments/${id}`, { cookie: admin }),
-      200,
-    );
-    if (run.status === 'succeeded') return id;
-    if (run.status === 'failed') throw new Error(`The fixture run failed: ${run.error}`);
-    if (Date.now() > deadline) throw new Error(`The fixture run ${id} did not finish within 120 s`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+const finishedRun = (admin: string, body: object): Promise<string> => assess(admin, body, 120_000);
 
 export async function schoolLimitedFixture(db: Kysely<Database>): Promise<SchoolLimitedFixture> {
   const admin = await signIn(DEMO_ACCOUNTS.trust_admin);

@@ -5,7 +5,7 @@ import { waitForMail } from './mail';
 /** The app under test (scripts/test.mjs sets APP_URL). */
 export const APP_URL = (process.env.APP_URL ?? 'http://127.0.0.1:4399').replace(/\/$/, '');
 
-/** The demo accounts' shared password (db/seed/demo-accounts.ts). */
+/** The demo accounts' shared password (scripts/seed/demo-accounts.ts). */
 export const DEMO_PASSWORD = 'airtally-demo-2026';
 
 /** The seeded demo account for each role in the demo trust ('demo-trust'). */
@@ -87,4 +87,26 @@ export async function createOtherTrust(): Promise<{ cookie: string; trustId: str
   const account = (await (await api('/api/account', { cookie })).json()) as { trust: { id: string } | null };
   if (!account.trust) throw new Error(`The new account ${email} has no trust`);
   return { cookie, trustId: account.trust.id, email };
+}
+
+/** Posts an HTML form (urlencoded, as a browser without JavaScript would) to `path`; the answer is not followed. */
+export function postForm(path: string, fields: Record<string, string | string[]>, cookie?: string): Promise<Response> {
+  const body = new URLSearchParams();
+  for (const [name, value] of Object.entries(fields))
+    for (const one of Array.isArray(value) ? value : [value]) body.append(name, one);
+  return api(path, {
+    method: 'POST',
+    cookie,
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: body.toString(),
+  });
+}
+
+/** The one-time message a form's answer leaves for the next page (the `airtally_flash` cookie), or null. */
+export function flashOf(response: Response): { kind: string; message: string } | null {
+  for (const line of response.headers.getSetCookie()) {
+    const match = /^airtally_flash=([^;]*)/.exec(line);
+    if (match?.[1]) return JSON.parse(decodeURIComponent(match[1])) as { kind: string; message: string };
+  }
+  return null;
 }

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
+import { runSucceeded, startRun } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL!);
@@ -119,25 +120,14 @@ describe('assumption sets', () => {
 
   it('a run records the assumption version it used', async () => {
     const current = await view();
-    const started = await api('/api/assessments', {
-      method: 'POST',
-      cookie: cookies.estates_manager,
-      body: JSON.stringify({ scope: 'trust' }),
-    });
-    const { id } = (await started.json()) as { id: string };
+    const id = await startRun(cookies.estates_manager);
     const run = await db
       .selectFrom('assessment_runs')
       .select(['assumptions_version', 'assumption_set_id'])
       .where('id', '=', id)
       .executeTakeFirstOrThrow();
     expect(run.assumptions_version).toBe(current.label);
-    for (let i = 0; i < 100; i += 1) {
-      const status = (await (await api(`/api/assessments/${id}`, { cookie: cookies.viewer })).json()) as {
-        status: string;
-      };
-      if (status.status === 'succeeded') break;
-      await new Promise((r) => setTimeout(r, 200));
-    }
+    await runSucceeded(cookies.viewer, id);
     // A room's detail, recomputed from what the run kept, records the version too.
     const stored = await db
       .selectFrom('room_results')

@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { sql } from 'kysely';
 import { afterAll, describe, expect, it } from 'vitest';
-import { getDb } from '../../src/lib/server/db/client';
+import { getDb, getPool } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { claimChunk } from '../../src/lib/server/assessments/chunks.repository';
 import { sendChunkJobs, stopQueue, sweepRuns } from '../../src/lib/server/assessments/queue';
@@ -18,6 +18,7 @@ import { bigTrust, type BigTrust } from '../helpers/big-trust';
 import { api } from '../helpers/session';
 
 const db = getDb();
+const pool = getPool();
 const children: ChildProcess[] = [];
 afterAll(async () => {
   for (const child of children) if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
@@ -161,7 +162,7 @@ describe('a run split into chunks across worker processes', () => {
   it('completes on two worker processes with the same results as on one worker', async () => {
     const trust = await bigTrust(db, 3000, 3);
     const one = await newRun(trust.trustId);
-    await workRunHere(one.id);
+    await workRunHere(db, pool, one.id);
     expect((await runOf(one.id)).status).toBe('succeeded');
 
     const workers = await Promise.all([realWorker(), realWorker()]);
@@ -188,7 +189,7 @@ describe('a run split into chunks across worker processes', () => {
   it('loses only the chunk a killed worker held: another worker finishes the run within a minute, no room twice, no mix of runs', async () => {
     const trust = await bigTrust(db, 2400, 2);
     const previous = await newRun(trust.trustId);
-    await workRunHere(previous.id);
+    await workRunHere(db, pool, previous.id);
     const slow = await slowWorker(4000);
     const id = await startRun(trust);
     // The slow worker holds a chunk (the app's workers take the others meanwhile).
@@ -242,7 +243,7 @@ describe('a run split into chunks across worker processes', () => {
       heartbeat_at = CASE chunk_no WHEN 0 THEN now() - interval '2 minutes' ELSE now() END
       WHERE run_id = ${run.id}::uuid AND chunk_no IN (0, 1)`.execute(db);
     const started = Date.now();
-    await sweepRuns();
+    await sweepRuns(db);
     const swept = await chunksOf(run.id);
     expect(swept[0]!.worker_id).not.toBe('another-host/4242/dead0000');
     expect(swept[1]).toMatchObject({ status: 'running', worker_id: 'another-host/4243/alive000', attempts: 1 });
@@ -259,7 +260,7 @@ describe('a run split into chunks across worker processes', () => {
     // The beating worker stops beating too: the sweep hands its chunk back, and the queue's workers finish the run.
     await sql`UPDATE assessment_run_chunks SET heartbeat_at = now() - interval '2 minutes'
       WHERE run_id = ${run.id}::uuid AND chunk_no = 1 AND worker_id = 'another-host/4243/alive000'`.execute(db);
-    await sendChunkJobs(run.id, 1);
+    await sendChunkJobs(db, run.id, 1);
     const done = (
       await until(
         async () => ({ run: await runOf(run.id), chunks: await chunksOf(run.id) }),
@@ -279,18 +280,18 @@ describe('a run split into chunks across worker processes', () => {
   it('fails cleanly after a chunk’s last attempt: status failed with the reason, its rows removed, current results kept', async () => {
     const trust = await bigTrust(db, 200, 2);
     const previous = await newRun(trust.trustId);
-    await workRunHere(previous.id);
+    await workRunHere(db, pool, previous.id);
     const run = await newRun(trust.trustId, 25);
     // The first chunk commits; the second breaks every time.
-    expect(await workNextChunk(run.id)).toBe('done');
+    expect(await workNextChunk(db, pool, run.id)).toBe('done');
     const crash = () => {
       throw new Error('simulated worker fault');
     };
     for (let attempt = 1; attempt < MAX_ATTEMPTS; attempt++) {
-      expect(await workNextChunk(run.id, { beforeCommit: crash })).toBe('retry');
+      expect(await workNextChunk(db, pool, run.id, { beforeCommit: crash })).toBe('retry');
       expect((await runOf(run.id)).status).toBe('running');
     }
-    expect(await workNextChunk(run.id, { beforeCommit: crash })).toBe('failed');
+    expect(await workNextChunk(db, pool, run.id, { beforeCommit: crash })).toBe('failed');
     const failed = await runOf(run.id);
     expect(failed.status).toBe('failed');
     expect(failed.error).toContain('simulated worker fault');
@@ -298,7 +299,7 @@ describe('a run split into chunks across worker processes', () => {
     expect(await countRows(run.id)).toBe(0);
     expect(await currentRunIds(trust.trustId)).toEqual([previous.id]);
     // Nobody works a failed run any more.
-    expect(await workNextChunk(run.id)).toBe('none');
+    expect(await workNextChunk(db, pool, run.id)).toBe('none');
   });
 });
 
@@ -333,7 +334,7 @@ describe('the rooms a run assesses', () => {
       .where('code', '=', 'R000001')
       .returning('id')
       .executeTakeFirstOrThrow();
-    await workRunHere(run.id);
+    await workRunHere(db, pool, run.id);
     const done = await runOf(run.id);
     expect(done.status).toBe('succeeded');
     expect(done.roomsDone).toBe(60);

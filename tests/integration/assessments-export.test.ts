@@ -1,9 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { refreshRanks } from '../../src/lib/server/portfolio/ranking.repository';
+import { assess } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL!);
@@ -24,22 +25,14 @@ const REQUIRED_HEADER = [
   'NPV (GBP)',
 ];
 
+/**
+ * Runs the whole trust and waits for it to succeed (throws when it fails or takes over 60 s). The worker that finished
+ * the run ranks the trust next; wait for that ranking (or make it) so the export reads the new run's ranks, not the
+ * previous run's that a reader gets while the ranking is being rebuilt.
+ */
 async function runTrust(cookie: string): Promise<void> {
-  const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
-  expect(response.status).toBe(202);
-  const { id } = (await response.json()) as { id: string };
-  for (let i = 0; i < 200; i += 1) {
-    const status = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
-    if (status.status === 'succeeded') {
-      // The worker that finished the run ranks the trust next; wait for that ranking (or make it) so the export
-      // reads the new run's ranks, not the previous run's that a reader gets while the ranking is being rebuilt.
-      await refreshRanks(db, DEMO_TRUST.id);
-      return;
-    }
-    if (status.status === 'failed') throw new Error('run failed');
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error('run did not finish');
+  await assess(cookie, { scope: 'trust' }, 60_000);
+  await refreshRanks(db, DEMO_TRUST.id);
 }
 
 async function download(cookie: string): Promise<ExcelJS.Workbook> {

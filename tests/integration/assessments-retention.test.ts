@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { workRunHere } from '../../src/lib/server/assessments/run-executor';
 import { insertRun, markFailed } from '../../src/lib/server/assessments/runs.repository';
-import { getDb } from '../../src/lib/server/db/client';
+import { getDb, getPool } from '../../src/lib/server/db/client';
 import { bigTrust, type BigTrust } from '../helpers/big-trust';
 import { api } from '../helpers/session';
 
@@ -29,7 +29,7 @@ async function run(schoolId: string | null = null, work = true): Promise<string>
     startedByUserId: null,
     startedByEmail: 'retention-test@test.airtally.test',
   });
-  if (work) await workRunHere(id);
+  if (work) await workRunHere(db, getPool(), id);
   return id;
 }
 

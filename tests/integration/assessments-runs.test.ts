@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'kysely';
-import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from '../../db/seed/demo-trust';
+import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
+import { runEnded, startRun } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 
 // Room counts come from the demo scenario definition, not from the API under test.
@@ -18,23 +19,8 @@ interface RunStatus {
   problems: { roomCode: string; field: string; message: string }[];
 }
 
-async function waitForRun(cookie: string, id: string): Promise<RunStatus> {
-  const deadline = Date.now() + 45_000;
-  for (;;) {
-    const response = await api(`/api/assessments/${id}`, { cookie });
-    expect(response.status).toBe(200);
-    const body = (await response.json()) as RunStatus;
-    if (body.status === 'succeeded' || body.status === 'failed') return body;
-    if (Date.now() > deadline) throw new Error(`run ${id} still ${body.status} after 45 s`);
-    await new Promise((r) => setTimeout(r, 250));
-  }
-}
-
-async function startRun(cookie: string, body: unknown): Promise<string> {
-  const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify(body) });
-  expect(response.status, await response.clone().text()).toBe(202);
-  return ((await response.json()) as { id: string }).id;
-}
+/** The run once it has ended (throws after 45 s), with the fields these tests read. */
+const waitForRun = async (cookie: string, id: string) => (await runEnded(cookie, id, 45_000)) as unknown as RunStatus;
 
 const currentRows = () =>
   db

@@ -1,19 +1,27 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { createDb } from '../../src/lib/server/db/client';
-import { linkIn, waitForMail } from '../helpers/mail';
+import { removeDemoMembersAddedSince } from '../helpers/db';
+import { linkIn, listMail, waitForMail } from '../helpers/mail';
+import { waitFor } from '../helpers/wait';
+import { verifiedTrust } from './billing-fixture';
 import {
   DEMO_ACCOUNTS,
   DEMO_PASSWORD,
   api,
   cookieFrom,
   createOtherTrust,
+  flashOf,
+  postForm,
   signIn,
   signUp,
   uniqueEmail,
 } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL ?? '');
+/** When this file started: what it added to the shared demo trust after that is taken out again at the end. */
+const fileStartedAt = new Date();
 afterAll(async () => {
+  await removeDemoMembersAddedSince(db, fileStartedAt);
   await db.destroy();
 });
 
@@ -275,6 +283,70 @@ describe('members', () => {
     expect(row?.role).toBe('trust_admin');
   });
 
+  it('serves the members page forms without JavaScript: invite, withdraw, change and remove through /api/members', async () => {
+    const { cookie: admin, trustId } = await verifiedTrust();
+    const back = '/app/settings/members';
+    const invitationsTo = (email: string) =>
+      db
+        .selectFrom('invitation')
+        .select(['id', 'status', 'role'])
+        .where('organizationId', '=', trustId)
+        .where('email', '=', email)
+        .execute();
+
+    const withdrawnEmail = uniqueEmail('withdrawn');
+    const invited = await postForm('/api/members', { email: withdrawnEmail, role: 'viewer', back }, admin);
+    expect(invited.status).toBe(303);
+    expect(invited.headers.get('location')).toBe(back);
+    expect(flashOf(invited)).toEqual({ kind: 'ok', message: `Invitation sent to ${withdrawnEmail}.` });
+    const [pending] = await invitationsTo(withdrawnEmail);
+    expect(pending).toMatchObject({ status: 'pending', role: 'viewer' });
+    const withdrawn = await postForm(`/api/members/invitations/${pending!.id}`, { _method: 'DELETE', back }, admin);
+    expect([withdrawn.status, flashOf(withdrawn)?.message]).toEqual([303, 'Invitation withdrawn.']);
+    expect((await invitationsTo(withdrawnEmail))[0]?.status).toBe('canceled');
+
+    const email = uniqueEmail('form-member');
+    expect((await postForm('/api/members', { email, role: 'viewer', back }, admin)).status).toBe(303);
+    const [invitation] = await invitationsTo(email);
+    await signUp({ name: 'Form Member', email, invitationId: invitation!.id });
+    const memberOf = () =>
+      db
+        .selectFrom('member')
+        .select(['id', 'role'])
+        .where('organizationId', '=', trustId)
+        .where('userId', 'in', db.selectFrom('user').select('id').where('email', '=', email))
+        .executeTakeFirst();
+    const member = (await memberOf())!;
+    const noMethod = await postForm(`/api/members/${member.id}`, { role: 'finance_lead', back }, admin);
+    expect([noMethod.status, flashOf(noMethod)?.kind]).toEqual([303, 'error']);
+    expect((await memberOf())?.role).toBe('viewer');
+    const changed = await postForm(
+      `/api/members/${member.id}`,
+      { _method: 'PATCH', role: 'finance_lead', limitSchools: 'all', accessEndsOn: '', back },
+      admin,
+    );
+    expect([changed.status, flashOf(changed)]).toEqual([303, { kind: 'ok', message: 'Saved.' }]);
+    expect((await memberOf())?.role).toBe('finance_lead');
+    const removed = await postForm(`/api/members/${member.id}`, { _method: 'DELETE', back }, admin);
+    expect([removed.status, flashOf(removed)?.message]).toEqual([303, 'Member removed.']);
+    expect(await memberOf()).toBeUndefined();
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('trust_id', '=', trustId)
+      .where('action', 'like', 'member.%')
+      .orderBy('id')
+      .execute();
+    expect(audit.map((a) => a.action)).toEqual(
+      expect.arrayContaining([
+        'member.invited',
+        'member.invitation_cancelled',
+        'member.role_changed',
+        'member.removed',
+      ]),
+    );
+  });
+
   it('lists only the active trust’s members, and hides another trust’s member as 404', async () => {
     const other = await createOtherTrust();
     const list = await json<{ members: { email: string }[] }>(await api('/api/members', { cookie: other.cookie }));
@@ -404,22 +476,24 @@ describe('password reset', () => {
 });
 
 describe('account page', () => {
-  it('changes the password, signs out the other sessions and audits the change', async () => {
+  it('changes the password through /api/account/password, signs out the other sessions and audits the change', async () => {
     const { cookie, email } = await createOtherTrust();
     const elsewhere = await signIn(email);
-    const form = new URLSearchParams({
-      action: 'change-password',
-      currentPassword: DEMO_PASSWORD,
-      newPassword: 'changed-password-4',
-    });
-    const response = await api('/app/account', {
-      method: 'POST',
+    const response = await postForm(
+      '/api/account/password',
+      { currentPassword: DEMO_PASSWORD, newPassword: 'changed-password-4', back: '/app/account' },
       cookie,
-      body: form.toString(),
-      headers: { 'content-type': 'application/x-www-form-urlencoded' },
-    });
+    );
     expect(response.status).toBe(303);
-    expect(response.headers.get('location')).toBe('/app/account?notice=password-changed');
+    expect(response.headers.get('location')).toBe('/app/account');
+    expect(flashOf(response)).toEqual({
+      kind: 'ok',
+      message: 'Your password has been changed. Other devices were signed out.',
+    });
+    // This device keeps working with the new session cookie the answer carries; the other one is signed out.
+    const renewed = cookieFrom(response);
+    expect(renewed).toContain('session_token');
+    expect((await api('/api/account', { cookie: renewed })).status).toBe(200);
     expect((await api('/api/account', { cookie: elsewhere })).status).toBe(401);
     expect(await signIn(email, 'changed-password-4')).toContain('session_token');
     const audit = await db
@@ -431,21 +505,87 @@ describe('account page', () => {
     expect(audit).toHaveLength(1);
   });
 
-  it('says so when the current password is wrong', async () => {
+  it('sends the form back with the reason when the current password is wrong, and keeps the password', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const response = await postForm(
+      '/api/account/password',
+      { currentPassword: 'not-my-password', newPassword: 'changed-password-5', back: '/app/account' },
+      cookie,
+    );
+    expect(response.status).toBe(303);
+    expect(response.headers.get('location')).toBe('/app/account');
+    expect(flashOf(response)?.message).toContain('Your current password is not right');
+    // The page shows the message once, then no more.
+    const page = await api('/app/account', { cookie: `${cookie}; ${cookieFrom(response)}` });
+    expect(await page.text()).toContain('Your current password is not right');
+    expect(await signIn(email)).toContain('session_token');
+  });
+
+  it('answers JSON clients with JSON: 400 with the reason for a short new password', async () => {
     const { cookie } = await createOtherTrust();
-    const form = new URLSearchParams({
-      action: 'change-password',
-      currentPassword: 'not-my-password',
-      newPassword: 'changed-password-5',
-    });
-    const response = await api('/app/account', {
+    const response = await api('/api/account/password', {
       method: 'POST',
       cookie,
-      body: form.toString(),
-      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: JSON.stringify({ currentPassword: DEMO_PASSWORD, newPassword: 'short' }),
     });
     expect(response.status).toBe(400);
-    expect(await response.text()).toContain('Your current password is not right');
+    expect((await json<{ error: { message: string } }>(response)).error.message).toMatch(/10 characters/);
+  });
+
+  it('sends a new confirmation link through /api/account/verification-email and audits it', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const confirmations = async () =>
+      (await listMail()).filter(
+        (m) =>
+          m.to.some((r) => r.address.toLowerCase() === email.toLowerCase()) &&
+          m.subject.includes('Confirm your e-mail'),
+      ).length;
+    await waitFor('the sign-up confirmation arrives', async () => (await confirmations()) === 1);
+    const response = await postForm('/api/account/verification-email', { back: '/app/account' }, cookie);
+    expect(response.status).toBe(303);
+    expect(flashOf(response)).toEqual({ kind: 'ok', message: `We have sent a new confirmation link to ${email}.` });
+    await waitFor('the second confirmation arrives', async () => (await confirmations()) === 2);
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('actor_email', '=', email)
+      .where('action', '=', 'account.verification_sent')
+      .execute();
+    expect(audit).toHaveLength(1);
+  });
+
+  it('signs out on every device through /api/account/sign-out-everywhere, this one included', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const elsewhere = await signIn(email);
+    const unconfirmed = await postForm('/api/account/sign-out-everywhere', { back: '/app/account' }, cookie);
+    expect(unconfirmed.status).toBe(303);
+    expect(flashOf(unconfirmed)?.kind).toBe('error');
+    expect((await api('/api/account', { cookie })).status).toBe(200);
+
+    const response = await postForm('/api/account/sign-out-everywhere', { everywhere: 'true' }, cookie);
+    expect(response.status).toBe(303);
+    expect(response.headers.get('location')).toBe('/sign-in?notice=signed-out');
+    expect(response.headers.getSetCookie().some((c) => /session_token=;.*Max-Age=0/.test(c))).toBe(true);
+    expect((await api('/api/account', { cookie })).status).toBe(401);
+    expect((await api('/api/account', { cookie: elsewhere })).status).toBe(401);
+    const audit = await db
+      .selectFrom('audit_events')
+      .select('action')
+      .where('actor_email', '=', email)
+      .where('action', '=', 'account.signed_out_everywhere')
+      .execute();
+    expect(audit).toHaveLength(1);
+  });
+
+  it('refuses a form post to the account page itself (405): the page only shows', async () => {
+    const { cookie, email } = await createOtherTrust();
+    const response = await postForm(
+      '/app/account',
+      { action: 'change-password', currentPassword: DEMO_PASSWORD, newPassword: 'changed-password-6' },
+      cookie,
+    );
+    expect(response.status).toBe(405);
+    expect(await signIn(email)).toContain('session_token');
   });
 });
 

@@ -3,6 +3,7 @@
 import Stripe from 'stripe';
 import { api, createOtherTrust } from '../helpers/session';
 import { linkIn, waitForMail } from '../helpers/mail';
+import { waitFor } from '../helpers/wait';
 
 /** The SDK pointed where the app under test points it (scripts/test.mjs passes STRIPE_*). */
 export function provider(): Stripe {
@@ -30,20 +31,12 @@ export async function fakeAdmin<T = unknown>(path: string, body: Record<string, 
   return (await response.json()) as T;
 }
 
-/** Polls until `check` returns a value (not undefined/false) or fails after `timeoutMs`. */
-export async function waitUntil<T>(
+/** Polls until `check` returns a value (not undefined/false); throws after `timeoutMs` (the shared waitFor). */
+export const waitUntil = <T>(
   what: string,
   check: () => Promise<T | undefined | false>,
   timeoutMs = 15_000,
-): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const value = await check();
-    if (value !== undefined && value !== false) return value;
-    if (Date.now() > deadline) throw new Error(`Timed out waiting until ${what}`);
-    await new Promise((r) => setTimeout(r, 150));
-  }
-}
+): Promise<T> => waitFor(what, check, { timeoutMs });
 
 export interface BillingBody {
   billing: {

@@ -1,8 +1,8 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_SCHOOLS, demoRooms } from '../../db/seed/demo-trust';
+import { DEMO_SCHOOLS, demoRooms } from '../../scripts/seed/demo-trust';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
-// Expected values come from the demo scenario definition (db/seed/demo-trust.ts), not from the API.
+// Expected values come from the demo scenario definition (scripts/seed/demo-trust.ts), not from the API.
 const expectedRooms = DEMO_SCHOOLS.flatMap((school, index) =>
   demoRooms(school, index).map((room) => ({ ...room, school: school.name })),
 );

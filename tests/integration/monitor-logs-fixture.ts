@@ -3,7 +3,7 @@
  * solution C(t) = C_ss + (C_0 − C_ss)·e^(−λt) (Batterman 2017) with a fixed-seed wobble, then written as long or
  * wide CSV, day-first or ISO text, with or without seconds.
  */
-import { prng } from '@db/seed/prng';
+import { prng } from '../../scripts/seed/prng';
 
 /** CO2 at each minute of a weekday (pupils 09:00–15:15 with breaks) or a weekend (empty), ppm. */
 export function dayCurve(weekday: boolean, seed: number, lessonAch = 1.5): number[] {

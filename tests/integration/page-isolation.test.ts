@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { runSucceeded } from '../helpers/assessments';
 import { APP_URL, DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 
 // Pages are rendered on the server with the islands' data-fetching caches. Nothing cached while rendering one
@@ -24,5 +25,7 @@ describe('server-rendered pages keep each request to itself', () => {
     expect(html).toContain('No assessment has been run yet.');
     expect(html).not.toContain(DEMO_ACCOUNTS.estates_manager);
     expect(html).not.toContain('airtally-default-2026');
+    // The run this started ends here, not during the next test file.
+    await runSucceeded(demo, ((await started.json()) as { id: string }).id);
   });
 });

@@ -4,6 +4,7 @@ import http from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
 import { startPaymentsFake } from '../../scripts/payments-fake/server.mjs';
+import { waitFor as waitForShared } from '../helpers/wait';
 
 const KEY = 'sk_test_fake_suite';
 const WEBHOOK_SECRET = 'whsec_fake_suite_secret';
@@ -22,15 +23,9 @@ const received: Received[] = [];
 /** How many more deliveries the receiver answers with 500 before accepting. */
 let failNext = 0;
 
-async function waitFor<T>(what: string, find: () => T | undefined, timeoutMs = 10_000): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const hit = find();
-    if (hit !== undefined) return hit;
-    if (Date.now() > deadline) throw new Error(`Timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 25));
-  }
-}
+/** Waits (every 25 ms, at most 10 s) until `find` answers something; throws otherwise. */
+const waitFor = <T>(what: string, find: () => T | undefined, timeoutMs = 10_000): Promise<T> =>
+  waitForShared(what, find, { timeoutMs, intervalMs: 25 });
 
 const eventsOf = (type: string, objectId?: string) =>
   received.filter(

@@ -4,25 +4,12 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
 import { testDb } from '../helpers/db';
+import { commit, upload } from '../helpers/imports';
 import { DEMO_ACCOUNTS, api, createOtherTrust, signIn } from '../helpers/session';
 import { messyRegister, roomRow, tidyRegister } from '../unit/register/fixtures';
 
 const db = testDb();
 afterAll(() => db.destroy());
-
-/** Uploads a file as the given session; resolves to the status and JSON body. */
-async function upload(cookie: string, name: string, bytes: Buffer, fields: Record<string, string> = {}) {
-  const form = new FormData();
-  form.set('file', new Blob([new Uint8Array(bytes)]), name);
-  for (const [k, v] of Object.entries(fields)) form.set(k, v);
-  const response = await api('/api/imports', { method: 'POST', cookie, body: form });
-  return { status: response.status, body: (await response.json()) as any };
-}
-
-async function commit(cookie: string, id: string, body: unknown) {
-  const response = await api(`/api/imports/${id}/commit`, { method: 'POST', cookie, body: JSON.stringify(body) });
-  return { status: response.status, body: (await response.json()) as any };
-}
 
 /** Everything of a trust's estate that an import could change, for before/after comparison. */
 async function estateState(trustId: string) {

@@ -42,6 +42,7 @@ describe('the register template', () => {
       'Block fuel price (£/kWh)',
       'Block heating efficiency',
       'Notes',
+      'School postcode',
     ]);
     expect(rooms.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 });
     REGISTER_COLUMNS.forEach((c, i) => {

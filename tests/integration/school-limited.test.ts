@@ -3,7 +3,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testDb } from '../helpers/db';
 import { bodyText, leaked, schoolLimitedFixture, type SchoolLimitedFixture } from '../helpers/school-limited';
-import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
+import { sql } from 'kysely';
+import { DEMO_ACCOUNTS, api, signIn, signUp, uniqueEmail } from '../helpers/session';
 
 const db = testDb();
 let f: SchoolLimitedFixture;
@@ -109,5 +110,105 @@ describe('a member limited to one school', () => {
     }
     // The trust admin does get them (the ids are real).
     expect((await api(`/app/schools/${f.otherSchoolId}`, { cookie: admin })).status).toBe(200);
+  });
+});
+
+describe('what applies to the whole trust', () => {
+  it('is not for a member limited to one school: assumptions, unit catalogue, ranking weights, new schools', async () => {
+    const before = await db
+      .selectFrom('assumption_sets')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('trust_id', '=', 'demo-trust')
+      .executeTakeFirstOrThrow();
+    const weightsBefore = await (await api('/api/priorities/weights', { cookie: admin })).json();
+    const attempts: [string, string, object][] = [
+      ['PATCH', '/api/assumptions', { changes: [{ path: 'air.outdoorCo2Ppm', value: 430 }] }],
+      ['PUT', '/api/priorities/weights', { risk: 0.6, costEffectiveness: 0.2, payback: 0.2 }],
+      ['POST', '/api/schools', { name: 'Limited Member Annexe', phase: 'primary', climateRegion: 'midlands' }],
+    ];
+    for (const [method, path, body] of attempts) {
+      const response = await api(path, { method, cookie: f.cookie, body: JSON.stringify(body) });
+      expect(response.status, path).toBe(403);
+      const { error } = (await response.json()) as { error: { code: string; message: string } };
+      expect(error.code, path).toBe('limited_to_schools');
+      expect(error.message, path).toMatch(/limited to some schools/);
+    }
+    const after = await db
+      .selectFrom('assumption_sets')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('trust_id', '=', 'demo-trust')
+      .executeTakeFirstOrThrow();
+    expect(after.n).toBe(before.n);
+    expect(await (await api('/api/priorities/weights', { cookie: admin })).json()).toEqual(weightsBefore);
+    const annexe = await db.selectFrom('schools').select('id').where('name', '=', 'Limited Member Annexe').execute();
+    expect(annexe).toEqual([]);
+  });
+
+  it('is not offered on the pages: assumptions read-only with the reason, no trust-wide re-run', async () => {
+    const assumptions = await bodyText(await api('/app/settings/assumptions', { cookie: f.cookie }));
+    expect(assumptions).toContain('Your access is limited to some schools');
+    const asManager = await bodyText(
+      await api('/app/settings/assumptions', { cookie: await signIn(DEMO_ACCOUNTS.estates_manager) }),
+    );
+    expect(asManager).not.toContain('Your access is limited to some schools');
+    const finance = await bodyText(await api('/app/finance', { cookie: f.cookie }));
+    expect(finance).not.toContain('Re-run assessment');
+    expect(await bodyText(await api('/app/finance', { cookie: admin }))).toContain('Re-run assessment');
+  });
+});
+
+describe('a trust admin limited to one school', () => {
+  let limitedAdmin = '';
+  beforeAll(async () => {
+    const email = uniqueEmail('one-school-admin');
+    const invite = await api('/api/members', {
+      method: 'POST',
+      cookie: admin,
+      body: JSON.stringify({ email, role: 'trust_admin', schoolIds: [f.allowedSchoolId] }),
+    });
+    expect(invite.status, await invite.clone().text()).toBe(201);
+    const { invitation } = (await invite.json()) as { invitation: { id: string } };
+    limitedAdmin = await signUp({ name: 'One School Admin', email, invitationId: invitation.id });
+    // Inviting needs a confirmed address.
+    await sql`UPDATE "user" SET "emailVerified" = true WHERE email = ${email}`.execute(db);
+  }, 120_000);
+
+  const invite = (body: object) =>
+    api('/api/members', { method: 'POST', cookie: limitedAdmin, body: JSON.stringify(body) });
+
+  it('invites people only to their own school', async () => {
+    for (const body of [
+      { email: uniqueEmail('everywhere'), role: 'viewer' },
+      { email: uniqueEmail('other-school'), role: 'viewer', schoolIds: [f.otherSchoolId] },
+      { email: uniqueEmail('both'), role: 'viewer', schoolIds: [f.allowedSchoolId, f.otherSchoolId] },
+    ]) {
+      const response = await invite(body);
+      expect(response.status, JSON.stringify(body)).toBe(403);
+      expect(((await response.json()) as { error: { code: string } }).error.code).toBe('limited_to_schools');
+    }
+    const own = await invite({ email: uniqueEmail('own-school'), role: 'viewer', schoolIds: [f.allowedSchoolId] });
+    expect(own.status, await own.clone().text()).toBe(201);
+  });
+
+  it('cannot change or remove a member who sees every school, nor manage billing', async () => {
+    const viewerMember = 'demo-user-viewer-member';
+    const change = await api(`/api/members/${viewerMember}`, {
+      method: 'PATCH',
+      cookie: limitedAdmin,
+      body: JSON.stringify({ schoolIds: [f.allowedSchoolId] }),
+    });
+    expect(change.status).toBe(403);
+    const removal = await api(`/api/members/${viewerMember}`, { method: 'DELETE', cookie: limitedAdmin });
+    expect(removal.status).toBe(403);
+    const still = await db.selectFrom('member').select('id').where('id', '=', viewerMember).execute();
+    expect(still).toHaveLength(1);
+    const limits = await db
+      .selectFrom('membership_limits')
+      .select('limited_to_schools')
+      .where('member_id', '=', viewerMember)
+      .execute();
+    expect(limits.every((l) => !l.limited_to_schools)).toBe(true);
+    const billing = await api('/api/billing', { cookie: limitedAdmin });
+    expect(billing.status).toBe(403);
   });
 });

@@ -4,8 +4,9 @@
  * gives them; each figure names its baseline, fuel, price and hours.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_TRUST } from '../../db/seed/demo-trust';
+import { DEMO_TRUST } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
+import { assess } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, api, signIn } from '../helpers/session';
 
 const db = createDb(process.env.DATABASE_URL!);
@@ -24,18 +25,8 @@ interface Finance {
   schools: { schoolName: string; heatingUsed: { fuel: string; priceGbpPerKwh: number; priceSource: string }[] }[];
 }
 
-async function runTrust(cookie: string): Promise<void> {
-  const response = await api('/api/assessments', { method: 'POST', cookie, body: JSON.stringify({ scope: 'trust' }) });
-  expect(response.status).toBe(202);
-  const { id } = (await response.json()) as { id: string };
-  for (let i = 0; i < 600; i += 1) {
-    const status = (await (await api(`/api/assessments/${id}`, { cookie })).json()) as { status: string };
-    if (status.status === 'succeeded') return;
-    if (status.status === 'failed') throw new Error('run failed');
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error('run did not finish within 120 s');
-}
+/** Runs the whole trust and waits for it to succeed (throws when it fails or takes over 120 s). */
+const runTrust = (cookie: string) => assess(cookie, { scope: 'trust' }, 120_000);
 
 describe('numbers a practitioner can trust', () => {
   let finance: string;

@@ -10,7 +10,11 @@ describe('configuration', () => {
     const src = join(process.cwd(), 'src');
     const files = (dir: string): string[] =>
       readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
-        e.isDirectory() ? files(join(dir, e.name)) : /\.(ts|tsx|astro|mjs)$/.test(e.name) ? [join(dir, e.name)] : [],
+        e.isDirectory()
+          ? files(join(dir, e.name))
+          : /\.(ts|tsx|mts|cts|js|jsx|mjs|cjs|astro)$/.test(e.name)
+            ? [join(dir, e.name)]
+            : [],
       );
     const readers = files(src)
       .filter((f) => /process\.env|import\.meta\.env/.test(readFileSync(f, 'utf8')))

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { safeNext } from '../../src/lib/server/auth/pages';
+import { safeNext } from '../../src/lib/server/http/safe-next';
 
 // Where sign-in may send people afterwards. Browsers strip tab, CR and LF from URLs and read "\" as
 // "/" (WHATWG URL Standard, "basic URL parser"), so each of these would otherwise leave the site.

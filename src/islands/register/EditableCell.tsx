@@ -38,7 +38,11 @@ export function EditableCell(props: {
   }
   const finish = () => {
     setEditing(false);
-    const next = draft.trim() === '' ? null : kind === 'number' ? Number(draft.replace(',', '.')) : draft;
+    const text = draft.trim();
+    // A plain number is sent as one; anything else typed in a number cell ("1.6 m2", "2700 mm", "SW", "20 %") is sent
+    // as typed and read by the server with the import's own cell readers, so a cell accepts what a file does.
+    const plain = /^[-+]?\d+([.,]\d+)?$/.test(text) ? Number(text.replace(',', '.')) : null;
+    const next = text === '' ? null : kind === 'number' ? (plain ?? text) : draft;
     if (next === value || (next === null && value === null)) return;
     if (next === null && !nullable && kind !== 'text') return;
     onCommit(kind === 'text' && next === null ? '' : next);

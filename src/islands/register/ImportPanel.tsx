@@ -2,6 +2,7 @@ import { useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import {
   commitRegisterImport,
+  rejectedRowsUrl,
   uploadRegister,
   type ImportOutcome,
   type ImportPreview,
@@ -16,7 +17,7 @@ const SUMMARY_LABELS: [keyof ImportPreview['summary'], string][] = [
   ['roomsToChange', 'Rooms to change'],
   ['roomsUnchanged', 'Unchanged'],
   ['rowsRejected', 'Rows rejected'],
-  ['rowsSkipped', 'Blank or total rows skipped'],
+  ['rowsSkipped', 'Blank, total or note rows skipped'],
 ];
 
 /** Upload → (header row and column mapping) → preview with every problem → commit the valid rows or nothing. */
@@ -34,10 +35,11 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
   const [showWarnings, setShowWarnings] = useState(true);
   const [dragging, setDragging] = useState(false);
   const [clearBlanks, setClearBlanks] = useState(false);
+  const [schoolChoices, setSchoolChoices] = useState<SchoolChoices>({});
 
   const send = async (
     chosen: File,
-    opts: { headerRow?: number | undefined; mapping?: Record<string, string | null> },
+    opts: { headerRow?: number | undefined; mapping?: Record<string, string | null>; schools?: SchoolChoices },
   ) => {
     if (preview) await commitRegisterImport(preview.id, 'none', false).catch(() => undefined);
     setPreview(null);
@@ -51,6 +53,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
           ...(opts.headerRow ? { headerRow: opts.headerRow } : {}),
           ...(opts.mapping && Object.keys(opts.mapping).length ? { mapping: opts.mapping } : {}),
           ...(clearBlanks ? { clearBlanks: true } : {}),
+          ...(opts.schools ? { schools: opts.schools } : {}),
         },
         setProgress,
       );
@@ -70,6 +73,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
     if (!chosen) return;
     setFile(chosen);
     setMapping({});
+    setSchoolChoices({});
     setHeaderRow(undefined);
     void send(chosen, {});
   };
@@ -88,6 +92,19 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
   const problems = preview?.problems.filter((p) => showWarnings || p.severity === 'error') ?? [];
   const errors = preview?.summary.errors ?? 0;
   const fieldLabel = (field: string | null) => options.fields.find((f) => f.value === field)?.label ?? 'Not imported';
+  // Codes as people read them ("natural_single_sided" → "Natural, single-sided").
+  const codeLabels = new Map(
+    [
+      ...options.uses,
+      ...options.ventilationTypes,
+      ...options.ageGroups,
+      ...options.windowTypes,
+      ...options.frameMaterials,
+      ...options.heatingFuels,
+    ].map((o) => [o.value, o.label]),
+  );
+  const valueLabel = (value: string | number | null) =>
+    typeof value === 'string' ? (codeLabels.get(value) ?? value) : String(value);
 
   return (
     <section aria-label="Import a register" className="space-y-4">
@@ -164,7 +181,10 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
         <div className="space-y-4" data-testid="import-preview">
           <h3 className="text-lg font-semibold">
             Preview of {preview.fileName}{' '}
-            <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span>
+            {/* A CSV file has no sheets; a workbook's sheet is named as the workbook names it. */}
+            {!/\.(csv|txt)$/i.test(preview.fileName) && (
+              <span className="font-normal text-ink-muted">(sheet “{preview.sheetName}”)</span>
+            )}
           </h3>
           <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4 lg:grid-cols-7">
             {SUMMARY_LABELS.map(([key, text]) => (
@@ -193,7 +213,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                 current={headerRow}
                 onPick={(row) => {
                   setHeaderRow(row);
-                  void send(file, { headerRow: row, mapping });
+                  void send(file, { headerRow: row, mapping, schools: schoolChoices });
                 }}
               />
             )}
@@ -245,7 +265,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
               <button
                 type="button"
                 className="mt-3 rounded-control bg-brand px-3 py-1.5 font-semibold text-white"
-                onClick={() => void send(file, { headerRow, mapping })}
+                onClick={() => void send(file, { headerRow, mapping, schools: schoolChoices })}
               >
                 Re-read with this mapping (remembered for next time)
               </button>
@@ -257,6 +277,19 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                 .join(', ') || 'as detected'}
             </p>
           </details>
+
+          {preview.newSchools.length > 0 && (
+            <NewSchoolsList
+              schools={preview.newSchools}
+              options={options}
+              onChoose={(choices) => {
+                // Earlier choices stand; the new ones are added to them.
+                const merged = { ...schoolChoices, ...choices };
+                setSchoolChoices(merged);
+                void send(file, { headerRow, mapping, schools: merged });
+              }}
+            />
+          )}
 
           <div>
             <div className="flex items-center gap-4">
@@ -291,7 +324,7 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                   <tbody>
                     {problems.slice(0, 2000).map((p, i) => (
                       <tr key={i} className="border-t border-line">
-                        <td className="px-2 py-1 tabular-nums">{p.row}</td>
+                        <td className="px-2 py-1 tabular-nums">{p.rows ? rowRanges(p.rows) : p.row}</td>
                         <td className="px-2 py-1">
                           {p.columnLetter ? `${p.columnLetter} · ` : ''}
                           {p.column}
@@ -306,6 +339,14 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                   </tbody>
                 </table>
               </div>
+            )}
+            {preview.hasRejectedRows && (
+              <p className="mt-2 text-sm">
+                <a className="text-brand underline" href={rejectedRowsUrl(preview.id)} download>
+                  Download the {formatCount(preview.summary.rowsRejected, 'rejected row')} as a workbook
+                </a>{' '}
+                with a column saying what to fix; fix them there and upload that workbook to import them.
+              </p>
             )}
             {(problems.length > 2000 || preview.problemsTruncated) && (
               <p className="text-sm text-ink-muted">
@@ -353,8 +394,8 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
                           {c.fields
                             .map((f) =>
                               c.kind === 'new'
-                                ? `${f.field} ${String(f.after)}`
-                                : `${f.field}: ${f.before === null ? 'unknown' : String(f.before)} → ${f.after === null ? 'unknown' : String(f.after)}`,
+                                ? `${fieldLabel(f.field)} ${valueLabel(f.after)}`
+                                : `${fieldLabel(f.field)}: ${f.before === null ? 'unknown' : valueLabel(f.before)} → ${f.after === null ? 'unknown' : valueLabel(f.after)}`,
                             )
                             .join('; ')}
                         </td>
@@ -405,6 +446,159 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
           </div>
         </div>
       )}
+    </section>
+  );
+}
+
+/** Phase and region chosen for new schools, by school name (as the upload's `schools` field takes them). */
+type SchoolChoices = Record<string, { phase?: string; climateRegion?: string }>;
+
+/** Row numbers in short: 4–9, 12, 15–16. */
+function rowRanges(rows: readonly number[]): string {
+  const parts: string[] = [];
+  let start = rows[0] ?? 0;
+  let previous = start;
+  for (const row of [...rows.slice(1), Number.NaN]) {
+    if (row === previous + 1) {
+      previous = row;
+      continue;
+    }
+    parts.push(start === previous ? String(start) : `${start}–${previous}`);
+    start = row;
+    previous = row;
+  }
+  return parts.join(', ');
+}
+
+const SOURCE_WORDS: Record<string, string> = {
+  file: 'from the file',
+  chosen: 'your choice',
+  name: 'from its name',
+  postcode: 'from its postcode',
+  default: 'not known: please choose',
+};
+
+/** The schools the file creates, once each: phase and region as inferred, to confirm or choose before importing. */
+function NewSchoolsList({
+  schools,
+  options,
+  onChoose,
+}: {
+  schools: ImportPreview['newSchools'];
+  options: RegisterOptions;
+  onChoose: (choices: SchoolChoices) => void;
+}) {
+  const [draft, setDraft] = useState<SchoolChoices>(() =>
+    Object.fromEntries(schools.map((s) => [s.name, { phase: s.phase, climateRegion: s.climateRegion }])),
+  );
+  const changed = schools.some(
+    (s) => draft[s.name]?.phase !== s.phase || draft[s.name]?.climateRegion !== s.climateRegion,
+  );
+  const unknown = schools.filter((s) => s.phaseSource === 'default' || s.regionSource === 'default').length;
+  return (
+    <section
+      aria-labelledby="new-schools-heading"
+      className="rounded-card border border-line bg-surface p-4"
+      data-testid="new-schools"
+    >
+      <h4 id="new-schools-heading" className="font-semibold">
+        {formatCount(schools.length, 'new school')} in this file
+      </h4>
+      <p className="text-sm text-ink-muted">
+        Airtally will create {schools.length === 1 ? 'this school' : 'these schools'}. Phase and climate region come
+        from the file, the school’s name or its postcode where they say;{' '}
+        {unknown > 0
+          ? `${formatCount(unknown, 'school')} need${unknown === 1 ? 's' : ''} your choice (the trust’s usual values are used until you choose).`
+          : 'check them, and change any that are wrong.'}
+      </p>
+      <table className="mt-2 w-full text-left text-sm">
+        <caption className="sr-only">Schools the import creates</caption>
+        <thead className="text-ink-muted">
+          <tr>
+            <th scope="col" className="px-2 py-1">
+              School
+            </th>
+            <th scope="col" className="px-2 py-1">
+              Rows
+            </th>
+            <th scope="col" className="px-2 py-1">
+              Phase
+            </th>
+            <th scope="col" className="px-2 py-1">
+              Climate region
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {schools.map((s) => (
+            <tr key={s.key} className="border-t border-line align-top">
+              <th scope="row" className="px-2 py-1 font-semibold">
+                {s.name}
+                {s.postcode && <div className="text-xs font-normal text-ink-muted">{s.postcode}</div>}
+              </th>
+              <td className="px-2 py-1 tabular-nums">
+                {formatCount(s.rowCount, 'row')} from row {s.firstRow}
+              </td>
+              <td className="px-2 py-1">
+                <select
+                  aria-label={`Phase of ${s.name}`}
+                  className={`rounded-control border px-2 py-0.5 ${s.phaseSource === 'default' ? 'border-accent' : 'border-line'}`}
+                  value={draft[s.name]?.phase ?? s.phase}
+                  disabled={s.phaseSource === 'file'}
+                  onChange={(e) => setDraft((d) => ({ ...d, [s.name]: { ...d[s.name], phase: e.target.value } }))}
+                >
+                  {options.phases.map((o) => (
+                    <option key={o.value} value={o.value}>
+                      {o.label}
+                    </option>
+                  ))}
+                </select>
+                <div className="text-xs text-ink-muted">
+                  {SOURCE_WORDS[s.phaseSource]}
+                  {s.phaseSource === 'name' ? ` (${s.phaseReason.replace(/^the name says /, '')})` : ''}
+                </div>
+              </td>
+              <td className="px-2 py-1">
+                <select
+                  aria-label={`Climate region of ${s.name}`}
+                  className={`rounded-control border px-2 py-0.5 ${s.regionSource === 'default' ? 'border-accent' : 'border-line'}`}
+                  value={draft[s.name]?.climateRegion ?? s.climateRegion}
+                  onChange={(e) =>
+                    setDraft((d) => ({ ...d, [s.name]: { ...d[s.name], climateRegion: e.target.value } }))
+                  }
+                >
+                  {options.climateRegions.map((o) => (
+                    <option key={o.value} value={o.value}>
+                      {o.label}
+                    </option>
+                  ))}
+                </select>
+                <div className="text-xs text-ink-muted">
+                  {SOURCE_WORDS[s.regionSource]}
+                  {s.regionSource === 'postcode' ? ` (${s.regionReason})` : ''}
+                </div>
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <button
+        type="button"
+        className="mt-3 rounded-control bg-brand px-3 py-1.5 font-semibold text-white disabled:opacity-50"
+        disabled={!changed}
+        onClick={() =>
+          // Only what the person changed: values the file, name or postcode gave keep saying where they came from.
+          onChoose(
+            Object.fromEntries(
+              schools
+                .filter((s) => draft[s.name]?.phase !== s.phase || draft[s.name]?.climateRegion !== s.climateRegion)
+                .map((s) => [s.name, draft[s.name] ?? {}]),
+            ),
+          )
+        }
+      >
+        Use these phases and regions
+      </button>
     </section>
   );
 }

@@ -101,7 +101,11 @@ export function RoomsTable({
   };
 
   const edit = (room: Room, change: Partial<RoomFields>) => {
-    const problem = problemWith(room, change);
+    // Text typed into a number cell ("1.6 m2", "SW") is read by the server as the import reads it; it checks it then.
+    const typed =
+      Object.values(change).some((v) => typeof v === 'string') &&
+      !('code' in change || 'name' in change || 'notes' in change);
+    const problem = typed ? null : problemWith(room, change);
     if (problem) {
       setMessage({ kind: 'error', text: `Room ${room.code}: ${problem}` });
       return;

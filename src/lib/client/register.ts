@@ -3,7 +3,7 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tansta
 import { pageQueryClient } from './query-client';
 import type { Page, Room } from '../server/estate/estate.types';
 import type { ImportHistoryItem, ImportOutcome, ImportPreview } from '../server/register/import.service';
-import type { RoomCreate, RoomFields } from '../server/register/register.schemas';
+import type { RoomCreate, RoomFields } from '../server/estate/estate.schemas';
 import { apiFetch, uploadWithProgress } from './api';
 
 export type { ImportHistoryItem, ImportOutcome, ImportPreview, Page, Room, RoomFields };
@@ -140,16 +140,26 @@ export function useImports() {
 /** Uploads a register with upload progress (0–1); resolves to the preview. */
 export function uploadRegister(
   file: File,
-  options: { headerRow?: number; mapping?: Record<string, string | null>; clearBlanks?: boolean },
+  options: {
+    headerRow?: number;
+    mapping?: Record<string, string | null>;
+    clearBlanks?: boolean;
+    /** Phase and region chosen for the schools the file creates, by school name. */
+    schools?: Record<string, { phase?: string; climateRegion?: string }>;
+  },
   onProgress: (fraction: number) => void,
 ): Promise<ImportPreview> {
   const form = new FormData();
   form.set('file', file, file.name);
+  if (options.schools && Object.keys(options.schools).length) form.set('schools', JSON.stringify(options.schools));
   if (options.headerRow) form.set('headerRow', String(options.headerRow));
   if (options.clearBlanks) form.set('clearBlanks', 'true');
   if (options.mapping) form.set('mapping', JSON.stringify(options.mapping));
   return uploadWithProgress<ImportPreview>('/api/imports', form, onProgress);
 }
+
+/** Where the rows an import rejected can be downloaded, with what to fix, as a workbook ready to upload again. */
+export const rejectedRowsUrl = (importId: string) => `/api/imports/${importId}/rejected.xlsx`;
 
 /** Commits the valid rows of a previewed import, or cancels it. */
 export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteMissing: boolean) {
@@ -160,7 +170,8 @@ export function commitRegisterImport(id: string, rows: 'valid' | 'none', deleteM
 }
 
 /** The same checks the server runs on an edit, so the editor can say what is wrong before sending. */
-export { physicalChecks, RoomFieldsSchema } from '../server/register/register.schemas';
+export { physicalChecks } from '../server/estate/checks';
+export { RoomFieldsSchema } from '../server/estate/estate.schemas';
 
 /** A school with its blocks, as GET /api/schools/[id] answers. */
 export type { School, Block } from '../server/estate/estate.types';

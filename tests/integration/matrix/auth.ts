@@ -51,6 +51,29 @@ export const entries: MatrixEntry[] = [
     expect: signedIn(404),
   },
   {
+    file: 'account/password.ts',
+    method: 'POST',
+    path: '/api/account/password',
+    body: { currentPassword: '', newPassword: 'short' },
+    expect: signedIn(400),
+    note: 'invalid input changes nothing',
+  },
+  {
+    file: 'account/verification-email.ts',
+    method: 'POST',
+    path: '/api/account/verification-email',
+    expect: { ...signedIn(400), other_trust: 202, school_limited: 202 },
+    note: 'the demo accounts are confirmed already; the new accounts (other trust admin, school-limited member) are sent a new link',
+  },
+  {
+    file: 'account/sign-out-everywhere.ts',
+    method: 'POST',
+    path: '/api/account/sign-out-everywhere',
+    body: { everywhere: false },
+    expect: signedIn(400),
+    note: 'signing out everywhere needs an explicit everywhere: true (the matrix keeps its sessions)',
+  },
+  {
     file: 'members/index.ts',
     method: 'GET',
     path: '/api/members',
@@ -75,9 +98,23 @@ export const entries: MatrixEntry[] = [
   },
   { file: 'members/[id].ts', method: 'DELETE', path: '/api/members/no-such-member', expect: adminOnly(404, 404) },
   {
+    file: 'members/[id].ts',
+    method: 'POST',
+    path: '/api/members/no-such-member',
+    expect: all(405),
+    note: 'POST is for the forms of the members page (PATCH or DELETE in _method); JSON clients use PATCH and DELETE',
+  },
+  {
     file: 'members/invitations/[id].ts',
     method: 'DELETE',
     path: '/api/members/invitations/no-such-invitation',
     expect: adminOnly(404, 404),
+  },
+  {
+    file: 'members/invitations/[id].ts',
+    method: 'POST',
+    path: '/api/members/invitations/no-such-invitation',
+    expect: all(405),
+    note: 'POST is for the withdraw button of the members page (DELETE in _method)',
   },
 ];

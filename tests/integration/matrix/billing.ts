@@ -51,6 +51,13 @@ export const entries: MatrixEntry[] = [
     note: 'resuming a subscription that is not cancelling changes nothing; the other trust has none',
   },
   {
+    file: 'billing/quantity.ts',
+    method: 'POST',
+    path: '/api/billing/quantity',
+    expect: adminOnly(200, 200),
+    note: 'idempotent: the demo subscription already covers its schools; the other trust has no subscription',
+  },
+  {
     file: 'billing/webhook.ts',
     method: 'POST',
     path: '/api/billing/webhook',
@@ -68,10 +75,10 @@ export const entries: MatrixEntry[] = [
       viewer: 403,
       finance_lead: 403,
       estates_manager: 400,
-      school_limited: 400,
+      school_limited: 403,
       trust_admin: 400,
       other_trust: 400,
     },
-    note: 'the body is refused after the permission check (a school-limited member may not add schools at all: see school-limited.test.ts)',
+    note: 'the body is refused after the permission check; a school-limited member may not add schools at all (see school-limited.test.ts)',
   },
 ];

@@ -32,6 +32,20 @@ export const entries: MatrixEntry[] = [
     note: "the trust admin's import lists missing rooms of every school: a school-limited member sees only their own imports",
   },
   {
+    file: 'imports/[id]/rejected.xlsx.ts',
+    method: 'GET',
+    path: `/api/imports/${NOBODY}/rejected.xlsx`,
+    expect: writers(404),
+    note: 'the rejected rows of an import that does not exist',
+  },
+  {
+    file: 'imports/[id]/rejected.xlsx.ts',
+    method: 'GET',
+    path: (c) => `/api/imports/${c.foreignImportId}/rejected.xlsx`,
+    expect: writers(404, 404, 404),
+    note: "the trust admin's preview rejected no rows (nothing to download); another member limited to a school, or another trust, may not see it at all",
+  },
+  {
     file: 'imports/[id]/commit.ts',
     method: 'POST',
     path: `/api/imports/${NOBODY}/commit`,

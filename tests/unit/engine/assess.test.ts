@@ -5,16 +5,16 @@ import { exampleOneAssumptions, exampleOneRoom, typicalClassroom } from './helpe
 const ex1 = exampleOneAssumptions();
 
 describe('assessRoom reproduces worked example 1 through the entry point', () => {
-  it('case A, 155 L/s: occupied mean 1139.5 ppm in every season (check 4, §1.6)', () => {
+  it('case A, 155 L/s: occupied mean 1139.5 ppm in every season (worked example 1, docs/sources.md)', () => {
     const a = assessRoom(exampleOneRoom(155), ex1);
     for (const s of ['winter', 'mid', 'summer'] as const) {
       expect(a.seasons[s].ventilation).toEqual({ windowLps: 0, infiltrationLps: 0, mechanicalLps: 155, totalLps: 155 });
       expect(Math.abs(a.seasons[s].occupiedMeanCo2Ppm - 1139.5)).toBeLessThanOrEqual(0.5);
-      expect(Math.abs(a.seasons[s].generationLps - 0.148319)).toBeLessThanOrEqual(1e-6); // check 13
+      expect(Math.abs(a.seasons[s].generationLps - 0.148319)).toBeLessThanOrEqual(1e-6); // ideal gas correction of Table 4 (occupancy tests)
     }
   });
 
-  it('case A curve passes 1342.4 ppm at 10:00 and peaks at 1375.7 ppm (§1.6 table)', () => {
+  it('case A curve passes 1342.4 ppm at 10:00 and peaks at 1375.7 ppm (worked example 1)', () => {
     const w = assessRoom(exampleOneRoom(155), ex1).seasons.winter;
     expect(Math.abs((w.curve.find((p) => p.minute === 600)?.co2Ppm ?? 0) - 1342.4)).toBeLessThanOrEqual(0.1);
     expect(Math.abs(w.peakCo2Ppm - 1375.7)).toBeLessThanOrEqual(0.1);
@@ -36,7 +36,7 @@ describe('assessRoom reproduces worked example 1 through the entry point', () =>
   });
 
   it('case B counts 26,580 pupil-hours a year above 1350 ppm and bands it far over its daily-mean limit', () => {
-    // Hand derivation (§1.3, §1.6): C_ss = 420 + 148319/40 = 4127.975 ppm, λ = 3.6·40/168 = 0.857143 h⁻¹;
+    // Hand derivation (Batterman 2017 §2.1; worked example 1): C_ss = 420 + 148319/40 = 4127.975 ppm, λ = 3.6·40/168 = 0.857143 h⁻¹;
     // L1 crosses 1350 ppm at t* = ln(3707.975/2777.975)/λ = 20.213 min; the break bottoms at ≈ 2874 ppm and
     // lunch at ≈ 1768 ppm, both above 1350, so the rest of the occupied day is above: 39.787 + 4·60 = 279.787 min.
     // Every season is identical here: 30 pupils × 279.787/60 h × 190 days = 26,579.7 pupil-hours (exposure).
@@ -76,7 +76,7 @@ describe('assessRoom on a typical classroom under the default set', () => {
     expect(a.airPermeabilityM3hM2).toBe(20); // system-built default
   });
 
-  it('derives infiltration from the default permeability: 20 × 56 / 168 / 20 × 168 / 3.6 = 15.56 l/s (§4.3)', () => {
+  it('derives infiltration from the default permeability: 20 × 56 / 168 / 20 × 168 / 3.6 = 15.56 l/s (Kronvall–Persily rule, Sherman 1987)', () => {
     expect(Math.abs(a.seasons.winter.ventilation.infiltrationLps - 15.5556)).toBeLessThanOrEqual(0.001);
   });
 
@@ -102,10 +102,10 @@ describe('assessRoom on a typical classroom under the default set', () => {
     expect(b.seasons.winter.occupiedMeanCo2Ppm).toBe(a.seasons.winter.occupiedMeanCo2Ppm);
   });
 
-  it('uses EN 16798-1 Category II when the set chooses the European categories (check 15: 1220 ppm)', () => {
+  it('uses EN 16798-1 Category II when the set chooses the European categories (EN 16798-1:2019 Annex B: 1220 ppm)', () => {
     const set = structuredClone(DEFAULT_ASSUMPTIONS);
     set.criteria.family.value = 'en16798_1';
-    set.air.outdoorCo2Ppm.value = 420; // check 15 is at 420 ppm outdoors
+    set.air.outdoorCo2Ppm.value = 420; // Annex B gives the limit as 800 ppm above 420 ppm outdoors
     const en = assessRoom(typicalClassroom(), set);
     expect(en.criterion.packId).toBe('en16798_cat_II');
     expect(en.criterion.meanLimitPpm).toBe(1220);

@@ -34,13 +34,13 @@ describe('PMV/PPD against ISO 7730:2005 validation rows', () => {
     });
   });
 
-  it('row 1 gives PMV −0.75 and PPD 16.9 % (check 27: ISO 7730 Annex D)', () => {
+  it('row 1 gives PMV −0.75 and PPD 16.9 % (ISO 7730:2005 Annex D)', () => {
     const r = pmvPpd({ airTempC: 22, radiantTempC: 22, airSpeedMs: 0.1, relativeHumidityPct: 60, met: 1.2, clo: 0.5 });
     expect(Math.abs(r.pmv - -0.75)).toBeLessThanOrEqual(0.1);
     expect(Math.abs(r.ppdPct - 16.9)).toBeLessThanOrEqual(0.5);
   });
 
-  it('27/27 °C, 0.1 m/s, 60 %, 1.6 met, 0.5 clo gives PMV 1.17 and PPD 33.9 % (check 28: ISO 7730 Annex D)', () => {
+  it('27/27 °C, 0.1 m/s, 60 %, 1.6 met, 0.5 clo gives PMV 1.17 and PPD 33.9 % (ISO 7730:2005 Annex D)', () => {
     const r = pmvPpd({ airTempC: 27, radiantTempC: 27, airSpeedMs: 0.1, relativeHumidityPct: 60, met: 1.6, clo: 0.5 });
     expect(Math.abs(r.pmv - 1.17)).toBeLessThanOrEqual(0.1);
     expect(Math.abs(r.ppdPct - 33.9)).toBeLessThanOrEqual(0.5);
@@ -70,7 +70,7 @@ describe('draught rate (ISO 7730:2005)', () => {
       ).toBeLessThanOrEqual(draught.tolerancePct);
     });
   }
-  it('20 °C, 0.15 m/s, Tu 40 % gives 18.0 % (check 29)', () => {
+  it('20 °C, 0.15 m/s, Tu 40 % gives 18.0 % (ISO 7730:2005 draught-rate equation, by hand)', () => {
     expect(
       Math.abs(draughtRatePct({ localAirTempC: 20, localAirSpeedMs: 0.15, turbulencePct: 40 }) - 18.0),
     ).toBeLessThanOrEqual(0.1);
@@ -102,22 +102,22 @@ describe('cold downdraught off glazing (Heiselberg 1994, coefficients from memor
 });
 
 describe('adaptive summer limits (CIBSE TM52 / EN 16798-1)', () => {
-  it('T_rm 16 °C, Category II → T_max 27.08 °C (check 32)', () => {
+  it('T_rm 16 °C, Category II → T_max 27.08 °C (EN 16798-1:2019 / CIBSE TM52 adaptive limit, by hand)', () => {
     expect(adaptiveMaxTempC(16, 3)).toBeCloseTo(27.08, 10);
   });
 
-  it('running mean of 20, 19, …, 14 °C is 17.947 °C (3.8 weights) and 17.858 °C (0.8^i normalised) (check 33)', () => {
+  it('running mean of 20, 19, …, 14 °C is 17.947 °C (3.8 weights) and 17.858 °C (0.8^i normalised) (CIBSE TM52 running mean, by hand)', () => {
     const days = [20, 19, 18, 17, 16, 15, 14];
     expect(Math.abs(runningMeanTempC(days, 'tm52_3_8') - 17.947)).toBeLessThanOrEqual(0.001);
     expect(Math.abs(runningMeanTempC(days, 'exact') - 17.858)).toBeLessThanOrEqual(0.001);
   });
 
-  it('example 11 hourly temperatures against T_max 27.08 give W_e = 8 (check 34: TM52 criterion 2)', () => {
+  it('example 11 hourly temperatures against T_max 27.08 give W_e = 8 (CIBSE TM52 criterion 2; worked example 11, docs/sources.md)', () => {
     expect(dailyWeightedExceedance([26.5, 27.6, 28.2, 28.9, 29.4, 28.3, 27.9], 27.08)).toBe(8);
   });
 });
 
-describe('overheating screening index (§9.3, worked example 10)', () => {
+describe('overheating screening index (SAP 2012 Appendix P structure; worked example 10, docs/sources.md)', () => {
   const base = {
     glazingAreaM2: 12,
     gValue: 0.6,
@@ -130,7 +130,7 @@ describe('overheating screening index (§9.3, worked example 10)', () => {
     meanVentilationLps: (300 * 7 + 20 * 17) / 24,
   };
 
-  it('south-facing classroom: Φ_sol 633.6 W, Φ_int 749.58 W, H 162.0 W/K, ΔT_24 8.54 K (check 35)', () => {
+  it('south-facing classroom: Φ_sol 633.6 W, Φ_int 749.58 W, H 162.0 W/K, ΔT_24 8.54 K (worked example 10, by hand)', () => {
     const r = overheatingIndex(base);
     expect(r.solarGainW).toBeCloseTo(633.6, 9);
     expect(Math.abs(r.internalGainW - 749.58)).toBeLessThanOrEqual(0.01);
@@ -138,7 +138,7 @@ describe('overheating screening index (§9.3, worked example 10)', () => {
     expect(Math.abs(r.deltaTK - 8.54)).toBeLessThanOrEqual(0.01);
   });
 
-  it('night ventilation of 150 L/s drops the index to 5.08 K; a north-facing twin gives 6.40 K (§9.3)', () => {
+  it('night ventilation of 150 L/s drops the index to 5.08 K; a north-facing twin gives 6.40 K (worked example 10, by hand)', () => {
     expect(
       Math.abs(overheatingIndex({ ...base, meanVentilationLps: (300 * 7 + 150 * 17) / 24 }).deltaTK - 5.08),
     ).toBeLessThanOrEqual(0.01);

@@ -8,7 +8,7 @@
  * (the field saw that only at peaks).
  */
 import { describe, expect, it } from 'vitest';
-import { DEMO_SCHOOLS, demoRooms } from '@db/seed/demo-trust';
+import { DEMO_SCHOOLS, demoRooms } from '../../../scripts/seed/demo-trust';
 import { assessRoom, DEFAULT_ASSUMPTIONS } from '~/lib/engine/index';
 import type { RoomAssessmentInput } from '~/lib/engine/types';
 

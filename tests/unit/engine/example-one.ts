@@ -1,5 +1,7 @@
 /**
- * Worked example 1 of the domain reference (§1.6): one classroom, one school day.
+ * Worked example 1 (docs/sources.md, "Worked examples"): one classroom, one school day, worked by hand with the
+ * exact period-by-period solution of the well-mixed mass balance (Batterman 2017, IJERPH 14(2):145 §2.1) and the
+ * generation rates of Persily & de Jonge (2017) Table 4.
  * V = 8 m × 7 m × 3.0 m = 168 m³; 30 pupils 11–16 y at 1.4 met + 1 adult 30–40 y at 1.4 met;
  * G = (30·0.00445 + 0.0047) × 293.15/273.15 = 0.148319 L/s; C_o = C_0 = 420 ppm; timetable 09:00–15:15.
  */

@@ -45,7 +45,7 @@ export function typicalClassroom(): RoomAssessmentInput {
 }
 
 /**
- * The default set changed so that a room reproduces worked example 1 of the domain reference (§1.6):
+ * The default set changed so that a room reproduces worked example 1 (docs/sources.md, "Worked examples"):
  * no infiltration, no window use with a fan, pupils and teacher at 1.4 met, every season at 20 °C.
  */
 export function exampleOneAssumptions(): AssumptionSet {

@@ -30,7 +30,7 @@ describe('flow needed to meet the mechanical criterion', () => {
     expect(Math.abs((q ?? 0) - 159.483)).toBeLessThanOrEqual(0.001);
   });
 
-  it('inverts the plateau example: 1500 ppm needs 137.33 L/s (check 31: Batterman 2017 steady-state method)', () => {
+  it('inverts the plateau example: 1500 ppm needs 137.33 L/s (Batterman 2017 steady-state method, by hand)', () => {
     const q = requiredOutdoorAirLps({
       generationLps: 0.148319,
       outdoorCo2Ppm: 420,
@@ -111,7 +111,7 @@ describe('money, energy and carbon of the units (worked examples 5–7 chained, 
     expect(Math.abs(fan - 399)).toBeLessThanOrEqual(0.01);
   });
 
-  it('nets £104.07 and 450.26 kgCO2e a year, simple payback 57.7 years (example 7, check 26)', () => {
+  it('nets £104.07 and 450.26 kgCO2e a year, simple payback 57.7 years (worked example 7, docs/sources.md)', () => {
     expect(Math.abs(saving - 104.07)).toBeLessThanOrEqual(0.01);
     expect(Math.abs(carbon - 450.26)).toBeLessThanOrEqual(0.05);
     expect(Math.abs((simplePaybackYears(6000, saving) ?? 0) - 57.7)).toBeLessThanOrEqual(0.05);

@@ -4,7 +4,7 @@
  * with known air-change rates per state, known occupancy and seeded Gaussian sensor noise.
  */
 import { createRequire } from 'node:module';
-import { prng } from '@db/seed/prng';
+import { prng } from '../../../scripts/seed/prng';
 import type { MeasuredDay } from '~/lib/engine/measured';
 import type { Season, TimetableSegment } from '~/lib/engine/types';
 

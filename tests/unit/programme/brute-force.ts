@@ -3,7 +3,7 @@
  * feasibility check and the best plan found by trying every combination. Written apart from the engine's
  * evaluatePlan on purpose (the app is never its own oracle).
  */
-import { prng } from '@db/seed/prng';
+import { prng } from '../../../scripts/seed/prng';
 import type { ProgrammeProblem } from '~/lib/engine/programme/types';
 
 export { prng };

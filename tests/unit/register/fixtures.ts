@@ -173,3 +173,80 @@ export function semicolonCsv(): Buffer {
   ];
   return Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(lines.join('\r\n'), 'utf8')]);
 }
+
+/**
+ * A surveyor's sheet of the kind a new trust brings: two title rows, three schools Airtally does not know and whose
+ * phase the sheet never gives (one says it in its name and postcode, one in its name only, one not at all), some bad
+ * rows, ventilation left blank on several rows, and notes and a total under the data. `TRUST_SURVEY_EXPECTED` says
+ * what the import must make of every row.
+ */
+export async function trustSurvey(): Promise<Buffer> {
+  const wb = new ExcelJS.Workbook();
+  wb.addWorksheet('Read me').addRow(['This workbook lists every teaching room surveyed in the autumn term.']);
+  const ws = wb.addWorksheet('Autumn survey');
+  ws.addRow(['Northbeck Learning Trust: room survey, autumn term']);
+  ws.mergeCells('A1:H1');
+  ws.addRow(['Surveyed by the site team']);
+  ws.addRow([
+    'School',
+    'Postcode',
+    'Block',
+    'Room',
+    'Room name',
+    'Use',
+    'Area (m2)',
+    'Height (m)',
+    'Pupils',
+    'Ventilation',
+  ]);
+  const rows: (string | number | null)[][] = [
+    // 4–7: a high school in Leeds (LS): phase from its name, region from its postcode.
+    ['Hartley High School', 'LS6 2AB', 'Main', 'H01', 'Maths 1', 'Classroom', 56, 2.7, 30, 'Natural, single-sided'],
+    ['Hartley High School', 'LS6 2AB', 'Main', 'H02', 'Maths 2', 'Classroom', '58 m2', 2.7, 30, null],
+    ['Hartley High School', 'LS6 2AB', 'Main', 'H03', 'Science', 'Science lab', 'big', 2.9, 28, null],
+    ['Hartley High School', 'LS6 2AB', 'Main', 'H04', 'English', 'Classroom', 52, 2.7, 30, null],
+    // 8–10: an infant academy in Manchester (M).
+    ['Brookside Infant Academy', 'M14 5RT', 'Infants', 'B01', 'Reception', 'Classroom', 60, 2.6, 30, null],
+    ['Brookside Infant Academy', 'M14 5RT', 'Infants', null, 'Year 1', 'Classroom', 55, 2.6, 30, 'Natural, cross-flow'],
+    ['Brookside Infant Academy', 'M14 5RT', 'Infants', 'B03', 'Year 2', 'Classroom', 54, 2.6, 30, null],
+    // 11–13: an academy whose name and sheet say nothing of its phase or region.
+    ['Oakfield Academy', null, 'East', 'O01', 'Room 1', 'Classroom', 50, 2.7, 29, 'Natural, single-sided'],
+    ['Oakfield Academy', null, 'East', 'O02', 'Room 2', 'Classroom', 51, 2.7, 29, null],
+    ['Oakfield Academy', null, 'East', 'O01', 'Room 1 again', 'Classroom', 50, 2.7, 29, null],
+  ];
+  for (const r of rows) ws.addRow(r);
+  ws.addRow([]);
+  ws.addRow(['Total', null, null, null, null, null, 486]);
+  ws.addRow(['Notes:']);
+  ws.addRow(['Areas are measured on site and rounded to the nearest square metre.']);
+  ws.mergeCells('A17:J17');
+  ws.addRow([null, null, null, 'Heights to the underside of the ceiling tiles.']);
+  return toBuffer(wb);
+}
+
+export const TRUST_SURVEY_EXPECTED = {
+  sheetName: 'Autumn survey',
+  headerRow: 3,
+  acceptedRows: [4, 5, 7, 8, 10, 11, 12],
+  /** Rejected rows and the column (file header) of their error. */
+  rejected: { 6: 'Area (m2)', 9: 'Room', 13: 'Room' } as Record<number, string>,
+  /** Rows skipped as notes (the total line on row 15 is skipped as a total). */
+  noteRows: [16, 17, 18],
+  /** Accepted rows with ventilation blank: rows 5, 8, 10, 12 (row 7 too: H04). */
+  ventilationBlankRows: [5, 7, 8, 10, 12],
+  newSchools: {
+    'Hartley High School': {
+      phase: 'secondary',
+      phaseSource: 'name',
+      climateRegion: 'north_east',
+      regionSource: 'postcode',
+    },
+    'Brookside Infant Academy': {
+      phase: 'primary',
+      phaseSource: 'name',
+      climateRegion: 'north_west',
+      regionSource: 'postcode',
+    },
+    'Oakfield Academy': { phaseSource: 'default', regionSource: 'default' },
+  } as Record<string, Record<string, string>>,
+};

@@ -3,7 +3,8 @@ import ExcelJS from 'exceljs';
 import { deflateRawSync } from 'node:zlib';
 import { readRegisterFile } from '../../../src/lib/server/register/parse';
 import { planImport, type EstateSnapshot } from '../../../src/lib/server/register/plan';
-import { MESSY_EXPECTED, messyRegister, roomRow, semicolonCsv, tidyRegister, toBuffer } from './fixtures';
+import { readZip, writeZip } from '../../helpers/zip';
+import { MESSY_EXPECTED, messyRegister, roomRow, semicolonCsv, tidyRegister, toBuffer, trustSurvey } from './fixtures';
 
 const emptyEstate: EstateSnapshot = { schools: [], blocks: [], rooms: [], defaultClimateRegion: 'midlands' };
 
@@ -97,7 +98,14 @@ describe('reading a messy survey spreadsheet', () => {
     expect(plan.roomWrites.find((w) => w.fields.code === 'G02')?.school).toEqual({ newKey: 'fernhill primary' });
     expect(plan.newBlocks.find((b) => b.name === 'Main')?.yearBuilt).toBe(1965);
     expect(plan.newSchools).toEqual([
-      { key: 'fernhill primary', name: 'Fernhill Primary', phase: 'primary', climateRegion: 'midlands' },
+      expect.objectContaining({
+        key: 'fernhill primary',
+        name: 'Fernhill Primary',
+        phase: 'primary',
+        phaseSource: 'file',
+        climateRegion: 'midlands',
+        regionSource: 'default',
+      }),
     ]);
   });
 
@@ -159,11 +167,43 @@ describe('reading a messy survey spreadsheet', () => {
     );
   });
 
-  it('asks for the phase of a new school', async () => {
-    const { plan } = await preview(await tidyRegister([roomRow('New School', 'A1', { 'School phase': null })]));
-    expect(plan.problems).toContainEqual(
-      expect.objectContaining({ row: 2, column: 'School phase', severity: 'error' }),
+  it('imports the rooms of a new school whose phase no one gave, and says once that the phase was assumed', async () => {
+    const { plan } = await preview(
+      await tidyRegister([
+        roomRow('New School', 'A1', { 'School phase': null }),
+        roomRow('New School', 'A2', { 'School phase': null }),
+      ]),
     );
+    expect(plan.summary.rowsRejected).toBe(0);
+    expect(plan.roomWrites).toHaveLength(2);
+    const aboutPhase = plan.problems.filter((p) => p.column === 'School phase');
+    expect(aboutPhase).toEqual([expect.objectContaining({ row: 2, severity: 'warning' })]);
+    expect(aboutPhase[0]?.message).toMatch(/does not say its phase/);
+  });
+
+  it('says the sheet’s own name', async () => {
+    const { file } = await preview(await messyRegister());
+    expect(file.sheetName).toBe('Survey 2026');
+  });
+
+  it('says the sheet’s own name when the workbook part comes last and names its sheets by absolute paths', async () => {
+    // Some spreadsheet programs write the parts in another order and with absolute relationship targets; the
+    // streaming reader then knows the sheets only as "Sheet1", "Sheet2".
+    const parts = readZip(await trustSurvey()).map((p) =>
+      p.name === 'xl/_rels/workbook.xml.rels'
+        ? {
+            ...p,
+            data: Buffer.from(p.data.toString('utf8').replace(/Target="worksheets\//g, 'Target="/xl/worksheets/')),
+          }
+        : p,
+    );
+    const reordered = [
+      ...parts.filter((p) => p.name !== 'xl/workbook.xml'),
+      ...parts.filter((p) => p.name === 'xl/workbook.xml'),
+    ];
+    const { file } = await preview(writeZip(reordered));
+    expect(file.sheetName).toBe('Autumn survey');
+    expect(file.header.row).toBe(3);
   });
 });
 

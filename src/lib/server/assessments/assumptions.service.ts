@@ -1,3 +1,5 @@
+import type { Kysely } from 'kysely';
+import type { Database } from '../../../../db/database';
 import {
   DEFAULT_ASSUMPTIONS,
   EngineInputError,
@@ -13,7 +15,6 @@ import { label } from '../../engine/vocabulary';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { can } from '../auth/permissions';
-import { getDb } from '../db/client';
 import { badRequest, forbidden } from '../http/errors';
 import type { AssumptionEditBody, UnitCatalogueBody } from './assessments.schemas';
 import {
@@ -47,8 +48,7 @@ const CANONICAL_ORDER = new Map(listAssumptions(DEFAULT_ASSUMPTIONS).map((e, i) 
 export const inCanonicalOrder = (entries: AssumptionEntry[]) =>
   [...entries].sort((a, b) => (CANONICAL_ORDER.get(a.path) ?? Infinity) - (CANONICAL_ORDER.get(b.path) ?? Infinity));
 
-export async function getAssumptionsView(trust: ActiveTrust): Promise<AssumptionsView> {
-  const db = getDb();
+export async function getAssumptionsView(db: Kysely<Database>, trust: ActiveTrust): Promise<AssumptionsView> {
   const current = await getCurrentAssumptionSet(db, trust.id);
   return {
     id: current.id,
@@ -125,6 +125,7 @@ function validated(set: AssumptionSet): AssumptionSet {
 }
 
 async function saveVersion(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   actor: Actor,
   current: StoredAssumptionSet,
@@ -132,29 +133,27 @@ async function saveVersion(
   summary: string,
   audit: { action: string; before: unknown; after: unknown },
 ): Promise<StoredAssumptionSet> {
-  return getDb()
-    .transaction()
-    .execute(async (trx) => {
-      const saved = await insertAssumptionVersion(trx, {
-        trustId: trust.id,
-        version: current.version + 1,
-        set: { ...next, version: versionLabel(current.version + 1), dated: new Date().toISOString().slice(0, 10) },
-        changeSummary: summary,
-        userId: actor.actorUserId,
-        email: actor.actorEmail,
-      });
-      await recordAudit(trx, {
-        ...actor,
-        trustId: trust.id,
-        action: audit.action,
-        entityType: 'assumption_set',
-        entityId: saved.id,
-        summary: `Assumptions version ${saved.version}: ${summary}`,
-        before: audit.before,
-        after: audit.after,
-      });
-      return saved;
+  return db.transaction().execute(async (trx) => {
+    const saved = await insertAssumptionVersion(trx, {
+      trustId: trust.id,
+      version: current.version + 1,
+      set: { ...next, version: versionLabel(current.version + 1), dated: new Date().toISOString().slice(0, 10) },
+      changeSummary: summary,
+      userId: actor.actorUserId,
+      email: actor.actorEmail,
     });
+    await recordAudit(trx, {
+      ...actor,
+      trustId: trust.id,
+      action: audit.action,
+      entityType: 'assumption_set',
+      entityId: saved.id,
+      summary: `Assumptions version ${saved.version}: ${summary}`,
+      before: audit.before,
+      after: audit.after,
+    });
+    return saved;
+  });
 }
 
 /**
@@ -162,11 +161,12 @@ async function saveVersion(
  * assumptions:edit_technical and financial ones assumptions:edit_financial (403 naming the value otherwise).
  */
 export async function editAssumptions(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   actor: Actor,
   body: AssumptionEditBody,
 ): Promise<StoredAssumptionSet> {
-  const current = await getCurrentAssumptionSet(getDb(), trust.id);
+  const current = await getCurrentAssumptionSet(db, trust.id);
   const entries = new Map(listAssumptions(current.set).map((e) => [e.path, e]));
   let next = current.set;
   const before: Record<string, unknown> = {};
@@ -188,7 +188,11 @@ export async function editAssumptions(
     next = withAssumptionValue(next, change.path, change.value, current.label);
   }
   const summary = body.summary || `Changed ${body.changes.map((c) => entries.get(c.path)!.label).join(', ')}`;
-  return saveVersion(trust, actor, current, validated(next), summary, { action: 'assumptions.changed', before, after });
+  return saveVersion(db, trust, actor, current, validated(next), summary, {
+    action: 'assumptions.changed',
+    before,
+    after,
+  });
 }
 
 const TECHNICAL_FIELDS = [
@@ -207,11 +211,12 @@ const FINANCIAL_FIELDS = ['installedCostGbp', 'annualMaintenanceGbp'] as const;
  * maintenance is financial. A trust admin may do both.
  */
 export async function saveUnitCatalogue(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   actor: Actor,
   body: UnitCatalogueBody,
 ): Promise<StoredAssumptionSet> {
-  const current = await getCurrentAssumptionSet(getDb(), trust.id);
+  const current = await getCurrentAssumptionSet(db, trust.id);
   const previous = current.set.retrofit.unitCatalogue.value;
   const byId = new Map(previous.map((m) => [m.id, m]));
   const nextIds = new Set(body.models.map((m) => m.id));
@@ -230,7 +235,7 @@ export async function saveUnitCatalogue(
   if (financial) requireKind(trust, 'financial', 'installed cost or maintenance of a unit model');
   const next = withAssumptionValue(current.set, CATALOGUE_PATH, body.models, current.label);
   const summary = body.summary || 'Unit catalogue edited';
-  return saveVersion(trust, actor, current, validated(next), summary, {
+  return saveVersion(db, trust, actor, current, validated(next), summary, {
     action: 'unit_catalogue.changed',
     before: previous,
     after: body.models,

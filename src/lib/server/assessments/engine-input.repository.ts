@@ -2,6 +2,8 @@ import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { RoomAssessmentInput, TimetableSegment } from '../../engine';
 import type { MeasuredRoom } from '../../engine/measured';
+import type { BlockRow, SchoolRow } from '../../../../db/database';
+import { type RoomFieldColumns, toRoomFields } from '../estate/rooms.repository';
 import { parseStoredTimetable } from '../estate/timetable';
 import { attachMeasuredEvidence } from '../monitor-logs/evidence.repository';
 
@@ -24,50 +26,32 @@ const COLUMNS = sql`
   rooms.id, rooms.code, rooms.name, rooms.use, rooms.floor_area_m2, rooms.ceiling_height_m, rooms.pupils, rooms.adults,
   rooms.age_group, rooms.orientation_deg, rooms.glazing_area_m2, rooms.openable_area_m2, rooms.window_type,
   rooms.frame_material, rooms.glazing_g_value, rooms.ventilation_type, rooms.mechanical_supply_lps,
-  rooms.winter_window_open_fraction, rooms.block_id,
+  rooms.winter_window_open_fraction, rooms.notes, rooms.block_id,
   schools.id AS school_id, schools.trust_id, schools.phase, schools.climate_region, schools.heating_fuel AS school_fuel,
   schools.fuel_price_gbp_per_kwh AS school_price, schools.heating_efficiency AS school_efficiency, schools.timetable,
   blocks.year_built, blocks.construction_type, blocks.air_permeability_m3h_m2, blocks.heating_fuel AS block_fuel,
   blocks.fuel_price_gbp_per_kwh AS block_price, blocks.heating_efficiency AS block_efficiency, blocks.heating_installed_year`;
 
-interface JoinedRow {
+/** The room's own columns (mapped by the estate's toRoomFields), its school's and its block's. */
+interface JoinedRow extends RoomFieldColumns {
   id: string;
-  code: string;
-  name: string;
-  use: string | null;
-  floor_area_m2: number;
-  ceiling_height_m: number | null;
-  pupils: number | null;
-  adults: number | null;
-  age_group: string | null;
-  orientation_deg: number | null;
-  glazing_area_m2: number | null;
-  openable_area_m2: number | null;
-  window_type: string | null;
-  frame_material: string | null;
-  glazing_g_value: number | null;
-  ventilation_type: string | null;
-  mechanical_supply_lps: number | null;
-  winter_window_open_fraction: number | null;
   block_id: string | null;
   school_id: string;
   trust_id: string;
-  phase: string;
-  climate_region: string;
-  school_fuel: string;
+  phase: SchoolRow['phase'];
+  climate_region: SchoolRow['climate_region'];
+  school_fuel: SchoolRow['heating_fuel'];
   school_price: number | null;
   school_efficiency: number | null;
   timetable: unknown;
   year_built: number | null;
-  construction_type: string | null;
+  construction_type: BlockRow['construction_type'];
   air_permeability_m3h_m2: number | null;
-  block_fuel: string | null;
+  block_fuel: BlockRow['heating_fuel'];
   block_price: number | null;
   block_efficiency: number | null;
   heating_installed_year: number | null;
 }
-
-type Input = RoomAssessmentInput;
 
 /** One parsed timetable object per school, so the engine derives each school's hours once. */
 type TimetableCache = Map<string, readonly TimetableSegment[] | null>;
@@ -86,38 +70,20 @@ function toEngineRoom(r: JoinedRow, timetables: TimetableCache): EngineRoom {
     schoolId: r.school_id,
     blockId: r.block_id,
     input: {
-      room: {
-        code: r.code,
-        name: r.name,
-        use: r.use as Input['room']['use'],
-        floorAreaM2: r.floor_area_m2,
-        ceilingHeightM: r.ceiling_height_m,
-        pupils: r.pupils,
-        adults: r.adults,
-        ageGroup: r.age_group as Input['room']['ageGroup'],
-        orientationDeg: r.orientation_deg,
-        glazingAreaM2: r.glazing_area_m2,
-        openableAreaM2: r.openable_area_m2,
-        windowType: r.window_type as Input['room']['windowType'],
-        frameMaterial: r.frame_material as Input['room']['frameMaterial'],
-        glazingGValue: r.glazing_g_value,
-        ventilationType: r.ventilation_type as Input['room']['ventilationType'],
-        mechanicalSupplyLps: r.mechanical_supply_lps,
-        winterWindowOpenFraction: r.winter_window_open_fraction,
-      },
+      room: toRoomFields(r),
       block: {
         yearBuilt: r.year_built,
-        constructionType: r.construction_type as Input['block']['constructionType'],
+        constructionType: r.construction_type,
         airPermeabilityM3hM2: r.air_permeability_m3h_m2,
-        heatingFuel: r.block_fuel as Input['block']['heatingFuel'],
+        heatingFuel: r.block_fuel,
         fuelPriceGbpPerKwh: r.block_price,
         heatingEfficiency: r.block_efficiency,
         heatingInstalledYear: r.heating_installed_year,
       },
       school: {
-        phase: r.phase as Input['school']['phase'],
-        climateRegion: r.climate_region as Input['school']['climateRegion'],
-        heatingFuel: r.school_fuel as Input['school']['heatingFuel'],
+        phase: r.phase,
+        climateRegion: r.climate_region,
+        heatingFuel: r.school_fuel,
         fuelPriceGbpPerKwh: r.school_price,
         heatingEfficiency: r.school_efficiency,
         timetable,

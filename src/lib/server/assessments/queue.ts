@@ -14,9 +14,10 @@
 import { hostname } from 'node:os';
 import { CompiledQuery, type Kysely, sql } from 'kysely';
 import PgBoss from 'pg-boss';
+import type pg from 'pg';
 import type { Database } from '../../../../db/database';
 import { config } from '../config';
-import { getDb } from '../db/client';
+import { getDb, getPool } from '../db/client';
 import { reclaimChunk, runningChunks } from './chunks.repository';
 import {
   DEAD_AFTER_SECONDS,
@@ -52,15 +53,15 @@ let started: Promise<PgBoss> | undefined;
 let sweeper: NodeJS.Timeout | undefined;
 const loops: { stop: () => void; done: Promise<void> }[] = [];
 
-/** Sends `count` jobs for a run (its chunks, or chunks handed back), optionally inside the caller's transaction. */
+/**
+ * Sends `count` jobs for a run (its chunks, or chunks handed back) through `db`: inside the caller's transaction when
+ * `db` is one, so a run and its jobs are committed together.
+ */
 export async function sendChunkJobs(
+  db: Kysely<Database>,
   runId: string,
   count: number,
-  {
-    db,
-    startAfterSeconds = 0,
-    firstPriority = 0,
-  }: { db?: Kysely<Database>; startAfterSeconds?: number; firstPriority?: number } = {},
+  { startAfterSeconds = 0, firstPriority = 0 }: { startAfterSeconds?: number; firstPriority?: number } = {},
 ): Promise<void> {
   if (count <= 0) return;
   const boss = await getQueue();
@@ -70,16 +71,14 @@ export async function sendChunkJobs(
     priority: firstPriority - i,
     ...(startAfterSeconds ? { startAfter: new Date(Date.now() + startAfterSeconds * 1000).toISOString() } : {}),
   }));
-  // pg-boss writes through our transaction when given one, so a run and its jobs are committed together.
-  const through = db
-    ? {
-        executeSql: async (text: string, values: unknown[]) => {
-          const result = await db.executeQuery(CompiledQuery.raw(text, values));
-          return { rows: result.rows };
-        },
-      }
-    : undefined;
-  await boss.insert(jobs, through ? { db: through } : {});
+  // pg-boss writes through our handle (the caller's transaction, if it is one).
+  const through = {
+    executeSql: async (text: string, values: unknown[]) => {
+      const result = await db.executeQuery(CompiledQuery.raw(text, values));
+      return { rows: result.rows };
+    },
+  };
+  await boss.insert(jobs, { db: through });
 }
 
 /** True when a worker id names a process on this host that is no longer running (or an earlier start of this one). */
@@ -96,20 +95,20 @@ function deadOnThisHost(workerId: string | null): boolean {
 }
 
 /** One pass of the sweep (see the module comment). */
-export async function sweepRuns(): Promise<void> {
-  const db = getDb();
+export async function sweepRuns(db: Kysely<Database>): Promise<void> {
   for (const chunk of await runningChunks(db, DEAD_AFTER_SECONDS)) {
     if (!chunk.silent && !deadOnThisHost(chunk.workerId)) continue;
     if (chunk.attempts >= MAX_ATTEMPTS) {
       await failRun(
+        db,
         chunk.runId,
         `A worker stopped ${chunk.attempts} times while assessing the same part of this run. Start a new run.`,
       );
       continue;
     }
-    if (await reclaimChunk(db, chunk.runId, chunk.chunkNo, chunk.workerId)) await sendChunkJobs(chunk.runId, 1);
+    if (await reclaimChunk(db, chunk.runId, chunk.chunkNo, chunk.workerId)) await sendChunkJobs(db, chunk.runId, 1);
   }
-  for (const runId of await runsToFinish(db, FINISH_AFTER_SECONDS)) await finishRun(runId);
+  for (const runId of await runsToFinish(db, FINISH_AFTER_SECONDS)) await finishRun(db, runId);
   await sendMissingJobs(db, null);
 }
 
@@ -135,7 +134,7 @@ export async function sendMissingJobs(db: Kysely<Database>, runId: string | null
     SELECT p.run_id, p.pending FROM pending p JOIN jobs ON jobs.run_id = p.run_id::text WHERE NOT jobs.waiting`.execute(
     db,
   );
-  for (const r of rows) await sendChunkJobs(r.run_id, r.pending);
+  for (const r of rows) await sendChunkJobs(db, r.run_id, r.pending);
 }
 
 /**
@@ -156,11 +155,13 @@ export function getQueue(): Promise<PgBoss> {
   starting.then(
     () => {
       if (started !== starting) return;
+      // The sweep is an entry point: it takes the process's database handle here and passes it down.
+      const db = getDb();
       let sweeping = false;
       const sweep = async () => {
         if (sweeping) return; // the last pass is still going
         sweeping = true;
-        await sweepRuns().catch((error: unknown) => console.error('Assessment run sweep failed', error));
+        await sweepRuns(db).catch((error: unknown) => console.error('Assessment run sweep failed', error));
         sweeping = false;
       };
       void sweep();
@@ -179,7 +180,12 @@ export function getQueue(): Promise<PgBoss> {
  * IDLE_POLL_MS only when the queue is empty. (pg-boss's own work() loop waits its polling interval after every job,
  * which would cap a worker at two chunks a second.)
  */
-function startLoop(boss: PgBoss, options: WorkOptions): { stop: () => void; done: Promise<void> } {
+function startLoop(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  boss: PgBoss,
+  options: WorkOptions,
+): { stop: () => void; done: Promise<void> } {
   let stopping = false;
   let wake: (() => void) | null = null;
   const done = (async () => {
@@ -199,9 +205,9 @@ function startLoop(boss: PgBoss, options: WorkOptions): { stop: () => void; done
         continue;
       }
       try {
-        const outcome = await workNextChunk(job.data.runId, options);
-        if (outcome === 'retry') await sendChunkJobs(job.data.runId, 1, { startAfterSeconds: 2 });
-        else if (outcome === 'done') await sendMissingJobs(getDb(), job.data.runId);
+        const outcome = await workNextChunk(db, pool, job.data.runId, options);
+        if (outcome === 'retry') await sendChunkJobs(db, job.data.runId, 1, { startAfterSeconds: 2 });
+        else if (outcome === 'done') await sendMissingJobs(db, job.data.runId);
         await boss.complete(CHUNK_QUEUE, job.id);
       } catch (error) {
         console.error('An assessment job failed', error);
@@ -224,7 +230,10 @@ function startLoop(boss: PgBoss, options: WorkOptions): { stop: () => void; done
  */
 export async function startWorkers(count: number, options: WorkOptions = {}): Promise<void> {
   const boss = await getQueue();
-  for (let i = 0; i < count; i++) loops.push(startLoop(boss, options));
+  // The workers are entry points: they take the process's database handles here and pass them down.
+  const db = getDb();
+  const pool = getPool();
+  for (let i = 0; i < count; i++) loops.push(startLoop(db, pool, boss, options));
 }
 
 /**

@@ -1,4 +1,5 @@
-import { sql } from 'kysely';
+import { type Kysely, sql } from 'kysely';
+import type { Database } from '../../../../db/database';
 import {
   assessRoom,
   EngineInputError,
@@ -8,7 +9,6 @@ import {
 } from '../../engine';
 import type { MeasuredEvidenceInput } from '../../engine/measured';
 import type { ActiveTrust } from '../auth/context';
-import { getDb } from '../db/client';
 import { badRequest, notFound } from '../http/errors';
 import { assessWithEvidence } from '../monitor-logs/evidence.repository';
 import { getRoomRank } from '../portfolio/ranking.repository';
@@ -64,7 +64,7 @@ interface CurrentRun {
 }
 
 /** The run of the room's current result, if it has one. */
-async function currentRunOf(trustId: string, roomId: string): Promise<CurrentRun | null> {
+async function currentRunOf(db: Kysely<Database>, trustId: string, roomId: string): Promise<CurrentRun | null> {
   const { rows } = await sql<{
     run_id: string;
     assumption_set_id: string | null;
@@ -76,7 +76,7 @@ async function currentRunOf(trustId: string, roomId: string): Promise<CurrentRun
       JOIN assessment_current ac ON ac.school_id = r.school_id AND ac.trust_id = ${trustId}
       JOIN room_results rr ON rr.run_id = ac.run_id AND rr.room_id = r.id
       JOIN assessment_runs ar ON ar.id = ac.run_id
-    WHERE r.id = ${roomId}::uuid`.execute(getDb());
+    WHERE r.id = ${roomId}::uuid`.execute(db);
   const r = rows[0];
   return r
     ? {
@@ -90,11 +90,11 @@ async function currentRunOf(trustId: string, roomId: string): Promise<CurrentRun
 
 /** The room as a run assessed it: its kept inputs and the run's assumption set (null when the run kept none). */
 async function asTheRunSawIt(
+  db: Kysely<Database>,
   trustId: string,
   run: { runId: string; assumptionSetId: string | null },
   roomId: string,
 ): Promise<{ room: SnapshotRoom; set: AssumptionSet; label: string } | null> {
-  const db = getDb();
   const [inputs, stored] = await Promise.all([
     chunkInputsOf(db, run.runId, roomId),
     run.assumptionSetId ? getAssumptionSetById(db, trustId, run.assumptionSetId) : null,
@@ -109,6 +109,7 @@ async function asTheRunSawIt(
  * is now under the current assumptions, saying what changed. Null when the room is not in the member's scope.
  */
 async function roomBasis(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   roomId: string,
 ): Promise<{
@@ -118,11 +119,10 @@ async function roomBasis(
   run: CurrentRun | null;
   basis: RoomBasis;
 } | null> {
-  const db = getDb();
   const now = await readEngineRoom(db, trust.id, trust.schoolIds, roomId);
   if (!now) return null;
-  const [current, run] = await Promise.all([getCurrentAssumptionSet(db, trust.id), currentRunOf(trust.id, roomId)]);
-  const seen = run ? await asTheRunSawIt(trust.id, run, roomId) : null;
+  const [current, run] = await Promise.all([getCurrentAssumptionSet(db, trust.id), currentRunOf(db, trust.id, roomId)]);
+  const seen = run ? await asTheRunSawIt(db, trust.id, run, roomId) : null;
   if (!run || !seen)
     return { room: now, set: current.set, label: current.label, run, basis: { source: 'now', changedSince: [] } };
   const changedSince: RoomBasis['changedSince'] = [];
@@ -134,9 +134,14 @@ async function roomBasis(
 }
 
 /** The room's latest stored result with its rank from the one ranking (the same as every page and export). */
-async function latestResult(trustId: string, roomId: string, run: CurrentRun | null): Promise<LatestResult | null> {
+async function latestResult(
+  db: Kysely<Database>,
+  trustId: string,
+  roomId: string,
+  run: CurrentRun | null,
+): Promise<LatestResult | null> {
   if (!run) return null;
-  const place = await getRoomRank(getDb(), trustId, roomId);
+  const place = await getRoomRank(db, trustId, roomId);
   return {
     runId: run.runId,
     rank: place?.rank ?? null,
@@ -150,14 +155,18 @@ async function latestResult(trustId: string, roomId: string, run: CurrentRun | n
  * The room page's assessment: the latest run's figures, recomputed from what it kept, when nothing has changed since;
  * otherwise the room as the register holds it now. Null when the room is not in scope.
  */
-export async function getRoomAssessment(trust: ActiveTrust, roomId: string): Promise<RoomAssessmentView | null> {
-  const start = await roomBasis(trust, roomId);
+export async function getRoomAssessment(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+): Promise<RoomAssessmentView | null> {
+  const start = await roomBasis(db, trust, roomId);
   if (!start) return null;
   const assessment = explainEngineErrors(() => assessWithEvidence(start.room, start.set, { withCurve: true }));
   return {
     assessment,
     assumptionsLabel: start.label,
-    latest: await latestResult(trust.id, roomId, start.run),
+    latest: await latestResult(db, trust.id, roomId, start.run),
     basis: start.basis,
   };
 }
@@ -178,8 +187,12 @@ export interface RunRoomDetail {
  * A room of one of the trust's runs, recomputed from the inputs the run kept with the assumption set it used. 404 when
  * the run or room is not the member's, or the run's results were pruned.
  */
-export async function getRunRoomDetail(trust: ActiveTrust, runId: string, roomId: string): Promise<RunRoomDetail> {
-  const db = getDb();
+export async function getRunRoomDetail(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  runId: string,
+  roomId: string,
+): Promise<RunRoomDetail> {
   const run = await db
     .selectFrom('assessment_runs')
     .select(['id', 'assumption_set_id', 'school_id'])
@@ -189,7 +202,7 @@ export async function getRunRoomDetail(trust: ActiveTrust, runId: string, roomId
     .where('results_pruned_at', 'is', null)
     .executeTakeFirst();
   if (!run) throw notFound('That assessment run');
-  const seen = await asTheRunSawIt(trust.id, { runId, assumptionSetId: run.assumption_set_id }, roomId);
+  const seen = await asTheRunSawIt(db, trust.id, { runId, assumptionSetId: run.assumption_set_id }, roomId);
   if (!seen || (trust.schoolIds !== null && !trust.schoolIds.includes(seen.room.schoolId)))
     throw notFound('That room in this run');
   const assessment = explainEngineErrors(() => assessWithEvidence(seen.room, seen.set, { withCurve: true }));
@@ -209,8 +222,13 @@ export interface WhatIfAnswer {
  * added from the catalogue (the room is then judged as mechanically ventilated with the units' supply on top of
  * any it has), starting from what the room page shows (roomBasis). Reads only; writes nothing.
  */
-export async function whatIf(trust: ActiveTrust, roomId: string, body: WhatIfBody): Promise<WhatIfAnswer> {
-  const start = await roomBasis(trust, roomId);
+export async function whatIf(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  roomId: string,
+  body: WhatIfBody,
+): Promise<WhatIfAnswer> {
+  const start = await roomBasis(db, trust, roomId);
   if (!start) throw notFound('That room');
   const { room, set } = start;
   const changed: RoomAssessmentInput = structuredClone(room.input);

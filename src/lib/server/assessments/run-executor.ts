@@ -8,7 +8,9 @@ import { randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { EngineInputError, type AssumptionSet } from '../../engine';
 import type { RunProblem } from '../../../../db/tables/assessments';
-import { getDb, getPool } from '../db/client';
+import type { Kysely } from 'kysely';
+import type pg from 'pg';
+import type { Database } from '../../../../db/database';
 import { assessWithEvidence } from '../monitor-logs/evidence.repository';
 import { refreshRanks } from '../portfolio/ranking.repository';
 import { getAssumptionSetById } from './assumptions.repository';
@@ -45,22 +47,27 @@ export interface WorkOptions {
 /** Assumption sets of runs being worked here, so each chunk does not read its run's set again. */
 const setsOfRuns = new Map<string, AssumptionSet | null>();
 
-async function assumptionsOf(runId: string, trustId: string, setId: string | null): Promise<AssumptionSet | null> {
+async function assumptionsOf(
+  db: Kysely<Database>,
+  runId: string,
+  trustId: string,
+  setId: string | null,
+): Promise<AssumptionSet | null> {
   if (setsOfRuns.has(runId)) return setsOfRuns.get(runId) ?? null;
-  const stored = setId ? await getAssumptionSetById(getDb(), trustId, setId) : null;
+  const stored = setId ? await getAssumptionSetById(db, trustId, setId) : null;
   if (setsOfRuns.size > 50) setsOfRuns.clear();
   setsOfRuns.set(runId, stored?.set ?? null);
   return stored?.set ?? null;
 }
 
 /** Beats the chunk's heartbeat until stopped; `lost` turns true once the chunk is no longer this worker's. */
-function startHeartbeat(chunk: Chunk, workerId: string) {
+function startHeartbeat(db: Kysely<Database>, chunk: Chunk, workerId: string) {
   const state = { lost: false, stop: () => clearInterval(timer) };
   let beating = false;
   const timer = setInterval(() => {
     if (beating) return;
     beating = true;
-    beatChunk(getDb(), chunk, workerId)
+    beatChunk(db, chunk, workerId)
       .then((mine) => {
         if (!mine) state.lost = true;
       })
@@ -75,10 +82,11 @@ function startHeartbeat(chunk: Chunk, workerId: string) {
 
 /** Assesses a chunk's rooms: result rows, the rooms the engine refused (with its reason) and the input snapshot. */
 async function assessChunk(
+  db: Kysely<Database>,
   chunk: Chunk,
   set: AssumptionSet,
 ): Promise<{ rows: ResultRow[]; problems: RunProblem[]; inputs: Buffer }> {
-  const rooms = await readChunkRooms(getDb(), chunk);
+  const rooms = await readChunkRooms(db, chunk);
   const rows: ResultRow[] = [];
   const problems: RunProblem[] = [];
   for (const room of rooms) {
@@ -100,34 +108,39 @@ const describe = (error: unknown) => (error instanceof Error ? error.message : S
  * and commits them; the worker committing the run's last chunk finishes the run. An unexpected error hands the chunk
  * back for another attempt, or after its last attempt fails the run and removes its rows.
  */
-export async function workNextChunk(runId: string, options: WorkOptions = {}): Promise<ChunkOutcome> {
-  const db = getDb();
+export async function workNextChunk(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  runId: string,
+  options: WorkOptions = {},
+): Promise<ChunkOutcome> {
   const workerId = options.workerId ?? WORKER_ID;
   const run = await getRun(db, runId, null);
   if (!run || (run.status !== 'queued' && run.status !== 'running')) return 'none';
-  const set = await assumptionsOf(runId, run.trustId, run.assumptionSetId);
+  const set = await assumptionsOf(db, runId, run.trustId, run.assumptionSetId);
   if (!set) {
-    await failRun(runId, 'The assumption set this run was started with no longer exists. Start a new run.');
+    await failRun(db, runId, 'The assumption set this run was started with no longer exists. Start a new run.');
     return 'failed';
   }
   const chunk = await claimChunk(db, runId, workerId);
   if (!chunk) {
     // Nothing left to claim: the run may be complete with its switch to current still to do.
-    if (run.chunksDone >= run.chunksTotal) return (await finishRun(runId)) ? 'finished' : 'none';
+    if (run.chunksDone >= run.chunksTotal) return (await finishRun(db, runId)) ? 'finished' : 'none';
     return 'none';
   }
-  const heartbeat = startHeartbeat(chunk, workerId);
+  const heartbeat = startHeartbeat(db, chunk, workerId);
   try {
-    const { rows, problems, inputs } = await assessChunk(chunk, set);
+    const { rows, problems, inputs } = await assessChunk(db, chunk, set);
     await options.beforeCommit?.(chunk);
     if (heartbeat.lost) throw new ChunkTakenOver(chunk);
-    const progress = await commitChunk(getPool(), chunk, workerId, rows, inputs, problems);
+    const progress = await commitChunk(pool, chunk, workerId, rows, inputs, problems);
     if (progress.chunksDone < progress.chunksTotal) return 'done';
-    return (await finishRun(runId)) ? 'finished' : 'done';
+    return (await finishRun(db, runId)) ? 'finished' : 'done';
   } catch (error) {
     if (error instanceof ChunkTakenOver) return 'none';
     if (chunk.attempts >= MAX_ATTEMPTS) {
       await failRun(
+        db,
         runId,
         `A part of the run stopped with an error ${chunk.attempts} times; the last: ${describe(error)}. Start a new run.`,
       );
@@ -146,8 +159,7 @@ export async function workNextChunk(runId: string, options: WorkOptions = {}): P
  * the first page read after a run does not wait for it) and prunes runs beyond the trust's retention rule. False when
  * the run was not ready or another worker finished it.
  */
-export async function finishRun(runId: string): Promise<boolean> {
-  const db = getDb();
+export async function finishRun(db: Kysely<Database>, runId: string): Promise<boolean> {
   if (!(await makeRunCurrent(db, runId))) return false;
   setsOfRuns.delete(runId);
   const run = await getRun(db, runId, null);
@@ -159,14 +171,19 @@ export async function finishRun(runId: string): Promise<boolean> {
 }
 
 /** Works every chunk of a run in this process until it has finished (the demo seed, benchmarks and tests). */
-export async function workRunHere(runId: string, options: WorkOptions = {}): Promise<void> {
+export async function workRunHere(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  runId: string,
+  options: WorkOptions = {},
+): Promise<void> {
   for (;;) {
-    const outcome = await workNextChunk(runId, options);
+    const outcome = await workNextChunk(db, pool, runId, options);
     if (outcome === 'finished' || outcome === 'failed') return;
     if (outcome === 'none') {
-      const run = await getRun(getDb(), runId, null);
+      const run = await getRun(db, runId, null);
       if (!run || run.status === 'succeeded' || run.status === 'failed') return;
-      if (run.chunksDone >= run.chunksTotal && (await finishRun(runId))) return;
+      if (run.chunksDone >= run.chunksTotal && (await finishRun(db, runId))) return;
       // Every free chunk is held by another worker: wait for them.
       await new Promise((resolve) => setTimeout(resolve, 200));
     }
@@ -174,8 +191,7 @@ export async function workRunHere(runId: string, options: WorkOptions = {}): Pro
 }
 
 /** Fails a run and deletes the results it wrote (none of them ever became current). */
-export async function failRun(runId: string, message: string): Promise<void> {
-  const db = getDb();
+export async function failRun(db: Kysely<Database>, runId: string, message: string): Promise<void> {
   await markFailed(db, runId, message);
   await deleteRunResults(db, runId);
   setsOfRuns.delete(runId);

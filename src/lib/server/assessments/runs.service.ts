@@ -1,6 +1,8 @@
+import type { Kysely } from 'kysely';
+import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
-import { getDb } from '../db/client';
+import { findSchool } from '../estate/schools.repository';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
@@ -59,9 +61,9 @@ export const toStatusView = (run: Run, counts?: ChunkCounts): RunStatusView => (
 });
 
 /** The runs as the API shows them, each with how its chunks stand. */
-async function statusViews(runs: Run[]): Promise<RunStatusView[]> {
+async function statusViews(db: Kysely<Database>, runs: Run[]): Promise<RunStatusView[]> {
   const active = runs.filter((r) => r.status === 'queued' || r.status === 'running').map((r) => r.id);
-  const counts = await chunkCounts(getDb(), active);
+  const counts = await chunkCounts(db, active);
   return runs.map((r) => toStatusView(r, counts.get(r.id)));
 }
 
@@ -71,23 +73,15 @@ async function statusViews(runs: Run[]): Promise<RunStatusView[]> {
  * that is still queued or running is returned instead of starting a second one.
  */
 export async function startRun(
+  db: Kysely<Database>,
   trust: ActiveTrust,
   actor: Actor,
   body: StartRunBody,
 ): Promise<{ id: string; alreadyRunning: boolean }> {
-  const db = getDb();
   const schoolId = body.scope === 'school' ? body.schoolId : null;
   if (schoolId === null && trust.schoolIds !== null)
     throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
-  if (schoolId !== null) {
-    const school = await db
-      .selectFrom('schools')
-      .select('id')
-      .where('trust_id', '=', trust.id)
-      .where('id', '=', schoolId)
-      .executeTakeFirst();
-    if (!school || (trust.schoolIds !== null && !trust.schoolIds.includes(schoolId))) throw notFound('That school');
-  }
+  if (schoolId !== null && !(await findSchool(db, trust, schoolId))) throw notFound('That school');
   const active = await findActiveRun(db, trust.id, schoolId);
   if (active) return { id: active.id, alreadyRunning: true };
 
@@ -114,7 +108,7 @@ export async function startRun(
       summary: `Assessment of ${schoolId ? 'one school' : 'the whole trust'} started (${roomsTotal} rooms, assumptions ${assumptions.label})`,
       after: { scope: body.scope, schoolId, roomsTotal, chunksTotal, assumptionsVersion: assumptions.label },
     });
-    await sendChunkJobs(runId, chunksTotal, { db: trx });
+    await sendChunkJobs(trx, runId, chunksTotal);
     return runId;
   });
   return { id, alreadyRunning: false };
@@ -124,7 +118,7 @@ export async function startRun(
  * The runs a member may see. A member limited to some schools sees no run of another school, and of a
  * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms).
  */
-async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
+async function visibleTo(db: Kysely<Database>, trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
   const allowed = trust.schoolIds;
   if (allowed === null) return runs;
   const visible = runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId));
@@ -132,7 +126,7 @@ async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
   const inSchools = new Set(
     roomIds.length && allowed.length
       ? (
-          await getDb()
+          await db
             .selectFrom('rooms')
             .select('id')
             .where('id', 'in', roomIds)
@@ -145,15 +139,19 @@ async function visibleTo(trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
 }
 
 /** A run's status (a run whose worker died is resumed or failed by the queue's sweep within a minute). */
-export async function getRunStatus(trust: ActiveTrust, id: string): Promise<RunStatusView> {
-  const run = await getRun(getDb(), id, trust.id);
-  const [visible] = run ? await visibleTo(trust, [run]) : [];
+export async function getRunStatus(db: Kysely<Database>, trust: ActiveTrust, id: string): Promise<RunStatusView> {
+  const run = await getRun(db, id, trust.id);
+  const [visible] = run ? await visibleTo(db, trust, [run]) : [];
   if (!visible) throw notFound('That assessment run');
-  const [view] = await statusViews([visible]);
+  const [view] = await statusViews(db, [visible]);
   return view!;
 }
 
 /** The trust's recent runs, newest first. */
-export async function listRecentRuns(trust: ActiveTrust, limit: number): Promise<RunStatusView[]> {
-  return statusViews(await visibleTo(trust, await listRuns(getDb(), trust.id, limit)));
+export async function listRecentRuns(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  limit: number,
+): Promise<RunStatusView[]> {
+  return statusViews(db, await visibleTo(db, trust, await listRuns(db, trust.id, limit)));
 }

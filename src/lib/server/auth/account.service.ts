@@ -8,7 +8,7 @@ import { sendMail } from '../mail/mailer';
 import { existingAccountMail, verificationMail } from '../mail/templates';
 import { getAuth, VERIFICATION_SECONDS } from './auth';
 import { authCall, invitationNotUsable, membershipNotUsable } from './auth.errors';
-import type { SignUpInput } from './auth.schemas';
+import type { ChangePasswordInput, SignUpInput } from './auth.schemas';
 import type { Role } from './context';
 import { listMemberships, setSessionTrust } from './membership.repository';
 
@@ -219,4 +219,50 @@ export async function switchTrust(db: Kysely<Database>, userId: string, trustId:
   const session = await getAuth().api.getSession({ headers: requestHeaders });
   if (session) await setSessionTrust(db, session.session.id, trustId);
   return membership;
+}
+
+/**
+ * Sends the signed-in person a new link to confirm their e-mail address (the link is a signed token: nothing is stored
+ * but the audit entry, written once the mail has been handed over).
+ */
+export async function resendVerification(
+  db: Kysely<Database>,
+  user: { id: string; email: string },
+  requestHeaders: Headers,
+): Promise<void> {
+  await authCall(() => getAuth().api.sendVerificationEmail({ body: { email: user.email }, headers: requestHeaders }));
+  await recordAudit(db, {
+    trustId: null,
+    actorUserId: user.id,
+    actorEmail: user.email,
+    action: 'account.verification_sent',
+    entityType: 'user',
+    entityId: user.id,
+    summary: `${user.email} asked for a new confirmation link`,
+  });
+}
+
+/**
+ * Changes the signed-in person's password and signs out their other devices (audited by auth.ts); answers the
+ * response headers that carry this device's new session cookie.
+ */
+export async function changePassword(requestHeaders: Headers, input: ChangePasswordInput): Promise<Headers> {
+  const result = await authCall(() =>
+    getAuth().api.changePassword({
+      body: { ...input, revokeOtherSessions: true },
+      headers: requestHeaders,
+      returnHeaders: true,
+    }),
+  );
+  return result.headers;
+}
+
+/** Signs the person out on every device, this one included (audited by auth.ts); answers headers clearing its cookie. */
+export async function signOutEverywhere(requestHeaders: Headers): Promise<Headers> {
+  await authCall(() => getAuth().api.revokeSessions({ headers: requestHeaders }));
+  const prefix = config().auth.secureCookies ? '__Secure-' : '';
+  const secure = config().auth.secureCookies ? '; Secure' : '';
+  return new Headers({
+    'set-cookie': `${prefix}better-auth.session_token=; Max-Age=0; Path=/; HttpOnly; SameSite=Lax${secure}`,
+  });
 }

@@ -77,3 +77,10 @@ export async function authCall<T>(call: () => Promise<T>): Promise<T> {
     throw fromAuthError(error);
   }
 }
+/** 403: the member's access is limited to some schools, and `action` reaches beyond them. */
+export const limitedToSchools = (action: string) =>
+  new AppError(
+    403,
+    'limited_to_schools',
+    `Your access is limited to some schools, so you cannot ${action}. Ask a trust admin with access to every school.`,
+  );

@@ -61,4 +61,5 @@ export const ChangePasswordSchema = z.object({
   currentPassword: z.string().min(1, 'Enter your current password.').max(128),
   newPassword: password,
 });
+export type ChangePasswordInput = z.infer<typeof ChangePasswordSchema>;
 export const ForgotPasswordSchema = z.object({ email });

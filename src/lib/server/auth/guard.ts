@@ -1,5 +1,5 @@
 import { forbidden, unauthenticated } from '../http/errors';
-import { emailUnverified } from './auth.errors';
+import { emailUnverified, limitedToSchools } from './auth.errors';
 import type { ActiveTrust, SessionUser } from './context';
 import { can, type Action, type Resource } from './permissions';
 
@@ -45,4 +45,18 @@ export function requireVerifiedEmail(locals: App.Locals): SessionUser {
   if (!locals.user) throw unauthenticated();
   if (!locals.user.emailVerified) throw emailUnverified(locals.user.email);
   return locals.user;
+}
+
+/**
+ * 403 for a member limited to some schools: `action` changes what applies to every school of the trust
+ * (assumptions, the unit catalogue, ranking weights, billing, adding schools).
+ */
+export function requireWholeTrust(trust: ActiveTrust, action: string): ActiveTrust {
+  if (trust.schoolIds !== null) throw limitedToSchools(`${action}: it applies to every school in the trust`);
+  return trust;
+}
+
+/** Whether the member may do `action` on `resource` where it applies to every school (pages offer it or not). */
+export function mayChangeTrustWide<R extends Resource>(trust: ActiveTrust, resource: R, action: Action<R>): boolean {
+  return trust.schoolIds === null && can(trust.role, resource, action);
 }

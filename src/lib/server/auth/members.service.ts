@@ -3,7 +3,7 @@ import type { Database } from '../../../../db/database';
 import { recordAudit } from '../audit/audit.repository';
 import { badRequest, notFound } from '../http/errors';
 import { getAuth } from './auth';
-import { authCall, lastTrustAdmin } from './auth.errors';
+import { authCall, lastTrustAdmin, limitedToSchools } from './auth.errors';
 import type { InviteInput, MemberUpdate } from './auth.schemas';
 import type { ActiveTrust, Role, SessionUser } from './context';
 
@@ -142,6 +142,18 @@ async function assertAnotherAdminRemains(db: Kysely<Database>, trust: ActiveTrus
   if (!admins.some((m) => m.id !== memberId)) throw lastTrustAdmin();
 }
 
+/**
+ * A member limited to some schools manages only people limited to some of those same schools: never
+ * grants access beyond their own (no limit at all, or another school), never changes or removes someone
+ * who can see more than they can.
+ */
+function assertWithinOwnSchools(trust: ActiveTrust, schoolIds: readonly string[] | null, action: string): void {
+  const own = trust.schoolIds;
+  if (own === null) return;
+  if (schoolIds === null || schoolIds.length === 0 || schoolIds.some((id) => !own.includes(id)))
+    throw limitedToSchools(action);
+}
+
 /** 400 unless every school id belongs to the trust. */
 async function assertSchoolsInTrust(db: Kysely<Database>, trust: ActiveTrust, schoolIds: string[]): Promise<void> {
   if (schoolIds.length === 0) return;
@@ -162,6 +174,7 @@ async function assertSchoolsInTrust(db: Kysely<Database>, trust: ActiveTrust, sc
 export async function inviteMember(db: Kysely<Database>, actor: Actor, input: InviteInput): Promise<InvitationView> {
   const schoolIds = input.schoolIds ?? null;
   const accessEndsOn = input.accessEndsOn ?? null;
+  assertWithinOwnSchools(actor.trust, schoolIds, 'invite someone with access to schools beyond yours');
   if (schoolIds) await assertSchoolsInTrust(db, actor.trust, schoolIds);
   const invitation = await authCall(() =>
     getAuth().api.createInvitation({
@@ -214,6 +227,10 @@ export async function cancelInvitation(db: Kysely<Database>, actor: Actor, invit
     .where('organizationId', '=', actor.trust.id)
     .executeTakeFirst();
   if (invitation?.status !== 'pending') throw notFound('That pending invitation');
+  if (actor.trust.schoolIds !== null) {
+    const limits = (await listMembers(db, actor.trust)).invitations.find((i) => i.id === invitationId);
+    assertWithinOwnSchools(actor.trust, limits?.schoolIds ?? null, 'withdraw an invitation to schools beyond yours');
+  }
   await authCall(() => getAuth().api.cancelInvitation({ body: { invitationId }, headers: actor.headers }));
   await recordAudit(db, {
     trustId: actor.trust.id,
@@ -234,6 +251,9 @@ export async function updateMember(
   change: MemberUpdate,
 ): Promise<MemberView> {
   const before = await findMember(db, actor.trust, memberId);
+  assertWithinOwnSchools(actor.trust, before.schoolIds, 'change a member who has access to schools beyond yours');
+  if (change.schoolIds !== undefined)
+    assertWithinOwnSchools(actor.trust, change.schoolIds, 'give access to schools beyond yours');
   const demotes = change.role !== undefined && change.role !== 'trust_admin' && before.role === 'trust_admin';
   const ends = change.accessEndsOn != null && before.role === 'trust_admin';
   if (demotes || ends) await assertAnotherAdminRemains(db, actor.trust, memberId);
@@ -299,6 +319,7 @@ export async function updateMember(
 /** Removes a member from the trust; never the last trust admin. */
 export async function removeMember(db: Kysely<Database>, actor: Actor, memberId: string): Promise<void> {
   const member = await findMember(db, actor.trust, memberId);
+  assertWithinOwnSchools(actor.trust, member.schoolIds, 'remove a member who has access to schools beyond yours');
   if (member.role === 'trust_admin') await assertAnotherAdminRemains(db, actor.trust, memberId);
   await authCall(() =>
     getAuth().api.removeMember({

@@ -1,11 +1,11 @@
 import { config } from '../config';
-import { requirePermission } from '../auth/guard';
+import { requirePermission, requireWholeTrust } from '../auth/guard';
 import { unauthenticated } from '../http/errors';
 import type { BillingRequest } from './billing.service';
 
 /** A trust admin's billing request (403 for every other role, 401 when signed out). */
 export function requireBillingManager(locals: App.Locals): BillingRequest {
-  const trust = requirePermission(locals, 'billing', 'manage');
+  const trust = requireWholeTrust(requirePermission(locals, 'billing', 'manage'), 'manage the plan and billing');
   if (!locals.user) throw unauthenticated();
   return {
     trust: { id: trust.id, name: trust.name },

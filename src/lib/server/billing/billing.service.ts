@@ -224,15 +224,15 @@ export async function syncQuantity(db: Kysely<Database>, stripe: Stripe, trustId
 
 /**
  * Call after a write that added or removed schools (school form, register import): brings the
- * subscription quantity in line. Never throws: the school change stands, and the billing page
- * catches the quantity up on its next visit if the provider was unreachable.
+ * subscription quantity in line. Never throws: the school change stands; if the provider was unreachable, the
+ * billing page says the quantity is behind and a trust admin updates it there (POST /api/billing/quantity).
  */
 export async function followSchoolCount(db: Kysely<Database>, trustId: string, actor: Actor): Promise<void> {
   if (!providerConfigured()) return;
   try {
     await syncQuantity(db, paymentProvider(), trustId, actor);
   } catch (error) {
-    console.error('Subscription quantity not updated; the billing page will retry', error);
+    console.error('Subscription quantity not updated; a trust admin can update it from the billing page', error);
   }
 }
 

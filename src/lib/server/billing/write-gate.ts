@@ -1,7 +1,7 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
-import { getDb } from '../db/client';
 import { AppError, toErrorResponse } from '../http/errors';
+import { formRefused, isFormPost } from '../http/forms';
 import { getBillingAccount } from './billing.repository';
 import { billingStanding } from './standing';
 
@@ -27,36 +27,24 @@ const ALWAYS_OPEN = [
   /\/export(\/|$)/,
   /\/what-if$/,
 ];
-/** App pages whose forms stay open: the person's own account and the billing page (to pay). */
-const PAGES_OPEN = [/^\/app\/account(\/|$)/, /^\/app\/settings\/billing$/];
-
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
-
-/** The 402 for a page form: a plain page saying what happened and where to go. */
-function readOnlyPage(message: string, back: string): Response {
-  const html = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Read-only</title></head><body style="font-family:sans-serif;max-width:40rem;margin:3rem auto;padding:0 1rem">
-<h1>Read-only for now</h1><p>${escapeHtml(message)}</p><p><a href="${escapeHtml(back)}">Go back</a> · <a href="/app/settings/billing">Billing</a></p></body></html>`;
-  return new Response(html, { status: 402, headers: { 'content-type': 'text/html; charset=utf-8' } });
-}
 
 /**
- * The read-only gate for the middleware: for a write (any method but GET/HEAD/OPTIONS) to /api/* or
- * to an /app page's form by a member of a read-only trust, the 402 response to send; otherwise null.
- * Reads, exports, sign-in, the account and billing always pass.
+ * The read-only gate for the middleware: for a write (any method but GET/HEAD/OPTIONS) to /api/* by a member of a
+ * read-only trust, the 402 to send (a page's form is sent back to its page with the reason); otherwise null.
+ * Reads, exports, sign-in, the account and billing always pass. Pages write only through /api (forms.ts).
  */
-export async function billingWriteGate(locals: App.Locals, request: Request): Promise<Response | null> {
+export async function billingWriteGate(
+  db: Kysely<Database>,
+  locals: App.Locals,
+  request: Request,
+): Promise<Response | null> {
   if (READ_METHODS.has(request.method) || !locals.trust) return null;
   const path = new URL(request.url).pathname;
-  const api = path.startsWith('/api/');
-  const page = path === '/app' || path.startsWith('/app/');
-  if (api && ALWAYS_OPEN.some((p) => p.test(path))) return null;
-  if (page && PAGES_OPEN.some((p) => p.test(path))) return null;
-  if (!api && !page) return null;
+  if (!path.startsWith('/api/') || ALWAYS_OPEN.some((p) => p.test(path))) return null;
   try {
-    await assertWritable(getDb(), locals.trust.id);
+    await assertWritable(db, locals.trust.id);
     return null;
   } catch (error) {
-    if (api || !(error instanceof AppError)) return toErrorResponse(error);
-    return readOnlyPage(error.message, path);
+    return isFormPost(request) ? formRefused(request, error) : toErrorResponse(error);
   }
 }

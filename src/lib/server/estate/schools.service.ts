@@ -1,70 +1,149 @@
+/** Adding and changing schools: the one place a school is written, by the editors and by the register import alike. */
 import type { Kysely } from 'kysely';
-import { z } from 'zod';
 import type { Database } from '../../../../db/database';
-import { CLIMATE_REGIONS, HEATING_FUELS, SCHOOL_PHASES } from '../../engine/vocabulary';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
-import { badRequest, forbidden } from '../http/errors';
-import { SCHOOL_LIMITS } from '../../engine/limits';
-import { efficiencyProblem, limited } from '../register/register.schemas';
 import { assertWithinPlan } from '../billing/plan-limits';
+import { inTransaction } from '../db/transaction';
+import { notFound } from '../http/errors';
+import { efficiencyProblem } from './checks';
+import { efficiencyDoesNotFit, schoolRemovalLimited, schoolsLimited } from './estate.errors';
+import type { SchoolCreate, SchoolPatch } from './estate.schemas';
+import type { SchoolFields } from './estate.types';
+import {
+  countSchoolDependants,
+  deleteSchoolRow,
+  findSchool,
+  insertSchools,
+  lockTrustForNewSchools,
+  type SchoolRemovalImpact,
+  updateSchoolRow,
+} from './schools.repository';
 
-/** POST /api/schools body. */
-export const NewSchoolSchema = z.object({
-  name: z.string().trim().min(1, 'name is required').max(200),
-  referenceNumber: z.string().trim().min(1).max(50).nullish(),
-  phase: z.enum(SCHOOL_PHASES, { message: `phase must be one of: ${SCHOOL_PHASES.join(', ')}` }),
-  climateRegion: z.enum(CLIMATE_REGIONS, { message: `climateRegion must be one of: ${CLIMATE_REGIONS.join(', ')}` }),
-  address: z.string().trim().max(500).nullish(),
-  heatingFuel: z
-    .enum(HEATING_FUELS, { message: `heatingFuel must be one of: ${HEATING_FUELS.join(', ')}` })
-    .default('gas'),
-  fuelPriceGbpPerKwh: limited(SCHOOL_LIMITS.fuelPriceGbpPerKwh).nullish(),
-  heatingEfficiency: z.number().min(0.3).max(6).nullish(),
-});
-export type NewSchoolInput = z.infer<typeof NewSchoolSchema>;
+/** Who writes, for the audit trail. */
+export type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
 /**
- * Adds a school to the trust, within the plan's limits (402 past the free plan's one school),
- * audited in the same transaction. Members limited to chosen schools cannot add schools.
+ * Adds schools to the trust, within the plan's limits (402 past the free plan's one school), audited in the same
+ * transaction; answers their ids in the order given. Members limited to chosen schools cannot add schools. `origin`
+ * ends each audit summary (e.g. ' from a register import').
  */
+export async function createSchools(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  inputs: readonly SchoolCreate[],
+  origin = '',
+): Promise<string[]> {
+  if (inputs.length === 0) return [];
+  if (trust.schoolIds) throw schoolsLimited();
+  for (const input of inputs) {
+    const problem = efficiencyProblem(input.heatingFuel, input.heatingEfficiency);
+    if (problem) throw efficiencyDoesNotFit(problem);
+  }
+  return inTransaction(db, async (trx) => {
+    await lockTrustForNewSchools(trx, trust.id);
+    await assertWithinPlan(trx, trust.id, { schools: inputs.length });
+    const ids = await insertSchools(trx, trust.id, inputs);
+    await recordAudit(
+      trx,
+      inputs.map((input, i) => ({
+        trustId: trust.id,
+        ...actor,
+        action: 'school.created',
+        entityType: 'school',
+        entityId: ids[i] ?? null,
+        summary: `Created school ${input.name}${origin}`,
+        after: input,
+      })),
+    );
+    return ids;
+  });
+}
+
+/** Adds one school (see createSchools); answers its id and name. */
 export async function createSchool(
   db: Kysely<Database>,
   trust: ActiveTrust,
-  actor: Pick<AuditEntry, 'actorUserId' | 'actorEmail'>,
-  input: NewSchoolInput,
+  actor: Actor,
+  input: SchoolCreate,
 ): Promise<{ id: string; name: string }> {
-  if (trust.schoolIds) throw forbidden('add schools while your membership is limited to chosen schools');
-  const problem = efficiencyProblem(input.heatingFuel, input.heatingEfficiency);
-  if (problem) throw badRequest(problem, { field: 'heatingEfficiency' });
-  return db.transaction().execute(async (trx) => {
-    // Serialise school creation per trust so two requests cannot both pass the plan check.
-    await trx.selectFrom('trusts').select('id').where('id', '=', trust.id).forUpdate().executeTakeFirst();
-    await assertWithinPlan(trx, trust.id, { schools: 1 });
-    const school = await trx
-      .insertInto('schools')
-      .values({
-        trust_id: trust.id,
-        name: input.name,
-        reference_number: input.referenceNumber ?? null,
-        phase: input.phase,
-        climate_region: input.climateRegion,
-        address: input.address ?? null,
-        heating_fuel: input.heatingFuel,
-        fuel_price_gbp_per_kwh: input.fuelPriceGbpPerKwh ?? null,
-        heating_efficiency: input.heatingEfficiency ?? null,
-      })
-      .returning(['id', 'name'])
-      .executeTakeFirstOrThrow();
+  const [id] = await createSchools(db, trust, actor, [input]);
+  return { id: id as string, name: input.name };
+}
+
+/** Changes a school's attributes; the efficiency must fit the fuel the school will have. */
+export async function updateSchool(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+  patch: SchoolPatch,
+  origin = '',
+): Promise<{ id: string }> {
+  return inTransaction(db, async (trx) => {
+    const school = await findSchool(trx, trust, id, true);
+    if (!school) throw notFound('That school');
+    const problem = efficiencyProblem(
+      patch.heatingFuel ?? school.heatingFuel,
+      patch.heatingEfficiency !== undefined ? patch.heatingEfficiency : school.heatingEfficiency,
+    );
+    if (problem) throw efficiencyDoesNotFit(problem);
+    const keys = (Object.keys(patch) as (keyof SchoolFields)[]).filter((k) => patch[k] !== undefined);
+    if (keys.length === 0) return { id };
+    await updateSchoolRow(trx, id, patch);
     await recordAudit(trx, {
       trustId: trust.id,
       ...actor,
-      action: 'school.created',
+      action: 'school.updated',
       entityType: 'school',
-      entityId: school.id,
-      summary: `School ${school.name} added`,
-      after: input,
+      entityId: id,
+      summary: `Changed school ${school.name}${origin}`,
+      before: Object.fromEntries(keys.map((k) => [k, school[k]])),
+      after: Object.fromEntries(keys.map((k) => [k, patch[k]])),
     });
-    return school;
+    return { id };
+  });
+}
+
+/** What removing a school takes with it, for the confirmation (404 outside the member's scope). */
+export async function schoolRemovalImpact(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  id: string,
+): Promise<SchoolRemovalImpact & { name: string }> {
+  const school = await findSchool(db, trust, id);
+  if (!school) throw notFound('That school');
+  return { name: school.name, ...(await countSchoolDependants(db, id)) };
+}
+
+/**
+ * Removes a school with its blocks, rooms, results and readings, audited in the same transaction with what went.
+ * Members limited to chosen schools cannot remove schools. After it the trust has one school fewer: the caller tells
+ * billing (followSchoolCount), as after adding one.
+ */
+export async function deleteSchool(
+  db: Kysely<Database>,
+  trust: ActiveTrust,
+  actor: Actor,
+  id: string,
+): Promise<SchoolRemovalImpact & { name: string }> {
+  if (trust.schoolIds) throw schoolRemovalLimited();
+  return inTransaction(db, async (trx) => {
+    await lockTrustForNewSchools(trx, trust.id);
+    const school = await findSchool(trx, trust, id, true);
+    if (!school) throw notFound('That school');
+    const impact = await countSchoolDependants(trx, id);
+    await deleteSchoolRow(trx, id);
+    await recordAudit(trx, {
+      trustId: trust.id,
+      ...actor,
+      action: 'school.deleted',
+      entityType: 'school',
+      entityId: id,
+      summary: `Removed school ${school.name} with ${impact.blocks} blocks and ${impact.rooms} rooms`,
+      before: { ...school, ...impact },
+    });
+    return { name: school.name, ...impact };
   });
 }

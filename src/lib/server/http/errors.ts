@@ -32,6 +32,7 @@ export const forbidden = (action = 'do that') =>
 export const notFound = (what: string) => new AppError(404, 'not_found', `${what} was not found in this trust.`);
 export const conflict = (message: string, details: unknown = null) => new AppError(409, 'conflict', message, details);
 export const paymentRequired = (message: string) => new AppError(402, 'payment_required', message);
+export const methodNotAllowed = (message: string) => new AppError(405, 'method_not_allowed', message);
 
 /**
  * Plain-language messages for our named database constraints (see db/migrations); range messages come from the one
@@ -166,27 +167,30 @@ function issueWords(issue: ZodError['issues'][number]): string {
   }
 }
 
-/** The one place errors become HTTP responses: `{ error: { code, message, details } }`. */
-export function toErrorResponse(error: unknown): Response {
-  const body = (status: number, code: string, message: string, details: unknown) =>
-    new Response(JSON.stringify({ error: { code, message, details } }), {
-      status,
-      headers: { 'content-type': 'application/json; charset=utf-8' },
-    });
-  if (error instanceof AppError) return body(error.status, error.code, error.message, error.details);
+/** What went wrong, as we tell the person: our named errors, zod's and named constraints'; anything else is a 500. */
+export function describeError(error: unknown): AppError {
+  if (error instanceof AppError) return error;
   if (error instanceof ZodError) {
     const details = error.issues.map((issue) => ({ path: issue.path.join('.'), message: issueWords(issue) }));
     const first = details[0];
     const message = first ? first.message : 'The request is not valid.';
-    return body(400, 'invalid_request', message, details);
+    return new AppError(400, 'invalid_request', message, details);
   }
   const fromDb = fromDatabaseError(error);
-  if (fromDb) return body(fromDb.status, fromDb.code, fromDb.message, fromDb.details);
+  if (fromDb) return fromDb;
   console.error('Unexpected error', error);
-  return body(
+  return new AppError(
     500,
     'internal_error',
     'Something went wrong on our side. Please try again; if it keeps happening, tell your trust admin.',
-    null,
   );
+}
+
+/** The one place errors become HTTP responses: `{ error: { code, message, details } }`. */
+export function toErrorResponse(error: unknown): Response {
+  const { status, code, message, details } = describeError(error);
+  return new Response(JSON.stringify({ error: { code, message, details } }), {
+    status,
+    headers: { 'content-type': 'application/json; charset=utf-8' },
+  });
 }

@@ -6,6 +6,7 @@
  */
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
+import type pg from 'pg';
 import { assessRoom, EngineInputError } from '../../engine';
 import { analyseRoom, measuredThresholds, type MeasuredRoom } from '../../engine/measured';
 import { getCurrentAssumptionSet } from '../assessments/assumptions.repository';
@@ -32,7 +33,7 @@ function ensureWorker(): Promise<void> {
       expireInSeconds: 1800,
     });
     await boss.work<{ runId: string }>(ANALYSIS_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-      if (job) await runAnalysis(getDb(), job.data.runId);
+      if (job) await runAnalysis(getDb(), getPool(), job.data.runId);
     });
   })().catch((error: unknown) => {
     ready = undefined;
@@ -95,7 +96,7 @@ const arrayText = (values: readonly number[]) =>
   `{${values.map((v) => (Number.isFinite(v) ? String(v) : 'NULL')).join(',')}}`;
 
 /** Works one analysis run to the end (the worker calls it; so do the benchmark and tests). */
-export async function runAnalysis(db: Kysely<Database>, runId: string): Promise<void> {
+export async function runAnalysis(db: Kysely<Database>, pool: pg.Pool, runId: string): Promise<void> {
   const run = await db.selectFrom('monitor_analysis_runs').selectAll().where('id', '=', runId).executeTakeFirst();
   if (!run || run.status === 'succeeded' || run.status === 'failed') return;
   try {
@@ -171,7 +172,7 @@ export async function runAnalysis(db: Kysely<Database>, runId: string): Promise<
             ]),
           );
       }
-      await withConnection(getPool(), async (conn, client) => {
+      await withConnection(pool, async (conn, client) => {
         await conn.transaction().execute(async (trx) => {
           await trx.deleteFrom('monitor_room_days').where('room_id', 'in', chunk).execute();
           await trx.deleteFrom('monitor_room_analyses').where('room_id', 'in', chunk).execute();

@@ -64,6 +64,7 @@ export const REGISTER_FIELDS = [
   'blockFuelPriceGbpPerKwh',
   'blockHeatingEfficiency',
   'notes',
+  'schoolPostcode',
 ] as const;
 export type RegisterField = (typeof REGISTER_FIELDS)[number];
 
@@ -85,7 +86,8 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     values: SCHOOL_PHASES,
     width: 16,
     synonyms: ['school phase', 'phase', 'phase of education', 'school type'],
-    guide: "Needed when the row creates a new school; otherwise it updates the school's phase.",
+    guide:
+      'Optional. For a school Airtally does not know yet it is read from the name where it says (Primary, Infant, High School, Sixth Form College…) or asked once in the preview; for a known school it updates its phase.',
   },
   {
     field: 'block',
@@ -406,6 +408,15 @@ export const REGISTER_COLUMNS: readonly RegisterColumn[] = [
     width: 40,
     synonyms: ['notes', 'note', 'comments', 'comment', 'remarks'],
     guide: 'Anything else worth keeping with the room.',
+  },
+  {
+    field: 'schoolPostcode',
+    header: 'School postcode',
+    kind: 'text',
+    width: 14,
+    synonyms: ['school postcode', 'postcode', 'post code', 'site postcode', 'postal code'],
+    guide:
+      "Only read when the row creates a new school: its postcode area gives the school's climate region (kept as its address).",
   },
 ];
 

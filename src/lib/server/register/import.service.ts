@@ -8,13 +8,15 @@ import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { badRequest, conflict, notFound } from '../http/errors';
 import { analyseUploadIsolated } from './parse-in-worker';
-import { decodePlan, type UploadAnalysis } from './analyse';
-import type { ImportPlan, ImportSummary } from './plan';
+import { decodePlan, decodeRejectedRows, type RejectedRows, type UploadAnalysis } from './analyse';
+import { estateSnapshot, type ImportPlan, type ImportSummary, type NewSchool } from './plan';
 import { MAX_FILE_BYTES } from './reader';
 import type { CommitBody, ImportOptions } from './register.schemas';
-import { applyPlan, estateFingerprint, loadSavedMappings, loadSnapshot, saveMappings } from './register.repository';
+import { estateFingerprint, loadEstateRecords } from '../estate/estate.repository';
+import { applyPlan } from './apply';
+import { loadSavedMappings, saveMappings } from './register.repository';
 import type { ImportProblem } from './rows';
-import { fileTooLarge } from './register.errors';
+import { fileTooLarge, noRejectedRows } from './register.errors';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
 
@@ -38,7 +40,7 @@ export interface Upload {
 /** The preview an import answers with (POST /api/imports) and keeps until commit. */
 export type ImportPreview = Pick<
   UploadAnalysis,
-  'sheetName' | 'header' | 'topRows' | 'summary' | 'problems' | 'missingRooms' | 'roomChanges'
+  'sheetName' | 'header' | 'topRows' | 'summary' | 'problems' | 'missingRooms' | 'roomChanges' | 'newSchools'
 > & {
   id: string;
   status: 'previewed';
@@ -46,6 +48,8 @@ export type ImportPreview = Pick<
   problemsTruncated: boolean;
   /** Whether blank cells clear stored values (chosen at upload). */
   clearBlanks: boolean;
+  /** Whether rows were rejected: GET /api/imports/{id}/rejected.xlsx gives them back with what to fix. */
+  hasRejectedRows: boolean;
 };
 
 /** .xlsx or .csv from the file name; anything else is refused with what to do. */
@@ -76,7 +80,7 @@ export async function previewImport(
   const mark = stepTimer('preview');
   const [saved, snapshot, fingerprint] = await Promise.all([
     loadSavedMappings(db, trust.id),
-    loadSnapshot(db, trust),
+    loadEstateRecords(db, trust).then((records) => estateSnapshot(records, trust)),
     estateFingerprint(db, trust),
   ]);
   mark('load the estate');
@@ -101,6 +105,8 @@ export async function previewImport(
         missing_rooms: JSON.stringify(analysis.missingRooms),
         room_changes: JSON.stringify({ clearBlanks: options.clearBlanks === true, rooms: analysis.roomChanges }),
         rows_gz: analysis.rowsGz,
+        new_schools: JSON.stringify(analysis.newSchools),
+        rejected_rows_gz: analysis.rejectedRowsGz,
         estate_fingerprint: fingerprint,
       })
       .returning('id')
@@ -128,7 +134,9 @@ export async function previewImport(
     problemsTruncated: analysis.problemCount > analysis.problems.length,
     missingRooms: analysis.missingRooms,
     roomChanges: analysis.roomChanges,
+    newSchools: analysis.newSchools,
     clearBlanks: options.clearBlanks === true,
+    hasRejectedRows: analysis.rejectedRowsGz !== null,
   };
 }
 
@@ -211,7 +219,7 @@ export async function commitImport(
         schools: plan.summary.schoolsToCreate,
         rooms: plan.summary.roomsToCreate,
       });
-      const { roomsDeleted } = await applyPlan(trx, client, trust.id, actor, plan, roomLines, body.deleteMissing);
+      const { roomsDeleted } = await applyPlan(trx, client, trust, actor, plan, roomLines, body.deleteMissing);
       mark('write schools, blocks, rooms and audit');
       const outcome: ImportOutcome = {
         status: 'committed',
@@ -329,6 +337,8 @@ export async function getImport(db: Kysely<Database>, viewer: ImportViewer, id: 
       'room_changes',
       'outcome',
       'header',
+      'new_schools',
+      sql<boolean>`rejected_rows_gz IS NOT NULL`.as('has_rejected_rows'),
     ])
     .where('id', '=', id)
     .executeTakeFirst();
@@ -363,5 +373,15 @@ export async function getImport(db: Kysely<Database>, viewer: ImportViewer, id: 
     missingRooms,
     outcome: r.outcome as ImportOutcome | null,
     header: r.header,
+    newSchools: (r.new_schools ?? []) as unknown as NewSchool[],
+    hasRejectedRows: r.has_rejected_rows,
   };
+}
+
+/** An import's rejected rows with the file's header (404 when the import is not the viewer's or rejected nothing). */
+export async function getRejectedRows(db: Kysely<Database>, viewer: ImportViewer, id: string): Promise<RejectedRows> {
+  const r = await visibleImports(db, viewer).select(['rejected_rows_gz']).where('id', '=', id).executeTakeFirst();
+  if (!r) throw notFound('That import');
+  if (!r.rejected_rows_gz) throw noRejectedRows();
+  return decodeRejectedRows(r.rejected_rows_gz);
 }

@@ -52,6 +52,7 @@ export async function readRegisterFile(
     const compiled = compileColumns(header.columns);
     const rows: ParsedRow[] = [];
     let skipped = 0;
+    const notes: { rowNumber: number; text: string }[] = [];
     const take = (row: SheetRow) => {
       if (row.rowNumber < firstDataRow) return;
       const kindOfRow = classifyRow(row.values, compiled);
@@ -60,11 +61,16 @@ export async function readRegisterFile(
         skipped++;
         return;
       }
+      if (kindOfRow === 'note') {
+        skipped++;
+        notes.push({ rowNumber: row.rowNumber, text: row.values.map((v) => cellText(v ?? null)).find(Boolean) ?? '' });
+        return;
+      }
       rows.push(parseRow(row.rowNumber, row.values, compiled));
     };
     for (const row of head) take(row);
     for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);
-    return { sheetName: sheet.name, header, topRows: topText(head), read: { rows, skipped } };
+    return { sheetName: sheet.name, header, topRows: topText(head), read: { rows, skipped, notes } };
   }
   throw new AppError(
     400,

@@ -1,8 +1,20 @@
-import type { ClimateRegion, HeatingFuel, SchoolPhase } from '../../engine/vocabulary';
+import { phaseFromName, regionFromPostcode } from '../../engine/school-inference';
+import { type ClimateRegion, type HeatingFuel, label, type SchoolPhase } from '../../engine/vocabulary';
+import type { ActiveTrust } from '../auth/context';
+import type { EstateRecords } from '../estate/estate.types';
 import { columnOf, type RegisterField } from './columns';
 import type { DetectedColumn } from './headers';
-import { physicalChecks, RoomFieldsSchema, type RoomFieldName, type RoomFields } from './register.schemas';
+import { efficiencyProblem, physicalChecks } from '../estate/checks';
+import {
+  BlockPatchSchema,
+  RoomFieldsSchema,
+  type RoomFieldName,
+  type RoomFields,
+  SchoolPatchSchema,
+} from '../estate/estate.schemas';
 import { ageGroupForPhase, type ImportProblem, type ParsedRow } from './rows';
+import { groupRepeatedWarnings } from './problems';
+import type { CellValue } from './values';
 
 /** The trust's estate as it stands, reduced to what the import compares against. */
 export interface EstateSnapshot {
@@ -15,10 +27,23 @@ export interface EstateSnapshot {
     airPermeabilityM3hM2: number | null;
   } & Partial<BlockHeating>)[];
   rooms: { id: string; schoolId: string; blockId: string | null; fields: RoomFields }[];
-  /** Region given to schools the import creates (the trust's most common one). */
+  /** Region given to schools the import creates when neither a choice nor a postcode says (the trust's most common). */
   defaultClimateRegion: ClimateRegion;
+  /** Phase given to schools the import creates when neither the file, a choice nor the name says (the trust's most common). */
+  defaultPhase?: SchoolPhase;
   /** False for members limited to some schools: they may only import rooms of those schools. */
   canCreateSchools?: boolean;
+}
+
+/** The estate as the import compares against it: its records, the usual climate region, who may add schools. */
+export function estateSnapshot(records: EstateRecords, trust: Pick<ActiveTrust, 'schoolIds'>): EstateSnapshot {
+  const regionCounts = new Map<ClimateRegion, number>();
+  for (const s of records.schools) regionCounts.set(s.climateRegion, (regionCounts.get(s.climateRegion) ?? 0) + 1);
+  const defaultClimateRegion = [...regionCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'midlands';
+  const phaseCounts = new Map<SchoolPhase, number>();
+  for (const s of records.schools) phaseCounts.set(s.phase, (phaseCounts.get(s.phase) ?? 0) + 1);
+  const defaultPhase = [...phaseCounts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? 'primary';
+  return { ...records, defaultClimateRegion, defaultPhase, canCreateSchools: trust.schoolIds === null };
 }
 
 /** A school's heating as the register's school columns give it. */
@@ -75,14 +100,44 @@ export interface RoomWrite {
   after: Partial<RoomFields & { blockId: string | null }>;
 }
 
+/** Where a new school's phase came from: the file's phase column, the person's choice, its name, or the default. */
+export type PhaseSource = 'file' | 'chosen' | 'name' | 'default';
+/** Where a new school's climate region came from: the person's choice, its postcode, or the trust's usual one. */
+export type RegionSource = 'chosen' | 'postcode' | 'default';
+
+/** A school the import creates, as the preview lists it once (with why its phase and region are what they are). */
+export interface NewSchool extends Partial<SchoolHeating> {
+  key: string;
+  name: string;
+  phase: SchoolPhase;
+  phaseSource: PhaseSource;
+  climateRegion: ClimateRegion;
+  regionSource: RegionSource;
+  /** Why, in words ("the name says “High School”", "postcode area LS"). */
+  phaseReason: string;
+  regionReason: string;
+  postcode: string | null;
+  /** The rows of the file that create the school's rooms (the first one, and how many). */
+  firstRow: number;
+  rowCount: number;
+}
+
+/** Phase and region the person chose in the preview for a school the file creates, by its name key (nameKey). */
+export type SchoolChoices = Record<
+  string,
+  { phase?: SchoolPhase | undefined; climateRegion?: ClimateRegion | undefined }
+>;
+
+/** A rejected row as the file holds it, with what to fix: for the rejected-rows workbook. */
+export interface RejectedRow {
+  row: number;
+  cells: (string | number | boolean | null)[];
+  fixes: string[];
+}
+
 /** Everything a commit would do, and the counts the preview shows. */
 export interface ImportPlan {
-  newSchools: ({
-    key: string;
-    name: string;
-    phase: SchoolPhase;
-    climateRegion: ClimateRegion;
-  } & Partial<SchoolHeating>)[];
+  newSchools: NewSchool[];
   newBlocks: ({
     key: string;
     school: Ref;
@@ -107,6 +162,8 @@ export interface ImportPlan {
   roomChanges: RoomChange[];
   missingRooms: { id: string; schoolName: string; code: string; name: string }[];
   problems: ImportProblem[];
+  /** The rejected rows' cells as read, with what to fix in each. */
+  rejectedRows: RejectedRow[];
   summary: ImportSummary;
 }
 
@@ -125,6 +182,20 @@ export interface ImportSummary {
   errors: number;
   warnings: number;
 }
+
+/** Register columns of a school's or block's own attributes, checked with the estate's declaration of each field. */
+const ESTATE_VALUE_SCHEMAS = {
+  schoolPhase: SchoolPatchSchema.shape.phase,
+  schoolHeatingFuel: SchoolPatchSchema.shape.heatingFuel,
+  schoolFuelPriceGbpPerKwh: SchoolPatchSchema.shape.fuelPriceGbpPerKwh,
+  schoolHeatingEfficiency: SchoolPatchSchema.shape.heatingEfficiency,
+  yearBuilt: BlockPatchSchema.shape.yearBuilt,
+  airPermeabilityM3hM2: BlockPatchSchema.shape.airPermeabilityM3hM2,
+  blockHeatingFuel: BlockPatchSchema.shape.heatingFuel,
+  blockFuelPriceGbpPerKwh: BlockPatchSchema.shape.fuelPriceGbpPerKwh,
+  blockHeatingEfficiency: BlockPatchSchema.shape.heatingEfficiency,
+} as const satisfies Partial<Record<RegisterField, unknown>>;
+const ESTATE_VALUE_FIELDS = Object.keys(ESTATE_VALUE_SCHEMAS) as (keyof typeof ESTATE_VALUE_SCHEMAS)[];
 
 /** A key for matching school and block names whatever their case and spacing. */
 export const nameKey = (name: string) => name.toLowerCase().replace(/\s+/g, ' ').trim();
@@ -159,6 +230,8 @@ const sameValue = (a: unknown, b: unknown) =>
 export interface ReadRows {
   rows: ParsedRow[];
   skipped: number;
+  /** Rows skipped as notes or headings (one text and nothing else), said in the preview so nothing vanishes unseen. */
+  notes?: { rowNumber: number; text: string }[];
 }
 
 /**
@@ -170,9 +243,10 @@ export function planImport(
   read: ReadRows,
   columns: DetectedColumn[],
   estate: EstateSnapshot,
-  options: { clearBlanks?: boolean } = {},
+  options: { clearBlanks?: boolean; schoolChoices?: SchoolChoices | undefined } = {},
 ): ImportPlan {
   const clearBlanks = options.clearBlanks === true;
+  const choices = options.schoolChoices ?? {};
   const roomChanges: RoomChange[] = [];
   const problems: ImportProblem[] = [];
   const byField = new Map<RegisterField, DetectedColumn>();
@@ -205,6 +279,30 @@ export function planImport(
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
   const roomsByKey = new Map(estate.rooms.map((r) => [`${r.schoolId}|${r.fields.code}`, r]));
 
+  // School and block values the estate's editors would refuse are refused here too: the value is not applied and its
+  // row is rejected. A register repeats the same few values on every row, so each is checked once.
+  const refusedRows = new Set<number>();
+  const verdicts = new Map<string, string | null>();
+  for (const row of read.rows) {
+    for (const field of ESTATE_VALUE_FIELDS) {
+      const value = row.values[field];
+      if (value === null || value === undefined) continue;
+      const key = `${field}|${value}`;
+      let message = verdicts.get(key);
+      if (message === undefined) {
+        const parsed = ESTATE_VALUE_SCHEMAS[field].safeParse(value);
+        message = parsed.success
+          ? null
+          : (parsed.error.issues[0]?.message ?? `${columnOf(field).header} is not valid.`);
+        verdicts.set(key, message);
+      }
+      if (message === null) continue;
+      problem(row, field, 'error', message);
+      delete row.values[field];
+      refusedRows.add(row.rowNumber);
+    }
+  }
+
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
   const schoolHeatingOf = new Map<string, Partial<SchoolHeating>>();
@@ -214,12 +312,19 @@ export function planImport(
     { yearBuilt: number | null; airPermeabilityM3hM2: number | null; row: number; name: string }
   >();
   const schoolNameOf = new Map<string, string>();
+  const postcodeOf = new Map<string, string>();
+  const rowsOfSchool = new Map<string, { first: number; count: number }>();
   for (const row of read.rows) {
     const school = row.values.school;
     if (typeof school !== 'string') continue;
     const phase = row.values.schoolPhase;
     const sk = keyOf(school);
     if (!schoolNameOf.has(sk)) schoolNameOf.set(sk, school);
+    const postcode = row.values.schoolPostcode;
+    if (typeof postcode === 'string' && postcode !== '' && !postcodeOf.has(sk)) postcodeOf.set(sk, postcode);
+    const counted = rowsOfSchool.get(sk);
+    if (counted) counted.count++;
+    else rowsOfSchool.set(sk, { first: row.rowNumber, count: 1 });
     if (typeof phase === 'string') {
       const seen = phaseOf.get(sk);
       if (!seen) phaseOf.set(sk, { phase: phase as SchoolPhase, row: row.rowNumber });
@@ -271,6 +376,38 @@ export function planImport(
     }
   }
 
+  // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits
+  // its fuel; a block without its own fuel burns the school's). Where it does not, the file's fuel and efficiency are
+  // not applied and the rows that carry them are refused.
+  const schoolHeatingProblem = new Map<string, string>();
+  const schoolFuelAfter = new Map<string, string>();
+  for (const [sk, heating] of schoolHeatingOf) {
+    const existing = schoolsByKey.get(sk);
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      schoolHeatingProblem.set(sk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+    schoolFuelAfter.set(sk, heating.heatingFuel ?? existing?.heatingFuel ?? 'gas');
+  }
+  const blockHeatingProblem = new Map<string, string>();
+  for (const [bk, heating] of blockHeatingOf) {
+    const sk = bk.slice(0, bk.indexOf('|'));
+    const school = schoolsByKey.get(sk);
+    const existing = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
+    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? schoolFuelAfter.get(sk) ?? 'gas';
+    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+    if (problem) {
+      blockHeatingProblem.set(bk, problem);
+      delete heating.heatingFuel;
+      delete heating.heatingEfficiency;
+    }
+  }
+  const carried = (row: ParsedRow, field: RegisterField) =>
+    row.values[field] !== null && row.values[field] !== undefined;
+
   // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
   const writes: RoomWrite[] = [];
   const codesInFile = new Set<string>();
@@ -278,11 +415,61 @@ export function planImport(
   const acceptedSchools = new Set<string>();
   const acceptedBlocks = new Set<string>();
   const warnedNewSchool = new Set<string>();
+  const rejectedRows: RejectedRow[] = [];
   let rejected = 0;
+  // A rejected row's cells as read; what to fix in it is filled in from its errors once every problem is known.
+  const rejectedRow = (row: ParsedRow): RejectedRow => ({
+    row: row.rowNumber,
+    cells: (row.cells ?? []).map(plainCell),
+    fixes: [],
+  });
+  // Each school the file creates is described once: phase and region from the file, the person, the name or postcode.
+  const described = new Map<string, NewSchool>();
+  const describeNewSchool = (sk: string, name: string): NewSchool => {
+    let found = described.get(sk);
+    if (found) return found;
+    const choice = choices[sk] ?? {};
+    const fromFile = phaseOf.get(sk)?.phase;
+    const fromName = phaseFromName(name);
+    const postcode = postcodeOf.get(sk) ?? null;
+    const fromPostcode = regionFromPostcode(postcode ?? name);
+    const defaultPhase = estate.defaultPhase ?? 'primary';
+    const rows = rowsOfSchool.get(sk) ?? { first: 0, count: 0 };
+    found = {
+      key: sk,
+      name,
+      ...(fromFile
+        ? { phase: fromFile, phaseSource: 'file', phaseReason: 'the file’s phase column' }
+        : choice.phase
+          ? { phase: choice.phase, phaseSource: 'chosen', phaseReason: 'chosen in the preview' }
+          : fromName
+            ? { phase: fromName.phase, phaseSource: 'name', phaseReason: `the name says “${fromName.because}”` }
+            : { phase: defaultPhase, phaseSource: 'default', phaseReason: 'not known: the trust’s usual phase' }),
+      ...(choice.climateRegion
+        ? { climateRegion: choice.climateRegion, regionSource: 'chosen', regionReason: 'chosen in the preview' }
+        : fromPostcode
+          ? {
+              climateRegion: fromPostcode.climateRegion,
+              regionSource: 'postcode',
+              regionReason: `postcode area ${fromPostcode.area}`,
+            }
+          : {
+              climateRegion: estate.defaultClimateRegion,
+              regionSource: 'default',
+              regionReason: 'not known: the trust’s usual region',
+            }),
+      postcode,
+      firstRow: rows.first,
+      rowCount: rows.count,
+      ...(schoolHeatingOf.get(sk) ?? {}),
+    };
+    described.set(sk, found);
+    return found;
+  };
   let unchanged = 0;
 
   for (const row of read.rows) {
-    let hasError = row.problems.some((p) => p.severity === 'error');
+    let hasError = row.problems.some((p) => p.severity === 'error') || refusedRows.has(row.rowNumber);
     problems.push(...row.problems);
     const error = (field: RegisterField, message: string) => {
       problem(row, field, 'error', message);
@@ -294,26 +481,42 @@ export function planImport(
     if (!code) error('code', 'The room code is missing; every room needs a code that is unique within its school.');
     if (!schoolName || !code) {
       rejected++;
+      rejectedRows.push(rejectedRow(row));
       continue;
     }
     const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
-    const phase = phaseOf.get(sk)?.phase ?? existingSchool?.phase ?? null;
+    const phase =
+      phaseOf.get(sk)?.phase ??
+      existingSchool?.phase ??
+      (estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName).phase : null);
+    const schoolHeating = schoolHeatingProblem.get(sk);
+    if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
+    else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
+    const blockHeating =
+      typeof row.values.block === 'string' ? blockHeatingProblem.get(`${sk}|${keyOf(row.values.block)}`) : undefined;
+    if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
+    else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
     if (!existingSchool && estate.canCreateSchools === false)
       error(
         'school',
         `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`,
       );
-    else if (!existingSchool && !phase)
-      error('schoolPhase', `"${schoolName}" is a new school; give its phase (e.g. Primary) so Airtally can create it.`);
-    if (!existingSchool && phase && estate.canCreateSchools !== false && !warnedNewSchool.has(sk)) {
+    const newSchool = !existingSchool && estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName) : null;
+    if (newSchool && !warnedNewSchool.has(sk)) {
+      // Said once per school, on its first row: never an error, so the school's rooms still import.
       warnedNewSchool.add(sk);
-      problem(
-        row,
-        'school',
-        'warning',
-        `"${schoolName}" is not in Airtally yet and will be created (climate region set to the trust's usual one; check it on the school page).`,
-      );
+      const guessed = [
+        newSchool.phaseSource === 'default' ? `phase set to ${label(newSchool.phase)}` : null,
+        newSchool.regionSource === 'default' ? `climate region set to ${label(newSchool.climateRegion)}` : null,
+      ].filter(Boolean);
+      if (guessed.length > 0)
+        problem(
+          row,
+          newSchool.phaseSource === 'default' ? 'schoolPhase' : 'school',
+          'warning',
+          `"${schoolName}" is a new school and the file does not say its ${newSchool.phaseSource === 'default' ? 'phase' : 'region'}${newSchool.phaseSource === 'default' && newSchool.regionSource === 'default' ? ' or region' : ''}: ${guessed.join(' and ')} (the trust's usual). Choose in the new schools list before importing, or change it later on the school's page.`,
+        );
     }
     const dupKey = `${sk}|${code}`;
     const first = firstRowOfCode.get(dupKey);
@@ -343,23 +546,17 @@ export function planImport(
       else if (!existingRoom || clearBlanks) draft[field] = field === 'name' ? '' : null;
     }
     draft.code = code;
-    if (!existingRoom) {
-      const unknown = (['use', 'pupils', 'ventilationType'] as const).filter((f) => draft[f] === null);
-      if (unknown.length > 0)
-        problem(
-          row,
-          unknown[0] as RegisterField,
-          'warning',
-          `Not recorded: ${unknown.map((f) => columnOf(f).header.toLowerCase()).join(', ')}. Stored as unknown; assessments assume a value and say so.`,
-        );
-      if (draft.ageGroup === null && ageGroupForPhase(phase) === null && has('ageGroup'))
-        problem(row, 'ageGroup', 'warning', 'Age group is blank; assessments take it from the school phase.');
-    }
     const parsed = RoomFieldsSchema.safeParse(draft);
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const field = String(issue.path[0] ?? 'code') as RegisterField;
         const missing = draft[field] === undefined || draft[field] === null;
+        // A cell that could not be read has said so already; "required" would only repeat it.
+        if (
+          missing &&
+          row.problems.some((p) => p.severity === 'error' && p.columnLetter === byField.get(field)?.letter)
+        )
+          continue;
         error(field, missing ? `${columnOf(field).header} is required for a new room.` : `${issue.message}.`);
       }
     } else {
@@ -370,8 +567,22 @@ export function planImport(
     }
     if (hasError || !parsed.success) {
       rejected++;
+      rejectedRows.push(rejectedRow(row));
       // A rejected row keeps its problems; nothing of it is written.
       continue;
+    }
+    // Said only of rows that import: a rejected row's errors are what to fix first.
+    if (!existingRoom) {
+      for (const f of ['use', 'pupils', 'ventilationType'] as const)
+        if (draft[f] === null)
+          problem(
+            row,
+            f,
+            'warning',
+            `${columnOf(f).header} blank: stored as unknown; assessments assume a value and say so.`,
+          );
+      if (draft.ageGroup === null && ageGroupForPhase(phase) === null && has('ageGroup'))
+        problem(row, 'ageGroup', 'warning', 'Age group blank: assessments take it from the school phase.');
     }
     const fields = parsed.data;
     const school: Ref = existingSchool ? { id: existingSchool.id } : { newKey: sk };
@@ -450,15 +661,10 @@ export function planImport(
     const existing = schoolsByKey.get(sk);
     const phase = phaseOf.get(sk)?.phase;
     const heating = schoolHeatingOf.get(sk) ?? {};
-    if (!existing && phase) {
-      newSchools.push({
-        key: sk,
-        name: schoolNameOf.get(sk) ?? sk,
-        phase,
-        climateRegion: estate.defaultClimateRegion,
-        ...heating,
-      });
-    } else if (existing) {
+    if (!existing) {
+      const school = described.get(sk);
+      if (school) newSchools.push({ ...school, ...heating });
+    } else {
       const before: Record<string, string | number | null> = {};
       const after: Record<string, string | number | null> = {};
       if (phase && phase !== existing.phase) {
@@ -531,7 +737,19 @@ export function planImport(
       name: r.fields.name,
     }));
 
+  for (const note of read.notes ?? [])
+    problems.push({
+      row: note.rowNumber,
+      column: '',
+      columnLetter: null,
+      value: note.text.slice(0, 200),
+      severity: 'warning',
+      message: 'Not a room (a note or heading, one text and nothing else): skipped.',
+    });
   problems.sort((a, b) => a.row - b.row);
+  const fixesOf = new Map(rejectedRows.map((r) => [r.row, r.fixes]));
+  for (const p of problems) if (p.severity === 'error') fixesOf.get(p.row)?.push(p.message);
+  const shown = groupRepeatedWarnings(problems);
   return {
     newSchools,
     newBlocks,
@@ -540,7 +758,8 @@ export function planImport(
     roomWrites: writes,
     roomChanges,
     missingRooms,
-    problems,
+    problems: shown,
+    rejectedRows,
     summary: {
       rowsRead: read.rows.length + read.skipped,
       rowsSkipped: read.skipped,
@@ -553,8 +772,14 @@ export function planImport(
       roomsToChange: writes.filter((w) => w.roomId).length,
       roomsUnchanged: unchanged,
       roomsMissing: missingRooms.length,
-      errors: problems.filter((p) => p.severity === 'error').length,
-      warnings: problems.filter((p) => p.severity === 'warning').length,
+      errors: shown.filter((p) => p.severity === 'error').length,
+      warnings: shown.filter((p) => p.severity === 'warning').length,
     },
   };
+}
+
+/** A cell as the rejected-rows workbook writes it back (dates as the day they show). */
+function plainCell(value: CellValue | undefined): string | number | boolean | null {
+  if (value === undefined || value === null) return null;
+  return value instanceof Date ? value.toISOString().slice(0, 10) : value;
 }

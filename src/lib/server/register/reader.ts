@@ -91,7 +91,13 @@ export async function* readXlsx(
         number: number;
         values: unknown[];
       }>;
-      const merges = facts.sheets.get(`xl/worksheets/sheet${ws.id}.xml`)?.merges ?? [];
+      // Before the workbook part is read, exceljs numbers a sheet by its part (sheet<N>.xml) and calls it "Sheet<N>";
+      // after, it gives the workbook's sheet id and name. Either way the part, and so the sheet's own name, is known.
+      const workbookRead = (reader as unknown as { model?: unknown }).model !== undefined;
+      const named = workbookRead ? [...facts.sheetNames].find(([, s]) => s.sheetId === Number(ws.id)) : undefined;
+      const part = named?.[0] ?? `xl/worksheets/sheet${ws.id}.xml`;
+      const sheetName = facts.sheetNames.get(part)?.name ?? ws.name ?? `Sheet ${ws.id}`;
+      const merges = facts.sheets.get(part)?.merges ?? [];
       const filler = merges.length ? new MergeFiller(merges) : null;
       async function* rows(): AsyncGenerator<SheetRow> {
         let previous = 0;
@@ -100,7 +106,7 @@ export async function* readXlsx(
             // Row numbers come from the file: each must be a sheet row after the one before.
             if (!Number.isInteger(row.number) || row.number <= previous || row.number > LAST_SHEET_ROW)
               throw badRequest(
-                `The sheet "${ws.name ?? ws.id}" lists its rows out of order or with impossible row numbers (after row ${previous}), so the file is damaged. Open it in your spreadsheet program, save it again as .xlsx and retry.`,
+                `The sheet "${sheetName}" lists its rows out of order or with impossible row numbers (after row ${previous}), so the file is damaged. Open it in your spreadsheet program, save it again as .xlsx and retry.`,
               );
             if (row.number > maxRows + 50) throw tooMany();
             previous = row.number;
@@ -122,7 +128,7 @@ export async function* readXlsx(
           throw unreadable(error);
         }
       }
-      yield { name: ws.name ?? `Sheet ${ws.id}`, rows: rows() };
+      yield { name: sheetName, rows: rows() };
     }
   } catch (error) {
     throw unreadable(error);

@@ -17,3 +17,7 @@ export const fileMissing = () =>
     'file_missing',
     'Choose a register file (.xlsx or .csv) to upload; send it in the form field "file".',
   );
+
+/** 404: the import rejected no rows, so there is no rejected-rows workbook. */
+export const noRejectedRows = () =>
+  new AppError(404, 'not_found', 'That import rejected no rows, so there is nothing to download.');

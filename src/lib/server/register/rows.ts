@@ -30,22 +30,27 @@ export interface ImportProblem {
   value: string;
   severity: 'error' | 'warning';
   message: string;
+  /** When the same warning applies to several rows: all of them (`row` is the first). */
+  rows?: number[];
 }
 
 /** A data row after each cell is read: values of the mapped columns (null = blank), keyed by field. */
 export interface ParsedRow {
   rowNumber: number;
   values: Partial<Record<RegisterField, string | number | null>>;
-  /** Raw text of each mapped field, for problem messages. */
   problems: ImportProblem[];
+  /** Every cell of the row as read (kept for the rejected-rows workbook). */
+  cells?: CellValue[];
 }
 
-/** What a row is: nothing, a total line to skip, or a room. */
-export type RowKind = 'blank' | 'subtotal' | 'room';
+/** What a row is: nothing, a total line to skip, a note or heading to skip, or a room. */
+export type RowKind = 'blank' | 'subtotal' | 'note' | 'room';
 
-type CellParser = (value: CellValue) => Parsed<string | number>;
+/** Reads one cell of a column. */
+export type CellParser = (value: CellValue) => Parsed<string | number>;
 
-function parserFor(field: RegisterField, header: string): CellParser {
+/** The reader of a register column's cells (its header may carry a unit, e.g. "Ceiling height (mm)"). */
+export function parserFor(field: RegisterField, header: string): CellParser {
   const column = columnOf(field);
   switch (column.kind) {
     case 'text':
@@ -107,19 +112,42 @@ export function compileColumns(columns: DetectedColumn[]): CompiledColumn[] {
 }
 
 const TOTAL_WORDS = /\b(sub-?total|totals?|grand total|sum)\b/i;
+/** A room code: one short word ("G12", "SC-3"), unlike a note's sentence. */
+const CODE_LIKE = /^\S{1,40}$/;
 
-/** Blank rows and total lines ("Subtotal", "Total") carry no room and are skipped. */
+/**
+ * Blank rows and total lines ("Subtotal", "Total") carry no room and are skipped; so are notes and headings: rows
+ * holding one text and nothing else ("Notes: areas are GIA", "Surveyed by …", "Ground floor", a merged banner), unless
+ * that text is in the room-code column and reads like a code (a room with everything else missing is reported).
+ */
 export function classifyRow(values: CellValue[], columns: CompiledColumn[]): RowKind {
-  if (columns.every((c) => cellText(values[c.index] ?? null) === '')) return 'blank';
-  const codeColumn = columns.find((c) => c.field === 'code');
-  const code = codeColumn ? cellText(values[codeColumn.index] ?? null) : '';
-  if (code !== '' && !TOTAL_WORDS.test(code)) return 'room';
-  return values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v)) ? 'subtotal' : 'room';
+  // One pass over the mapped cells: blank, or the first two different texts (then a room or a total line).
+  let only: string | null = null;
+  let code = '';
+  let several = false;
+  for (const c of columns) {
+    const text = cellText(values[c.index] ?? null);
+    if (c.field === 'code') code = text;
+    if (text === '' || text === only) continue;
+    if (only === null) only = text;
+    else several = true;
+  }
+  if (only === null) return 'blank';
+  if (code !== '' && TOTAL_WORDS.test(code)) return 'subtotal';
+  const totalLine = () => code === '' && values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v));
+  if (several) return totalLine() ? 'subtotal' : 'room';
+  // One text among the mapped cells: a note or heading unless an unmapped cell says something else too.
+  for (const value of values) {
+    const text = cellText(value ?? null);
+    if (text !== '' && text !== only) return totalLine() ? 'subtotal' : 'room';
+  }
+  if (TOTAL_WORDS.test(only)) return 'subtotal';
+  return code === only && CODE_LIKE.test(only) ? 'room' : 'note';
 }
 
 /** Reads every mapped cell of a data row; unreadable cells become errors, placeholders warnings. */
 export function parseRow(rowNumber: number, cells: CellValue[], columns: CompiledColumn[]): ParsedRow {
-  const row: ParsedRow = { rowNumber, values: {}, problems: [] };
+  const row: ParsedRow = { rowNumber, values: {}, problems: [], cells };
   for (const column of columns) {
     const raw = cells[column.index] ?? null;
     const parsed = column.parse(raw);

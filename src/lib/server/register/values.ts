@@ -1,3 +1,4 @@
+import { BLOCK_LIMITS } from '../../engine/limits';
 import { label } from '../../engine/vocabulary';
 import type { Quantity } from './columns';
 import { looksLikeFormula } from '../formula-guard';
@@ -192,10 +193,11 @@ export function parseYear(value: CellValue): Parsed<number> {
       n = parsed.value;
     }
   }
-  if (n >= 1700 && n <= 2100 && Number.isInteger(n)) return { ok: true, value: n };
-  if (n > 2100 && n < 80_000)
+  const { min, max } = BLOCK_LIMITS.yearBuilt;
+  if (n >= min && n <= max && Number.isInteger(n)) return { ok: true, value: n };
+  if (n > max && n < 80_000)
     return { ok: true, value: new Date(EXCEL_EPOCH_MS + Math.floor(n) * 86_400_000).getUTCFullYear() };
-  return fail(`${n} is not a year between 1700 and 2100`);
+  return fail(`${n} is not a year between ${min} and ${max}`);
 }
 
 /** Bearings of the sixteen compass points, degrees clockwise from north. */

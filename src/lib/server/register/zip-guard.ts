@@ -154,6 +154,50 @@ export interface MergedRange {
 /** What the guard learned about a workbook that passed: worksheets' merged ranges and row counts. */
 export interface WorkbookFacts {
   sheets: Map<string, { merges: MergedRange[]; lastRow: number | null }>;
+  /** Each worksheet part's own name and sheet id as the workbook lists them ("xl/worksheets/sheet1.xml" → "Rooms"). */
+  sheetNames: Map<string, { name: string; sheetId: number }>;
+}
+
+/** Reads a small XML part whole (the workbook and its relationships), within the same limits as every part. */
+async function smallPartText(buf: Buffer, entry: ZipEntry, budget: Budget): Promise<string> {
+  let text = '';
+  await unpack(buf, entry, budget, (chunk) => {
+    if (text.length < 1_000_000) text += chunk;
+  });
+  return Buffer.from(text, 'latin1').toString('utf8');
+}
+
+const XML_ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', apos: "'" };
+const unescapeXml = (text: string) =>
+  text.replace(/&(amp|lt|gt|quot|apos|#(\d+)|#x([0-9a-f]+));/gi, (_, name: string, dec?: string, hex?: string) =>
+    dec
+      ? String.fromCodePoint(Number(dec))
+      : hex
+        ? String.fromCodePoint(parseInt(hex, 16))
+        : (XML_ENTITIES[name] ?? ''),
+  );
+const attribute = (tag: string, name: string) => new RegExp(`\\s${name}="([^"]*)"`).exec(tag)?.[1];
+
+/**
+ * The worksheets' names by part: the workbook lists each sheet's name and relationship id, its relationships
+ * say which part that is. The streaming reader only knows them when the workbook part comes first in the zip,
+ * which files written by exceljs (and some other programs) do not do.
+ */
+function sheetNamesOf(workbookXml: string, relsXml: string): Map<string, { name: string; sheetId: number }> {
+  const targets = new Map<string, string>();
+  for (const m of relsXml.matchAll(/<Relationship\b[^>]*>/g)) {
+    const id = attribute(m[0], 'Id');
+    const target = attribute(m[0], 'Target');
+    if (id && target) targets.set(id, target.startsWith('/') ? target.slice(1) : `xl/${target}`);
+  }
+  const names = new Map<string, { name: string; sheetId: number }>();
+  for (const m of workbookXml.matchAll(/<(?:\w+:)?sheet\b[^>]*>/g)) {
+    const name = attribute(m[0], 'name');
+    const rel = attribute(m[0], 'r:id') ?? /\s\w+:id="([^"]*)"/.exec(m[0])?.[1];
+    const part = rel ? targets.get(rel) : undefined;
+    if (name && part) names.set(part, { name: unescapeXml(name), sheetId: Number(attribute(m[0], 'sheetId') ?? 0) });
+  }
+  return names;
 }
 
 function decodeRef(ref: string): { row: number; col: number } {
@@ -299,10 +343,14 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
   checkLocalHeaders(buf, entries, dirOffset);
   const budget: Budget = { remaining: MAX_TOTAL_BYTES };
   const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
+  let workbookXml = '';
+  let relsXml = '';
   for (const entry of entries) {
     if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name))
       sheets.set(entry.name, await sheetFacts(buf, entry, budget));
+    else if (entry.name === 'xl/workbook.xml') workbookXml = await smallPartText(buf, entry, budget);
+    else if (entry.name === 'xl/_rels/workbook.xml.rels') relsXml = await smallPartText(buf, entry, budget);
     else await unpack(buf, entry, budget);
   }
-  return { sheets };
+  return { sheets, sheetNames: sheetNamesOf(workbookXml, relsXml) };
 }

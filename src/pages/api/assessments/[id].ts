@@ -1,3 +1,4 @@
+import { getDb } from '../../../lib/server/db/client';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { RunIdSchema } from '../../../lib/server/assessments/assessments.schemas';
 import { getRunStatus } from '../../../lib/server/assessments/runs.service';
@@ -8,5 +9,5 @@ import { route } from '../../../lib/server/http/route';
 export const GET = route(async ({ locals, params }) => {
   const trust = requirePermission(locals, 'assessment', 'read');
   const id = RunIdSchema.parse(params.id);
-  return json(await getRunStatus(trust, id));
+  return json(await getRunStatus(getDb(), trust, id));
 });

@@ -1,3 +1,4 @@
+import { getDb } from '../../../lib/server/db/client';
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { ListRunsQuerySchema, StartRunSchema } from '../../../lib/server/assessments/assessments.schemas';
@@ -9,7 +10,7 @@ import { route } from '../../../lib/server/http/route';
 export const POST = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assessment', 'run');
   const body = await parseJson(request, StartRunSchema);
-  const { id, alreadyRunning } = await startRun(trust, actorOf(locals), body);
+  const { id, alreadyRunning } = await startRun(getDb(), trust, actorOf(locals), body);
   return json({ id, alreadyRunning }, 202, { location: `/api/assessments/${id}` });
 });
 
@@ -17,5 +18,5 @@ export const POST = route(async ({ locals, request }) => {
 export const GET = route(async ({ locals, url }) => {
   const trust = requirePermission(locals, 'assessment', 'read');
   const { limit } = parseQuery(url, ListRunsQuerySchema);
-  return json({ runs: await listRecentRuns(trust, limit) });
+  return json({ runs: await listRecentRuns(getDb(), trust, limit) });
 });

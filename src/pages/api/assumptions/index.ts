@@ -1,5 +1,6 @@
+import { getDb } from '../../../lib/server/db/client';
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { AssumptionEditSchema } from '../../../lib/server/assessments/assessments.schemas';
 import {
   editAssumptions,
@@ -12,14 +13,15 @@ import { route } from '../../../lib/server/http/route';
 /** The trust's current assumption set (every value with its source, status and kind) and its version history. */
 export const GET = route(async ({ locals }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
-  return json(await getAssumptionsView(trust));
+  return json(await getAssumptionsView(getDb(), trust));
 });
 
 /** Saves changed values as a new version; each value's kind decides which role may change it. */
 export const PATCH = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
   requireAssumptionEditor(trust);
+  requireWholeTrust(trust, 'change assumptions');
   const body = await parseJson(request, AssumptionEditSchema);
-  const saved = await editAssumptions(trust, actorOf(locals), body);
+  const saved = await editAssumptions(getDb(), trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);
 });

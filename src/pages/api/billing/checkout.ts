@@ -4,13 +4,17 @@ import { requireBillingManager } from '../../../lib/server/billing/billing.guard
 import { CheckoutBodySchema } from '../../../lib/server/billing/billing.schemas';
 import { startCheckout } from '../../../lib/server/billing/billing.service';
 import { paymentProvider } from '../../../lib/server/billing/provider';
-import { json, parseJson } from '../../../lib/server/http/respond';
+import { field, isFormPost, parseBody } from '../../../lib/server/http/forms';
+import { json } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
-/** Starts the upgrade to the per-school plan; answers the hosted checkout page to open. */
-export const POST = route(async ({ locals, request }) => {
+/** Starts the upgrade to the per-school plan; answers the hosted checkout page to open (a form goes straight there). */
+export const POST = route(async ({ locals, request, redirect }) => {
   const billing = requireBillingManager(locals);
   requireVerifiedEmail(locals);
-  const { interval } = await parseJson(request, CheckoutBodySchema);
-  return json(await startCheckout(getDb(), paymentProvider(), billing, interval), 201);
+  const { interval } = await parseBody(request, CheckoutBodySchema, (f) => ({
+    interval: field(f, 'interval') || undefined,
+  }));
+  const checkout = await startCheckout(getDb(), paymentProvider(), billing, interval);
+  return isFormPost(request) ? redirect(checkout.url, 303) : json(checkout, 201);
 });

@@ -3,12 +3,16 @@ import { requireBillingManager } from '../../../lib/server/billing/billing.guard
 import { PeriodBodySchema } from '../../../lib/server/billing/billing.schemas';
 import { changeInterval } from '../../../lib/server/billing/billing.service';
 import { paymentProvider } from '../../../lib/server/billing/provider';
-import { json, parseJson } from '../../../lib/server/http/respond';
+import { formDone, isFormPost, parseBody } from '../../../lib/server/http/forms';
+import { json } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
 
 /** Switches the subscription between monthly and yearly billing. */
 export const POST = route(async ({ locals, request }) => {
   const billing = requireBillingManager(locals);
-  const { interval } = await parseJson(request, PeriodBodySchema);
-  return json({ billing: await changeInterval(getDb(), paymentProvider(), billing, interval) });
+  const { interval } = await parseBody(request, PeriodBodySchema);
+  const overview = await changeInterval(getDb(), paymentProvider(), billing, interval);
+  if (isFormPost(request))
+    return formDone(request, `Billing period changed to ${interval === 'year' ? 'yearly' : 'monthly'}.`);
+  return json({ billing: overview });
 });

@@ -4,8 +4,8 @@ import { getDb } from '../../../lib/server/db/client';
 import { IdParamSchema } from '../../../lib/server/estate/estate.schemas';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
-import { BlockPatchSchema } from '../../../lib/server/register/register.schemas';
-import { deleteBlock, updateBlock } from '../../../lib/server/register/rooms.service';
+import { BlockPatchSchema } from '../../../lib/server/estate/estate.schemas';
+import { deleteBlock, updateBlock } from '../../../lib/server/estate/blocks.service';
 
 /** Changes a block's attributes. */
 export const PATCH = route(async ({ locals, params, request }) => {

@@ -2,7 +2,7 @@ import { Readable } from 'node:stream';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { route } from '../../../lib/server/http/route';
-import { listRegisterRecords } from '../../../lib/server/register/register.repository';
+import { listRegisterRecords } from '../../../lib/server/register/export';
 import { writeRegisterXlsx } from '../../../lib/server/register/workbook';
 
 /** The trust's register as an .xlsx in the template's format (export → import changes nothing). */

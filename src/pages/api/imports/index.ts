@@ -28,6 +28,7 @@ export const POST = route(async ({ locals, request }) => {
     headerRow: form.get('headerRow') ?? undefined,
     mapping: form.get('mapping') ?? undefined,
     clearBlanks: form.get('clearBlanks') ?? undefined,
+    schools: form.get('schools') ?? undefined,
   });
   const bytes = Buffer.from(await file.arrayBuffer());
   const preview = await previewImport(

@@ -1,5 +1,5 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
@@ -14,7 +14,7 @@ export const GET = route(async ({ locals }) => {
 
 /** Saves the trust's ranking weights (audited) and re-ranks its rooms with them. */
 export const PUT = route(async ({ locals, request }) => {
-  const trust = requirePermission(locals, 'portfolio', 'save_weights');
+  const trust = requireWholeTrust(requirePermission(locals, 'portfolio', 'save_weights'), 'save ranking weights');
   const weights = await parseJson(request, WeightsSchema);
   return json(await saveWeights(getDb(), trust.id, weights, actorOf(locals)));
 });

@@ -3,8 +3,8 @@ import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
 import { json, parseJson } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
-import { RoomBulkSchema } from '../../../lib/server/register/register.schemas';
-import { bulkRooms } from '../../../lib/server/register/rooms.service';
+import { RoomBulkSchema } from '../../../lib/server/estate/estate.schemas';
+import { bulkRooms } from '../../../lib/server/estate/rooms.service';
 
 /** The same change to many rooms ({ action: "update", ids, changes }) or their deletion ({ action: "delete", ids }); all or none. */
 export const POST = route(async ({ locals, request }) => {

@@ -1,12 +1,12 @@
 import { actorOf } from '../../../lib/server/audit/audit.repository';
 import { requirePermission } from '../../../lib/server/auth/guard';
 import { getDb } from '../../../lib/server/db/client';
-import { listRooms } from '../../../lib/server/estate/estate.repository';
+import { listRooms } from '../../../lib/server/estate/rooms.repository';
 import { RoomListQuerySchema } from '../../../lib/server/estate/estate.schemas';
 import { json, parseJson, parseQuery } from '../../../lib/server/http/respond';
 import { route } from '../../../lib/server/http/route';
-import { RoomCreateSchema } from '../../../lib/server/register/register.schemas';
-import { createRoom } from '../../../lib/server/register/rooms.service';
+import { RoomCreateSchema } from '../../../lib/server/estate/estate.schemas';
+import { createRoom } from '../../../lib/server/estate/rooms.service';
 
 /** A page of rooms, sorted and filtered on the server. */
 export const GET = route(async ({ locals, url }) => {

@@ -1,5 +1,6 @@
+import { getDb } from '../../../lib/server/db/client';
 import { actorOf } from '../../../lib/server/audit/audit.repository';
-import { requirePermission } from '../../../lib/server/auth/guard';
+import { requirePermission, requireWholeTrust } from '../../../lib/server/auth/guard';
 import { UnitCatalogueSchema } from '../../../lib/server/assessments/assessments.schemas';
 import {
   getAssumptionsView,
@@ -12,7 +13,7 @@ import { route } from '../../../lib/server/http/route';
 /** The trust's catalogue of generic heat-recovery unit models (part of the current assumption set). */
 export const GET = route(async ({ locals }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
-  const view = await getAssumptionsView(trust);
+  const view = await getAssumptionsView(getDb(), trust);
   return json({ models: view.catalogue, version: view.version, label: view.label });
 });
 
@@ -20,7 +21,8 @@ export const GET = route(async ({ locals }) => {
 export const PUT = route(async ({ locals, request }) => {
   const trust = requirePermission(locals, 'assumptions', 'read');
   requireAssumptionEditor(trust);
+  requireWholeTrust(trust, 'change the unit catalogue');
   const body = await parseJson(request, UnitCatalogueSchema);
-  const saved = await saveUnitCatalogue(trust, actorOf(locals), body);
+  const saved = await saveUnitCatalogue(getDb(), trust, actorOf(locals), body);
   return json({ id: saved.id, version: saved.version, label: saved.label }, 201);
 });

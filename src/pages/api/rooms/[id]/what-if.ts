@@ -1,3 +1,4 @@
+import { getDb } from '../../../../lib/server/db/client';
 import { requirePermission } from '../../../../lib/server/auth/guard';
 import { WhatIfSchema } from '../../../../lib/server/assessments/assessments.schemas';
 import { whatIf } from '../../../../lib/server/assessments/room-assessment.service';
@@ -10,5 +11,5 @@ export const POST = route(async ({ locals, params, request }) => {
   const trust = requirePermission(locals, 'assessment', 'read');
   const id = IdParamSchema.parse(params.id);
   const body = await parseJson(request, WhatIfSchema);
-  return json(await whatIf(trust, id, body));
+  return json(await whatIf(getDb(), trust, id, body));
 });

@@ -3,6 +3,7 @@ import { RunIdSchema } from '../../../../../lib/server/assessments/assessments.s
 import { getRunRoomDetail } from '../../../../../lib/server/assessments/room-assessment.service';
 import { IdParamSchema } from '../../../../../lib/server/estate/estate.schemas';
 import { json } from '../../../../../lib/server/http/respond';
+import { getDb } from '../../../../../lib/server/db/client';
 import { route } from '../../../../../lib/server/http/route';
 
 /** A room as a run assessed it: the inputs the run kept, the assessment recomputed from them, and the stored figures. */
@@ -10,5 +11,5 @@ export const GET = route(async ({ locals, params }) => {
   const trust = requirePermission(locals, 'assessment', 'read');
   const runId = RunIdSchema.parse(params.id);
   const roomId = IdParamSchema.parse(params.roomId);
-  return json(await getRunRoomDetail(trust, runId, roomId));
+  return json(await getRunRoomDetail(getDb(), trust, runId, roomId));
 });

@@ -1,5 +1,5 @@
 import type { Kysely } from 'kysely';
-import type { Database } from '../database';
+import type { Database } from '../../db/database';
 import { countEstate, getBillingAccount } from '../../src/lib/server/billing/billing.repository';
 import { billableSchools } from '../../src/lib/server/billing/billing.service';
 import { planPrices } from '../../src/lib/server/billing/catalogue';

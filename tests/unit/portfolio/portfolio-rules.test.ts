@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { guardCell } from '../../src/lib/server/portfolio/priorities-export';
-import { heatingRenewalFlag } from '../../src/lib/server/portfolio/heating-renewal';
-import { sensitivityCase } from '../../src/lib/server/portfolio/sensitivity';
+import { guardCell } from '../../../src/lib/server/portfolio/priorities-export';
+import { heatingRenewalFlag } from '../../../src/lib/server/portfolio/heating-renewal';
+import { sensitivityCase } from '../../../src/lib/server/portfolio/sensitivity';
 
 // The portfolio feature's own small rules, checked without the server.
 

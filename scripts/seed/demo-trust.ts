@@ -3,6 +3,18 @@
  * number here is fictional and exists only to show the product; it is generated deterministically
  * (fixed-seed PRNG) so every machine gets the same estate.
  */
+import type {
+  AgeGroup,
+  ClimateRegion,
+  ConstructionType,
+  FrameMaterial,
+  HeatingFuel,
+  HeatingType,
+  RoomUse,
+  SchoolPhase,
+  VentilationType,
+  WindowType,
+} from '../../src/lib/engine/vocabulary';
 import { prng } from './prng';
 
 export const DEMO_TRUST = {
@@ -14,23 +26,23 @@ export const DEMO_TRUST = {
 export interface DemoBlock {
   name: string;
   yearBuilt: number;
-  constructionType: string;
+  constructionType: ConstructionType;
   airPermeabilityM3hM2: number;
-  heatingType: string;
-  heatingFuel: string;
+  heatingType: HeatingType;
+  heatingFuel: HeatingFuel;
   heatingInstalledYear: number;
   /** The block's own price and efficiency (null: the school's, else the trust's). */
   fuelPriceGbpPerKwh?: number;
   heatingEfficiency?: number;
   /** How the rooms of this block are ventilated today, with weights. */
-  ventilation: [string, number][];
+  ventilation: [VentilationType, number][];
   rooms: DemoRoomPlan[];
 }
 
 interface DemoRoomPlan {
   prefix: string;
   count: number;
-  use: string;
+  use: RoomUse;
   floorAreaM2: [number, number];
   ceilingHeightM: [number, number];
   pupils: [number, number];
@@ -42,11 +54,11 @@ interface DemoRoomPlan {
 export interface DemoSchool {
   name: string;
   referenceNumber: string;
-  phase: string;
-  climateRegion: string;
+  phase: SchoolPhase;
+  climateRegion: ClimateRegion;
   address: string;
-  ageGroup: string;
-  heatingFuel: string;
+  ageGroup: AgeGroup;
+  heatingFuel: HeatingFuel;
   /** The school's own contract price; most demo schools inherit the trust's (null). */
   fuelPriceGbpPerKwh: number | null;
   heatingEfficiency: number;
@@ -520,25 +532,25 @@ export interface DemoRoom {
   blockName: string;
   code: string;
   name: string;
-  use: string;
+  use: RoomUse;
   floorAreaM2: number;
   ceilingHeightM: number;
   pupils: number;
   adults: number;
-  ageGroup: string;
+  ageGroup: AgeGroup;
   orientationDeg: number;
   glazingAreaM2: number;
   openableAreaM2: number;
-  windowType: string;
-  frameMaterial: string;
+  windowType: WindowType;
+  frameMaterial: FrameMaterial;
   glazingGValue: number;
-  ventilationType: string;
+  ventilationType: VentilationType;
   mechanicalSupplyLps: number | null;
   notes: string | null;
 }
 
 const BEARINGS = [0, 45, 90, 135, 180, 225, 270, 315];
-const WINDOWS_BY_ERA = (year: number) =>
+const WINDOWS_BY_ERA = (year: number): WindowType[] =>
   year < 1919
     ? ['sliding_sash', 'top_hung']
     : year < 1990

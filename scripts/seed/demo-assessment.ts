@@ -1,5 +1,6 @@
 import type { Kysely } from 'kysely';
-import type { Database } from '../database';
+import type pg from 'pg';
+import type { Database } from '../../db/database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { workRunHere } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
@@ -10,7 +11,7 @@ import { DEMO_TRUST } from './demo-trust';
  * dashboard. Works its chunks with the same executor the queue's workers use, in this process. Skipped when the demo trust
  * already has a succeeded run.
  */
-export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> {
+export async function seedDemoAssessment(db: Kysely<Database>, pool: pg.Pool): Promise<string> {
   const done = await db
     .selectFrom('assessment_runs')
     .select('id')
@@ -27,7 +28,7 @@ export async function seedDemoAssessment(db: Kysely<Database>): Promise<string> 
     startedByUserId: null,
     startedByEmail: null,
   });
-  await workRunHere(runId);
+  await workRunHere(db, pool, runId);
   const run = await getRun(db, runId, DEMO_TRUST.id);
   return `${run?.status ?? 'unknown'} (${roomsTotal} rooms)`;
 }

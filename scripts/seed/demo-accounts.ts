@@ -1,6 +1,6 @@
 import { hashPassword } from 'better-auth/crypto';
 import type { Kysely } from 'kysely';
-import type { Database } from '../database';
+import type { Database } from '../../db/database';
 import { DEMO_TRUST } from './demo-trust';
 
 /** The shared password of the demo accounts (documented in the README). */

@@ -1,0 +1,13 @@
+import { requirePermission } from '../../../../lib/server/auth/guard';
+import { getDb } from '../../../../lib/server/db/client';
+import { IdParamSchema } from '../../../../lib/server/estate/estate.schemas';
+import { schoolRemovalImpact } from '../../../../lib/server/estate/schools.service';
+import { json } from '../../../../lib/server/http/respond';
+import { route } from '../../../../lib/server/http/route';
+
+/** What removing the school would take with it (blocks, rooms, assessed rooms, members limited to it). */
+export const GET = route(async ({ locals, params }) => {
+  const trust = requirePermission(locals, 'register', 'delete');
+  const id = IdParamSchema.parse(params.id);
+  return json({ removal: await schoolRemovalImpact(getDb(), trust, id) });
+});
