@@ -51,9 +51,10 @@ export const toStatusView = (run: Run, counts?: ChunkCounts): RunStatusView => (
   assumptionsVersion: run.assumptionsVersion,
   ...(run.error ? { error: run.error } : {}),
   problems: run.problems,
+  // Done, running and pending from one count when there is one, so they add up to the total even while chunks finish.
   chunks: {
     total: run.chunksTotal,
-    done: run.chunksDone,
+    done: counts?.done ?? run.chunksDone,
     running: counts?.running ?? 0,
     pending: counts?.pending ?? Math.max(0, run.chunksTotal - run.chunksDone),
   },
