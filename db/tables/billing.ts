@@ -37,8 +37,23 @@ export interface PaymentEventsTable {
   payload: Json<unknown>;
 }
 
+/** A trust admin's request to pay by invoice against a purchase order (the newest is the trust's standing). */
+export interface InvoicePaymentRequestsTable {
+  id: Generated<string>;
+  trust_id: string;
+  purchase_order: string;
+  billing_email: string;
+  note: string | null;
+  /** 'requested', then 'arranged' or 'declined' by ops. */
+  status: Generated<string>;
+  requested_by_user_id: string | null;
+  requested_by_email: string;
+  created_at: CreatedAt;
+}
+
 /** Tables of the subscriptions and payment events feature. */
 export interface BillingTables {
   billing_accounts: BillingAccountsTable;
   payment_events: PaymentEventsTable;
+  invoice_payment_requests: InvoicePaymentRequestsTable;
 }

@@ -48,28 +48,30 @@ async function writeRegister(): Promise<void> {
     const b = i % BLOCKS_PER_SCHOOL;
     const floor = round(40 + random() * 40, 1);
     const glazing = round(floor * (0.1 + random() * 0.1), 2);
-    ws.addRow([
-      `Bench School ${String(s + 1).padStart(3, '0')}`,
-      s % 2 ? 'Secondary' : 'Primary',
-      `Block ${String.fromCharCode(65 + b)}`,
-      1900 + ((s * 7 + b * 13) % 120),
-      `R${String(i + 1).padStart(6, '0')}`,
-      `Room ${i + 1}`,
-      label(pick(uses)),
-      floor,
-      round(2.4 + random() * 1.2, 2),
-      Math.floor(20 + random() * 12),
-      1 + Math.floor(random() * 2),
-      s % 2 ? 'Secondary' : 'Primary',
-      random() < 0.5 ? pick(compass) : Math.floor(random() * 360),
-      glazing,
-      round(glazing * (0.1 + random() * 0.3), 2),
-      label(pick(['side_hung', 'top_hung', 'sliding_sash', 'tilt_and_turn'])),
-      label(pick(vents)),
-      random() < 0.2 ? Math.round(100 + random() * 300) : null,
-      round(3 + (s % 10) + b, 1),
-      random() < 0.1 ? 'Surveyed 2026' : null,
-    ]).commit();
+    const row: Record<string, ExcelJS.CellValue> = {
+      School: `Bench School ${String(s + 1).padStart(3, '0')}`,
+      'School phase': s % 2 ? 'Secondary' : 'Primary',
+      Block: `Block ${String.fromCharCode(65 + b)}`,
+      'Year built': 1900 + ((s * 7 + b * 13) % 120),
+      'Room code': `R${String(i + 1).padStart(6, '0')}`,
+      'Room name': `Room ${i + 1}`,
+      'Room use': label(pick(uses)),
+      'Floor area (m2)': floor,
+      'Ceiling height (m)': round(2.4 + random() * 1.2, 2),
+      Pupils: Math.floor(20 + random() * 12),
+      Adults: 1 + Math.floor(random() * 2),
+      'Age group': s % 2 ? 'Secondary' : 'Primary',
+      Orientation: random() < 0.5 ? pick(compass) : Math.floor(random() * 360),
+      'Glazing area (m2)': glazing,
+      'Openable area (m2)': round(glazing * (0.1 + random() * 0.3), 2),
+      'Window type': label(pick(['side_hung', 'top_hung', 'sliding_sash', 'tilt_and_turn'])),
+      'Ventilation type': label(pick(vents)),
+      'Mechanical supply (l/s)': random() < 0.2 ? Math.round(100 + random() * 300) : null,
+      'Air permeability (m3/h.m2 @ 50 Pa)': round(3 + (s % 10) + b, 1),
+      Notes: random() < 0.1 ? 'Surveyed 2026' : null,
+    };
+    // Cells by header, so a column added to the template never shifts the others.
+    ws.addRow(REGISTER_COLUMNS.map((c) => row[c.header] ?? null)).commit();
   }
   ws.commit();
   await wb.commit();

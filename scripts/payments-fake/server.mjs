@@ -172,6 +172,8 @@ export async function startPaymentsFake(options = {}) {
   const ADMIN_ROUTES = [
     // Ends the current period (or retries the open renewal invoice); body outcome=succeed|fail.
     ['POST', /^\/_fake\/subscriptions\/([^/]+)\/renew$/, ([id], body) => subs.renew(id, body.outcome)],
+    // Moves the current period back so it began `days` days ago; body days=<n>.
+    ['POST', /^\/_fake\/subscriptions\/([^/]+)\/backdate$/, ([id], body) => subs.backdate(id, body.days)],
     [
       'GET',
       /^\/_fake\/deliveries$/,

@@ -343,7 +343,8 @@ export function createSubscriptions(ctx, catalog) {
       throw invalid('A canceled subscription can only update its cancellation_details and metadata.');
     }
     const before = snapshot(sub);
-    const at = now();
+    const at = int(params.proration_date) ?? now();
+    if (Number.isNaN(at)) throw invalid('proration_date must be a Unix timestamp.', 'proration_date');
     if (params.metadata) sub.metadata = mergeMetadata(sub.metadata, params.metadata);
     if (params.default_payment_method) {
       sub.default_payment_method = catalog.paymentMethodFromToken(params.default_payment_method, sub.customer).id;
@@ -509,36 +510,88 @@ export function createSubscriptions(ctx, catalog) {
     return inv;
   }
 
-  /** The invoice the subscription will produce at the end of the current period (nothing is stored). */
+  /**
+   * The invoice the subscription will produce at the end of the current period (nothing is stored), or, with
+   * `subscription_details[items]`, the invoice a proposed change would produce: `proration_date` (default now) and
+   * `proration_behavior` as for an update. A change of interval restarts the cycle, so its preview is the invoice
+   * raised at once (credit for the unused time, the new period in full); other changes preview the next renewal
+   * with the proration lines (or, with always_invoice, the prorations invoiced at once).
+   */
   function previewInvoice(params) {
     const sub = params.subscription
       ? getSubscription(params.subscription, 'subscription')
       : Object.values(state.subscriptions).find((s) => s.customer === params.customer && s.status !== 'canceled');
-    if (!sub || sub.status === 'canceled' || sub.cancel_at_period_end) {
+    const details = params.subscription_details ?? {};
+    const changes = details.items ?? [];
+    if (!sub || sub.status === 'canceled' || (sub.cancel_at_period_end && changes.length === 0)) {
       throw new ApiError(400, {
         type: 'invalid_request_error',
         code: 'invoice_upcoming_none',
         message: 'No upcoming invoices for customer',
       });
     }
-    const end = periodEnd(sub);
-    const lines = [...sub._pending];
-    for (const item of sub._items) {
-      const price = priceOf(item);
-      const next = addInterval(end, price.recurring.interval, price.recurring.interval_count);
-      lines.push(
-        line({
-          sub,
-          item,
-          amount: price.unit_amount * item.quantity,
-          description: `${item.quantity} × ${productName(price)}`,
-          quantity: item.quantity,
-          start: end,
-          end: next,
-          proration: false,
-        }),
+    const at = int(details.proration_date) ?? now();
+    if (Number.isNaN(at))
+      throw invalid('proration_date must be a Unix timestamp.', 'subscription_details[proration_date]');
+    const behaviour = details.proration_behavior ?? 'create_prorations';
+    if (!['create_prorations', 'none', 'always_invoice'].includes(behaviour)) {
+      throw invalid(
+        'proration_behavior must be one of create_prorations, none or always_invoice.',
+        'subscription_details[proration_behavior]',
       );
     }
+    // The items as they would be after the change (nothing is stored).
+    const items = sub._items.map((item) => ({ ...item }));
+    const prorations = [];
+    let resetAt = null;
+    for (const [index, change] of changes.entries()) {
+      const item = items.find((i) => i.id === change.id);
+      if (!item) throw missing('subscription item', change.id, `subscription_details[items][${index}][id]`);
+      const oldPrice = priceOf(item);
+      const oldQty = item.quantity;
+      const newPrice = change.price
+        ? catalog.getPrice(change.price, `subscription_details[items][${index}][price]`)
+        : oldPrice;
+      const newQty = change.quantity !== undefined ? int(change.quantity) : oldQty;
+      if (Number.isNaN(newQty) || newQty < 0)
+        throw invalid('Quantity must be a non-negative integer.', `subscription_details[items][${index}][quantity]`);
+      item.price = newPrice.id;
+      item.quantity = newQty;
+      if (sub.status === 'trialing' || (newPrice.id === oldPrice.id && newQty === oldQty)) continue;
+      if (newPrice.recurring.interval !== oldPrice.recurring.interval) {
+        prorations.push(...prorationLines(sub, item, oldPrice, oldQty, newPrice, 0, at).slice(0, 1));
+        resetAt = at;
+        item.current_period_start = at;
+        item.current_period_end = addInterval(at, newPrice.recurring.interval, newPrice.recurring.interval_count);
+        continue;
+      }
+      if (behaviour !== 'none') prorations.push(...prorationLines(sub, item, oldPrice, oldQty, newPrice, newQty, at));
+    }
+    const immediate = resetAt !== null || (behaviour === 'always_invoice' && prorations.length > 0);
+    const lines = [...sub._pending, ...prorations];
+    if (!immediate || resetAt !== null) {
+      for (const item of items) {
+        const price = priceOf(item);
+        const start = resetAt ?? periodEnd(sub);
+        const next =
+          resetAt !== null
+            ? item.current_period_end
+            : addInterval(start, price.recurring.interval, price.recurring.interval_count);
+        lines.push(
+          line({
+            sub,
+            item,
+            amount: price.unit_amount * item.quantity,
+            description: `${item.quantity} × ${productName(price)}`,
+            quantity: item.quantity,
+            start,
+            end: next,
+            proration: false,
+          }),
+        );
+      }
+    }
+    const when = immediate ? at : periodEnd(sub);
     const total = lines.reduce((sum, l) => sum + l.amount, 0);
     return {
       id: `upcoming_in_${sub.id.slice(4)}`,
@@ -547,9 +600,9 @@ export function createSubscriptions(ctx, catalog) {
       amount_paid: 0,
       amount_remaining: Math.max(0, total),
       attempt_count: 0,
-      billing_reason: 'upcoming',
+      billing_reason: immediate ? 'subscription_update' : 'upcoming',
       collection_method: 'charge_automatically',
-      created: end,
+      created: when,
       currency: sub.currency,
       customer: sub.customer,
       lines: {
@@ -560,18 +613,42 @@ export function createSubscriptions(ctx, catalog) {
         url: '/v1/invoices/upcoming/lines',
       },
       livemode: false,
-      next_payment_attempt: end,
+      next_payment_attempt: when,
       parent: {
         type: 'subscription_details',
         quote_details: null,
         subscription_details: { subscription: sub.id, metadata: { ...sub.metadata } },
       },
-      period_start: periodStart(sub),
-      period_end: end,
+      period_start: immediate ? at : periodStart(sub),
+      period_end: immediate ? at : periodEnd(sub),
+      starting_balance: 0,
       status: 'draft',
+      subscription_proration_date: changes.length > 0 ? at : undefined,
       subtotal: total,
       total,
     };
+  }
+
+  /**
+   * Test helper: moves the current period back so that it began `days` days ago (as if that much time had passed
+   * since the period began); prorations then fall mid-period.
+   */
+  function backdate(id, days) {
+    const sub = getSubscription(id);
+    const n = int(days);
+    if (n === undefined || Number.isNaN(n) || n < 0)
+      throw invalid('days must be a whole number of days, 0 or more.', 'days');
+    for (const item of sub._items) {
+      const price = priceOf(item);
+      item.current_period_start = now() - n * DAY_S;
+      item.current_period_end = addInterval(
+        item.current_period_start,
+        price.recurring.interval,
+        price.recurring.interval_count,
+      );
+    }
+    sub.billing_cycle_anchor = sub._items[0]?.current_period_start ?? sub.billing_cycle_anchor;
+    return sub;
   }
 
   function listInvoices(query) {
@@ -599,6 +676,7 @@ export function createSubscriptions(ctx, catalog) {
     cancelSubscription,
     renew,
     previewInvoice,
+    backdate,
     getInvoice,
     listInvoices,
     listSubscriptions,

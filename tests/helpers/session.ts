@@ -69,7 +69,8 @@ export async function signUp(fields: {
   const password = fields.password ?? DEMO_PASSWORD;
   const response = await api('/api/account/sign-up', { method: 'POST', body: JSON.stringify({ ...fields, password }) });
   if (response.status !== 202) throw new Error(`Sign-up failed: ${response.status} ${await response.text()}`);
-  await waitForMail(fields.email, 'Confirm your e-mail');
+  // An invitation's link proves the address: such an account is ready at once (no confirmation link).
+  await waitForMail(fields.email, fields.invitationId ? 'account is ready' : 'Confirm your e-mail');
   return signIn(fields.email, password);
 }
 

@@ -181,7 +181,12 @@ describe('invitations', () => {
       .where('trust_id', '=', 'demo-trust')
       .where('summary', 'like', `%${email}%`)
       .execute();
-    expect(audit.map((a) => a.action).sort()).toEqual(['member.invited', 'member.joined']);
+    // Signing up from the invitation's own link also confirmed the address (no confirmation link was needed).
+    expect(audit.map((a) => a.action).sort()).toEqual([
+      'account.verified_by_invitation',
+      'member.invited',
+      'member.joined',
+    ]);
   });
 
   it('carries school limits and an end date chosen when inviting onto the membership', async () => {

@@ -116,3 +116,13 @@ export async function subscriptionIdOf(
   if (!row.provider_subscription_id) throw new Error('no subscription stored');
   return row.provider_subscription_id;
 }
+
+/**
+ * Proration by the provider's documented rule (https://docs.stripe.com/billing/subscriptions/prorations): the price
+ * times the time remaining in the period over the length of the period, in days, rounded to the penny. An
+ * independent check of the figures the app shows, from the provider's own period and prices.
+ */
+export function proratedPence(unitPence: number, qty: number, start: number, end: number, at: number): number {
+  const DAY_S = 86_400;
+  return Math.round((unitPence * qty * ((end - at) / DAY_S)) / ((end - start) / DAY_S));
+}

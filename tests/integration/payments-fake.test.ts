@@ -184,6 +184,9 @@ describe('payments fake: hosted checkout with test cards', () => {
   });
 });
 
+const prorationOf = (lines: Stripe.InvoiceLineItem[], keep: (l: Stripe.InvoiceLineItem) => boolean) =>
+  lines.filter(keep).reduce((sum, l) => sum + l.amount, 0);
+
 describe('payments fake: subscription changes', () => {
   async function activeSubscription(quantity: number) {
     const price = await monthlyPrice();
@@ -239,6 +242,80 @@ describe('payments fake: subscription changes', () => {
     expect(credit.amount).toBeLessThan(-4790);
     expect(latest.lines.data.some((l) => l.amount === 48000)).toBe(true);
     expect(latest.status).toBe('paid');
+  });
+
+  // Proration by the provider's documented rule (time remaining in the period ÷ length of the period × the price
+  // difference; https://docs.stripe.com/billing/subscriptions/prorations), computed here in whole days from the
+  // subscription's own period and prices.
+  const proratedPence = (unitPence: number, qty: number, start: number, end: number, at: number) =>
+    Math.round((unitPence * qty * ((end - at) / DAY_S)) / ((end - start) / DAY_S));
+
+  it('previews a quantity change with its proration (time remaining ÷ period × price) and stores nothing', async () => {
+    const { sub, price } = await activeSubscription(2);
+    const item = sub.items.data[0]!;
+    const at = item.current_period_start + 10 * DAY_S; // 10 days into the period
+    const preview = await stripe.invoices.createPreview({
+      subscription: sub.id,
+      subscription_details: {
+        items: [{ id: item.id, quantity: 5 }],
+        proration_date: at,
+        proration_behavior: 'create_prorations',
+      },
+    });
+    const prorations = preview.lines.data.filter((l) => l.parent?.subscription_item_details?.proration);
+    const credit = prorationOf(prorations, (l) => l.amount < 0);
+    const charge = prorationOf(prorations, (l) => l.amount > 0);
+    const start = item.current_period_start;
+    const end = item.current_period_end;
+    expect(credit).toBe(-proratedPence(price.unit_amount!, 2, start, end, at));
+    expect(charge).toBe(proratedPence(price.unit_amount!, 5, start, end, at));
+    // A month of 28–31 days with 10 used: 3 more schools × £24 × (days left ÷ days) lies between 18/28 and 21/31 of £72.
+    expect(credit + charge).toBeGreaterThanOrEqual(Math.floor((7200 * 18) / 28));
+    expect(credit + charge).toBeLessThanOrEqual(Math.ceil((7200 * 21) / 31));
+    // The next renewal at the new quantity, 5 × £24.
+    expect(preview.amount_due - (credit + charge)).toBe(12000);
+    expect((preview as unknown as { subscription_proration_date: number }).subscription_proration_date).toBe(at);
+    // Nothing changed.
+    const after = await stripe.subscriptions.retrieve(sub.id);
+    expect(after.items.data[0]!.quantity).toBe(2);
+    const plain = await stripe.invoices.createPreview({ subscription: sub.id });
+    expect(plain.amount_due).toBe(4800);
+  });
+
+  it('previews a switch to yearly exactly as the update then invoices it, for the same proration date', async () => {
+    const { sub, price } = await activeSubscription(3);
+    const yearly = await stripe.prices.create({
+      currency: 'gbp',
+      unit_amount: 24000,
+      recurring: { interval: 'year' },
+      product_data: { name: 'Whole Estate yearly' },
+    });
+    const backdated = await admin(`/_fake/subscriptions/${sub.id}/backdate`, { days: '12' });
+    const current = await stripe.subscriptions.retrieve(sub.id);
+    const item = current.items.data[0]!;
+    expect(backdated).toMatchObject({ id: sub.id, object: 'subscription' });
+    expect(Math.abs(item.current_period_start - (Math.floor(Date.now() / 1000) - 12 * DAY_S))).toBeLessThan(5);
+    const at = Math.floor(Date.now() / 1000);
+    const preview = await stripe.invoices.createPreview({
+      subscription: sub.id,
+      subscription_details: { items: [{ id: item.id, price: yearly.id }], proration_date: at },
+    });
+    const credit = -proratedPence(price.unit_amount!, 3, item.current_period_start, item.current_period_end, at);
+    expect(preview.lines.data.map((l) => l.amount).sort((a, b) => a - b)).toEqual([credit, 72000]);
+    expect(preview.amount_due).toBe(72000 + credit);
+    expect((await stripe.subscriptions.retrieve(sub.id)).items.data[0]!.price.id).toBe(price.id);
+    const updated = await stripe.subscriptions.update(sub.id, {
+      items: [{ id: item.id, price: yearly.id }],
+      proration_date: at,
+    });
+    const invoice = await stripe.invoices.retrieve(String(updated.latest_invoice));
+    expect(invoice.amount_due).toBe(preview.amount_due);
+  });
+
+  it('backdates a period only by a whole number of days', async () => {
+    const { sub } = await activeSubscription(1);
+    const refused = await admin(`/_fake/subscriptions/${sub.id}/backdate`, { days: 'soon' });
+    expect(refused).toMatchObject({ error: { type: 'invalid_request_error' } });
   });
 
   it('cancels at period end and resumes', async () => {

@@ -60,12 +60,15 @@ export function SchoolForm({
   initial,
   blocks = [],
   options,
+  subscriptionNotice = null,
 }: {
   mode: 'add' | 'edit';
   schoolId?: string;
   initial?: SchoolInput;
   blocks?: PlantBlock[];
   options: SchoolFormOptions;
+  /** What adding the school does to the subscription, in words (billing's schoolCountNotice), shown before saving. */
+  subscriptionNotice?: string | null;
 }) {
   const id = useId();
   const ready = useHydrated();
@@ -241,6 +244,12 @@ export function SchoolForm({
             ))}
           </div>
         </fieldset>
+      )}
+      {mode === 'add' && subscriptionNotice && (
+        <p className="text-sm" role="status" data-testid="school-subscription-change">
+          <strong>Subscription: </strong>
+          {subscriptionNotice}
+        </p>
       )}
       <div className="flex gap-2">
         <button

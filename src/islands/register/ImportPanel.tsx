@@ -197,6 +197,17 @@ export function ImportPanel({ options }: { options: RegisterOptions }) {
             ))}
           </dl>
 
+          {preview.subscriptionChange && (
+            <p
+              className="rounded-card border border-line bg-surface p-3 text-sm"
+              role="status"
+              data-testid="import-subscription-change"
+            >
+              <strong>Subscription: </strong>
+              {preview.subscriptionChange.words}
+            </p>
+          )}
+
           <details
             open={!preview.header.confident || preview.header.columns.some((c) => !c.field)}
             className="rounded-card border border-line bg-surface p-4"

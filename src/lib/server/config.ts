@@ -34,6 +34,8 @@ const EnvSchema = z.object({
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().min(3).default('Airtally <no-reply@airtally.test>'),
+  /** The mailbox of whoever arranges invoice payment (requests to pay by invoice go there, and to the trust's contact). */
+  BILLING_OPS_EMAIL: z.string().email().default('billing-ops@airtally.test'),
   STRIPE_SECRET_KEY: z.string().min(1).optional(),
   STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
   /** Only to point the provider SDK at a local fake; unset in production. */
@@ -80,6 +82,7 @@ export interface Config {
     apiHost: string | null;
     apiPort: number | null;
     apiProtocol: 'http' | 'https' | null;
+    opsEmail: string;
   };
   importTimings: boolean;
   assessments: { appWorkers: number; workerConcurrency: number };
@@ -130,6 +133,7 @@ export function parseConfig(env: Record<string, string | undefined>): Config {
       apiHost: e.STRIPE_API_HOST ?? null,
       apiPort: e.STRIPE_API_PORT ?? null,
       apiProtocol: e.STRIPE_API_PROTOCOL ?? null,
+      opsEmail: e.BILLING_OPS_EMAIL,
     },
     importTimings: Boolean(e.AIRTALLY_IMPORT_TIMINGS) && e.AIRTALLY_IMPORT_TIMINGS !== '0',
     assessments: { appWorkers: e.ASSESSMENT_APP_WORKERS, workerConcurrency: e.ASSESSMENT_WORKER_CONCURRENCY },

@@ -5,7 +5,7 @@ import { recordAudit } from '../audit/audit.repository';
 import { runInBackground } from '../background';
 import { authSecret, config } from '../config';
 import { sendMail } from '../mail/mailer';
-import { existingAccountMail, verificationMail } from '../mail/templates';
+import { existingAccountMail, joinedByInvitationMail, verificationMail } from '../mail/templates';
 import { getAuth, VERIFICATION_SECONDS } from './auth';
 import { authCall, invitationNotUsable, membershipNotUsable } from './auth.errors';
 import type { ChangePasswordInput, SignUpInput } from './auth.schemas';
@@ -117,9 +117,46 @@ export async function completeSignUp(db: Kysely<Database>, input: SignUpInput): 
       after: { name: trust.name },
     });
   } else if (input.invitationId) {
-    await joinByInvitation(db, input.invitationId, { id: user.id, email: user.email });
+    // The invitation was e-mailed to this address and its link opened: that proves the address, so no
+    // confirmation link is sent; the person signs in with the password just chosen.
+    const trust = await joinByInvitation(db, input.invitationId, { id: user.id, email: user.email });
+    await sendMail(
+      joinedByInvitationMail({ email: user.email, name: user.name }, trust.trustName, `${config().origin}/sign-in`),
+    );
+    return;
   }
   await sendVerificationLink({ id: user.id, email: user.email, name: user.name });
+}
+
+/**
+ * Marks the address verified when a person accepts an invitation sent to that same address (the e-mailed link
+ * proves it); never for another address. Audited with the acceptance.
+ */
+async function verifyByInvitation(
+  db: Kysely<Database>,
+  invitation: { trustId: string; email: string },
+  user: { id: string; email: string },
+): Promise<void> {
+  if (invitation.email.toLowerCase() !== user.email.toLowerCase()) return;
+  await db.transaction().execute(async (trx) => {
+    const changed = await trx
+      .updateTable('user')
+      .set({ emailVerified: true })
+      .where('id', '=', user.id)
+      .where('email', '=', user.email)
+      .where('emailVerified', '=', false)
+      .executeTakeFirst();
+    if (Number(changed.numUpdatedRows) === 0) return;
+    await recordAudit(trx, {
+      trustId: invitation.trustId,
+      actorUserId: user.id,
+      actorEmail: user.email,
+      action: 'account.verified_by_invitation',
+      entityType: 'user',
+      entityId: user.id,
+      summary: `${user.email} confirmed by opening the invitation e-mailed to that address`,
+    });
+  });
 }
 
 /** Makes a new account a member as its invitation says (the person is not signed in yet). */
@@ -133,6 +170,8 @@ async function joinByInvitation(db: Kysely<Database>, invitationId: string, user
   await db.updateTable('invitation').set({ status: 'accepted' }).where('id', '=', invitationId).execute();
   if (member) await applyInvitationLimits(db, invitationId, member.id);
   await auditJoined(db, invitation, user, member?.id ?? null);
+  await verifyByInvitation(db, invitation, user);
+  return invitation;
 }
 
 /** Audits a person joining a trust by its invitation. */
@@ -207,6 +246,7 @@ export async function acceptInvitation(
   );
   if (result?.member) await applyInvitationLimits(db, invitationId, result.member.id);
   await auditJoined(db, invitation, user, result?.member.id ?? null);
+  await verifyByInvitation(db, invitation, user);
   const session = await getAuth().api.getSession({ headers: requestHeaders });
   if (session) await setSessionTrust(db, session.session.id, invitation.trustId);
   return { id: invitation.trustId, name: invitation.trustName };

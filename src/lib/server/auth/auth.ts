@@ -7,10 +7,9 @@ import { runInBackground } from '../background';
 import { getDb } from '../db/client';
 import { CLIENT_IP_HEADER } from '../http/request-guard';
 import { sendMail } from '../mail/mailer';
-import { invitationMail, passwordResetMail, verificationMail } from '../mail/templates';
-import { ac, isRole, roles } from './access';
+import { passwordResetMail, verificationMail } from '../mail/templates';
+import { ac, roles } from './access';
 import { authSecret, config as serverConfig } from '../config';
-import { ROLE_LABELS } from './context';
 
 const INVITATION_SECONDS = 7 * 24 * 3600;
 /** How long an e-mailed confirmation link works. */
@@ -71,7 +70,7 @@ const refuseEmailChange = createAuthMiddleware(async (ctx) => {
  * better-auth's organization plugin, with trusts as organisations: the plugin's organisation model is
  * mapped onto our `trusts` table, so every organisation is a trust row with the same id.
  */
-function organizationPlugin(origin: string) {
+function organizationPlugin() {
   return organization({
     ac,
     roles,
@@ -79,18 +78,9 @@ function organizationPlugin(origin: string) {
     invitationExpiresIn: INVITATION_SECONDS,
     cancelPendingInvitationsOnReInvite: true,
     schema: { organization: { modelName: 'trusts', fields: { createdAt: 'created_at' } } },
-    sendInvitationEmail: async ({ id, email, role, organization: trust, inviter, invitation }) => {
-      const roleLabel = isRole(role) ? ROLE_LABELS[role] : role;
-      await sendMail(
-        invitationMail(email, {
-          trustName: trust.name,
-          inviterName: inviter.user.name || inviter.user.email,
-          roleLabel: roleLabel.toLowerCase(),
-          url: `${origin}/accept-invitation?id=${encodeURIComponent(id)}`,
-          expiresAt: new Date(invitation.expiresAt),
-        }),
-      );
-    },
+    // The invitation e-mail is sent by members.service (inviteMember) once the school limit and end date are stored,
+    // so it can say them; the plugin's own sending is a no-op.
+    sendInvitationEmail: async () => {},
   });
 }
 
@@ -192,7 +182,7 @@ export function createAuthOptions(db: Kysely<any>) {
       // E-mails go out after the response, so answers take the same time whether or not one is sent.
       backgroundTasks: { handler: (task: Promise<unknown>) => runInBackground('auth e-mail', () => task) },
     },
-    plugins: [organizationPlugin(origin)],
+    plugins: [organizationPlugin()],
   } satisfies BetterAuthOptions;
 }
 

@@ -5,7 +5,11 @@ import { badRequest, notFound } from '../http/errors';
 import { getAuth } from './auth';
 import { authCall, lastTrustAdmin, limitedToSchools } from './auth.errors';
 import type { InviteInput, MemberUpdate } from './auth.schemas';
-import type { ActiveTrust, Role, SessionUser } from './context';
+import { config } from '../config';
+import { formatDate } from '../../format';
+import { sendMail } from '../mail/mailer';
+import { invitationMail } from '../mail/templates';
+import { ROLE_LABELS, ROLE_MEANS, type ActiveTrust, type Role, type SessionUser } from './context';
 
 /** A member of the trust as the members page and API show it. */
 export interface MemberView {
@@ -208,6 +212,16 @@ export async function inviteMember(db: Kysely<Database>, actor: Actor, input: In
       after: { email: input.email, role: input.role, schoolIds, accessEndsOn },
     });
   });
+  await sendInvitation(
+    db,
+    actor,
+    { id: invitation.id, email: invitation.email, expiresAt: invitation.expiresAt },
+    input.role,
+    {
+      schoolIds,
+      accessEndsOn,
+    },
+  );
   return {
     id: invitation.id,
     email: invitation.email,
@@ -216,6 +230,42 @@ export async function inviteMember(db: Kysely<Database>, actor: Actor, input: In
     schoolIds,
     accessEndsOn,
   };
+}
+
+/** E-mails the invitation once its limits are stored: the role in words, the schools by name, the end date, the inviter. */
+async function sendInvitation(
+  db: Kysely<Database>,
+  actor: Actor,
+  invitation: { id: string; email: string; expiresAt: Date | string },
+  role: Role,
+  limits: { schoolIds: string[] | null; accessEndsOn: string | null },
+): Promise<void> {
+  const schoolNames = limits.schoolIds
+    ? limits.schoolIds.length === 0
+      ? []
+      : (
+          await db
+            .selectFrom('schools')
+            .select('name')
+            .where('trust_id', '=', actor.trust.id)
+            .where('id', 'in', limits.schoolIds)
+            .orderBy('name')
+            .execute()
+        ).map((s) => s.name)
+    : null;
+  await sendMail(
+    invitationMail(invitation.email, {
+      trustName: actor.trust.name,
+      inviterName: actor.user.name || actor.user.email,
+      inviterEmail: actor.user.email,
+      roleLabel: ROLE_LABELS[role],
+      roleMeans: ROLE_MEANS[role],
+      schoolNames,
+      accessEndsOn: limits.accessEndsOn ? formatDate(limits.accessEndsOn) : null,
+      expiresOn: formatDate(new Date(invitation.expiresAt)),
+      url: `${config().origin}/accept-invitation?id=${encodeURIComponent(invitation.id)}`,
+    }),
+  );
 }
 
 /** Withdraws a pending invitation of the active trust. */

@@ -9,7 +9,11 @@ import type { BillingOverview, InvoiceSummary } from './billing.schemas';
 import { planPrices } from './catalogue';
 import { paymentProvider, providerConfigured } from './provider';
 import { FREE_PLAN, PER_SCHOOL_PLAN, planName, type BillingInterval } from './plans';
+import { billableSchools, CHANGEABLE } from './price-change';
 import { billingStanding } from './standing';
+import { splitVatInclusive } from './vat';
+
+export { billableSchools };
 import { syncSubscription, withBillingLock } from './subscription-sync';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
@@ -20,9 +24,6 @@ export interface BillingRequest {
   actor: Actor & { actorEmail: string };
   origin: string;
 }
-
-/** Statuses of a subscription that can still be changed. */
-const CHANGEABLE = new Set(['trialing', 'active', 'past_due', 'unpaid']);
 
 /** Plan, standing and counts for the billing page (no provider calls). */
 export async function billingOverview(db: Kysely<Database>, trustId: string): Promise<BillingOverview> {
@@ -47,9 +48,6 @@ export async function billingOverview(db: Kysely<Database>, trustId: string): Pr
     pricePerSchoolPence: PER_SCHOOL_PLAN.unitAmountPence,
   };
 }
-
-/** The number of schools the subscription should be for (at least one). */
-export const billableSchools = (schoolCount: number) => Math.max(1, schoolCount);
 
 async function ensureCustomer(
   db: Kysely<Database>,
@@ -152,8 +150,10 @@ export async function changeInterval(
   stripe: Stripe,
   req: BillingRequest,
   interval: BillingInterval,
+  prorationDate?: number,
 ): Promise<BillingOverview> {
   const { subscriptionId } = await liveSubscription(db, req.trust.id);
+  if (prorationDate !== undefined) assertFreshProration(prorationDate);
   const sub = await stripe.subscriptions.retrieve(subscriptionId);
   const item = sub.items.data[0];
   if (!item) throw conflict('The subscription has no plan item to change.');
@@ -165,6 +165,7 @@ export async function changeInterval(
           stripe.subscriptions.update(subscriptionId, {
             items: [{ id: item.id, price: prices[interval] }],
             proration_behavior: 'create_prorations',
+            ...(prorationDate !== undefined ? { proration_date: prorationDate } : {}),
           });
   await syncSubscription(
     db,
@@ -176,6 +177,19 @@ export async function changeInterval(
     change,
   );
   return billingOverview(db, req.trust.id);
+}
+
+/** How long a confirmed price stays good: older than this, the change is priced again before it is made. */
+const PRORATION_FRESH_S = 30 * 60;
+
+/** 409 when the price confirmed was worked out too long ago (or in the future), so nobody pays a figure they did not see. */
+function assertFreshProration(prorationDate: number): void {
+  const ageS = Date.now() / 1000 - prorationDate;
+  if (ageS > PRORATION_FRESH_S || ageS < -60) {
+    throw conflict(
+      'The price you confirmed was worked out more than 30 minutes ago, so it may have changed. Open the change again, check the new figure and confirm it.',
+    );
+  }
 }
 
 /** Cancels at the end of the paid period (true) or takes that back (false). Data is never deleted. */
@@ -236,6 +250,17 @@ export async function followSchoolCount(db: Kysely<Database>, trustId: string, a
   }
 }
 
+/** An invoice total split into net and VAT (our prices include VAT at the UK standard rate). */
+function vatOf(totalPence: number) {
+  const split = splitVatInclusive(totalPence);
+  return {
+    netPence: split.netPence,
+    vatPence: split.vatPence,
+    grossPence: split.grossPence,
+    vatRatePct: split.ratePct,
+  };
+}
+
 /** The trust's invoices, newest first. */
 export async function listInvoices(db: Kysely<Database>, stripe: Stripe, trustId: string): Promise<InvoiceSummary[]> {
   const account = await getBillingAccount(db, trustId);
@@ -247,6 +272,7 @@ export async function listInvoices(db: Kysely<Database>, stripe: Stripe, trustId
     status: i.status ?? 'draft',
     amountDuePence: i.amount_due,
     amountPaidPence: i.amount_paid,
+    ...vatOf(i.total),
     currency: i.currency,
     createdAt: new Date(i.created * 1000).toISOString(),
     url: i.hosted_invoice_url ?? null,

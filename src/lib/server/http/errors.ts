@@ -39,6 +39,9 @@ export const methodNotAllowed = (message: string) => new AppError(405, 'method_n
  * declaration of limits (src/lib/engine/limits.ts).
  */
 export const CONSTRAINT_MESSAGES: Record<string, string> = {
+  invoice_payment_requests_purchase_order_length: 'A purchase-order number is 1 to 60 characters.',
+  invoice_payment_requests_note_length: 'Keep the note under 500 characters.',
+  invoice_payment_requests_status_known: 'An invoice payment request is requested, arranged or declined.',
   rooms_code_unique_in_school:
     'Another room in this school already has that room code. Room codes must be unique within a school.',
   rooms_openable_within_glazing: 'Openable window area cannot be larger than the glazing area, or negative.',

@@ -80,23 +80,68 @@ export function passwordResetMail(to: { email: string; name: string }, url: stri
   );
 }
 
-/** Invites someone to join a trust with a role. */
-export function invitationMail(
-  to: string,
-  details: { trustName: string; inviterName: string; roleLabel: string; url: string; expiresAt: Date },
-): MailMessage {
-  const expires = details.expiresAt.toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric' });
+/** What an invitation e-mail says: who invites, to what role, limited to which schools, until when. */
+export interface InvitationMailDetails {
+  trustName: string;
+  inviterName: string;
+  inviterEmail: string;
+  /** The role in words, e.g. "Estates manager". */
+  roleLabel: string;
+  /** What the role may do, in a sentence. */
+  roleMeans: string;
+  /** Names of the schools the access is limited to; null = every school of the trust. */
+  schoolNames: string[] | null;
+  /** The day from which access ends, already in words (en-GB, UK time), or null. */
+  accessEndsOn: string | null;
+  /** The day the invitation stops working, in words (en-GB, UK time). */
+  expiresOn: string;
+  url: string;
+}
+
+/** Invites someone to join a trust: the role in words, any school limit by name, the access end date and the inviter. */
+export function invitationMail(to: string, d: InvitationMailDetails): MailMessage {
+  const schools =
+    d.schoolNames === null
+      ? 'You will see every school of the trust.'
+      : d.schoolNames.length === 0
+        ? 'Your access is limited to schools, and none has been chosen yet: ask the person who invited you to add some.'
+        : `Your access is limited to ${d.schoolNames.length === 1 ? 'one school' : `${d.schoolNames.length} schools`}: ${d.schoolNames.join(', ')}.`;
+  const ends = d.accessEndsOn
+    ? `Your access ends on ${d.accessEndsOn} (UK time): from that day on you can no longer open the trust.`
+    : 'Your access has no end date.';
   return message(
     to,
-    `${details.inviterName} invited you to ${details.trustName} on Airtally`,
-    `Join ${details.trustName} on Airtally`,
+    `${d.inviterName} invited you to ${d.trustName} on Airtally as ${d.roleLabel.toLowerCase()}`,
+    `Join ${d.trustName} on Airtally`,
     [
-      `${details.inviterName} has invited you to work with ${details.trustName} on Airtally as ${details.roleLabel}.`,
+      `${d.inviterName} (${d.inviterEmail}) has invited you to work with ${d.trustName} on Airtally.`,
+      `Your role: ${d.roleLabel}. ${d.roleMeans}`,
+      schools,
+      ends,
       'Airtally keeps the trust’s school estate in one place and ranks the classrooms whose air most needs attention.',
-      `The invitation can be used once, until ${expires}.`,
+      `The invitation can be used once, until ${d.expiresOn}. Opening it from this e-mail confirms your address, so you will not be asked to confirm it again.`,
     ],
-    { label: 'Accept the invitation', url: details.url },
+    { label: 'Accept the invitation', url: d.url },
     'If you were not expecting this, you can ignore it; no account is created unless you accept.',
+  );
+}
+
+/** Tells a person who signed up from their invitation that the account is ready (the invitation proved the address). */
+export function joinedByInvitationMail(
+  to: { email: string; name: string },
+  trustName: string,
+  signInUrl: string,
+): MailMessage {
+  return message(
+    to.email,
+    `Your Airtally account is ready: you have joined ${trustName}`,
+    `Hello ${to.name}, welcome to ${trustName}`,
+    [
+      `Your account has been created and you have joined ${trustName}.`,
+      'You opened the invitation sent to this address, so the address is already confirmed. Sign in with the password you chose.',
+    ],
+    { label: 'Sign in', url: signInUrl },
+    'If you did not create this account, reply to the person who invited you.',
   );
 }
 
@@ -121,5 +166,33 @@ export function existingAccountMail(
     ],
     { label: 'Sign in', url: links.signIn },
     'If you did not try to create an account, you can ignore this message.',
+  );
+}
+
+/** A trust admin's request to pay by invoice against a purchase order, to the trust's billing contact and to ops. */
+export function invoicePaymentRequestMail(
+  to: string[],
+  d: {
+    trustName: string;
+    trustId: string;
+    purchaseOrder: string;
+    billingEmail: string;
+    requestedBy: string;
+    note: string | null;
+    billingUrl: string;
+  },
+): MailMessage {
+  return message(
+    to.join(', '),
+    `${d.trustName} asks to pay by invoice (purchase order ${d.purchaseOrder})`,
+    `${d.trustName} asks to pay Airtally by invoice`,
+    [
+      `${d.requestedBy} asked for ${d.trustName} (trust id ${d.trustId}) to pay its Airtally subscription by invoice instead of by card.`,
+      `Purchase-order number: ${d.purchaseOrder}. Invoices to: ${d.billingEmail}.`,
+      ...(d.note ? [`Note: ${d.note}`] : []),
+      'Airtally billing will arrange it and reply to the billing contact. Until then the subscription is paid as before.',
+    ],
+    { label: 'Open the billing page', url: d.billingUrl },
+    'You received this because you are the billing contact of this trust or Airtally billing operations.',
   );
 }

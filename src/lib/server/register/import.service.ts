@@ -6,6 +6,7 @@ import type { Database } from '../../../../db/database';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
+import { schoolCountNotice, type QuantityChangePreview } from '../billing/price-change';
 import { badRequest, conflict, notFound } from '../http/errors';
 import { analyseUploadIsolated } from './parse-in-worker';
 import { decodePlan, decodeRejectedRows, type RejectedRows, type UploadAnalysis } from './analyse';
@@ -50,6 +51,8 @@ export type ImportPreview = Pick<
   clearBlanks: boolean;
   /** Whether rows were rejected: GET /api/imports/{id}/rejected.xlsx gives them back with what to fix. */
   hasRejectedRows: boolean;
+  /** How the subscription changes if the new schools are imported (null when none, or for a school-limited member). */
+  subscriptionChange?: QuantityChangePreview | null;
 };
 
 /** .xlsx or .csv from the file name; anything else is refused with what to do. */
@@ -122,6 +125,7 @@ export async function previewImport(
     return row.id;
   });
   mark('store the preview');
+  const subscriptionChange = await schoolCountNotice(db, trust, analysis.summary.schoolsToCreate);
   return {
     id,
     status: 'previewed',
@@ -137,6 +141,7 @@ export async function previewImport(
     newSchools: analysis.newSchools,
     clearBlanks: options.clearBlanks === true,
     hasRejectedRows: analysis.rejectedRowsGz !== null,
+    subscriptionChange,
   };
 }
 

@@ -10,8 +10,8 @@ import { route } from '../../../lib/server/http/route';
 /** Switches the subscription between monthly and yearly billing. */
 export const POST = route(async ({ locals, request }) => {
   const billing = requireBillingManager(locals);
-  const { interval } = await parseBody(request, PeriodBodySchema);
-  const overview = await changeInterval(getDb(), paymentProvider(), billing, interval);
+  const { interval, prorationDate } = await parseBody(request, PeriodBodySchema);
+  const overview = await changeInterval(getDb(), paymentProvider(), billing, interval, prorationDate);
   if (isFormPost(request))
     return formDone(request, `Billing period changed to ${interval === 'year' ? 'yearly' : 'monthly'}.`);
   return json({ billing: overview });
