@@ -183,7 +183,22 @@ describe('the first hour, part 1, in Chromium', () => {
       page.waitForResponse((r) => r.url().includes('/api/priorities') && r.url().includes('criteriaMet=true')),
       page.getByRole('combobox', { name: /^Criterion/ }).selectOption({ label: 'Met' }),
     ]);
-    await rows.first().waitFor();
+    // The table re-renders after the response: wait for the filtered rows (throws after 15 s if a met room
+    // still shows units), then check them.
+    await page
+      .waitForFunction(
+        () => {
+          const cells = [...document.querySelectorAll('[data-testid="priorities-table"] tbody tr td:nth-child(5)')];
+          return cells.length > 0 && cells.every((c) => c.textContent === 'None needed');
+        },
+        undefined,
+        { timeout: 15_000 },
+      )
+      .catch(async () => {
+        throw new Error(
+          `Met rooms still show units: ${(await rows.locator('td:nth-child(5)').allTextContents()).join(' | ')}`,
+        );
+      });
     const units = await rows.locator('td:nth-child(5)').allTextContents();
     expect(units.length).toBeGreaterThan(0);
     for (const u of units) expect(u).toBe('None needed');
