@@ -41,6 +41,8 @@ try {
     dataDir,
     outDir,
     payments: { persist: false, retryBaseMs: 1000 },
+    // The app only queues runs here: the batch benchmark starts its own `npm run worker` processes.
+    extraEnv: { ASSESSMENT_APP_WORKERS: '0' },
     onGiveUp: (code) => void finish(code || 1),
   }));
 

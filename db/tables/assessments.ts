@@ -19,19 +19,74 @@ export interface AssessmentRunsTable {
   created_at: Generated<Date>;
   started_at: Timestamp | null;
   finished_at: Timestamp | null;
-  /** The pg-boss job working the run (to tell a crashed worker from a slow one). */
-  job_id: string | null;
-  /** Last room (in id order) of the last committed chunk: a resumed run carries on after it. */
-  resume_after_room_id: string | null;
   /** Rooms the engine could not assess: [{ roomId, roomCode, field, message }]. */
   problems: ColumnType<RunProblem[], string | undefined, string>;
   updated_at: Generated<Date>;
-  /** When the worker working the run last said it was alive. */
+  /** When a worker last claimed or committed a chunk of the run. */
   heartbeat_at: Timestamp | null;
-  /** The worker working the run: host/process id/boot nonce (see run-executor.ts). */
+  /** Chunks the run is split into, and how many are committed. */
+  chunks_total: Generated<number>;
+  chunks_done: Generated<number>;
+  /** When the retention rule removed the run's results (the run itself stays in the history). */
+  results_pruned_at: Timestamp | null;
+}
+
+/** One chunk of a run: a range of its snapshot rooms, worked by one worker at a time. */
+export interface AssessmentRunChunksTable {
+  run_id: string;
+  chunk_no: number;
+  /** The chunk is the snapshot rooms with after_room_id < id <= last_room_id (null: from the first). */
+  after_room_id: string | null;
+  last_room_id: string;
+  rooms: number;
+  status: Generated<'pending' | 'running' | 'done'>;
+  /** The worker working it: host/process id/boot nonce (see run-executor.ts). */
   worker_id: string | null;
-  /** How many times a worker has started (or resumed) the run. */
+  heartbeat_at: Timestamp | null;
+  /** How many times a worker has claimed it. */
   attempts: Generated<number>;
+  /** Result rows written when done. */
+  results: number | null;
+  /** The engine inputs the chunk read, gzip'd JSON (input-snapshot.ts). */
+  inputs: Buffer | null;
+  done_at: Timestamp | null;
+}
+
+/** Each school's current results: those of one run. */
+export interface AssessmentCurrentTable {
+  school_id: string;
+  trust_id: string;
+  run_id: string;
+}
+
+/** Per trust: how many succeeded runs keep their results. */
+export interface AssessmentSettingsTable {
+  trust_id: string;
+  keep_runs: number;
+  updated_at: Generated<Date>;
+  updated_by_email: string | null;
+}
+
+/** A run's dashboard figures per school, computed when it finishes (refresh_run_school_summaries). */
+export interface RunSchoolSummariesTable {
+  run_id: string;
+  school_id: string;
+  assessed: number;
+  failing: number;
+  pupils_failing: number;
+  retrofitted: number;
+  retrofitted_never_pay_back: number;
+  capital_gbp: number;
+  saving_gbp: number;
+  measured: number;
+  calibrated: number;
+  co2_below_1000: number;
+  co2_1000_1500: number;
+  co2_1500_2000: number;
+  co2_above_2000: number;
+  baseline_today: number;
+  baseline_same_air: number;
+  baseline_simpler: number;
 }
 
 /** The rooms a run assesses, fixed when it starts. */
@@ -64,16 +119,17 @@ export interface AssumptionSetsTable {
   created_at: Generated<Date>;
 }
 
-/** One room's result in one run; `is_current` marks the result the views read. Ranks live in portfolio_ranks. */
+/**
+ * One room's result in one run: numbers and codes only (the detail is recomputed from the chunk's inputs). Which
+ * results are current is assessment_current; ranks live in portfolio_ranks.
+ */
 export interface RoomResultsTable {
   run_id: string;
   room_id: string;
-  trust_id: string;
   school_id: string;
   block_id: string | null;
   ventilation_type: string;
   pupils: number;
-  is_current: Generated<boolean>;
   worst_season: string;
   mean_co2_ppm: number;
   peak_co2_ppm: number;
@@ -110,15 +166,29 @@ export interface RoomResultsTable {
   heating_degree_hours_kh: number | null;
   unit_run_hours: number | null;
   assumed_count: Generated<number>;
-  detail: Json<unknown>;
+  /** The recommended units' full installed cost and life (the capital programme's figures). */
+  installed_cost_gbp: number | null;
+  life_years: number | null;
+  /** The recommended units as JSON [[count, model name], …]. */
+  unit_lines: string | null;
   /** What the risk rests on: 'measured' readings, the 'calibrated' model, or the model's prediction. */
   risk_evidence: Generated<'measured' | 'calibrated' | 'predicted'>;
 }
 
-/** Tables of the assessments feature: runs, per-room results and versioned assumption sets. */
+/** current_room_results (a view): each school's current results, with the trust. */
+export interface CurrentRoomResultsView extends RoomResultsTable {
+  trust_id: string;
+}
+
+/** Tables of the assessments feature: runs and their chunks, per-room results and versioned assumption sets. */
 export interface AssessmentsTables {
   assessment_runs: AssessmentRunsTable;
   assessment_run_rooms: AssessmentRunRoomsTable;
+  assessment_run_chunks: AssessmentRunChunksTable;
+  assessment_current: AssessmentCurrentTable;
+  assessment_settings: AssessmentSettingsTable;
   room_results: RoomResultsTable;
+  current_room_results: CurrentRoomResultsView;
+  run_school_summaries: RunSchoolSummariesTable;
   assumption_sets: AssumptionSetsTable;
 }

@@ -14,6 +14,8 @@ export interface PortfolioSettingsTable {
   ranked_weights: Json<unknown> | null;
   ranked_stamp: string | null;
   ranked_at: Timestamp | null;
+  /** The cumulative capital and pupil-hours curve along the ranked order, sampled (the dashboard's chart). */
+  ranked_curve: Json<unknown> | null;
 }
 
 /** Each current room's place in its trust under the trust's weights (1 = do first). */
@@ -21,6 +23,8 @@ export interface PortfolioRanksTable {
   trust_id: string;
   room_id: string;
   school_id: string;
+  /** The run of the room's current result (room_results is read through its key). */
+  run_id: string;
   rank: number;
   score: number;
   /** Filter and sort keys copied from room_results when the ranks are built. */
@@ -40,6 +44,7 @@ export interface PortfolioRanksTable {
   score_risk: number | null;
   score_cost_effectiveness: number | null;
   score_payback: number | null;
+  pupil_hours_removed: number | null;
 }
 
 /** Tables of the saved ranking weights and other portfolio settings feature. */

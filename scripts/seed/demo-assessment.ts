@@ -2,13 +2,13 @@ import type { Kysely } from 'kysely';
 import type pg from 'pg';
 import type { Database } from '../../db/database';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
-import { executeRun } from '../../src/lib/server/assessments/run-executor';
+import { workRunHere } from '../../src/lib/server/assessments/run-executor';
 import { getRun, insertRun } from '../../src/lib/server/assessments/runs.repository';
 import { DEMO_TRUST } from './demo-trust';
 
 /**
  * Assesses the demo estate once, so a first `npm start` opens on ranked results rather than an empty
- * dashboard. Runs the same executor the batch queue uses, in this process. Skipped when the demo trust
+ * dashboard. Works its chunks with the same executor the queue's workers use, in this process. Skipped when the demo trust
  * already has a succeeded run.
  */
 export async function seedDemoAssessment(db: Kysely<Database>, pool: pg.Pool): Promise<string> {
@@ -28,7 +28,7 @@ export async function seedDemoAssessment(db: Kysely<Database>, pool: pg.Pool): P
     startedByUserId: null,
     startedByEmail: null,
   });
-  await executeRun(db, pool, runId);
+  await workRunHere(db, pool, runId);
   const run = await getRun(db, runId, DEMO_TRUST.id);
   return `${run?.status ?? 'unknown'} (${roomsTotal} rooms)`;
 }

@@ -50,13 +50,12 @@ describe('assessments pages in Chromium', () => {
 
   it('a room page shows the CO2 chart, the reason, the retrofit and the cautions, and answers a what-if', async () => {
     const room = await db
-      .selectFrom('room_results')
-      .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
-      .select(['rooms.id', 'room_results.pupils'])
-      .where('room_results.trust_id', '=', DEMO_TRUST.id)
-      .where('room_results.is_current', '=', true)
-      .where('room_results.unit_count', '>', 0)
-      .orderBy('room_results.risk_score', 'desc')
+      .selectFrom('current_room_results')
+      .innerJoin('rooms', 'rooms.id', 'current_room_results.room_id')
+      .select(['rooms.id', 'current_room_results.pupils'])
+      .where('current_room_results.trust_id', '=', DEMO_TRUST.id)
+      .where('current_room_results.unit_count', '>', 0)
+      .orderBy('current_room_results.risk_score', 'desc')
       .limit(1)
       .executeTakeFirstOrThrow();
     const { page, context } = await openSignedInPage(DEMO_ACCOUNTS.viewer);

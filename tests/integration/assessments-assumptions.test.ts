@@ -128,13 +128,18 @@ describe('assumption sets', () => {
       .executeTakeFirstOrThrow();
     expect(run.assumptions_version).toBe(current.label);
     await runSucceeded(cookies.viewer, id);
-    const detail = await db
+    // A room's detail, recomputed from what the run kept, records the version too.
+    const stored = await db
       .selectFrom('room_results')
-      .select('detail')
+      .select('room_id')
       .where('run_id', '=', id)
       .limit(1)
       .executeTakeFirstOrThrow();
-    expect((detail.detail as { assumptionsVersion: string }).assumptionsVersion).toBe(current.label);
+    const detail = await api(`/api/assessments/${id}/rooms/${stored.room_id}`, { cookie: cookies.viewer });
+    expect(detail.status).toBe(200);
+    const body = (await detail.json()) as { assessment: { assumptionsVersion: string }; assumptionsLabel: string };
+    expect(body.assessment.assumptionsVersion).toBe(current.label);
+    expect(body.assumptionsLabel).toBe(current.label);
   });
 
   it('unit catalogue: flows are technical, costs financial, adding a model technical', async () => {

@@ -1,11 +1,9 @@
-// A worker process for the crash test: works one run slowly (a pause after each chunk) so the test can
-// kill it with SIGKILL midway, as a crashed server would die. Usage: tsx assessments-crash-worker.ts <runId>
-import { executeRun } from '../../src/lib/server/assessments/run-executor';
-import { getDb, getPool } from '../../src/lib/server/db/client';
+// A worker process for the crash tests: the queue's own workers (as `npm run worker` starts them), except that each
+// chunk pauses for CHUNK_PAUSE_MS before its commit, so a test can kill the process while it holds a chunk.
+// Usage: node --import tsx assessments-crash-worker.ts (DATABASE_URL and CHUNK_PAUSE_MS from the environment).
+import { startWorkers } from '../../src/lib/server/assessments/queue';
+import { WORKER_ID } from '../../src/lib/server/assessments/run-executor';
 
-const runId = process.argv[2]!;
-await executeRun(getDb(), getPool(), runId, {
-  chunkSize: 25,
-  afterChunk: () => new Promise((resolve) => setTimeout(resolve, 300)),
-});
-process.exit(0);
+const pauseMs = Number(process.env.CHUNK_PAUSE_MS ?? 0);
+await startWorkers(1, { beforeCommit: () => new Promise((resolve) => setTimeout(resolve, pauseMs)) });
+console.log(`ready ${WORKER_ID}`);

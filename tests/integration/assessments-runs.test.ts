@@ -24,10 +24,9 @@ const waitForRun = async (cookie: string, id: string) => (await runEnded(cookie,
 
 const currentRows = () =>
   db
-    .selectFrom('room_results')
+    .selectFrom('current_room_results')
     .select(['run_id', 'room_id', 'school_id', 'risk_band', 'baseline', 'heating_fuel', 'fuel_price_gbp_per_kwh'])
     .where('trust_id', '=', DEMO_TRUST.id)
-    .where('is_current', '=', true)
     .execute();
 
 /** The trust's ranks as every page reads them (portfolio_ranks, rebuilt on the first read after a run). */
@@ -86,32 +85,130 @@ describe('assessment runs API', () => {
     }
   });
 
-  it('fills every denormalised column a portfolio view reads', async () => {
+  it('fills every denormalised column a portfolio view reads, and keeps numbers and codes only', async () => {
     const row = await db
-      .selectFrom('room_results')
-      .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+      .selectFrom('current_room_results')
+      .innerJoin('rooms', 'rooms.id', 'current_room_results.room_id')
       .select([
-        'room_results.pupils',
+        'current_room_results.pupils',
         'rooms.pupils as room_pupils',
-        'room_results.ventilation_type',
+        'current_room_results.ventilation_type',
         'rooms.ventilation_type as room_vent',
-        'room_results.units_recommended',
-        'room_results.unit_count',
-        'room_results.detail',
-        'room_results.reason',
+        'current_room_results.units_recommended',
+        'current_room_results.unit_count',
+        'current_room_results.unit_lines',
+        'current_room_results.installed_cost_gbp',
+        'current_room_results.life_years',
+        'current_room_results.reason',
       ])
-      .where('room_results.trust_id', '=', DEMO_TRUST.id)
-      .where('room_results.is_current', '=', true)
-      .where('room_results.unit_count', '>', 0)
+      .where('current_room_results.trust_id', '=', DEMO_TRUST.id)
+      .where('current_room_results.unit_count', '>', 0)
       .limit(1)
       .executeTakeFirstOrThrow();
     expect(row.pupils).toBe(row.room_pupils);
     expect(row.ventilation_type).toBe(row.room_vent);
     expect(row.units_recommended).toMatch(/^\d+ × .+/);
     expect(row.reason.length).toBeGreaterThan(10);
-    const detail = row.detail as { seasons: Record<string, { curve: unknown[] }>; appraisal: unknown };
-    expect(detail.appraisal).not.toBeNull();
-    for (const season of Object.values(detail.seasons)) expect(season.curve).toEqual([]);
+    // The unit lines add up to the unit count and name the models the units column names.
+    const lines = JSON.parse(row.unit_lines!) as [number, string][];
+    expect(lines.reduce((n, [count]) => n + count, 0)).toBe(row.unit_count);
+    for (const [count, model] of lines) expect(row.units_recommended).toContain(`${count} × ${model}`);
+    expect(row.installed_cost_gbp).toBeGreaterThan(0);
+    expect(row.life_years).toBeGreaterThan(0);
+    // A result row stays compact: a few hundred bytes, not a detail document.
+    const { rows } = await sql<{ bytes: number }>`
+      SELECT max(pg_column_size(rr.*))::int AS bytes FROM current_room_results rr WHERE rr.trust_id = ${DEMO_TRUST.id}`.execute(
+      db,
+    );
+    expect(rows[0]!.bytes).toBeLessThan(1000);
+  });
+
+  it('recomputes a room as the run saw it: the inputs it kept, the figures it stored, whatever the register says now', async () => {
+    const stored = await db
+      .selectFrom('current_room_results')
+      .selectAll()
+      .where('trust_id', '=', DEMO_TRUST.id)
+      .where('unit_count', '>', 0)
+      .orderBy('room_id')
+      .limit(1)
+      .executeTakeFirstOrThrow();
+    const before = await db.selectFrom('rooms').selectAll().where('id', '=', stored.room_id).executeTakeFirstOrThrow();
+    // The register changes after the run.
+    await db
+      .updateTable('rooms')
+      .set({ pupils: (before.pupils ?? 20) + 3, openable_area_m2: null })
+      .where('id', '=', stored.room_id)
+      .execute();
+    try {
+      const response = await api(`/api/assessments/${stored.run_id}/rooms/${stored.room_id}`, { cookie: estates });
+      expect(response.status).toBe(200);
+      const detail = (await response.json()) as {
+        input: { room: { pupils: number | null; openableAreaM2: number | null; floorAreaM2: number; code: string } };
+        assessment: { risk: { reason: string }; pupils: number; seasons: Record<string, { curve: unknown[] }> };
+        row: Record<string, unknown>;
+      };
+      // The inputs are the register's values when the run read them, not now.
+      expect(detail.input.room).toMatchObject({
+        code: before.code,
+        pupils: before.pupils,
+        openableAreaM2: before.openable_area_m2,
+        floorAreaM2: before.floor_area_m2,
+      });
+      // Recomputed from them with the run's assumption set, every stored figure comes back exactly.
+      const expected: Record<string, unknown> = {
+        schoolId: stored.school_id,
+        blockId: stored.block_id,
+        pupils: stored.pupils,
+        worstSeason: stored.worst_season,
+        meanCo2Ppm: stored.mean_co2_ppm,
+        peakCo2Ppm: stored.peak_co2_ppm,
+        criteriaMet: stored.criteria_met,
+        riskBand: stored.risk_band,
+        riskScore: stored.risk_score,
+        pupilHoursAbove: stored.pupil_hours_above,
+        reason: stored.reason,
+        unitsRecommended: stored.units_recommended,
+        unitCount: stored.unit_count,
+        capitalCostGbp: stored.capital_cost_gbp,
+        annualSavingGbp: stored.annual_saving_gbp,
+        simplePaybackYears: stored.simple_payback_years,
+        discountedPaybackYears: stored.discounted_payback_years,
+        npvGbp: stored.npv_gbp,
+        baseline: stored.baseline,
+        verdict: stored.verdict,
+        pupilHoursRemoved: stored.pupil_hours_removed,
+        heatingDegreeHoursKh: stored.heating_degree_hours_kh,
+        installedCostGbp: stored.installed_cost_gbp,
+        lifeYears: stored.life_years,
+        unitLines: stored.unit_lines,
+      };
+      expect(detail.row).toMatchObject(expected);
+      expect(detail.assessment.risk.reason).toBe(stored.reason);
+      expect(detail.assessment.pupils).toBe(stored.pupils);
+      // The detail the list rows do not keep: the CO2 curve of each season.
+      for (const season of Object.values(detail.assessment.seasons)) expect(season.curve.length).toBeGreaterThan(10);
+
+      // The room page says the register changed since the run, and the what-if starts from the register as it is.
+      const page = await fetch(`${process.env.APP_URL}/app/rooms/${stored.room_id}`, { headers: { cookie: estates } });
+      expect(await page.text()).toMatch(/register has changed since the latest run/);
+      const whatIf = await api(`/api/rooms/${stored.room_id}/what-if`, {
+        method: 'POST',
+        cookie: estates,
+        body: JSON.stringify({ pupils: 10 }),
+      });
+      expect(((await whatIf.json()) as { changes: string[] }).changes[0]).toBe(
+        `Pupils ${(before.pupils ?? 20) + 3} → 10`,
+      );
+    } finally {
+      await db
+        .updateTable('rooms')
+        .set({ pupils: before.pupils, openable_area_m2: before.openable_area_m2 })
+        .where('id', '=', stored.room_id)
+        .execute();
+    }
+    // Unchanged again, the page shows the run's own figures.
+    const page = await fetch(`${process.env.APP_URL}/app/rooms/${stored.room_id}`, { headers: { cookie: estates } });
+    expect(await page.text()).toMatch(/From the latest run/);
   });
 
   it("a school run replaces only that school's current results and re-ranks the whole trust", async () => {

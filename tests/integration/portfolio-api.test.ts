@@ -119,16 +119,19 @@ describe('portfolio API', () => {
       .execute();
     // Ties: ten rooms with the same parts and pupil-hours (broken by room id), five more with the same parts but
     // fewer pupil-hours (broken by pupil-hours).
-    const tied = await sql<{ room_id: string }>`SELECT room_id FROM room_results WHERE trust_id = ${admin.trustId}
-      AND is_current ORDER BY room_id DESC LIMIT 15`.execute(db);
+    const tied = await sql<{
+      room_id: string;
+    }>`SELECT room_id FROM current_room_results WHERE trust_id = ${admin.trustId}
+      ORDER BY room_id DESC LIMIT 15`.execute(db);
     const ids = tied.rows.map((r) => r.room_id);
     await sql`UPDATE room_results SET risk_score = 0.61, pupil_hours_removed_per_1000_gbp = 300, simple_payback_years = 40,
       pupil_hours_above = CASE WHEN room_id = ANY(${ids.slice(0, 10)}::uuid[]) THEN 2222 ELSE 1111 END
-      WHERE trust_id = ${admin.trustId} AND room_id = ANY(${ids}::uuid[])`.execute(db);
+      WHERE run_id IN (SELECT run_id FROM assessment_current WHERE trust_id = ${admin.trustId})
+        AND room_id = ANY(${ids}::uuid[])`.execute(db);
     raw = (
       await sql<Raw>`SELECT room_id, school_id, block_id, risk_band, criteria_met, ventilation_type, pupil_hours_above, risk_score,
         pupil_hours_removed_per_1000_gbp, simple_payback_years, capital_cost_gbp, pupils
-        FROM room_results WHERE trust_id = ${admin.trustId} AND is_current`.execute(db)
+        FROM current_room_results WHERE trust_id = ${admin.trustId}`.execute(db)
     ).rows;
     expect(raw).toHaveLength(3000);
   });
@@ -358,7 +361,7 @@ describe('portfolio API', () => {
       n: number;
       capital: number;
     }>`SELECT sum(unit_count)::int AS n, sum(capital_cost_gbp)::float8 AS capital
-      FROM room_results WHERE trust_id = ${admin.trustId} AND is_current AND unit_count > 0`.execute(db);
+      FROM current_room_results WHERE trust_id = ${admin.trustId} AND unit_count > 0`.execute(db);
     expect(report.totals.units).toBe(units.rows[0]!.n);
     expect(report.totals.capitalCostGbp).toBeCloseTo(units.rows[0]!.capital, 2);
     for (const school of report.schools) {

@@ -66,15 +66,14 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    // Earlier results of these rooms stop being current, as a finished run would do.
     await sql`
-      INSERT INTO room_results (run_id, room_id, trust_id, school_id, block_id, ventilation_type, pupils, is_current, worst_season,
+      INSERT INTO room_results (run_id, room_id, school_id, block_id, ventilation_type, pupils, worst_season,
         mean_co2_ppm, peak_co2_ppm, criteria_met, risk_band, risk_score, pupil_hours_above, reason, units_recommended, unit_count,
         capital_cost_gbp, annual_saving_gbp, annual_saving_kwh, annual_saving_kgco2e, simple_payback_years, discounted_payback_years,
         npv_gbp, pupil_hours_removed_per_1000_gbp, capital_per_tonne_co2e_gbp, baseline, verdict, annual_heating_saving_kwh,
         annual_fan_saving_kwh, annual_maintenance_saving_gbp, replacement_cost_gbp, pupil_hours_removed, heating_fuel,
-        fuel_price_gbp_per_kwh, heating_efficiency, price_source, efficiency_source, detail)
-      SELECT ${run.id}, v.room_id, ${o.trustId}, v.school_id, v.block_id, v.ventilation_type, v.pupils, true, 'winter',
+        fuel_price_gbp_per_kwh, heating_efficiency, price_source, efficiency_source, installed_cost_gbp, life_years, unit_lines)
+      SELECT ${run.id}, v.room_id, v.school_id, v.block_id, v.ventilation_type, v.pupils, 'winter',
         v.mean, v.mean * 1.6, v.mean < 1500, v.band, v.risk, v.pupil_hours, 'Invented reason for ' || v.code,
         CASE WHEN v.units > 0 THEN v.units || ' × Wall unit 150' ELSE '' END, v.units,
         v.capital, v.saving, v.saving * 12, v.saving * 3, CASE WHEN v.saving > 0 THEN v.capital / v.saving END, NULL,
@@ -82,9 +81,8 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
         CASE WHEN v.capital > 0 THEN v.capital / (v.saving * 3 * 15 / 1000) END,
         CASE WHEN v.units > 0 THEN 'same_air_without_recovery' END, CASE WHEN v.units > 0 THEN 'saves_slowly' END,
         v.saving * 14, -v.saving * 2, -60.0 * v.units, 0, v.pupil_hours * 0.8, 'gas', 0.07, 0.85, 'trust', 'trust',
-        jsonb_build_object('appraisal', CASE WHEN v.units > 0 THEN jsonb_build_object(
-          'units', jsonb_build_array(jsonb_build_object('modelId', 'wall-150', 'modelName', 'Wall unit 150', 'count', v.units)),
-          'unitCount', v.units, 'capitalCostGbp', v.capital, 'lifeYears', 15) END)
+        CASE WHEN v.units > 0 THEN v.capital END, CASE WHEN v.units > 0 THEN 15 END,
+        CASE WHEN v.units > 0 THEN jsonb_build_array(jsonb_build_array(v.units, 'Wall unit 150'))::text END
       FROM (
         SELECT r.id AS room_id, r.school_id, r.block_id, r.ventilation_type, r.pupils, r.code,
           700 + floor(random() * 1800) AS mean, 1 + floor(random() * 4)::int AS band, random() AS risk,
@@ -93,6 +91,11 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
         FROM rooms r JOIN LATERAL (SELECT (CASE WHEN random() < 0.3 THEN 0 ELSE 1 + floor(random() * 3) END)::int AS units WHERE r.id IS NOT NULL) u ON true
         WHERE r.school_id = ANY(${schoolIds}::uuid[])
       ) v`.execute(trx);
+    // The schools' current results are this run's, with its dashboard figures, as a finished run leaves them.
+    await sql`SELECT refresh_run_school_summaries(${run.id}::uuid, NULL)`.execute(trx);
+    await sql`
+      INSERT INTO assessment_current (school_id, trust_id, run_id)
+      SELECT s, ${o.trustId}, ${run.id}::uuid FROM unnest(${schoolIds}::uuid[]) s`.execute(trx);
     return { trustId: o.trustId, runId: run.id, schoolIds };
   });
 }

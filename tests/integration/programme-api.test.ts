@@ -93,9 +93,9 @@ describe('capital programme API', () => {
     });
     // The fixture's results carry no pupil-hours removed: give each retrofit 80 % of the room's exposure.
     await sql`UPDATE room_results SET pupil_hours_removed = pupil_hours_above * 0.8
-      WHERE trust_id = ${admin.trustId} AND unit_count > 0`.execute(db);
+      WHERE run_id = ${fixture.runId}::uuid AND unit_count > 0`.execute(db);
     const rows = await db
-      .selectFrom('room_results')
+      .selectFrom('current_room_results')
       .select(['room_id', 'capital_cost_gbp'])
       .where('trust_id', '=', admin.trustId)
       .where('unit_count', '>', 0)

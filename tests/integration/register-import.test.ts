@@ -205,6 +205,7 @@ describe('importing a register through the API', () => {
     expect((await estateState(admin.trustId)).rooms).toHaveLength(before.rooms.length);
     const second = await upload(admin.cookie, 'shorter.xlsx', shorter);
     const done = await commit(admin.cookie, second.body.id, { rows: 'valid', deleteMissing: true });
+    expect(done.status, JSON.stringify(done.body)).toBe(200);
     expect(done.body.outcome.roomsDeleted).toBe(1);
     expect((await estateState(admin.trustId)).rooms.map((r) => r.code)).not.toContain(removedCode);
   });

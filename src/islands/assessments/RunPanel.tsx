@@ -5,7 +5,9 @@ import {
   assessmentsQueryClient,
   useRuns,
   useRunStatus,
+  useSaveRetention,
   useStartRun,
+  type RetentionSettings,
   type RunStatusView,
 } from '../../lib/client/assessments';
 import { formatDateTime, formatDecimals, formatInteger } from '../../lib/format';
@@ -17,6 +19,9 @@ interface Props {
   canRunTrust: boolean;
   schools: { id: string; name: string }[];
   initialRuns: RunStatusView[];
+  /** How many runs keep their results; the trust admin may change it. */
+  retention: RetentionSettings;
+  canSetRetention: boolean;
 }
 
 const STATUS_WORDS: Record<RunStatusView['status'], string> = {
@@ -55,6 +60,8 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
         </span>
         <span>
           {formatInteger(data.roomsDone)} of {formatInteger(data.roomsTotal)} rooms
+          {data.chunks.total > 1 &&
+            ` · parts: ${formatInteger(data.chunks.done)} of ${formatInteger(data.chunks.total)} done, ${formatInteger(data.chunks.running)} being worked`}
         </span>
       </div>
       <div
@@ -101,7 +108,68 @@ function Progress({ id, onDone }: { id: string; onDone: () => void }) {
   );
 }
 
-function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
+/** How many of the latest runs keep their results (a trust admin changes it; older runs' results are removed). */
+function Retention({
+  retention,
+  canSet,
+  hydrated,
+}: {
+  retention: RetentionSettings;
+  canSet: boolean;
+  hydrated: boolean;
+}) {
+  const save = useSaveRetention();
+  const [keepRuns, setKeepRuns] = useState(String(retention.keepRuns));
+  const kept = save.data?.settings.keepRuns ?? retention.keepRuns;
+  const words = `Results are kept for the latest ${kept} successful runs, and always for the runs the priorities show now and for any run a saved capital programme was planned from. Older runs stay in the list with their results removed.`;
+  if (!canSet) return <p className="mt-6 text-sm text-ink-muted">{words}</p>;
+  return (
+    <form
+      className="mt-6 flex flex-wrap items-end gap-3 text-sm"
+      onSubmit={(event) => {
+        event.preventDefault();
+        save.mutate(Number(keepRuns));
+      }}
+    >
+      <p className="w-full text-ink-muted">{words}</p>
+      <label>
+        <span className="block text-ink-muted">Keep results of the latest</span>
+        <input
+          type="number"
+          name="keepRuns"
+          min={1}
+          max={100}
+          step={1}
+          value={keepRuns}
+          onChange={(e) => setKeepRuns(e.target.value)}
+          className="mt-1 w-24 rounded-control border border-line bg-surface px-2 py-1.5"
+        />
+      </label>
+      <button
+        type="submit"
+        disabled={save.isPending || !hydrated}
+        className="rounded-control border border-line px-3 py-1.5 font-semibold disabled:opacity-60"
+      >
+        Save
+      </button>
+      {save.isError && (
+        <p role="alert" className="w-full text-danger">
+          {save.error.message}
+        </p>
+      )}
+      {save.isSuccess && (
+        <p role="status" className="w-full">
+          Saved.{' '}
+          {save.data.prunedRuns === 0
+            ? 'No run lost its results.'
+            : `Results of ${save.data.prunedRuns} older run(s) removed.`}
+        </p>
+      )}
+    </form>
+  );
+}
+
+function Panel({ canRun, canRunTrust, schools, initialRuns, retention, canSetRetention }: Props) {
   const hydrated = useHydrated();
   const client = useQueryClient();
   const runs = useRuns(initialRuns);
@@ -188,6 +256,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
                   <td className="pr-4">
                     {STATUS_WORDS[r.status]}
                     {r.status === 'failed' && r.error ? `: ${r.error}` : ''}
+                    {r.resultsPrunedAt ? ' (results removed: older than the runs kept)' : ''}
                   </td>
                   <td className="pr-4 text-right">
                     {formatInteger(r.roomsDone)} / {formatInteger(r.roomsTotal)}
@@ -201,6 +270,7 @@ function Panel({ canRun, canRunTrust, schools, initialRuns }: Props) {
           </table>
         </div>
       )}
+      <Retention retention={retention} canSet={canSetRetention} hydrated={hydrated} />
     </div>
   );
 }

@@ -2,6 +2,7 @@
 import { useMutation, useQuery } from '@tanstack/react-query';
 import { pageQueryClient } from './query-client';
 import type { RunStatusView } from '../server/assessments/runs.service';
+import type { RetentionSettings } from '../server/assessments/retention.service';
 import type { WhatIfAnswer } from '../server/assessments/room-assessment.service';
 import type {
   AssumptionEditBody,
@@ -11,7 +12,15 @@ import type {
 } from '../server/assessments/assessments.schemas';
 import { apiFetch } from './api';
 
-export type { RunStatusView, WhatIfAnswer, AssumptionEditBody, StartRunBody, UnitCatalogueBody, WhatIfBody };
+export type {
+  RetentionSettings,
+  RunStatusView,
+  WhatIfAnswer,
+  AssumptionEditBody,
+  StartRunBody,
+  UnitCatalogueBody,
+  WhatIfBody,
+};
 
 /** The assessments islands' client: shared by the islands of a page in the browser, new for each server render. */
 export const assessmentsQueryClient = () =>
@@ -68,5 +77,16 @@ export function useSaveCatalogue() {
   return useMutation({
     mutationFn: (body: UnitCatalogueBody) =>
       apiFetch<{ version: number; label: string }>('/api/unit-models', { method: 'PUT', body }),
+  });
+}
+
+/** Saves how many of the latest runs keep their results; resolves to the rule and how many runs lost theirs. */
+export function useSaveRetention() {
+  return useMutation({
+    mutationFn: (keepRuns: number) =>
+      apiFetch<{ settings: RetentionSettings; prunedRuns: number }>('/api/assessments/retention', {
+        method: 'PUT',
+        body: { keepRuns },
+      }),
   });
 }

@@ -30,8 +30,6 @@ import type {
 import { label } from './vocabulary';
 import { heatingSeasonLossKwh, lowestTotalLps, occupiedTotalLps, type SeasonFlows } from './ventilation';
 
-const SEASONS: readonly Season[] = ['winter', 'mid', 'summer'];
-
 /** One way of ventilating the room for a year: its flows per season, fans, servicing and capital. */
 interface Scenario {
   flows: Record<Season, SeasonFlows>;
@@ -115,29 +113,45 @@ function netReplacements(
   return out;
 }
 
+/** A season's flows with units running: windows as today times the share kept, the units' balanced flow. */
+function withUnitsFlows(f: SeasonFlows, keptShare: number, balancedLps: number, recoveredLps: number): SeasonFlows {
+  return {
+    windowOccupiedLps: f.windowOccupiedLps * keptShare,
+    windowEmptyLps: f.windowEmptyLps * keptShare,
+    infiltrationLps: f.infiltrationLps,
+    balancedLps,
+    unbalancedLps: 0,
+    recoveredLps,
+  };
+}
+
 /** Occupancy-weighted pupil-hours a year above the risk threshold with a scenario's flows. */
 function pupilHoursWith(a: AppraisalInputs, flows: Record<Season, SeasonFlows>): number {
-  const set = a.p.set;
-  const outdoor = set.air.outdoorCo2Ppm.value;
-  const threshold = a.criterion.riskThresholdPpm;
+  const seasons = a.p.set.seasons.value;
+  // Season by season by name (a loop over season keys would look records up by a changing key).
   let total = 0;
-  for (const season of SEASONS) {
-    const f = flows[season];
-    const g = a.generationLps[season];
-    // Exact shortcut: each segment moves monotonically towards its steady state from outdoor CO2 at the start of
-    // the day, so if even the lowest-flow steady state stays at or below the threshold, CO2 never exceeds it.
-    if (outdoor + (1e6 * g) / lowestTotalLps(f) <= threshold) continue;
-    const minutes = minutesAboveThreshold({
-      day: a.day,
-      flows: f,
-      generationLps: g,
-      volumeM3: a.volumeM3,
-      outdoorCo2Ppm: outdoor,
-      thresholdPpm: threshold,
-    });
-    total += (a.pupils * minutes * set.seasons.value[season].schoolDays) / 60;
-  }
+  total += seasonPupilHours(a, flows.winter, a.generationLps.winter, seasons.winter.schoolDays);
+  total += seasonPupilHours(a, flows.mid, a.generationLps.mid, seasons.mid.schoolDays);
+  total += seasonPupilHours(a, flows.summer, a.generationLps.summer, seasons.summer.schoolDays);
   return total;
+}
+
+/** One season's share of pupilHoursWith. */
+function seasonPupilHours(a: AppraisalInputs, f: SeasonFlows, g: number, schoolDays: number): number {
+  const outdoor = a.p.set.air.outdoorCo2Ppm.value;
+  const threshold = a.criterion.riskThresholdPpm;
+  // Exact shortcut: each segment moves monotonically towards its steady state from outdoor CO2 at the start of
+  // the day, so if even the lowest-flow steady state stays at or below the threshold, CO2 never exceeds it.
+  if (outdoor + (1e6 * g) / lowestTotalLps(f) <= threshold) return 0;
+  const minutes = minutesAboveThreshold({
+    day: a.day,
+    flows: f,
+    generationLps: g,
+    volumeM3: a.volumeM3,
+    outdoorCo2Ppm: outdoor,
+    thresholdPpm: threshold,
+  });
+  return (a.pupils * minutes * schoolDays) / 60;
 }
 
 /** A scenario's yearly ventilation heat loss over the heating hours and fan electricity, kWh. */
@@ -387,27 +401,20 @@ export function appraiseRetrofit(a: AppraisalInputs): RoomAppraisal {
 
   // With units: windows as today times the share kept, units' balanced flow (plus any existing heat-recovery unit).
   const keptRecoveredLps = keepsExisting ? a.existing.heatRecoveryEfficiency * keptBalancedLps : 0;
-  const optionFlows = {} as Record<Season, SeasonFlows>;
+  // Season by season by name (a loop over season keys would look records up by a changing key).
+  const kept = r.windowKeptWithUnits.value;
+  const unitsLps = keptBalancedLps + q;
+  const recoveredLps = keptRecoveredLps + perf.heatRecoveryEfficiency * q;
+  const optionFlows: Record<Season, SeasonFlows> = {
+    winter: withUnitsFlows(a.todayFlows.winter, kept.winter, unitsLps, recoveredLps),
+    mid: withUnitsFlows(a.todayFlows.mid, kept.mid, unitsLps, recoveredLps),
+    summer: summerOff ? a.todayFlows.summer : withUnitsFlows(a.todayFlows.summer, kept.summer, unitsLps, recoveredLps),
+  };
   // Degree-hours of the seasons the units run: the same air without their recovery loses η·ρc_p·Q·DH more.
   let unitDegreeHours = 0;
-  for (const season of SEASONS) {
-    const f = a.todayFlows[season];
-    if (summerOff && season === 'summer') {
-      optionFlows[season] = f;
-      continue;
-    }
-    unitDegreeHours += a.degreeHoursKh[season];
-    const kept = r.windowKeptWithUnits.value[season];
-    const withUnits: SeasonFlows = {
-      windowOccupiedLps: f.windowOccupiedLps * kept,
-      windowEmptyLps: f.windowEmptyLps * kept,
-      infiltrationLps: f.infiltrationLps,
-      balancedLps: keptBalancedLps + q,
-      unbalancedLps: 0,
-      recoveredLps: keptRecoveredLps + perf.heatRecoveryEfficiency * q,
-    };
-    optionFlows[season] = withUnits;
-  }
+  unitDegreeHours += a.degreeHoursKh.winter;
+  unitDegreeHours += a.degreeHoursKh.mid;
+  if (!summerOff) unitDegreeHours += a.degreeHoursKh.summer;
   const option: Scenario = {
     flows: optionFlows,
     fans: withFans({ sfp: perf.specificFanPowerWPerLps, lps: q, hours: runHours }, keptHru),

@@ -6,15 +6,27 @@
  */
 import { appraiseRetrofit } from './appraisal';
 import { assessComfort } from './comfort-screen';
-import { applyPack, buildStatusOf, choosePack } from './criteria';
+import { buildStatusOf } from './criteria';
 import { formatOneDecimal } from './format';
 import { heatingSupply } from './heating-supply';
 import { infiltrationLps } from './infiltration';
 import { generationAtRoomLps } from './occupancy';
-import { dayOf, hoursOf, hoursUsedOf, perPersonGenerationLps, prepare, thresholdsFor, type Prepared } from './prepared';
+import {
+  criteriaFor,
+  dayOf,
+  hoursOf,
+  hoursUsedOf,
+  perPersonGenerationLps,
+  prepare,
+  SEASON_ORDER,
+  seasonTableOf,
+  summerMeanTempCOf,
+  type Prepared,
+} from './prepared';
 import { assessRisk, criterionBand, pupilHoursPerYear } from './risk';
 import { resolveRoom, type ResolvedRoom } from './room-defaults';
 import { assessSeasonDay } from './season-co2';
+import type { SeasonHours } from './hours';
 import type {
   AssessOptions,
   AssumedValue,
@@ -24,6 +36,7 @@ import type {
   RoomAssessmentInput,
   Season,
   SeasonAssessment,
+  SeasonProfile,
   WindowAssumptions,
 } from './types';
 import { calibrationOf, describeCalibration } from './measured/calibration-hook';
@@ -38,6 +51,21 @@ export const ENGINE_CAUTIONS: readonly string[] = [
 ];
 
 const SEASONS: readonly Season[] = ['winter', 'mid', 'summer'];
+/** No calibration: window use as the set says in every season. */
+const NO_CALIBRATION: readonly number[] = [1, 1, 1];
+
+/** A season record as a list in SEASON_ORDER. */
+const listOf = (r: Record<Season, number>): number[] => [r.winter, r.mid, r.summer];
+
+/** A calibration's window-use factors in SEASON_ORDER (a season it does not name keeps 1). */
+const windowUseFactorList = (f: Partial<Record<Season, number>>): number[] => [
+  f.winter ?? 1,
+  f.mid ?? 1,
+  f.summer ?? 1,
+];
+
+/** Scratch for the risk's per-season figures (the engine is synchronous, so one serves every room). */
+const PER_SEASON = SEASONS.map(() => ({ occupiedMinutesOver: 0, schoolDays: 0 }));
 
 /** Air permeability of the block: measured, else the default for its construction, else for its era. */
 function blockAirPermeability(block: BlockInput, set: AssumptionSet, assumed: AssumedValue[]): number {
@@ -126,8 +154,6 @@ export function assessRoom(
   const heating = heatingSupply(block, school, set, assumed);
   const day = dayOf(p, school.timetable);
   const hours = hoursOf(p, day, school.climateRegion);
-  const region = set.climate.regions.value[school.climateRegion];
-  const profiles = set.seasons.value;
 
   // --- Who is in the room and the CO2 they breathe out (Persily & de Jonge 2017 Table 4) ----------
   const pupilMet =
@@ -167,21 +193,32 @@ export function assessRoom(
   const windows = windowOpening(p, room, resolved, effectiveAreaM2, cross, hasFan);
 
   // --- Criteria: the room's own pack, and the mechanical pack units are sized to ------------------
-  const criterion = applyPack(choosePack(set, ventilationClass, buildStatus), outdoorCo2);
-  const target = applyPack(choosePack(set, 'mechanical', buildStatus), outdoorCo2);
-  const thresholds = thresholdsFor(p, criterion, target);
+  const { criterion, target, thresholds, riskIndex, runThresholdPpm, runIndex } = criteriaFor(
+    p,
+    ventilationClass,
+    buildStatus,
+  );
 
   // --- CO2 over a school day, per season ---------------------------------------------------------
-  const seasonFlows = {} as Record<Season, SeasonFlows>;
-  const generationLps = {} as Record<Season, number>;
-  const seasons = {} as Record<Season, SeasonAssessment>;
+  // Season figures as lists in SEASON_ORDER: the loop indexes them rather than looking records up by a changing key.
+  const table = seasonTableOf(p, day, school.climateRegion);
+  const openOccupied =
+    windows.openFractionOccupied === p.windowShares.occupied
+      ? p.windowShareLists.occupied
+      : listOf(windows.openFractionOccupied);
+  const openEmpty =
+    windows.openFractionEmpty === p.windowShares.empty ? p.windowShareLists.empty : listOf(windows.openFractionEmpty);
+  const useFactors = calibration ? windowUseFactorList(calibration.windowUseFactor) : NO_CALIBRATION;
+  const flowList: SeasonFlows[] = [];
+  const generationList: number[] = [];
+  const seasonList: SeasonAssessment[] = [];
   let criteriaMet = true;
   let meetsTarget = true;
-  let worstSeason: Season = 'winter';
-  for (const season of SEASONS) {
-    const profile = profiles[season];
-    const outdoorTempC = hours[season].meanSchoolHoursTempC;
-    const windSpeed10Ms = region.windSpeedMs[season];
+  let worstIndex = 0;
+  for (let i = 0; i < 3; i++) {
+    const profile = table.profiles[i] as SeasonProfile;
+    const outdoorTempC = (table.hours[i] as SeasonHours).meanSchoolHoursTempC;
+    const windSpeed10Ms = table.windSpeed10Ms[i] as number;
     const capacityLps = windowAirflowLps({
       method: set.windows.method.value,
       cross,
@@ -194,55 +231,70 @@ export function assessRoom(
       dischargeCoefficient: set.windows.dischargeCoefficient.value,
       deltaCp: set.windows.crossWindDeltaCp.value,
     });
-    const seasonWindowUse = windows.useWithMechanical * (calibration?.windowUseFactor[season] ?? 1);
+    const seasonWindowUse = windows.useWithMechanical * (useFactors[i] as number);
     const flows: SeasonFlows = {
-      windowOccupiedLps: capacityLps * windows.openFractionOccupied[season] * seasonWindowUse,
-      windowEmptyLps: capacityLps * windows.openFractionEmpty[season] * seasonWindowUse,
+      windowOccupiedLps: capacityLps * (openOccupied[i] as number) * seasonWindowUse,
+      windowEmptyLps: capacityLps * (openEmpty[i] as number) * seasonWindowUse,
       infiltrationLps: infLps,
       balancedLps: existing.balance === 'balanced' ? fanLps : 0,
       unbalancedLps: existing.balance === 'unbalanced' ? fanLps : 0,
       recoveredLps: existing.balance === 'balanced' ? existing.heatRecoveryEfficiency * fanLps : 0,
     };
-    seasonFlows[season] = flows;
-    generationLps[season] = generationAtRoomLps({
+    flowList.push(flows);
+    const generation = generationAtRoomLps({
       tableLps,
       roomTempC: profile.indoorTempC,
       pressureKpa: set.air.atmosphericPressureKpa.value,
     });
+    generationList.push(generation);
     const result = assessSeasonDay({
-      season,
+      season: SEASON_ORDER[i] as Season,
       day,
       flows,
-      generationLps: generationLps[season],
+      generationLps: generation,
       volumeM3,
       outdoorCo2Ppm: outdoorCo2,
       outdoorTempC,
       indoorTempC: profile.indoorTempC,
       windSpeed10Ms,
-      windowOpenFraction: windows.openFractionOccupied[season] * seasonWindowUse,
+      windowOpenFraction: (openOccupied[i] as number) * seasonWindowUse,
       thresholdsPpm: thresholds,
       criterion,
       target,
       withCurve,
     });
-    seasons[season] = result.assessment;
+    seasonList.push(result.assessment);
     if (!result.assessment.criterionMet) criteriaMet = false;
     if (!result.meetsTarget) meetsTarget = false;
-    if (result.assessment.occupiedMeanCo2Ppm > seasons[worstSeason].occupiedMeanCo2Ppm) worstSeason = season;
+    if (result.assessment.occupiedMeanCo2Ppm > (seasonList[worstIndex] as SeasonAssessment).occupiedMeanCo2Ppm)
+      worstIndex = i;
   }
+  const worstSeason = SEASON_ORDER[worstIndex] as Season;
+  const seasonFlows: Record<Season, SeasonFlows> = {
+    winter: flowList[0] as SeasonFlows,
+    mid: flowList[1] as SeasonFlows,
+    summer: flowList[2] as SeasonFlows,
+  };
+  const generationLps: Record<Season, number> = {
+    winter: generationList[0] as number,
+    mid: generationList[1] as number,
+    summer: generationList[2] as number,
+  };
+  const seasons: Record<Season, SeasonAssessment> = {
+    winter: seasonList[0] as SeasonAssessment,
+    mid: seasonList[1] as SeasonAssessment,
+    summer: seasonList[2] as SeasonAssessment,
+  };
 
   // --- Risk: pupil-hours a year above the criterion's threshold ---------------------------------
-  const riskIdx = thresholds.indexOf(criterion.riskThresholdPpm);
-  const todayPupilHours = pupilHoursPerYear({
-    pupils: resolved.pupils,
-    perSeason: SEASONS.map((s) => ({
-      occupiedMinutesOver: seasons[s].thresholds[riskIdx]?.occupiedMinutesOver ?? 0,
-      schoolDays: profiles[s].schoolDays,
-    })),
-  });
-  const worst = seasons[worstSeason];
-  const runThreshold = criterion.maxLimitPpm ?? criterion.meanLimitPpm;
-  const runEntry = worst.thresholds[thresholds.indexOf(runThreshold)];
+  for (let i = 0; i < 3; i++) {
+    const entry = PER_SEASON[i] as { occupiedMinutesOver: number; schoolDays: number };
+    entry.occupiedMinutesOver = (seasonList[i] as SeasonAssessment).thresholds[riskIndex]?.occupiedMinutesOver ?? 0;
+    entry.schoolDays = (table.profiles[i] as SeasonProfile).schoolDays;
+  }
+  const todayPupilHours = pupilHoursPerYear({ pupils: resolved.pupils, perSeason: PER_SEASON });
+  const worst = seasonList[worstIndex] as SeasonAssessment;
+  const runEntry = worst.thresholds[runIndex];
   const risk = assessRisk({
     pupils: resolved.pupils,
     openableAreaM2: resolved.openableAreaM2,
@@ -258,14 +310,11 @@ export function assessRoom(
     halfPupilHours: set.risk.scoreHalfPupilHours.value,
     worstSeason,
     worstMeanPpm: worst.occupiedMeanCo2Ppm,
-    runThresholdPpm: runThreshold,
+    runThresholdPpm,
     worstRunMinutes: runEntry ? runEntry.longestRunMinutes : 0,
   });
 
   // --- Comfort ------------------------------------------------------------------------------------
-  let summerDailyMeanTempC = 0;
-  for (const m of profiles.summer.months) summerDailyMeanTempC += region.monthlyMeanTempC[m - 1] as number;
-  summerDailyMeanTempC /= profiles.summer.months.length;
   const comfort = assessComfort({
     set,
     day,
@@ -276,7 +325,7 @@ export function assessRoom(
     cross,
     pupilMet,
     winterOutdoorTempC: hours.winter.meanSchoolHoursTempC,
-    summerDailyMeanTempC,
+    summerDailyMeanTempC: summerMeanTempCOf(p, school.climateRegion),
     summerFlows: seasonFlows.summer,
     summerWindowOpenFraction:
       windows.openFractionOccupied.summer * windows.useWithMechanical * (calibration?.windowUseFactor.summer ?? 1),
@@ -292,11 +341,7 @@ export function assessRoom(
           p,
           day,
           hours,
-          degreeHoursKh: {
-            winter: hours.winter.degreeHoursKh,
-            mid: hours.mid.degreeHoursKh,
-            summer: hours.summer.degreeHoursKh,
-          },
+          degreeHoursKh: table.degreeHoursKh,
           volumeM3,
           pupils: resolved.pupils,
           ventilationType: resolved.ventilationType,

@@ -130,6 +130,11 @@ export function simulateDay(args: {
   let peak = c;
   let weighted = 0;
   let totalMinutes = 0;
+  // A day repeats a few (flow, length) pairs (lessons alike, breaks alike): e^(−λT) is taken once for each.
+  let x1 = Number.NaN;
+  let decay1 = 0;
+  let x2 = Number.NaN;
+  let decay2 = 0;
 
   for (const seg of segments) {
     const minutes = seg.endMinute - seg.startMinute;
@@ -141,7 +146,16 @@ export function simulateDay(args: {
     let meanPpm: number;
     if (lambda > 0) {
       const x = lambda * hours;
-      const decay = Math.exp(-x);
+      let decay: number;
+      if (x === x1) decay = decay1;
+      else if (x === x2) decay = decay2;
+      else {
+        decay = Math.exp(-x);
+        x2 = x1;
+        decay2 = decay1;
+        x1 = x;
+        decay1 = decay;
+      }
       endPpm = steady + (c - steady) * decay;
       meanPpm = steady + ((c - steady) * (1 - decay)) / x;
     } else {

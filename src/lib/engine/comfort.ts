@@ -30,7 +30,15 @@ export function pmvPpd(args: {
   const clo = requireRange('comfort.clo', args.clo, 0, 2, 'clo');
   const wme = args.externalWorkMet ?? 0;
 
-  const pa = rh * 10 * Math.exp(16.6536 - 4030.183 / (ta + 235)); // water vapour pressure, Pa
+  // Water vapour pressure, Pa (the same air for every room of a set: computed once for it).
+  let pa: number;
+  if (ta === lastVapour.ta && rh === lastVapour.rh) pa = lastVapour.pa;
+  else {
+    pa = rh * 10 * Math.exp(16.6536 - 4030.183 / (ta + 235));
+    lastVapour.ta = ta;
+    lastVapour.rh = rh;
+    lastVapour.pa = pa;
+  }
   const icl = 0.155 * clo;
   const m = met * 58.15;
   const w = wme * 58.15;
@@ -67,10 +75,20 @@ export function pmvPpd(args: {
   const xn2 = xn * xn;
   const hl5 = 3.96 * fcl * (xn2 * xn2 - tra4);
   const hl6 = fcl * hc * (tcl - ta);
-  const ts = 0.303 * Math.exp(-0.036 * m) + 0.028;
+  let ts: number;
+  if (m === lastSensation.m) ts = lastSensation.ts;
+  else {
+    ts = 0.303 * Math.exp(-0.036 * m) + 0.028;
+    lastSensation.m = m;
+    lastSensation.ts = ts;
+  }
   const pmv = ts * (mw - hl1 - hl2 - hl3 - hl4 - hl5 - hl6);
   return { pmv, ppdPct: ppdFromPmv(pmv) };
 }
+
+/** The last vapour pressure and thermal sensation coefficient pmvPpd computed (rooms of a run repeat them). */
+const lastVapour = { ta: Number.NaN, rh: Number.NaN, pa: 0 };
+const lastSensation = { m: Number.NaN, ts: 0 };
 
 /** PPD = 100 − 95·exp(−0.03353·PMV⁴ − 0.2179·PMV²), % (ISO 7730:2005). */
 export function ppdFromPmv(pmv: number): number {

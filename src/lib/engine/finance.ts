@@ -9,16 +9,47 @@
  */
 export function annuityFactor(rate: number, years: number): number {
   if (rate === 0) return years;
-  if (rate === lastAf.rate && years === lastAf.years) return lastAf.value;
-  const value = -Math.expm1(-years * Math.log1p(rate)) / rate;
-  lastAf.rate = rate;
-  lastAf.years = years;
-  lastAf.value = value;
+  if (!Number.isInteger(years) || years < 0 || years >= TABLE_YEARS)
+    return -Math.expm1(-years * Math.log1p(rate)) / rate;
+  const table = tableOf(rate);
+  let value = table.annuity[years] as number;
+  if (Number.isNaN(value)) {
+    value = -Math.expm1(-years * Math.log1p(rate)) / rate;
+    table.annuity[years] = value;
+  }
   return value;
 }
 
-/** The last annuity factor computed (every room of a run asks for the same rate and period). */
-const lastAf = { rate: Number.NaN, years: Number.NaN, value: 0 };
+/** (1 + r)^t for whole years t, the divisor of a flow discounted t years. */
+export function discountDivisor(rate: number, year: number): number {
+  if (!Number.isInteger(year) || year < 0 || year >= TABLE_YEARS) return (1 + rate) ** year;
+  const table = tableOf(rate);
+  let value = table.power[year] as number;
+  if (Number.isNaN(value)) {
+    value = (1 + rate) ** year;
+    table.power[year] = value;
+  }
+  return value;
+}
+
+/**
+ * Whole-year annuity factors and discount divisors per rate, filled as asked: every room of a run asks for the same
+ * rate, and payback searches ask for the same years again and again. Same formulas, so the same values.
+ */
+const TABLE_YEARS = 1003;
+const tables = new Map<number, { annuity: Float64Array; power: Float64Array }>();
+function tableOf(rate: number): { annuity: Float64Array; power: Float64Array } {
+  let table = tables.get(rate);
+  if (!table) {
+    if (tables.size >= 32) tables.clear();
+    table = {
+      annuity: new Float64Array(TABLE_YEARS).fill(Number.NaN),
+      power: new Float64Array(TABLE_YEARS).fill(Number.NaN),
+    };
+    tables.set(rate, table);
+  }
+  return table;
+}
 
 /** NPV of a level annual saving: −C0 + S·AF(r, n), £. */
 export function npvLevel(args: { capitalGbp: number; annualSavingGbp: number; rate: number; years: number }): number {
@@ -102,7 +133,7 @@ export function appraiseInvestment(args: {
 }): { simplePaybackYears: number | null; discountedPaybackYears: number | null; npvGbp: number } {
   const { capitalGbp: c0, annualSavingGbp: s, replacements, rate: r, years } = args;
   let npv = npvLevel({ capitalGbp: c0, annualSavingGbp: s, rate: r, years });
-  for (const rep of replacements) npv -= rep.costGbp / (1 + r) ** rep.year;
+  for (const rep of replacements) npv -= rep.costGbp / discountDivisor(r, rep.year);
   const simple = simplePaybackYears(c0, s);
   if (replacements.length === 0)
     return {
@@ -115,7 +146,7 @@ export function appraiseInvestment(args: {
   for (let year = 1; dpb === null && year <= 1000; year++) {
     let flow = s;
     for (const rep of replacements) if (rep.year === year) flow -= rep.costGbp;
-    const discounted = flow / (1 + r) ** year;
+    const discounted = flow / discountDivisor(r, year);
     if (cumulative + discounted >= 0 && discounted > 0) dpb = year - 1 + -cumulative / discounted;
     cumulative += discounted;
     if (year > years && s <= 0) break;

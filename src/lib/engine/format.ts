@@ -4,6 +4,22 @@
 export function formatInt(x: number): string {
   const n = Math.round(x);
   if (n > -1000 && n < 1000) return n === 0 ? '0' : String(n);
+  // Results repeat the same few thousands (thresholds, CO2 means): those are written once.
+  if (n >= 1000 && n < CACHED_UP_TO) {
+    let text = CACHED[n];
+    if (text === undefined) {
+      text = withSeparators(n);
+      CACHED[n] = text;
+    }
+    return text;
+  }
+  return withSeparators(n);
+}
+
+const CACHED_UP_TO = 20_000;
+const CACHED: (string | undefined)[] = new Array<string | undefined>(CACHED_UP_TO).fill(undefined);
+
+function withSeparators(n: number): string {
   const s = String(Math.abs(n));
   const head = s.length % 3 || 3;
   let out = s.slice(0, head);

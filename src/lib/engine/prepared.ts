@@ -5,6 +5,7 @@
 import { completeAssumptionSet, validateAssumptionSet } from './assumption-tools';
 import { DEFAULT_ASSUMPTIONS } from './assumptions';
 import type { DaySegment } from './co2-mass-balance';
+import { applyPack, choosePack } from './criteria';
 import { EngineInputError } from './errors';
 import { schoolDayHours, schoolYearHours, type SeasonHours } from './hours';
 import { generationPerPersonLps } from './occupancy';
@@ -15,6 +16,7 @@ import type {
   AssumptionSet,
   ClimateRegion,
   HoursUsed,
+  SeasonProfile,
   RetrofitUnitLine,
   Season,
   TimetableSegment,
@@ -34,6 +36,37 @@ export interface PreparedDay {
   hours: Map<ClimateRegion, Record<Season, SeasonHours>>;
   /** The hours a result reports, per climate region (shared by every room of the school). */
   hoursUsed: Map<ClimateRegion, HoursUsed>;
+  /** Per climate region: the season figures rooms read, as lists in SEASON_ORDER. */
+  seasonTables: Map<ClimateRegion, SeasonTable>;
+}
+
+/**
+ * What every room of a school day and region reads per season, as lists in SEASON_ORDER (winter, mid, summer) so
+ * the engine's season loops index lists instead of looking up records by a changing key.
+ */
+export interface SeasonTable {
+  profiles: readonly SeasonProfile[];
+  hours: readonly SeasonHours[];
+  /** Meteorological wind at 10 m, m/s. */
+  windSpeed10Ms: readonly number[];
+  /** Heating degree-hours per season, K·h (a record, as the appraisal reads them). */
+  degreeHoursKh: Record<Season, number>;
+}
+
+/** The order of every season list. */
+export const SEASON_ORDER: readonly Season[] = ['winter', 'mid', 'summer'];
+
+/** A room's criterion, the mechanical target units are sized to, and the thresholds a result reports. */
+export interface PreparedCriteria {
+  criterion: AppliedCriterion;
+  target: AppliedCriterion;
+  /** Sorted distinct thresholds of both packs and the set's reference thresholds, ppm. */
+  thresholds: number[];
+  /** Index in `thresholds` of the criterion's risk threshold. */
+  riskIndex: number;
+  /** The threshold a run above is reported against (the pack's maximum, else its mean limit), ppm, and its index. */
+  runThresholdPpm: number;
+  runIndex: number;
 }
 
 /** The set's derived figures. */
@@ -50,6 +83,12 @@ export interface Prepared {
   thresholds: Map<string, Map<string, number[]>>;
   /** The set's window opening by season, shared by every room without its own observation. */
   windowShares: { occupied: Record<Season, number>; empty: Record<Season, number> };
+  /** windowShares as lists in SEASON_ORDER. */
+  windowShareLists: { occupied: readonly number[]; empty: readonly number[] };
+  /** Criteria by ventilation class and build status. */
+  criteria: Map<string, PreparedCriteria>;
+  /** Mean of the summer months' 24-hour mean outdoor temperatures per climate region, °C. */
+  summerMeanTempC: Map<ClimateRegion, number>;
 }
 
 const preparedCache = new WeakMap<AssumptionSet, Prepared>();
@@ -88,6 +127,7 @@ function prepareDay(timetable: readonly TimetableSegment[]): PreparedDay {
     segments: [],
     hours: new Map(),
     hoursUsed: new Map(),
+    seasonTables: new Map(),
   };
 }
 
@@ -117,6 +157,13 @@ export function prepare(given: AssumptionSet): Prepared {
       occupied: seasonRecord(set, 'windowOpenFractionOccupied'),
       empty: seasonRecord(set, 'windowOpenFractionEmpty'),
     },
+    windowShareLists: { occupied: [], empty: [] },
+    criteria: new Map(),
+    summerMeanTempC: new Map(),
+  };
+  prepared.windowShareLists = {
+    occupied: SEASON_ORDER.map((s) => prepared.windowShares.occupied[s]),
+    empty: SEASON_ORDER.map((s) => prepared.windowShares.empty[s]),
   };
   preparedCache.set(given, prepared);
   return prepared;
@@ -151,6 +198,78 @@ export function hoursOf(p: Prepared, day: PreparedDay, region: ClimateRegion): R
     day.hours.set(region, hours);
   }
   return hours;
+}
+
+/** The season figures of a day in a region (hours.ts, the set's profiles, the region's wind), cached. */
+export function seasonTableOf(p: Prepared, day: PreparedDay, region: ClimateRegion): SeasonTable {
+  let table = day.seasonTables.get(region);
+  if (!table) {
+    const hours = hoursOf(p, day, region);
+    const wind = p.set.climate.regions.value[region].windSpeedMs;
+    table = {
+      profiles: SEASON_ORDER.map((s) => p.set.seasons.value[s]),
+      hours: SEASON_ORDER.map((s) => hours[s]),
+      windSpeed10Ms: SEASON_ORDER.map((s) => wind[s]),
+      degreeHoursKh: {
+        winter: hours.winter.degreeHoursKh,
+        mid: hours.mid.degreeHoursKh,
+        summer: hours.summer.degreeHoursKh,
+      },
+    };
+    day.seasonTables.set(region, table);
+  }
+  return table;
+}
+
+/** Mean of the summer months' 24-hour mean outdoor temperatures of a region, °C (stands in for the TM52 running mean), cached. */
+export function summerMeanTempCOf(p: Prepared, region: ClimateRegion): number {
+  let mean = p.summerMeanTempC.get(region);
+  if (mean === undefined) {
+    const months = p.set.seasons.value.summer.months;
+    const monthly = p.set.climate.regions.value[region].monthlyMeanTempC;
+    mean = 0;
+    for (const m of months) mean += monthly[m - 1] as number;
+    mean /= months.length;
+    p.summerMeanTempC.set(region, mean);
+  }
+  return mean;
+}
+
+/**
+ * The criterion of a room of this ventilation class and build status (criteria.ts), the mechanical pack units are
+ * sized to, and the thresholds results report, cached.
+ */
+export function criteriaFor(
+  p: Prepared,
+  ventilationClass: 'natural' | 'mechanical',
+  buildStatus: 'new_build' | 'refurbishment',
+): PreparedCriteria {
+  const key =
+    ventilationClass === 'natural'
+      ? buildStatus === 'new_build'
+        ? 'nn'
+        : 'nr'
+      : buildStatus === 'new_build'
+        ? 'mn'
+        : 'mr';
+  let found = p.criteria.get(key);
+  if (!found) {
+    const outdoorCo2 = p.set.air.outdoorCo2Ppm.value;
+    const criterion = applyPack(choosePack(p.set, ventilationClass, buildStatus), outdoorCo2);
+    const target = applyPack(choosePack(p.set, 'mechanical', buildStatus), outdoorCo2);
+    const thresholds = thresholdsFor(p, criterion, target);
+    const runThresholdPpm = criterion.maxLimitPpm ?? criterion.meanLimitPpm;
+    found = {
+      criterion,
+      target,
+      thresholds,
+      riskIndex: thresholds.indexOf(criterion.riskThresholdPpm),
+      runThresholdPpm,
+      runIndex: thresholds.indexOf(runThresholdPpm),
+    };
+    p.criteria.set(key, found);
+  }
+  return found;
 }
 
 /**

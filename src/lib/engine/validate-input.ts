@@ -32,8 +32,23 @@ function nullable(field: string, value: number | null, limit: FieldLimit): void 
   requireWithin(field, value, limit);
 }
 
+/** Each vocabulary as a set, so a check is one hash lookup however long the list. */
+const KNOWN = new Map<readonly string[], ReadonlySet<string>>(
+  [
+    AGE_GROUPS,
+    CLIMATE_REGIONS,
+    CONSTRUCTION_TYPES,
+    FRAME_MATERIALS,
+    HEATING_FUELS,
+    ROOM_USES,
+    SCHOOL_PHASES,
+    VENTILATION_TYPES,
+    WINDOW_TYPES,
+  ].map((list) => [list, new Set<string>(list)]),
+);
+
 function nullableOneOf<T extends string>(field: string, value: T | null, allowed: readonly T[]): void {
-  if (value !== null && !allowed.includes(value)) requireOneOf(field, value, allowed);
+  if (value !== null && !(KNOWN.get(allowed) as ReadonlySet<string>).has(value)) requireOneOf(field, value, allowed);
 }
 
 /** Valid ranges of every input field (limits.ts), plus the cross-field rules: openable ≤ glazing ≤ 3 × floor, and

@@ -81,14 +81,20 @@ export function heatingSeasonLossKwh(args: {
   degreeHoursKh: Record<Season, number>;
   airHeatCapacityWPerLpsK: number;
 }): number {
+  // Season by season by name (a loop over season keys would look records up by a changing key).
   let kwh = 0;
-  for (const season of SEASONS) {
-    const dh = args.degreeHoursKh[season];
-    if (dh <= 0) continue;
-    const f = args.flows[season];
-    kwh += (args.airHeatCapacityWPerLpsK * (meanDayFlowLps(args.occupiedShare, f) - f.recoveredLps) * dh) / 1000;
-  }
+  kwh += seasonLossKwh(args, args.flows.winter, args.degreeHoursKh.winter);
+  kwh += seasonLossKwh(args, args.flows.mid, args.degreeHoursKh.mid);
+  kwh += seasonLossKwh(args, args.flows.summer, args.degreeHoursKh.summer);
   return kwh;
 }
 
-const SEASONS: readonly Season[] = ['winter', 'mid', 'summer'];
+/** One season's ventilation heat loss, kWh (0 without heating degree-hours). */
+function seasonLossKwh(
+  args: { occupiedShare: number; airHeatCapacityWPerLpsK: number },
+  f: SeasonFlows,
+  dh: number,
+): number {
+  if (dh <= 0) return 0;
+  return (args.airHeatCapacityWPerLpsK * (meanDayFlowLps(args.occupiedShare, f) - f.recoveredLps) * dh) / 1000;
+}

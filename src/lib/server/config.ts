@@ -42,6 +42,15 @@ const EnvSchema = z.object({
   STRIPE_API_HOST: z.string().min(1).optional(),
   STRIPE_API_PORT: z.coerce.number().int().positive().optional(),
   STRIPE_API_PROTOCOL: z.enum(['http', 'https']).optional(),
+  /**
+   * Assessment workers inside the web app (0: the app only queues runs and `npm run worker` processes assess them).
+   * Each works one chunk at a time; two overlap one chunk's database reads and writes with another's engine work.
+   */
+  ASSESSMENT_APP_WORKERS: z.coerce.number().int().min(0).max(16).default(2),
+  /** Assessment workers in each `npm run worker` process. */
+  ASSESSMENT_WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(2),
+  /** Connections each process's pool may open to PostgreSQL (pg-boss opens up to 4 more). */
+  DATABASE_POOL_MAX: z.coerce.number().int().min(2).max(200).default(10),
   /** Any value logs how long each import step takes (the import benchmark sets it). */
   AIRTALLY_IMPORT_TIMINGS: z.string().optional(),
 });
@@ -76,6 +85,8 @@ export interface Config {
     opsEmail: string;
   };
   importTimings: boolean;
+  assessments: { appWorkers: number; workerConcurrency: number };
+  databasePoolMax: number;
 }
 
 /** True for localhost, 127.0.0.0/8 and ::1, the addresses only this machine can reach. */
@@ -125,6 +136,8 @@ export function parseConfig(env: Record<string, string | undefined>): Config {
       opsEmail: e.BILLING_OPS_EMAIL,
     },
     importTimings: Boolean(e.AIRTALLY_IMPORT_TIMINGS) && e.AIRTALLY_IMPORT_TIMINGS !== '0',
+    assessments: { appWorkers: e.ASSESSMENT_APP_WORKERS, workerConcurrency: e.ASSESSMENT_WORKER_CONCURRENCY },
+    databasePoolMax: e.DATABASE_POOL_MAX,
   };
 }
 

@@ -10,7 +10,7 @@ import { formatInt } from '../format';
 import { criterionBand, RISK_BAND_LABELS, riskScore, type SeasonCriterionMeasures } from '../risk';
 import type { AssumptionSet, RiskResult, RoomAssessment, Season } from '../types';
 import { MIN_DAYS_FOR_MEASURED_RISK } from './analyse-room';
-import type { Evidence, MeasuredRoom } from './types';
+import type { Evidence, MeasuredEvidenceInput } from './types';
 
 /** Which seasons of a room's risk were measured, and whether its model is calibrated. */
 export interface EvidenceSummary {
@@ -33,7 +33,7 @@ const list = (words: string[]) =>
 /** The room's risk with its measured seasons taken from the log, and what evidence it rests on. */
 export function applyMeasuredEvidence(args: {
   assessment: RoomAssessment;
-  measured: MeasuredRoom | null;
+  measured: MeasuredEvidenceInput | null;
   assumptions: AssumptionSet;
   calibrationLabel: string | null;
 }): { risk: RiskResult; evidence: EvidenceSummary } {

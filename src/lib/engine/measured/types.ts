@@ -103,6 +103,27 @@ export interface MeasuredSeason {
   notes: MethodNote[];
 }
 
+/**
+ * What the risk's measured evidence reads of a room's analysis (evidence.ts): per season the good days, the mean and,
+ * per threshold, the minutes above per day and the median day's longest run. A MeasuredRoom is one; a run keeps
+ * only this much of it in its input snapshot.
+ */
+export interface MeasuredEvidenceInput {
+  seasons: Partial<
+    Record<
+      Season,
+      {
+        days: number;
+        occupiedMeanPpm: number | null;
+        thresholds: readonly Pick<
+          MeasuredThreshold,
+          'thresholdPpm' | 'occupiedMinutesOverPerDay' | 'longestRunMinutesMedianDay'
+        >[];
+      }
+    >
+  >;
+}
+
 /** What the analysis of one room answers. */
 export interface MeasuredRoom {
   seasons: Partial<Record<Season, MeasuredSeason>>;

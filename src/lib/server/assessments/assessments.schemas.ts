@@ -18,6 +18,18 @@ export type StartRunBody = z.infer<typeof StartRunSchema>;
 
 export const RunIdSchema = z.uuid({ message: 'That is not a valid assessment run id.' });
 
+/** Body of PUT /api/assessments/retention. */
+export const RetentionSchema = z
+  .object({
+    keepRuns: z
+      .number({ error: 'keepRuns must be a whole number of runs from 1 to 100' })
+      .int('keepRuns must be a whole number of runs from 1 to 100')
+      .min(1, 'Keep the results of at least the latest run.')
+      .max(100, 'Keep the results of at most 100 runs.'),
+  })
+  .strict();
+export type RetentionBody = z.infer<typeof RetentionSchema>;
+
 export const ListRunsQuerySchema = z.object({ limit: z.coerce.number().int().min(1).max(100).default(20) });
 
 /** Body of POST /api/rooms/[id]/what-if: each change is optional; at least one is needed. */

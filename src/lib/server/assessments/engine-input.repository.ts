@@ -119,35 +119,26 @@ export async function readRoomChunk(
 }
 
 /**
- * The next chunk of a run's rooms (its snapshot, in id order) after `afterRoomId`: the rooms still in the
- * register, the last snapshot id read (the resume point, even when that room has been deleted since) and
- * how many snapshot entries the chunk covered.
+ * The rooms of a chunk of a run (its snapshot rooms after `afterRoomId` up to `lastRoomId`, in id order) that are
+ * still in the register; a room deleted since the run started is skipped.
  */
-export async function readRunChunk(
+export async function readChunkRooms(
   db: Kysely<Database>,
-  runId: string,
-  afterRoomId: string | null,
-  limit: number,
-): Promise<{ rooms: EngineRoom[]; lastRoomId: string | null; covered: number }> {
-  const after = afterRoomId === null ? sql`TRUE` : sql`room_id > ${afterRoomId}::uuid`;
-  const { rows } = await sql<JoinedRow & { snapshot_id: string }>`
-    WITH ids AS (
-      SELECT room_id FROM assessment_run_rooms WHERE run_id = ${runId}::uuid AND ${after} ORDER BY room_id LIMIT ${limit}
-    )
-    SELECT ids.room_id AS snapshot_id, ${COLUMNS}
-    FROM ids LEFT JOIN rooms ON rooms.id = ids.room_id
-      LEFT JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+  chunk: { runId: string; afterRoomId: string | null; lastRoomId: string },
+): Promise<EngineRoom[]> {
+  const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
+  const { rows } = await sql<JoinedRow>`
+    SELECT ${COLUMNS}
+    FROM assessment_run_rooms ids JOIN rooms ON rooms.id = ids.room_id
+      JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+    WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid
     ORDER BY ids.room_id`.execute(db);
   const timetables: TimetableCache = new Map();
-  return {
-    // Each room's calibration and measured analysis travel with it, as in readRoomChunk.
-    rooms: await attachMeasuredEvidence(
-      db,
-      rows.filter((r) => r.id !== null).map((r) => toEngineRoom(r, timetables)),
-    ),
-    lastRoomId: rows[rows.length - 1]?.snapshot_id ?? null,
-    covered: rows.length,
-  };
+  // Each room's calibration and measured analysis travel with it, as in readRoomChunk.
+  return attachMeasuredEvidence(
+    db,
+    rows.map((r) => toEngineRoom(r, timetables)),
+  );
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */

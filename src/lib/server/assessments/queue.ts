@@ -1,76 +1,84 @@
+/**
+ * The assessment queue on pg-boss. A run is split into chunks (chunks.repository.ts); each chunk gets one job in the
+ * queue, and any worker on any machine connected to the same database takes jobs: the web app's own workers
+ * (ASSESSMENT_APP_WORKERS, 2 by default) and `npm run worker` processes. A job names only its run: the worker claims
+ * whichever chunk of it is free, so a lost or repeated job never loses or doubles work. Jobs of several runs
+ * interleave (chunk n of every run has priority −n), so a national run does not hold up a small trust's run.
+ *
+ * The sweep (every 5 s in every process with the queue) hands back chunks whose worker has gone — silent for
+ * DEAD_AFTER_SECONDS, or a process on this host that no longer exists — and sends a job for each, fails a run
+ * whose chunk has failed MAX_ATTEMPTS times, finishes runs whose last worker stopped before switching them
+ * current, and sends jobs for pending chunks that have none waiting (a job fetched by a worker that died before it
+ * claimed a chunk is lost with it; a worker finishing a chunk makes the same check for its run at once).
+ */
 import { hostname } from 'node:os';
-import type { Kysely } from 'kysely';
+import { CompiledQuery, type Kysely, sql } from 'kysely';
 import PgBoss from 'pg-boss';
 import type pg from 'pg';
 import type { Database } from '../../../../db/database';
 import { config } from '../config';
 import { getDb, getPool } from '../db/client';
-import { attemptRun, DEAD_AFTER_SECONDS, failRun, MAX_ATTEMPTS, WORKER_ID } from './run-executor';
-import { getRun, idleQueuedRuns, requeueRun, runningRuns } from './runs.repository';
+import { reclaimChunk, runningChunks } from './chunks.repository';
+import {
+  DEAD_AFTER_SECONDS,
+  failRun,
+  finishRun,
+  MAX_ATTEMPTS,
+  WORKER_ID,
+  type WorkOptions,
+  workNextChunk,
+} from './run-executor';
+import { runsToFinish } from './runs.repository';
 
-/** The pg-boss queue of assessment runs. */
-export const RUN_QUEUE = 'assessment-run';
+/** The pg-boss queue of assessment chunks. */
+export const CHUNK_QUEUE = 'assessment-chunk';
 
-/** Runs worked at once in this process, so one trust's long run leaves a worker free for the others. */
-const WORKERS = 2;
 /**
- * pg-boss's own expiry, a last resort: the heartbeat (run-executor.ts) notices a dead worker within
- * DEAD_AFTER_SECONDS, and the run's attempts are counted on the run, not by pg-boss's retries.
+ * pg-boss's own expiry of a job, a last resort: a chunk takes seconds, and the sweep hands back a dead worker's chunk
+ * after DEAD_AFTER_SECONDS (pg-boss would wait for its expiry and the next maintenance, minutes).
  */
-const EXPIRE_SECONDS = 900;
-/** How often the sweep looks for runs whose worker is gone. */
+const EXPIRE_SECONDS = 300;
+/** How often the sweep looks for chunks whose worker is gone. */
 const SWEEP_MS = 5_000;
-/** A queued run this long untouched is checked for a live job (its job may have been lost). */
-const QUEUED_IDLE_SECONDS = 120;
-/** A run deferred because its trust already has a run being worked here waits this long before trying again. */
-const DEFER_SECONDS = 3;
+/** A running run with every chunk done this long is finished by the sweep (its last worker stopped first). */
+const FINISH_AFTER_SECONDS = 10;
+/** How long a worker with nothing to do waits before asking again. */
+const IDLE_POLL_MS = 500;
 
-interface RunJob {
+interface ChunkJob {
   runId: string;
 }
 
 let started: Promise<PgBoss> | undefined;
 let sweeper: NodeJS.Timeout | undefined;
-/** Trusts with a run being worked in this process: their other runs wait, not the other trusts'. */
-const busyTrusts = new Set<string>();
+const loops: { stop: () => void; done: Promise<void> }[] = [];
 
-/** Sends a job for a run (a first attempt or a resumption) and records it on the run as queued. */
-async function queueRun(
+/**
+ * Sends `count` jobs for a run (its chunks, or chunks handed back) through `db`: inside the caller's transaction when
+ * `db` is one, so a run and its jobs are committed together.
+ */
+export async function sendChunkJobs(
   db: Kysely<Database>,
-  boss: PgBoss,
   runId: string,
-  note: string | null,
-  { startAfterSeconds = 0, fromWorker }: { startAfterSeconds?: number; fromWorker?: string | null } = {},
-): Promise<string> {
-  const jobId = await boss.send(
-    RUN_QUEUE,
-    { runId } satisfies RunJob,
-    startAfterSeconds ? { startAfter: startAfterSeconds } : {},
-  );
-  if (!jobId) throw new Error('pg-boss did not accept the job');
-  await requeueRun(db, runId, jobId, note, fromWorker);
-  return jobId;
-}
-
-/** Works one job: the run, unless its trust already has one being worked here (then it waits its turn). */
-async function work(db: Kysely<Database>, pool: pg.Pool, boss: PgBoss, runId: string): Promise<void> {
-  const run = await getRun(db, runId, null);
-  if (!run || run.status === 'succeeded' || run.status === 'failed') return;
-  if (busyTrusts.has(run.trustId)) {
-    await queueRun(db, boss, runId, null, { startAfterSeconds: DEFER_SECONDS });
-    return;
-  }
-  busyTrusts.add(run.trustId);
-  try {
-    const outcome = await attemptRun(db, pool, runId);
-    if (outcome.next === 'retry')
-      await queueRun(db, boss, runId, `Retrying after: ${outcome.reason}`, {
-        startAfterSeconds: 2,
-        fromWorker: WORKER_ID,
-      });
-  } finally {
-    busyTrusts.delete(run.trustId);
-  }
+  count: number,
+  { startAfterSeconds = 0, firstPriority = 0 }: { startAfterSeconds?: number; firstPriority?: number } = {},
+): Promise<void> {
+  if (count <= 0) return;
+  const boss = await getQueue();
+  const jobs = Array.from({ length: count }, (_, i) => ({
+    name: CHUNK_QUEUE,
+    data: { runId } satisfies ChunkJob,
+    priority: firstPriority - i,
+    ...(startAfterSeconds ? { startAfter: new Date(Date.now() + startAfterSeconds * 1000).toISOString() } : {}),
+  }));
+  // pg-boss writes through our handle (the caller's transaction, if it is one).
+  const through = {
+    executeSql: async (text: string, values: unknown[]) => {
+      const result = await db.executeQuery(CompiledQuery.raw(text, values));
+      return { rows: result.rows };
+    },
+  };
+  await boss.insert(jobs, { db: through });
 }
 
 /** True when a worker id names a process on this host that is no longer running (or an earlier start of this one). */
@@ -86,89 +94,173 @@ function deadOnThisHost(workerId: string | null): boolean {
   }
 }
 
-/**
- * Finds runs whose worker is gone — silent for DEAD_AFTER_SECONDS, or a process on this host that has
- * died (so a restart resumes its runs at once) — and resumes each, or fails it after its last attempt.
- * Also re-queues a queued run whose job has been lost.
- */
-export async function sweepRuns(db: Kysely<Database>, boss: PgBoss): Promise<void> {
-  for (const run of await runningRuns(db, DEAD_AFTER_SECONDS)) {
-    if (!run.silent && !deadOnThisHost(run.workerId)) continue;
-    const current = await getRun(db, run.id, null);
-    // Another sweep (or the worker itself) got there first.
-    if (current?.status !== 'running' || current.workerId !== run.workerId) continue;
-    if (current.attempts >= MAX_ATTEMPTS) {
+/** One pass of the sweep (see the module comment). */
+export async function sweepRuns(db: Kysely<Database>): Promise<void> {
+  for (const chunk of await runningChunks(db, DEAD_AFTER_SECONDS)) {
+    if (!chunk.silent && !deadOnThisHost(chunk.workerId)) continue;
+    if (chunk.attempts >= MAX_ATTEMPTS) {
       await failRun(
         db,
-        run.id,
-        `The worker stopped ${current.attempts} times before the run finished. Start a new run.`,
+        chunk.runId,
+        `A worker stopped ${chunk.attempts} times while assessing the same part of this run. Start a new run.`,
       );
-    } else {
-      await queueRun(db, boss, run.id, 'Resuming: the worker stopped before the run finished.', {
-        fromWorker: current.workerId,
-      });
+      continue;
     }
+    if (await reclaimChunk(db, chunk.runId, chunk.chunkNo, chunk.workerId)) await sendChunkJobs(db, chunk.runId, 1);
   }
-  for (const run of await idleQueuedRuns(db, QUEUED_IDLE_SECONDS)) {
-    const job = run.jobId ? await boss.getJobById(RUN_QUEUE, run.jobId, { includeArchive: true }) : null;
-    if (job && (job.state === 'created' || job.state === 'retry' || job.state === 'active')) continue;
-    await queueRun(db, boss, run.id, null);
-  }
+  for (const runId of await runsToFinish(db, FINISH_AFTER_SECONDS)) await finishRun(db, runId);
+  await sendMissingJobs(db, null);
 }
 
 /**
- * Starts pg-boss in this process the first time it is needed: its schema, the queue, WORKERS workers
- * taking one run each, and the sweep (run once at start, so runs left by a dead worker resume at once).
+ * Sends jobs for the pending chunks of unfinished runs (or of `runId`) that were queued (have had jobs) but have none
+ * waiting now: each such run gets one job per pending chunk. Extra jobs cost a look and nothing more (a job finding no
+ * pending chunk completes at once). Runs worked in one process without the queue (the demo seed) are left alone.
+ */
+export async function sendMissingJobs(db: Kysely<Database>, runId: string | null): Promise<void> {
+  const ofRun = runId === null ? sql`TRUE` : sql`c.run_id = ${runId}::uuid`;
+  const { rows } = await sql<{ run_id: string; pending: number }>`
+    WITH pending AS (
+      SELECT c.run_id, count(*)::int AS pending
+      FROM assessment_run_chunks c JOIN assessment_runs r ON r.id = c.run_id
+      WHERE c.status = 'pending' AND r.status IN ('queued', 'running') AND ${ofRun}
+      GROUP BY c.run_id
+    ), jobs AS (
+      SELECT j.data->>'runId' AS run_id, bool_or(j.state IN ('created', 'retry')) AS waiting
+      FROM pgboss.job j
+      WHERE j.name = ${CHUNK_QUEUE} AND j.data->>'runId' IN (SELECT run_id::text FROM pending)
+      GROUP BY 1
+    )
+    SELECT p.run_id, p.pending FROM pending p JOIN jobs ON jobs.run_id = p.run_id::text WHERE NOT jobs.waiting`.execute(
+    db,
+  );
+  for (const r of rows) await sendChunkJobs(db, r.run_id, r.pending);
+}
+
+/**
+ * Starts pg-boss in this process the first time it is needed: its schema, the queue and the sweep. The first sweep runs
+ * as soon as the queue is up (so chunks left by a dead worker on this host go back at once); it is not awaited here,
+ * because the sweep itself sends jobs through this queue.
  */
 export function getQueue(): Promise<PgBoss> {
-  started ??= (async () => {
+  if (started) return started;
+  const starting = (async () => {
     const boss = new PgBoss({ connectionString: config().databaseUrl, max: 4, application_name: 'airtally-queue' });
     boss.on('error', (error) => console.error('pg-boss error', error));
-    // The queue's jobs are entry points: they take the process's database handles here and pass them down.
-    const db = getDb();
-    const pool = getPool();
     await boss.start();
-    await boss.createQueue(RUN_QUEUE, { name: RUN_QUEUE, retryLimit: 0, expireInSeconds: EXPIRE_SECONDS });
-    for (let i = 0; i < WORKERS; i++) {
-      await boss.work<RunJob>(RUN_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-        if (job) await work(db, pool, boss, job.data.runId);
-      });
-    }
-    const sweep = () =>
-      sweepRuns(db, boss).catch((error: unknown) => console.error('Assessment run sweep failed', error));
-    await sweep();
-    sweeper = setInterval(sweep, SWEEP_MS);
-    sweeper.unref();
+    await boss.createQueue(CHUNK_QUEUE, { name: CHUNK_QUEUE, retryLimit: 0, expireInSeconds: EXPIRE_SECONDS });
     return boss;
-  })().catch((error: unknown) => {
-    started = undefined;
-    throw error;
-  });
-  return started;
+  })();
+  started = starting;
+  starting.then(
+    () => {
+      if (started !== starting) return;
+      // The sweep is an entry point: it takes the process's database handle here and passes it down.
+      const db = getDb();
+      let sweeping = false;
+      const sweep = async () => {
+        if (sweeping) return; // the last pass is still going
+        sweeping = true;
+        await sweepRuns(db).catch((error: unknown) => console.error('Assessment run sweep failed', error));
+        sweeping = false;
+      };
+      void sweep();
+      sweeper = setInterval(sweep, SWEEP_MS);
+      sweeper.unref();
+    },
+    () => {
+      if (started === starting) started = undefined;
+    },
+  );
+  return starting;
 }
 
 /**
- * Starts the queue when the server starts (see startup.ts), so the sweep resumes runs left by a dead worker
- * without waiting for anyone to ask; while the database cannot be reached it tries again every 10 s.
+ * One worker: takes a job, works a chunk of its run, completes the job, and at once asks for the next; waits
+ * IDLE_POLL_MS only when the queue is empty. (pg-boss's own work() loop waits its polling interval after every job,
+ * which would cap a worker at two chunks a second.)
+ */
+function startLoop(
+  db: Kysely<Database>,
+  pool: pg.Pool,
+  boss: PgBoss,
+  options: WorkOptions,
+): { stop: () => void; done: Promise<void> } {
+  let stopping = false;
+  let wake: (() => void) | null = null;
+  const done = (async () => {
+    while (!stopping) {
+      let job: PgBoss.Job<ChunkJob> | undefined;
+      try {
+        [job] = (await boss.fetch<ChunkJob>(CHUNK_QUEUE, { batchSize: 1 })) ?? [];
+      } catch (error) {
+        console.error('Fetching an assessment job failed', error);
+      }
+      if (!job) {
+        await new Promise<void>((resolve) => {
+          wake = resolve;
+          setTimeout(resolve, IDLE_POLL_MS).unref();
+        });
+        wake = null;
+        continue;
+      }
+      try {
+        const outcome = await workNextChunk(db, pool, job.data.runId, options);
+        if (outcome === 'retry') await sendChunkJobs(db, job.data.runId, 1, { startAfterSeconds: 2 });
+        else if (outcome === 'done') await sendMissingJobs(db, job.data.runId);
+        await boss.complete(CHUNK_QUEUE, job.id);
+      } catch (error) {
+        console.error('An assessment job failed', error);
+        await boss.fail(CHUNK_QUEUE, job.id, { message: String(error) }).catch(() => undefined);
+      }
+    }
+  })();
+  return {
+    stop: () => {
+      stopping = true;
+      wake?.();
+    },
+    done,
+  };
+}
+
+/**
+ * Starts `count` workers in this process (each works one chunk at a time; two overlap reading, assessing and
+ * writing). `options` reach every chunk (tests stall a worker with them).
+ */
+export async function startWorkers(count: number, options: WorkOptions = {}): Promise<void> {
+  const boss = await getQueue();
+  // The workers are entry points: they take the process's database handles here and pass them down.
+  const db = getDb();
+  const pool = getPool();
+  for (let i = 0; i < count; i++) loops.push(startLoop(db, pool, boss, options));
+}
+
+/**
+ * Starts the queue when the server starts (see startup.ts), so the sweep hands back work left by a dead worker
+ * without waiting for anyone to ask, with the app's own workers; while the database cannot be reached it tries again
+ * every 10 s.
  */
 export function startQueueOnBoot(): void {
-  getQueue().catch((error: unknown) => {
+  startWorkers(config().assessments.appWorkers).catch((error: unknown) => {
     console.error('The assessment queue did not start; trying again in 10 s', error);
     setTimeout(startQueueOnBoot, 10_000).unref();
   });
 }
 
-/** Queues a new run; returns the job id. */
-export async function enqueueRun(db: Kysely<Database>, runId: string): Promise<string> {
-  const boss = await getQueue();
-  return queueRun(db, boss, runId, null);
-}
-
-/** Stops the queue (tests and shutdown). */
+/** Stops this process's workers after their current chunk, then the queue (shutdown and tests). */
 export async function stopQueue(): Promise<void> {
+  await drainWorkers();
   if (!started) return;
   const boss = await started;
   started = undefined;
   clearInterval(sweeper);
   await boss.stop({ graceful: true, wait: true });
+}
+
+/** Waits for this process's workers to finish their current chunk (graceful shutdown of a worker process). */
+export async function drainWorkers(): Promise<void> {
+  const current = loops.splice(0);
+  for (const loop of current) loop.stop();
+  await Promise.all(current.map((l) => l.done));
 }

@@ -3,11 +3,13 @@ import { riskBandNumber } from '../../engine/risk';
 import { label } from '../../engine/vocabulary';
 import type { EngineRoom } from './engine-input.repository';
 
-/** A room_results row. Money columns are against the headline baseline (`baseline`); ranks live in portfolio_ranks. */
+/**
+ * A room_results row: numbers and codes only. Money columns are against the headline baseline (`baseline`); ranks live
+ * in portfolio_ranks; the detail is recomputed from the chunk's input snapshot.
+ */
 export interface ResultRow {
   runId: string;
   roomId: string;
-  trustId: string;
   schoolId: string;
   blockId: string | null;
   ventilationType: string;
@@ -46,8 +48,10 @@ export interface ResultRow {
   heatingDegreeHoursKh: number;
   unitRunHours: number;
   assumedCount: number;
-  /** The RoomAssessment JSON (assessed without curves). */
-  detailJson: string;
+  /** The recommended units' full installed cost and life, and their lines as JSON [[count, model name], …]. */
+  installedCostGbp: number | null;
+  lifeYears: number | null;
+  unitLines: string | null;
   /** What the risk rests on: measured readings, the calibrated model, or the prediction. */
   riskEvidence: 'measured' | 'calibrated' | 'predicted';
 }
@@ -69,8 +73,11 @@ export function describeUnits(assessment: RoomAssessment, use: string | null = n
   return a.unitModels;
 }
 
+/** What a result row needs of the room beyond its assessment. */
+type RoomIds = Pick<EngineRoom, 'roomId' | 'schoolId' | 'blockId' | 'input'>;
+
 /** One assessed room as a result row: the worst season's CO2, the risk, and the headline appraisal per room. */
-export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAssessment): ResultRow {
+export function toResultRow(runId: string, room: RoomIds, assessment: RoomAssessment): ResultRow {
   const worst = assessment.seasons[assessment.worstSeason];
   // Columns carry recommended units only; every appraisal stays in the detail (room page, optimiser).
   const appraisal = assessment.appraisal?.feasible && assessment.appraisal.recommended ? assessment.appraisal : null;
@@ -78,7 +85,6 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
   return {
     runId,
     roomId: room.roomId,
-    trustId: room.trustId,
     schoolId: room.schoolId,
     blockId: room.blockId,
     ventilationType: room.input.room.ventilationType ?? 'natural_single_sided',
@@ -118,6 +124,8 @@ export function toResultRow(runId: string, room: EngineRoom, assessment: RoomAss
     unitRunHours: assessment.hours.unitRunHoursPerYear,
     assumedCount: assessment.assumed.length,
     riskEvidence: assessment.evidence?.kind ?? 'predicted',
-    detailJson: JSON.stringify(assessment),
+    installedCostGbp: appraisal?.capitalCostGbp ?? null,
+    lifeYears: appraisal?.lifeYears ?? null,
+    unitLines: appraisal ? JSON.stringify(appraisal.units.map((u) => [u.count, u.modelName])) : null,
   };
 }

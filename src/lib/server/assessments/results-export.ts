@@ -183,7 +183,7 @@ async function writeBook(
         rr.heating_degree_hours_kh, rr.unit_run_hours, rr.assumed_count,
         ar.assumptions_version, ar.assumption_set_id, ar.finished_at, rr.risk_evidence
       FROM portfolio_ranks pr
-      JOIN room_results rr ON rr.room_id = pr.room_id AND rr.trust_id = pr.trust_id AND rr.is_current
+      JOIN room_results rr ON rr.run_id = pr.run_id AND rr.room_id = pr.room_id
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id

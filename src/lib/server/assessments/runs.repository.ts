@@ -1,6 +1,7 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { RunProblem } from '../../../../db/tables/assessments';
+import { createChunks } from './chunks.repository';
 
 export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
 
@@ -19,13 +20,13 @@ export interface Run {
   startedByEmail: string | null;
   error: string | null;
   problems: RunProblem[];
-  jobId: string | null;
-  resumeAfterRoomId: string | null;
-  /** The worker working it (host/process id/boot nonce) and when it last said it was alive. */
-  workerId: string | null;
+  /** When a worker last claimed or committed one of its chunks. */
   heartbeatAt: string | null;
-  /** How many times a worker has started or resumed it. */
-  attempts: number;
+  /** The chunks it is split into and how many are committed. */
+  chunksTotal: number;
+  chunksDone: number;
+  /** When the retention rule removed its results. */
+  resultsPrunedAt: string | null;
   createdAt: string;
   startedAt: string | null;
   finishedAt: string | null;
@@ -58,11 +59,10 @@ const toRun = (r: RunRow): Run => ({
   startedByEmail: r.started_by_email,
   error: r.error,
   problems: r.problems,
-  jobId: r.job_id,
-  resumeAfterRoomId: r.resume_after_room_id,
-  workerId: r.worker_id,
   heartbeatAt: iso(r.heartbeat_at),
-  attempts: r.attempts,
+  chunksTotal: r.chunks_total,
+  chunksDone: r.chunks_done,
+  resultsPrunedAt: iso(r.results_pruned_at),
   createdAt: iso(r.created_at)!,
   startedAt: iso(r.started_at),
   finishedAt: iso(r.finished_at),
@@ -113,11 +113,18 @@ export interface NewRun {
   startedByEmail: string | null;
 }
 
+/** Rooms per chunk: small runs still show progress, big runs write in large batches. */
+export const defaultChunkSize = (roomsTotal: number) => Math.min(2000, Math.max(100, Math.ceil(roomsTotal / 20)));
+
 /**
- * Inserts a queued run with the rooms it will assess: every room in its scope now, kept in
- * assessment_run_rooms, so rooms added later wait for the next run and a resumed run covers the same set.
+ * Inserts a queued run with the rooms it will assess, split into chunks: every room in its scope now, kept in
+ * assessment_run_rooms, so rooms added later wait for the next run and a chunk worked again covers the same set.
  */
-export async function insertRun(db: Kysely<Database>, run: NewRun): Promise<{ id: string; roomsTotal: number }> {
+export async function insertRun(
+  db: Kysely<Database>,
+  run: NewRun,
+  chunkSize?: number,
+): Promise<{ id: string; roomsTotal: number; chunksTotal: number }> {
   const insert = async (trx: Kysely<Database>) => {
     const { id } = await trx
       .insertInto('assessment_runs')
@@ -139,123 +146,29 @@ export async function insertRun(db: Kysely<Database>, run: NewRun): Promise<{ id
       WHERE schools.trust_id = ${run.trustId} AND ${inScope}`.execute(trx);
     const roomsTotal = Number(snapshot.numAffectedRows ?? 0);
     await trx.updateTable('assessment_runs').set({ rooms_total: roomsTotal }).where('id', '=', id).execute();
-    return { id, roomsTotal };
+    const chunksTotal = await createChunks(trx, id, chunkSize ?? defaultChunkSize(roomsTotal));
+    return { id, roomsTotal, chunksTotal };
   };
   return db.isTransaction ? insert(db) : db.transaction().execute(insert);
 }
 
-/**
- * Claims a run for a worker: a queued run, a running one whose worker has gone silent for
- * `deadAfterSeconds`, or one this worker already holds (a retry in the same process). Counts the attempt
- * and starts the heartbeat; returns the attempt number, or null when the run is finished or another
- * worker is working it.
- */
-export async function claimRun(
-  db: Kysely<Database>,
-  id: string,
-  workerId: string,
-  deadAfterSeconds: number,
-): Promise<number | null> {
-  const row = await db
-    .updateTable('assessment_runs')
-    .set({
-      status: 'running',
-      started_at: sql`COALESCE(started_at, now())`,
-      worker_id: workerId,
-      heartbeat_at: sql`now()`,
-      attempts: sql`attempts + 1`,
-      updated_at: new Date(),
-    })
-    .where('id', '=', id)
-    .where((eb) =>
-      eb.or([
-        eb('status', '=', 'queued'),
-        eb.and([eb('status', '=', 'running'), eb('worker_id', '=', workerId)]),
-        eb.and([
-          eb('status', '=', 'running'),
-          eb.or([
-            eb('heartbeat_at', 'is', null),
-            eb('heartbeat_at', '<', sql<Date>`now() - make_interval(secs => ${deadAfterSeconds})`),
-          ]),
-        ]),
-      ]),
-    )
-    .returning('attempts')
-    .executeTakeFirst();
-  return row ? row.attempts : null;
-}
-
-/** The worker says it is still working the run; false when the run is no longer its own (or running). */
-export async function beat(db: Kysely<Database>, id: string, workerId: string): Promise<boolean> {
-  const result = await db
-    .updateTable('assessment_runs')
-    .set({ heartbeat_at: sql`now()` })
-    .where('id', '=', id)
-    .where('worker_id', '=', workerId)
-    .where('status', '=', 'running')
-    .executeTakeFirst();
-  return Number(result.numUpdatedRows) > 0;
-}
-
-/**
- * Puts a run back in the queue under a new job, to be resumed after its last committed chunk; with
- * `fromWorker`, only while that worker (null: none) still holds it.
- */
-export async function requeueRun(
-  db: Kysely<Database>,
-  id: string,
-  jobId: string,
-  note: string | null,
-  fromWorker?: string | null,
-): Promise<void> {
-  let q = db
-    .updateTable('assessment_runs')
-    .set({ status: 'queued', job_id: jobId, worker_id: null, ...(note ? { error: note } : {}), updated_at: new Date() })
-    .where('id', '=', id)
-    .where('status', 'in', ['queued', 'running']);
-  if (fromWorker !== undefined)
-    q = fromWorker === null ? q.where('worker_id', 'is', null) : q.where('worker_id', '=', fromWorker);
-  await q.execute();
-}
-
-/** Running runs and their workers, for the sweep that finds runs whose worker is gone. */
-export async function runningRuns(
-  db: Kysely<Database>,
-  deadAfterSeconds: number,
-): Promise<{ id: string; workerId: string | null; silent: boolean }[]> {
+/** Running runs whose chunks are all done for `idleSeconds` (their finishing worker stopped before switching them). */
+export async function runsToFinish(db: Kysely<Database>, idleSeconds: number): Promise<string[]> {
   const rows = await db
     .selectFrom('assessment_runs')
-    .select([
-      'id',
-      'worker_id',
-      sql<boolean>`heartbeat_at IS NULL OR heartbeat_at < now() - make_interval(secs => ${deadAfterSeconds})`.as(
-        'silent',
-      ),
-    ])
+    .select('id')
     .where('status', '=', 'running')
-    .execute();
-  return rows.map((r) => ({ id: r.id, workerId: r.worker_id, silent: r.silent }));
-}
-
-/** Queued runs whose job may be gone (nothing has happened to them for `idleSeconds`). */
-export async function idleQueuedRuns(
-  db: Kysely<Database>,
-  idleSeconds: number,
-): Promise<{ id: string; jobId: string | null }[]> {
-  const rows = await db
-    .selectFrom('assessment_runs')
-    .select(['id', 'job_id'])
-    .where('status', '=', 'queued')
+    .whereRef('chunks_done', '>=', 'chunks_total')
     .where('updated_at', '<', sql<Date>`now() - make_interval(secs => ${idleSeconds})`)
     .execute();
-  return rows.map((r) => ({ id: r.id, jobId: r.job_id }));
+  return rows.map((r) => r.id);
 }
 
 /** Marks an unfinished run failed with a message a person can act on. */
 export async function markFailed(db: Kysely<Database>, id: string, message: string): Promise<void> {
   await db
     .updateTable('assessment_runs')
-    .set({ status: 'failed', error: message, worker_id: null, finished_at: new Date(), updated_at: new Date() })
+    .set({ status: 'failed', error: message, finished_at: new Date(), updated_at: new Date() })
     .where('id', '=', id)
     .where('status', 'in', ['queued', 'running'])
     .execute();

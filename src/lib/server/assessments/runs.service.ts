@@ -6,7 +6,8 @@ import { findSchool } from '../estate/schools.repository';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
-import { enqueueRun, getQueue } from './queue';
+import { chunkCounts } from './chunks.repository';
+import { sendChunkJobs } from './queue';
 import { findActiveRun, getRun, insertRun, listRuns, type Run } from './runs.repository';
 
 type Actor = Pick<AuditEntry, 'actorUserId' | 'actorEmail'>;
@@ -27,9 +28,15 @@ export interface RunStatusView {
   assumptionsVersion: string | null;
   error?: string;
   problems: Run['problems'];
+  /** The chunks the run is split into: committed, being worked now, waiting. */
+  chunks: { total: number; done: number; running: number; pending: number };
+  /** When the retention rule removed its results (it stays in the history). */
+  resultsPrunedAt: string | null;
 }
 
-export const toStatusView = (run: Run): RunStatusView => ({
+type ChunkCounts = { pending: number; running: number; done: number };
+
+export const toStatusView = (run: Run, counts?: ChunkCounts): RunStatusView => ({
   id: run.id,
   scope: run.scope,
   schoolId: run.schoolId,
@@ -44,11 +51,27 @@ export const toStatusView = (run: Run): RunStatusView => ({
   assumptionsVersion: run.assumptionsVersion,
   ...(run.error ? { error: run.error } : {}),
   problems: run.problems,
+  // Done, running and pending from one count when there is one, so they add up to the total even while chunks finish.
+  chunks: {
+    total: run.chunksTotal,
+    done: counts?.done ?? run.chunksDone,
+    running: counts?.running ?? 0,
+    pending: counts?.pending ?? Math.max(0, run.chunksTotal - run.chunksDone),
+  },
+  resultsPrunedAt: run.resultsPrunedAt,
 });
 
+/** The runs as the API shows them, each with how its chunks stand. */
+async function statusViews(db: Kysely<Database>, runs: Run[]): Promise<RunStatusView[]> {
+  const active = runs.filter((r) => r.status === 'queued' || r.status === 'running').map((r) => r.id);
+  const counts = await chunkCounts(db, active);
+  return runs.map((r) => toStatusView(r, counts.get(r.id)));
+}
+
 /**
- * Queues an assessment of the trust or one school under the trust's current assumption set. A run of the
- * same scope that is still queued or running is returned instead of starting a second one.
+ * Queues an assessment of the trust or one school under the trust's current assumption set: the run, its snapshot of
+ * rooms split into chunks, one queue job per chunk and the audit event, in one transaction. A run of the same scope
+ * that is still queued or running is returned instead of starting a second one.
  */
 export async function startRun(
   db: Kysely<Database>,
@@ -60,13 +83,16 @@ export async function startRun(
   if (schoolId === null && trust.schoolIds !== null)
     throw forbidden('run an assessment of the whole trust (your access is limited to some schools)');
   if (schoolId !== null && !(await findSchool(db, trust, schoolId))) throw notFound('That school');
-  await getQueue();
   const active = await findActiveRun(db, trust.id, schoolId);
   if (active) return { id: active.id, alreadyRunning: true };
 
   const assumptions = await getCurrentAssumptionSet(db, trust.id);
   const id = await db.transaction().execute(async (trx) => {
-    const { id: runId, roomsTotal } = await insertRun(trx, {
+    const {
+      id: runId,
+      roomsTotal,
+      chunksTotal,
+    } = await insertRun(trx, {
       trustId: trust.id,
       schoolId,
       assumptionSetId: assumptions.id,
@@ -81,11 +107,11 @@ export async function startRun(
       entityType: 'assessment_run',
       entityId: runId,
       summary: `Assessment of ${schoolId ? 'one school' : 'the whole trust'} started (${roomsTotal} rooms, assumptions ${assumptions.label})`,
-      after: { scope: body.scope, schoolId, roomsTotal, assumptionsVersion: assumptions.label },
+      after: { scope: body.scope, schoolId, roomsTotal, chunksTotal, assumptionsVersion: assumptions.label },
     });
+    await sendChunkJobs(trx, runId, chunksTotal);
     return runId;
   });
-  await enqueueRun(db, id);
   return { id, alreadyRunning: false };
 }
 
@@ -118,7 +144,8 @@ export async function getRunStatus(db: Kysely<Database>, trust: ActiveTrust, id:
   const run = await getRun(db, id, trust.id);
   const [visible] = run ? await visibleTo(db, trust, [run]) : [];
   if (!visible) throw notFound('That assessment run');
-  return toStatusView(visible);
+  const [view] = await statusViews(db, [visible]);
+  return view!;
 }
 
 /** The trust's recent runs, newest first. */
@@ -127,6 +154,5 @@ export async function listRecentRuns(
   trust: ActiveTrust,
   limit: number,
 ): Promise<RunStatusView[]> {
-  await getQueue();
-  return (await visibleTo(db, trust, await listRuns(db, trust.id, limit))).map(toStatusView);
+  return statusViews(db, await visibleTo(db, trust, await listRuns(db, trust.id, limit)));
 }

@@ -8,7 +8,7 @@ import type { Role } from './context';
 export const STATEMENTS = {
   estate: ['read'],
   register: ['create', 'update', 'delete', 'import', 'export'],
-  assessment: ['read', 'run', 'export'],
+  assessment: ['read', 'run', 'export', 'manage'],
   assumptions: ['read', 'edit_technical', 'edit_financial'],
   portfolio: ['read', 'save_weights', 'export'],
   monitoring: ['read', 'import', 'calibrate'],

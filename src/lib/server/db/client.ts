@@ -12,7 +12,7 @@ let instance: Kysely<Database> | undefined;
 
 /** The shared pg pool (also handed to better-auth and pg-boss so there is one pool per process). */
 export function getPool(): pg.Pool {
-  pool ??= new pg.Pool({ connectionString: config().databaseUrl, max: 10 });
+  pool ??= new pg.Pool({ connectionString: config().databaseUrl, max: config().databasePoolMax });
   return pool;
 }
 

@@ -2,26 +2,38 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { ActiveTrust } from '../auth/context';
-import type { Co2BySchool, CumulativePoint, Dashboard, ScatterPoint } from './portfolio.types';
-import { ensureRanks } from './ranking.repository';
+import type { Co2BySchool, Dashboard, ScatterPoint } from './portfolio.types';
+import { cumulativeCurve, ensureRanks, storedCurve } from './ranking.repository';
 
 /** Most points the scatter shows (the highest-ranked rooms with a retrofit); more would not be readable. */
 export const SCATTER_MAX_POINTS = 1500;
-/** Most points of the cumulative curve; the curve is sampled evenly along the ranked order. */
-export const CUMULATIVE_MAX_POINTS = 200;
 
-const scopeSql = (trust: ActiveTrust) =>
+/** Each school's current run's figures (run_school_summaries `rs`). */
+const SUMMARIES = sql`run_school_summaries rs
+  JOIN assessment_current ac ON ac.run_id = rs.run_id AND ac.school_id = rs.school_id`;
+
+/** The member's schools' summaries. */
+const inScope = (trust: ActiveTrust) =>
   trust.schoolIds
-    ? sql`rr.trust_id = ${trust.id} AND rr.is_current AND rr.school_id = ANY(${trust.schoolIds}::uuid[])`
-    : sql`rr.trust_id = ${trust.id} AND rr.is_current`;
+    ? sql`ac.trust_id = ${trust.id} AND ac.school_id = ANY(${trust.schoolIds}::uuid[])`
+    : sql`ac.trust_id = ${trust.id}`;
 
-/** The trust's headline figures: rooms, failing rooms and their pupils, capital and saving of every recommended unit. */
+/** The baseline most of the rooms' figures are against (ties go to the first name in alphabetical order, as mode() does). */
+function mostCommonBaseline(counts: Record<string, number>): string | null {
+  let best: string | null = null;
+  for (const [baseline, n] of Object.entries(counts).sort(([a], [b]) => a.localeCompare(b)))
+    if (n > 0 && (best === null || n > (counts[best] ?? 0))) best = baseline;
+  return best;
+}
+
+/**
+ * The trust's headline figures: rooms, failing rooms and their pupils, capital and saving of every recommended unit.
+ * Summed from each school's current run's figures, computed once when the run finished.
+ */
 export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard['headline']> {
-  const scope = scopeSql(trust);
   const roomScope = trust.schoolIds
     ? sql`s.trust_id = ${trust.id} AND s.id = ANY(${trust.schoolIds}::uuid[])`
     : sql`s.trust_id = ${trust.id}`;
-  const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
   const [headline, register, lastRun] = await Promise.all([
     sql<{
       assessed: number;
@@ -29,18 +41,18 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
       pupils_failing: number;
       capital: number;
       saving: number;
-      baseline: string | null;
       measured: number;
       calibrated: number;
+      today: number;
+      same_air: number;
+      simpler: number;
     }>`
-      SELECT count(*)::int AS assessed, mode() WITHIN GROUP (ORDER BY rr.baseline) AS baseline,
-        count(*) FILTER (WHERE rr.risk_evidence = 'measured')::int AS measured,
-        count(*) FILTER (WHERE rr.risk_evidence = 'calibrated')::int AS calibrated,
-        count(*) FILTER (WHERE NOT rr.criteria_met)::int AS failing,
-        coalesce(sum(rr.pupils) FILTER (WHERE NOT rr.criteria_met), 0)::int AS pupils_failing,
-        coalesce(sum(rr.capital_cost_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS capital,
-        coalesce(sum(rr.annual_saving_gbp) FILTER (WHERE ${retrofitted}), 0)::float8 AS saving
-      FROM room_results rr WHERE ${scope}`.execute(db),
+      SELECT coalesce(sum(rs.assessed), 0)::int AS assessed, coalesce(sum(rs.failing), 0)::int AS failing,
+        coalesce(sum(rs.pupils_failing), 0)::int AS pupils_failing, coalesce(sum(rs.capital_gbp), 0)::float8 AS capital,
+        coalesce(sum(rs.saving_gbp), 0)::float8 AS saving, coalesce(sum(rs.measured), 0)::int AS measured,
+        coalesce(sum(rs.calibrated), 0)::int AS calibrated, coalesce(sum(rs.baseline_today), 0)::int AS today,
+        coalesce(sum(rs.baseline_same_air), 0)::int AS same_air, coalesce(sum(rs.baseline_simpler), 0)::int AS simpler
+      FROM ${SUMMARIES} WHERE ${inScope(trust)}`.execute(db),
     sql<{
       n: number;
     }>`SELECT count(*)::int AS n FROM rooms r JOIN schools s ON s.id = r.school_id WHERE ${roomScope}`.execute(db),
@@ -61,29 +73,42 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
     pupilsInFailingRooms: h.pupils_failing,
     capitalAllUnitsGbp: h.capital,
     annualSavingGbp: h.saving,
-    baseline: h.baseline,
+    baseline: mostCommonBaseline({
+      today: h.today,
+      same_air_without_recovery: h.same_air,
+      simpler_option: h.simpler,
+    }),
     lastRunFinishedAt: lastRun?.finished_at ? new Date(lastRun.finished_at).toISOString() : null,
     evidence: { measured: h.measured, calibrated: h.calibrated, predicted: h.assessed - h.measured - h.calibrated },
   };
 }
 
-/** Everything the dashboard shows. */
+/**
+ * Everything the dashboard shows. Aggregates come from each school's current run's figures and the curve from the
+ * ranking (both computed once, when a run finishes or the ranks change), so a 550,000-room estate answers as fast as
+ * a small one; the scatter reads the top ranks through portfolio_ranks' index.
+ */
 export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard> {
   await ensureRanks(db, trust.id);
-  const scope = scopeSql(trust);
-  const retrofitted = sql`rr.unit_count > 0 AND rr.capital_cost_gbp IS NOT NULL`;
+  const limited = trust.schoolIds ? sql`AND pr.school_id = ANY(${trust.schoolIds}::uuid[])` : sql``;
 
-  const [headline, co2, scatter, scatterTotal, cumulative] = await Promise.all([
+  const [headline, co2, scatter, curve] = await Promise.all([
     headlineFigures(db, trust),
-    sql<{ school_id: string; school_name: string; b1: number; b2: number; b3: number; b4: number }>`
-      SELECT rr.school_id, s.name AS school_name,
-        count(*) FILTER (WHERE rr.mean_co2_ppm < 1000)::int AS b1,
-        count(*) FILTER (WHERE rr.mean_co2_ppm >= 1000 AND rr.mean_co2_ppm < 1500)::int AS b2,
-        count(*) FILTER (WHERE rr.mean_co2_ppm >= 1500 AND rr.mean_co2_ppm < 2000)::int AS b3,
-        count(*) FILTER (WHERE rr.mean_co2_ppm >= 2000)::int AS b4
-      FROM room_results rr JOIN schools s ON s.id = rr.school_id
-      WHERE ${scope}
-      GROUP BY rr.school_id, s.name ORDER BY s.name`.execute(db),
+    sql<{
+      school_id: string;
+      school_name: string;
+      b1: number;
+      b2: number;
+      b3: number;
+      b4: number;
+      rf: number;
+      nv: number;
+    }>`
+      SELECT rs.school_id, s.name AS school_name, rs.co2_below_1000 AS b1, rs.co2_1000_1500 AS b2, rs.co2_1500_2000 AS b3,
+        rs.co2_above_2000 AS b4, rs.retrofitted AS rf, rs.retrofitted_never_pay_back AS nv
+      FROM ${SUMMARIES} JOIN schools s ON s.id = rs.school_id
+      WHERE ${inScope(trust)} AND rs.assessed > 0
+      ORDER BY s.name`.execute(db),
     sql<{
       room_id: string;
       label: string;
@@ -92,28 +117,15 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
       capital_cost_gbp: number;
       risk_band: number;
     }>`
-      SELECT rr.room_id, s.name || ' · ' || r.code AS label, rr.risk_score, rr.simple_payback_years, rr.capital_cost_gbp, rr.risk_band
-      FROM room_results rr
-        JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
-        JOIN rooms r ON r.id = rr.room_id JOIN schools s ON s.id = rr.school_id
-      WHERE ${scope} AND ${retrofitted} AND rr.simple_payback_years IS NOT NULL
+      SELECT pr.room_id, s.name || ' · ' || r.code AS label, rr.risk_score, pr.simple_payback_years,
+        pr.capital_cost_gbp, pr.risk_band
+      FROM portfolio_ranks pr
+        JOIN room_results rr ON rr.run_id = pr.run_id AND rr.room_id = pr.room_id
+        JOIN rooms r ON r.id = pr.room_id JOIN schools s ON s.id = pr.school_id
+      WHERE pr.trust_id = ${trust.id} ${limited} AND pr.unit_count > 0 AND pr.capital_cost_gbp IS NOT NULL
+        AND pr.simple_payback_years IS NOT NULL
       ORDER BY pr.rank LIMIT ${SCATTER_MAX_POINTS}`.execute(db),
-    sql<{ n: number; never: number }>`SELECT count(*) FILTER (WHERE rr.simple_payback_years IS NOT NULL)::int AS n,
-      count(*) FILTER (WHERE rr.simple_payback_years IS NULL)::int AS never
-      FROM room_results rr WHERE ${scope} AND ${retrofitted}`.execute(db),
-    sql<{ rank: number; cc: number; ch: number }>`
-      WITH ordered AS (
-        SELECT pr.rank,
-          sum(rr.capital_cost_gbp) OVER w AS cc,
-          sum(coalesce(rr.pupil_hours_removed_per_1000_gbp, 0) * rr.capital_cost_gbp / 1000) OVER w AS ch,
-          row_number() OVER w AS rn, count(*) OVER () AS n
-        FROM room_results rr JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
-        WHERE ${scope} AND ${retrofitted}
-        WINDOW w AS (ORDER BY pr.rank ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)
-      )
-      SELECT rank, cc::float8 AS cc, ch::float8 AS ch FROM ordered
-      WHERE rn % greatest(1, ceil(n / ${CUMULATIVE_MAX_POINTS}::float8))::int = 0 OR rn = n OR rn = 1
-      ORDER BY rn`.execute(db),
+    trust.schoolIds ? cumulativeCurve(db, trust.id, trust.schoolIds) : storedCurve(db, trust.id),
   ]);
 
   const co2BySchool: Co2BySchool[] = co2.rows.map((r) => ({
@@ -132,20 +144,15 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
     capitalCostGbp: r.capital_cost_gbp,
     riskBand: r.risk_band,
   }));
-  const curve: CumulativePoint[] = cumulative.rows.map((r) => ({
-    rank: Number(r.rank),
-    cumulativeCapitalGbp: r.cc,
-    cumulativePupilHoursRemoved: r.ch,
-  }));
   const last = curve[curve.length - 1];
   return {
     headline,
     co2BySchool,
     scatter: {
       points,
-      totalWithRetrofit: scatterTotal.rows[0]?.n ?? 0,
+      totalWithRetrofit: co2.rows.reduce((sum, r) => sum + r.rf - r.nv, 0),
       shown: points.length,
-      neverPayBack: scatterTotal.rows[0]?.never ?? 0,
+      neverPayBack: co2.rows.reduce((sum, r) => sum + r.nv, 0),
     },
     cumulative: {
       points: curve,

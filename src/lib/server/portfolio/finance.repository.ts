@@ -4,7 +4,6 @@ import type { Database } from '../../../../db/database';
 import { DEFAULT_ASSUMPTIONS } from '../../engine/assumptions';
 import { getAssumptionSetById } from '../assessments/assumptions.repository';
 import { simplePaybackYears } from '../../engine/finance';
-import type { RetrofitUnitLine } from '../../engine/types';
 import { label } from '../../engine/vocabulary';
 import type { ActiveTrust } from '../auth/context';
 import {
@@ -47,7 +46,8 @@ interface Row {
   heating_efficiency: number | null;
   price_source: string | null;
   efficiency_source: string | null;
-  units: RetrofitUnitLine[] | null;
+  /** The recommended units as JSON [[count, model name], …]. */
+  unit_lines: string | null;
 }
 
 const emptyTotals = (): MoneyTotals & { lifetimeTonnes: number; maintenanceGbp: number } => ({
@@ -94,7 +94,8 @@ function finish(sum: Accumulator): MoneyTotals {
 function unitRows(row: Row, currentYear: number): { unit: FinanceUnitRow; maintenanceGbp: number }[] {
   if (row.unit_count <= 0) return [];
   const k = 1 / row.unit_count;
-  const models = (row.units ?? []).flatMap((line) => Array.from({ length: line.count }, () => line.modelName));
+  const lines = row.unit_lines ? (JSON.parse(row.unit_lines) as [number, string][]) : [];
+  const models = lines.flatMap(([count, modelName]) => Array.from({ length: count }, () => modelName));
   const heatingRenewal = heatingRenewalFlag({
     fuel: row.heating_fuel,
     installedYear: row.heating_installed_year,
@@ -159,12 +160,7 @@ export async function financeReport(
   query: FinanceQuery,
   now = new Date(),
 ): Promise<FinanceReport> {
-  const scope = [
-    sql`rr.trust_id = ${trust.id}`,
-    sql`rr.is_current`,
-    sql`rr.unit_count > 0`,
-    sql`rr.capital_cost_gbp IS NOT NULL`,
-  ];
+  const scope = [sql`rr.trust_id = ${trust.id}`, sql`rr.unit_count > 0`, sql`rr.capital_cost_gbp IS NOT NULL`];
   if (trust.schoolIds) scope.push(sql`rr.school_id = ANY(${trust.schoolIds}::uuid[])`);
   if (query.schoolId) scope.push(sql`rr.school_id = ${query.schoolId}::uuid`);
   const [result, lastRun] = await Promise.all([
@@ -175,8 +171,8 @@ export async function financeReport(
         rr.discounted_payback_years, rr.npv_gbp, rr.annual_heating_saving_kwh, rr.annual_fan_saving_kwh,
         rr.annual_maintenance_saving_gbp, rr.replacement_cost_gbp, rr.capital_per_tonne_co2e_gbp, rr.baseline, rr.verdict,
         rr.heating_fuel AS heat_fuel, rr.fuel_price_gbp_per_kwh, rr.heating_efficiency, rr.price_source, rr.efficiency_source,
-        rr.detail->'appraisal'->'units' AS units
-      FROM room_results rr
+        rr.unit_lines
+      FROM current_room_results rr
         JOIN rooms r ON r.id = rr.room_id
         JOIN schools s ON s.id = rr.school_id
         LEFT JOIN blocks b ON b.id = rr.block_id

@@ -11,7 +11,7 @@ export async function portfolioState(
 ): Promise<{ hasRooms: boolean; hasResults: boolean }> {
   const row = await sql<{ has_rooms: boolean; has_results: boolean }>`
     SELECT EXISTS (SELECT 1 FROM rooms JOIN schools ON schools.id = rooms.school_id WHERE ${inTrustScope(trust)}) AS has_rooms,
-      EXISTS (SELECT 1 FROM room_results rr WHERE rr.trust_id = ${trust.id} AND rr.is_current
+      EXISTS (SELECT 1 FROM current_room_results rr WHERE rr.trust_id = ${trust.id}
         ${trust.schoolIds ? sql`AND rr.school_id = ANY(${trust.schoolIds}::uuid[])` : sql``}) AS has_results`.execute(
     db,
   );

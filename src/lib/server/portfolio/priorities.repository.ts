@@ -133,7 +133,7 @@ export async function selectPriorityRows(
   const page = limit === null ? sql`` : sql`LIMIT ${limit} OFFSET ${offset}`;
   const result = await sql<Row>`
     WITH page AS (
-      SELECT pr.room_id, ${rank} AS rank, ${score} AS score, row_number() OVER (ORDER BY ${order}) AS position
+      SELECT pr.room_id, pr.run_id, ${rank} AS rank, ${score} AS score, row_number() OVER (ORDER BY ${order}) AS position
       FROM (SELECT pr.* FROM ${rankedSource(trust, preview)} WHERE ${filterSql(trust, query)} ORDER BY ${order} ${page}) pr
     )
     SELECT rr.room_id, page.rank, page.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
@@ -142,7 +142,7 @@ export async function selectPriorityRows(
       rr.unit_count, rr.capital_cost_gbp, rr.annual_saving_gbp, rr.simple_payback_years, rr.npv_gbp, rr.baseline,
       rr.verdict, rr.assumed_count, rr.risk_evidence
     FROM page
-      JOIN room_results rr ON rr.room_id = page.room_id AND rr.is_current AND rr.trust_id = ${trust.id}
+      JOIN room_results rr ON rr.run_id = page.run_id AND rr.room_id = page.room_id
       JOIN schools s ON s.id = rr.school_id
       JOIN rooms r ON r.id = rr.room_id
       LEFT JOIN blocks b ON b.id = rr.block_id

@@ -11,11 +11,11 @@ import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { Weights } from './portfolio.schemas';
 import type { WeightSettings } from './portfolio.types';
 
-/** The stored parts that decide a room's rank (columns of its current room_results row). */
+/** The stored parts that decide a room's rank (columns of its current result row). */
 export async function loadRankParts(db: Kysely<Database>, trustId: string): Promise<RankParts[]> {
   const { rows } = await sql<{ room_id: string; r: number; h: number; ce: number | null; pb: number | null }>`
     SELECT room_id, risk_score AS r, pupil_hours_above AS h, pupil_hours_removed_per_1000_gbp AS ce, simple_payback_years AS pb
-    FROM room_results WHERE trust_id = ${trustId} AND is_current`.execute(db);
+    FROM current_room_results WHERE trust_id = ${trustId}`.execute(db);
   return rows.map((row) => ({
     roomId: row.room_id,
     riskScore: row.r,
@@ -116,6 +116,15 @@ export async function ensureRanks(db: Kysely<Database>, trustId: string): Promis
 }
 
 /**
+ * Rebuilds the trust's ranks now if they are stale, waiting for a rebuild already running (the worker that finishes a
+ * run calls it, so the first page read after the run does not wait for the ranking).
+ */
+export async function refreshRanks(db: Kysely<Database>, trustId: string): Promise<RankState> {
+  forgetRankState(trustId);
+  return checkRanks(db, trustId, { wait: true });
+}
+
+/**
  * Reads the trust's rank state and rebuilds stale ranks. With `wait: false`, a reader that finds another
  * request already rebuilding gets the previous ranks (and their weights) instead of waiting for it.
  */
@@ -178,17 +187,19 @@ async function rebuildRanks(
     await trx.deleteFrom('portfolio_ranks').where('trust_id', '=', trustId).execute();
     const r = await computeRanks(trx, trustId, weights);
     await sql`
-      INSERT INTO portfolio_ranks (trust_id, room_id, school_id, rank, score, block_id, school_name, ventilation_type, risk_band,
-        criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp, simple_payback_years, npv_gbp,
-        pupil_hours_above, score_risk, score_cost_effectiveness, score_payback)
-      SELECT rr.trust_id, rr.room_id, rr.school_id, v.rank, v.score,
+      INSERT INTO portfolio_ranks (trust_id, room_id, school_id, run_id, rank, score, block_id, school_name, ventilation_type,
+        risk_band, criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp, simple_payback_years, npv_gbp,
+        pupil_hours_above, pupil_hours_removed, score_risk, score_cost_effectiveness, score_payback)
+      SELECT rr.trust_id, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
         rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
-        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, v.risk, v.ce, v.pb
+        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.pupil_hours_removed,
+        v.risk, v.ce, v.pb
       FROM unnest(${r.ids}::uuid[], ${r.ranks}::int[], ${r.scores}::float8[], ${r.risk}::float8[], ${r.ce}::float8[], ${r.pb}::float8[])
           AS v(room_id, rank, score, risk, ce, pb)
-        JOIN room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId} AND rr.is_current
+        JOIN current_room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId}
         JOIN schools s ON s.id = rr.school_id`.execute(trx);
     await sql`ANALYZE portfolio_ranks`.execute(trx);
+    const curve = await cumulativeCurve(trx, trustId, null);
     await trx
       .insertInto('portfolio_settings')
       .values({
@@ -196,12 +207,14 @@ async function rebuildRanks(
         ranked_weights: JSON.stringify(weights),
         ranked_stamp: stampRow.stamp,
         ranked_at: new Date(),
+        ranked_curve: JSON.stringify(curve),
       })
       .onConflict((oc) =>
         oc.column('trust_id').doUpdateSet({
           ranked_weights: JSON.stringify(weights),
           ranked_stamp: stampRow.stamp,
           ranked_at: new Date(),
+          ranked_curve: JSON.stringify(curve),
         }),
       )
       .execute();
@@ -245,6 +258,54 @@ export async function saveWeights(
   // The person who saved sees the list in their new order: wait for any rebuild already running.
   await checkRanks(db, trustId, { wait: true });
   return getWeightSettings(db, trustId);
+}
+
+/** Most points of the cumulative curve; the curve is sampled evenly along the ranked order. */
+export const CUMULATIVE_MAX_POINTS = 200;
+
+/** One point of the cumulative curve: capital and pupil-hours removed a year of every retrofit up to a rank. */
+export interface CurvePoint {
+  rank: number;
+  cumulativeCapitalGbp: number;
+  cumulativePupilHoursRemoved: number;
+}
+
+/**
+ * The cumulative capital and pupil-hours removed along the ranked order (rooms with a retrofit), sampled to at most
+ * CUMULATIVE_MAX_POINTS + 1 points, for the whole trust (stored with the ranks) or a member's schools.
+ */
+export async function cumulativeCurve(
+  db: Kysely<Database>,
+  trustId: string,
+  schoolIds: readonly string[] | null,
+): Promise<CurvePoint[]> {
+  const limited = schoolIds === null ? sql`TRUE` : sql`school_id = ANY(${[...schoolIds]}::uuid[])`;
+  const { rows } = await sql<{ rank: number; cc: number; ch: number }>`
+    WITH ordered AS (
+      SELECT rank, sum(capital_cost_gbp) OVER w AS cc, sum(coalesce(pupil_hours_removed, 0)) OVER w AS ch,
+        row_number() OVER w AS rn, count(*) OVER () AS n
+      FROM portfolio_ranks
+      WHERE trust_id = ${trustId} AND ${limited} AND unit_count > 0 AND capital_cost_gbp IS NOT NULL
+      WINDOW w AS (ORDER BY rank ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)
+    )
+    SELECT rank, cc::float8 AS cc, ch::float8 AS ch FROM ordered
+    WHERE rn % greatest(1, ceil(n / ${CUMULATIVE_MAX_POINTS}::float8))::int = 0 OR rn = n OR rn = 1
+    ORDER BY rn`.execute(db);
+  return rows.map((r) => ({
+    rank: Number(r.rank),
+    cumulativeCapitalGbp: r.cc,
+    cumulativePupilHoursRemoved: r.ch,
+  }));
+}
+
+/** The trust's cumulative curve as stored with its ranks (ensureRanks first). */
+export async function storedCurve(db: Kysely<Database>, trustId: string): Promise<CurvePoint[]> {
+  const row = await db
+    .selectFrom('portfolio_settings')
+    .select('ranked_curve')
+    .where('trust_id', '=', trustId)
+    .executeTakeFirst();
+  return (row?.ranked_curve as CurvePoint[] | null | undefined) ?? [];
 }
 
 /** A room's place in its trust under the saved weights (the rank every page and export shows), or null. */

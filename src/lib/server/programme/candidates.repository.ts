@@ -80,16 +80,15 @@ export async function readCandidates(
       rr.pupil_hours_removed,
       -- The headline baseline's servicing line is a saving; the programme counts the units' extra servicing a year.
       -rr.annual_maintenance_saving_gbp AS maintenance_gbp,
-      (rr.detail->'appraisal'->>'capitalCostGbp')::float8 AS installed_cost_gbp,
-      (rr.detail->'appraisal'->>'lifeYears')::float8 AS life_years,
+      rr.installed_cost_gbp, rr.life_years,
       ma.result AS measured
-    FROM room_results rr
+    FROM current_room_results rr
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id
       LEFT JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
       LEFT JOIN monitor_room_analyses ma ON ma.room_id = rr.room_id AND ma.trust_id = rr.trust_id
-    WHERE rr.trust_id = ${trustId} AND rr.is_current ${scope}
+    WHERE rr.trust_id = ${trustId} ${scope}
     ORDER BY rr.room_id`.execute(db);
 
   const candidates: ProgrammeCandidate[] = [];
