@@ -60,7 +60,11 @@ describe('webhook signatures', () => {
     const [latest] = (await stripe.events.list({ limit: 1 })).data;
     const forgedId = `evt_forged_${Date.now()}`;
     const payload = JSON.stringify({ ...latest, id: forgedId });
-    const before = await countRows(trustId, forgedId);
+    // The checkout's last webhook closes its checkout page; from then on only this test writes to the trust.
+    const before = await waitUntil('the checkout is closed', async () => {
+      const rows = await countRows(trustId, forgedId);
+      return rows.account?.open_checkout_session_id === null ? rows : undefined;
+    });
     expect(before.events).toBe(0);
 
     const missing = await postWebhook(payload);
@@ -70,7 +74,11 @@ describe('webhook signatures', () => {
     const validForOther = sign(payload);
     expect((await postWebhook(payload.replace('"livemode":false', '"livemode":true'), validForOther)).status).toBe(400);
 
-    expect(await countRows(trustId, forgedId)).toEqual(before);
+    // Late genuine webhooks may store the same state again (updated_at); nothing else may change.
+    const after = await countRows(trustId, forgedId);
+    const { updated_at: _storedAgainBefore, ...accountBefore } = before.account ?? {};
+    const { updated_at: _storedAgainAfter, ...accountAfter } = after.account ?? {};
+    expect({ ...after, account: accountAfter }).toEqual({ ...before, account: accountBefore });
   });
 
   it('accepts a correctly signed event', async () => {
