@@ -160,7 +160,10 @@ const pidOf = (workerId: string | null) => workerId?.split('/')[1];
 
 describe('a run split into chunks across worker processes', () => {
   it('completes on two worker processes with the same results as on one worker', async () => {
-    const trust = await bigTrust(db, 3000, 3);
+    // Enough chunks that both `npm run worker` processes (polling every half second when idle) get some before
+    // the app's own workers have taken them all.
+    const rooms = 12_000;
+    const trust = await bigTrust(db, rooms, 3);
     const one = await newRun(trust.trustId);
     await workRunHere(db, pool, one.id);
     expect((await runOf(one.id)).status).toBe('succeeded');
@@ -180,14 +183,16 @@ describe('a run split into chunks across worker processes', () => {
     const single = await resultsByRoom(one.id);
     const split = await resultsByRoom(id);
     expect(split.size).toBe(single.size);
-    expect(split.size).toBe(3000 - done.problems.length);
+    expect(split.size).toBe(rooms - done.problems.length);
     for (const [roomId, row] of single) expect(split.get(roomId), roomId).toEqual(row);
     expect(await currentRunIds(trust.trustId)).toEqual([id]);
     for (const w of workers) w.child.kill('SIGTERM');
   }, 180_000);
 
   it('loses only the chunk a killed worker held: another worker finishes the run within a minute, no room twice, no mix of runs', async () => {
-    const trust = await bigTrust(db, 2400, 2);
+    // 100 chunks: enough work that the slow worker, polling every half second when idle, gets one before the
+    // app's own workers have taken them all (with 20 they could finish the run first on a quiet machine).
+    const trust = await bigTrust(db, 12_000, 2);
     const previous = await newRun(trust.trustId);
     await workRunHere(db, pool, previous.id);
     const slow = await slowWorker(4000);
