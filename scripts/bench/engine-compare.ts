@@ -7,16 +7,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { prng } from '../seed/prng';
-import {
-  AGE_GROUPS,
-  CLIMATE_REGIONS,
-  CONSTRUCTION_TYPES,
-  HEATING_FUELS,
-  ROOM_USES,
-  VENTILATION_TYPES,
-  WINDOW_TYPES,
-} from '../../src/lib/engine/vocabulary';
+import { buildRooms } from './engine-rooms';
 
 const [commit, label, roundsArg] = process.argv.slice(2);
 if (!commit || !label) throw new Error('Usage: engine-compare.ts <commit> <label> [rounds]');
@@ -36,58 +27,17 @@ try {
   const before = (await import(join(folder, 'src/lib/engine/index.ts'))) as Engine;
   const now = (await import(join(root, 'src/lib/engine/index.ts'))) as Engine;
 
-  // Rooms both engines accept: the register fields of both versions (an older engine ignores newer fields).
-  const rand = prng(20261201);
-  const pick = <T>(list: readonly T[]) => list[Math.floor(rand() * list.length)] as T;
-  const rooms = Array.from({ length: ROOMS }, (_, i) => {
-    const floor = 30 + rand() * 90;
-    const glazing = floor * (0.05 + rand() * 0.35);
-    const ventilation = rand() < 0.75 ? pick(['natural_single_sided', 'natural_cross']) : pick(VENTILATION_TYPES);
-    const heatingFuel = rand() < 0.85 ? 'gas' : pick(HEATING_FUELS);
-    const boiler = rand() < 0.5 ? 0.7 + rand() * 0.2 : null;
-    const efficiency =
-      boiler === null ? null : heatingFuel === 'electric' ? 1 : heatingFuel === 'heat_pump' ? 4 * boiler : boiler;
-    return {
-      room: {
-        code: `R${i}`,
-        name: `Room ${i}`,
-        use: rand() < 0.8 ? 'classroom' : pick(ROOM_USES),
-        floorAreaM2: floor,
-        ceilingHeightM: 2.4 + rand() * 1.2,
-        pupils: Math.floor(10 + rand() * 25),
-        adults: 1 + Math.floor(rand() * 2),
-        ageGroup: pick(AGE_GROUPS.slice(0, 4)),
-        orientationDeg: rand() < 0.9 ? Math.floor(rand() * 360) : null,
-        glazingAreaM2: glazing,
-        openableAreaM2: glazing * (0.05 + rand() * 0.3),
-        windowType: pick(WINDOW_TYPES),
-        glazingGValue: rand() < 0.5 ? 0.4 + rand() * 0.35 : null,
-        ventilationType: ventilation,
-        mechanicalSupplyLps: ventilation.startsWith('natural') || rand() < 0.5 ? null : 50 + rand() * 200,
-        frameMaterial: null,
-        winterWindowOpenFraction: null,
-      },
-      block: {
-        yearBuilt: rand() < 0.9 ? 1900 + Math.floor(rand() * 125) : null,
-        constructionType: rand() < 0.8 ? pick(CONSTRUCTION_TYPES) : null,
-        airPermeabilityM3hM2: rand() < 0.3 ? 3 + rand() * 20 : null,
-        // As in engine.bench.ts: one block in five has its own heating fuel.
-        heatingFuel: rand() < 0.2 ? pick(HEATING_FUELS) : null,
-        fuelPriceGbpPerKwh: null,
-        heatingEfficiency: null,
-        heatingInstalledYear: rand() < 0.7 ? 1980 + Math.floor(rand() * 45) : null,
-      },
-      school: {
-        phase: rand() < 0.5 ? 'primary' : 'secondary',
-        climateRegion: pick(CLIMATE_REGIONS),
-        heatingFuel,
-        fuelPriceGbpPerKwh: rand() < 0.5 ? 0.05 + rand() * 0.05 : null,
-        heatingEfficiency: efficiency,
-        boilerEfficiency: efficiency,
-        timetable: null,
-      },
-    };
-  });
+  // Rooms both engines accept: the same rooms as engine.bench.ts, with the school's efficiency also under its
+  // older name (an older engine ignores newer fields).
+  // Room uses added since that commit become classrooms, which every version knows.
+  const { ROOM_USES: usesBefore } = (await import(join(folder, 'src/lib/engine/vocabulary.ts'))) as {
+    ROOM_USES: readonly string[];
+  };
+  const rooms = buildRooms(ROOMS).map((r) => ({
+    ...r,
+    room: { ...r.room, use: r.room.use && usesBefore.includes(r.room.use) ? r.room.use : 'classroom' },
+    school: { ...r.school, boilerEfficiency: r.school.heatingEfficiency },
+  }));
 
   let sink = 0;
   const round = (engine: Engine) => {
