@@ -125,11 +125,17 @@ describe('upgrade through hosted checkout', () => {
     // No fixed wait for "nothing came": the provider delivers a session's events in order, so once the later
     // payment with the test card has been delivered, anything the declined attempt caused would have been too.
     expect((await payOnCheckoutPage(url, '4242 4242 4242 4242')).status).toBe(303);
+    // The plan can change on the subscription's own event before the session's completion is stored, so wait
+    // for the completion itself: the one event a declined attempt must never produce.
+    const completions = async () =>
+      (await db.selectFrom('payment_events').select('type').where('trust_id', '=', trustId).execute()).filter(
+        (e) => e.type === 'checkout.session.completed',
+      );
+    await waitUntil('the checkout completion reaches us', async () => (await completions()).length > 0);
     await waitUntil('the webhook puts the trust on the paid plan', async () => {
       return (await billingOf(cookie)).billing.plan === 'per_school';
     });
-    const events = await db.selectFrom('payment_events').select('type').where('trust_id', '=', trustId).execute();
-    expect(events.filter((e) => e.type === 'checkout.session.completed')).toHaveLength(1);
+    expect(await completions()).toHaveLength(1);
   });
 
   it('activates the paid plan with a 30-day trial once the provider confirms, and audits the change', async () => {
