@@ -13,6 +13,8 @@ export interface PortfolioSettingsTable {
   weights_saved_by_email: string | null;
   ranked_weights: Json<unknown> | null;
   ranked_stamp: string | null;
+  /** The generation of portfolio_ranks readers use (a rebuild writes the next beside it, then switches). */
+  ranked_generation: number | null;
   ranked_at: Timestamp | null;
   /** The cumulative capital and pupil-hours curve along the ranked order, sampled (the dashboard's chart). */
   ranked_curve: Json<unknown> | null;
@@ -21,6 +23,8 @@ export interface PortfolioSettingsTable {
 /** Each current room's place in its trust under the trust's weights (1 = do first). */
 export interface PortfolioRanksTable {
   trust_id: string;
+  /** Which rebuild wrote the row; readers take the trust's ranked_generation. */
+  generation: number;
   room_id: string;
   school_id: string;
   /** The run of the room's current result (room_results is read through its key). */
@@ -51,4 +55,6 @@ export interface PortfolioRanksTable {
 export interface PortfolioTables {
   portfolio_settings: PortfolioSettingsTable;
   portfolio_ranks: PortfolioRanksTable;
+  /** The ranks of each trust's current generation (reports and checks; the app's reads name the generation). */
+  current_portfolio_ranks: PortfolioRanksTable;
 }

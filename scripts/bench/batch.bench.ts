@@ -6,7 +6,8 @@
 //    bench stack): run and jobs inserted, chunks read, assessed and committed, the run switched current and ranked.
 //    batch_rooms_per_s is the 2-process figure (the CI machine has 2 cores; 4 processes share them);
 //  - bytes stored per room: growth of the results, chunks (with input snapshots), snapshot rooms and summaries;
-//  - the national batch: 550,000 rooms in 22,000 schools with 2 worker processes (BENCH_NATIONAL_ROOMS=0 skips it).
+//  - the national batch: 550,000 rooms in 22,000 schools with 2 worker processes (BENCH_NATIONAL_ROOMS=0 skips it,
+//    BENCH_BATCH_ROOMS=0 skips the 100,000-room figures).
 // Prints one JSON object as the last line (scripts/bench.mjs merges it).
 import { type ChildProcess, spawn } from 'node:child_process';
 import { cpus } from 'node:os';
@@ -326,12 +327,12 @@ async function queueBatch(
   }
 }
 
-/** The trust's stored ranks (portfolio_ranks) must equal the engine's rankOrder over the stored parts of the same rows. */
+/** The trust's stored ranks (the generation readers use) must equal the engine's rankOrder over the stored parts of the same rows. */
 async function checkRanksMatchEngine(trustId: string): Promise<void> {
   const parts = await loadRankParts(getDb(), trustId);
   const expected = rankOrder(parts, DEFAULT_RANK_WEIGHTS);
   const { rows } = await sql<{ room_id: string; rank: number }>`
-    SELECT room_id, rank FROM portfolio_ranks WHERE trust_id = ${trustId}`.execute(getDb());
+    SELECT room_id, rank FROM current_portfolio_ranks WHERE trust_id = ${trustId}`.execute(getDb());
   const stored = new Map(rows.map((r) => [r.room_id, r.rank]));
   if (stored.size !== expected.length) throw new Error(`${stored.size} stored ranks for ${expected.length} results`);
   for (const e of expected)
@@ -343,6 +344,25 @@ async function checkRanksMatchEngine(trustId: string): Promise<void> {
 }
 
 async function main(): Promise<void> {
+  const db = getDb();
+  const figures: Record<string, unknown> = ROOMS > 0 ? await estateBatch() : {};
+  if (NATIONAL_ROOMS > 0) {
+    log(`generating ${NATIONAL_ROOMS} rooms in ${NATIONAL_SCHOOLS} schools`);
+    const national = await generateEstate(NATIONAL_ROOMS, NATIONAL_SCHOOLS);
+    const batch = await queueBatch(national, NATIONAL_ROOMS, 2, 1200);
+    log(`national batch: ${batch.seconds.toFixed(2)} s with 2 worker processes`);
+    figures.batch_550k_seconds = Number(batch.seconds.toFixed(2));
+    figures.batch_550k_rooms = NATIONAL_ROOMS;
+    figures.batch_550k_schools = NATIONAL_SCHOOLS;
+    figures.batch_550k_bytes_per_room = batch.bytesPerRoom;
+  }
+  await stopQueue();
+  await db.destroy();
+  console.log(JSON.stringify(figures));
+}
+
+/** The 100,000-room figures: I/O floor, in process, 1/2/4 worker processes, bytes per room. */
+async function estateBatch(): Promise<Record<string, unknown>> {
   const db = getDb();
   log(`generating ${ROOMS} rooms in ${SCHOOLS} schools`);
   const trustId = await generateEstate(ROOMS, SCHOOLS);
@@ -389,19 +409,7 @@ async function main(): Promise<void> {
     batch_note:
       'rooms/s through the queue with N `npm run worker` processes (2 chunks at a time each) on this machine; the cores are shared with the database and any other work on the machine',
   };
-  if (NATIONAL_ROOMS > 0) {
-    log(`generating ${NATIONAL_ROOMS} rooms in ${NATIONAL_SCHOOLS} schools`);
-    const national = await generateEstate(NATIONAL_ROOMS, NATIONAL_SCHOOLS);
-    const batch = await queueBatch(national, NATIONAL_ROOMS, 2, 1200);
-    log(`national batch: ${batch.seconds.toFixed(2)} s with 2 worker processes`);
-    figures.batch_550k_seconds = Number(batch.seconds.toFixed(2));
-    figures.batch_550k_rooms = NATIONAL_ROOMS;
-    figures.batch_550k_schools = NATIONAL_SCHOOLS;
-    figures.batch_550k_bytes_per_room = batch.bytesPerRoom;
-  }
-  await stopQueue();
-  await db.destroy();
-  console.log(JSON.stringify(figures));
+  return figures;
 }
 
 main().catch((error: unknown) => {

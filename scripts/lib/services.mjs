@@ -142,7 +142,8 @@ export async function startPostgres({ dataDir, port, database }) {
       '-t',
       '60',
       '-o',
-      `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c unix_socket_permissions=0700 -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'}`,
+      // shared_buffers: PostgreSQL's default (128 MB) holds less than a national estate's rooms and results.
+      `-c listen_addresses=127.0.0.1 -p ${port} -k ${socketDir} -c unix_socket_permissions=0700 -c fsync=${process.env.AIRTALLY_PG_FSYNC ?? 'on'} -c shared_buffers=${process.env.AIRTALLY_PG_SHARED_BUFFERS ?? '512MB'}`,
       'start',
     ]);
     run(cmd, args, { stdio: ['ignore', 'ignore', 'inherit'] });

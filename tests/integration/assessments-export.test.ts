@@ -89,16 +89,16 @@ describe('results export (.xlsx)', () => {
     expect(ranks).toEqual(Array.from({ length: current.n }, (_, i) => i + 1));
     // Rank 1 matches the database's rank-1 row.
     const top = await db
-      .selectFrom('portfolio_ranks')
+      .selectFrom('current_portfolio_ranks')
       .innerJoin('room_results', (j) =>
         j
-          .onRef('room_results.room_id', '=', 'portfolio_ranks.room_id')
-          .onRef('room_results.run_id', '=', 'portfolio_ranks.run_id'),
+          .onRef('room_results.room_id', '=', 'current_portfolio_ranks.room_id')
+          .onRef('room_results.run_id', '=', 'current_portfolio_ranks.run_id'),
       )
       .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
       .select(['rooms.code', 'room_results.mean_co2_ppm'])
-      .where('portfolio_ranks.trust_id', '=', DEMO_TRUST.id)
-      .where('portfolio_ranks.rank', '=', 1)
+      .where('current_portfolio_ranks.trust_id', '=', DEMO_TRUST.id)
+      .where('current_portfolio_ranks.rank', '=', 1)
       .executeTakeFirstOrThrow();
     const first = results.getRow(2);
     expect(String(first.getCell(4).value).replace(/^'/, '')).toBe(top.code);

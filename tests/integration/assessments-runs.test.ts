@@ -29,12 +29,12 @@ const currentRows = () =>
     .where('trust_id', '=', DEMO_TRUST.id)
     .execute();
 
-/** The trust's ranks as every page reads them (portfolio_ranks, rebuilt on the first read after a run). */
+/** The trust's ranks as every page reads them (current_portfolio_ranks: the generation readers use, rebuilt on the first read after a run). */
 async function ranksNow(cookie: string) {
   const response = await api('/api/priorities?pageSize=1', { cookie });
   expect(response.status).toBe(200);
   return db
-    .selectFrom('portfolio_ranks')
+    .selectFrom('current_portfolio_ranks')
     .select(['room_id', 'rank', 'score_risk'])
     .where('trust_id', '=', DEMO_TRUST.id)
     .execute();

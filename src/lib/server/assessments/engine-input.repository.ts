@@ -5,7 +5,7 @@ import type { MeasuredRoom } from '../../engine/measured';
 import type { BlockRow, SchoolRow } from '../../../../db/database';
 import { type RoomFieldColumns, toRoomFields } from '../estate/rooms.repository';
 import { parseStoredTimetable } from '../estate/timetable';
-import { attachMeasuredEvidence } from '../monitor-logs/evidence.repository';
+import { type EvidenceColumns, evidenceColumns, evidenceJoins, evidenceOf } from '../monitor-logs/evidence.repository';
 
 /** A room of the register as the engine reads it, with the ids a result row needs. */
 export interface EngineRoom {
@@ -30,10 +30,15 @@ const COLUMNS = sql`
   schools.id AS school_id, schools.trust_id, schools.phase, schools.climate_region, schools.heating_fuel AS school_fuel,
   schools.fuel_price_gbp_per_kwh AS school_price, schools.heating_efficiency AS school_efficiency, schools.timetable,
   blocks.year_built, blocks.construction_type, blocks.air_permeability_m3h_m2, blocks.heating_fuel AS block_fuel,
-  blocks.fuel_price_gbp_per_kwh AS block_price, blocks.heating_efficiency AS block_efficiency, blocks.heating_installed_year`;
+  blocks.fuel_price_gbp_per_kwh AS block_price, blocks.heating_efficiency AS block_efficiency, blocks.heating_installed_year,
+  ${evidenceColumns}`;
+
+/** Rooms with their school, block and measured evidence (each room's calibration and analysis travel with it). */
+const FROM_ROOMS = sql`rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+  ${evidenceJoins}`;
 
 /** The room's own columns (mapped by the estate's toRoomFields), its school's and its block's. */
-interface JoinedRow extends RoomFieldColumns {
+interface JoinedRow extends RoomFieldColumns, EvidenceColumns {
   id: string;
   block_id: string | null;
   school_id: string;
@@ -63,6 +68,7 @@ function toEngineRoom(r: JoinedRow, timetables: TimetableCache): EngineRoom {
     timetable = parseStoredTimetable(r.timetable);
     timetables.set(r.school_id, timetable);
   }
+  const { calibration, measured } = evidenceOf(r);
   return {
     roomId: r.id,
     roomCode: r.code,
@@ -88,7 +94,9 @@ function toEngineRoom(r: JoinedRow, timetables: TimetableCache): EngineRoom {
         heatingEfficiency: r.school_efficiency,
         timetable,
       },
+      calibration,
     },
+    measured,
   };
 }
 
@@ -107,15 +115,12 @@ export async function readRoomChunk(
   const after = afterRoomId === null ? sql`TRUE` : sql`rooms.id > ${afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}
-    FROM rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+    FROM ${FROM_ROOMS}
     WHERE ${scopeWhere(scope)} AND ${after}
     ORDER BY rooms.id
     LIMIT ${limit}`.execute(db);
   const timetables: TimetableCache = new Map();
-  return attachMeasuredEvidence(
-    db,
-    rows.map((r) => toEngineRoom(r, timetables)),
-  );
+  return rows.map((r) => toEngineRoom(r, timetables));
 }
 
 /**
@@ -129,16 +134,11 @@ export async function readChunkRooms(
   const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}
-    FROM assessment_run_rooms ids JOIN rooms ON rooms.id = ids.room_id
-      JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+    FROM assessment_run_rooms ids JOIN (${FROM_ROOMS}) ON rooms.id = ids.room_id
     WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid
     ORDER BY ids.room_id`.execute(db);
   const timetables: TimetableCache = new Map();
-  // Each room's calibration and measured analysis travel with it, as in readRoomChunk.
-  return attachMeasuredEvidence(
-    db,
-    rows.map((r) => toEngineRoom(r, timetables)),
-  );
+  return rows.map((r) => toEngineRoom(r, timetables));
 }
 
 /** One room of the trust (null when it is not in the trust or outside a school-limited member's schools). */
@@ -151,7 +151,7 @@ export async function readEngineRoom(
   const limited = schoolIds === null ? sql`TRUE` : sql`schools.id = ANY(${schoolIds}::uuid[])`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}
-    FROM rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+    FROM ${FROM_ROOMS}
     WHERE schools.trust_id = ${trustId} AND ${limited} AND rooms.id = ${roomId}::uuid`.execute(db);
-  return rows[0] ? ((await attachMeasuredEvidence(db, [toEngineRoom(rows[0], new Map())]))[0] ?? null) : null;
+  return rows[0] ? toEngineRoom(rows[0], new Map()) : null;
 }

@@ -4,7 +4,10 @@
  * a room). With the run's assumption set they give back exactly what the run assessed, so a result's detail (curves,
  * baselines, reasons) is recomputed when someone opens it instead of being stored for every room.
  */
-import { gunzipSync, gzipSync } from 'node:zlib';
+import { promisify } from 'node:util';
+import { gunzipSync, gzip } from 'node:zlib';
+
+const gzipAsync = promisify(gzip);
 import type { RoomAssessmentInput, RoomCalibration, TimetableSegment } from '../../engine';
 import type { MeasuredEvidenceInput, MeasuredRoom } from '../../engine/measured';
 
@@ -152,15 +155,15 @@ function roomValues(r: RoomToKeep): RoomValues {
   ];
 }
 
-/** The rooms' inputs, gzip'd. */
-export function encodeRooms(rooms: readonly RoomToKeep[]): Buffer {
+/** The rooms' inputs, gzip'd (off the main thread, so the engine goes on meanwhile). */
+export function encodeRooms(rooms: readonly RoomToKeep[]): Promise<Buffer> {
   const inputs: ChunkInputs = { v: 1, schools: {}, blocks: {}, rooms: [] };
   for (const r of rooms) {
     inputs.schools[r.schoolId] ??= schoolValues(r.input.school);
     if (r.blockId !== null) inputs.blocks[r.blockId] ??= blockValues(r.input.block);
     inputs.rooms.push(roomValues(r));
   }
-  return gzipSync(JSON.stringify(inputs), { level: 1 });
+  return gzipAsync(JSON.stringify(inputs), { level: 1 });
 }
 
 const NO_BLOCK: BlockValues = [null, null, null, null, null, null, null];

@@ -125,7 +125,7 @@ async function writeBook(
 
   const limited = trust.schoolIds === null ? sql`TRUE` : sql`pr.school_id = ANY(${trust.schoolIds}::uuid[])`;
   // The rank every page shows: portfolio_ranks, built by the engine's one ranking rule.
-  await ensureRanks(db, trust.id);
+  const { generation } = await ensureRanks(db, trust.id);
   const setIds = new Set<string>();
   let afterRank = 0;
   let written = 0;
@@ -188,7 +188,7 @@ async function writeBook(
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id
       JOIN assessment_runs ar ON ar.id = rr.run_id
-      WHERE pr.trust_id = ${trust.id} AND ${limited} AND pr.rank > ${afterRank}
+      WHERE pr.trust_id = ${trust.id} AND pr.generation = ${generation} AND ${limited} AND pr.rank > ${afterRank}
       ORDER BY pr.rank
       LIMIT ${BATCH}`.execute(db);
     for (const r of rows) {

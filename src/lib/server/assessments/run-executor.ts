@@ -87,6 +87,9 @@ async function assessChunk(
   set: AssumptionSet,
 ): Promise<{ rows: ResultRow[]; problems: RunProblem[]; inputs: Buffer }> {
   const rooms = await readChunkRooms(db, chunk);
+  // The snapshot is compressed on the thread pool while this thread assesses.
+  const inputs = encodeRooms(rooms);
+  inputs.catch(() => undefined); // awaited below; an engine error first must not leave it unhandled
   const rows: ResultRow[] = [];
   const problems: RunProblem[] = [];
   for (const room of rooms) {
@@ -97,7 +100,7 @@ async function assessChunk(
       problems.push({ roomId: room.roomId, roomCode: room.roomCode, field: error.field, message: error.message });
     }
   }
-  return { rows, problems, inputs: encodeRooms(rooms) };
+  return { rows, problems, inputs: await inputs };
 }
 
 /** Plain words for an unexpected error, for the run's `error` field. */

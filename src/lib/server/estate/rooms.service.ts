@@ -6,6 +6,7 @@ import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { inTransaction } from '../db/transaction';
 import { notFound } from '../http/errors';
+import { forgetRankState } from '../portfolio/ranking.repository';
 import { blockIsInSchool } from './blocks.repository';
 import { type FieldProblem, physicalChecks } from './checks';
 import { blockNotInSchool, invalidRoom, roomChangedSince } from './estate.errors';
@@ -103,7 +104,7 @@ export async function deleteRooms(
   ids: readonly string[],
   origin = '',
 ): Promise<number> {
-  return inTransaction(db, async (trx) => {
+  const count = await inTransaction(db, async (trx) => {
     const rooms = await lockRooms(trx, trust, ids);
     if (rooms.length !== new Set(ids).size)
       throw notFound(ids.length === 1 ? 'That room' : 'One or more of those rooms');
@@ -122,6 +123,9 @@ export async function deleteRooms(
     );
     return count;
   });
+  // The database marked the trust's ranks stale; this process's last look at them is stale too.
+  forgetRankState(trust.id);
+  return count;
 }
 
 /** Deletes a room of the trust. */

@@ -6,6 +6,7 @@ import type { ActiveTrust } from '../auth/context';
 import { assertWithinPlan } from '../billing/plan-limits';
 import { inTransaction } from '../db/transaction';
 import { notFound } from '../http/errors';
+import { forgetRankState } from '../portfolio/ranking.repository';
 import { efficiencyProblem } from './checks';
 import { efficiencyDoesNotFit, schoolRemovalLimited, schoolsLimited } from './estate.errors';
 import type { SchoolCreate, SchoolPatch } from './estate.schemas';
@@ -129,7 +130,7 @@ export async function deleteSchool(
   id: string,
 ): Promise<SchoolRemovalImpact & { name: string }> {
   if (trust.schoolIds) throw schoolRemovalLimited();
-  return inTransaction(db, async (trx) => {
+  const removed = await inTransaction(db, async (trx) => {
     await lockTrustForNewSchools(trx, trust.id);
     const school = await findSchool(trx, trust, id, true);
     if (!school) throw notFound('That school');
@@ -146,4 +147,7 @@ export async function deleteSchool(
     });
     return { name: school.name, ...impact };
   });
+  // The database marked the trust's ranks stale; this process's last look at them is stale too.
+  forgetRankState(trust.id);
+  return removed;
 }

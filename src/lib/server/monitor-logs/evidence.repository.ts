@@ -2,8 +2,7 @@
  * What the engine input reader attaches to each room from the measured-CO2 feature: its active calibration
  * (RoomAssessmentInput.calibration) and its measured analysis (for the risk's measured evidence).
  */
-import { sql, type Kysely } from 'kysely';
-import type { Database } from '../../../../db/database';
+import { sql } from 'kysely';
 import {
   assessRoom,
   type AssumptionSet,
@@ -18,38 +17,30 @@ import {
   type MeasuredRoom,
 } from '../../engine/measured';
 
-/** A room as the engine input reader gives it, with what this feature adds. */
-interface RoomWithEvidence {
-  roomId: string;
-  input: RoomAssessmentInput;
-  measured?: MeasuredRoom | MeasuredEvidenceInput | null;
+/**
+ * For a read of engine inputs whose rooms table is aliased `rooms`: the joins and columns that bring each room's
+ * active calibration and measured analysis in the same rows (one query for a chunk of rooms, not three).
+ */
+export const evidenceJoins = sql`
+  LEFT JOIN room_calibrations evidence_rc ON evidence_rc.room_id = rooms.id AND evidence_rc.status = 'active'
+  LEFT JOIN monitor_room_analyses evidence_mra ON evidence_mra.room_id = rooms.id`;
+export const evidenceColumns = sql`evidence_rc.calibration AS evidence_calibration, evidence_mra.result AS evidence_measured`;
+
+/** The evidence columns of one row read with evidenceJoins. */
+export interface EvidenceColumns {
+  evidence_calibration: unknown;
+  evidence_measured: unknown;
 }
 
-/** Adds each room's active calibration and measured analysis (two indexed reads for the whole chunk). */
-export async function attachMeasuredEvidence<T extends RoomWithEvidence>(
-  db: Kysely<Database>,
-  rooms: T[],
-): Promise<T[]> {
-  if (rooms.length === 0) return rooms;
-  const ids = rooms.map((r) => r.roomId);
-  // One array parameter rather than thousands of list parameters for a chunk of rooms.
-  const inChunk = sql<boolean>`room_id = ANY(${ids}::uuid[])`;
-  const [calibrations, analyses] = await Promise.all([
-    db
-      .selectFrom('room_calibrations')
-      .select(['room_id', 'calibration'])
-      .where(inChunk)
-      .where('status', '=', 'active')
-      .execute(),
-    db.selectFrom('monitor_room_analyses').select(['room_id', 'result']).where(inChunk).execute(),
-  ]);
-  const calibrationOf = new Map(calibrations.map((c) => [c.room_id, c.calibration as unknown as RoomCalibration]));
-  const measuredOf = new Map(analyses.map((a) => [a.room_id, a.result as unknown as MeasuredRoom]));
-  for (const room of rooms) {
-    room.input.calibration = calibrationOf.get(room.roomId) ?? null;
-    room.measured = measuredOf.get(room.roomId) ?? null;
-  }
-  return rooms;
+/** A row's calibration and measured analysis (read with evidenceJoins), as the engine takes them. */
+export function evidenceOf(row: EvidenceColumns): {
+  calibration: RoomCalibration | null;
+  measured: MeasuredRoom | null;
+} {
+  return {
+    calibration: (row.evidence_calibration as RoomCalibration | null) ?? null,
+    measured: (row.evidence_measured as MeasuredRoom | null) ?? null,
+  };
 }
 
 /** A room assessed with its calibration, its risk taken from its readings where it has enough. */

@@ -89,7 +89,7 @@ export async function headlineFigures(db: Kysely<Database>, trust: ActiveTrust):
  * a small one; the scatter reads the top ranks through portfolio_ranks' index.
  */
 export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard> {
-  await ensureRanks(db, trust.id);
+  const { generation } = await ensureRanks(db, trust.id);
   const limited = trust.schoolIds ? sql`AND pr.school_id = ANY(${trust.schoolIds}::uuid[])` : sql``;
 
   const [headline, co2, scatter, curve] = await Promise.all([
@@ -122,10 +122,10 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
       FROM portfolio_ranks pr
         JOIN room_results rr ON rr.run_id = pr.run_id AND rr.room_id = pr.room_id
         JOIN rooms r ON r.id = pr.room_id JOIN schools s ON s.id = pr.school_id
-      WHERE pr.trust_id = ${trust.id} ${limited} AND pr.unit_count > 0 AND pr.capital_cost_gbp IS NOT NULL
+      WHERE pr.trust_id = ${trust.id} AND pr.generation = ${generation} ${limited} AND pr.unit_count > 0 AND pr.capital_cost_gbp IS NOT NULL
         AND pr.simple_payback_years IS NOT NULL
       ORDER BY pr.rank LIMIT ${SCATTER_MAX_POINTS}`.execute(db),
-    trust.schoolIds ? cumulativeCurve(db, trust.id, trust.schoolIds) : storedCurve(db, trust.id),
+    trust.schoolIds ? cumulativeCurve(db, trust.id, trust.schoolIds, generation) : storedCurve(db, trust.id),
   ]);
 
   const co2BySchool: Co2BySchool[] = co2.rows.map((r) => ({

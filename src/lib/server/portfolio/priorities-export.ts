@@ -30,7 +30,7 @@ export async function exportPriorities(
 ): Promise<Buffer> {
   const state = await ensureRanks(db, trust.id);
   const weights = query.weights ?? state.weights;
-  const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0, state.stamp);
+  const rows = await selectPriorityRows(db, trust, query, EXPORT_MAX_ROWS, 0, state);
 
   const sink = new PassThrough();
   const chunks: Buffer[] = [];

@@ -5,7 +5,10 @@ import { RISK_BAND_LABELS, riskBandOfNumber } from '../../engine/risk';
 import type { ActiveTrust } from '../auth/context';
 import type { PrioritiesQuery, PriorityFilter, PrioritySortKey } from './portfolio.schemas';
 import type { PrioritiesPage, PriorityRow } from './portfolio.types';
-import { ensureRanks, previewRanks } from './ranking.repository';
+import { ensureRanks, previewRanks, type RankState } from './ranking.repository';
+
+/** Which ranks a read takes: the results stamp (cache keys) and the generation of portfolio_ranks. */
+type Ranks = Pick<RankState, 'stamp' | 'generation'>;
 
 /** The label of a stored band number (room_results.risk_band, 1 meets … 4 far over). */
 export const bandLabel = (band: number) => RISK_BAND_LABELS[riskBandOfNumber(band)];
@@ -24,9 +27,9 @@ const SORT_SQL: Record<PrioritySortKey, RawBuilder<unknown>> = {
   npvGbp: sql`pr.npv_gbp`,
 };
 
-/** WHERE conditions on the ranked set `pr` for the trust, the member's schools and the filters. */
-export function filterSql(trust: ActiveTrust, filter: PriorityFilter) {
-  const parts = [sql`pr.trust_id = ${trust.id}`];
+/** WHERE conditions on the ranked set `pr` for the trust, its ranks' generation, the member's schools and the filters. */
+export function filterSql(trust: ActiveTrust, filter: PriorityFilter, generation: number) {
+  const parts = [sql`pr.trust_id = ${trust.id}`, sql`pr.generation = ${generation}`];
   if (trust.schoolIds) parts.push(sql`pr.school_id = ANY(${trust.schoolIds}::uuid[])`);
   if (filter.schoolId) parts.push(sql`pr.school_id = ${filter.schoolId}::uuid`);
   if (filter.blockId) parts.push(sql`pr.block_id = ${filter.blockId}::uuid`);
@@ -41,14 +44,18 @@ export function filterSql(trust: ActiveTrust, filter: PriorityFilter) {
  * rows with the places the engine's rule gives under preview weights. Either way a room's rank is its place in
  * the whole trust, computed by the one ranking rule.
  */
-export function rankedSource(trust: ActiveTrust, preview: { ids: string[]; ranks: number[]; scores: number[] } | null) {
+export function rankedSource(
+  trust: ActiveTrust,
+  generation: number,
+  preview: { ids: string[]; ranks: number[]; scores: number[] } | null,
+) {
   if (!preview) return sql`portfolio_ranks pr`;
   return sql`(
       SELECT p.*, v.rank AS preview_rank, v.score AS preview_score
       FROM portfolio_ranks p
         JOIN unnest(${preview.ids}::uuid[], ${preview.ranks}::int[], ${preview.scores}::float8[]) AS v(room_id, rank, score)
           ON v.room_id = p.room_id
-      WHERE p.trust_id = ${trust.id}
+      WHERE p.trust_id = ${trust.id} AND p.generation = ${generation}
     ) pr`;
 }
 
@@ -122,9 +129,9 @@ export async function selectPriorityRows(
   query: Omit<PrioritiesQuery, 'page' | 'pageSize'>,
   limit: number | null,
   offset: number,
-  stamp = '',
+  ranks: Ranks,
 ): Promise<PriorityRow[]> {
-  const preview = query.weights ? await previewRanks(db, trust.id, stamp, query.weights) : null;
+  const preview = query.weights ? await previewRanks(db, trust.id, ranks.stamp, query.weights) : null;
   const rank = preview ? sql`pr.preview_rank` : sql`pr.rank`;
   const score = preview ? sql`pr.preview_score` : sql`pr.score`;
   const dir = query.dir === 'desc' ? sql`DESC` : sql`ASC`;
@@ -134,7 +141,7 @@ export async function selectPriorityRows(
   const result = await sql<Row>`
     WITH page AS (
       SELECT pr.room_id, pr.run_id, ${rank} AS rank, ${score} AS score, row_number() OVER (ORDER BY ${order}) AS position
-      FROM (SELECT pr.* FROM ${rankedSource(trust, preview)} WHERE ${filterSql(trust, query)} ORDER BY ${order} ${page}) pr
+      FROM (SELECT pr.* FROM ${rankedSource(trust, ranks.generation, preview)} WHERE ${filterSql(trust, query, ranks.generation)} ORDER BY ${order} ${page}) pr
     )
     SELECT rr.room_id, page.rank, page.score, rr.school_id, s.name AS school_name, rr.block_id, b.name AS block_name,
       r.code AS room_code, r.name AS room_name, rr.pupils, rr.ventilation_type, rr.worst_season, rr.mean_co2_ppm,
@@ -159,12 +166,13 @@ export async function countPriorityRows(
   db: Kysely<Database>,
   trust: ActiveTrust,
   filter: PriorityFilter,
-  stamp: string,
+  ranks: Ranks,
 ): Promise<number> {
   const key = JSON.stringify([
     trust.id,
     trust.schoolIds,
-    stamp,
+    ranks.stamp,
+    ranks.generation,
     filter.schoolId,
     filter.blockId,
     filter.band,
@@ -175,7 +183,7 @@ export async function countPriorityRows(
   if (cached !== undefined) return cached;
   const result = await sql<{
     n: number;
-  }>`SELECT count(*)::int AS n FROM portfolio_ranks pr WHERE ${filterSql(trust, filter)}`.execute(db);
+  }>`SELECT count(*)::int AS n FROM portfolio_ranks pr WHERE ${filterSql(trust, filter, ranks.generation)}`.execute(db);
   const n = result.rows[0]?.n ?? 0;
   if (countCache.size >= COUNT_CACHE_MAX) countCache.delete(countCache.keys().next().value!);
   countCache.set(key, n);
@@ -190,8 +198,8 @@ export async function listPriorities(
 ): Promise<PrioritiesPage> {
   const state = await ensureRanks(db, trust.id);
   const [rows, total] = await Promise.all([
-    selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize, state.stamp),
-    countPriorityRows(db, trust, query, state.stamp),
+    selectPriorityRows(db, trust, query, query.pageSize, (query.page - 1) * query.pageSize, state),
+    countPriorityRows(db, trust, query, state),
   ]);
   return {
     rows,

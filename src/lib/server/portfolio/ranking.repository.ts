@@ -84,10 +84,14 @@ function runsStampSql(trustId: string) {
   return sql<string>`(SELECT coalesce(max(finished_at)::text, '') || ':' || count(*) FROM assessment_runs WHERE trust_id = ${trustId} AND status = 'succeeded')`;
 }
 
-/** The trust's ranks as built: the weights they use and the results stamp they were built from. */
+/**
+ * The trust's ranks as built: the weights they use, the results stamp they were built from, and their generation (the
+ * portfolio_ranks rows readers take).
+ */
 export interface RankState {
   weights: Weights;
   stamp: string;
+  generation: number;
 }
 
 /**
@@ -135,35 +139,68 @@ async function checkRanks(db: Kysely<Database>, trustId: string, options: { wait
     weight_payback: number | null;
     ranked_weights: Weights | null;
     ranked_stamp: string | null;
+    ranked_generation: number | null;
     stamp: string;
   }>`
-    SELECT ps.weight_risk, ps.weight_cost_effectiveness, ps.weight_payback, ps.ranked_weights, ps.ranked_stamp, ${runsStampSql(trustId)} AS stamp
+    SELECT ps.weight_risk, ps.weight_cost_effectiveness, ps.weight_payback, ps.ranked_weights, ps.ranked_stamp,
+      ps.ranked_generation, ${runsStampSql(trustId)} AS stamp
     FROM (SELECT 1) one LEFT JOIN portfolio_settings ps ON ps.trust_id = ${trustId}`.execute(db);
   const row = state.rows[0]!;
   const weights: Weights =
     row.weight_risk === null || row.weight_cost_effectiveness === null || row.weight_payback === null
       ? { ...DEFAULT_RANK_WEIGHTS }
       : { risk: row.weight_risk, costEffectiveness: row.weight_cost_effectiveness, payback: row.weight_payback };
-  if (row.ranked_weights && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights, weights))
-    return { weights, stamp: row.stamp };
-  const previous =
-    row.ranked_weights && row.ranked_stamp ? { weights: row.ranked_weights, stamp: row.ranked_stamp } : null;
-  const stamp = await rebuildRanks(db, trustId, weights, options.wait || previous === null);
-  if (stamp === null) return previous!;
-  return { weights, stamp };
+  const built = row.ranked_generation !== null && row.ranked_weights !== null && row.ranked_stamp !== null;
+  if (built && row.ranked_stamp === row.stamp && sameWeights(row.ranked_weights!, weights))
+    return { weights, stamp: row.stamp, generation: row.ranked_generation! };
+  const previous = built
+    ? { weights: row.ranked_weights!, stamp: row.ranked_stamp!, generation: row.ranked_generation! }
+    : null;
+  const rebuilt = await rebuildRanks(db, trustId, weights, options.wait || previous === null);
+  return rebuilt ?? previous!;
+}
+
+/** Pieces a rebuild writes its rows in at once, each on its own connection. */
+const REBUILD_PIECES = 2;
+
+/** Writes the ranks `r[from, to)` of the trust as rows of `generation`, with their filter and sort keys. */
+async function writeRankRows(
+  db: Kysely<Database>,
+  trustId: string,
+  generation: number,
+  r: Awaited<ReturnType<typeof computeRanks>>,
+  from: number,
+  to: number,
+): Promise<void> {
+  await sql`
+    INSERT INTO portfolio_ranks (trust_id, generation, room_id, school_id, run_id, rank, score, block_id, school_name,
+      ventilation_type, risk_band, criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp,
+      simple_payback_years, npv_gbp, pupil_hours_above, pupil_hours_removed, score_risk, score_cost_effectiveness, score_payback)
+    SELECT rr.trust_id, ${generation}, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
+      rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
+      rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.pupil_hours_removed,
+      v.risk, v.ce, v.pb
+    FROM unnest(${r.ids.slice(from, to)}::uuid[], ${r.ranks.slice(from, to)}::int[], ${r.scores.slice(from, to)}::float8[],
+        ${r.risk.slice(from, to)}::float8[], ${r.ce.slice(from, to)}::float8[], ${r.pb.slice(from, to)}::float8[])
+        AS v(room_id, rank, score, risk, ce, pb)
+      JOIN current_room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId}
+      JOIN schools s ON s.id = rr.school_id`.execute(db);
 }
 
 /**
- * Rebuilds the trust's ranks under `weights` in one transaction (readers see the old ranks until it commits).
- * One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the
- * caller gets null at once.
+ * Rebuilds the trust's ranks under `weights` as a new generation and switches readers to it in one small update
+ * (readers keep the generation they have until then). The rows are written in pieces at once, one in the rebuild's
+ * own transaction and the others on connections of their own (rows of a generation nobody reads yet; a rebuild that
+ * fails leaves rows the next one removes). The generation before stays for readers still on it, until the next
+ * rebuild. One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the caller
+ * gets null at once.
  */
 async function rebuildRanks(
   db: Kysely<Database>,
   trustId: string,
   weights: Weights,
   wait: boolean,
-): Promise<string | null> {
+): Promise<RankState | null> {
   return db.transaction().execute(async (trx) => {
     const lockKey = `portfolio_ranks:${trustId}`;
     if (wait) {
@@ -175,50 +212,47 @@ async function rebuildRanks(
     const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
     const current = await trx
       .selectFrom('portfolio_settings')
-      .select(['ranked_weights', 'ranked_stamp'])
+      .select(['ranked_weights', 'ranked_stamp', 'ranked_generation'])
       .where('trust_id', '=', trustId)
       .executeTakeFirst();
     if (
-      current?.ranked_stamp === stampRow.stamp &&
+      current?.ranked_generation != null &&
+      current.ranked_stamp === stampRow.stamp &&
       current.ranked_weights &&
       sameWeights(current.ranked_weights as Weights, weights)
     )
-      return stampRow.stamp;
-    await trx.deleteFrom('portfolio_ranks').where('trust_id', '=', trustId).execute();
+      return { weights, stamp: stampRow.stamp, generation: current.ranked_generation };
+    // Everything but the generation readers use now: the one before it, and any a failed rebuild left.
+    await trx
+      .deleteFrom('portfolio_ranks')
+      .where('trust_id', '=', trustId)
+      .where('generation', '<>', current?.ranked_generation ?? -1)
+      .execute();
+    const { generation } = (
+      await sql<{ generation: number }>`SELECT nextval('portfolio_rank_generations')::int8 AS generation`.execute(trx)
+    ).rows[0]!;
     const r = await computeRanks(trx, trustId, weights);
-    await sql`
-      INSERT INTO portfolio_ranks (trust_id, room_id, school_id, run_id, rank, score, block_id, school_name, ventilation_type,
-        risk_band, criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp, simple_payback_years, npv_gbp,
-        pupil_hours_above, pupil_hours_removed, score_risk, score_cost_effectiveness, score_payback)
-      SELECT rr.trust_id, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
-        rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
-        rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.pupil_hours_removed,
-        v.risk, v.ce, v.pb
-      FROM unnest(${r.ids}::uuid[], ${r.ranks}::int[], ${r.scores}::float8[], ${r.risk}::float8[], ${r.ce}::float8[], ${r.pb}::float8[])
-          AS v(room_id, rank, score, risk, ce, pb)
-        JOIN current_room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId}
-        JOIN schools s ON s.id = rr.school_id`.execute(trx);
+    const size = Math.ceil(r.ids.length / REBUILD_PIECES);
+    await Promise.all(
+      Array.from({ length: REBUILD_PIECES }, (_, piece) =>
+        writeRankRows(piece === 0 ? trx : db, trustId, generation, r, piece * size, (piece + 1) * size),
+      ),
+    );
     await sql`ANALYZE portfolio_ranks`.execute(trx);
-    const curve = await cumulativeCurve(trx, trustId, null);
+    const curve = await cumulativeCurve(trx, trustId, null, generation);
+    const values = {
+      ranked_weights: JSON.stringify(weights),
+      ranked_stamp: stampRow.stamp,
+      ranked_generation: generation,
+      ranked_at: new Date(),
+      ranked_curve: JSON.stringify(curve),
+    };
     await trx
       .insertInto('portfolio_settings')
-      .values({
-        trust_id: trustId,
-        ranked_weights: JSON.stringify(weights),
-        ranked_stamp: stampRow.stamp,
-        ranked_at: new Date(),
-        ranked_curve: JSON.stringify(curve),
-      })
-      .onConflict((oc) =>
-        oc.column('trust_id').doUpdateSet({
-          ranked_weights: JSON.stringify(weights),
-          ranked_stamp: stampRow.stamp,
-          ranked_at: new Date(),
-          ranked_curve: JSON.stringify(curve),
-        }),
-      )
+      .values({ trust_id: trustId, ...values })
+      .onConflict((oc) => oc.column('trust_id').doUpdateSet(values))
       .execute();
-    return stampRow.stamp;
+    return { weights, stamp: stampRow.stamp, generation };
   });
 }
 
@@ -278,6 +312,7 @@ export async function cumulativeCurve(
   db: Kysely<Database>,
   trustId: string,
   schoolIds: readonly string[] | null,
+  generation: number,
 ): Promise<CurvePoint[]> {
   const limited = schoolIds === null ? sql`TRUE` : sql`school_id = ANY(${[...schoolIds]}::uuid[])`;
   const { rows } = await sql<{ rank: number; cc: number; ch: number }>`
@@ -285,7 +320,8 @@ export async function cumulativeCurve(
       SELECT rank, sum(capital_cost_gbp) OVER w AS cc, sum(coalesce(pupil_hours_removed, 0)) OVER w AS ch,
         row_number() OVER w AS rn, count(*) OVER () AS n
       FROM portfolio_ranks
-      WHERE trust_id = ${trustId} AND ${limited} AND unit_count > 0 AND capital_cost_gbp IS NOT NULL
+      WHERE trust_id = ${trustId} AND generation = ${generation} AND ${limited} AND unit_count > 0
+        AND capital_cost_gbp IS NOT NULL
       WINDOW w AS (ORDER BY rank ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)
     )
     SELECT rank, cc::float8 AS cc, ch::float8 AS ch FROM ordered
@@ -314,10 +350,12 @@ export async function getRoomRank(
   trustId: string,
   roomId: string,
 ): Promise<{ rank: number; rankedRooms: number } | null> {
-  await ensureRanks(db, trustId);
+  const { generation } = await ensureRanks(db, trustId);
   const { rows } = await sql<{ rank: number; n: number }>`
-    SELECT pr.rank, (SELECT count(*)::int FROM portfolio_ranks x WHERE x.trust_id = ${trustId}) AS n
-    FROM portfolio_ranks pr WHERE pr.trust_id = ${trustId} AND pr.room_id = ${roomId}::uuid`.execute(db);
+    SELECT pr.rank,
+      (SELECT count(*)::int FROM portfolio_ranks x WHERE x.trust_id = ${trustId} AND x.generation = ${generation}) AS n
+    FROM portfolio_ranks pr
+    WHERE pr.trust_id = ${trustId} AND pr.room_id = ${roomId}::uuid AND pr.generation = ${generation}`.execute(db);
   const row = rows[0];
   return row ? { rank: row.rank, rankedRooms: row.n } : null;
 }

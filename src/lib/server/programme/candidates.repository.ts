@@ -86,7 +86,8 @@ export async function readCandidates(
       JOIN rooms r ON r.id = rr.room_id
       JOIN schools s ON s.id = rr.school_id
       LEFT JOIN blocks b ON b.id = rr.block_id
-      LEFT JOIN portfolio_ranks pr ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id
+      LEFT JOIN portfolio_ranks pr
+        ON pr.trust_id = rr.trust_id AND pr.room_id = rr.room_id AND pr.generation = ${state.generation}
       LEFT JOIN monitor_room_analyses ma ON ma.room_id = rr.room_id AND ma.trust_id = rr.trust_id
     WHERE rr.trust_id = ${trustId} ${scope}
     ORDER BY rr.room_id`.execute(db);
