@@ -100,10 +100,18 @@ export interface AuditEventsTable {
 }
 
 /** Tables of the estate feature. */
+/** Each school's number of rooms in the register (kept by triggers on rooms; no row yet: none). */
+export interface SchoolRoomCountsTable {
+  school_id: string;
+  trust_id: string;
+  rooms: number;
+}
+
 export interface EstateTables {
   trusts: TrustsTable;
   schools: SchoolsTable;
   blocks: BlocksTable;
   rooms: RoomsTable;
+  school_room_counts: SchoolRoomCountsTable;
   audit_events: AuditEventsTable;
 }

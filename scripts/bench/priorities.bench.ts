@@ -1,12 +1,17 @@
 /**
- * GET /api/priorities at estate scale: 100,000 assessed rooms in a fresh bench trust, 20 concurrent
- * clients for 10 s on each of: sorted by rank, sorted by payback, filtered by one school.
- * Prints { priorities_p95_ms, priorities_rps, ... } as its last line.
+ * Reads at estate scale, in a fresh bench trust each:
+ *  - 100,000 assessed rooms (100 schools): GET /api/priorities with 20 concurrent clients for 10 s on each of sorted
+ *    by rank, sorted by payback, filtered by one school;
+ *  - national scale, 550,000 rooms in 22,000 schools (BENCH_PRIORITIES_NATIONAL=0 skips it): the same three, the
+ *    dashboard (GET /api/dashboard, its aggregates) with 20 clients, and the results workbook streamed
+ *    (GET /api/exports/results.xlsx: first byte, whole file, size).
+ * Prints { priorities_p95_ms, priorities_rps, priorities_550k_p95_ms, dashboard_550k_p95_ms, ... } as its last line.
  */
 import { createRequire } from 'node:module';
 import { sql } from 'kysely';
 import { createDb } from '../../src/lib/server/db/client';
 import { insertAssessedRooms } from '../../tests/integration/portfolio-fixture';
+import { createOtherTrust } from '../../tests/helpers/session';
 
 const APP_URL = (process.env.APP_URL ?? '').replace(/\/$/, '');
 const DATABASE_URL = process.env.DATABASE_URL ?? '';
@@ -34,33 +39,11 @@ const autocannon = createRequire(import.meta.url)('autocannon') as (options: {
 
 const SCHOOLS = 100;
 const ROOMS_PER_SCHOOL = 1000;
+/** National scale: about 22,000 schools and 550,000 teaching rooms (from memory). */
+const NATIONAL_SCHOOLS = 22_000;
+const NATIONAL_ROOMS_PER_SCHOOL = 25;
+const NATIONAL = process.env.BENCH_PRIORITIES_NATIONAL !== '0';
 const log = (message: string) => console.error(`[priorities.bench] ${message}`);
-
-function cookieFrom(response: Response): string {
-  return response.headers
-    .getSetCookie()
-    .map((l) => l.split(';')[0] ?? '')
-    .filter((p) => p.includes('=') && !p.endsWith('='))
-    .join('; ');
-}
-
-/** Signs up a bench user, who becomes trust admin of a new, empty trust. */
-async function signUpBenchTrust(): Promise<{ cookie: string; trustId: string }> {
-  const email = `bench-${Date.now()}@bench.airtally.test`;
-  const response = await fetch(`${APP_URL}/api/account/sign-up`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: APP_URL },
-    body: JSON.stringify({
-      name: 'Bench Admin',
-      email,
-      password: 'bench-password-2026',
-      trustName: 'Bench Portfolio Trust',
-    }),
-  });
-  if (response.status !== 201) throw new Error(`Bench sign-up failed: ${response.status} ${await response.text()}`);
-  const body = (await response.json()) as { trust: { id: string } };
-  return { cookie: cookieFrom(response), trustId: body.trust.id };
-}
 
 function percentile(sorted: number[], p: number): number {
   if (sorted.length === 0) return Number.NaN;
@@ -89,36 +72,34 @@ async function load(name: string, path: string, cookie: string) {
   return { summary, times };
 }
 
-const db = createDb(DATABASE_URL);
-try {
-  const { cookie, trustId } = await signUpBenchTrust();
+/** A fresh bench trust with `schools` × `roomsPerSchool` assessed rooms, vacuumed and analysed. */
+async function benchEstate(schools: number, roomsPerSchool: number) {
+  // A new account naming a new trust (its trust admin), signed up as a person would: confirmation e-mail and all.
+  const { cookie, trustId } = await createOtherTrust();
   const started = Date.now();
   const fixture = await insertAssessedRooms(db, {
     trustId,
     createTrust: false,
-    schools: SCHOOLS,
-    roomsPerSchool: ROOMS_PER_SCHOOL,
+    schools,
+    roomsPerSchool,
     label: 'Bench',
     seed: 0.17,
   });
-  log(`inserted ${SCHOOLS * ROOMS_PER_SCHOOL} assessed rooms in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  log(`inserted ${schools * roomsPerSchool} assessed rooms in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   // Steady state: statistics and visibility maps up to date, so autovacuum does not run during the load.
   await sql`VACUUM ANALYZE rooms, room_results, schools, blocks`.execute(db);
+  return { cookie, school: fixture.schoolIds[Math.floor(schools / 2)]! };
+}
 
-  const school = fixture.schoolIds[Math.floor(SCHOOLS / 2)]!;
-  const scenarios = [
-    ['by rank', '/api/priorities?sort=rank&page=1&pageSize=50'],
-    ['by payback', '/api/priorities?sort=simplePaybackYears&dir=asc&page=1&pageSize=50'],
-    ['one school', `/api/priorities?sort=rank&schoolId=${school}&page=1&pageSize=50`],
-  ] as const;
-  // The first request ranks the trust (100,000 rows) once; the load test measures the steady state.
+/** Warms each path once (the first priorities request ranks the trust), then loads each with 20 clients for 10 s. */
+async function loadScenarios(scenarios: readonly (readonly [string, string])[], cookie: string) {
   for (const [name, path] of scenarios) {
     const t = Date.now();
     const response = await fetch(`${APP_URL}${path}`, { headers: { cookie } });
     const body = (await response.json()) as { total?: number };
     if (response.status !== 200)
       throw new Error(`${name}: warm-up answered ${response.status} ${JSON.stringify(body)}`);
-    log(`warm-up ${name}: ${Date.now() - t} ms, total ${body.total}`);
+    log(`warm-up ${name}: ${Date.now() - t} ms${body.total === undefined ? '' : `, total ${body.total}`}`);
   }
   await sql`VACUUM ANALYZE portfolio_ranks`.execute(db);
   // A few seconds of unmeasured load so the server's JIT and Postgres's caches are warm for every scenario.
@@ -126,15 +107,64 @@ try {
     await autocannon({ url: `${APP_URL}${path}`, connections: 20, duration: 2, headers: { cookie } });
   const runs = [];
   for (const [name, path] of scenarios) runs.push(await load(name, path, cookie));
+  return runs;
+}
+
+const prioritiesScenarios = (school: string) =>
+  [
+    ['by rank', '/api/priorities?sort=rank&page=1&pageSize=50'],
+    ['by payback', '/api/priorities?sort=simplePaybackYears&dir=asc&page=1&pageSize=50'],
+    ['one school', `/api/priorities?sort=rank&schoolId=${school}&page=1&pageSize=50`],
+  ] as const;
+
+/** Streams the results workbook: ms to the first byte, seconds for the whole file, its size. */
+async function streamExport(path: string, cookie: string) {
+  const started = performance.now();
+  const response = await fetch(`${APP_URL}${path}`, { headers: { cookie } });
+  if (response.status !== 200 || !response.body) throw new Error(`${path} answered ${response.status}`);
+  let firstByteMs = Number.NaN;
+  let bytes = 0;
+  for await (const piece of response.body) {
+    if (bytes === 0) firstByteMs = performance.now() - started;
+    bytes += piece.byteLength;
+  }
+  return { firstByteMs, seconds: (performance.now() - started) / 1000, bytes };
+}
+
+const p95 = (runs: { summary: { p95Ms: number } }[]) =>
+  Math.round(Math.max(...runs.map((r) => r.summary.p95Ms)) * 10) / 10;
+
+const db = createDb(DATABASE_URL);
+try {
+  const estate = await benchEstate(SCHOOLS, ROOMS_PER_SCHOOL);
+  const runs = await loadScenarios(prioritiesScenarios(estate.school), estate.cookie);
   const all = runs.flatMap((r) => r.times).sort((a, b) => a - b);
-  console.log(
-    JSON.stringify({
-      priorities_p95_ms: Math.round(Math.max(...runs.map((r) => r.summary.p95Ms)) * 10) / 10,
-      priorities_p95_ms_all_requests: Math.round(percentile(all, 95) * 10) / 10,
-      priorities_rps: Math.round(runs.reduce((s, r) => s + r.summary.rps, 0) / runs.length),
-      priorities_rooms: SCHOOLS * ROOMS_PER_SCHOOL,
-    }),
-  );
+  const figures: Record<string, unknown> = {
+    priorities_p95_ms: p95(runs),
+    priorities_p95_ms_all_requests: Math.round(percentile(all, 95) * 10) / 10,
+    priorities_rps: Math.round(runs.reduce((s, r) => s + r.summary.rps, 0) / runs.length),
+    priorities_rooms: SCHOOLS * ROOMS_PER_SCHOOL,
+  };
+  if (NATIONAL) {
+    const national = await benchEstate(NATIONAL_SCHOOLS, NATIONAL_ROOMS_PER_SCHOOL);
+    const priorities = await loadScenarios(prioritiesScenarios(national.school), national.cookie);
+    const [dashboard] = await loadScenarios([['dashboard', '/api/dashboard']], national.cookie);
+    const exported = await streamExport('/api/exports/results.xlsx', national.cookie);
+    log(
+      `results.xlsx: first byte ${exported.firstByteMs.toFixed(0)} ms, ${exported.seconds.toFixed(1)} s, ${exported.bytes} bytes`,
+    );
+    Object.assign(figures, {
+      priorities_550k_p95_ms: p95(priorities),
+      priorities_550k_p95_ms_by_scenario: Object.fromEntries(priorities.map((r) => [r.summary.name, r.summary.p95Ms])),
+      dashboard_550k_p95_ms: dashboard!.summary.p95Ms,
+      dashboard_550k_p50_ms: dashboard!.summary.p50Ms,
+      results_export_550k_first_byte_ms: Math.round(exported.firstByteMs),
+      results_export_550k_seconds: Number(exported.seconds.toFixed(1)),
+      results_export_550k_bytes: exported.bytes,
+      reads_550k_rooms: NATIONAL_SCHOOLS * NATIONAL_ROOMS_PER_SCHOOL,
+    });
+  }
+  console.log(JSON.stringify(figures));
 } finally {
   await db.destroy();
 }

@@ -37,7 +37,7 @@ export async function insertAssessedRooms(db: Kysely<Database>, o: FixtureOption
     }
     const schools = await sql<{ id: string }>`
       INSERT INTO schools (trust_id, name, phase, climate_region, heating_fuel)
-      SELECT ${o.trustId}, ${label} || ' School ' || lpad(g::text, 3, '0'), 'primary', 'london_south_east', 'gas'
+      SELECT ${o.trustId}, ${label} || ' School ' || lpad(g::text, greatest(3, length(${o.schools}::text)), '0'), 'primary', 'london_south_east', 'gas'
       FROM generate_series(1, ${o.schools}) g RETURNING id`.execute(trx);
     const schoolIds = schools.rows.map((r) => r.id);
     await sql`

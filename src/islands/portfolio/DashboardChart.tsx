@@ -25,7 +25,7 @@ const TITLES: Record<DashboardChartKind, string> = {
 function caption(kind: DashboardChartKind, d: Dashboard): string {
   switch (kind) {
     case 'co2':
-      return "Rooms in each school by their worst season's mean CO₂ over the school day, in ppm: the darker the part of a bar, the higher the CO₂. These are levels, not the bands: each room's band compares it with its own criterion (see the priorities).";
+      return `Rooms in each school by their worst season's mean CO₂ over the school day, in ppm: the darker the part of a bar, the higher the CO₂. These are levels, not the bands: each room's band compares it with its own criterion (see the priorities).${d.co2Schools.ownBar < d.co2Schools.total ? ` Of ${formatInteger(d.co2Schools.total)} schools, the ${formatInteger(d.co2Schools.ownBar)} with the most rooms at 1,500 ppm or more have a bar each; the others share the last bar.` : ''}`;
     case 'scatter':
       return `Each dot is a room with recommended units: how much poor air its pupils breathe (risk score, up) against how many years the net savings (heating less fans and servicing, against the finance lead's baseline) take to repay the units (right). Rooms up and to the left are the best candidates. ${d.scatter.shown < d.scatter.totalWithRetrofit ? `Showing the ${formatInteger(d.scatter.shown)} highest-ranked of ${formatInteger(d.scatter.totalWithRetrofit)} rooms.` : ''}${d.scatter.neverPayBack > 0 ? ` ${formatInteger(d.scatter.neverPayBack)} rooms whose units never pay back (the heat they save does not cover fans and servicing) are not plotted.` : ''}`;
     case 'cumulative':
@@ -73,7 +73,7 @@ function TableAlternative({ kind, d, bandLabels }: { kind: DashboardChartKind; d
         </thead>
         <tbody>
           {d.co2BySchool.map((r) => (
-            <tr key={r.schoolId} className="border-t border-line">
+            <tr key={r.schoolId ?? 'other-schools'} className="border-t border-line">
               <th scope="row" className={`${cell} font-normal`}>
                 {r.schoolName}
               </th>

@@ -155,7 +155,8 @@ export interface FinanceReport {
 
 /** Counts of rooms per school in bands of worst-season occupied mean CO2. */
 export interface Co2BySchool {
-  schoolId: string;
+  /** Null for the one bar of the schools beyond CO2_MAX_SCHOOLS. */
+  schoolId: string | null;
   schoolName: string;
   below1000: number;
   from1000to1500: number;
@@ -193,6 +194,8 @@ export interface Dashboard {
     evidence: { measured: number; calibrated: number; predicted: number };
   };
   co2BySchool: Co2BySchool[];
+  /** Schools assessed, and how many of them have a bar of their own (the rest share the last bar). */
+  co2Schools: { total: number; ownBar: number };
   /** Rooms with units that pay back; `neverPayBack` counts those whose units never do (not plotted). */
   scatter: { points: ScatterPoint[]; totalWithRetrofit: number; shown: number; neverPayBack: number };
   cumulative: { points: CumulativePoint[]; totalCapitalGbp: number; totalPupilHoursRemoved: number };
