@@ -2,6 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testDb } from '../helpers/db';
 import { api, createOtherTrust, DEMO_ACCOUNTS, signIn } from '../helpers/session';
+import { insertAssessedRooms } from './portfolio-fixture';
 
 const db = testDb();
 afterAll(() => db.destroy());
@@ -92,6 +93,28 @@ describe('a trust admin adds, edits and removes a school', () => {
 });
 
 describe('who may remove a school', () => {
+  it('says how many of an assessed school’s rooms have results before it is removed', async () => {
+    const other = await createOtherTrust();
+    const { schoolIds } = await insertAssessedRooms(db, {
+      trustId: other.trustId,
+      createTrust: false,
+      schools: 2,
+      roomsPerSchool: 3,
+      label: 'Removal',
+    });
+    // Counted here through the rooms, not the way the app counts them (through the school's runs).
+    const expected = await db
+      .selectFrom('room_results')
+      .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+      .select((e) => e.fn.count<string>('room_results.room_id').distinct().as('n'))
+      .where('rooms.school_id', '=', schoolIds[0]!)
+      .executeTakeFirstOrThrow();
+    expect(Number(expected.n)).toBe(3);
+    const impact = await send(other.cookie, `/api/schools/${schoolIds[0]}/removal`, 'GET');
+    expect(impact.status).toBe(200);
+    expect(impact.body.removal.assessedRooms).toBe(Number(expected.n));
+  });
+
   it('does not let a viewer remove one, and removes nothing', async () => {
     const viewer = await signIn(DEMO_ACCOUNTS.viewer);
     const school = await db

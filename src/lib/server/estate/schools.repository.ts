@@ -226,11 +226,14 @@ export async function countSchoolDependants(db: Kysely<Database>, schoolId: stri
     .selectNoFrom((eb) => [
       eb.selectFrom('blocks').select(eb.fn.countAll<string>().as('n')).where('school_id', '=', schoolId).as('blocks'),
       eb.selectFrom('rooms').select(eb.fn.countAll<string>().as('n')).where('school_id', '=', schoolId).as('rooms'),
+      // Rooms with results: the school's rooms in any run of its trust (results are stored per run and school).
       eb
         .selectFrom('room_results')
-        .innerJoin('rooms', 'rooms.id', 'room_results.room_id')
+        .innerJoin('assessment_runs', 'assessment_runs.id', 'room_results.run_id')
+        .innerJoin('schools', 'schools.trust_id', 'assessment_runs.trust_id')
         .select((e) => e.fn.count<string>('room_results.room_id').distinct().as('n'))
-        .where('rooms.school_id', '=', schoolId)
+        .where('schools.id', '=', schoolId)
+        .whereRef('room_results.school_id', '=', 'schools.id')
         .as('assessed'),
       eb
         .selectFrom('membership_schools')

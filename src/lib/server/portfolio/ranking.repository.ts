@@ -11,13 +11,22 @@ import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { Weights } from './portfolio.schemas';
 import type { WeightSettings } from './portfolio.types';
 
-/** The stored parts that decide a room's rank (columns of its current result row). */
-export async function loadRankParts(db: Kysely<Database>, trustId: string): Promise<RankParts[]> {
-  const { rows } = await sql<{ room_id: string; r: number; h: number; ce: number | null; pb: number | null }>`
-    SELECT room_id, risk_score AS r, pupil_hours_above AS h, pupil_hours_removed_per_1000_gbp AS ce, simple_payback_years AS pb
+/** The stored parts that decide a room's rank (columns of its current result row), with the run of that row. */
+export async function loadRankParts(db: Kysely<Database>, trustId: string): Promise<(RankParts & { runId: string })[]> {
+  const { rows } = await sql<{
+    room_id: string;
+    run_id: string;
+    r: number;
+    h: number;
+    ce: number | null;
+    pb: number | null;
+  }>`
+    SELECT room_id, run_id, risk_score AS r, pupil_hours_above AS h, pupil_hours_removed_per_1000_gbp AS ce,
+      simple_payback_years AS pb
     FROM current_room_results WHERE trust_id = ${trustId}`.execute(db);
   return rows.map((row) => ({
     roomId: row.room_id,
+    runId: row.run_id,
     riskScore: row.r,
     pupilHoursPerYearAbove: row.h,
     pupilHoursRemovedPer1000Gbp: row.ce,
@@ -30,10 +39,19 @@ export async function computeRanks(
   db: Kysely<Database>,
   trustId: string,
   weights: Weights,
-): Promise<{ ids: string[]; ranks: number[]; scores: number[]; risk: number[]; ce: number[]; pb: number[] }> {
+): Promise<{
+  ids: string[];
+  runs: string[];
+  ranks: number[];
+  scores: number[];
+  risk: number[];
+  ce: number[];
+  pb: number[];
+}> {
   const ranked = rankOrder(await loadRankParts(db, trustId), weights);
   return {
     ids: ranked.map((r) => r.row.roomId),
+    runs: ranked.map((r) => r.row.runId),
     ranks: ranked.map((r) => r.rank),
     scores: ranked.map((r) => r.score),
     risk: ranked.map((r) => r.parts.risk),
@@ -176,14 +194,14 @@ async function writeRankRows(
     INSERT INTO portfolio_ranks (trust_id, generation, room_id, school_id, run_id, rank, score, block_id, school_name,
       ventilation_type, risk_band, criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp,
       simple_payback_years, npv_gbp, pupil_hours_above, pupil_hours_removed, score_risk, score_cost_effectiveness, score_payback)
-    SELECT rr.trust_id, ${generation}, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
+    SELECT ${trustId}, ${generation}, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
       rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
       rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.pupil_hours_removed,
       v.risk, v.ce, v.pb
-    FROM unnest(${r.ids.slice(from, to)}::uuid[], ${r.ranks.slice(from, to)}::int[], ${r.scores.slice(from, to)}::float8[],
-        ${r.risk.slice(from, to)}::float8[], ${r.ce.slice(from, to)}::float8[], ${r.pb.slice(from, to)}::float8[])
-        AS v(room_id, rank, score, risk, ce, pb)
-      JOIN current_room_results rr ON rr.room_id = v.room_id AND rr.trust_id = ${trustId}
+    FROM unnest(${r.ids.slice(from, to)}::uuid[], ${r.runs.slice(from, to)}::uuid[], ${r.ranks.slice(from, to)}::int[],
+        ${r.scores.slice(from, to)}::float8[], ${r.risk.slice(from, to)}::float8[], ${r.ce.slice(from, to)}::float8[],
+        ${r.pb.slice(from, to)}::float8[]) AS v(room_id, run_id, rank, score, risk, ce, pb)
+      JOIN room_results rr ON rr.run_id = v.run_id AND rr.room_id = v.room_id
       JOIN schools s ON s.id = rr.school_id`.execute(db);
 }
 
@@ -238,7 +256,11 @@ async function rebuildRanks(
         writeRankRows(piece === 0 ? trx : db, trustId, generation, r, piece * size, (piece + 1) * size),
       ),
     );
-    await sql`ANALYZE portfolio_ranks`.execute(trx);
+    // Statistics when this trust's ranks outnumber what the planner knows of the table (a first big ranking); after
+    // that, a rebuild's churn gets the table analysed by autovacuum.
+    const known = await sql<{ rows: number }>`
+      SELECT reltuples::float8 AS rows FROM pg_class WHERE oid = 'portfolio_ranks'::regclass`.execute(trx);
+    if (r.ids.length > (known.rows[0]?.rows ?? 0)) await sql`ANALYZE portfolio_ranks`.execute(trx);
     const curve = await cumulativeCurve(trx, trustId, null, generation);
     const values = {
       ranked_weights: JSON.stringify(weights),
