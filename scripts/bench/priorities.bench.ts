@@ -155,9 +155,11 @@ try {
     );
     Object.assign(figures, {
       priorities_550k_p95_ms: p95(priorities),
-      priorities_550k_p95_ms_by_scenario: Object.fromEntries(priorities.map((r) => [r.summary.name, r.summary.p95Ms])),
-      dashboard_550k_p95_ms: dashboard!.summary.p95Ms,
-      dashboard_550k_p50_ms: dashboard!.summary.p50Ms,
+      priorities_550k_p95_ms_by_scenario: Object.fromEntries(
+        priorities.map((r) => [r.summary.name, Math.round(r.summary.p95Ms * 10) / 10]),
+      ),
+      dashboard_550k_p95_ms: Math.round(dashboard!.summary.p95Ms * 10) / 10,
+      dashboard_550k_p50_ms: Math.round(dashboard!.summary.p50Ms * 10) / 10,
       results_export_550k_first_byte_ms: Math.round(exported.firstByteMs),
       results_export_550k_seconds: Number(exported.seconds.toFixed(1)),
       results_export_550k_bytes: exported.bytes,

@@ -6,6 +6,7 @@
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CO2_MAX_SCHOOLS } from '../../src/lib/server/portfolio/dashboard.repository';
+import type { Dashboard } from '../../src/lib/server/portfolio/portfolio.types';
 import { testDb } from '../helpers/db';
 import { api, createOtherTrust } from '../helpers/session';
 import { insertAssessedRooms } from './portfolio-fixture';
@@ -17,18 +18,7 @@ afterAll(async () => {
 
 const SCHOOLS = CO2_MAX_SCHOOLS + 5;
 
-interface DashboardBody {
-  headline: { roomsInRegister: number; roomsAssessed: number };
-  co2BySchool: {
-    schoolId: string | null;
-    schoolName: string;
-    below1000: number;
-    from1000to1500: number;
-    from1500to2000: number;
-    above2000: number;
-  }[];
-  co2Schools: { total: number; ownBar: number };
-}
+type DashboardBody = Pick<Dashboard, 'headline' | 'co2BySchool' | 'co2Schools'>;
 
 async function dashboard(cookie: string): Promise<DashboardBody> {
   const response = await api('/api/dashboard', { cookie });
