@@ -36,6 +36,8 @@ export interface DemoBlock {
   heatingEfficiency?: number;
   /** How the rooms of this block are ventilated today, with weights. */
   ventilation: [VentilationType, number][];
+  /** The pupils' age group when it is not the school's (an all-through school's primary phase). */
+  ageGroup?: AgeGroup;
   rooms: DemoRoomPlan[];
 }
 
@@ -478,6 +480,7 @@ export const DEMO_SCHOOLS: DemoSchool[] = [
     blocks: [
       {
         name: 'Primary Phase',
+        ageGroup: 'primary',
         yearBuilt: 1966,
         constructionType: 'system_built',
         airPermeabilityM3hM2: 15,
@@ -597,7 +600,7 @@ export function demoRooms(school: DemoSchool, schoolIndex: number): DemoRoom[] {
           ceilingHeightM: round(between(plan.ceilingHeightM), 2),
           pupils,
           adults: plan.adults,
-          ageGroup: plan.pupils[1] === 0 ? 'adult' : school.ageGroup,
+          ageGroup: plan.pupils[1] === 0 ? 'adult' : (block.ageGroup ?? school.ageGroup),
           orientationDeg: pick(BEARINGS),
           glazingAreaM2,
           openableAreaM2: round(Math.min(openable, glazingAreaM2), 2),

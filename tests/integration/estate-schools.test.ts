@@ -115,6 +115,30 @@ describe('who may remove a school', () => {
     expect(impact.body.removal.assessedRooms).toBe(Number(expected.n));
   });
 
+  it('tells the demo trust’s admin what removing a school does to the paid subscription, before anything changes', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const schools = await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').execute();
+    const before = await db
+      .selectFrom('billing_accounts')
+      .select(['quantity', 'updated_at'])
+      .where('trust_id', '=', 'demo-trust')
+      .executeTakeFirstOrThrow();
+    const impact = await send(admin, `/api/schools/${schools[0]!.id}/removal`, 'GET');
+    expect(impact.status).toBe(200);
+    expect(impact.body.subscriptionChange).toContain(`from ${schools.length} schools to ${schools.length - 1} schools`);
+    // Asking changed nothing: the school and the subscription are as they were.
+    expect(await db.selectFrom('schools').select('id').where('trust_id', '=', 'demo-trust').execute()).toHaveLength(
+      schools.length,
+    );
+    expect(
+      await db
+        .selectFrom('billing_accounts')
+        .select(['quantity', 'updated_at'])
+        .where('trust_id', '=', 'demo-trust')
+        .executeTakeFirstOrThrow(),
+    ).toEqual(before);
+  });
+
   it('does not let a viewer remove one, and removes nothing', async () => {
     const viewer = await signIn(DEMO_ACCOUNTS.viewer);
     const school = await db

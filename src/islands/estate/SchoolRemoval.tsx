@@ -73,9 +73,13 @@ export function SchoolRemoval({ schoolId, schoolName }: { schoolId: string; scho
                 </li>
               )}
             </ul>
-            <p className="text-ink-muted">
-              Export the register first if you may need the rooms again. A paid plan’s school count follows.
-            </p>
+            {impact.subscriptionChange && (
+              <p role="status" data-testid="school-removal-subscription-change">
+                <strong>Subscription: </strong>
+                {impact.subscriptionChange}
+              </p>
+            )}
+            <p className="text-ink-muted">Export the register first if you may need the rooms again.</p>
           </div>
           <div className="mt-3 flex gap-2">
             <button

@@ -33,8 +33,13 @@ export function changeBlockPlantYear(id: string, heatingInstalledYear: number | 
 }
 
 /** What removing a school would take with it. */
-export async function schoolRemoval(id: string): Promise<SchoolRemovalImpact & { name: string }> {
-  return (await apiFetch<{ removal: SchoolRemovalImpact & { name: string } }>(`/api/schools/${id}/removal`)).removal;
+export async function schoolRemoval(
+  id: string,
+): Promise<SchoolRemovalImpact & { name: string; subscriptionChange: string | null }> {
+  const answer = await apiFetch<{ removal: SchoolRemovalImpact & { name: string }; subscriptionChange: string | null }>(
+    `/api/schools/${id}/removal`,
+  );
+  return { ...answer.removal, subscriptionChange: answer.subscriptionChange };
 }
 
 /** Removes a school with its blocks, rooms and results. */
