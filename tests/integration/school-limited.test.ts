@@ -19,6 +19,7 @@ afterAll(async () => {
 });
 
 type RunView = { id: string; scope: string; schoolId: string | null; problems: { roomId: string }[] };
+type RunCounts = { roomsTotal: number; roomsDone: number };
 
 describe('a member limited to one school', () => {
   it("gets 404 for the trust admin's import, whose missing rooms span every school", async () => {
@@ -74,6 +75,25 @@ describe('a member limited to one school', () => {
     expect(runs.map((r) => r.id)).toContain(f.trustRunId);
     expect(runs.map((r) => r.id)).not.toContain(f.otherSchoolRunId);
     expect(runs.every((r) => r.schoolId === null || r.schoolId === f.allowedSchoolId)).toBe(true);
+  });
+
+  it('counts only the rooms of their own school in a trust-wide run', async () => {
+    const asAdmin = (await (await api(`/api/assessments/${f.trustRunId}`, { cookie: admin })).json()) as RunCounts;
+    const mine = (await (await api(`/api/assessments/${f.trustRunId}`, { cookie: f.cookie })).json()) as RunCounts;
+    // Counted here from the rooms of the member's school, not from the run.
+    const own = await db
+      .selectFrom('rooms')
+      .select((e) => e.fn.countAll<string>().as('n'))
+      .where('school_id', '=', f.allowedSchoolId)
+      .executeTakeFirstOrThrow();
+    expect(Number(own.n)).toBeGreaterThan(0);
+    expect(asAdmin.roomsTotal).toBeGreaterThan(Number(own.n));
+    expect(mine.roomsTotal).toBe(Number(own.n));
+    expect(mine.roomsDone).toBe(Number(own.n));
+    const { runs } = (await (await api('/api/assessments?limit=50', { cookie: f.cookie })).json()) as {
+      runs: (RunView & RunCounts)[];
+    };
+    expect(runs.find((r) => r.id === f.trustRunId)?.roomsTotal).toBe(Number(own.n));
   });
 
   it.each([

@@ -117,12 +117,17 @@ export async function startRun(
 
 /**
  * The runs a member may see. A member limited to some schools sees no run of another school, and of a
- * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms).
+ * trust-wide run only the problems of rooms in their schools (the others name other schools' rooms) and the rooms of
+ * their schools in its counts (how many rooms the other schools have is not theirs to know).
  */
 async function visibleTo(db: Kysely<Database>, trust: ActiveTrust, runs: Run[]): Promise<Run[]> {
   const allowed = trust.schoolIds;
   if (allowed === null) return runs;
-  const visible = runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId));
+  const visible = await withOwnRoomCounts(
+    db,
+    allowed,
+    runs.filter((r) => r.schoolId === null || allowed.includes(r.schoolId)),
+  );
   const roomIds = [...new Set(visible.flatMap((r) => r.problems.map((p) => p.roomId)))];
   const inSchools = new Set(
     roomIds.length && allowed.length
@@ -137,6 +142,45 @@ async function visibleTo(db: Kysely<Database>, trust: ActiveTrust, runs: Run[]):
       : [],
   );
   return visible.map((r) => ({ ...r, problems: r.problems.filter((p) => inSchools.has(p.roomId)) }));
+}
+
+/**
+ * Trust-wide runs counted over `schoolIds` only: the run's snapshot rooms in those schools, and its result rows there
+ * (the rooms assessed so far). A run whose snapshot was pruned counts its remaining results.
+ */
+async function withOwnRoomCounts(db: Kysely<Database>, schoolIds: string[], runs: Run[]): Promise<Run[]> {
+  const wide = runs.filter((r) => r.schoolId === null).map((r) => r.id);
+  if (wide.length === 0) return runs;
+  const none = schoolIds.length === 0;
+  const [totals, done] = await Promise.all([
+    none
+      ? []
+      : db
+          .selectFrom('assessment_run_rooms')
+          .innerJoin('rooms', 'rooms.id', 'assessment_run_rooms.room_id')
+          .select(['assessment_run_rooms.run_id', (e) => e.fn.countAll<string>().as('n')])
+          .where('assessment_run_rooms.run_id', 'in', wide)
+          .where('rooms.school_id', 'in', schoolIds)
+          .groupBy('assessment_run_rooms.run_id')
+          .execute(),
+    none
+      ? []
+      : db
+          .selectFrom('room_results')
+          .select(['run_id', (e) => e.fn.countAll<string>().as('n')])
+          .where('run_id', 'in', wide)
+          .where('school_id', 'in', schoolIds)
+          .groupBy('run_id')
+          .execute(),
+  ]);
+  const totalOf = new Map(totals.map((t) => [t.run_id, Number(t.n)]));
+  const doneOf = new Map(done.map((d) => [d.run_id, Number(d.n)]));
+  return runs.map((r) => {
+    if (r.schoolId !== null) return r;
+    const roomsDone = doneOf.get(r.id) ?? 0;
+    const roomsTotal = Math.max(totalOf.get(r.id) ?? 0, roomsDone);
+    return { ...r, roomsTotal, roomsDone: r.status === 'succeeded' ? roomsTotal : roomsDone };
+  });
 }
 
 /** A run's status (a run whose worker died is resumed or failed by the queue's sweep within a minute). */
