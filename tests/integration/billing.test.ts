@@ -105,6 +105,33 @@ describe('plans', () => {
   });
 });
 
+describe('invoices for the finance lead', () => {
+  it('shows the finance lead the trust’s invoices and the next one, with no control that changes the plan', async () => {
+    const admin = await signIn(DEMO_ACCOUNTS.trust_admin);
+    const finance = await signIn(DEMO_ACCOUNTS.finance_lead);
+    const list = async (cookie: string) => {
+      const response = await api('/api/billing/invoices', { cookie });
+      expect(response.status).toBe(200);
+      return ((await response.json()) as { invoices: { id: string }[] }).invoices.map((i) => i.id);
+    };
+    // The provider's own list for the demo subscription is the oracle, not our answer to the admin.
+    const atProvider = await provider().invoices.list({ subscription: await subscriptionIdOf(db, 'demo-trust') });
+    expect(atProvider.data.length).toBeGreaterThan(0);
+    const financeIds = await list(finance);
+    expect(new Set(financeIds)).toEqual(new Set(atProvider.data.map((i) => i.id)));
+    expect(financeIds).toEqual(await list(admin));
+
+    const page = await api('/app/settings/billing', { cookie: finance });
+    expect(page.status).toBe(200);
+    const html = await page.text();
+    expect(html).toContain('data-testid="invoices"');
+    expect(html).toContain('data-testid="next-invoice"');
+    expect(html).not.toMatch(/action="\/api\/billing\/(quantity|period|cancel|resume|checkout)"/);
+    // Changing the plan stays with the trust admin.
+    expect((await api('/api/billing/cancel', { method: 'POST', cookie: finance, body: '{}' })).status).toBe(403);
+  });
+});
+
 describe('upgrade through hosted checkout', () => {
   it('refuses checkout until the trust admin has confirmed their e-mail', async () => {
     const { cookie } = await createOtherTrust();
@@ -354,7 +381,7 @@ describe('only trust admins manage billing', () => {
     ['GET', '/api/billing/invoices', undefined],
   ];
   for (const role of ['viewer', 'finance_lead', 'estates_manager'] as const) {
-    it(`answers 403 to the ${role.replace('_', ' ')} on every billing call and changes nothing`, async () => {
+    it(`answers 403 to the ${role.replace('_', ' ')} on every billing change and changes nothing`, async () => {
       const cookie = await signIn(DEMO_ACCOUNTS[role]);
       const before = await db
         .selectFrom('billing_accounts')
@@ -363,7 +390,9 @@ describe('only trust admins manage billing', () => {
         .executeTakeFirstOrThrow();
       for (const [method, path, body] of writes) {
         const response = await api(path, { method, cookie, ...(body ? { body } : {}) });
-        expect(response.status, `${method} ${path}`).toBe(403);
+        // The finance lead reads the invoices (tested above); nothing else.
+        const expected = role === 'finance_lead' && path === '/api/billing/invoices' ? 200 : 403;
+        expect(response.status, `${method} ${path}`).toBe(expected);
       }
       const after = await db
         .selectFrom('billing_accounts')

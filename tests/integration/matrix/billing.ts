@@ -19,7 +19,13 @@ export const entries: MatrixEntry[] = [
     expect: adminOnly(200, 200),
     note: 'the other trust sees its own free plan',
   },
-  { file: 'billing/invoices.ts', method: 'GET', path: '/api/billing/invoices', expect: adminOnly(200, 200) },
+  {
+    file: 'billing/invoices.ts',
+    method: 'GET',
+    path: '/api/billing/invoices',
+    expect: { ...adminOnly(200, 200), finance_lead: 200 },
+    note: 'finance leads read the invoices to reconcile and pay them',
+  },
   {
     file: 'billing/checkout.ts',
     method: 'POST',

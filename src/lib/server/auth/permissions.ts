@@ -14,7 +14,7 @@ export const STATEMENTS = {
   monitoring: ['read', 'import', 'calibrate'],
   programme: ['read', 'edit', 'export'],
   members: ['read', 'invite', 'update', 'remove'],
-  billing: ['read', 'manage'],
+  billing: ['read', 'invoices', 'manage'],
   audit: ['read'],
 } as const;
 
@@ -47,6 +47,8 @@ export const ROLE_GRANTS: Record<Role, Grants> = {
   },
   finance_lead: {
     ...READ_ALL,
+    // The invoices, to reconcile and pay them; changing the plan stays with the trust admin.
+    billing: ['read', 'invoices'],
     register: ['export'],
     assessment: ['read', 'run', 'export'],
     assumptions: ['read', 'edit_financial'],
