@@ -296,3 +296,29 @@ describe('refusing registers that are too long', () => {
     });
   });
 });
+
+describe('a unit written in the row under the header', () => {
+  it('reads "Ceiling height" over "(mm)" as millimetres and does not take the units row for data', async () => {
+    const csv = [
+      'School,Room code,Ceiling height,Floor area,Pupils',
+      ',,(mm),(m²),',
+      'Fernhill Primary,G1,2700,52,28',
+      'Fernhill Primary,G2,3100,55,30',
+    ].join('\n');
+    const { file, plan } = await preview(Buffer.from(csv), 'csv');
+    expect([file.header.row, file.header.rowCount]).toEqual([1, 2]);
+    // 2,700 mm is 2.7 m (1 mm = 0.001 m, SI).
+    expect(file.read.rows.map((r) => r.values.ceilingHeightM)).toEqual([2.7, 3.1]);
+    // No error anywhere and nothing about row 2: the units row is part of the header, not a room.
+    expect(plan.problems.filter((p) => p.severity === 'error')).toEqual([]);
+    expect(plan.problems.filter((p) => p.row === 2)).toEqual([]);
+    expect(plan.roomWrites.map((w) => w.fields.code)).toEqual(['G1', 'G2']);
+  });
+
+  it('still reads a plain one-row header when the next row is data', async () => {
+    const csv = ['School,Room code,Ceiling height (mm),Pupils', 'Fernhill Primary,G1,2700,28'].join('\n');
+    const { file } = await preview(Buffer.from(csv), 'csv');
+    expect([file.header.row, file.header.rowCount]).toEqual([1, 1]);
+    expect(file.read.rows.map((r) => r.values.ceilingHeightM)).toEqual([2.7]);
+  });
+});

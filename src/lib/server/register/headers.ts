@@ -96,6 +96,8 @@ export interface DetectedColumn {
   header: string;
   headerKey: string;
   field: RegisterField | null;
+  /** A two-row header's cells together, when the unit sits in the other cell ("Ceiling height" over "(mm)"). */
+  headerCells?: string;
 }
 
 /** Where the header sits (1-based row numbers, one or two rows) and how each column maps. */
@@ -137,12 +139,37 @@ function mapColumns(texts: string[][], saved: SavedMappings): DetectedColumn[] {
       }
     }
     if (field) used.add(field);
-    columns.push({ index, letter: columnLetter(index), header, headerKey: headerKey(header), field });
+    columns.push({
+      index,
+      letter: columnLetter(index),
+      header,
+      headerKey: headerKey(header),
+      field,
+      ...(parts.length > 1 ? { headerCells: parts.join(' ') } : {}),
+    });
   }
   return columns;
 }
 
 const score = (columns: DetectedColumn[]) => columns.filter((c) => c.field).length;
+
+/**
+ * True for a row of units under a header ("(mm)", "m²", "l/s"): at least one cell, and every cell only unit words.
+ * Such a row belongs to the header above it, so its units apply, rather than being read as data.
+ */
+function isUnitsRow(texts: string[]): boolean {
+  const cells = texts.filter((t) => t.trim() !== '');
+  if (cells.length === 0) return false;
+  return cells.every((t) => {
+    const words = t
+      .toLowerCase()
+      .replace(/²/g, '2')
+      .replace(/³/g, '3')
+      .replace(/[^a-z0-9]+/g, ' ')
+      .trim();
+    return words !== '' && words.split(' ').every((w) => UNIT_TOKENS.has(w));
+  });
+}
 
 /** How many top rows are searched for the header. */
 export const HEADER_SEARCH_ROWS = 30;
@@ -164,8 +191,10 @@ export function detectHeader(
     if (slice.length < rowCount) return;
     const columns = mapColumns(slice, saved);
     const s = score(columns);
-    // Ties go to the earlier candidate; single rows are tried before pairs, so a pair must score higher.
-    if (s > bestScore) {
+    // Ties go to the earlier candidate; single rows are tried before pairs, so a pair must score higher, unless its
+    // second row is the units of the single row it extends.
+    const unitsUnder = rowCount === 2 && best?.row === row && best.rowCount === 1 && isUnitsRow(slice[1] ?? []);
+    if (s > bestScore || (s === bestScore && unitsUnder)) {
       best = { row, rowCount, confident: false, columns };
       bestScore = s;
     }

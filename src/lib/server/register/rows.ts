@@ -107,7 +107,8 @@ export function compileColumns(columns: DetectedColumn[]): CompiledColumn[] {
       field: c.field as RegisterField,
       header: c.header,
       letter: c.letter,
-      parse: parserFor(c.field as RegisterField, c.header),
+      // The unit may be written in the header's other row: read it from both cells.
+      parse: parserFor(c.field as RegisterField, c.headerCells ?? c.header),
     }));
 }
 
