@@ -6,10 +6,10 @@
  */
 import { promisify } from 'node:util';
 import { gunzipSync, gzip } from 'node:zlib';
-
-const gzipAsync = promisify(gzip);
 import type { RoomAssessmentInput, RoomCalibration, TimetableSegment } from '../../engine';
 import type { MeasuredEvidenceInput, MeasuredRoom } from '../../engine/measured';
+
+const gzipAsync = promisify(gzip);
 
 type Input = RoomAssessmentInput;
 

@@ -151,28 +151,27 @@ async function visibleTo(db: Kysely<Database>, trust: ActiveTrust, runs: Run[]):
 async function withOwnRoomCounts(db: Kysely<Database>, schoolIds: string[], runs: Run[]): Promise<Run[]> {
   const wide = runs.filter((r) => r.schoolId === null).map((r) => r.id);
   if (wide.length === 0) return runs;
-  const none = schoolIds.length === 0;
-  const [totals, done] = await Promise.all([
-    none
-      ? []
-      : db
-          .selectFrom('assessment_run_rooms')
-          .innerJoin('rooms', 'rooms.id', 'assessment_run_rooms.room_id')
-          .select(['assessment_run_rooms.run_id', (e) => e.fn.countAll<string>().as('n')])
-          .where('assessment_run_rooms.run_id', 'in', wide)
-          .where('rooms.school_id', 'in', schoolIds)
-          .groupBy('assessment_run_rooms.run_id')
-          .execute(),
-    none
-      ? []
-      : db
-          .selectFrom('room_results')
-          .select(['run_id', (e) => e.fn.countAll<string>().as('n')])
-          .where('run_id', 'in', wide)
-          .where('school_id', 'in', schoolIds)
-          .groupBy('run_id')
-          .execute(),
-  ]);
+  // A member limited to no school at all counts no room.
+  const [totals, done] =
+    schoolIds.length === 0
+      ? [[], []]
+      : await Promise.all([
+          db
+            .selectFrom('assessment_run_rooms')
+            .innerJoin('rooms', 'rooms.id', 'assessment_run_rooms.room_id')
+            .select(['assessment_run_rooms.run_id', (e) => e.fn.countAll<string>().as('n')])
+            .where('assessment_run_rooms.run_id', 'in', wide)
+            .where('rooms.school_id', 'in', schoolIds)
+            .groupBy('assessment_run_rooms.run_id')
+            .execute(),
+          db
+            .selectFrom('room_results')
+            .select(['run_id', (e) => e.fn.countAll<string>().as('n')])
+            .where('run_id', 'in', wide)
+            .where('school_id', 'in', schoolIds)
+            .groupBy('run_id')
+            .execute(),
+        ]);
   const totalOf = new Map(totals.map((t) => [t.run_id, Number(t.n)]));
   const doneOf = new Map(done.map((d) => [d.run_id, Number(d.n)]));
   return runs.map((r) => {

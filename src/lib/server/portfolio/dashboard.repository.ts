@@ -39,13 +39,13 @@ function mostCommonBaseline(counts: Record<string, number>): string | null {
 export async function headlineFigures(
   db: Kysely<Database>,
   trust: ActiveTrust,
-  sums: Promise<HeadlineSums> = headlineSums(db, trust),
+  sums?: HeadlineSums,
 ): Promise<Dashboard['headline']> {
   const roomScope = trust.schoolIds
     ? sql`c.trust_id = ${trust.id} AND c.school_id = ANY(${trust.schoolIds}::uuid[])`
     : sql`c.trust_id = ${trust.id}`;
   const [h, register, lastRun] = await Promise.all([
-    sums,
+    sums ?? headlineSums(db, trust),
     // Kept per school by triggers on rooms: a sum over the schools, not a count of every room.
     sql<{
       n: number;
@@ -108,7 +108,8 @@ async function headlineSums(db: Kysely<Database>, trust: ActiveTrust): Promise<H
  */
 export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promise<Dashboard> {
   const ranks = await ensureRanks(db, trust.id);
-  const key = JSON.stringify([trust.id, trust.schoolIds, ranks.stamp, ranks.generation]);
+  // A generation is one build of the ranks, from one results stamp: it names both.
+  const key = JSON.stringify([trust.id, trust.schoolIds, ranks.generation]);
   let figures = figuresCache.get(key);
   if (!figures) {
     figures = resultFigures(db, trust, ranks.generation);
@@ -117,7 +118,7 @@ export async function dashboard(db: Kysely<Database>, trust: ActiveTrust): Promi
     figures.catch(() => figuresCache.delete(key));
   }
   const { sums, ...rest } = await figures;
-  return { headline: await headlineFigures(db, trust, Promise.resolve(sums)), ...rest };
+  return { headline: await headlineFigures(db, trust, sums), ...rest };
 }
 
 /**

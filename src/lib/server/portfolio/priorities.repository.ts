@@ -157,7 +157,7 @@ export async function selectPriorityRows(
   return result.rows.map(toPriorityRow);
 }
 
-/** Counts survive until the trust's results change (the stamp is part of the key). */
+/** Counts survive until the trust's ranks are built again (their generation is part of the key). */
 const countCache = new Map<string, number>();
 const COUNT_CACHE_MAX = 500;
 
@@ -171,7 +171,7 @@ export async function countPriorityRows(
   const key = JSON.stringify([
     trust.id,
     trust.schoolIds,
-    ranks.stamp,
+    // A generation is one build of the ranks, from one results stamp: it names both.
     ranks.generation,
     filter.schoolId,
     filter.blockId,

@@ -43,15 +43,20 @@ const UNIT_TOKENS = new Set([
 ]);
 const KEEP_NO = new Set(['room no', 'no of pupils', 'no of adults']);
 
-/** A header reduced to lower-case words, punctuation and units removed ("Floor area (m²)" → "floor area"). */
-export function headerKey(header: string): string {
-  const words = header
+/** A header cell as lower-case words without punctuation ("Floor area (m²)" → "floor area m2"). */
+function headerWords(text: string): string {
+  return text
     .toLowerCase()
     .replace(/²/g, '2')
     .replace(/³/g, '3')
     .replace(/&/g, ' and ')
     .replace(/[^a-z0-9]+/g, ' ')
     .trim();
+}
+
+/** A header reduced to lower-case words, punctuation and units removed ("Floor area (m²)" → "floor area"). */
+export function headerKey(header: string): string {
+  const words = headerWords(header);
   if (KEEP_NO.has(words)) return words;
   return words
     .split(' ')
@@ -161,12 +166,7 @@ function isUnitsRow(texts: string[]): boolean {
   const cells = texts.filter((t) => t.trim() !== '');
   if (cells.length === 0) return false;
   return cells.every((t) => {
-    const words = t
-      .toLowerCase()
-      .replace(/²/g, '2')
-      .replace(/³/g, '3')
-      .replace(/[^a-z0-9]+/g, ' ')
-      .trim();
+    const words = headerWords(t);
     return words !== '' && words.split(' ').every((w) => UNIT_TOKENS.has(w));
   });
 }
