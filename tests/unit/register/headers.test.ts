@@ -37,6 +37,9 @@ describe('matching headers', () => {
     expect(headerScale('Ceiling height (mm)', 'ceilingHeightM')).toBe(0.001);
     expect(headerScale('Floor area (sq ft)', 'floorAreaM2')).toBeCloseTo(0.09290304, 9);
     expect(headerScale('Floor area (m2)', 'floorAreaM2')).toBe(1);
+    // 1 m³/h = 1,000 l ÷ 3,600 s = 1/3.6 l/s (SI), written with the superscript as spreadsheets do.
+    expect(headerScale('Mechanical supply (m³/h)', 'mechanicalSupplyLps')).toBeCloseTo(1 / 3.6, 12);
+    expect(headerScale('Mechanical supply (m3/h)', 'mechanicalSupplyLps')).toBeCloseTo(1 / 3.6, 12);
   });
   it('names columns as spreadsheets do', () => {
     expect([0, 25, 26, 27, 701].map(columnLetter)).toEqual(['A', 'Z', 'AA', 'AB', 'ZZ']);

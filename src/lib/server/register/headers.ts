@@ -66,10 +66,8 @@ export function headerKey(header: string): string {
 
 /** The factor a header's unit implies for its column's values ("Ceiling height (mm)" → 0.001). */
 export function headerScale(header: string, field: RegisterField): number {
-  const words = ` ${header
-    .toLowerCase()
-    .replace(/²/g, '2')
-    .replace(/[^a-z0-9]+/g, ' ')} `;
+  // The same words as the header key, so "m³/h" reads as m3 h as "m²" reads as m2.
+  const words = ` ${headerWords(header)} `;
   if (field === 'ceilingHeightM' && / mm /.test(words)) return 0.001;
   if (field === 'ceilingHeightM' && / cm /.test(words)) return 0.01;
   if (['floorAreaM2', 'glazingAreaM2', 'openableAreaM2'].includes(field) && /( ft2 | sq ft | sqft )/.test(words))
