@@ -18,8 +18,8 @@ import { loadRankParts, refreshRanks } from '../../src/lib/server/portfolio/rank
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { getCurrentAssumptionSet } from '../../src/lib/server/assessments/assumptions.repository';
 import { readRoomChunk } from '../../src/lib/server/assessments/engine-input.repository';
-import { toResultRow } from '../../src/lib/server/assessments/result-row';
-import { copyResultsSql, toCopyLine } from '../../src/lib/server/assessments/results.repository';
+import { type ResultRow, toResultRow } from '../../src/lib/server/assessments/result-row';
+import { copyResultsSql, resultPieces } from '../../src/lib/server/assessments/results.repository';
 import { copyLines } from '../../src/lib/server/db/copy';
 import { sendChunkJobs, stopQueue } from '../../src/lib/server/assessments/queue';
 import { workRunHere } from '../../src/lib/server/assessments/run-executor';
@@ -141,7 +141,7 @@ async function withPeakRss<T>(work: () => Promise<T>): Promise<{ result: T; peak
 }
 
 /** The I/O floor: read every room in the same chunks, COPY the same number of result-shaped rows into a scratch table. */
-async function ioFloor(trustId: string, templateLine: (roomId: string) => string): Promise<number> {
+async function ioFloor(trustId: string, template: ResultRow): Promise<number> {
   const db = getDb();
   await sql`DROP TABLE IF EXISTS bench_results_scratch`.execute(db);
   await sql`CREATE TABLE bench_results_scratch (LIKE room_results INCLUDING DEFAULTS INCLUDING COMPRESSION) WITH (toast_tuple_target = 256)`.execute(
@@ -159,9 +159,7 @@ async function ioFloor(trustId: string, templateLine: (roomId: string) => string
       await copyLines(
         client,
         copyResultsSql('bench_results_scratch'),
-        (function* () {
-          for (const r of rooms) yield templateLine(r.roomId);
-        })(),
+        resultPieces(rooms.map((r) => ({ ...template, roomId: r.roomId }))),
       );
       await client.query('COMMIT');
     } finally {
@@ -373,10 +371,9 @@ async function estateBatch(): Promise<Record<string, unknown>> {
     sample!,
     assessRoom(sample!.input, assumptions.set, { withCurve: false }),
   );
-  const templateLine = (roomId: string) => toCopyLine({ ...template, roomId });
 
   log('I/O floor (read rooms + COPY compact result rows)');
-  const floor1 = await ioFloor(trustId, templateLine);
+  const floor1 = await ioFloor(trustId, template);
   log(`floor ${floor1.toFixed(2)} s; whole batch in this process`);
   const { result: inProcessSeconds, peakRssMb } = await withPeakRss(() => inProcessBatch(trustId, ROOMS));
   log(`in process ${inProcessSeconds.toFixed(2)} s, peak RSS ${peakRssMb.toFixed(0)} MB`);
@@ -388,7 +385,7 @@ async function estateBatch(): Promise<Record<string, unknown>> {
     if (workers === 2) stored = batch;
     log(`${workers} worker process(es): ${batch.seconds.toFixed(2)} s, ${scaling[String(workers)]} rooms/s`);
   }
-  const floor2 = await ioFloor(trustId, templateLine);
+  const floor2 = await ioFloor(trustId, template);
   const floor = Math.min(floor1, floor2);
   log(`floor again ${floor2.toFixed(2)} s`);
   const best = scaling['2']!;

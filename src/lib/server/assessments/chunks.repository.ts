@@ -7,9 +7,9 @@ import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
 import type { Database } from '../../../../db/database';
 import type { RunProblem } from '../../../../db/tables/assessments';
-import { copyLines, copyPieces } from '../db/copy';
+import { copyLines } from '../db/copy';
 import type { ResultRow } from './result-row';
-import { copyResultsSql, toCopyLine } from './results.repository';
+import { copyResultsSql, resultPieces } from './results.repository';
 
 /** A chunk as a worker holds it. */
 export interface Chunk {
@@ -129,7 +129,7 @@ export async function commitChunk(
       [chunk.runId, chunk.chunkNo, workerId, rows.length, inputs],
     );
     if (done.rowCount !== 1) throw new ChunkTakenOver(chunk);
-    if (rows.length > 0) await copyLines(client, copyResultsSql(), copyPieces(rows, toCopyLine));
+    if (rows.length > 0) await copyLines(client, copyResultsSql(), resultPieces(rows));
     const progress = await client.query<{ chunks_done: number; chunks_total: number }>(
       `UPDATE assessment_runs SET rooms_done = rooms_done + $2, chunks_done = chunks_done + 1,
          problems = CASE WHEN $3::jsonb = '[]'::jsonb THEN problems ELSE problems || $3::jsonb END,

@@ -131,11 +131,17 @@ export async function readChunkRooms(
   db: Kysely<Database>,
   chunk: { runId: string; afterRoomId: string | null; lastRoomId: string },
 ): Promise<EngineRoom[]> {
-  const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
+  // The chunk's id range is stated on rooms as well as on the snapshot, so PostgreSQL reads only that range of rooms
+  // through their key: from the join alone it read every room of every trust for each chunk.
+  const after =
+    chunk.afterRoomId === null
+      ? sql`TRUE`
+      : sql`ids.room_id > ${chunk.afterRoomId}::uuid AND rooms.id > ${chunk.afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
     SELECT ${COLUMNS}
     FROM assessment_run_rooms ids JOIN (${FROM_ROOMS}) ON rooms.id = ids.room_id
     WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid
+      AND rooms.id <= ${chunk.lastRoomId}::uuid
     ORDER BY ids.room_id`.execute(db);
   const timetables: TimetableCache = new Map();
   return rows.map((r) => toEngineRoom(r, timetables));

@@ -1,107 +1,65 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { ResultRow } from './result-row';
-import { copyLine } from '../db/copy';
+import { type BinaryColumn, type BinaryValue, binaryCopyPieces } from '../db/copy';
 
-const COPY_COLUMNS = [
-  'run_id',
-  'room_id',
-  'school_id',
-  'block_id',
-  'ventilation_type',
-  'pupils',
-  'worst_season',
-  'mean_co2_ppm',
-  'peak_co2_ppm',
-  'criteria_met',
-  'risk_band',
-  'risk_score',
-  'pupil_hours_above',
-  'reason',
-  'units_recommended',
-  'unit_count',
-  'capital_cost_gbp',
-  'annual_saving_gbp',
-  'annual_saving_kwh',
-  'annual_saving_kgco2e',
-  'simple_payback_years',
-  'discounted_payback_years',
-  'npv_gbp',
-  'pupil_hours_removed_per_1000_gbp',
-  'capital_per_tonne_co2e_gbp',
-  'baseline',
-  'verdict',
-  'annual_heating_saving_kwh',
-  'annual_fan_saving_kwh',
-  'annual_maintenance_saving_gbp',
-  'replacement_cost_gbp',
-  'pupil_hours_removed',
-  'heating_fuel',
-  'fuel_price_gbp_per_kwh',
-  'heating_efficiency',
-  'price_source',
-  'efficiency_source',
-  'heating_degree_hours_kh',
-  'unit_run_hours',
-  'assumed_count',
-  'risk_evidence',
-  'installed_cost_gbp',
-  'life_years',
-  'unit_lines',
-] as const;
+/** The result columns as written, each with its binary COPY type and its value in a result row. */
+const COPY_COLUMNS: readonly (readonly [string, BinaryColumn, (r: ResultRow) => BinaryValue])[] = [
+  ['run_id', 'uuid', (r) => r.runId],
+  ['room_id', 'uuid', (r) => r.roomId],
+  ['school_id', 'uuid', (r) => r.schoolId],
+  ['block_id', 'uuid', (r) => r.blockId],
+  ['ventilation_type', 'text', (r) => r.ventilationType],
+  ['pupils', 'int4', (r) => r.pupils],
+  ['worst_season', 'text', (r) => r.worstSeason],
+  ['mean_co2_ppm', 'float8', (r) => r.meanCo2Ppm],
+  ['peak_co2_ppm', 'float8', (r) => r.peakCo2Ppm],
+  ['criteria_met', 'bool', (r) => r.criteriaMet],
+  ['risk_band', 'int2', (r) => r.riskBand],
+  ['risk_score', 'float8', (r) => r.riskScore],
+  ['pupil_hours_above', 'float8', (r) => r.pupilHoursAbove],
+  ['reason', 'text', (r) => r.reason],
+  ['units_recommended', 'text', (r) => r.unitsRecommended],
+  ['unit_count', 'int4', (r) => r.unitCount],
+  ['capital_cost_gbp', 'float8', (r) => r.capitalCostGbp],
+  ['annual_saving_gbp', 'float8', (r) => r.annualSavingGbp],
+  ['annual_saving_kwh', 'float8', (r) => r.annualSavingKwh],
+  ['annual_saving_kgco2e', 'float8', (r) => r.annualSavingKgCo2e],
+  ['simple_payback_years', 'float8', (r) => r.simplePaybackYears],
+  ['discounted_payback_years', 'float8', (r) => r.discountedPaybackYears],
+  ['npv_gbp', 'float8', (r) => r.npvGbp],
+  ['pupil_hours_removed_per_1000_gbp', 'float8', (r) => r.pupilHoursRemovedPer1000Gbp],
+  ['capital_per_tonne_co2e_gbp', 'float8', (r) => r.capitalPerTonneCo2eGbp],
+  ['baseline', 'text', (r) => r.baseline],
+  ['verdict', 'text', (r) => r.verdict],
+  ['annual_heating_saving_kwh', 'float8', (r) => r.annualHeatingSavingKwh],
+  ['annual_fan_saving_kwh', 'float8', (r) => r.annualFanSavingKwh],
+  ['annual_maintenance_saving_gbp', 'float8', (r) => r.annualMaintenanceSavingGbp],
+  ['replacement_cost_gbp', 'float8', (r) => r.replacementCostGbp],
+  ['pupil_hours_removed', 'float8', (r) => r.pupilHoursRemoved],
+  ['heating_fuel', 'text', (r) => r.heatingFuel],
+  ['fuel_price_gbp_per_kwh', 'float8', (r) => r.fuelPriceGbpPerKwh],
+  ['heating_efficiency', 'float8', (r) => r.heatingEfficiency],
+  ['price_source', 'text', (r) => r.priceSource],
+  ['efficiency_source', 'text', (r) => r.efficiencySource],
+  ['heating_degree_hours_kh', 'float8', (r) => r.heatingDegreeHoursKh],
+  ['unit_run_hours', 'float8', (r) => r.unitRunHours],
+  ['assumed_count', 'int4', (r) => r.assumedCount],
+  ['risk_evidence', 'text', (r) => r.riskEvidence],
+  ['installed_cost_gbp', 'float8', (r) => r.installedCostGbp],
+  ['life_years', 'float8', (r) => r.lifeYears],
+  ['unit_lines', 'text', (r) => r.unitLines],
+];
+const COPY_TYPES = COPY_COLUMNS.map(([, type]) => type);
+const COPY_VALUES = COPY_COLUMNS.map(([, , value]) => value);
 
-/** The COPY statement for result rows (also used by the benchmark's I/O floor). */
-export const copyResultsSql = (table = 'room_results') => `COPY ${table} (${COPY_COLUMNS.join(', ')}) FROM STDIN`;
+/** The COPY statement for result rows in binary format (also used by the benchmark's I/O floor). */
+export const copyResultsSql = (table = 'room_results') =>
+  `COPY ${table} (${COPY_COLUMNS.map(([name]) => name).join(', ')}) FROM STDIN (FORMAT binary)`;
 
-/** One result row as a line of COPY text. */
-export function toCopyLine(r: ResultRow): string {
-  return copyLine([
-    r.runId,
-    r.roomId,
-    r.schoolId,
-    r.blockId,
-    r.ventilationType,
-    r.pupils,
-    r.worstSeason,
-    r.meanCo2Ppm,
-    r.peakCo2Ppm,
-    r.criteriaMet,
-    r.riskBand,
-    r.riskScore,
-    r.pupilHoursAbove,
-    r.reason,
-    r.unitsRecommended,
-    r.unitCount,
-    r.capitalCostGbp,
-    r.annualSavingGbp,
-    r.annualSavingKwh,
-    r.annualSavingKgCo2e,
-    r.simplePaybackYears,
-    r.discountedPaybackYears,
-    r.npvGbp,
-    r.pupilHoursRemovedPer1000Gbp,
-    r.capitalPerTonneCo2eGbp,
-    r.baseline,
-    r.verdict,
-    r.annualHeatingSavingKwh,
-    r.annualFanSavingKwh,
-    r.annualMaintenanceSavingGbp,
-    r.replacementCostGbp,
-    r.pupilHoursRemoved,
-    r.heatingFuel,
-    r.fuelPriceGbpPerKwh,
-    r.heatingEfficiency,
-    r.priceSource,
-    r.efficiencySource,
-    r.heatingDegreeHoursKh,
-    r.unitRunHours,
-    r.assumedCount,
-    r.riskEvidence,
-    r.installedCostGbp,
-    r.lifeYears,
-    r.unitLines,
-  ]);
-}
+/** Result rows as binary COPY pieces (numbers as 8-byte floats: nothing formatted or parsed as decimal text). */
+export const resultPieces = (rows: Iterable<ResultRow>) =>
+  binaryCopyPieces(rows, COPY_TYPES, (r) => COPY_VALUES.map((value) => value(r)));
 
 /**
  * Makes a finished run's results current in ONE transaction: each school in its scope points at this run

@@ -9,6 +9,8 @@ pg.types.setTypeParser(pg.types.builtins.NUMERIC, (value: string) => Number(valu
 
 let pool: pg.Pool | undefined;
 let instance: Kysely<Database> | undefined;
+/** The pool behind each Kysely instance made here, for the writes Kysely cannot do (COPY). */
+const pools = new WeakMap<Kysely<Database>, pg.Pool>();
 
 /** The shared pg pool (also handed to better-auth and pg-boss so there is one pool per process). */
 export function getPool(): pg.Pool {
@@ -18,15 +20,24 @@ export function getPool(): pg.Pool {
 
 /** The process-wide Kysely instance. */
 export function getDb(): Kysely<Database> {
-  instance ??= new Kysely<Database>({ dialect: new PostgresDialect({ pool: getPool() }) });
+  if (!instance) {
+    instance = new Kysely<Database>({ dialect: new PostgresDialect({ pool: getPool() }) });
+    pools.set(instance, getPool());
+  }
   return instance;
 }
 
 /** Creates a separate Kysely instance for a given URL (scripts and tests). */
 export function createDb(connectionString: string): Kysely<Database> {
-  return new Kysely<Database>({
-    dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max: 5 }) }),
-  });
+  const own = new pg.Pool({ connectionString, max: 5 });
+  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool: own }) });
+  pools.set(db, own);
+  return db;
+}
+
+/** The pg pool behind `db` (made by getDb or createDb); the process's pool for any other handle on the same database. */
+export function poolOf(db: Kysely<Database>): pg.Pool {
+  return pools.get(db) ?? getPool();
 }
 
 /**

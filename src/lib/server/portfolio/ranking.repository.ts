@@ -5,8 +5,11 @@
  * when the weights or the trust's succeeded runs change. Previews of other weights use the same rule.
  */
 import { sql, type Kysely } from 'kysely';
+import type pg from 'pg';
 import type { Database } from '../../../../db/database';
-import { DEFAULT_RANK_WEIGHTS, rankOrder, type RankParts } from '../../engine/ranking';
+import { DEFAULT_RANK_WEIGHTS, type RankParts, type RankPlace, rankOrder } from '../../engine/ranking';
+import { poolOf, withConnection } from '../db/client';
+import { type BinaryColumn, type BinaryValue, binaryCopyPieces, copyLines } from '../db/copy';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { Weights } from './portfolio.schemas';
 import type { WeightSettings } from './portfolio.types';
@@ -181,28 +184,136 @@ async function checkRanks(db: Kysely<Database>, trustId: string, options: { wait
 /** Pieces a rebuild writes its rows in at once, each on its own connection. */
 const REBUILD_PIECES = 2;
 
-/** Writes the ranks `r[from, to)` of the trust as rows of `generation`, with their filter and sort keys. */
-async function writeRankRows(
-  db: Kysely<Database>,
+/** A current result row as a rank row needs it: the parts that decide the rank and the filter and sort keys. */
+interface RankSource extends RankParts {
+  runId: string;
+  schoolId: string;
+  blockId: string | null;
+  schoolName: string;
+  ventilationType: string;
+  riskBand: number;
+  criteriaMet: boolean;
+  pupils: number;
+  meanCo2Ppm: number;
+  peakCo2Ppm: number;
+  unitCount: number;
+  capitalCostGbp: number | null;
+  npvGbp: number | null;
+  pupilHoursRemoved: number | null;
+}
+
+/** The trust's current results as rank rows need them (one read; the rows are then written from here). */
+async function loadRankSources(db: Kysely<Database>, trustId: string): Promise<RankSource[]> {
+  const { rows } = await sql<{
+    room_id: string;
+    run_id: string;
+    school_id: string;
+    block_id: string | null;
+    school_name: string;
+    ventilation_type: string;
+    risk_band: number;
+    criteria_met: boolean;
+    pupils: number;
+    mean_co2_ppm: number;
+    peak_co2_ppm: number;
+    unit_count: number;
+    capital_cost_gbp: number | null;
+    npv_gbp: number | null;
+    pupil_hours_removed: number | null;
+    r: number;
+    h: number;
+    ce: number | null;
+    pb: number | null;
+  }>`
+    SELECT rr.room_id, rr.run_id, rr.school_id, rr.block_id, s.name AS school_name, rr.ventilation_type, rr.risk_band,
+      rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm, rr.unit_count, rr.capital_cost_gbp, rr.npv_gbp,
+      rr.pupil_hours_removed, rr.risk_score AS r, rr.pupil_hours_above AS h, rr.pupil_hours_removed_per_1000_gbp AS ce,
+      rr.simple_payback_years AS pb
+    FROM current_room_results rr JOIN schools s ON s.id = rr.school_id
+    WHERE rr.trust_id = ${trustId}`.execute(db);
+  return rows.map((row) => ({
+    roomId: row.room_id,
+    runId: row.run_id,
+    schoolId: row.school_id,
+    blockId: row.block_id,
+    schoolName: row.school_name,
+    ventilationType: row.ventilation_type,
+    riskBand: row.risk_band,
+    criteriaMet: row.criteria_met,
+    pupils: row.pupils,
+    meanCo2Ppm: row.mean_co2_ppm,
+    peakCo2Ppm: row.peak_co2_ppm,
+    unitCount: row.unit_count,
+    capitalCostGbp: row.capital_cost_gbp,
+    npvGbp: row.npv_gbp,
+    pupilHoursRemoved: row.pupil_hours_removed,
+    riskScore: row.r,
+    pupilHoursPerYearAbove: row.h,
+    pupilHoursRemovedPer1000Gbp: row.ce,
+    simplePaybackYears: row.pb,
+  }));
+}
+
+/** portfolio_ranks' columns as a rebuild writes them, with their binary COPY types and values. */
+const RANK_COLUMNS: readonly (readonly [
+  string,
+  BinaryColumn,
+  (p: RankPlace<RankSource>, trustId: string, generation: number) => BinaryValue,
+])[] = [
+  ['trust_id', 'text', (_, trustId) => trustId],
+  ['generation', 'int8', (_, __, generation) => generation],
+  ['room_id', 'uuid', (p) => p.row.roomId],
+  ['school_id', 'uuid', (p) => p.row.schoolId],
+  ['run_id', 'uuid', (p) => p.row.runId],
+  ['rank', 'int4', (p) => p.rank],
+  ['score', 'float8', (p) => p.score],
+  ['block_id', 'uuid', (p) => p.row.blockId],
+  ['school_name', 'text', (p) => p.row.schoolName],
+  ['ventilation_type', 'text', (p) => p.row.ventilationType],
+  ['risk_band', 'int2', (p) => p.row.riskBand],
+  ['criteria_met', 'bool', (p) => p.row.criteriaMet],
+  ['pupils', 'int4', (p) => p.row.pupils],
+  ['mean_co2_ppm', 'float8', (p) => p.row.meanCo2Ppm],
+  ['peak_co2_ppm', 'float8', (p) => p.row.peakCo2Ppm],
+  ['unit_count', 'int4', (p) => p.row.unitCount],
+  ['capital_cost_gbp', 'float8', (p) => p.row.capitalCostGbp],
+  ['simple_payback_years', 'float8', (p) => p.row.simplePaybackYears],
+  ['npv_gbp', 'float8', (p) => p.row.npvGbp],
+  ['pupil_hours_above', 'float8', (p) => p.row.pupilHoursPerYearAbove],
+  ['pupil_hours_removed', 'float8', (p) => p.row.pupilHoursRemoved],
+  ['score_risk', 'float8', (p) => p.parts.risk],
+  ['score_cost_effectiveness', 'float8', (p) => p.parts.costEffectiveness],
+  ['score_payback', 'float8', (p) => p.parts.payback],
+];
+const COPY_RANKS_SQL = `COPY portfolio_ranks (${RANK_COLUMNS.map(([name]) => name).join(', ')}) FROM STDIN (FORMAT binary)`;
+const RANK_TYPES = RANK_COLUMNS.map(([, type]) => type);
+
+/** Writes ranked rooms as rows of `generation`, with their filter and sort keys, by binary COPY on `client`. */
+async function copyRankRows(
+  client: pg.PoolClient,
   trustId: string,
   generation: number,
-  r: Awaited<ReturnType<typeof computeRanks>>,
-  from: number,
-  to: number,
+  places: readonly RankPlace<RankSource>[],
 ): Promise<void> {
-  await sql`
-    INSERT INTO portfolio_ranks (trust_id, generation, room_id, school_id, run_id, rank, score, block_id, school_name,
-      ventilation_type, risk_band, criteria_met, pupils, mean_co2_ppm, peak_co2_ppm, unit_count, capital_cost_gbp,
-      simple_payback_years, npv_gbp, pupil_hours_above, pupil_hours_removed, score_risk, score_cost_effectiveness, score_payback)
-    SELECT ${trustId}, ${generation}, rr.room_id, rr.school_id, rr.run_id, v.rank, v.score,
-      rr.block_id, s.name, rr.ventilation_type, rr.risk_band, rr.criteria_met, rr.pupils, rr.mean_co2_ppm, rr.peak_co2_ppm,
-      rr.unit_count, rr.capital_cost_gbp, rr.simple_payback_years, rr.npv_gbp, rr.pupil_hours_above, rr.pupil_hours_removed,
-      v.risk, v.ce, v.pb
-    FROM unnest(${r.ids.slice(from, to)}::uuid[], ${r.runs.slice(from, to)}::uuid[], ${r.ranks.slice(from, to)}::int[],
-        ${r.scores.slice(from, to)}::float8[], ${r.risk.slice(from, to)}::float8[], ${r.ce.slice(from, to)}::float8[],
-        ${r.pb.slice(from, to)}::float8[]) AS v(room_id, run_id, rank, score, risk, ce, pb)
-      JOIN room_results rr ON rr.run_id = v.run_id AND rr.room_id = v.room_id
-      JOIN schools s ON s.id = rr.school_id`.execute(db);
+  await copyLines(
+    client,
+    COPY_RANKS_SQL,
+    binaryCopyPieces(places, RANK_TYPES, (p) => RANK_COLUMNS.map(([, , value]) => value(p, trustId, generation))),
+  );
+}
+
+/** The same on a connection of its own, committed at once (rows of a generation nobody reads yet). */
+async function copyRankRowsApart(
+  pool: pg.Pool,
+  trustId: string,
+  generation: number,
+  places: readonly RankPlace<RankSource>[],
+): Promise<void> {
+  await withConnection(pool, async (_, client) => {
+    await client.query('BEGIN');
+    await copyRankRows(client, trustId, generation, places);
+    await client.query('COMMIT');
+  });
 }
 
 /**
@@ -219,63 +330,85 @@ async function rebuildRanks(
   weights: Weights,
   wait: boolean,
 ): Promise<RankState | null> {
-  return db.transaction().execute(async (trx) => {
-    const lockKey = `portfolio_ranks:${trustId}`;
-    if (wait) {
-      await sql`SELECT pg_advisory_xact_lock(hashtext(${lockKey}))`.execute(trx);
-    } else {
-      const got = await sql<{ ok: boolean }>`SELECT pg_try_advisory_xact_lock(hashtext(${lockKey})) AS ok`.execute(trx);
-      if (!got.rows[0]?.ok) return null;
-    }
-    const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
-    const current = await trx
-      .selectFrom('portfolio_settings')
-      .select(['ranked_weights', 'ranked_stamp', 'ranked_generation'])
-      .where('trust_id', '=', trustId)
-      .executeTakeFirst();
-    if (
-      current?.ranked_generation != null &&
-      current.ranked_stamp === stampRow.stamp &&
-      current.ranked_weights &&
-      sameWeights(current.ranked_weights as Weights, weights)
-    )
-      return { weights, stamp: stampRow.stamp, generation: current.ranked_generation };
-    // Everything but the generation readers use now: the one before it, and any a failed rebuild left.
-    await trx
-      .deleteFrom('portfolio_ranks')
-      .where('trust_id', '=', trustId)
-      .where('generation', '<>', current?.ranked_generation ?? -1)
-      .execute();
-    const { generation } = (
-      await sql<{ generation: number }>`SELECT nextval('portfolio_rank_generations')::int8 AS generation`.execute(trx)
-    ).rows[0]!;
-    const r = await computeRanks(trx, trustId, weights);
-    const size = Math.ceil(r.ids.length / REBUILD_PIECES);
-    await Promise.all(
-      Array.from({ length: REBUILD_PIECES }, (_, piece) =>
-        writeRankRows(piece === 0 ? trx : db, trustId, generation, r, piece * size, (piece + 1) * size),
-      ),
-    );
-    // Statistics when this trust's ranks outnumber what the planner knows of the table (a first big ranking); after
-    // that, a rebuild's churn gets the table analysed by autovacuum.
-    const known = await sql<{ rows: number }>`
-      SELECT reltuples::float8 AS rows FROM pg_class WHERE oid = 'portfolio_ranks'::regclass`.execute(trx);
-    if (r.ids.length > (known.rows[0]?.rows ?? 0)) await sql`ANALYZE portfolio_ranks`.execute(trx);
-    const curve = await cumulativeCurve(trx, trustId, null, generation);
-    const values = {
-      ranked_weights: JSON.stringify(weights),
-      ranked_stamp: stampRow.stamp,
-      ranked_generation: generation,
-      ranked_at: new Date(),
-      ranked_curve: JSON.stringify(curve),
-    };
-    await trx
-      .insertInto('portfolio_settings')
-      .values({ trust_id: trustId, ...values })
-      .onConflict((oc) => oc.column('trust_id').doUpdateSet(values))
-      .execute();
-    return { weights, stamp: stampRow.stamp, generation };
+  const pool = poolOf(db);
+  // A connection of the pool's own (not Kysely's transaction), so the rebuild's piece goes by COPY in its transaction.
+  // A failure discards the connection, and with it the transaction.
+  return withConnection(pool, async (trx, client) => {
+    await client.query('BEGIN');
+    const rebuilt = await rebuildIn(trx, client, pool, trustId, weights, wait);
+    await client.query('COMMIT');
+    return rebuilt;
   });
+}
+
+/** rebuildRanks inside its transaction (`trx` and `client` are the same connection). */
+async function rebuildIn(
+  trx: Kysely<Database>,
+  client: pg.PoolClient,
+  pool: pg.Pool,
+  trustId: string,
+  weights: Weights,
+  wait: boolean,
+): Promise<RankState | null> {
+  const lockKey = `portfolio_ranks:${trustId}`;
+  if (wait) {
+    await sql`SELECT pg_advisory_xact_lock(hashtext(${lockKey}))`.execute(trx);
+  } else {
+    const got = await sql<{ ok: boolean }>`SELECT pg_try_advisory_xact_lock(hashtext(${lockKey})) AS ok`.execute(trx);
+    if (!got.rows[0]?.ok) return null;
+  }
+  const stampRow = await trx.selectNoFrom(runsStampSql(trustId).as('stamp')).executeTakeFirstOrThrow();
+  const current = await trx
+    .selectFrom('portfolio_settings')
+    .select(['ranked_weights', 'ranked_stamp', 'ranked_generation'])
+    .where('trust_id', '=', trustId)
+    .executeTakeFirst();
+  if (
+    current?.ranked_generation != null &&
+    current.ranked_stamp === stampRow.stamp &&
+    current.ranked_weights &&
+    sameWeights(current.ranked_weights as Weights, weights)
+  )
+    return { weights, stamp: stampRow.stamp, generation: current.ranked_generation };
+  // Everything but the generation readers use now: the one before it, and any a failed rebuild left.
+  await trx
+    .deleteFrom('portfolio_ranks')
+    .where('trust_id', '=', trustId)
+    .where('generation', '<>', current?.ranked_generation ?? -1)
+    .execute();
+  const { generation } = (
+    await sql<{ generation: number }>`SELECT nextval('portfolio_rank_generations')::int8 AS generation`.execute(trx)
+  ).rows[0]!;
+  const places = rankOrder(await loadRankSources(trx, trustId), weights);
+  const size = Math.ceil(places.length / REBUILD_PIECES);
+  await Promise.all(
+    Array.from({ length: REBUILD_PIECES }, (_, piece) => {
+      const part = places.slice(piece * size, (piece + 1) * size);
+      if (part.length === 0) return Promise.resolve();
+      return piece === 0
+        ? copyRankRows(client, trustId, generation, part)
+        : copyRankRowsApart(pool, trustId, generation, part);
+    }),
+  );
+  // Statistics when this trust's ranks outnumber what the planner knows of the table (a first big ranking); after
+  // that, a rebuild's churn gets the table analysed by autovacuum.
+  const known = await sql<{ rows: number }>`
+    SELECT reltuples::float8 AS rows FROM pg_class WHERE oid = 'portfolio_ranks'::regclass`.execute(trx);
+  if (places.length > (known.rows[0]?.rows ?? 0)) await sql`ANALYZE portfolio_ranks`.execute(trx);
+  const curve = await cumulativeCurve(trx, trustId, null, generation);
+  const values = {
+    ranked_weights: JSON.stringify(weights),
+    ranked_stamp: stampRow.stamp,
+    ranked_generation: generation,
+    ranked_at: new Date(),
+    ranked_curve: JSON.stringify(curve),
+  };
+  await trx
+    .insertInto('portfolio_settings')
+    .values({ trust_id: trustId, ...values })
+    .onConflict((oc) => oc.column('trust_id').doUpdateSet(values))
+    .execute();
+  return { weights, stamp: stampRow.stamp, generation };
 }
 
 /** Saves the trust's weights (audited) and re-ranks with them. */
