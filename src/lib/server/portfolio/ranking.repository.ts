@@ -499,7 +499,10 @@ export async function storedCurve(db: Kysely<Database>, trustId: string): Promis
   return (row?.ranked_curve as CurvePoint[] | null | undefined) ?? [];
 }
 
-/** A room's place in its trust under the saved weights (the rank every page and export shows), or null. */
+/**
+ * A room's place in its trust under the saved weights (the rank every page and export shows), or null. Found through
+ * the room's school (the ranks' school index): the ranks have no index by room.
+ */
 export async function getRoomRank(
   db: Kysely<Database>,
   trustId: string,
@@ -509,8 +512,9 @@ export async function getRoomRank(
   const { rows } = await sql<{ rank: number; n: number }>`
     SELECT pr.rank,
       (SELECT count(*)::int FROM portfolio_ranks x WHERE x.trust_id = ${trustId} AND x.generation = ${generation}) AS n
-    FROM portfolio_ranks pr
-    WHERE pr.trust_id = ${trustId} AND pr.room_id = ${roomId}::uuid AND pr.generation = ${generation}`.execute(db);
+    FROM rooms r JOIN portfolio_ranks pr
+      ON pr.trust_id = ${trustId} AND pr.school_id = r.school_id AND pr.generation = ${generation} AND pr.room_id = r.id
+    WHERE r.id = ${roomId}::uuid`.execute(db);
   const row = rows[0];
   return row ? { rank: row.rank, rankedRooms: row.n } : null;
 }
