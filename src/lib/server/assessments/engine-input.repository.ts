@@ -131,17 +131,14 @@ export async function readChunkRooms(
   db: Kysely<Database>,
   chunk: { runId: string; afterRoomId: string | null; lastRoomId: string },
 ): Promise<EngineRoom[]> {
-  // The chunk's id range is stated on rooms as well as on the snapshot, so PostgreSQL reads only that range of rooms
-  // through their key: from the join alone it read every room of every trust for each chunk.
-  const after =
-    chunk.afterRoomId === null
-      ? sql`TRUE`
-      : sql`ids.room_id > ${chunk.afterRoomId}::uuid AND rooms.id > ${chunk.afterRoomId}::uuid`;
+  // Each snapshot room is looked up by its key (OFFSET 0 keeps the lookup per room): left to choose, PostgreSQL read
+  // every room of every trust for each chunk, or, with the snapshot's fresh rows not yet in its statistics, scanned the
+  // chunk's range of rooms once per room (1.8 s a chunk at 550,000 rooms).
+  const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
-    SELECT ${COLUMNS}
-    FROM assessment_run_rooms ids JOIN (${FROM_ROOMS}) ON rooms.id = ids.room_id
+    SELECT room.* FROM assessment_run_rooms ids
+      CROSS JOIN LATERAL (SELECT ${COLUMNS} FROM ${FROM_ROOMS} WHERE rooms.id = ids.room_id OFFSET 0) room
     WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid
-      AND rooms.id <= ${chunk.lastRoomId}::uuid
     ORDER BY ids.room_id`.execute(db);
   const timetables: TimetableCache = new Map();
   return rows.map((r) => toEngineRoom(r, timetables));
