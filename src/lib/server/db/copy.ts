@@ -62,6 +62,23 @@ const BINARY_HEADER = Buffer.from([
   0x50, 0x47, 0x43, 0x4f, 0x50, 0x59, 0x0a, 0xff, 0x0d, 0x0a, 0x00, 0, 0, 0, 0, 0, 0, 0, 0,
 ]);
 
+/** The fixed-width types: their size, whether the value must be whole, and how it is written (big-endian). */
+const FIXED_WIDTH: Partial<
+  Record<BinaryColumn, { bytes: number; whole: boolean; write: (buf: Buffer, value: BinaryValue, at: number) => void }>
+> = {
+  float8: { bytes: 8, whole: false, write: (buf, value, at) => buf.writeDoubleBE(value as number, at) },
+  int8: { bytes: 8, whole: true, write: (buf, value, at) => buf.writeBigInt64BE(BigInt(value as number), at) },
+  int4: { bytes: 4, whole: true, write: (buf, value, at) => buf.writeInt32BE(value as number, at) },
+  int2: { bytes: 2, whole: true, write: (buf, value, at) => buf.writeInt16BE(value as number, at) },
+  bool: {
+    bytes: 1,
+    whole: false,
+    write: (buf, value, at) => {
+      buf[at] = value ? 1 : 0;
+    },
+  },
+};
+
 /** The hex digit's value, or -1. */
 function hexValue(code: number): number {
   if (code >= 48 && code <= 57) return code - 48;
@@ -105,40 +122,16 @@ export function* binaryCopyPieces<T>(
         at += 4;
         continue;
       }
+      const fixed = FIXED_WIDTH[type];
+      if (fixed) {
+        if (fixed.whole && !Number.isSafeInteger(value)) throw new Error(`not an integer: ${value}`);
+        ensure(4 + fixed.bytes);
+        buf.writeInt32BE(fixed.bytes, at);
+        fixed.write(buf, value, at + 4);
+        at += 4 + fixed.bytes;
+        continue;
+      }
       switch (type) {
-        case 'float8':
-          ensure(12);
-          buf.writeInt32BE(8, at);
-          buf.writeDoubleBE(value as number, at + 4);
-          at += 12;
-          break;
-        case 'int4':
-          if (!Number.isInteger(value)) throw new Error(`not an integer: ${value}`);
-          ensure(8);
-          buf.writeInt32BE(4, at);
-          buf.writeInt32BE(value as number, at + 4);
-          at += 8;
-          break;
-        case 'int8':
-          if (!Number.isSafeInteger(value)) throw new Error(`not an integer: ${value}`);
-          ensure(12);
-          buf.writeInt32BE(8, at);
-          buf.writeBigInt64BE(BigInt(value as number), at + 4);
-          at += 12;
-          break;
-        case 'int2':
-          if (!Number.isInteger(value)) throw new Error(`not an integer: ${value}`);
-          ensure(6);
-          buf.writeInt32BE(2, at);
-          buf.writeInt16BE(value as number, at + 4);
-          at += 6;
-          break;
-        case 'bool':
-          ensure(5);
-          buf.writeInt32BE(1, at);
-          buf[at + 4] = value ? 1 : 0;
-          at += 5;
-          break;
         case 'uuid': {
           const text = value as string;
           ensure(20);
