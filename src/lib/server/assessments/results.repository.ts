@@ -1,10 +1,10 @@
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '../../../../db/database';
 import type { ResultRow } from './result-row';
-import { type BinaryColumn, type BinaryValue, binaryCopyPieces } from '../db/copy';
+import { binaryCopy } from '../db/copy';
 
 /** The result columns as written, each with its binary COPY type and its value in a result row. */
-const COPY_COLUMNS: readonly (readonly [string, BinaryColumn, (r: ResultRow) => BinaryValue])[] = [
+const RESULT_COPY = binaryCopy<ResultRow>([
   ['run_id', 'uuid', (r) => r.runId],
   ['room_id', 'uuid', (r) => r.roomId],
   ['school_id', 'uuid', (r) => r.schoolId],
@@ -49,17 +49,13 @@ const COPY_COLUMNS: readonly (readonly [string, BinaryColumn, (r: ResultRow) => 
   ['installed_cost_gbp', 'float8', (r) => r.installedCostGbp],
   ['life_years', 'float8', (r) => r.lifeYears],
   ['unit_lines', 'text', (r) => r.unitLines],
-];
-const COPY_TYPES = COPY_COLUMNS.map(([, type]) => type);
-const COPY_VALUES = COPY_COLUMNS.map(([, , value]) => value);
+]);
 
 /** The COPY statement for result rows in binary format (also used by the benchmark's I/O floor). */
-export const copyResultsSql = (table = 'room_results') =>
-  `COPY ${table} (${COPY_COLUMNS.map(([name]) => name).join(', ')}) FROM STDIN (FORMAT binary)`;
+export const copyResultsSql = (table = 'room_results') => RESULT_COPY.sql(table);
 
 /** Result rows as binary COPY pieces (numbers as 8-byte floats: nothing formatted or parsed as decimal text). */
-export const resultPieces = (rows: Iterable<ResultRow>) =>
-  binaryCopyPieces(rows, COPY_TYPES, (r) => COPY_VALUES.map((value) => value(r)));
+export const resultPieces = (rows: Iterable<ResultRow>) => RESULT_COPY.pieces(rows);
 
 /**
  * Makes a finished run's results current in ONE transaction: each school in its scope points at this run

@@ -110,7 +110,7 @@ export function* binaryCopyPieces<T>(
     const values = valuesOf(item);
     if (values.length !== columns.length)
       throw new Error(`binary COPY row has ${values.length} values for ${columns.length} columns`);
-    ensure(2 + columns.length * 12);
+    ensure(2);
     buf.writeInt16BE(columns.length, at);
     at += 2;
     for (let i = 0; i < columns.length; i += 1) {
@@ -173,6 +173,24 @@ export function* binaryCopyPieces<T>(
   ensure(2);
   buf.writeInt16BE(-1, at);
   yield buf.subarray(0, at + 2);
+}
+
+/** Columns of a binary COPY: each with its name, its type and its value in an item. */
+export type BinaryColumns<T> = readonly (readonly [
+  name: string,
+  type: BinaryColumn,
+  value: (item: T) => BinaryValue,
+])[];
+
+/** A binary COPY of `columns`: its statement for a table, and items as its pieces. */
+export function binaryCopy<T>(columns: BinaryColumns<T>) {
+  const names = columns.map(([name]) => name).join(', ');
+  const types = columns.map(([, type]) => type);
+  const values = columns.map(([, , value]) => value);
+  return {
+    sql: (table: string) => `COPY ${table} (${names}) FROM STDIN (FORMAT binary)`,
+    pieces: (items: Iterable<T>) => binaryCopyPieces(items, types, (item) => values.map((value) => value(item))),
+  };
 }
 
 /** Streams COPY text (strings or bytes) into `copySql` on a client that is already inside a transaction. */

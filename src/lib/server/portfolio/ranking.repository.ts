@@ -9,7 +9,7 @@ import type pg from 'pg';
 import type { Database } from '../../../../db/database';
 import { DEFAULT_RANK_WEIGHTS, type RankParts, type RankPlace, rankOrder } from '../../engine/ranking';
 import { poolOf, withConnection } from '../db/client';
-import { type BinaryColumn, type BinaryValue, binaryCopyPieces, copyLines } from '../db/copy';
+import { binaryCopy, copyLines } from '../db/copy';
 import { recordAudit, type AuditEntry } from '../audit/audit.repository';
 import type { Weights } from './portfolio.schemas';
 import type { WeightSettings } from './portfolio.types';
@@ -254,39 +254,34 @@ async function loadRankSources(db: Kysely<Database>, trustId: string): Promise<R
   }));
 }
 
-/** portfolio_ranks' columns as a rebuild writes them, with their binary COPY types and values. */
-const RANK_COLUMNS: readonly (readonly [
-  string,
-  BinaryColumn,
-  (p: RankPlace<RankSource>, trustId: string, generation: number) => BinaryValue,
-])[] = [
-  ['trust_id', 'text', (_, trustId) => trustId],
-  ['generation', 'int8', (_, __, generation) => generation],
-  ['room_id', 'uuid', (p) => p.row.roomId],
-  ['school_id', 'uuid', (p) => p.row.schoolId],
-  ['run_id', 'uuid', (p) => p.row.runId],
-  ['rank', 'int4', (p) => p.rank],
-  ['score', 'float8', (p) => p.score],
-  ['block_id', 'uuid', (p) => p.row.blockId],
-  ['school_name', 'text', (p) => p.row.schoolName],
-  ['ventilation_type', 'text', (p) => p.row.ventilationType],
-  ['risk_band', 'int2', (p) => p.row.riskBand],
-  ['criteria_met', 'bool', (p) => p.row.criteriaMet],
-  ['pupils', 'int4', (p) => p.row.pupils],
-  ['mean_co2_ppm', 'float8', (p) => p.row.meanCo2Ppm],
-  ['peak_co2_ppm', 'float8', (p) => p.row.peakCo2Ppm],
-  ['unit_count', 'int4', (p) => p.row.unitCount],
-  ['capital_cost_gbp', 'float8', (p) => p.row.capitalCostGbp],
-  ['simple_payback_years', 'float8', (p) => p.row.simplePaybackYears],
-  ['npv_gbp', 'float8', (p) => p.row.npvGbp],
-  ['pupil_hours_above', 'float8', (p) => p.row.pupilHoursPerYearAbove],
-  ['pupil_hours_removed', 'float8', (p) => p.row.pupilHoursRemoved],
-  ['score_risk', 'float8', (p) => p.parts.risk],
-  ['score_cost_effectiveness', 'float8', (p) => p.parts.costEffectiveness],
-  ['score_payback', 'float8', (p) => p.parts.payback],
-];
-const COPY_RANKS_SQL = `COPY portfolio_ranks (${RANK_COLUMNS.map(([name]) => name).join(', ')}) FROM STDIN (FORMAT binary)`;
-const RANK_TYPES = RANK_COLUMNS.map(([, type]) => type);
+/** portfolio_ranks' columns as a rebuild of `generation` writes them, with their binary COPY types and values. */
+const rankCopy = (trustId: string, generation: number) =>
+  binaryCopy<RankPlace<RankSource>>([
+    ['trust_id', 'text', () => trustId],
+    ['generation', 'int8', () => generation],
+    ['room_id', 'uuid', (p) => p.row.roomId],
+    ['school_id', 'uuid', (p) => p.row.schoolId],
+    ['run_id', 'uuid', (p) => p.row.runId],
+    ['rank', 'int4', (p) => p.rank],
+    ['score', 'float8', (p) => p.score],
+    ['block_id', 'uuid', (p) => p.row.blockId],
+    ['school_name', 'text', (p) => p.row.schoolName],
+    ['ventilation_type', 'text', (p) => p.row.ventilationType],
+    ['risk_band', 'int2', (p) => p.row.riskBand],
+    ['criteria_met', 'bool', (p) => p.row.criteriaMet],
+    ['pupils', 'int4', (p) => p.row.pupils],
+    ['mean_co2_ppm', 'float8', (p) => p.row.meanCo2Ppm],
+    ['peak_co2_ppm', 'float8', (p) => p.row.peakCo2Ppm],
+    ['unit_count', 'int4', (p) => p.row.unitCount],
+    ['capital_cost_gbp', 'float8', (p) => p.row.capitalCostGbp],
+    ['simple_payback_years', 'float8', (p) => p.row.simplePaybackYears],
+    ['npv_gbp', 'float8', (p) => p.row.npvGbp],
+    ['pupil_hours_above', 'float8', (p) => p.row.pupilHoursPerYearAbove],
+    ['pupil_hours_removed', 'float8', (p) => p.row.pupilHoursRemoved],
+    ['score_risk', 'float8', (p) => p.parts.risk],
+    ['score_cost_effectiveness', 'float8', (p) => p.parts.costEffectiveness],
+    ['score_payback', 'float8', (p) => p.parts.payback],
+  ]);
 
 /** Writes ranked rooms as rows of `generation`, with their filter and sort keys, by binary COPY on `client`. */
 async function copyRankRows(
@@ -295,11 +290,8 @@ async function copyRankRows(
   generation: number,
   places: readonly RankPlace<RankSource>[],
 ): Promise<void> {
-  await copyLines(
-    client,
-    COPY_RANKS_SQL,
-    binaryCopyPieces(places, RANK_TYPES, (p) => RANK_COLUMNS.map(([, , value]) => value(p, trustId, generation))),
-  );
+  const copy = rankCopy(trustId, generation);
+  await copyLines(client, copy.sql('portfolio_ranks'), copy.pieces(places));
 }
 
 /** The same on a connection of its own, committed at once (rows of a generation nobody reads yet). */
