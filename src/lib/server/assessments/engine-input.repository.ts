@@ -33,9 +33,11 @@ const COLUMNS = sql`
   blocks.fuel_price_gbp_per_kwh AS block_price, blocks.heating_efficiency AS block_efficiency, blocks.heating_installed_year,
   ${evidenceColumns}`;
 
-/** Rooms with their school, block and measured evidence (each room's calibration and analysis travel with it). */
-const FROM_ROOMS = sql`rooms JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
+/** A room's school, block and measured evidence (each room's calibration and analysis travel with it). */
+const ROOM_JOINS = sql`JOIN schools ON schools.id = rooms.school_id LEFT JOIN blocks ON blocks.id = rooms.block_id
   ${evidenceJoins}`;
+/** Rooms with their school, block and measured evidence. */
+const FROM_ROOMS = sql`rooms ${ROOM_JOINS}`;
 
 /** The room's own columns (mapped by the estate's toRoomFields), its school's and its block's. */
 interface JoinedRow extends RoomFieldColumns, EvidenceColumns {
@@ -133,13 +135,17 @@ export async function readChunkRooms(
 ): Promise<EngineRoom[]> {
   // Each snapshot room is looked up by its key (OFFSET 0 keeps the lookup per room): left to choose, PostgreSQL read
   // every room of every trust for each chunk, or, with the snapshot's fresh rows not yet in its statistics, scanned the
-  // chunk's range of rooms once per room (1.8 s a chunk at 550,000 rooms).
+  // chunk's range of rooms once per room (1.8 s a chunk at 550,000 rooms). The chunk's rooms are gathered first
+  // (MATERIALIZED), then joined to their schools and blocks once: joined inside the lookup, PostgreSQL scanned the
+  // schools and blocks again for every room (110 ms a chunk at 100,000 rooms, against 35 ms).
   const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
   const { rows } = await sql<JoinedRow>`
-    SELECT room.* FROM assessment_run_rooms ids
-      CROSS JOIN LATERAL (SELECT ${COLUMNS} FROM ${FROM_ROOMS} WHERE rooms.id = ids.room_id OFFSET 0) room
-    WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid
-    ORDER BY ids.room_id`.execute(db);
+    WITH chunk_rooms AS MATERIALIZED (
+      SELECT room.* FROM assessment_run_rooms ids
+        CROSS JOIN LATERAL (SELECT * FROM rooms WHERE rooms.id = ids.room_id OFFSET 0) room
+      WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid)
+    SELECT ${COLUMNS} FROM chunk_rooms rooms ${ROOM_JOINS}
+    ORDER BY rooms.id`.execute(db);
   const timetables: TimetableCache = new Map();
   return rows.map((r) => toEngineRoom(r, timetables));
 }
