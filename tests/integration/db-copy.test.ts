@@ -50,12 +50,21 @@ describe('binary COPY', () => {
       },
       { id: null, label: 'Élève – 20 m³/h ✓', band: null, pupils: null, ppm: null, met: null },
       { id: null, label: '', band: 0, pupils: 2147483647, ppm: 1e-300, met: null },
+      // Short text whose accents are all in Latin-1 (one UTF-16 unit, two UTF-8 bytes).
+      { id: null, label: 'Salle de réunion', band: 4, pupils: 4, ppm: 4, met: true },
+      // Text past the short-text path's 64 characters, with accents before and after that point.
+      { id: null, label: `${'a'.repeat(63)}é${'ü'.repeat(100)}`, band: 1, pupils: 1, ppm: 1, met: true },
+      // One row larger than a whole piece (the buffer grows to hold it).
+      { id: null, label: 'Notes '.repeat(100_000), band: 2, pupils: 2, ppm: 2, met: false },
     ];
     expect(await roundTrip(rows)).toEqual([
       { ...rows[0], id: '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d' },
       { ...rows[1], id: 'ffffffff-0000-4000-8000-00000000000a' },
       rows[2],
       rows[3],
+      rows[4],
+      rows[5],
+      rows[6],
     ]);
   });
 
@@ -85,7 +94,14 @@ describe('binary COPY', () => {
   });
 
   it('refuses a value that is not of its column type before anything is sent', () => {
-    expect(() => [...binaryCopyPieces([{ id: 'not-a-uuid' }], ['uuid'], (r) => [r.id])]).toThrow(/not a uuid/);
+    for (const id of [
+      'not-a-uuid',
+      '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4', // a digit short
+      '0a1b2c3d4-e5f-4a6b-8c7d-9e0f1a2b3c4d', // a dash out of place
+      '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4g', // not a hex digit
+      '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4\u0130', // a letter whose low bits read as "0"
+    ])
+      expect(() => [...binaryCopyPieces([{ id }], ['uuid'], (r) => [r.id])], id).toThrow(/not a uuid/);
     expect(() => [...binaryCopyPieces([{ n: 2.5 }], ['int4'], (r) => [r.n])]).toThrow(/not an integer/);
     expect(() => [...binaryCopyPieces([{ n: 1 }], ['int4', 'int4'], (r) => [r.n])]).toThrow(/1 values for 2 columns/);
   });

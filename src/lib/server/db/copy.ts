@@ -62,29 +62,50 @@ const BINARY_HEADER = Buffer.from([
   0x50, 0x47, 0x43, 0x4f, 0x50, 0x59, 0x0a, 0xff, 0x0d, 0x0a, 0x00, 0, 0, 0, 0, 0, 0, 0, 0,
 ]);
 
-/** The fixed-width types: their size, whether the value must be whole, and how it is written (big-endian). */
-const FIXED_WIDTH: Partial<
-  Record<BinaryColumn, { bytes: number; whole: boolean; write: (buf: Buffer, value: BinaryValue, at: number) => void }>
-> = {
-  float8: { bytes: 8, whole: false, write: (buf, value, at) => buf.writeDoubleBE(value as number, at) },
-  int8: { bytes: 8, whole: true, write: (buf, value, at) => buf.writeBigInt64BE(BigInt(value as number), at) },
-  int4: { bytes: 4, whole: true, write: (buf, value, at) => buf.writeInt32BE(value as number, at) },
-  int2: { bytes: 2, whole: true, write: (buf, value, at) => buf.writeInt16BE(value as number, at) },
-  bool: {
-    bytes: 1,
-    whole: false,
-    write: (buf, value, at) => {
-      buf[at] = value ? 1 : 0;
-    },
-  },
-};
+/** Each column type as a small number, so the row loop switches on an integer. */
+const TYPE_CODE: Record<BinaryColumn, number> = { uuid: 0, text: 1, int2: 2, int4: 3, int8: 4, float8: 5, bool: 6 };
+/** The bytes a value of each fixed-width type takes (uuid 16; text varies). */
+const FIXED_BYTES = [16, 0, 2, 4, 8, 8, 1];
 
-/** The hex digit's value, or -1. */
-function hexValue(code: number): number {
-  if (code >= 48 && code <= 57) return code - 48;
-  if (code >= 97 && code <= 102) return code - 87;
-  if (code >= 65 && code <= 70) return code - 55;
-  return -1;
+/** Each ASCII code's hex digit value, or -1. */
+const HEX = new Int8Array(128).fill(-1);
+for (let d = 0; d < 16; d += 1) {
+  HEX['0123456789abcdef'.charCodeAt(d)] = d;
+  HEX['0123456789ABCDEF'.charCodeAt(d)] = d;
+}
+
+/** Writes a uuid's 16 bytes at `at` (after its length); throws when the text is not a uuid (8-4-4-4-12 hex digits). */
+function writeUuid(buf: Buffer, text: string, at: number): void {
+  if (text.length !== 36) throw new Error(`not a uuid: ${text}`);
+  let out = at;
+  let bad = 0;
+  for (let c = 0; c < 36; c += 2) {
+    if (c === 8 || c === 13 || c === 18 || c === 23) {
+      bad |= text.charCodeAt(c) ^ 45; // '-'
+      c -= 1;
+      continue;
+    }
+    const high = HEX[text.charCodeAt(c) & 127]!;
+    const low = HEX[text.charCodeAt(c + 1) & 127]!;
+    bad |= (high | low) & 0x80;
+    bad |= (text.charCodeAt(c) | text.charCodeAt(c + 1)) & 0xff80;
+    buf[out++] = (high << 4) | low;
+  }
+  if (bad !== 0) throw new Error(`not a uuid: ${text}`);
+}
+
+/** Writes text as UTF-8 at `at`; returns its byte length. Short ASCII text (codes, labels) is copied byte by byte. */
+function writeText(buf: Buffer, text: string, at: number): number {
+  if (text.length <= 64) {
+    let c = 0;
+    for (; c < text.length; c += 1) {
+      const code = text.charCodeAt(c);
+      if (code > 127) break;
+      buf[at + c] = code;
+    }
+    if (c === text.length) return c;
+  }
+  return buf.write(text, at, 'utf8');
 }
 
 /**
@@ -97,72 +118,60 @@ export function* binaryCopyPieces<T>(
   columns: readonly BinaryColumn[],
   valuesOf: (item: T) => readonly BinaryValue[],
 ): Generator<Buffer> {
+  const codes = columns.map((type) => TYPE_CODE[type]);
+  // A row's size but for its texts: field count, and each field's length and fixed-width bytes.
+  const fixedRowBytes = 2 + codes.reduce((sum, code) => sum + 4 + FIXED_BYTES[code]!, 0);
   let buf = Buffer.allocUnsafe(PIECE_BYTES * 2);
   BINARY_HEADER.copy(buf, 0);
   let at = BINARY_HEADER.length;
-  const ensure = (bytes: number) => {
-    if (at + bytes <= buf.length) return;
-    const bigger = Buffer.allocUnsafe(Math.max(buf.length * 2, at + bytes));
-    buf.copy(bigger, 0, 0, at);
-    buf = bigger;
-  };
   for (const item of items) {
     const values = valuesOf(item);
-    if (values.length !== columns.length)
-      throw new Error(`binary COPY row has ${values.length} values for ${columns.length} columns`);
-    ensure(2);
-    buf.writeInt16BE(columns.length, at);
+    if (values.length !== codes.length)
+      throw new Error(`binary COPY row has ${values.length} values for ${codes.length} columns`);
+    // Room for the row: its fixed part, and each text at 3 bytes per UTF-16 unit (UTF-8's most).
+    let rowBytes = fixedRowBytes;
+    for (let i = 0; i < codes.length; i += 1) if (codes[i] === 1) rowBytes += 3 * String(values[i] ?? '').length;
+    if (at + rowBytes > buf.length) {
+      const bigger = Buffer.allocUnsafe(Math.max(buf.length * 2, at + rowBytes));
+      buf.copy(bigger, 0, 0, at);
+      buf = bigger;
+    }
+    buf.writeInt16BE(codes.length, at);
     at += 2;
-    for (let i = 0; i < columns.length; i += 1) {
+    for (let i = 0; i < codes.length; i += 1) {
       const value = values[i];
-      const type = columns[i]!;
       if (value === null || value === undefined || (typeof value === 'number' && !Number.isFinite(value))) {
-        ensure(4);
         buf.writeInt32BE(-1, at);
         at += 4;
         continue;
       }
-      const fixed = FIXED_WIDTH[type];
-      if (fixed) {
-        if (fixed.whole && !Number.isSafeInteger(value)) throw new Error(`not an integer: ${value}`);
-        ensure(4 + fixed.bytes);
-        buf.writeInt32BE(fixed.bytes, at);
-        fixed.write(buf, value, at + 4);
-        at += 4 + fixed.bytes;
-        continue;
-      }
-      switch (type) {
-        case 'uuid': {
-          const text = value as string;
-          ensure(20);
-          buf.writeInt32BE(16, at);
-          let out = at + 4;
-          let high = -1;
-          for (let c = 0; c < text.length; c += 1) {
-            const code = text.charCodeAt(c);
-            if (code === 45) continue; // '-'
-            const digit = hexValue(code);
-            if (digit < 0 || out >= at + 20) throw new Error(`not a uuid: ${text}`);
-            if (high < 0) high = digit;
-            else {
-              buf[out++] = (high << 4) | digit;
-              high = -1;
-            }
-          }
-          if (out !== at + 20 || high >= 0) throw new Error(`not a uuid: ${text}`);
-          at += 20;
+      const code = codes[i]!;
+      if (code !== 1) buf.writeInt32BE(FIXED_BYTES[code]!, at);
+      switch (code) {
+        case 0:
+          writeUuid(buf, value as string, at + 4);
           break;
-        }
-        case 'text': {
-          const text = String(value);
-          const bytes = Buffer.byteLength(text);
-          ensure(4 + bytes);
+        case 1: {
+          const bytes = writeText(buf, String(value), at + 4);
           buf.writeInt32BE(bytes, at);
-          buf.write(text, at + 4, bytes, 'utf8');
-          at += 4 + bytes;
+          at += bytes;
           break;
         }
+        case 2:
+        case 3:
+        case 4:
+          if (!Number.isSafeInteger(value)) throw new Error(`not an integer: ${value}`);
+          if (code === 2) buf.writeInt16BE(value as number, at + 4);
+          else if (code === 3) buf.writeInt32BE(value as number, at + 4);
+          else buf.writeBigInt64BE(BigInt(value as number), at + 4);
+          break;
+        case 5:
+          buf.writeDoubleBE(value as number, at + 4);
+          break;
+        default:
+          buf[at + 4] = value ? 1 : 0;
       }
+      at += 4 + FIXED_BYTES[code]!;
     }
     if (at >= PIECE_BYTES) {
       yield buf.subarray(0, at);
@@ -170,7 +179,6 @@ export function* binaryCopyPieces<T>(
       at = 0;
     }
   }
-  ensure(2);
   buf.writeInt16BE(-1, at);
   yield buf.subarray(0, at + 2);
 }
