@@ -313,7 +313,8 @@ async function copyRankRowsApart(
  * (readers keep the generation they have until then). The rows are written in pieces at once, one in the rebuild's
  * own transaction and the others on connections of their own (rows of a generation nobody reads yet; a rebuild that
  * fails leaves rows the next one removes). The generation before stays for readers still on it, until the next
- * rebuild. One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the caller
+ * rebuild; older ones are deleted once the new generation is committed, so readers see it without waiting for the
+ * delete. One rebuild per trust at a time: with `wait` the caller queues behind a running one, without it the caller
  * gets null at once.
  */
 async function rebuildRanks(
@@ -325,12 +326,38 @@ async function rebuildRanks(
   const pool = poolOf(db);
   // A connection of the pool's own (not Kysely's transaction), so the rebuild's piece goes by COPY in its transaction.
   // A failure discards the connection, and with it the transaction.
-  return withConnection(pool, async (trx, client) => {
+  const rebuilt = await withConnection(pool, async (trx, client) => {
     await client.query('BEGIN');
-    const rebuilt = await rebuildIn(trx, client, pool, trustId, weights, wait);
+    const result = await rebuildIn(trx, client, pool, trustId, weights, wait);
     await client.query('COMMIT');
-    return rebuilt;
+    return result;
   });
+  if (rebuilt?.before !== undefined) await deleteOldGenerations(db, trustId, rebuilt.state.generation, rebuilt.before);
+  return rebuilt?.state ?? null;
+}
+
+/**
+ * Deletes the trust's rank rows older than generation `current`, but for `before` (the generation readers were on until
+ * now): the generation before the last, and any a failed rebuild left. Generations come from a sequence taken under
+ * the rebuild's lock, so a rebuild that starts after this one's commit writes only newer rows, which stay. A failure
+ * here is logged: the ranks are already switched, and the next rebuild deletes what is left.
+ */
+async function deleteOldGenerations(
+  db: Kysely<Database>,
+  trustId: string,
+  current: number,
+  before: number | null,
+): Promise<void> {
+  try {
+    await db
+      .deleteFrom('portfolio_ranks')
+      .where('trust_id', '=', trustId)
+      .where('generation', '<', current)
+      .where('generation', '<>', before ?? -1)
+      .execute();
+  } catch (error) {
+    console.error(`Deleting the old rank generations of trust ${trustId} failed`, error);
+  }
 }
 
 /** rebuildRanks inside its transaction (`trx` and `client` are the same connection). */
@@ -341,7 +368,7 @@ async function rebuildIn(
   trustId: string,
   weights: Weights,
   wait: boolean,
-): Promise<RankState | null> {
+): Promise<{ state: RankState; before?: number | null } | null> {
   const lockKey = `portfolio_ranks:${trustId}`;
   if (wait) {
     await sql`SELECT pg_advisory_xact_lock(hashtext(${lockKey}))`.execute(trx);
@@ -361,13 +388,7 @@ async function rebuildIn(
     current.ranked_weights &&
     sameWeights(current.ranked_weights as Weights, weights)
   )
-    return { weights, stamp: stampRow.stamp, generation: current.ranked_generation };
-  // Everything but the generation readers use now: the one before it, and any a failed rebuild left.
-  await trx
-    .deleteFrom('portfolio_ranks')
-    .where('trust_id', '=', trustId)
-    .where('generation', '<>', current?.ranked_generation ?? -1)
-    .execute();
+    return { state: { weights, stamp: stampRow.stamp, generation: current.ranked_generation } };
   const { generation } = (
     await sql<{ generation: number }>`SELECT nextval('portfolio_rank_generations')::int8 AS generation`.execute(trx)
   ).rows[0]!;
@@ -400,7 +421,7 @@ async function rebuildIn(
     .values({ trust_id: trustId, ...values })
     .onConflict((oc) => oc.column('trust_id').doUpdateSet(values))
     .execute();
-  return { weights, stamp: stampRow.stamp, generation };
+  return { state: { weights, stamp: stampRow.stamp, generation }, before: current?.ranked_generation ?? null };
 }
 
 /** Saves the trust's weights (audited) and re-ranks with them. */
