@@ -298,7 +298,7 @@ export function planImport(
       }
       if (message === null) continue;
       problem(row, field, 'error', message);
-      delete row.values[field];
+      row.values[field] = undefined;
       refusedRows.add(row.rowNumber);
     }
   }

@@ -34,10 +34,11 @@ export interface ImportProblem {
   rows?: number[];
 }
 
-/** A data row after each cell is read: values of the mapped columns (null = blank), keyed by field. */
+/** A data row after each cell is read: values of the mapped columns, keyed by field. */
 export interface ParsedRow {
   rowNumber: number;
-  values: Partial<Record<RegisterField, string | number | null>>;
+  /** null: the cell is blank; undefined: it could not be read (or its value was refused). */
+  values: Partial<Record<RegisterField, string | number | null | undefined>>;
   problems: ImportProblem[];
   /** Every cell of the row as read (kept for the rejected-rows workbook). */
   cells?: CellValue[];
@@ -116,43 +117,70 @@ const TOTAL_WORDS = /\b(sub-?total|totals?|grand total|sum)\b/i;
 /** A room code: one short word ("G12", "SC-3"), unlike a note's sentence. */
 const CODE_LIKE = /^\S{1,40}$/;
 
+/** A row without a room code that says "Total" (or the like) in any cell. */
+const totalLine = (code: string, values: CellValue[]) =>
+  code === '' && values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v));
+
 /**
  * Blank rows and total lines ("Subtotal", "Total") carry no room and are skipped; so are notes and headings: rows
  * holding one text and nothing else ("Notes: areas are GIA", "Surveyed by …", "Ground floor", a merged banner), unless
  * that text is in the room-code column and reads like a code (a room with everything else missing is reported).
  */
 export function classifyRow(values: CellValue[], columns: CompiledColumn[]): RowKind {
-  // One pass over the mapped cells: blank, or the first two different texts (then a room or a total line).
+  // One pass over the mapped cells until two different texts are found (then a room or a total line), else blank or
+  // one text.
   let only: string | null = null;
-  let code = '';
   let several = false;
   for (const c of columns) {
     const text = cellText(values[c.index] ?? null);
-    if (c.field === 'code') code = text;
     if (text === '' || text === only) continue;
     if (only === null) only = text;
-    else several = true;
+    else {
+      several = true;
+      break;
+    }
   }
+  const codeColumn = columns.find((c) => c.field === 'code');
+  const code = codeColumn ? cellText(values[codeColumn.index] ?? null) : '';
   if (only === null) return 'blank';
   if (code !== '' && TOTAL_WORDS.test(code)) return 'subtotal';
-  const totalLine = () => code === '' && values.some((v) => typeof v === 'string' && TOTAL_WORDS.test(v));
-  if (several) return totalLine() ? 'subtotal' : 'room';
+  if (several) return totalLine(code, values) ? 'subtotal' : 'room';
   // One text among the mapped cells: a note or heading unless an unmapped cell says something else too.
   for (const value of values) {
     const text = cellText(value ?? null);
-    if (text !== '' && text !== only) return totalLine() ? 'subtotal' : 'room';
+    if (text !== '' && text !== only) return totalLine(code, values) ? 'subtotal' : 'room';
   }
   if (TOTAL_WORDS.test(only)) return 'subtotal';
   return code === only && CODE_LIKE.test(only) ? 'room' : 'note';
 }
 
-/** Reads every mapped cell of a data row; unreadable cells become errors, placeholders warnings. */
+/**
+ * Per set of compiled columns, a values object with every mapped field blank, which each row's values start as a copy
+ * of. Built by JSON.parse and copied by spread, every row's object has the same fixed shape; one filled in by computed
+ * keys would be turned into a dictionary by V8 past a dozen or so fields, about 1.7 kB a row instead of a few hundred
+ * bytes, and 100,000 of those are what the garbage collector then spends its time on.
+ */
+const blankValuesByColumns = new WeakMap<CompiledColumn[], ParsedRow['values']>();
+function blankValues(columns: CompiledColumn[]): ParsedRow['values'] {
+  let blank = blankValuesByColumns.get(columns);
+  if (!blank) {
+    blank = JSON.parse(JSON.stringify(Object.fromEntries(columns.map((c) => [c.field, null])))) as ParsedRow['values'];
+    blankValuesByColumns.set(columns, blank);
+  }
+  return blank;
+}
+
+/**
+ * Reads every mapped cell of a data row; unreadable cells become errors (their field left undefined), placeholders
+ * warnings.
+ */
 export function parseRow(rowNumber: number, cells: CellValue[], columns: CompiledColumn[]): ParsedRow {
-  const row: ParsedRow = { rowNumber, values: {}, problems: [], cells };
+  const row: ParsedRow = { rowNumber, values: { ...blankValues(columns) }, problems: [], cells };
   for (const column of columns) {
     const raw = cells[column.index] ?? null;
     const parsed = column.parse(raw);
     if (!parsed.ok) {
+      row.values[column.field] = undefined;
       row.problems.push({
         row: rowNumber,
         column: column.header,

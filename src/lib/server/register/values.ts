@@ -35,10 +35,12 @@ export function plainCellValue(raw: unknown): CellValue {
 /** Trimmed text of a cell, without the quote our export puts before formula-like text. */
 export function cellText(value: CellValue): string {
   if (value === null) return '';
+  // Every cell of every row comes through here: a number needs no cleaning, a text only the cleaning it needs.
+  if (typeof value === 'number') return String(value);
   if (value instanceof Date) return value.toISOString().slice(0, 10);
-  const text = String(value)
-    .replace(/\u00a0/g, ' ')
-    .trim();
+  let text = String(value);
+  if (text.includes('\u00a0')) text = text.replace(/\u00a0/g, ' ');
+  text = text.trim();
   return text.startsWith("'") && looksLikeFormula(text.slice(1)) ? text.slice(1).trim() : text;
 }
 
