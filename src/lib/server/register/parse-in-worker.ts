@@ -26,6 +26,8 @@ export interface ParseJob {
   snapshot: EstateSnapshot;
   /** Log how long each step takes (AIRTALLY_IMPORT_TIMINGS). */
   timings: boolean;
+  /** The folder of this upload's own for the spreadsheet library's temporary files. */
+  tmpDir: string;
 }
 
 /** What a worker answers: the analysis, or the error as plain data. */
@@ -42,23 +44,57 @@ const tooHungry = () =>
     'This file needs more memory to read than any room register does. Check that it is the register itself, remove other sheets, pictures and formatting, or split it into smaller files.',
   );
 
-function runWorker(url: URL, job: ParseJob, tmp: string): Promise<UploadAnalysis> {
+/** A worker thread started for one upload, and what became of it while it waited. */
+interface StartedWorker {
+  worker: Worker;
+  gone: boolean;
+}
+
+/**
+ * A worker started before the upload it will read, so that loading the reader's modules (about half a second) is done
+ * while nobody waits. Each worker still reads one upload only and is stopped afterwards; the next spare is started once
+ * an upload is read (not during it, so the two do not share the cores). An idle spare does not keep the process running.
+ */
+let spare: StartedWorker | null = null;
+
+function startWorker(url: URL): StartedWorker {
+  const started: StartedWorker = {
+    worker: new Worker(url, { resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB } }),
+    gone: false,
+  };
+  // A spare that fails or stops while it waits is not used; whoever holds it then gets the same events.
+  started.worker.on('error', () => {
+    started.gone = true;
+  });
+  started.worker.once('exit', () => {
+    started.gone = true;
+    if (spare === started) spare = null;
+  });
+  started.worker.unref();
+  return started;
+}
+
+/** The spare worker if it is still sound, else a new one. */
+function takeWorker(url: URL): Worker {
+  const taken = spare && !spare.gone ? spare : startWorker(url);
+  if (spare === taken) spare = null;
+  taken.worker.ref();
+  return taken.worker;
+}
+
+function runWorker(url: URL, job: ParseJob): Promise<UploadAnalysis> {
   return new Promise((resolve, reject) => {
-    const worker = new Worker(url, {
-      workerData: job,
-      transferList: [job.bytes],
-      // The spreadsheet library writes sheets it cannot read yet to temporary files: keep them in a folder
-      // of this upload's own, removed afterwards whatever happens.
-      env: { TMPDIR: tmp },
-      resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB },
-    });
+    const worker = takeWorker(url);
     let settled = false;
     // Answers only once the worker has stopped, so its temporary files can be removed.
     const settle = (outcome: () => void) => {
       if (settled) return;
       settled = true;
       clearTimeout(timer);
-      void worker.terminate().finally(outcome);
+      void worker.terminate().finally(() => {
+        if (!spare) spare = startWorker(url);
+        outcome();
+      });
     };
     const timer = setTimeout(() => settle(() => reject(tooSlow())), PARSE_TIME_LIMIT_MS);
     worker.once('message', (reply: ParseReply) =>
@@ -84,6 +120,7 @@ function runWorker(url: URL, job: ParseJob, tmp: string): Promise<UploadAnalysis
     worker.once('exit', (code) =>
       settle(() => reject(new Error(`The register reader stopped (exit code ${code}) before answering`))),
     );
+    worker.postMessage(job, [job.bytes]);
   });
 }
 
@@ -108,8 +145,8 @@ export async function analyseUploadIsolated(
     try {
       const copy = new Uint8Array(bytes.length);
       copy.set(bytes);
-      const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings };
-      return await runWorker(url, job, tmp);
+      const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings, tmpDir: tmp };
+      return await runWorker(url, job);
     } finally {
       await rm(tmp, { recursive: true, force: true });
     }

@@ -1,9 +1,9 @@
 /**
  * Analyses one register upload in a worker thread (see parse-in-worker.ts): the build emits this module
- * as dist/server/register-parse-worker.mjs. It receives the job in `workerData` and posts back the
- * analysis, or the error as plain data.
+ * as dist/server/register-parse-worker.mjs. It loads its modules, waits for its one job as a message, and posts back
+ * the analysis, or the error as plain data.
  */
-import { parentPort, workerData } from 'node:worker_threads';
+import { parentPort } from 'node:worker_threads';
 import { AppError } from '../http/errors';
 import { analyseUpload } from './analyse';
 import type { ParseJob, ParseReply } from './parse-in-worker';
@@ -41,8 +41,12 @@ async function work(job: ParseJob): Promise<ParseReply> {
 
 if (parentPort) {
   const port = parentPort;
-  void work(workerData as ParseJob).then((reply) => {
-    const transfer = reply.ok ? [reply.analysis.rowsGz.buffer as ArrayBuffer] : [];
-    port.postMessage(reply, transfer);
+  port.once('message', (job: ParseJob) => {
+    // The spreadsheet library's temporary files go to this upload's own folder (this thread's environment only).
+    process.env.TMPDIR = job.tmpDir;
+    void work(job).then((reply) => {
+      const transfer = reply.ok ? [reply.analysis.rowsGz.buffer as ArrayBuffer] : [];
+      port.postMessage(reply, transfer);
+    });
   });
 }
