@@ -63,7 +63,8 @@ let spare: StartedWorker | null = null;
 
 function startWorker(url: URL): StartedWorker {
   const started: StartedWorker = {
-    worker: new Worker(url, { resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB } }),
+    // None of the app's environment (database address, secrets): the worker's only variable is TMPDIR, set with its job.
+    worker: new Worker(url, { env: {}, resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB } }),
     gone: false,
   };
   // A spare that fails or stops while it waits is not used; whoever holds it then gets the same events.
