@@ -150,6 +150,14 @@ export function config(): Config {
 }
 
 /**
+ * Points this thread's temporary files (os.tmpdir(), and so the spreadsheet library's) at `dir`. Meant for a worker
+ * thread started with an environment of its own (the register reader), whose process.env no other thread sees.
+ */
+export function useThreadTempDir(dir: string): void {
+  process.env.TMPDIR = dir;
+}
+
+/**
  * SHA-256 digests of secrets that were once committed to this repository (the loopback auth fallback,
  * the payments fake's API key and its two webhook signing secrets). Anyone can read them, so they sign nothing.
  */

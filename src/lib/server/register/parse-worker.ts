@@ -4,6 +4,7 @@
  * the analysis, or the error as plain data.
  */
 import { parentPort } from 'node:worker_threads';
+import { useThreadTempDir } from '../config';
 import { AppError } from '../http/errors';
 import { analyseUpload } from './analyse';
 import type { ParseJob, ParseReply } from './parse-in-worker';
@@ -42,8 +43,8 @@ async function work(job: ParseJob): Promise<ParseReply> {
 if (parentPort) {
   const port = parentPort;
   port.once('message', (job: ParseJob) => {
-    // The spreadsheet library's temporary files go to this upload's own folder (this thread's environment only).
-    process.env.TMPDIR = job.tmpDir;
+    // The spreadsheet library's temporary files go to this upload's own folder.
+    useThreadTempDir(job.tmpDir);
     void work(job).then((reply) => {
       const transfer = reply.ok ? [reply.analysis.rowsGz.buffer as ArrayBuffer] : [];
       port.postMessage(reply, transfer);
