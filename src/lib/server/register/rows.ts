@@ -113,6 +113,30 @@ export function compileColumns(columns: DetectedColumn[]): CompiledColumn[] {
     }));
 }
 
+/**
+ * What each row of a file needs from its compiled columns, worked out once per set: the room-code column, and a values
+ * object with every mapped field blank, which each row's values start as a copy of. Built by JSON.parse and copied by
+ * spread, every row's object has the same fixed shape; one filled in by computed keys would be turned into a dictionary
+ * by V8 past a dozen or so fields, about 1.7 kB a row instead of a few hundred bytes, and 100,000 of those are what the
+ * garbage collector then spends its time on.
+ */
+interface ColumnFacts {
+  codeColumn: CompiledColumn | undefined;
+  blankValues: ParsedRow['values'];
+}
+const factsByColumns = new WeakMap<CompiledColumn[], ColumnFacts>();
+function columnFacts(columns: CompiledColumn[]): ColumnFacts {
+  let facts = factsByColumns.get(columns);
+  if (!facts) {
+    facts = {
+      codeColumn: columns.find((c) => c.field === 'code'),
+      blankValues: JSON.parse(JSON.stringify(Object.fromEntries(columns.map((c) => [c.field, null])))),
+    };
+    factsByColumns.set(columns, facts);
+  }
+  return facts;
+}
+
 const TOTAL_WORDS = /\b(sub-?total|totals?|grand total|sum)\b/i;
 /** A room code: one short word ("G12", "SC-3"), unlike a note's sentence. */
 const CODE_LIKE = /^\S{1,40}$/;
@@ -140,7 +164,7 @@ export function classifyRow(values: CellValue[], columns: CompiledColumn[]): Row
       break;
     }
   }
-  const codeColumn = columns.find((c) => c.field === 'code');
+  const { codeColumn } = columnFacts(columns);
   const code = codeColumn ? cellText(values[codeColumn.index] ?? null) : '';
   if (only === null) return 'blank';
   if (code !== '' && TOTAL_WORDS.test(code)) return 'subtotal';
@@ -155,27 +179,11 @@ export function classifyRow(values: CellValue[], columns: CompiledColumn[]): Row
 }
 
 /**
- * Per set of compiled columns, a values object with every mapped field blank, which each row's values start as a copy
- * of. Built by JSON.parse and copied by spread, every row's object has the same fixed shape; one filled in by computed
- * keys would be turned into a dictionary by V8 past a dozen or so fields, about 1.7 kB a row instead of a few hundred
- * bytes, and 100,000 of those are what the garbage collector then spends its time on.
- */
-const blankValuesByColumns = new WeakMap<CompiledColumn[], ParsedRow['values']>();
-function blankValues(columns: CompiledColumn[]): ParsedRow['values'] {
-  let blank = blankValuesByColumns.get(columns);
-  if (!blank) {
-    blank = JSON.parse(JSON.stringify(Object.fromEntries(columns.map((c) => [c.field, null])))) as ParsedRow['values'];
-    blankValuesByColumns.set(columns, blank);
-  }
-  return blank;
-}
-
-/**
  * Reads every mapped cell of a data row; unreadable cells become errors (their field left undefined), placeholders
  * warnings.
  */
 export function parseRow(rowNumber: number, cells: CellValue[], columns: CompiledColumn[]): ParsedRow {
-  const row: ParsedRow = { rowNumber, values: { ...blankValues(columns) }, problems: [], cells };
+  const row: ParsedRow = { rowNumber, values: { ...columnFacts(columns).blankValues }, problems: [], cells };
   for (const column of columns) {
     const raw = cells[column.index] ?? null;
     const parsed = column.parse(raw);
