@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
+import { median } from '../../src/lib/engine/measured/statistics';
 import { label } from '../../src/lib/engine/vocabulary';
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
@@ -80,9 +81,6 @@ async function writeRegister(): Promise<void> {
 }
 
 /** (a) The floor: exceljs's streaming reader over the same bytes, with the same options, doing nothing with the rows. */
-/** The middle value (the upper one of an even count). */
-const median = (list: number[]) => [...list].sort((x, y) => x - y)[Math.floor(list.length / 2)]!;
-
 async function rawRead(bytes: Buffer): Promise<number> {
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
     sharedStrings: 'cache',
