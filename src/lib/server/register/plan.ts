@@ -222,6 +222,31 @@ const ROOM_FIELDS = [
 ] as const satisfies readonly (RoomFieldName & RegisterField)[];
 /** Fields that must hold a value (everything else may stay unknown). */
 const REQUIRED = new Set<RoomFieldName>(['code', 'floorAreaM2']);
+/**
+ * A new room before the file's values: no name, every optional field unknown (a blank is never read as 0), the required
+ * ones not given. Written out as one literal so that every draft has the same fast object layout.
+ */
+const newRoomDraft = (): Record<string, unknown> =>
+  ({
+    code: undefined,
+    name: '',
+    use: null,
+    floorAreaM2: undefined,
+    ceilingHeightM: null,
+    pupils: null,
+    adults: null,
+    ageGroup: null,
+    orientationDeg: null,
+    glazingAreaM2: null,
+    openableAreaM2: null,
+    windowType: null,
+    frameMaterial: null,
+    glazingGValue: null,
+    ventilationType: null,
+    mechanicalSupplyLps: null,
+    winterWindowOpenFraction: null,
+    notes: null,
+  }) satisfies Record<(typeof ROOM_FIELDS)[number], unknown>;
 
 const sameValue = (a: unknown, b: unknown) =>
   typeof a === 'number' && typeof b === 'number' ? Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a)) : a === b;
@@ -252,6 +277,8 @@ export function planImport(
   const byField = new Map<RegisterField, DetectedColumn>();
   for (const c of columns) if (c.field) byField.set(c.field, c);
   const has = (f: RegisterField) => byField.has(f);
+  // Each room field, whether it must hold a value and whether the file has a column for it.
+  const roomFieldSteps = ROOM_FIELDS.map((field) => ({ field, required: REQUIRED.has(field), inFile: has(field) }));
   const problem = (row: ParsedRow, field: RegisterField, severity: 'error' | 'warning', message: string) => {
     const column = byField.get(field);
     const value = row.values[field];
@@ -275,26 +302,50 @@ export function planImport(
     }
     return key;
   };
+  // "a|b" keys of the few schools and blocks made once each and reused: a key built afresh on every row would be hashed
+  // afresh on every lookup.
+  const pairKeys = new Map<string, Map<string, string>>();
+  const pairKey = (a: string, b: string) => {
+    let inner = pairKeys.get(a);
+    if (!inner) {
+      inner = new Map();
+      pairKeys.set(a, inner);
+    }
+    let key = inner.get(b);
+    if (key === undefined) {
+      key = `${a}|${b}`;
+      inner.set(b, key);
+    }
+    return key;
+  };
   const schoolsByKey = new Map(estate.schools.map((s) => [nameKey(s.name), s]));
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
-  const roomsByKey = new Map(estate.rooms.map((r) => [`${r.schoolId}|${r.fields.code}`, r]));
+  // The estate's rooms by school, then by code.
+  const roomsBySchool = new Map<string, Map<string, EstateSnapshot['rooms'][number]>>();
+  for (const r of estate.rooms) {
+    let ofSchool = roomsBySchool.get(r.schoolId);
+    if (!ofSchool) {
+      ofSchool = new Map();
+      roomsBySchool.set(r.schoolId, ofSchool);
+    }
+    ofSchool.set(r.fields.code, r);
+  }
 
   // School and block values the estate's editors would refuse are refused here too: the value is not applied and its
   // row is rejected. A register repeats the same few values on every row, so each is checked once.
   const refusedRows = new Set<number>();
-  const verdicts = new Map<string, string | null>();
+  const verdictsByField = ESTATE_VALUE_FIELDS.map((field) => ({ field, verdicts: new Map<unknown, string | null>() }));
   for (const row of read.rows) {
-    for (const field of ESTATE_VALUE_FIELDS) {
+    for (const { field, verdicts } of verdictsByField) {
       const value = row.values[field];
       if (value === null || value === undefined) continue;
-      const key = `${field}|${value}`;
-      let message = verdicts.get(key);
+      let message = verdicts.get(value);
       if (message === undefined) {
         const parsed = ESTATE_VALUE_SCHEMAS[field].safeParse(value);
         message = parsed.success
           ? null
           : (parsed.error.issues[0]?.message ?? `${columnOf(field).header} is not valid.`);
-        verdicts.set(key, message);
+        verdicts.set(value, message);
       }
       if (message === null) continue;
       problem(row, field, 'error', message);
@@ -344,7 +395,7 @@ export function planImport(
     schoolHeatingOf.set(sk, heating);
     const block = row.values.block;
     if (typeof block === 'string') {
-      const bk = `${sk}|${keyOf(block)}`;
+      const bk = pairKey(sk, keyOf(block));
       const bh = blockHeatingOf.get(bk) ?? {};
       for (const [column, key] of BLOCK_HEATING_COLUMNS) {
         const v = row.values[column];
@@ -410,8 +461,10 @@ export function planImport(
 
   // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
   const writes: RoomWrite[] = [];
-  const codesInFile = new Set<string>();
-  const firstRowOfCode = new Map<string, number>();
+  // The codes the file names in each of the estate's schools.
+  const codesInFile = new Map<string, Set<string>>();
+  // The first row of each room code, by school key then code.
+  const firstRowOfCode = new Map<string, Map<string, number>>();
   const acceptedSchools = new Set<string>();
   const acceptedBlocks = new Set<string>();
   const warnedNewSchool = new Set<string>();
@@ -494,7 +547,7 @@ export function planImport(
     if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
     else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
     const blockHeating =
-      typeof row.values.block === 'string' ? blockHeatingProblem.get(`${sk}|${keyOf(row.values.block)}`) : undefined;
+      typeof row.values.block === 'string' ? blockHeatingProblem.get(pairKey(sk, keyOf(row.values.block))) : undefined;
     if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
     else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
     if (!existingSchool && estate.canCreateSchools === false)
@@ -518,31 +571,38 @@ export function planImport(
           `"${schoolName}" is a new school and the file does not say its ${newSchool.phaseSource === 'default' ? 'phase' : 'region'}${newSchool.phaseSource === 'default' && newSchool.regionSource === 'default' ? ' or region' : ''}: ${guessed.join(' and ')} (the trust's usual). Choose in the new schools list before importing, or change it later on the school's page.`,
         );
     }
-    const dupKey = `${sk}|${code}`;
-    const first = firstRowOfCode.get(dupKey);
+    let codesOfSchool = firstRowOfCode.get(sk);
+    if (!codesOfSchool) {
+      codesOfSchool = new Map();
+      firstRowOfCode.set(sk, codesOfSchool);
+    }
+    const first = codesOfSchool.get(code);
     if (first !== undefined)
       error(
         'code',
         `Room code "${code}" appears again for ${schoolName} (first on row ${first}); room codes must be unique within a school.`,
       );
-    else firstRowOfCode.set(dupKey, row.rowNumber);
-    if (existingSchool) codesInFile.add(`${existingSchool.id}|${code}`);
+    else codesOfSchool.set(code, row.rowNumber);
+    if (existingSchool) {
+      const codes = codesInFile.get(existingSchool.id);
+      if (codes) codes.add(code);
+      else codesInFile.set(existingSchool.id, new Set([code]));
+    }
 
-    const existingRoom = existingSchool ? (roomsByKey.get(`${existingSchool.id}|${code}`) ?? null) : null;
+    const existingRoom = existingSchool ? (roomsBySchool.get(existingSchool.id)?.get(code) ?? null) : null;
     const blockName = typeof row.values.block === 'string' ? row.values.block : null;
-    const blockKey = blockName ? `${sk}|${keyOf(blockName)}` : null;
+    const blockKey = blockName ? pairKey(sk, keyOf(blockName)) : null;
     const existingBlock =
-      blockName && existingSchool ? (blocksByKey.get(`${existingSchool.id}|${keyOf(blockName)}`) ?? null) : null;
+      blockName && existingSchool ? (blocksByKey.get(pairKey(existingSchool.id, keyOf(blockName))) ?? null) : null;
 
     // Start from the room as it stands (columns missing from the file, and blank cells unless the person chose to
     // clear blanks, keep their values), else from unknowns: a blank is never read as 0.
-    const draft: Record<string, unknown> = existingRoom ? { ...existingRoom.fields } : { name: '' };
-    for (const field of ROOM_FIELDS) {
-      if (!existingRoom && !REQUIRED.has(field)) draft[field] ??= null;
-      if (!has(field)) continue;
+    const draft = existingRoom ? { ...existingRoom.fields } : newRoomDraft();
+    for (const { field, required, inFile } of roomFieldSteps) {
+      if (!inFile) continue;
       const value = row.values[field];
       if (value !== null && value !== undefined) draft[field] = field === 'code' ? code : value;
-      else if (REQUIRED.has(field)) continue;
+      else if (required) continue;
       else if (!existingRoom || clearBlanks) draft[field] = field === 'name' ? '' : null;
     }
     draft.code = code;
@@ -729,7 +789,7 @@ export function planImport(
   const schoolIdsInFile = new Set([...schoolNameOf.keys()].map((sk) => schoolsByKey.get(sk)?.id).filter(Boolean));
   const schoolNames = new Map(estate.schools.map((s) => [s.id, s.name]));
   const missingRooms = estate.rooms
-    .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.has(`${r.schoolId}|${r.fields.code}`))
+    .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.get(r.schoolId)?.has(r.fields.code))
     .map((r) => ({
       id: r.id,
       schoolName: schoolNames.get(r.schoolId) ?? '',
