@@ -153,7 +153,7 @@ export function config(): Config {
  * Points this thread's temporary files (os.tmpdir(), and so the spreadsheet library's) at `dir`. Meant for a worker
  * thread started with an environment of its own (the register reader), whose process.env no other thread sees.
  */
-export function useThreadTempDir(dir: string): void {
+export function setThreadTempDir(dir: string): void {
   process.env.TMPDIR = dir;
 }
 

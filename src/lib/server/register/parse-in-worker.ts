@@ -39,6 +39,15 @@ export type ParseReply =
   | { ok: true; analysis: UploadAnalysis }
   | { ok: false; error: { status?: number; code?: string; message: string; details?: unknown } };
 
+/** Asks a spare to read our own small register first (warm-up.ts), with a folder for its temporary files. */
+export interface WarmUpRequest {
+  warmUp: { tmpDir: string };
+}
+/** What a spare says when its warm-up has ended. */
+interface WarmedNotice {
+  warmed: true;
+}
+
 const tooSlow = () =>
   badRequest(
     `This file took longer than ${PARSE_TIME_LIMIT_MS / 1000} seconds to read, far longer than any room register. Check that it is the register itself (not a file with millions of cells or formatting), save it again as .xlsx or .csv, or split it into smaller files.`,
@@ -55,18 +64,20 @@ interface StartedWorker {
 }
 
 /**
- * A worker started before the upload it will read, so that loading the reader's modules (about half a second) is done
- * while nobody waits. Each worker still reads one upload only and is stopped afterwards; the next spare is started once
- * an upload is read (not during it, so the two do not share the cores). An idle spare does not keep the process running.
+ * A worker started before the upload it will read, so that loading the reader's modules (about half a second) and a
+ * warm-up read of a small register of our own (warm-up.ts) are done while nobody waits. Each worker still reads one
+ * upload only and is stopped afterwards; the next spare is started once an upload is read (not during it, so the two do
+ * not share the cores). An idle spare does not keep the process running.
  */
 let spare: StartedWorker | null = null;
 
-function startWorker(url: URL): StartedWorker {
+function startWorker(url: URL, warmUp: boolean): StartedWorker {
   const started: StartedWorker = {
     // None of the app's environment (database address, secrets): the worker's only variable is TMPDIR, set with its job.
     worker: new Worker(url, { env: {}, resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB } }),
     gone: false,
   };
+  if (warmUp) warmUpWorker(started);
   // A spare that fails or stops while it waits is not used; whoever holds it then gets the same events.
   started.worker.on('error', () => {
     started.gone = true;
@@ -79,9 +90,31 @@ function startWorker(url: URL): StartedWorker {
   return started;
 }
 
-/** The spare worker if it is still sound, else a new one. */
+/** Gives a spare its warm-up, in a temporary folder of its own that is removed when the warm-up ends or the worker stops. */
+function warmUpWorker(started: StartedWorker): void {
+  void mkdtemp(join(tmpdir(), 'airtally-warm-up-'))
+    .then((dir) => {
+      let removed = false;
+      const remove = () => {
+        if (removed) return;
+        removed = true;
+        started.worker.off('message', onMessage);
+        void rm(dir, { recursive: true, force: true });
+      };
+      const onMessage = (message: unknown) => {
+        if ((message as WarmedNotice | null)?.warmed === true) remove();
+      };
+      started.worker.on('message', onMessage);
+      started.worker.once('exit', remove);
+      if (started.gone) return remove();
+      started.worker.postMessage({ warmUp: { tmpDir: dir } } satisfies WarmUpRequest);
+    })
+    .catch(() => undefined);
+}
+
+/** The spare worker if it is still sound, else a new one (not warmed up: someone is waiting for it). */
 function takeWorker(url: URL): Worker {
-  const taken = spare && !spare.gone ? spare : startWorker(url);
+  const taken = spare && !spare.gone ? spare : startWorker(url, false);
   if (spare === taken) spare = null;
   taken.worker.ref();
   return taken.worker;
@@ -97,12 +130,13 @@ function runWorker(url: URL, job: ParseJob): Promise<UploadAnalysis> {
       settled = true;
       clearTimeout(timer);
       void worker.terminate().finally(() => {
-        if (!spare) spare = startWorker(url);
+        if (!spare) spare = startWorker(url, true);
         outcome();
       });
     };
     const timer = setTimeout(() => settle(() => reject(tooSlow())), PARSE_TIME_LIMIT_MS);
-    worker.once('message', (reply: ParseReply) =>
+    worker.on('message', (reply: ParseReply | WarmedNotice) => {
+      if ('warmed' in reply) return;
       settle(() => {
         if (reply.ok) return resolve({ ...reply.analysis, rowsGz: Buffer.from(reply.analysis.rowsGz) });
         const e = reply.error;
@@ -111,8 +145,8 @@ function runWorker(url: URL, job: ParseJob): Promise<UploadAnalysis> {
             ? new AppError(e.status, e.code ?? 'bad_request', e.message, e.details ?? null)
             : badRequest(e.message),
         );
-      }),
-    );
+      });
+    });
     worker.once('error', (error: Error & { code?: string }) =>
       settle(() =>
         reject(
