@@ -214,6 +214,21 @@ describe('temporary files', () => {
     expect(status).toBe(201);
     expect(leftovers()).toEqual(before);
   });
+
+  it('removes the folder of the spare reader’s warm-up once the warm-up has ended', async () => {
+    // After each preview a spare reader warms up on a register of our own, with a temporary folder of its own. (Folders
+    // there before are left out: a server stopped during a warm-up cannot remove its folder.)
+    const allWarmUpFolders = () => readdirSync(tmpdir()).filter((f) => f.startsWith('airtally-warm-up-'));
+    const before = new Set(allWarmUpFolders());
+    const warmUpFolders = () => allWarmUpFolders().filter((f) => !before.has(f));
+    const { status } = await upload('one room.xlsx', await tidyRegister([roomRow('Oak Primary', 'W1')]));
+    expect(status).toBe(201);
+    const deadline = Date.now() + 60_000;
+    while (warmUpFolders().length > 0) {
+      if (Date.now() > deadline) throw new Error(`Warm-up folders left after a minute: ${warmUpFolders().join(', ')}`);
+      await new Promise((resolve) => setTimeout(resolve, 100));
+    }
+  }, 90_000);
 });
 
 /**

@@ -53,6 +53,11 @@ const EnvSchema = z.object({
   DATABASE_POOL_MAX: z.coerce.number().int().min(2).max(200).default(10),
   /** Any value logs how long each import step takes (the import benchmark sets it). */
   AIRTALLY_IMPORT_TIMINGS: z.string().optional(),
+  /**
+   * The folder of the build's worker files (register-parse-worker.mjs), for scripts that run the app's modules from
+   * source: the import benchmark sets it, so that uploads are read in the built worker, as the app reads them.
+   */
+  AIRTALLY_BUILT_WORKERS_DIR: z.string().min(1).optional(),
 });
 
 /** The parsed configuration, grouped by who uses it. */
@@ -85,6 +90,7 @@ export interface Config {
     opsEmail: string;
   };
   importTimings: boolean;
+  builtWorkersDir: string | null;
   assessments: { appWorkers: number; workerConcurrency: number };
   databasePoolMax: number;
 }
@@ -136,6 +142,7 @@ export function parseConfig(env: Record<string, string | undefined>): Config {
       opsEmail: e.BILLING_OPS_EMAIL,
     },
     importTimings: Boolean(e.AIRTALLY_IMPORT_TIMINGS) && e.AIRTALLY_IMPORT_TIMINGS !== '0',
+    builtWorkersDir: e.AIRTALLY_BUILT_WORKERS_DIR ?? null,
     assessments: { appWorkers: e.ASSESSMENT_APP_WORKERS, workerConcurrency: e.ASSESSMENT_WORKER_CONCURRENCY },
     databasePoolMax: e.DATABASE_POOL_MAX,
   };

@@ -6,16 +6,26 @@
 import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { config } from '../config';
 
 const found = new Map<string, URL | null>();
 
-/** The built worker `fileName` (e.g. "register-parse-worker.mjs"), or null when running from source. */
+/**
+ * The built worker `fileName` (e.g. "register-parse-worker.mjs"), or null when running from source (unless the
+ * configuration names the build's folder).
+ */
 export function findBuiltWorker(fileName: string): URL | null {
   const known = found.get(fileName);
   if (known !== undefined) return known;
   let url: URL | null = null;
+  const named = config().builtWorkersDir;
+  if (named) {
+    const file = join(named, fileName);
+    if (!existsSync(file)) throw new Error(`AIRTALLY_BUILT_WORKERS_DIR has no ${fileName} (${file})`);
+    url = pathToFileURL(file);
+  }
   let dir = dirname(fileURLToPath(import.meta.url));
-  for (let up = 0; up < 4; up++, dir = dirname(dir)) {
+  for (let up = 0; up < 4 && !url; up++, dir = dirname(dir)) {
     const candidate = join(dir, fileName);
     if (existsSync(candidate)) {
       url = pathToFileURL(candidate);
