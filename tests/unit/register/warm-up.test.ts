@@ -10,12 +10,18 @@ import { WARM_UP_ROWS, warmUpWorkbook } from '~/lib/server/register/warm-up';
 
 describe('the preview worker warm-up register', () => {
   it('is read as a clean register: every template column mapped, every row planned as a new room', async () => {
-    const analysis = await analyseUpload(await warmUpWorkbook(), 'xlsx', new Map(), {}, {
-      schools: [],
-      blocks: [],
-      rooms: [],
-      defaultClimateRegion: 'midlands',
-    });
+    const analysis = await analyseUpload(
+      await warmUpWorkbook(),
+      'xlsx',
+      new Map(),
+      {},
+      {
+        schools: [],
+        blocks: [],
+        rooms: [],
+        defaultClimateRegion: 'midlands',
+      },
+    );
     expect(analysis.header.columns.map((c) => c.field)).toEqual(REGISTER_COLUMNS.map((c) => c.field));
     expect(analysis.summary).toMatchObject({
       rowsRead: WARM_UP_ROWS,
