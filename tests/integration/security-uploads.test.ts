@@ -1,9 +1,10 @@
 // Hostile uploads (issue 17, item 3), built here on purpose, against the running app: zips whose parts
 // disagree with their table of contents, zip bombs, merged-cell floods, XML entities, impossible row
 // numbers, NUL bytes, temporary files, and bodies far over the limit.
-import { readdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, utimesSync } from 'node:fs';
 import http from 'node:http';
 import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { deflateRawSync } from 'node:zlib';
 import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -229,6 +230,34 @@ describe('temporary files', () => {
       await new Promise((resolve) => setTimeout(resolve, 100));
     }
   }, 90_000);
+
+  it('sweeps the folders a stopped server left more than an hour ago, and only those', async () => {
+    const made = (name: string, ageMs: number) => {
+      const path = join(tmpdir(), name);
+      mkdirSync(join(path, 'inside'), { recursive: true });
+      const when = new Date(Date.now() - ageMs);
+      utimesSync(path, when, when);
+      return path;
+    };
+    const hour = 3600 * 1000;
+    const staleUpload = made(`airtally-import-test-stale-${process.pid}`, 2 * hour);
+    const staleWarmUp = made(`airtally-warm-up-test-stale-${process.pid}`, 3 * hour);
+    const recent = made(`airtally-import-test-recent-${process.pid}`, hour / 2);
+    const unrelated = made(`someone-else-test-${process.pid}`, 5 * hour);
+    try {
+      const { status } = await upload('one room.xlsx', await tidyRegister([roomRow('Oak Primary', 'S1')]));
+      expect(status).toBe(201);
+      const deadline = Date.now() + 30_000;
+      while (existsSync(staleUpload) || existsSync(staleWarmUp)) {
+        if (Date.now() > deadline) throw new Error('Stale folders still there 30 s after a preview');
+        await new Promise((resolve) => setTimeout(resolve, 100));
+      }
+      expect(existsSync(recent)).toBe(true);
+      expect(existsSync(unrelated)).toBe(true);
+    } finally {
+      for (const path of [staleUpload, staleWarmUp, recent, unrelated]) rmSync(path, { recursive: true, force: true });
+    }
+  }, 60_000);
 });
 
 /**

@@ -1,4 +1,4 @@
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdtemp, readdir, rm, stat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
@@ -90,9 +90,33 @@ function startWorker(url: URL, warmUp: boolean): StartedWorker {
   return started;
 }
 
+/** The prefixes of the temporary folders of an upload being read and of a spare's warm-up. */
+const UPLOAD_FOLDER = 'airtally-import-';
+const WARM_UP_FOLDER = 'airtally-warm-up-';
+/** Age past which such a folder belongs to no read in progress (a read is stopped after PARSE_TIME_LIMIT_MS). */
+export const STALE_FOLDER_MS = 60 * 60 * 1000;
+
+/**
+ * Removes the temporary folders a server left when it was stopped while reading an upload or warming up a spare: theirs
+ * is the only code that removes them. Only folders older than STALE_FOLDER_MS, so those of another server on this host
+ * that is still reading are left alone.
+ */
+async function sweepStaleFolders(): Promise<void> {
+  const dir = tmpdir();
+  const names = (await readdir(dir)).filter((n) => n.startsWith(UPLOAD_FOLDER) || n.startsWith(WARM_UP_FOLDER));
+  for (const name of names) {
+    const path = join(dir, name);
+    const info = await stat(path).catch(() => null);
+    if (info?.isDirectory() && Date.now() - info.mtimeMs > STALE_FOLDER_MS)
+      await rm(path, { recursive: true, force: true }).catch(() => undefined);
+  }
+}
+
 /** Gives a spare its warm-up, in a temporary folder of its own that is removed when the warm-up ends or the worker stops. */
 function warmUpWorker(started: StartedWorker): void {
-  void mkdtemp(join(tmpdir(), 'airtally-warm-up-'))
+  void sweepStaleFolders()
+    .catch(() => undefined)
+    .then(() => mkdtemp(join(tmpdir(), WARM_UP_FOLDER)))
     .then((dir) => {
       let removed = false;
       const remove = () => {
@@ -180,7 +204,7 @@ export async function analyseUploadIsolated(
   const url = findBuiltWorker(WORKER_FILE);
   if (!url) return analyseUpload(bytes, kind, saved, options, snapshot);
   return FILE_READ_SLOTS.run(async () => {
-    const tmp = await mkdtemp(join(tmpdir(), 'airtally-import-'));
+    const tmp = await mkdtemp(join(tmpdir(), UPLOAD_FOLDER));
     try {
       const copy = new Uint8Array(bytes.length);
       copy.set(bytes);
