@@ -6,22 +6,11 @@
 import { describe, expect, it } from 'vitest';
 import { analyseUpload } from '~/lib/server/register/analyse';
 import { REGISTER_COLUMNS } from '~/lib/server/register/columns';
-import { WARM_UP_ROWS, warmUpWorkbook } from '~/lib/server/register/warm-up';
+import { WARM_UP_ESTATE, WARM_UP_ROWS, warmUpWorkbook } from '~/lib/server/register/warm-up';
 
 describe('the preview worker warm-up register', () => {
   it('is read as a clean register: every template column mapped, every row planned as a new room', async () => {
-    const analysis = await analyseUpload(
-      await warmUpWorkbook(),
-      'xlsx',
-      new Map(),
-      {},
-      {
-        schools: [],
-        blocks: [],
-        rooms: [],
-        defaultClimateRegion: 'midlands',
-      },
-    );
+    const analysis = await analyseUpload(await warmUpWorkbook(), 'xlsx', new Map(), {}, WARM_UP_ESTATE);
     expect(analysis.header.columns.map((c) => c.field)).toEqual(REGISTER_COLUMNS.map((c) => c.field));
     expect(analysis.summary).toMatchObject({
       rowsRead: WARM_UP_ROWS,

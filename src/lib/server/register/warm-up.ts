@@ -7,6 +7,7 @@ import ExcelJS from 'exceljs';
 import { label } from '../../engine/vocabulary';
 import { REGISTER_COLUMNS, type RegisterColumn } from './columns';
 import { analyseUpload } from './analyse';
+import type { EstateSnapshot } from './plan';
 
 /** Rows of the warm-up register: enough for the reader's code to be compiled with what a register holds. */
 export const WARM_UP_ROWS = 2000;
@@ -69,18 +70,10 @@ export async function warmUpWorkbook(rows = WARM_UP_ROWS): Promise<Buffer> {
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
 
+/** The estate the warm-up register is planned against: none yet, so every row is a new room. */
+export const WARM_UP_ESTATE: EstateSnapshot = { schools: [], blocks: [], rooms: [], defaultClimateRegion: 'midlands' };
+
 /** Reads, checks and plans the warm-up register against an empty estate, as a preview would; the result is dropped. */
 export async function warmUpReader(): Promise<void> {
-  await analyseUpload(
-    await warmUpWorkbook(),
-    'xlsx',
-    new Map(),
-    {},
-    {
-      schools: [],
-      blocks: [],
-      rooms: [],
-      defaultClimateRegion: 'midlands',
-    },
-  );
+  await analyseUpload(await warmUpWorkbook(), 'xlsx', new Map(), {}, WARM_UP_ESTATE);
 }
