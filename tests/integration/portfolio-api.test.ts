@@ -256,7 +256,7 @@ describe('portfolio API', () => {
     const roomId = expected[tiedRanks[3]! - 1]!;
     const page = await api(`/app/rooms/${roomId}`, { cookie: admin.cookie });
     expect(page.status).toBe(200);
-    expect(await page.text()).toContain(`rank ${tiedRanks[3]} of 3,000`);
+    expect(await page.text()).toContain(`rank ${tiedRanks[3]!.toLocaleString('en-GB')} of 3,000`);
     // priorities.xlsx of the whole trust: rank column in the same order.
     const pri = await api('/api/exports/priorities.xlsx?sort=rank', { cookie: admin.cookie });
     const priBook = new ExcelJS.Workbook();
@@ -409,5 +409,29 @@ describe('portfolio API', () => {
     const last = d.cumulative.points[d.cumulative.points.length - 1]!;
     expect(last.cumulativeCapitalGbp).toBeCloseTo(capital, 2);
     expect(d.cumulative.points.length).toBeLessThanOrEqual(201);
+  });
+
+  // Runs last: it removes a room from the 3,000 the tests above count.
+  it('counts the ranked rooms on the room page after a room is deleted, the last room ranked last of them', async () => {
+    const saved = await api('/api/priorities/weights', {
+      method: 'PUT',
+      cookie: admin.cookie,
+      body: JSON.stringify({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 }),
+    });
+    expect(saved.status).toBe(200);
+    const weights = { risk: 0.1, cost: 0.1, payback: 0.8 };
+    const gone = expectedOrder(raw, weights)[0]!;
+    const removed = await api(`/api/rooms/${gone}`, { method: 'DELETE', cookie: admin.cookie });
+    expect(removed.status, await removed.clone().text()).toBe(204);
+    const left = expectedOrder(
+      raw.filter((r) => r.room_id !== gone),
+      weights,
+    );
+    expect(left).toHaveLength(2999);
+    for (const place of [1, 1500, 2999]) {
+      const page = await api(`/app/rooms/${left[place - 1]}`, { cookie: admin.cookie });
+      expect(page.status).toBe(200);
+      expect(await page.text()).toContain(`rank ${place.toLocaleString('en-GB')} of 2,999`);
+    }
   });
 });

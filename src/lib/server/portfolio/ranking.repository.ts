@@ -522,9 +522,12 @@ export async function getRoomRank(
   roomId: string,
 ): Promise<{ rank: number; rankedRooms: number } | null> {
   const { generation } = await ensureRanks(db, trustId);
+  // A generation's ranks run 1…n, so its last rank is its count: one step down the (trust, generation, rank) index
+  // rather than counting every rank (about 0.1 s at 100,000 rooms, on every room page).
   const { rows } = await sql<{ rank: number; n: number }>`
     SELECT pr.rank,
-      (SELECT count(*)::int FROM portfolio_ranks x WHERE x.trust_id = ${trustId} AND x.generation = ${generation}) AS n
+      (SELECT x.rank FROM portfolio_ranks x WHERE x.trust_id = ${trustId} AND x.generation = ${generation}
+       ORDER BY x.rank DESC LIMIT 1) AS n
     FROM rooms r JOIN portfolio_ranks pr
       ON pr.trust_id = ${trustId} AND pr.school_id = r.school_id AND pr.generation = ${generation} AND pr.room_id = r.id
     WHERE r.id = ${roomId}::uuid`.execute(db);
