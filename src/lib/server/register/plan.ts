@@ -248,6 +248,21 @@ const newRoomDraft = (): Record<string, unknown> =>
     notes: null,
   }) satisfies Record<(typeof ROOM_FIELDS)[number], unknown>;
 
+/** A room of the estate as the plan compares it. */
+type EstateRoom = EstateSnapshot['rooms'][number];
+
+/** The value of `key` in `map`, made by `make` and kept there the first time it is asked for. */
+function getOrMake<K, V>(map: Map<K, V>, key: K, make: () => V): V {
+  let value = map.get(key);
+  if (value === undefined) {
+    value = make();
+    map.set(key, value);
+  }
+  return value;
+}
+const newMap = <K, V>() => new Map<K, V>();
+const newSet = <T>() => new Set<T>();
+
 const sameValue = (a: unknown, b: unknown) =>
   typeof a === 'number' && typeof b === 'number' ? Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a)) : a === b;
 
@@ -306,11 +321,7 @@ export function planImport(
   // afresh on every lookup.
   const pairKeys = new Map<string, Map<string, string>>();
   const pairKey = (a: string, b: string) => {
-    let inner = pairKeys.get(a);
-    if (!inner) {
-      inner = new Map();
-      pairKeys.set(a, inner);
-    }
+    const inner = getOrMake(pairKeys, a, newMap<string, string>);
     let key = inner.get(b);
     if (key === undefined) {
       key = `${a}|${b}`;
@@ -321,15 +332,8 @@ export function planImport(
   const schoolsByKey = new Map(estate.schools.map((s) => [nameKey(s.name), s]));
   const blocksByKey = new Map(estate.blocks.map((b) => [`${b.schoolId}|${nameKey(b.name)}`, b]));
   // The estate's rooms by school, then by code.
-  const roomsBySchool = new Map<string, Map<string, EstateSnapshot['rooms'][number]>>();
-  for (const r of estate.rooms) {
-    let ofSchool = roomsBySchool.get(r.schoolId);
-    if (!ofSchool) {
-      ofSchool = new Map();
-      roomsBySchool.set(r.schoolId, ofSchool);
-    }
-    ofSchool.set(r.fields.code, r);
-  }
+  const roomsBySchool = new Map<string, Map<string, EstateRoom>>();
+  for (const r of estate.rooms) getOrMake(roomsBySchool, r.schoolId, newMap<string, EstateRoom>).set(r.fields.code, r);
 
   // School and block values the estate's editors would refuse are refused here too: the value is not applied and its
   // row is rejected. A register repeats the same few values on every row, so each is checked once.
@@ -571,11 +575,7 @@ export function planImport(
           `"${schoolName}" is a new school and the file does not say its ${newSchool.phaseSource === 'default' ? 'phase' : 'region'}${newSchool.phaseSource === 'default' && newSchool.regionSource === 'default' ? ' or region' : ''}: ${guessed.join(' and ')} (the trust's usual). Choose in the new schools list before importing, or change it later on the school's page.`,
         );
     }
-    let codesOfSchool = firstRowOfCode.get(sk);
-    if (!codesOfSchool) {
-      codesOfSchool = new Map();
-      firstRowOfCode.set(sk, codesOfSchool);
-    }
+    const codesOfSchool = getOrMake(firstRowOfCode, sk, newMap<string, number>);
     const first = codesOfSchool.get(code);
     if (first !== undefined)
       error(
@@ -583,11 +583,7 @@ export function planImport(
         `Room code "${code}" appears again for ${schoolName} (first on row ${first}); room codes must be unique within a school.`,
       );
     else codesOfSchool.set(code, row.rowNumber);
-    if (existingSchool) {
-      const codes = codesInFile.get(existingSchool.id);
-      if (codes) codes.add(code);
-      else codesInFile.set(existingSchool.id, new Set([code]));
-    }
+    if (existingSchool) getOrMake(codesInFile, existingSchool.id, newSet<string>).add(code);
 
     const existingRoom = existingSchool ? (roomsBySchool.get(existingSchool.id)?.get(code) ?? null) : null;
     const blockName = typeof row.values.block === 'string' ? row.values.block : null;
