@@ -35,10 +35,12 @@ export interface AssessmentRunsTable {
 export interface AssessmentRunChunksTable {
   run_id: string;
   chunk_no: number;
-  /** The chunk is the snapshot rooms with after_room_id < id <= last_room_id (null: from the first). */
+  /** The chunk's rooms lie in after_room_id < id <= last_room_id (null: from the first). */
   after_room_id: string | null;
   last_room_id: string;
   rooms: number;
+  /** The ids of the rooms the chunk covers, fixed when the run started, in id order (the run's snapshot). */
+  room_ids: string[];
   status: Generated<'pending' | 'running' | 'done'>;
   /** The worker working it: host/process id/boot nonce (see run-executor.ts). */
   worker_id: string | null;
@@ -87,12 +89,6 @@ export interface RunSchoolSummariesTable {
   baseline_today: number;
   baseline_same_air: number;
   baseline_simpler: number;
-}
-
-/** The rooms a run assesses, fixed when it starts. */
-export interface AssessmentRunRoomsTable {
-  run_id: string;
-  room_id: string;
 }
 
 /** A room a run skipped, with the engine's reason. */
@@ -183,7 +179,6 @@ export interface CurrentRoomResultsView extends RoomResultsTable {
 /** Tables of the assessments feature: runs and their chunks, per-room results and versioned assumption sets. */
 export interface AssessmentsTables {
   assessment_runs: AssessmentRunsTable;
-  assessment_run_rooms: AssessmentRunRoomsTable;
   assessment_run_chunks: AssessmentRunChunksTable;
   assessment_current: AssessmentCurrentTable;
   assessment_settings: AssessmentSettingsTable;

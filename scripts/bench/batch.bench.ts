@@ -5,7 +5,7 @@
 //  - end to end through the queue with 1, 2 and 4 `npm run worker` processes (the app's own workers are off in the
 //    bench stack): run and jobs inserted, chunks read, assessed and committed, the run switched current and ranked.
 //    batch_rooms_per_s is the 2-process figure (the CI machine has 2 cores; 4 processes share them);
-//  - bytes stored per room: growth of the results, chunks (with input snapshots), snapshot rooms and summaries;
+//  - bytes stored per room: growth of the results, chunks (with their rooms' ids and input snapshots) and summaries;
 //  - the national batch: 550,000 rooms in 22,000 schools with 2 worker processes (BENCH_NATIONAL_ROOMS=0 skips it,
 //    BENCH_BATCH_ROOMS=0 skips the 100,000-room figures).
 // Prints one JSON object as the last line (scripts/bench.mjs merges it).
@@ -279,13 +279,11 @@ async function waitForRun(runId: string, timeoutS: number): Promise<void> {
   }
 }
 
-/** On-disk size of everything a run writes: results and their indexes, chunks with their inputs, snapshot rooms. */
+/** On-disk size of everything a run writes: results and their indexes, chunks with their rooms and inputs, summaries. */
 async function storedBytes(): Promise<number> {
   const { rows } = await sql<{ bytes: string }>`
     SELECT (pg_total_relation_size('room_results') + pg_total_relation_size('assessment_run_chunks')
-      + pg_total_relation_size('assessment_run_rooms') + pg_total_relation_size('run_school_summaries'))::text AS bytes`.execute(
-    getDb(),
-  );
+      + pg_total_relation_size('run_school_summaries'))::text AS bytes`.execute(getDb());
   return Number(rows[0]!.bytes);
 }
 

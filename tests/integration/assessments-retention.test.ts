@@ -33,13 +33,13 @@ async function run(schoolId: string | null = null, work = true): Promise<string>
   return id;
 }
 
-/** What a run still holds: result rows, chunks with input snapshots, snapshot rooms, dashboard figures. */
+/** What a run still holds: result rows, chunks with input snapshots, the chunks' room ids, dashboard figures. */
 async function holdings(runId: string) {
   const { rows } = await sql<{ results: number; chunks: number; inputs: number; rooms: number; summaries: number }>`
     SELECT (SELECT count(*)::int FROM room_results WHERE run_id = ${runId}::uuid) AS results,
       (SELECT count(*)::int FROM assessment_run_chunks WHERE run_id = ${runId}::uuid) AS chunks,
       (SELECT count(*)::int FROM assessment_run_chunks WHERE run_id = ${runId}::uuid AND inputs IS NOT NULL) AS inputs,
-      (SELECT count(*)::int FROM assessment_run_rooms WHERE run_id = ${runId}::uuid) AS rooms,
+      (SELECT coalesce(sum(cardinality(room_ids)), 0)::int FROM assessment_run_chunks WHERE run_id = ${runId}::uuid) AS rooms,
       (SELECT count(*)::int FROM run_school_summaries WHERE run_id = ${runId}::uuid) AS summaries`.execute(db);
   return rows[0]!;
 }

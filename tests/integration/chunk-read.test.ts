@@ -97,22 +97,21 @@ describe('reading a run chunk by chunk', () => {
 
     const chunks = await db
       .selectFrom('assessment_run_chunks')
-      .select(['chunk_no', 'after_room_id', 'last_room_id'])
+      .select(['chunk_no', 'room_ids'])
       .where('run_id', '=', run.id)
       .orderBy('chunk_no')
       .execute();
     const read = [];
     for (const chunk of chunks) {
-      const inChunk = await readChunkRooms(db, {
-        runId: run.id,
-        afterRoomId: chunk.after_room_id,
-        lastRoomId: chunk.last_room_id,
-      });
+      const inChunk = await readChunkRooms(db, { runId: run.id, chunkNo: chunk.chunk_no });
       expect(inChunk.map((r) => r.roomId)).toEqual(inChunk.map((r) => r.roomId).sort());
       read.push(...inChunk);
     }
 
     expect(read.map((r) => r.roomId)).toEqual(rooms.filter((r) => r.id !== deleted.id).map((r) => r.id));
+    // The chunks keep the rooms of the start (5, 5 and 2 in id order), the deleted one included.
+    expect(chunks.map((c) => c.room_ids.length)).toEqual([5, 5, 2]);
+    expect(chunks.flatMap((c) => c.room_ids)).toEqual(rooms.map((r) => r.id));
     const otherRooms = await db.selectFrom('rooms').select('id').where('school_id', 'in', other.schoolIds).execute();
     expect(read.some((r) => otherRooms.some((o) => o.id === r.roomId))).toBe(false);
     for (const room of read) {

@@ -111,9 +111,10 @@ describe('ranks as generations', () => {
 
   it('takes a deleted run’s room snapshot with it', async () => {
     const rooms = await db.selectFrom('rooms').select('id').where('school_id', '=', schoolIds[0]!).execute();
+    const ids = rooms.map((r) => r.id).sort();
     await db
-      .insertInto('assessment_run_rooms')
-      .values(rooms.map((r) => ({ run_id: runId, room_id: r.id })))
+      .insertInto('assessment_run_chunks')
+      .values({ run_id: runId, chunk_no: 0, last_room_id: ids[ids.length - 1]!, rooms: ids.length, room_ids: ids })
       .execute();
     expect(await snapshotRows(runId)).toBe(rooms.length);
     await db.deleteFrom('assessment_runs').where('id', '=', runId).execute();
@@ -129,8 +130,8 @@ describe('ranks as generations', () => {
 
 async function snapshotRows(runId: string): Promise<number> {
   const row = await db
-    .selectFrom('assessment_run_rooms')
-    .select(sql<number>`count(*)::int`.as('n'))
+    .selectFrom('assessment_run_chunks')
+    .select(sql<number>`coalesce(sum(cardinality(room_ids)), 0)::int`.as('n'))
     .where('run_id', '=', runId)
     .executeTakeFirstOrThrow();
   return row.n;

@@ -1,6 +1,6 @@
 /**
- * A run's chunks: ranges of its snapshot rooms that workers on any machine claim one at a time. A claim counts an
- * attempt and starts the chunk's heartbeat; a commit writes the chunk's results, its input snapshot and the run's
+ * A run's chunks: its rooms (fixed at the start, in id order) in pieces that workers on any machine claim one at a
+ * time. A claim counts an attempt and starts the chunk's heartbeat; a commit writes the chunk's results, its input snapshot and the run's
  * progress in one transaction, and only while the same worker still holds the chunk, so a room is never counted twice.
  */
 import { sql, type Kysely } from 'kysely';
@@ -22,25 +22,37 @@ export interface Chunk {
 }
 
 /**
- * Splits a run's snapshot into chunks of `chunkSize` rooms in id order; returns how many. Runs inside the
- * transaction that inserts the run.
+ * Splits the rooms in a run's scope now (the trust's, or one school's) into chunks of `chunkSize` in id order, each
+ * keeping its rooms' ids (room_ids): the run's snapshot, so rooms added later wait for the next run and a chunk worked
+ * again covers the same rooms. Returns how many chunks and rooms. Runs inside the transaction that inserts the run.
  */
-export async function createChunks(trx: Kysely<Database>, runId: string, chunkSize: number): Promise<number> {
-  const result = await sql`
+export async function createChunks(
+  trx: Kysely<Database>,
+  runId: string,
+  scope: { trustId: string; schoolId: string | null },
+  chunkSize: number,
+): Promise<{ chunksTotal: number; roomsTotal: number }> {
+  const inScope = scope.schoolId === null ? sql`TRUE` : sql`schools.id = ${scope.schoolId}::uuid`;
+  const { rows } = await sql<{ rooms: number }>`
     WITH numbered AS (
-      SELECT room_id, (row_number() OVER (ORDER BY room_id) - 1) / ${chunkSize} AS chunk_no
-      FROM assessment_run_rooms WHERE run_id = ${runId}::uuid
-    ), bounds AS (
-      SELECT chunk_no, (array_agg(room_id ORDER BY room_id DESC))[1] AS last_room_id, count(*)::int AS rooms
-      FROM numbered GROUP BY chunk_no
+      SELECT rooms.id, (row_number() OVER (ORDER BY rooms.id) - 1) / ${chunkSize} AS chunk_no
+      FROM rooms JOIN schools ON schools.id = rooms.school_id
+      WHERE schools.trust_id = ${scope.trustId} AND ${inScope}
+    ), chunks AS (
+      SELECT chunk_no, array_agg(id ORDER BY id) AS ids FROM numbered GROUP BY chunk_no
     )
-    INSERT INTO assessment_run_chunks (run_id, chunk_no, after_room_id, last_room_id, rooms)
-    SELECT ${runId}::uuid, chunk_no, lag(last_room_id) OVER (ORDER BY chunk_no), last_room_id, rooms FROM bounds`.execute(
-    trx,
-  );
-  const chunks = Number(result.numAffectedRows ?? 0);
-  await trx.updateTable('assessment_runs').set({ chunks_total: chunks }).where('id', '=', runId).execute();
-  return chunks;
+    INSERT INTO assessment_run_chunks (run_id, chunk_no, after_room_id, last_room_id, rooms, room_ids)
+    SELECT ${runId}::uuid, chunk_no, lag(ids[cardinality(ids)]) OVER (ORDER BY chunk_no), ids[cardinality(ids)],
+      cardinality(ids), ids
+    FROM chunks
+    RETURNING rooms`.execute(trx);
+  const roomsTotal = rows.reduce((sum, r) => sum + r.rooms, 0);
+  await trx
+    .updateTable('assessment_runs')
+    .set({ chunks_total: rows.length, rooms_total: roomsTotal })
+    .where('id', '=', runId)
+    .execute();
+  return { chunksTotal: rows.length, roomsTotal };
 }
 
 /**
@@ -242,4 +254,19 @@ export async function chunkInputsOf(db: Kysely<Database>, runId: string, roomId:
     .where((eb) => eb.or([eb('after_room_id', 'is', null), eb('after_room_id', '<', roomId)]))
     .executeTakeFirst();
   return row?.inputs ?? null;
+}
+
+/** How many of each run's snapshot rooms (its chunks' rooms) are in `schoolIds` and still in the register. */
+export async function snapshotRoomsInSchools(
+  db: Kysely<Database>,
+  runIds: readonly string[],
+  schoolIds: readonly string[],
+): Promise<{ run_id: string; n: number }[]> {
+  const { rows } = await sql<{ run_id: string; n: number }>`
+    SELECT c.run_id, count(*)::int AS n
+    FROM assessment_run_chunks c CROSS JOIN LATERAL unnest(c.room_ids) AS ids(room_id)
+      JOIN rooms ON rooms.id = ids.room_id
+    WHERE c.run_id = ANY(${[...runIds]}::uuid[]) AND rooms.school_id = ANY(${[...schoolIds]}::uuid[])
+    GROUP BY c.run_id`.execute(db);
+  return rows;
 }

@@ -126,24 +126,23 @@ export async function readRoomChunk(
 }
 
 /**
- * The rooms of a chunk of a run (its snapshot rooms after `afterRoomId` up to `lastRoomId`, in id order) that are
- * still in the register; a room deleted since the run started is skipped.
+ * The rooms of a chunk of a run (the ids it kept when the run started, in id order) that are still in the register; a
+ * room deleted since is skipped.
  */
 export async function readChunkRooms(
   db: Kysely<Database>,
-  chunk: { runId: string; afterRoomId: string | null; lastRoomId: string },
+  chunk: { runId: string; chunkNo: number },
 ): Promise<EngineRoom[]> {
-  // Each snapshot room is looked up by its key (OFFSET 0 keeps the lookup per room): left to choose, PostgreSQL read
-  // every room of every trust for each chunk, or, with the snapshot's fresh rows not yet in its statistics, scanned the
-  // chunk's range of rooms once per room (1.8 s a chunk at 550,000 rooms). The chunk's rooms are gathered first
-  // (MATERIALIZED), then joined to their schools and blocks once: joined inside the lookup, PostgreSQL scanned the
-  // schools and blocks again for every room (110 ms a chunk at 100,000 rooms, against 35 ms).
-  const after = chunk.afterRoomId === null ? sql`TRUE` : sql`ids.room_id > ${chunk.afterRoomId}::uuid`;
+  // Each of the chunk's rooms is looked up by its key (OFFSET 0 keeps the lookup per room: left to choose, PostgreSQL
+  // may read every room of every trust for each chunk). The chunk's rooms are gathered first (MATERIALIZED), then
+  // joined to their schools and blocks once: joined inside the lookup, PostgreSQL scanned the schools and blocks again
+  // for every room (110 ms a chunk at 100,000 rooms, against 35 ms).
   const { rows } = await sql<JoinedRow>`
     WITH chunk_rooms AS MATERIALIZED (
-      SELECT room.* FROM assessment_run_rooms ids
+      SELECT room.* FROM assessment_run_chunks c
+        CROSS JOIN LATERAL unnest(c.room_ids) AS ids(room_id)
         CROSS JOIN LATERAL (SELECT * FROM rooms WHERE rooms.id = ids.room_id OFFSET 0) room
-      WHERE ids.run_id = ${chunk.runId}::uuid AND ${after} AND ids.room_id <= ${chunk.lastRoomId}::uuid)
+      WHERE c.run_id = ${chunk.runId}::uuid AND c.chunk_no = ${chunk.chunkNo})
     SELECT ${COLUMNS} FROM chunk_rooms rooms ${ROOM_JOINS}
     ORDER BY rooms.id`.execute(db);
   const timetables: TimetableCache = new Map();

@@ -91,7 +91,6 @@ export async function pruneRuns(db: Kysely<Database>, trustId: string): Promise<
     const ofRuns = sql<boolean>`run_id = ANY(${ids}::uuid[])`;
     await trx.deleteFrom('room_results').where(ofRuns).execute();
     await trx.deleteFrom('run_school_summaries').where(ofRuns).execute();
-    await trx.deleteFrom('assessment_run_rooms').where(ofRuns).execute();
     await trx.deleteFrom('assessment_run_chunks').where(ofRuns).execute();
     await trx
       .updateTable('assessment_runs')

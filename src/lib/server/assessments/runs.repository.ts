@@ -116,9 +116,21 @@ export interface NewRun {
 /** Rooms per chunk: small runs still show progress, big runs write in large batches. */
 export const defaultChunkSize = (roomsTotal: number) => Math.min(2000, Math.max(100, Math.ceil(roomsTotal / 20)));
 
+/** The rooms in a run's scope now (to size its chunks). */
+async function countRoomsInScope(
+  db: Kysely<Database>,
+  scope: { trustId: string; schoolId: string | null },
+): Promise<number> {
+  const inScope = scope.schoolId === null ? sql`TRUE` : sql`schools.id = ${scope.schoolId}::uuid`;
+  const { rows } = await sql<{ n: number }>`
+    SELECT count(*)::int AS n FROM rooms JOIN schools ON schools.id = rooms.school_id
+    WHERE schools.trust_id = ${scope.trustId} AND ${inScope}`.execute(db);
+  return rows[0]?.n ?? 0;
+}
+
 /**
- * Inserts a queued run with the rooms it will assess, split into chunks: every room in its scope now, kept in
- * assessment_run_rooms, so rooms added later wait for the next run and a chunk worked again covers the same set.
+ * Inserts a queued run with the rooms it will assess, split into chunks: every room in its scope now, kept in its
+ * chunks (createChunks), so rooms added later wait for the next run and a chunk worked again covers the same set.
  */
 export async function insertRun(
   db: Kysely<Database>,
@@ -139,14 +151,9 @@ export async function insertRun(
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    const inScope = run.schoolId === null ? sql`TRUE` : sql`schools.id = ${run.schoolId}::uuid`;
-    const snapshot = await sql`
-      INSERT INTO assessment_run_rooms (run_id, room_id)
-      SELECT ${id}::uuid, rooms.id FROM rooms JOIN schools ON schools.id = rooms.school_id
-      WHERE schools.trust_id = ${run.trustId} AND ${inScope}`.execute(trx);
-    const roomsTotal = Number(snapshot.numAffectedRows ?? 0);
-    await trx.updateTable('assessment_runs').set({ rooms_total: roomsTotal }).where('id', '=', id).execute();
-    const chunksTotal = await createChunks(trx, id, chunkSize ?? defaultChunkSize(roomsTotal));
+    const scope = { trustId: run.trustId, schoolId: run.schoolId };
+    const size = chunkSize ?? defaultChunkSize(await countRoomsInScope(trx, scope));
+    const { chunksTotal, roomsTotal } = await createChunks(trx, id, scope, size);
     return { id, roomsTotal, chunksTotal };
   };
   return db.isTransaction ? insert(db) : db.transaction().execute(insert);

@@ -6,7 +6,7 @@ import { findSchool } from '../estate/schools.repository';
 import { forbidden, notFound } from '../http/errors';
 import { getCurrentAssumptionSet } from './assumptions.repository';
 import type { StartRunBody } from './assessments.schemas';
-import { chunkCounts } from './chunks.repository';
+import { chunkCounts, snapshotRoomsInSchools } from './chunks.repository';
 import { sendChunkJobs } from './queue';
 import { findActiveRun, getRun, insertRun, listRuns, type Run } from './runs.repository';
 
@@ -156,14 +156,7 @@ async function withOwnRoomCounts(db: Kysely<Database>, schoolIds: string[], runs
     schoolIds.length === 0
       ? [[], []]
       : await Promise.all([
-          db
-            .selectFrom('assessment_run_rooms')
-            .innerJoin('rooms', 'rooms.id', 'assessment_run_rooms.room_id')
-            .select(['assessment_run_rooms.run_id', (e) => e.fn.countAll<string>().as('n')])
-            .where('assessment_run_rooms.run_id', 'in', wide)
-            .where('rooms.school_id', 'in', schoolIds)
-            .groupBy('assessment_run_rooms.run_id')
-            .execute(),
+          snapshotRoomsInSchools(db, wide, schoolIds),
           db
             .selectFrom('room_results')
             .select(['run_id', (e) => e.fn.countAll<string>().as('n')])
