@@ -1,9 +1,9 @@
 // Account takeover and sign-in guard probes (issue 17, items 1 and 2), against the running app.
-import { spawn } from 'node:child_process';
 import { readFileSync, statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { createEmailVerificationToken } from 'better-auth/api';
 import { afterAll, describe, expect, it } from 'vitest';
+import { serverEnv, spawnBuiltServer } from '../helpers/built-server';
 import { testDb } from '../helpers/db';
 import { linkIn, waitForMail } from '../helpers/mail';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, api, createOtherTrust, signIn, uniqueEmail } from '../helpers/session';
@@ -20,34 +20,21 @@ const userRow = (email: string) =>
 
 /** Starts the built server with `env` and resolves with its exit code and output; throws if it keeps running. */
 function startBuiltServer(env: Record<string, string>): Promise<{ code: number | null; output: string }> {
-  const entry = join(process.env.APP_DIST_DIR ?? '', 'server', 'entry.mjs');
-  const child = spawn(process.execPath, [entry], { env, stdio: ['ignore', 'pipe', 'pipe'] });
-  let output = '';
-  child.stdout.on('data', (d: Buffer) => {
-    output += d.toString();
-  });
-  child.stderr.on('data', (d: Buffer) => {
-    output += d.toString();
-  });
+  const server = spawnBuiltServer(env);
   return new Promise((resolve, reject) => {
     const timer = setTimeout(() => {
-      child.kill('SIGKILL');
-      reject(new Error(`The server started and kept running:\n${output}`));
+      server.child.kill('SIGKILL');
+      reject(new Error(`The server started and kept running:\n${server.output()}`));
     }, 20_000);
-    child.on('exit', (code) => {
+    server.child.on('exit', (code) => {
       clearTimeout(timer);
-      resolve({ code, output });
+      resolve({ code, output: server.output() });
     });
   });
 }
 
 /** The test environment without the auth secret, on a port of its own. */
-function bareEnv(extra: Record<string, string>): Record<string, string> {
-  const env: Record<string, string> = {};
-  for (const [k, v] of Object.entries(process.env)) if (v !== undefined && k !== 'BETTER_AUTH_SECRET') env[k] = v;
-  const port = String(Number(process.env.AIRTALLY_TEST_PORT ?? 4399) + 90);
-  return { ...env, HOST: '127.0.0.1', PORT: port, PUBLIC_ORIGIN: `http://127.0.0.1:${port}`, ...extra };
-}
+const bareEnv = (extra: Record<string, string>) => serverEnv(90, extra, ['BETTER_AUTH_SECRET']);
 
 describe('secrets', () => {
   it('keeps the generated secrets in the data folder, readable by its owner only, none of them published', () => {

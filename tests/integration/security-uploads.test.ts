@@ -8,7 +8,9 @@ import { join } from 'node:path';
 import { deflateRawSync } from 'node:zlib';
 import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { serverEnv, spawnBuiltServer } from '../helpers/built-server';
 import { testDb } from '../helpers/db';
+import { waitFor } from '../helpers/wait';
 import { APP_URL, api, createOtherTrust } from '../helpers/session';
 import { readZip, withLocalSizeMismatch, writeZip, type ZipPart } from '../helpers/zip';
 import { roomRow, tidyRegister, toBuffer } from '../unit/register/fixtures';
@@ -231,7 +233,8 @@ describe('temporary files', () => {
     }
   }, 90_000);
 
-  it('sweeps the folders a stopped server left more than an hour ago, and only those', async () => {
+  /** Folders as a stopped server leaves them: two stale (hours old), one recent and one of another program. */
+  const leftFolders = (tag: string) => {
     const made = (name: string, ageMs: number) => {
       const path = join(tmpdir(), name);
       mkdirSync(join(path, 'inside'), { recursive: true });
@@ -240,10 +243,17 @@ describe('temporary files', () => {
       return path;
     };
     const hour = 3600 * 1000;
-    const staleUpload = made(`airtally-import-test-stale-${process.pid}`, 2 * hour);
-    const staleWarmUp = made(`airtally-warm-up-test-stale-${process.pid}`, 3 * hour);
-    const recent = made(`airtally-import-test-recent-${process.pid}`, hour / 2);
-    const unrelated = made(`someone-else-test-${process.pid}`, 5 * hour);
+    const id = `${tag}-${process.pid}`;
+    return {
+      staleUpload: made(`airtally-import-test-stale-${id}`, 2 * hour),
+      staleWarmUp: made(`airtally-warm-up-test-stale-${id}`, 3 * hour),
+      recent: made(`airtally-import-test-recent-${id}`, hour / 2),
+      unrelated: made(`someone-else-test-${id}`, 5 * hour),
+    };
+  };
+
+  it('sweeps the folders a stopped server left more than an hour ago, and only those', async () => {
+    const { staleUpload, staleWarmUp, recent, unrelated } = leftFolders('preview');
     try {
       const { status } = await upload('one room.xlsx', await tidyRegister([roomRow('Oak Primary', 'S1')]));
       expect(status).toBe(201);
@@ -255,6 +265,26 @@ describe('temporary files', () => {
       expect(existsSync(recent)).toBe(true);
       expect(existsSync(unrelated)).toBe(true);
     } finally {
+      for (const path of [staleUpload, staleWarmUp, recent, unrelated]) rmSync(path, { recursive: true, force: true });
+    }
+  }, 60_000);
+
+  it('sweeps them when a server starts, before any upload', async () => {
+    const { staleUpload, staleWarmUp, recent, unrelated } = leftFolders('start');
+    // A second server on a port of its own, taking no assessment jobs from the test stack's app.
+    const server = spawnBuiltServer(serverEnv(91, { ASSESSMENT_APP_WORKERS: '0' }));
+    try {
+      await waitFor(
+        'the new server has removed the stale folders',
+        () => !existsSync(staleUpload) && !existsSync(staleWarmUp),
+        { timeoutMs: 30_000 },
+      ).catch((error: unknown) => {
+        throw new Error(`${(error as Error).message}; server output:\n${server.output()}`);
+      });
+      expect(existsSync(recent)).toBe(true);
+      expect(existsSync(unrelated)).toBe(true);
+    } finally {
+      await server.stop();
       for (const path of [staleUpload, staleWarmUp, recent, unrelated]) rmSync(path, { recursive: true, force: true });
     }
   }, 60_000);

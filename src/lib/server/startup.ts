@@ -1,12 +1,14 @@
 /**
  * Runs once when the built server starts, before it listens (astro.config.mjs imports this module at the
  * top of the Node adapter's server module): refuses to start with an unsafe configuration, guards every
- * request, and starts the assessment queue so runs left behind by a dead worker are resumed or failed.
+ * request, starts the assessment queue so runs left behind by a dead worker are resumed or failed, and removes the
+ * temporary folders of uploads a stopped server was reading.
  */
 import { ZodError } from 'zod';
 import { startQueueOnBoot } from './assessments/queue';
 import { config, configProblems } from './config';
 import { installRequestGuard } from './http/request-guard';
+import { sweepStaleFolders } from './register/temp-folders';
 
 function startupProblems(): string[] {
   try {
@@ -24,3 +26,4 @@ if (problems.length > 0) {
 }
 installRequestGuard(config().auth.trustProxy);
 startQueueOnBoot();
+sweepStaleFolders().catch((error: unknown) => console.error('Removing stale upload folders failed', error));

@@ -1,4 +1,4 @@
-import { mkdtemp, readdir, rm, stat } from 'node:fs/promises';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
@@ -8,6 +8,7 @@ import { analyseUpload, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
 import type { EstateSnapshot } from './plan';
+import { sweepStaleFolders, UPLOAD_FOLDER, WARM_UP_FOLDER } from './temp-folders';
 import type { ImportOptions } from './register.schemas';
 
 /** The file the build emits for parse-worker.ts (see astro.config.mjs). */
@@ -88,28 +89,6 @@ function startWorker(url: URL, warmUp: boolean): StartedWorker {
   });
   started.worker.unref();
   return started;
-}
-
-/** The prefixes of the temporary folders of an upload being read and of a spare's warm-up. */
-const UPLOAD_FOLDER = 'airtally-import-';
-const WARM_UP_FOLDER = 'airtally-warm-up-';
-/** Age past which such a folder belongs to no read in progress (a read is stopped after PARSE_TIME_LIMIT_MS). */
-export const STALE_FOLDER_MS = 60 * 60 * 1000;
-
-/**
- * Removes the temporary folders a server left when it was stopped while reading an upload or warming up a spare: theirs
- * is the only code that removes them. Only folders older than STALE_FOLDER_MS, so those of another server on this host
- * that is still reading are left alone.
- */
-async function sweepStaleFolders(): Promise<void> {
-  const dir = tmpdir();
-  const names = (await readdir(dir)).filter((n) => n.startsWith(UPLOAD_FOLDER) || n.startsWith(WARM_UP_FOLDER));
-  for (const name of names) {
-    const path = join(dir, name);
-    const info = await stat(path).catch(() => null);
-    if (info?.isDirectory() && Date.now() - info.mtimeMs > STALE_FOLDER_MS)
-      await rm(path, { recursive: true, force: true }).catch(() => undefined);
-  }
 }
 
 /** Gives a spare its warm-up, in a temporary folder of its own that is removed when the warm-up ends or the worker stops. */
