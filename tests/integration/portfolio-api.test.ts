@@ -91,6 +91,8 @@ describe('portfolio API', () => {
     ).toBe(200);
     return (await response.json()) as T;
   };
+  const putWeights = (weights: { risk: number; costEffectiveness: number; payback: number }) =>
+    api('/api/priorities/weights', { method: 'PUT', cookie: admin.cookie, body: JSON.stringify(weights) });
   const allPages = async (query: string, pageSize = 200) => {
     const rows: Row[] = [];
     for (let page = 1; ; page += 1) {
@@ -204,12 +206,7 @@ describe('portfolio API', () => {
   });
 
   it('saves weights for the trust, audits the change and re-ranks with them', async () => {
-    const put = await api('/api/priorities/weights', {
-      method: 'PUT',
-      cookie: admin.cookie,
-      body: JSON.stringify({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 }),
-    });
-    expect(put.status).toBe(200);
+    expect((await putWeights({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 })).status).toBe(200);
     const { rows } = await allPages('sort=rank');
     expect(rows.map((r) => r.roomId)).toEqual(expectedOrder(raw, { risk: 0.1, cost: 0.1, payback: 0.8 }));
     const audit = await db
@@ -413,12 +410,7 @@ describe('portfolio API', () => {
 
   // Runs last: it removes a room from the 3,000 the tests above count.
   it('counts the ranked rooms on the room page after a room is deleted, the last room ranked last of them', async () => {
-    const saved = await api('/api/priorities/weights', {
-      method: 'PUT',
-      cookie: admin.cookie,
-      body: JSON.stringify({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 }),
-    });
-    expect(saved.status).toBe(200);
+    expect((await putWeights({ risk: 0.1, costEffectiveness: 0.1, payback: 0.8 })).status).toBe(200);
     const weights = { risk: 0.1, cost: 0.1, payback: 0.8 };
     const gone = expectedOrder(raw, weights)[0]!;
     const removed = await api(`/api/rooms/${gone}`, { method: 'DELETE', cookie: admin.cookie });
