@@ -1,7 +1,8 @@
 /**
  * A run's chunks: its rooms (fixed at the start, in id order) in pieces that workers on any machine claim one at a
- * time. A claim counts an attempt and starts the chunk's heartbeat; a commit writes the chunk's results, its input snapshot and the run's
- * progress in one transaction, and only while the same worker still holds the chunk, so a room is never counted twice.
+ * time. A claim counts an attempt and starts the chunk's heartbeat; a commit writes the chunk's results, its input
+ * snapshot and the run's progress in one transaction, and only while the same worker still holds the chunk, so a room
+ * is never counted twice.
  */
 import { sql, type Kysely } from 'kysely';
 import type pg from 'pg';
