@@ -16,6 +16,7 @@ import { label } from '../../src/lib/engine/vocabulary';
 import { getDb, getPool } from '../../src/lib/server/db/client';
 import { REGISTER_COLUMNS } from '../../src/lib/server/register/columns';
 import { commitImport, previewImport } from '../../src/lib/server/register/import.service';
+import { WARM_UP_FOLDER } from '../../src/lib/server/register/temp-folders';
 import { warmUpWorkbook } from '../../src/lib/server/register/warm-up';
 import { prng } from '../seed/prng';
 
@@ -132,7 +133,7 @@ class Rollback extends Error {}
  * that the next raw read does not share the cores with it.
  */
 async function spareWarmedUp(): Promise<void> {
-  const folders = () => readdirSync(tmpdir()).filter((f) => f.startsWith('airtally-warm-up-') && !staleWarmUps.has(f));
+  const folders = () => readdirSync(tmpdir()).filter((f) => f.startsWith(WARM_UP_FOLDER) && !staleWarmUps.has(f));
   await new Promise((resolve) => setTimeout(resolve, 200));
   const deadline = Date.now() + 60_000;
   while (folders().length > 0) {
@@ -141,7 +142,7 @@ async function spareWarmedUp(): Promise<void> {
   }
 }
 /** Warm-up folders left by servers stopped mid warm-up, before this run. */
-const staleWarmUps = new Set(readdirSync(tmpdir()).filter((f) => f.startsWith('airtally-warm-up-')));
+const staleWarmUps = new Set(readdirSync(tmpdir()).filter((f) => f.startsWith(WARM_UP_FOLDER)));
 
 process.env.AIRTALLY_IMPORT_TIMINGS ??= '1';
 // Uploads are read in the built worker, as the app reads them (`npm run bench` builds it).
