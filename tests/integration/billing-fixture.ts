@@ -118,6 +118,37 @@ export async function subscriptionIdOf(
 }
 
 /**
+ * Waits until the app has stored every event the provider has sent about the trust's customer since `sinceSeconds`
+ * (unix seconds). The app stores an event in the same transaction that applies it, so afterwards no late genuine
+ * webhook of this trust can still change its rows.
+ */
+export async function waitForTrustEvents(
+  db: import('kysely').Kysely<import('../../db/database').Database>,
+  trustId: string,
+  sinceSeconds: number,
+): Promise<void> {
+  const account = await db
+    .selectFrom('billing_accounts')
+    .select('provider_customer_id')
+    .where('trust_id', '=', trustId)
+    .executeTakeFirstOrThrow();
+  const customerId = account.provider_customer_id;
+  if (!customerId) throw new Error('no provider customer stored');
+  const ids: string[] = [];
+  // Newest first: stop at the first event older than the test.
+  for await (const event of provider().events.list({ limit: 100 })) {
+    if (event.created < sinceSeconds) break;
+    const object = event.data.object as { id?: string; customer?: unknown };
+    if (object.customer === customerId || object.id === customerId) ids.push(event.id);
+  }
+  if (ids.length === 0) throw new Error(`no provider events about ${customerId} since ${sinceSeconds}`);
+  await waitUntil(`the app stores the ${ids.length} provider events about the trust`, async () => {
+    const stored = await db.selectFrom('payment_events').select('id').where('id', 'in', ids).execute();
+    return stored.length === ids.length;
+  });
+}
+
+/**
  * Proration by the provider's documented rule (https://docs.stripe.com/billing/subscriptions/prorations): the price
  * times the time remaining in the period over the length of the period, in days, rounded to the penny. An
  * independent check of the figures the app shows, from the provider's own period and prices.

@@ -99,9 +99,12 @@ describe('importing a register through the API', () => {
       ['/api/exports/register.xlsx', 'export.xlsx'],
       ['/api/exports/register.csv', 'export.csv'],
     ] as const) {
-      const exported = Buffer.from(await (await api(path, { cookie: admin.cookie })).arrayBuffer());
+      const response = await api(path, { cookie: admin.cookie });
+      expect(response.status, `${path}: ${response.status === 200 ? '' : await response.text()}`).toBe(200);
+      const exported = Buffer.from(await response.arrayBuffer());
       const { status, body } = await upload(admin.cookie, name, exported);
-      expect(status, name).toBe(201);
+      // The message says why, if the upload is refused.
+      expect(status, `${name}: ${JSON.stringify(body.error ?? null)}`).toBe(201);
       expect(body.summary, name).toMatchObject({
         roomsToCreate: 0,
         roomsToChange: 0,
