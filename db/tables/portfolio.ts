@@ -51,10 +51,18 @@ export interface PortfolioRanksTable {
   pupil_hours_removed: number | null;
 }
 
+/** One rebuild of a trust's ranks: the generation of portfolio_ranks it writes, recorded before its rows. */
+export interface PortfolioRankBuildsTable {
+  generation: ColumnType<number, number | undefined, never>;
+  trust_id: string;
+  started_at: Timestamp;
+}
+
 /** Tables of the saved ranking weights and other portfolio settings feature. */
 export interface PortfolioTables {
   portfolio_settings: PortfolioSettingsTable;
   portfolio_ranks: PortfolioRanksTable;
+  portfolio_rank_builds: PortfolioRankBuildsTable;
   /** The ranks of each trust's current generation (reports and checks; the app's reads name the generation). */
   current_portfolio_ranks: PortfolioRanksTable;
 }

@@ -1,7 +1,7 @@
 /**
  * The trust's ranks as rows of generations (portfolio_ranks) and the run's room snapshot, without per-row foreign
- * keys: a rebuild writes a new generation and switches readers to it; deleting a room, a school, a run or a trust
- * takes its rows with it (statement-level triggers instead of the keys).
+ * keys: a rebuild records its build, writes a new generation and switches readers to it; deleting a room, a school, a
+ * run or a trust takes its rows with it (statement-level triggers instead of the keys).
  */
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -35,6 +35,16 @@ async function rowsByGeneration(trustId: string): Promise<Map<number, number>> {
     db,
   );
   return new Map(rows.map((r) => [Number(r.generation), r.n]));
+}
+
+/** The generation readers of the trust are on. */
+async function rankedGeneration(trustId: string): Promise<number> {
+  const row = await db
+    .selectFrom('portfolio_settings')
+    .select('ranked_generation')
+    .where('trust_id', '=', trustId)
+    .executeTakeFirstOrThrow();
+  return Number(row.ranked_generation);
 }
 
 async function saveWeights(cookie: string, weights: { risk: number; costEffectiveness: number; payback: number }) {
@@ -81,6 +91,34 @@ describe('ranks as generations', () => {
     expect(new Set(after.rows.map((r) => r.roomId)).size).toBe(SCHOOLS * ROOMS_PER_SCHOOL);
   });
 
+  it('removes the rows a failed rebuild left at the next rebuild, and keeps the generation readers were on', async () => {
+    // What a rebuild that failed after writing leaves: its build, committed first, and rows nobody reads.
+    const { generation: left } = await db
+      .insertInto('portfolio_rank_builds')
+      .values({ trust_id: trustId })
+      .returning('generation')
+      .executeTakeFirstOrThrow();
+    await sql`
+      INSERT INTO portfolio_ranks (trust_id, generation, room_id, school_id, run_id, rank, score)
+      SELECT trust_id, ${left}, room_id, school_id, run_id, rank, score FROM current_portfolio_ranks
+      WHERE trust_id = ${trustId}`.execute(db);
+    const readBefore = await rankedGeneration(trustId);
+    expect((await rowsByGeneration(trustId)).get(Number(left))).toBe(SCHOOLS * ROOMS_PER_SCHOOL);
+
+    await saveWeights(cookie, { risk: 0.5, costEffectiveness: 0.3, payback: 0.2 });
+    const now = await rankedGeneration(trustId);
+    expect(now).toBeGreaterThan(Number(left));
+    const generations = await rowsByGeneration(trustId);
+    expect([...generations.keys()].sort((a, b) => a - b)).toEqual([readBefore, now]);
+    const builds = await db
+      .selectFrom('portfolio_rank_builds')
+      .select('generation')
+      .where('trust_id', '=', trustId)
+      .orderBy('generation')
+      .execute();
+    expect(builds.map((b) => Number(b.generation))).toEqual([readBefore, now]);
+  });
+
   it('drops a deleted room from the list and from every generation, and ranks the rest 1…n again', async () => {
     const before = await priorities(cookie);
     const victim = before.rows[4]!;
@@ -125,6 +163,8 @@ describe('ranks as generations', () => {
     expect((await rowsByGeneration(trustId)).size).toBeGreaterThan(0);
     await db.deleteFrom('trusts').where('id', '=', trustId).execute();
     expect((await rowsByGeneration(trustId)).size).toBe(0);
+    const builds = await db.selectFrom('portfolio_rank_builds').select('generation').where('trust_id', '=', trustId);
+    expect(await builds.execute()).toEqual([]);
   });
 });
 

@@ -338,7 +338,8 @@ async function rebuildRanks(
 
 /**
  * Deletes the trust's rank rows older than generation `current`, but for `before` (the generation readers were on until
- * now): the generation before the last, and any a failed rebuild left. Generations come from a sequence taken under
+ * now): the generation before the last, and any a failed rebuild left. The trust's generations are its builds
+ * (portfolio_rank_builds), each deleted with its rows in one statement. Generations come from a sequence taken under
  * the rebuild's lock, so a rebuild that starts after this one's commit writes only newer rows, which stay. A failure
  * here is logged: the ranks are already switched, and the next rebuild deletes what is left.
  */
@@ -349,12 +350,12 @@ async function deleteOldGenerations(
   before: number | null,
 ): Promise<void> {
   try {
-    await db
-      .deleteFrom('portfolio_ranks')
-      .where('trust_id', '=', trustId)
-      .where('generation', '<', current)
-      .where('generation', '<>', before ?? -1)
-      .execute();
+    await sql`
+      WITH old AS (
+        DELETE FROM portfolio_rank_builds
+        WHERE trust_id = ${trustId} AND generation < ${current} AND generation <> ${before ?? -1}
+        RETURNING generation)
+      DELETE FROM portfolio_ranks WHERE generation IN (SELECT generation FROM old)`.execute(db);
   } catch (error) {
     console.error(`Deleting the old rank generations of trust ${trustId} failed`, error);
   }
@@ -389,9 +390,16 @@ async function rebuildIn(
     sameWeights(current.ranked_weights as Weights, weights)
   )
     return { state: { weights, stamp: stampRow.stamp, generation: current.ranked_generation } };
-  const { generation } = (
-    await sql<{ generation: number }>`SELECT nextval('portfolio_rank_generations')::int8 AS generation`.execute(trx)
-  ).rows[0]!;
+  // The build is recorded and committed before any of its rows are written, so that the rows of a rebuild that fails
+  // are found (and deleted) by the next one, and by the triggers of a deleted room, school or trust meanwhile.
+  const generation = Number(
+    (
+      await pool.query<{ generation: string }>(
+        'INSERT INTO portfolio_rank_builds (trust_id) VALUES ($1) RETURNING generation',
+        [trustId],
+      )
+    ).rows[0]!.generation,
+  );
   const places = rankOrder(await loadRankSources(trx, trustId), weights);
   const size = Math.ceil(places.length / REBUILD_PIECES);
   await Promise.all(
