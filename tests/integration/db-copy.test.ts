@@ -1,8 +1,16 @@
 // Binary COPY (src/lib/server/db/copy.ts) against the real PostgreSQL: what PostgreSQL reads back must be the values
-// we wrote, NULLs where we wrote nothing or a number that is not finite, over more than one 256 kB piece.
+// we wrote, NULLs where we wrote nothing or a number that is not finite, over more than one 256 kB piece; what we read
+// by binary COPY must be what the pg driver reads of the same query as text.
 import pg from 'pg';
 import { describe, expect, it } from 'vitest';
-import { type BinaryColumn, type BinaryValue, binaryCopyPieces, copyLines } from '../../src/lib/server/db/copy';
+import {
+  type BinaryColumn,
+  type BinaryValue,
+  binaryCopyPieces,
+  copyLines,
+  type ReadValue,
+  readBinaryCopy,
+} from '../../src/lib/server/db/copy';
 
 const COLUMNS: BinaryColumn[] = ['uuid', 'text', 'int2', 'int4', 'float8', 'bool'];
 
@@ -104,5 +112,76 @@ describe('binary COPY', () => {
       expect(() => [...binaryCopyPieces([{ id }], ['uuid'], (r) => [r.id])], id).toThrow(/not a uuid/);
     expect(() => [...binaryCopyPieces([{ n: 2.5 }], ['int4'], (r) => [r.n])]).toThrow(/not an integer/);
     expect(() => [...binaryCopyPieces([{ n: 1 }], ['int4', 'int4'], (r) => [r.n])]).toThrow(/1 values for 2 columns/);
+  });
+});
+
+/** Runs `work` on a connection of its own. */
+async function withClient<T>(work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    return await work(client as unknown as pg.PoolClient);
+  } finally {
+    await client.end();
+  }
+}
+
+async function readAll(client: pg.PoolClient, query: string, columns: Parameters<typeof readBinaryCopy>[2]) {
+  const rows: ReadValue[][] = [];
+  for await (const batch of readBinaryCopy(client, `COPY (${query}) TO STDOUT (FORMAT binary)`, columns))
+    rows.push(...batch.map((row) => row.map((v) => (v instanceof Uint8Array ? Buffer.from(v).toString('hex') : v))));
+  return rows;
+}
+
+describe('reading by binary COPY', () => {
+  // 20,000 rows of every type, NULLs among them: several chunks of the stream, rows cut between them.
+  const QUERY = `SELECT md5(n::text)::uuid, CASE WHEN n % 7 = 0 THEN NULL ELSE 'Room ' || n || ' – é ✓' END,
+      (n % 5 - 2)::int2, (n * 1000)::int4, (n::int8 * 3000000000), CASE WHEN n % 11 = 0 THEN NULL ELSE n / 7.0::float8 END,
+      n % 2 = 0, md5(n::text)::uuid
+    FROM generate_series(1, 20000) n ORDER BY n`;
+
+  it('reads what the pg driver reads of the same rows as text', async () => {
+    const [copied, asText] = await withClient(async (client) => [
+      await readAll(client, QUERY, ['uuid', 'text', 'int2', 'int4', 'int8', 'float8', 'bool', 'uuid-bytes']),
+      (await client.query({ text: QUERY, rowMode: 'array' })).rows as unknown[][],
+    ]);
+    expect(copied).toHaveLength(20000);
+    const expected = asText.map((row) => [
+      row[0],
+      row[1],
+      row[2],
+      row[3],
+      Number(row[4]),
+      row[5] === null ? null : Number(row[5]),
+      row[6],
+      String(row[7]).replaceAll('-', ''),
+    ]);
+    expect(copied).toEqual(expected);
+  });
+
+  it('gives uuid bytes that binary COPY writes back as the same uuid', async () => {
+    const read = await withClient((client) =>
+      readAll(client, "SELECT '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d'::uuid", ['uuid-bytes']),
+    );
+    const bytes = Buffer.from(read[0]![0] as string, 'hex');
+    const written = await withClient(async (client) => {
+      await client.query('CREATE TEMP TABLE uuid_check (id uuid)');
+      await copyLines(
+        client,
+        'COPY uuid_check (id) FROM STDIN (FORMAT binary)',
+        binaryCopyPieces([bytes], ['uuid'], (b) => [b]),
+      );
+      return (await client.query<{ id: string }>('SELECT id::text FROM uuid_check')).rows;
+    });
+    expect(written).toEqual([{ id: '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d' }]);
+  });
+
+  it('refuses a column whose type is not the one named', async () => {
+    await expect(withClient((client) => readAll(client, 'SELECT 1::int4', ['float8']))).rejects.toThrow(
+      /column 1 has 4 bytes, not 8/,
+    );
+    await expect(withClient((client) => readAll(client, 'SELECT 1::int4, 2::int4', ['int4']))).rejects.toThrow(
+      /2 fields for 1 columns/,
+    );
   });
 });

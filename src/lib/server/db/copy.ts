@@ -54,8 +54,11 @@ export function* bytePieces(bytes: Buffer): Generator<Buffer> {
 /** A column's type in PostgreSQL's binary COPY format (the types our bulk writes use). */
 export type BinaryColumn = 'uuid' | 'text' | 'int2' | 'int4' | 'int8' | 'float8' | 'bool';
 
-/** A value for a binary COPY column: null (or undefined, or a number that is not finite) is NULL. */
-export type BinaryValue = string | number | boolean | null | undefined;
+/**
+ * A value for a binary COPY column: null (or undefined, or a number that is not finite) is NULL. A uuid may be given as
+ * its text or as its 16 bytes.
+ */
+export type BinaryValue = string | number | boolean | Uint8Array | null | undefined;
 
 /** PGCOPY signature, flags and header extension length: the start of every binary COPY stream. */
 const BINARY_HEADER = Buffer.from([
@@ -149,7 +152,9 @@ export function* binaryCopyPieces<T>(
       if (code !== 1) buf.writeInt32BE(FIXED_BYTES[code]!, at);
       switch (code) {
         case 0:
-          writeUuid(buf, value as string, at + 4);
+          if (typeof value === 'string') writeUuid(buf, value, at + 4);
+          else if (value instanceof Uint8Array && value.length === 16) buf.set(value, at + 4);
+          else throw new Error(`not a uuid: ${String(value)}`);
           break;
         case 1: {
           const bytes = writeText(buf, String(value), at + 4);
@@ -209,4 +214,149 @@ export async function copyLines(
 ): Promise<void> {
   const target = client.query(copyStreams.from(copySql));
   await pipeline(Readable.from(pieces), target);
+}
+
+/** Each byte's two hex digits as character codes (high digit × 256 + low digit), for uuids read from binary COPY. */
+const BYTE_HEX_CODES = Uint16Array.from({ length: 256 }, (_, b) => {
+  const hex = b.toString(16).padStart(2, '0');
+  return hex.charCodeAt(0) * 256 + hex.charCodeAt(1);
+});
+/** Where each byte's digits go in a uuid's text. */
+const UUID_TEXT_AT = [0, 2, 4, 6, 9, 11, 14, 16, 19, 21, 24, 26, 28, 30, 32, 34];
+/** The text of the uuid being read, dashes in place. */
+const uuidText = Buffer.from('00000000-0000-0000-0000-000000000000', 'latin1');
+
+/**
+ * A uuid's 16 bytes at `at` as its text (8-4-4-4-12 lowercase hex digits, as PostgreSQL writes it). Made in a buffer and
+ * read out as one flat string: a string joined from pieces would keep its pieces, 20 objects per uuid kept for the
+ * garbage collector to trace (reading 550,000 ids that way took a second more here).
+ */
+function readUuid(buf: Buffer, at: number): string {
+  for (let i = 0; i < 16; i += 1) {
+    const codes = BYTE_HEX_CODES[buf[at + i]!]!;
+    const to = UUID_TEXT_AT[i]!;
+    uuidText[to] = codes >> 8;
+    uuidText[to + 1] = codes & 0xff;
+  }
+  return uuidText.toString('latin1', 0, 36);
+}
+
+/**
+ * A column type to read from binary COPY: those written, and `uuid-bytes`, a uuid as a view of its 16 bytes in the
+ * stream's buffer (valid only until the next batch is asked for: copy it).
+ */
+export type ReadColumn = BinaryColumn | 'uuid-bytes';
+const READ_CODE: Record<ReadColumn, number> = { ...TYPE_CODE, 'uuid-bytes': 7 };
+/** FIXED_BYTES, and 16 for uuid-bytes. */
+const READ_BYTES = [...FIXED_BYTES, 16];
+
+/**
+ * A value read from binary COPY: uuid and text as strings (uuid-bytes as bytes), numbers as numbers, bool as boolean,
+ * NULL as null.
+ */
+export type ReadValue = string | number | boolean | Uint8Array | null;
+
+/**
+ * Decodes the whole rows of binary COPY in `buf` from `at`: the rows, where the rest starts (an incomplete row, or
+ * what follows the trailer) and whether the trailer was read. Each field's length must be its column type's.
+ */
+function decodeRows(
+  buf: Buffer,
+  at: number,
+  codes: readonly number[],
+): { rows: ReadValue[][]; next: number; done: boolean } {
+  const rows: ReadValue[][] = [];
+  for (;;) {
+    if (at + 2 > buf.length) return { rows, next: at, done: false };
+    const fields = buf.readInt16BE(at);
+    if (fields === -1) return { rows, next: at + 2, done: true };
+    if (fields !== codes.length) throw new Error(`binary COPY row has ${fields} fields for ${codes.length} columns`);
+    // The row is decoded only once all of it has arrived.
+    let end = at + 2;
+    for (let i = 0; i < fields && end <= buf.length; i += 1) {
+      if (end + 4 > buf.length) {
+        end = buf.length + 1;
+        break;
+      }
+      const length = buf.readInt32BE(end);
+      end += 4 + Math.max(length, 0);
+    }
+    if (end > buf.length) return { rows, next: at, done: false };
+    const row: ReadValue[] = new Array(fields);
+    let p = at + 2;
+    for (let i = 0; i < fields; i += 1) {
+      const length = buf.readInt32BE(p);
+      p += 4;
+      if (length === -1) {
+        row[i] = null;
+        continue;
+      }
+      const code = codes[i]!;
+      if (code !== 1 && length !== READ_BYTES[code])
+        throw new Error(`binary COPY column ${i + 1} has ${length} bytes, not ${READ_BYTES[code]}`);
+      switch (code) {
+        case 0:
+          row[i] = readUuid(buf, p);
+          break;
+        case 1:
+          row[i] = buf.toString('utf8', p, p + length);
+          break;
+        case 2:
+          row[i] = buf.readInt16BE(p);
+          break;
+        case 3:
+          row[i] = buf.readInt32BE(p);
+          break;
+        case 4:
+          row[i] = Number(buf.readBigInt64BE(p));
+          break;
+        case 5:
+          row[i] = buf.readDoubleBE(p);
+          break;
+        case 6:
+          row[i] = buf[p] !== 0;
+          break;
+        default:
+          row[i] = buf.subarray(p, p + 16);
+      }
+      p += length;
+    }
+    rows.push(row);
+    at = p;
+  }
+}
+
+/**
+ * Rows of `COPY (…) TO STDOUT (FORMAT binary)` on `client`, decoded by `columns` (the query's column types, exactly:
+ * cast in the query), in batches as they arrive. For reads of hundreds of thousands of rows of numbers and ids:
+ * neither side formats or parses decimal text, and no row object is made per field.
+ */
+export async function* readBinaryCopy(
+  client: pg.PoolClient,
+  copySql: string,
+  columns: readonly ReadColumn[],
+): AsyncGenerator<ReadValue[][]> {
+  const codes = columns.map((type) => READ_CODE[type]);
+  let pending: Buffer | null = null;
+  let started = false;
+  let done = false;
+  for await (const chunk of client.query(copyStreams.to(copySql)) as AsyncIterable<Buffer>) {
+    const buf: Buffer = pending ? Buffer.concat([pending, chunk]) : chunk;
+    let at = 0;
+    if (!started) {
+      if (buf.length < BINARY_HEADER.length) {
+        pending = buf;
+        continue;
+      }
+      if (!buf.subarray(0, 11).equals(BINARY_HEADER.subarray(0, 11))) throw new Error('not a binary COPY stream');
+      at = BINARY_HEADER.length + buf.readInt32BE(15);
+      started = true;
+    }
+    if (done) throw new Error('binary COPY data after its trailer');
+    const decoded = decodeRows(buf, at, codes);
+    done = decoded.done;
+    pending = decoded.next < buf.length ? buf.subarray(decoded.next) : null;
+    if (decoded.rows.length > 0) yield decoded.rows;
+  }
+  if (!done || pending) throw new Error('binary COPY stream ended before its trailer');
 }
