@@ -430,6 +430,26 @@ async function deleteOldGenerations(
   }
 }
 
+/** A rebuild slower than this is logged with the time of each step (550,000 rooms take about 15-20 s here). */
+const SLOW_REBUILD_MS = 30_000;
+
+/** Times the steps of a rebuild; reportIfSlow logs them when their sum passes SLOW_REBUILD_MS. */
+function stepLog() {
+  const steps: string[] = [];
+  const started = performance.now();
+  let last = started;
+  const step = (name: string) => {
+    const now = performance.now();
+    steps.push(`${name} ${((now - last) / 1000).toFixed(1)} s`);
+    last = now;
+  };
+  step.reportIfSlow = (what: string) => {
+    const totalMs = last - started;
+    if (totalMs > SLOW_REBUILD_MS) console.warn(`${what} took ${(totalMs / 1000).toFixed(1)} s: ${steps.join(', ')}`);
+  };
+  return step;
+}
+
 /** rebuildRanks inside its transaction (`trx` and `client` are the same connection). */
 async function rebuildIn(
   trx: Kysely<Database>,
@@ -469,8 +489,11 @@ async function rebuildIn(
       )
     ).rows[0]!.generation,
   );
+  const step = stepLog();
   const sources = await loadRankSources(client, trustId);
+  step('read the results');
   const places = rankOrder(sources.rows, weights);
+  step('order');
   const size = Math.ceil(places.length / REBUILD_PIECES);
   await Promise.all(
     Array.from({ length: REBUILD_PIECES }, (_, piece) => {
@@ -481,12 +504,16 @@ async function rebuildIn(
         : copyRankRowsApart(pool, trustId, generation, sources, part);
     }),
   );
+  step('write the rows');
   // Statistics when this trust's ranks outnumber what the planner knows of the table (a first big ranking); after
   // that, a rebuild's churn gets the table analysed by autovacuum.
   const known = await sql<{ rows: number }>`
     SELECT reltuples::float8 AS rows FROM pg_class WHERE oid = 'portfolio_ranks'::regclass`.execute(trx);
   if (places.length > (known.rows[0]?.rows ?? 0)) await sql`ANALYZE portfolio_ranks`.execute(trx);
+  step('analyse');
   const curve = await cumulativeCurve(trx, trustId, null, generation);
+  step('curve');
+  step.reportIfSlow(`Rebuilding the ranks of trust ${trustId} (${places.length} rooms)`);
   const values = {
     ranked_weights: JSON.stringify(weights),
     ranked_stamp: stampRow.stamp,
