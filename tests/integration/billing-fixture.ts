@@ -103,18 +103,27 @@ export async function upgrade(cookie: string, interval: 'month' | 'year' = 'mont
   });
 }
 
-/** The provider subscription id stored for a trust. */
-export async function subscriptionIdOf(
-  db: import('kysely').Kysely<import('../../db/database').Database>,
+type TestDb = import('kysely').Kysely<import('../../db/database').Database>;
+
+/** A provider id stored on the trust's billing account; throws when none is stored. */
+async function storedProviderId(
+  db: TestDb,
   trustId: string,
+  column: 'provider_subscription_id' | 'provider_customer_id',
 ): Promise<string> {
   const row = await db
     .selectFrom('billing_accounts')
-    .select('provider_subscription_id')
+    .select(column)
     .where('trust_id', '=', trustId)
     .executeTakeFirstOrThrow();
-  if (!row.provider_subscription_id) throw new Error('no subscription stored');
-  return row.provider_subscription_id;
+  const id = (row as Record<typeof column, string | null>)[column];
+  if (!id) throw new Error(`no ${column} stored`);
+  return id;
+}
+
+/** The provider subscription id stored for a trust. */
+export function subscriptionIdOf(db: TestDb, trustId: string): Promise<string> {
+  return storedProviderId(db, trustId, 'provider_subscription_id');
 }
 
 /**
@@ -122,18 +131,8 @@ export async function subscriptionIdOf(
  * (unix seconds). The app stores an event in the same transaction that applies it, so afterwards no late genuine
  * webhook of this trust can still change its rows.
  */
-export async function waitForTrustEvents(
-  db: import('kysely').Kysely<import('../../db/database').Database>,
-  trustId: string,
-  sinceSeconds: number,
-): Promise<void> {
-  const account = await db
-    .selectFrom('billing_accounts')
-    .select('provider_customer_id')
-    .where('trust_id', '=', trustId)
-    .executeTakeFirstOrThrow();
-  const customerId = account.provider_customer_id;
-  if (!customerId) throw new Error('no provider customer stored');
+export async function waitForTrustEvents(db: TestDb, trustId: string, sinceSeconds: number): Promise<void> {
+  const customerId = await storedProviderId(db, trustId, 'provider_customer_id');
   const ids: string[] = [];
   // Newest first: stop at the first event older than the test.
   for await (const event of provider().events.list({ limit: 100 })) {
