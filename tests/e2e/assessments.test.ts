@@ -7,6 +7,7 @@ import { createDb } from '../../src/lib/server/db/client';
 import { openSignedInPage, seriousAxeViolations } from '../helpers/browser';
 import { assess } from '../helpers/assessments';
 import { DEMO_ACCOUNTS, signIn } from '../helpers/session';
+import { waitFor } from '../helpers/wait';
 
 // The assessments pages in Chromium: start a run and watch it finish, a room's results with its chart and
 // what-if, and the assumptions page.
@@ -110,9 +111,11 @@ describe('assessments pages in Chromium', () => {
       /published source.*Green Book/s,
     );
     // A finance lead types financial values; technical ones are shown, not offered. Inputs are disabled until the
-    // form's island has hydrated, so wait for it before asking.
+    // form's island has hydrated and its first effect has run (a moment after the island loses its ssr mark), so wait
+    // for the first financial input to be enabled before asking about the others.
     await page.locator('astro-island[component-url*="AssumptionForm"]:not([ssr])').waitFor({ timeout: 20_000 });
-    await expect(page.getByLabel('Real discount rate', { exact: true }).isEnabled()).resolves.toBe(true);
+    const discountRate = page.getByLabel('Real discount rate', { exact: true });
+    await waitFor('the discount rate can be typed', () => discountRate.isEnabled(), { timeoutMs: 20_000 });
     expect(await page.locator('[data-path="air.outdoorCo2Ppm"] input').count()).toBe(0);
     // Costs are editable, flows are not.
     await expect(page.getByLabel('Installed cost (£) of Wall unit 150').isEnabled()).resolves.toBe(true);
