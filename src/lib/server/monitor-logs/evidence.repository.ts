@@ -56,5 +56,7 @@ export function assessWithEvidence(
     assumptions: set,
     calibrationLabel: room.input.calibration?.label ?? null,
   });
-  return { ...assessment, risk, evidence };
+  // The assessment is this call's own, so the measured risk and the evidence go on it rather than on a copy (a copy of
+  // every assessment was about a tenth of a batch run's wrapper time).
+  return Object.assign(assessment, { risk, evidence });
 }
