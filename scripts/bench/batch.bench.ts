@@ -8,6 +8,7 @@
 //  - bytes stored per room: growth of the results, chunks (with their rooms' ids and input snapshots) and summaries;
 //  - the national batch: 550,000 rooms in 22,000 schools with 2 worker processes (BENCH_NATIONAL_ROOMS=0 skips it,
 //    BENCH_BATCH_ROOMS=0 skips the 100,000-room figures).
+// Each timed step starts on a settled database (settleDatabase: vacuumed, analysed, checkpointed), as a run in use does.
 // Prints one JSON object as the last line (scripts/bench.mjs merges it).
 import { type ChildProcess, spawn } from 'node:child_process';
 import { cpus } from 'node:os';
@@ -120,9 +121,19 @@ async function generateEstate(rooms: number, schools: number): Promise<string> {
   } finally {
     client.release();
   }
-  await sql`ANALYZE rooms`.execute(db);
-  await sql`ANALYZE schools`.execute(db);
   return trustId;
+}
+
+/**
+ * Brings the database to rest before a timed step: vacuums and analyses the register and the results, then
+ * checkpoints. A register is imported long before a run and autovacuum cleans up after each run in the hours between
+ * runs; without this, a timed run shared the two cores with the autovacuum of the 550,000 rooms generated a minute
+ * before, and of the results the previous benchmark step pruned.
+ */
+async function settleDatabase(): Promise<void> {
+  const db = getDb();
+  await sql`VACUUM (ANALYZE) rooms, schools, blocks, room_results, assessment_run_chunks, portfolio_ranks`.execute(db);
+  await sql`CHECKPOINT`.execute(db);
 }
 
 /** Peak resident set size while `work` runs, sampled every 20 ms. */
@@ -147,6 +158,7 @@ async function ioFloor(trustId: string, template: ResultRow): Promise<number> {
   await sql`CREATE TABLE bench_results_scratch (LIKE room_results INCLUDING DEFAULTS INCLUDING COMPRESSION) WITH (toast_tuple_target = 256)`.execute(
     db,
   );
+  await settleDatabase();
   const started = performance.now();
   let cursor: string | null = null;
   for (;;) {
@@ -213,6 +225,7 @@ async function checkRun(trustId: string, runId: string, rooms: number): Promise<
 async function inProcessBatch(trustId: string, rooms: number): Promise<number> {
   const db = getDb();
   const runId = await newRun(trustId, false);
+  await settleDatabase();
   const started = performance.now();
   let lastChunkAt = started;
   await workRunHere(db, getPool(), runId, {
@@ -299,6 +312,7 @@ async function queueBatch(
 ): Promise<{ seconds: number; bytesPerRoom: number; rowBytesPerRoom: number; inputBytesPerRoom: number }> {
   const children = await startWorkerProcesses(workers);
   try {
+    await settleDatabase();
     const bytesBefore = await storedBytes();
     const started = performance.now();
     const runId = await newRun(trustId, true);
