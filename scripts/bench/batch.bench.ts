@@ -8,7 +8,8 @@
 //  - bytes stored per room: growth of the results, chunks (with their rooms' ids and input snapshots) and summaries;
 //  - the national batch: 550,000 rooms in 22,000 schools with 2 worker processes (BENCH_NATIONAL_ROOMS=0 skips it,
 //    BENCH_BATCH_ROOMS=0 skips the 100,000-room figures).
-// Each timed step starts on a settled database (settleDatabase: vacuumed, analysed, checkpointed), as a run in use does.
+// Each timed step starts on a settled database (settleDatabase: vacuumed, analysed, checkpointed), as a register
+// imported long before its run would be.
 // Prints one JSON object as the last line (scripts/bench.mjs merges it).
 import { type ChildProcess, spawn } from 'node:child_process';
 import { cpus } from 'node:os';

@@ -1,8 +1,9 @@
 /**
  * The engine inputs a chunk of a run read, kept compact: each school and block once, each room as a list of its
  * register values, the calibration and the part of the measured analysis the risk reads; JSON, compressed by Brotli
- * (about a hundred bytes a room; runs before 2026-12-03 stored it gzip'd, which still decodes). With the run's assumption set they give back exactly what the run assessed, so a result's detail (curves,
- * baselines, reasons) is recomputed when someone opens it instead of being stored for every room.
+ * (50-130 bytes a room; runs before 2026-12-03 stored it gzip'd, which still decodes). With the run's assumption set
+ * they give back exactly what the run assessed, so a result's detail (curves, baselines, reasons) is recomputed when
+ * someone opens it instead of being stored for every room.
  */
 import { promisify } from 'node:util';
 import { brotliCompress, brotliDecompressSync, constants, gunzipSync } from 'node:zlib';
