@@ -387,7 +387,10 @@ describe('reading workbooks off the request thread', () => {
     const log = JSON.parse(text) as Log;
     expect(log.sensors.map((s) => s.readings)).toEqual([50_400, 50_400, 50_400]);
     expect(uploadMs).toBeGreaterThan(1000);
-    expect(longestWaitMs).toBeLessThan(750);
+    // Read in the request thread, one health check waited for most of the upload (the unpacking and parsing). Off
+    // it, the longest wait is a small part of the upload, however loaded the machine (an absolute 750 ms limit failed
+    // once at 855 ms on a busy machine).
+    expect(longestWaitMs).toBeLessThan(uploadMs / 4);
     await commit(estates, log.id, 'cancel');
   }, 180_000);
 });
