@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { AppError, badRequest } from '../http/errors';
 import type { SheetRow } from '../register/reader';
-import { FILE_READ_SLOTS, findBuiltWorker } from '../workers/built-worker';
+import { FILE_READ_SLOTS, findBuiltWorker, READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
 import { xlsxRowBatches } from './reader';
 
 /** The file the build emits for xlsx-worker.ts (see astro.config.mjs). */
@@ -86,7 +86,10 @@ export async function* xlsxRowBatchesIsolated(bytes: Buffer): AsyncGenerator<She
     transferList: [copy.buffer],
     // exceljs may spill sheets to temporary files: a folder of this upload's own, removed afterwards.
     env: { TMPDIR: tmp },
-    resourceLimits: { maxOldGenerationSizeMb: LOG_READER_HEAP_LIMIT_MB },
+    resourceLimits: {
+      maxOldGenerationSizeMb: LOG_READER_HEAP_LIMIT_MB,
+      maxYoungGenerationSizeMb: READER_YOUNG_GENERATION_MB,
+    },
   });
   try {
     for (;;) {

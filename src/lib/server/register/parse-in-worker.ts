@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { AppError, badRequest } from '../http/errors';
-import { FILE_READ_SLOTS, findBuiltWorker } from '../workers/built-worker';
+import { FILE_READ_SLOTS, findBuiltWorker, READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
 import { analyseUpload, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
@@ -75,7 +75,13 @@ let spare: StartedWorker | null = null;
 function startWorker(url: URL, warmUp: boolean): StartedWorker {
   const started: StartedWorker = {
     // None of the app's environment (database address, secrets): the worker's only variable is TMPDIR, set with its job.
-    worker: new Worker(url, { env: {}, resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB } }),
+    worker: new Worker(url, {
+      env: {},
+      resourceLimits: {
+        maxOldGenerationSizeMb: PARSE_HEAP_LIMIT_MB,
+        maxYoungGenerationSizeMb: READER_YOUNG_GENERATION_MB,
+      },
+    }),
     gone: false,
   };
   if (warmUp) warmUpWorker(started);

@@ -160,11 +160,14 @@ export interface WorkbookFacts {
 
 /** Reads a small XML part whole (the workbook and its relationships), within the same limits as every part. */
 async function smallPartText(buf: Buffer, entry: ZipEntry, budget: Budget): Promise<string> {
-  let text = '';
+  const chunks: Buffer[] = [];
+  let length = 0;
   await unpack(buf, entry, budget, (chunk) => {
-    if (text.length < 1_000_000) text += chunk;
+    if (length >= 1_000_000) return;
+    chunks.push(chunk);
+    length += chunk.length;
   });
-  return Buffer.from(text, 'latin1').toString('utf8');
+  return Buffer.concat(chunks).toString('utf8');
 }
 
 const XML_ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', apos: "'" };
@@ -213,34 +216,42 @@ interface Budget {
   remaining: number;
 }
 
+/** The last `n` bytes of `before` followed by `chunk`, copied (a window across two chunks). */
+const lastBytes = (before: Buffer, chunk: Buffer, n: number): Buffer =>
+  Buffer.from(Buffer.concat([before, chunk.subarray(-n)]).subarray(-n));
+
+/** True when XML bytes declare a document type or an entity. */
+const declaresEntities = (bytes: Buffer) => bytes.includes('<!DOCTYPE') || bytes.includes('<!ENTITY');
+
 /**
  * Unpacks one part chunk by chunk (never whole, so memory stays flat), counting the bytes actually produced
  * against the part's and the workbook's limits, and refusing XML that declares a document type or entities
- * (Excel never writes them; they are how XML parsers are made to expand or fetch things). `onText` sees the
- * unpacked text, chunk by chunk, as Latin-1.
+ * (Excel never writes them; they are how XML parsers are made to expand or fetch things). `onBytes` sees the
+ * unpacked bytes, chunk by chunk. The checks search the bytes as they come (a sheet's text is never decoded here:
+ * for a 100,000-row register that took longer than unpacking it).
  */
-function unpack(buf: Buffer, entry: ZipEntry, budget: Budget, onText?: (text: string) => void): Promise<void> {
+function unpack(buf: Buffer, entry: ZipEntry, budget: Budget, onBytes?: (chunk: Buffer) => void): Promise<void> {
   const data = buf.subarray(entry.dataStart, entry.dataStart + entry.compressedSize);
   const isXml = /\.(xml|rels|vml)$/i.test(entry.name);
   let total = 0;
-  let carry = '';
+  /** The end of the chunk before, so a declaration split between two chunks is still found. */
+  let carry: Buffer = Buffer.alloc(0);
   const take = (chunk: Buffer): Error | null => {
     total += chunk.length;
     budget.remaining -= chunk.length;
     if (total > MAX_ENTRY_BYTES) return tooBig(`the part "${entry.name}"`, MAX_ENTRY_BYTES);
     if (budget.remaining < 0) return tooBig('the workbook as a whole', MAX_TOTAL_BYTES);
-    if (isXml || onText) {
-      const text = chunk.toString('latin1');
-      const window = carry + text.slice(0, 16);
-      if (isXml && (/<!DOCTYPE|<!ENTITY/.test(window) || /<!DOCTYPE|<!ENTITY/.test(text)))
+    if (isXml) {
+      const across = Buffer.concat([carry, chunk.subarray(0, 16)]);
+      if (declaresEntities(across) || declaresEntities(chunk))
         return notXlsx(`the part "${entry.name}" declares XML entities or a document type, which Excel never writes`);
-      carry = text.slice(-16);
-      try {
-        onText?.(text);
-      } catch (error) {
-        // Refused by the caller (too many merged ranges): reject the promise, never throw from the stream.
-        return error instanceof Error ? error : new Error(String(error));
-      }
+      carry = lastBytes(carry, chunk, 16);
+    }
+    try {
+      onBytes?.(chunk);
+    } catch (error) {
+      // Refused by the caller (too many merged ranges): reject the promise, never throw from the stream.
+      return error instanceof Error ? error : new Error(String(error));
     }
     return null;
   };
@@ -293,19 +304,25 @@ async function sheetFacts(
       if (merges.length > MAX_MERGED_RANGES || mergedCells > MAX_MERGED_CELLS) throw tooManyMerges();
     }
   };
-  await unpack(buf, entry, budget, (text) => {
-    if (head.length < 4096) head += text.slice(0, 4096);
-    // Only text from <mergeCells> on is examined; the rows before it are counted, not read.
+  /** The end of the chunk before, while <mergeCells> is still to come. */
+  let before: Buffer = Buffer.alloc(0);
+  await unpack(buf, entry, budget, (chunk) => {
+    if (head.length < 4096) head += chunk.toString('latin1', 0, Math.min(chunk.length, 4096));
+    // Only text from <mergeCells> on is decoded and examined; the rows before it are counted, not read.
     if (!inMerges) {
-      const joined = tail + text;
-      const at = joined.indexOf('<mergeCells');
-      if (at < 0) {
-        tail = joined.slice(-16);
-        return;
+      const across = Buffer.concat([before, chunk.subarray(0, 16)]);
+      const acrossAt = across.indexOf('<mergeCells');
+      if (acrossAt >= 0) tail = across.toString('latin1', acrossAt) + chunk.toString('latin1', 16);
+      else {
+        const at = chunk.indexOf('<mergeCells');
+        if (at < 0) {
+          before = lastBytes(before, chunk, 16);
+          return;
+        }
+        tail = chunk.toString('latin1', at);
       }
       inMerges = true;
-      tail = joined.slice(at);
-    } else tail += text;
+    } else tail += chunk.toString('latin1');
     const cut = tail.lastIndexOf('>') + 1;
     parseMerges(tail.slice(0, cut));
     tail = tail.slice(cut);
