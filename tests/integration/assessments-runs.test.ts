@@ -1,5 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'kysely';
+import pg from 'pg';
+import { JOBS_CHANNEL } from '../../src/lib/server/assessments/queue';
 import { DEMO_SCHOOLS, DEMO_TRUST, demoRooms } from '../../scripts/seed/demo-trust';
 import { createDb } from '../../src/lib/server/db/client';
 import { runEnded, startRun } from '../helpers/assessments';
@@ -233,6 +235,36 @@ describe('assessment runs API', () => {
     expect(ranks.map((r) => r.rank).sort((a, b) => a - b)).toEqual(
       Array.from({ length: after.length }, (_, i) => i + 1),
     );
+  });
+
+  it('tells listening worker processes about a new run the moment its jobs are committed', async () => {
+    // What an idle worker process hears (queue.ts listens on this channel and wakes its workers), on a connection of
+    // this test's own.
+    const listener = new pg.Client({ connectionString: process.env.DATABASE_URL });
+    await listener.connect();
+    try {
+      await listener.query(`LISTEN ${JOBS_CHANNEL}`);
+      const heard: string[] = [];
+      let onHeard = () => {};
+      listener.on('notification', (n) => {
+        heard.push(n.payload ?? '');
+        onHeard();
+      });
+      const id = await startRun(estates, { scope: 'trust' });
+      await new Promise<void>((resolve, reject) => {
+        const timer = setTimeout(() => reject(new Error(`no notification for run ${id}; heard ${heard}`)), 10_000);
+        onHeard = () => {
+          if (heard.includes(id)) {
+            clearTimeout(timer);
+            resolve();
+          }
+        };
+        onHeard();
+      });
+      expect((await waitForRun(estates, id)).status).toBe('succeeded');
+    } finally {
+      await listener.end();
+    }
   });
 
   it('lists recent runs newest first', async () => {

@@ -14,7 +14,7 @@
 import { hostname } from 'node:os';
 import { CompiledQuery, type Kysely, sql } from 'kysely';
 import PgBoss from 'pg-boss';
-import type pg from 'pg';
+import pg from 'pg';
 import type { Database } from '../../../../db/database';
 import { config } from '../config';
 import { getDb, getPool } from '../db/client';
@@ -42,8 +42,18 @@ const EXPIRE_SECONDS = 300;
 const SWEEP_MS = 5_000;
 /** A running run with every chunk done this long is finished by the sweep (its last worker stopped first). */
 const FINISH_AFTER_SECONDS = 10;
-/** How long a worker with nothing to do waits before asking again. */
+/**
+ * How long a worker with nothing to do waits before asking again, unless a notification on JOBS_CHANNEL wakes it
+ * first (it always does while this process listens; polling covers a lost listening connection).
+ */
 const IDLE_POLL_MS = 500;
+/**
+ * The channel on which sendChunkJobs tells every worker process that jobs are waiting. PostgreSQL delivers the
+ * notification when the jobs' transaction commits, so no worker wakes for jobs it cannot see yet.
+ */
+export const JOBS_CHANNEL = 'airtally_assessment_jobs';
+/** How long this process waits before listening again after its listening connection failed. */
+const RELISTEN_MS = 5_000;
 
 interface ChunkJob {
   runId: string;
@@ -51,7 +61,9 @@ interface ChunkJob {
 
 let started: Promise<PgBoss> | undefined;
 let sweeper: NodeJS.Timeout | undefined;
-const loops: { stop: () => void; done: Promise<void> }[] = [];
+const loops: { stop: () => void; wake: () => void; done: Promise<void> }[] = [];
+/** The connection listening on JOBS_CHANNEL while this process has workers. */
+let listener: pg.Client | undefined;
 
 /**
  * Sends `count` jobs for a run (its chunks, or chunks handed back) through `db`: inside the caller's transaction when
@@ -79,6 +91,44 @@ export async function sendChunkJobs(
     },
   };
   await boss.insert(jobs, { db: through });
+  // Idle workers in every process wake at once (at the commit, when `db` is a transaction), not at their next poll.
+  await sql`SELECT pg_notify(${JOBS_CHANNEL}, ${runId})`.execute(db);
+}
+
+/**
+ * Wakes this process's idle workers whenever jobs are sent from any process: LISTEN on a connection of its own. When
+ * that connection fails the workers still poll every IDLE_POLL_MS, and it listens again after RELISTEN_MS. (Through a
+ * pooler in transaction mode, notifications do not arrive: the workers then start a run's chunks at their next poll.)
+ */
+function listenForJobs(): void {
+  if (listener || loops.length === 0) return;
+  const client = new pg.Client({ connectionString: config().databaseUrl, application_name: 'airtally-queue-listen' });
+  listener = client;
+  let retrying = false;
+  const retry = (error?: unknown) => {
+    if (listener !== client || retrying) return;
+    retrying = true;
+    listener = undefined;
+    if (error) console.error('Listening for assessment jobs failed; idle workers poll until it listens again', error);
+    client.end().catch(() => undefined);
+    setTimeout(listenForJobs, RELISTEN_MS).unref();
+  };
+  client.on('notification', () => {
+    for (const loop of loops) loop.wake();
+  });
+  client.on('error', retry);
+  client.on('end', () => retry());
+  client
+    .connect()
+    .then(() => client.query(`LISTEN ${JOBS_CHANNEL}`))
+    .catch(retry);
+}
+
+/** Stops listening (the workers have stopped). */
+async function stopListening(): Promise<void> {
+  const client = listener;
+  listener = undefined;
+  await client?.end().catch(() => undefined);
 }
 
 /** True when a worker id names a process on this host that is no longer running (or an earlier start of this one). */
@@ -185,7 +235,7 @@ function startLoop(
   pool: pg.Pool,
   boss: PgBoss,
   options: WorkOptions,
-): { stop: () => void; done: Promise<void> } {
+): { stop: () => void; wake: () => void; done: Promise<void> } {
   let stopping = false;
   let wake: (() => void) | null = null;
   const done = (async () => {
@@ -220,6 +270,7 @@ function startLoop(
       stopping = true;
       wake?.();
     },
+    wake: () => wake?.(),
     done,
   };
 }
@@ -234,6 +285,7 @@ export async function startWorkers(count: number, options: WorkOptions = {}): Pr
   const db = getDb();
   const pool = getPool();
   for (let i = 0; i < count; i++) loops.push(startLoop(db, pool, boss, options));
+  listenForJobs();
 }
 
 /**
@@ -262,5 +314,6 @@ export async function stopQueue(): Promise<void> {
 export async function drainWorkers(): Promise<void> {
   const current = loops.splice(0);
   for (const loop of current) loop.stop();
+  await stopListening();
   await Promise.all(current.map((l) => l.done));
 }
