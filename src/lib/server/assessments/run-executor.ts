@@ -175,8 +175,10 @@ export async function finishRun(db: Kysely<Database>, runId: string): Promise<bo
   if (run) {
     // Until autovacuum analyses room_results (up to a minute later), its statistics do not know the new run's rows:
     // for a run of 550,000 rooms the planner estimated 373 current results, and once read them for the ranks in 78 s
-    // (3-5 s otherwise). ANALYZE samples a fixed 30,000 rows (1.1 s at 2.8 million rows here), so only big runs pay it.
-    if (run.roomsTotal >= ANALYSE_RESULTS_FROM_ROOMS) await sql`ANALYZE room_results`.execute(db);
+    // (3-5 s otherwise). ANALYZE samples a fixed 30,000 rows (1.1 s at 2.8 million rows here), so only big runs pay it,
+    // and only for the columns the ranks' read joins on: that also counts the table's rows, in half the time (0.15-0.22
+    // s against 0.33-0.40 s at 2.25 million rows); autovacuum analyses the other columns later.
+    if (run.roomsTotal >= ANALYSE_RESULTS_FROM_ROOMS) await sql`ANALYZE room_results (run_id, school_id)`.execute(db);
     await refreshRanks(db, run.trustId);
     await pruneRuns(db, run.trustId);
   }
