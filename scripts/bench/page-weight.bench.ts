@@ -9,6 +9,7 @@ import { dirname, join, normalize, relative } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { createDb } from '../../src/lib/server/db/client';
 import { insertAssessedRooms } from '../../tests/integration/portfolio-fixture';
+import { api, signUp } from '../../tests/helpers/session';
 
 const APP_URL = (process.env.APP_URL ?? '').replace(/\/$/, '');
 const DIST = process.env.BENCH_DIST_DIR ?? '';
@@ -30,36 +31,25 @@ const PAGES = [
   '/app/account',
 ];
 
-function cookieFrom(response: Response): string {
-  return response.headers
-    .getSetCookie()
-    .map((l) => l.split(';')[0] ?? '')
-    .filter((p) => p.includes('=') && !p.endsWith('='))
-    .join('; ');
-}
-
 /**
- * Signs up a trust admin of a new trust and gives it a small assessed estate, so every page renders
- * its full interface (charts included) rather than an empty state.
+ * Signs up a trust admin of a new trust (as a person would: sign-up answers 202 and sends a confirmation e-mail last;
+ * the account signs in unconfirmed) and gives it a small assessed estate, so every page renders its full interface
+ * (charts included) rather than an empty state.
  */
 async function signUpWithResults(): Promise<string> {
   const email = `page-weight-${Date.now()}@bench.airtally.test`;
-  const response = await fetch(`${APP_URL}/api/account/sign-up`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: APP_URL },
-    body: JSON.stringify({
-      name: 'Bench Admin',
-      email,
-      password: 'bench-password-2026',
-      trustName: 'Bench Page Weight Trust',
-    }),
+  const cookie = await signUp({
+    name: 'Bench Admin',
+    email,
+    password: 'bench-password-2026',
+    trustName: 'Bench Page Weight Trust',
   });
-  if (response.status !== 201) throw new Error(`Bench sign-up failed: ${response.status} ${await response.text()}`);
-  const { trust } = (await response.json()) as { trust: { id: string } };
+  const account = (await (await api('/api/account', { cookie })).json()) as { trust: { id: string } | null };
+  if (!account.trust) throw new Error(`The bench account ${email} has no trust`);
   const db = createDb(DATABASE_URL);
   try {
     await insertAssessedRooms(db, {
-      trustId: trust.id,
+      trustId: account.trust.id,
       createTrust: false,
       schools: 3,
       roomsPerSchool: 30,
@@ -68,7 +58,7 @@ async function signUpWithResults(): Promise<string> {
   } finally {
     await db.destroy();
   }
-  return cookieFrom(response);
+  return cookie;
 }
 
 /** A URL path of the site (/_astro/x.js) to its file in the client build, or null when it is not ours. */
