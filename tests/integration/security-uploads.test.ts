@@ -215,6 +215,13 @@ describe('temporary files', () => {
     const before = leftovers();
     const { status } = await upload('two sheets.xlsx', await toBuffer(wb));
     expect(status).toBe(201);
+    // The answer does not wait for the reader to stop; its folder goes as soon as it has.
+    const left = () => leftovers().filter((f) => !before.includes(f));
+    const deadline = Date.now() + 10_000;
+    while (left().length > 0) {
+      if (Date.now() > deadline) throw new Error(`Temporary files left 10 s after the preview: ${left().join(', ')}`);
+      await new Promise((resolve) => setTimeout(resolve, 50));
+    }
     expect(leftovers()).toEqual(before);
   });
 

@@ -1,13 +1,16 @@
 import { gunzipSync, gzipSync } from 'node:zlib';
 import type { RegisterField } from './columns';
 import type { DetectedHeader, SavedMappings } from './headers';
-import { readRegisterFile } from './parse';
+import { readRegisterSheets } from './parse';
+import { readCsv, readXlsx, type SheetStream } from './reader';
 import {
   type EstateSnapshot,
   type ImportPlan,
   type ImportSummary,
   type NewSchool,
-  planImport,
+  type PlanInProgress,
+  type RoomWrite,
+  startPlan,
   type RejectedRow,
   type RoomChange,
 } from './plan';
@@ -45,10 +48,63 @@ export interface UploadAnalysis {
  * writes, then the room writes as COPY text lines, ready to stream into the commit's staging table.
  */
 export function encodePlan(plan: ImportPlan): Buffer {
-  const { problems: _problems, roomWrites, roomChanges: _changes, rejectedRows: _rejected, ...rest } = plan;
-  const parts: string[] = [JSON.stringify(rest satisfies StoredPlan), '\n'];
-  for (const w of roomWrites) parts.push(stagedRoomLine(w));
-  return gzipSync(parts.join(''), { level: 1 });
+  const parts: string[] = [planHead(plan)];
+  for (const w of plan.roomWrites) parts.push(stagedRoomLine(w));
+  return ownedBuffer([gzipSync(parts.join(''), { level: 1 })]);
+}
+
+/** The first line of an encoded plan: everything but the room writes, as JSON. */
+function planHead(plan: ImportPlan): string {
+  const { problems: _problems, roomWrites: _writes, roomChanges: _changes, rejectedRows: _rejected, ...rest } = plan;
+  return `${JSON.stringify(rest satisfies StoredPlan)}\n`;
+}
+
+/** `parts` joined in a buffer that is the whole of its own memory, so it can be handed to another thread. */
+function ownedBuffer(parts: Uint8Array[]): Buffer {
+  const bytes = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
+  let at = 0;
+  for (const p of parts) {
+    bytes.set(p, at);
+    at += p.length;
+  }
+  return Buffer.from(bytes.buffer);
+}
+
+/** Room writes per gzip member of an early encoding. */
+const LINES_PER_MEMBER = 5000;
+
+/**
+ * encodePlan done as the rows arrive: each room write is encoded as soon as its row is worked out, and every
+ * LINES_PER_MEMBER lines are compressed as one gzip member. A gzip file may hold several members, read back as one text
+ * (decodePlan), so the plan's head is compressed last and put first. A row can still be refused once every row is
+ * known (a repeated code, a school's heating): its write then drops out of the plan, and the plan is encoded afresh.
+ */
+class EarlyEncoding {
+  private lines: string[] = [];
+  private readonly members: Buffer[] = [];
+  private count = 0;
+
+  add(write: RoomWrite): void {
+    this.lines.push(stagedRoomLine(write));
+    this.count++;
+    if (this.lines.length >= LINES_PER_MEMBER) this.compress();
+  }
+
+  private compress(): void {
+    if (this.lines.length === 0) return;
+    this.members.push(gzipSync(this.lines.join(''), { level: 1 }));
+    this.lines = [];
+  }
+
+  /**
+   * The plan encoded. The plan's writes are some of those added, in the order added, so the same count means the same
+   * writes.
+   */
+  encode(plan: ImportPlan): Buffer {
+    if (plan.roomWrites.length !== this.count) return encodePlan(plan);
+    this.compress();
+    return ownedBuffer([gzipSync(planHead(plan), { level: 1 }), ...this.members]);
+  }
 }
 
 /** The inverse of encodePlan: the plan without its room writes, and the room writes as COPY text. */
@@ -75,7 +131,7 @@ export const decodeRejectedRows = (gz: Buffer) => JSON.parse(gunzipSync(gz).toSt
  * Reads an .xlsx or .csv upload, checks every cell and compares it with the estate (no database):
  * all the CPU work of a preview, so it can run off the request thread (parse-in-worker.ts).
  */
-export async function analyseUpload(
+export function analyseUpload(
   bytes: Buffer,
   kind: 'xlsx' | 'csv',
   saved: SavedMappings,
@@ -83,23 +139,48 @@ export async function analyseUpload(
   snapshot: EstateSnapshot,
   mark: (step: string) => void = () => {},
 ): Promise<UploadAnalysis> {
-  const file = await readRegisterFile(bytes, kind, saved, options);
-  mark('read and check cells');
-  const plan = planImport(file.read, file.header.columns, snapshot, {
-    clearBlanks: options.clearBlanks === true,
-    schoolChoices: options.schools,
+  return analyseSheets(kind === 'xlsx' ? readXlsx(bytes) : readCsv(bytes), saved, options, snapshot, mark);
+}
+
+/**
+ * analyseUpload over sheets as they are read. Each data row is checked and compared with the estate, and its room write
+ * encoded, as soon as it is read (startPlan), so that this work overlaps the reading when the sheets are read in another
+ * thread (parse-worker.ts).
+ */
+export async function analyseSheets(
+  sheets: AsyncIterable<SheetStream>,
+  saved: SavedMappings,
+  options: ImportOptions,
+  snapshot: EstateSnapshot,
+  mark: (step: string) => void = () => {},
+): Promise<UploadAnalysis> {
+  let plan: PlanInProgress | undefined;
+  const early = new EarlyEncoding();
+  const file = await readRegisterSheets(sheets, saved, options, (header) => {
+    const started = startPlan(header.columns, snapshot, {
+      clearBlanks: options.clearBlanks === true,
+      schoolChoices: options.schools,
+      onRoomWrite: (write) => early.add(write),
+    });
+    plan = started;
+    return (row) => started.add(row);
   });
-  // The read rows are not needed past here; letting them go keeps peak memory down on big files.
+  mark('read and check cells');
+  if (!plan) throw new Error('The register was read without its rows being planned');
+  // Rows were added to the plan as they were read; the read rows are not needed past here, and letting them go keeps
+  // peak memory down on big files.
   file.read.rows = [];
+  const finished = plan.finish(file.read);
+  plan = undefined;
   mark('compare with the estate');
-  const rowsGz = encodePlan(plan);
+  const rowsGz = early.encode(finished);
   const width = file.header.columns.length;
   const rejectedRowsGz =
-    plan.rejectedRows.length > 0
+    finished.rejectedRows.length > 0
       ? encodeRejectedRows({
           sheetName: file.sheetName,
           header: file.header.columns.map((c) => c.header),
-          rows: plan.rejectedRows.map((r) => ({ ...r, cells: r.cells.slice(0, width) })),
+          rows: finished.rejectedRows.map((r) => ({ ...r, cells: r.cells.slice(0, width) })),
         })
       : null;
   mark('encode the plan');
@@ -112,13 +193,13 @@ export async function analyseUpload(
       columns: file.header.columns,
     },
     topRows: file.topRows,
-    summary: plan.summary,
-    problems: plan.problems.slice(0, MAX_PROBLEMS_KEPT),
-    problemCount: plan.problems.length,
-    missingRooms: plan.missingRooms,
-    roomChanges: plan.roomChanges,
+    summary: finished.summary,
+    problems: finished.problems.slice(0, MAX_PROBLEMS_KEPT),
+    problemCount: finished.problems.length,
+    missingRooms: finished.missingRooms,
+    roomChanges: finished.roomChanges,
     rowsGz,
-    newSchools: plan.newSchools,
+    newSchools: finished.newSchools,
     rejectedRowsGz,
     mappedPairs: options.mapping
       ? file.header.columns

@@ -21,6 +21,11 @@ export const PARSE_TIME_LIMIT_MS = 120_000;
  * (five paired runs here, median 0.80 of the time at 2 GB against 1 GB).
  */
 const PARSE_HEAP_LIMIT_MB = 2048;
+/**
+ * Heap of an .xlsx upload's sheet reader (parse-worker.ts): it holds the workbook's shared strings and styles and the
+ * rows in flight, not the rows read, so half the analyst's.
+ */
+export const SHEET_READER_HEAP_LIMIT_MB = 1024;
 
 /** What a worker is given. */
 export interface ParseJob {
@@ -53,7 +58,7 @@ const tooSlow = () =>
   badRequest(
     `This file took longer than ${PARSE_TIME_LIMIT_MS / 1000} seconds to read, far longer than any room register. Check that it is the register itself (not a file with millions of cells or formatting), save it again as .xlsx or .csv, or split it into smaller files.`,
   );
-const tooHungry = () =>
+export const tooHungry = () =>
   badRequest(
     'This file needs more memory to read than any room register does. Check that it is the register itself, remove other sheets, pictures and formatting, or split it into smaller files.',
   );
@@ -129,18 +134,27 @@ function takeWorker(url: URL): Worker {
   return taken.worker;
 }
 
-function runWorker(url: URL, job: ParseJob): Promise<UploadAnalysis> {
-  return new Promise((resolve, reject) => {
-    const worker = takeWorker(url);
+/**
+ * Runs `job` in a worker. `outcome` settles as soon as the worker answers (or fails, or runs out of time); the worker is
+ * stopped after that, and `stopped` resolves once it has (its temporary files may then go).
+ */
+function runWorker(url: URL, job: ParseJob): { outcome: Promise<UploadAnalysis>; stopped: Promise<void> } {
+  const worker = takeWorker(url);
+  let markStopped = () => {};
+  const stopped = new Promise<void>((resolve) => {
+    markStopped = resolve;
+  });
+  const outcome = new Promise<UploadAnalysis>((resolve, reject) => {
     let settled = false;
-    // Answers only once the worker has stopped, so its temporary files can be removed.
+    // Stopping a worker with a large heap takes tens of milliseconds: nobody waits for it.
     const settle = (outcome: () => void) => {
       if (settled) return;
       settled = true;
       clearTimeout(timer);
+      outcome();
       void worker.terminate().finally(() => {
         if (!spare) spare = startWorker(url, true);
-        outcome();
+        markStopped();
       });
     };
     const timer = setTimeout(() => settle(() => reject(tooSlow())), PARSE_TIME_LIMIT_MS);
@@ -170,6 +184,7 @@ function runWorker(url: URL, job: ParseJob): Promise<UploadAnalysis> {
     );
     worker.postMessage(job, [job.bytes]);
   });
+  return { outcome, stopped };
 }
 
 /**
@@ -188,15 +203,21 @@ export async function analyseUploadIsolated(
 ): Promise<UploadAnalysis> {
   const url = findBuiltWorker(WORKER_FILE);
   if (!url) return analyseUpload(bytes, kind, saved, options, snapshot);
-  return FILE_READ_SLOTS.run(async () => {
+  // The slot and the upload's temporary folder are kept until the worker has stopped, after the answer.
+  const free = await FILE_READ_SLOTS.take();
+  let release = async () => free();
+  try {
     const tmp = await mkdtemp(join(tmpdir(), UPLOAD_FOLDER));
-    try {
-      const copy = new Uint8Array(bytes.length);
-      copy.set(bytes);
-      const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings, tmpDir: tmp };
-      return await runWorker(url, job);
-    } finally {
-      await rm(tmp, { recursive: true, force: true });
-    }
-  });
+    release = () => rm(tmp, { recursive: true, force: true }).finally(free);
+    const copy = new Uint8Array(bytes.length);
+    copy.set(bytes);
+    const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings, tmpDir: tmp };
+    const { outcome, stopped } = runWorker(url, job);
+    const releaseNow = release;
+    release = async () => {};
+    void stopped.then(releaseNow).catch(() => undefined);
+    return await outcome;
+  } finally {
+    await release();
+  }
 }

@@ -3,13 +3,60 @@
  * as dist/server/register-parse-worker.mjs. It loads its modules, waits for its one job as a message, and posts back
  * the analysis, or the error as plain data. A spare may first be asked to warm up (warm-up.ts): the job then waits for
  * the warm-up to end.
+ *
+ * An .xlsx is read in a second thread of its own, the sheet reader (this module again, started by the first with
+ * `workerData.role` "sheet-reader"): it runs the upload guard and exceljs and sends the rows over (sheet-channel.ts),
+ * while this thread checks and plans each row as it arrives. Reading is most of a preview's work, so on two cores the
+ * checks and the plan take little time beyond the reading itself.
  */
-import { parentPort } from 'node:worker_threads';
+import { MessageChannel, type MessagePort, parentPort, Worker, workerData } from 'node:worker_threads';
 import { setThreadTempDir } from '../config';
-import { AppError } from '../http/errors';
-import { analyseUpload } from './analyse';
-import type { ParseJob, ParseReply, WarmUpRequest } from './parse-in-worker';
+import { AppError, badRequest } from '../http/errors';
+import { READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
+import { analyseSheets, analyseUpload } from './analyse';
+import {
+  type ParseJob,
+  type ParseReply,
+  SHEET_READER_HEAP_LIMIT_MB,
+  tooHungry,
+  type WarmUpRequest,
+} from './parse-in-worker';
+import { readXlsx } from './reader';
+import { serveSheets, SheetReaderClient } from './sheet-channel';
 import { warmUpReader } from './warm-up';
+
+/** Starts the sheet reader thread, and the client that asks it for readings. */
+function startSheetReader(): SheetReaderClient {
+  const { port1, port2 } = new MessageChannel();
+  const thread = new Worker(new URL(import.meta.url), {
+    workerData: { role: 'sheet-reader', port: port2 },
+    transferList: [port2],
+    resourceLimits: {
+      maxOldGenerationSizeMb: SHEET_READER_HEAP_LIMIT_MB,
+      maxYoungGenerationSizeMb: READER_YOUNG_GENERATION_MB,
+    },
+  });
+  const client = new SheetReaderClient(port1);
+  thread.on('error', (error: Error & { code?: string }) =>
+    client.fail(
+      error.code === 'ERR_WORKER_OUT_OF_MEMORY'
+        ? tooHungry()
+        : badRequest(`We could not read this file (${error.message}). Save it again as .xlsx or .csv and retry.`),
+    ),
+  );
+  thread.once('exit', (code) => client.fail(new Error(`The sheet reader stopped (exit code ${code})`)));
+  // This thread's job keeps it alive; the reader on its own does not.
+  thread.unref();
+  port1.unref();
+  return client;
+}
+
+/** A copy of `bytes` in an ArrayBuffer of its own, to hand over to the sheet reader. */
+function ownBuffer(bytes: Uint8Array): ArrayBuffer {
+  const copy = new Uint8Array(bytes.length);
+  copy.set(bytes);
+  return copy.buffer;
+}
 
 function timer(on: boolean): (step: string) => void {
   if (!on) return () => {};
@@ -21,16 +68,14 @@ function timer(on: boolean): (step: string) => void {
   };
 }
 
-async function work(job: ParseJob): Promise<ParseReply> {
+async function work(job: ParseJob, sheets: SheetReaderClient): Promise<ParseReply> {
   try {
-    const analysis = await analyseUpload(
-      Buffer.from(job.bytes),
-      job.kind,
-      new Map(job.saved),
-      job.options,
-      job.snapshot,
-      timer(job.timings),
-    );
+    const saved = new Map(job.saved);
+    const mark = timer(job.timings);
+    const analysis =
+      job.kind === 'xlsx'
+        ? await analyseSheets(sheets.read(job.bytes, job.tmpDir), saved, job.options, job.snapshot, mark)
+        : await analyseUpload(Buffer.from(job.bytes), job.kind, saved, job.options, job.snapshot, mark);
     return { ok: true, analysis };
   } catch (error) {
     if (error instanceof AppError)
@@ -42,8 +87,13 @@ async function work(job: ParseJob): Promise<ParseReply> {
   }
 }
 
-if (parentPort) {
+const role = (workerData as { role?: string } | null)?.role;
+if (role === 'sheet-reader') {
+  // The sheet reader: reads what the analyst hands it, each in the folder for temporary files it names.
+  serveSheets((workerData as { port: MessagePort }).port, (bytes) => readXlsx(bytes), setThreadTempDir);
+} else if (parentPort) {
   const port = parentPort;
+  const sheets = startSheetReader();
   let warming: Promise<void> = Promise.resolve();
   let jobTaken = false;
   port.on('message', (message: ParseJob | WarmUpRequest) => {
@@ -51,7 +101,8 @@ if (parentPort) {
       if (jobTaken) return;
       // The warm-up's temporary files go to a folder of its own, removed once it has ended.
       setThreadTempDir(message.warmUp.tmpDir);
-      warming = warmUpReader()
+      const tmpDir = message.warmUp.tmpDir;
+      warming = warmUpReader((bytes) => sheets.read(ownBuffer(bytes), tmpDir))
         .catch(() => undefined)
         .then(() => port.postMessage({ warmed: true }));
       return;
@@ -62,7 +113,7 @@ if (parentPort) {
     void warming.then(async () => {
       // The spreadsheet library's temporary files go to this upload's own folder.
       setThreadTempDir(job.tmpDir);
-      const reply = await work(job);
+      const reply = await work(job, sheets);
       const transfer = reply.ok ? [reply.analysis.rowsGz.buffer as ArrayBuffer] : [];
       port.postMessage(reply, transfer);
     });

@@ -20,13 +20,25 @@ const topText = (rows: SheetRow[]) =>
   rows.slice(0, 15).map((r) => r.values.slice(0, 24).map((v) => cellText(v ?? null)));
 
 /** Reads an .xlsx or .csv upload, finds its header and reads every data row (no database). */
-export async function readRegisterFile(
+export function readRegisterFile(
   buf: Buffer,
   kind: 'xlsx' | 'csv',
   saved: SavedMappings,
   options: ImportOptions = {},
 ): Promise<ReadRegister> {
-  const sheets: AsyncIterable<SheetStream> = kind === 'xlsx' ? readXlsx(buf) : readCsv(buf);
+  return readRegisterSheets(kind === 'xlsx' ? readXlsx(buf) : readCsv(buf), saved, options);
+}
+
+/**
+ * readRegisterFile over sheets as they are read (reader.ts, or another thread's reading: parse-worker.ts). Once the
+ * header is found, `startRows` is asked for what takes each data row the moment it is read (e.g. startPlan's `add`).
+ */
+export async function readRegisterSheets(
+  sheets: AsyncIterable<SheetStream>,
+  saved: SavedMappings,
+  options: ImportOptions = {},
+  startRows?: (header: DetectedHeader) => (row: ParsedRow) => void,
+): Promise<ReadRegister> {
   let firstTop: string[][] = [];
   for await (const sheet of sheets) {
     const iterator = sheet.rows[Symbol.asyncIterator]();
@@ -51,6 +63,7 @@ export async function readRegisterFile(
     const firstDataRow = header.row + header.rowCount;
     const compiled = compileColumns(header.columns);
     const rows: ParsedRow[] = [];
+    const onRow = startRows?.(header);
     let skipped = 0;
     const notes: { rowNumber: number; text: string }[] = [];
     const take = (row: SheetRow) => {
@@ -66,7 +79,9 @@ export async function readRegisterFile(
         notes.push({ rowNumber: row.rowNumber, text: row.values.map((v) => cellText(v ?? null)).find(Boolean) ?? '' });
         return;
       }
-      rows.push(parseRow(row.rowNumber, row.values, compiled));
+      const parsed = parseRow(row.rowNumber, row.values, compiled);
+      rows.push(parsed);
+      onRow?.(parsed);
     };
     for (const row of head) take(row);
     for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);

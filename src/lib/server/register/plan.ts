@@ -274,6 +274,51 @@ export interface ReadRows {
   notes?: { rowNumber: number; text: string }[];
 }
 
+/** A room as its row gives it, worked out when the row arrives: it needs only the row and the estate (startPlan). */
+interface RoomOfRow {
+  code: string;
+  sk: string;
+  existingSchool: EstateSnapshot['schools'][number] | null;
+  existingRoom: EstateRoom | null;
+  blockKey: string | null;
+  existingBlock: EstateSnapshot['blocks'][number] | null;
+  /** The row that first gave this room code in this school, when this row repeats it. */
+  repeats: number | undefined;
+  /** The room's own checks (its fields' rules, then physics), in the order the preview says them. */
+  said: { field: RegisterField; severity: 'error' | 'warning'; message: string }[];
+  /** The room's fields, when they pass their rules. */
+  fields: RoomFields | null;
+  /** What writing the row would do: null when its fields fail their rules or the room would not change. */
+  write: RoomWrite | null;
+  /** A new room's fields left blank, said as warnings if it imports. */
+  blanks: ('use' | 'pupils' | 'ventilationType' | 'ageGroup')[];
+}
+
+/** A new room's fields that, left blank, are said as warnings if it imports (age group only where the phase does not say). */
+const BLANK_WARNED = ['use', 'pupils', 'ventilationType', 'ageGroup'] as const;
+const NO_BLANKS: RoomOfRow['blanks'] = [];
+/** A room with nothing to say (shared: most rooms have nothing). */
+const NOTHING_SAID: RoomOfRow['said'] = [];
+
+/** The room code of a row as the plan matches it (trimmed), or null when blank. */
+const codeOf = (row: ParsedRow) =>
+  row.values.code === null || row.values.code === undefined ? null : String(row.values.code).trim() || null;
+
+/** A plan being made while the file is read (startPlan): each row is added as it arrives, in file order. */
+export interface PlanInProgress {
+  add(row: ParsedRow): void;
+  /** The plan, once every row of the file has been added (`read` gives the skipped rows and notes). */
+  finish(read: Pick<ReadRows, 'skipped' | 'notes'>): ImportPlan;
+}
+
+/** How a plan is made, besides the rows, columns and estate. */
+export interface PlanOptions {
+  clearBlanks?: boolean;
+  schoolChoices?: SchoolChoices | undefined;
+  /** Called with each room write as soon as its row is worked out (before the plan is finished), e.g. to encode it. */
+  onRoomWrite?: (write: RoomWrite) => void;
+}
+
 /**
  * Compares the file's rows with the estate and works out every create and change; adds the
  * problems that need the estate to see (duplicate codes, a new school without a phase, physics).
@@ -283,8 +328,24 @@ export function planImport(
   read: ReadRows,
   columns: DetectedColumn[],
   estate: EstateSnapshot,
-  options: { clearBlanks?: boolean; schoolChoices?: SchoolChoices | undefined } = {},
+  options: PlanOptions = {},
 ): ImportPlan {
+  const plan = startPlan(columns, estate, options);
+  for (const row of read.rows) plan.add(row);
+  return plan.finish(read);
+}
+
+/**
+ * planImport as the rows arrive. What one row and the estate decide (its school and block values' checks, its room's
+ * fields, rules, physics and changes) is worked out in `add`, so it overlaps the reading of the rest of the file; what
+ * needs every row (a school's phase and heating, duplicate codes, new schools and blocks, missing rooms) is decided in
+ * `finish`. The plan is the same as planImport's with every row given at once.
+ */
+export function startPlan(
+  columns: DetectedColumn[],
+  estate: EstateSnapshot,
+  options: PlanOptions = {},
+): PlanInProgress {
   const clearBlanks = options.clearBlanks === true;
   const choices = options.schoolChoices ?? {};
   const roomChanges: RoomChange[] = [];
@@ -339,7 +400,7 @@ export function planImport(
   // row is rejected. A register repeats the same few values on every row, so each is checked once.
   const refusedRows = new Set<number>();
   const verdictsByField = ESTATE_VALUE_FIELDS.map((field) => ({ field, verdicts: new Map<unknown, string | null>() }));
-  for (const row of read.rows) {
+  const checkEstateValues = (row: ParsedRow) => {
     for (const { field, verdicts } of verdictsByField) {
       const value = row.values[field];
       if (value === null || value === undefined) continue;
@@ -356,7 +417,7 @@ export function planImport(
       row.values[field] = undefined;
       refusedRows.add(row.rowNumber);
     }
-  }
+  };
 
   // Pass 1: the phase of each school the file names, and the first value of each block's attributes.
   const phaseOf = new Map<string, { phase: SchoolPhase; row: number }>();
@@ -369,9 +430,9 @@ export function planImport(
   const schoolNameOf = new Map<string, string>();
   const postcodeOf = new Map<string, string>();
   const rowsOfSchool = new Map<string, { first: number; count: number }>();
-  for (const row of read.rows) {
+  const noteSchoolAndBlock = (row: ParsedRow) => {
     const school = row.values.school;
-    if (typeof school !== 'string') continue;
+    if (typeof school !== 'string') return;
     const phase = row.values.schoolPhase;
     const sk = keyOf(school);
     if (!schoolNameOf.has(sk)) schoolNameOf.set(sk, school);
@@ -429,167 +490,34 @@ export function planImport(
         seen.airPermeabilityM3hM2 ??= perm;
       }
     }
-  }
+  };
 
-  // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits
-  // its fuel; a block without its own fuel burns the school's). Where it does not, the file's fuel and efficiency are
-  // not applied and the rows that carry them are refused.
-  const schoolHeatingProblem = new Map<string, string>();
-  const schoolFuelAfter = new Map<string, string>();
-  for (const [sk, heating] of schoolHeatingOf) {
-    const existing = schoolsByKey.get(sk);
-    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? 'gas';
-    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
-    if (problem) {
-      schoolHeatingProblem.set(sk, problem);
-      delete heating.heatingFuel;
-      delete heating.heatingEfficiency;
-    }
-    schoolFuelAfter.set(sk, heating.heatingFuel ?? existing?.heatingFuel ?? 'gas');
-  }
-  const blockHeatingProblem = new Map<string, string>();
-  for (const [bk, heating] of blockHeatingOf) {
-    const sk = bk.slice(0, bk.indexOf('|'));
-    const school = schoolsByKey.get(sk);
-    const existing = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
-    const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? schoolFuelAfter.get(sk) ?? 'gas';
-    const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
-    if (problem) {
-      blockHeatingProblem.set(bk, problem);
-      delete heating.heatingFuel;
-      delete heating.heatingEfficiency;
-    }
-  }
-  const carried = (row: ParsedRow, field: RegisterField) =>
-    row.values[field] !== null && row.values[field] !== undefined;
-
-  // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
-  const writes: RoomWrite[] = [];
   // The codes the file names in each of the estate's schools.
   const codesInFile = new Map<string, Set<string>>();
   // The first row of each room code, by school key then code.
   const firstRowOfCode = new Map<string, Map<string, number>>();
-  const acceptedSchools = new Set<string>();
-  const acceptedBlocks = new Set<string>();
-  const warnedNewSchool = new Set<string>();
-  const rejectedRows: RejectedRow[] = [];
-  let rejected = 0;
-  // A rejected row's cells as read; what to fix in it is filled in from its errors once every problem is known.
-  const rejectedRow = (row: ParsedRow): RejectedRow => ({
-    row: row.rowNumber,
-    cells: (row.cells ?? []).map(plainCell),
-    fixes: [],
-  });
-  // Each school the file creates is described once: phase and region from the file, the person, the name or postcode.
-  const described = new Map<string, NewSchool>();
-  const describeNewSchool = (sk: string, name: string): NewSchool => {
-    let found = described.get(sk);
-    if (found) return found;
-    const choice = choices[sk] ?? {};
-    const fromFile = phaseOf.get(sk)?.phase;
-    const fromName = phaseFromName(name);
-    const postcode = postcodeOf.get(sk) ?? null;
-    const fromPostcode = regionFromPostcode(postcode ?? name);
-    const defaultPhase = estate.defaultPhase ?? 'primary';
-    const rows = rowsOfSchool.get(sk) ?? { first: 0, count: 0 };
-    found = {
-      key: sk,
-      name,
-      ...(fromFile
-        ? { phase: fromFile, phaseSource: 'file', phaseReason: 'the file’s phase column' }
-        : choice.phase
-          ? { phase: choice.phase, phaseSource: 'chosen', phaseReason: 'chosen in the preview' }
-          : fromName
-            ? { phase: fromName.phase, phaseSource: 'name', phaseReason: `the name says “${fromName.because}”` }
-            : { phase: defaultPhase, phaseSource: 'default', phaseReason: 'not known: the trust’s usual phase' }),
-      ...(choice.climateRegion
-        ? { climateRegion: choice.climateRegion, regionSource: 'chosen', regionReason: 'chosen in the preview' }
-        : fromPostcode
-          ? {
-              climateRegion: fromPostcode.climateRegion,
-              regionSource: 'postcode',
-              regionReason: `postcode area ${fromPostcode.area}`,
-            }
-          : {
-              climateRegion: estate.defaultClimateRegion,
-              regionSource: 'default',
-              regionReason: 'not known: the trust’s usual region',
-            }),
-      postcode,
-      firstRow: rows.first,
-      rowCount: rows.count,
-      ...(schoolHeatingOf.get(sk) ?? {}),
-    };
-    described.set(sk, found);
-    return found;
-  };
-  let unchanged = 0;
-
-  for (const row of read.rows) {
-    let hasError = row.problems.some((p) => p.severity === 'error') || refusedRows.has(row.rowNumber);
-    problems.push(...row.problems);
-    const error = (field: RegisterField, message: string) => {
-      problem(row, field, 'error', message);
-      hasError = true;
-    };
+  // The room of each row, as far as the row and the estate decide it.
+  const workOutRoom = (row: ParsedRow): RoomOfRow | null => {
     const schoolName = typeof row.values.school === 'string' ? row.values.school : null;
-    const code = row.values.code === null || row.values.code === undefined ? null : String(row.values.code).trim();
-    if (!schoolName) error('school', 'The school is missing; every room must name its school.');
-    if (!code) error('code', 'The room code is missing; every room needs a code that is unique within its school.');
-    if (!schoolName || !code) {
-      rejected++;
-      rejectedRows.push(rejectedRow(row));
-      continue;
-    }
+    const code = codeOf(row);
+    if (!schoolName || !code) return null;
     const sk = keyOf(schoolName);
     const existingSchool = schoolsByKey.get(sk) ?? null;
-    const phase =
-      phaseOf.get(sk)?.phase ??
-      existingSchool?.phase ??
-      (estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName).phase : null);
-    const schoolHeating = schoolHeatingProblem.get(sk);
-    if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
-    else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
-    const blockHeating =
-      typeof row.values.block === 'string' ? blockHeatingProblem.get(pairKey(sk, keyOf(row.values.block))) : undefined;
-    if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
-    else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
-    if (!existingSchool && estate.canCreateSchools === false)
-      error(
-        'school',
-        `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`,
-      );
-    const newSchool = !existingSchool && estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName) : null;
-    if (newSchool && !warnedNewSchool.has(sk)) {
-      // Said once per school, on its first row: never an error, so the school's rooms still import.
-      warnedNewSchool.add(sk);
-      const guessed = [
-        newSchool.phaseSource === 'default' ? `phase set to ${label(newSchool.phase)}` : null,
-        newSchool.regionSource === 'default' ? `climate region set to ${label(newSchool.climateRegion)}` : null,
-      ].filter(Boolean);
-      if (guessed.length > 0)
-        problem(
-          row,
-          newSchool.phaseSource === 'default' ? 'schoolPhase' : 'school',
-          'warning',
-          `"${schoolName}" is a new school and the file does not say its ${newSchool.phaseSource === 'default' ? 'phase' : 'region'}${newSchool.phaseSource === 'default' && newSchool.regionSource === 'default' ? ' or region' : ''}: ${guessed.join(' and ')} (the trust's usual). Choose in the new schools list before importing, or change it later on the school's page.`,
-        );
-    }
-    const codesOfSchool = getOrMake(firstRowOfCode, sk, newMap<string, number>);
-    const first = codesOfSchool.get(code);
-    if (first !== undefined)
-      error(
-        'code',
-        `Room code "${code}" appears again for ${schoolName} (first on row ${first}); room codes must be unique within a school.`,
-      );
-    else codesOfSchool.set(code, row.rowNumber);
-    if (existingSchool) getOrMake(codesInFile, existingSchool.id, newSet<string>).add(code);
-
     const existingRoom = existingSchool ? (roomsBySchool.get(existingSchool.id)?.get(code) ?? null) : null;
     const blockName = typeof row.values.block === 'string' ? row.values.block : null;
     const blockKey = blockName ? pairKey(sk, keyOf(blockName)) : null;
     const existingBlock =
       blockName && existingSchool ? (blocksByKey.get(pairKey(existingSchool.id, keyOf(blockName))) ?? null) : null;
+    // A room code given twice for one school: the later rows are refused (finish).
+    const codesOfSchool = getOrMake(firstRowOfCode, sk, newMap<string, number>);
+    const repeats = codesOfSchool.get(code);
+    if (repeats === undefined) codesOfSchool.set(code, row.rowNumber);
+    if (existingSchool) getOrMake(codesInFile, existingSchool.id, newSet<string>).add(code);
+    let said = NOTHING_SAID;
+    const say = (field: RegisterField, severity: 'error' | 'warning', message: string) => {
+      if (said === NOTHING_SAID) said = [];
+      said.push({ field, severity, message });
+    };
 
     // Start from the room as it stands (columns missing from the file, and blank cells unless the person chose to
     // clear blanks, keep their values), else from unknowns: a blank is never read as 0.
@@ -613,34 +541,30 @@ export function planImport(
           row.problems.some((p) => p.severity === 'error' && p.columnLetter === byField.get(field)?.letter)
         )
           continue;
-        error(field, missing ? `${columnOf(field).header} is required for a new room.` : `${issue.message}.`);
+        say(field, 'error', missing ? `${columnOf(field).header} is required for a new room.` : `${issue.message}.`);
       }
-    } else {
-      for (const p of physicalChecks(parsed.data)) {
-        if (p.severity === 'error') error(p.field, p.message);
-        else problem(row, p.field, 'warning', p.message);
-      }
+      return {
+        code,
+        sk,
+        existingSchool,
+        existingRoom,
+        blockKey,
+        existingBlock,
+        repeats,
+        said,
+        fields: null,
+        write: null,
+        blanks: NO_BLANKS,
+      };
     }
-    if (hasError || !parsed.success) {
-      rejected++;
-      rejectedRows.push(rejectedRow(row));
-      // A rejected row keeps its problems; nothing of it is written.
-      continue;
-    }
-    // Said only of rows that import: a rejected row's errors are what to fix first.
-    if (!existingRoom) {
-      for (const f of ['use', 'pupils', 'ventilationType'] as const)
-        if (draft[f] === null)
-          problem(
-            row,
-            f,
-            'warning',
-            `${columnOf(f).header} blank: stored as unknown; assessments assume a value and say so.`,
-          );
-      if (draft.ageGroup === null && ageGroupForPhase(phase) === null && has('ageGroup'))
-        problem(row, 'ageGroup', 'warning', 'Age group blank: assessments take it from the school phase.');
-    }
+    for (const p of physicalChecks(parsed.data)) say(p.field, p.severity, p.message);
     const fields = parsed.data;
+    let blanks = NO_BLANKS;
+    if (
+      !existingRoom &&
+      (draft.use === null || draft.pupils === null || draft.ventilationType === null || draft.ageGroup === null)
+    )
+      blanks = BLANK_WARNED.filter((f) => draft[f] === null);
     const school: Ref = existingSchool ? { id: existingSchool.id } : { newKey: sk };
     const block: Ref | null = has('block')
       ? blockKey
@@ -651,9 +575,7 @@ export function planImport(
       : existingRoom?.blockId
         ? { id: existingRoom.blockId }
         : null;
-    acceptedSchools.add(sk);
-    if (blockKey && !existingBlock) acceptedBlocks.add(blockKey);
-
+    let write: RoomWrite | null = null;
     if (existingRoom) {
       const changedBefore: Record<string, unknown> = {};
       const changedAfter: Record<string, unknown> = {};
@@ -663,173 +585,371 @@ export function planImport(
           changedAfter[field] = fields[field];
         }
       }
-      if (Object.keys(changedAfter).length > 0 && roomChanges.length < MAX_ROOM_CHANGES_LISTED)
-        roomChanges.push({
-          row: row.rowNumber,
-          school: schoolName,
-          code,
-          kind: 'changed',
-          fields: Object.keys(changedAfter).map((field) => ({
-            field,
-            before: (changedBefore[field] ?? null) as string | number | null,
-            after: (changedAfter[field] ?? null) as string | number | null,
-          })),
-        });
       const newBlockId = block && 'id' in block ? block.id : null;
       const blockChanged = block && 'newKey' in block ? true : newBlockId !== existingRoom.blockId;
       if (blockChanged) {
         changedBefore.blockId = existingRoom.blockId;
         changedAfter.blockId = newBlockId ?? blockName;
       }
-      if (Object.keys(changedAfter).length === 0) {
-        unchanged++;
-        continue;
-      }
-      writes.push({
-        rowNumber: row.rowNumber,
-        roomId: existingRoom.id,
-        school,
-        block,
-        fields,
-        before: changedBefore,
-        after: changedAfter,
-      });
-    } else {
-      writes.push({ rowNumber: row.rowNumber, roomId: null, school, block, fields, before: null, after: fields });
-      if (roomChanges.length < MAX_ROOM_CHANGES_LISTED)
-        roomChanges.push({
-          row: row.rowNumber,
-          school: schoolName,
-          code,
-          kind: 'new',
-          fields: ROOM_FIELDS.filter((f) => f !== 'code' && fields[f] !== null && fields[f] !== '').map((f) => ({
-            field: f,
-            before: null,
-            after: fields[f] as string | number | null,
-          })),
-        });
-    }
-  }
+      if (Object.keys(changedAfter).length > 0)
+        write = {
+          rowNumber: row.rowNumber,
+          roomId: existingRoom.id,
+          school,
+          block,
+          fields,
+          before: changedBefore,
+          after: changedAfter,
+        };
+    } else write = { rowNumber: row.rowNumber, roomId: null, school, block, fields, before: null, after: fields };
+    if (write) options.onRoomWrite?.(write);
+    return { code, sk, existingSchool, existingRoom, blockKey, existingBlock, repeats, said, fields, write, blanks };
+  };
 
-  const newSchools: ImportPlan['newSchools'] = [];
-  const schoolChanges: ImportPlan['schoolChanges'] = [];
-  for (const sk of acceptedSchools) {
-    const existing = schoolsByKey.get(sk);
-    const phase = phaseOf.get(sk)?.phase;
-    const heating = schoolHeatingOf.get(sk) ?? {};
-    if (!existing) {
-      const school = described.get(sk);
-      if (school) newSchools.push({ ...school, ...heating });
-    } else {
-      const before: Record<string, string | number | null> = {};
-      const after: Record<string, string | number | null> = {};
-      if (phase && phase !== existing.phase) {
-        before.phase = existing.phase;
-        after.phase = phase;
+  const rows: ParsedRow[] = [];
+  const roomOfRow: (RoomOfRow | null)[] = [];
+  return {
+    add(row) {
+      rows.push(row);
+      checkEstateValues(row);
+      noteSchoolAndBlock(row);
+      roomOfRow.push(workOutRoom(row));
+    },
+    finish(read) {
+      // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits
+      // its fuel; a block without its own fuel burns the school's). Where it does not, the file's fuel and efficiency are
+      // not applied and the rows that carry them are refused.
+      const schoolHeatingProblem = new Map<string, string>();
+      const schoolFuelAfter = new Map<string, string>();
+      for (const [sk, heating] of schoolHeatingOf) {
+        const existing = schoolsByKey.get(sk);
+        const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? 'gas';
+        const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+        if (problem) {
+          schoolHeatingProblem.set(sk, problem);
+          delete heating.heatingFuel;
+          delete heating.heatingEfficiency;
+        }
+        schoolFuelAfter.set(sk, heating.heatingFuel ?? existing?.heatingFuel ?? 'gas');
       }
-      for (const [, key] of SCHOOL_HEATING_COLUMNS) {
-        const v = heating[key];
-        if (v !== undefined && !sameValue(v, existing[key] ?? null)) {
-          before[key] = existing[key] ?? null;
-          after[key] = v;
+      const blockHeatingProblem = new Map<string, string>();
+      for (const [bk, heating] of blockHeatingOf) {
+        const sk = bk.slice(0, bk.indexOf('|'));
+        const school = schoolsByKey.get(sk);
+        const existing = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
+        const fuel = heating.heatingFuel ?? existing?.heatingFuel ?? schoolFuelAfter.get(sk) ?? 'gas';
+        const problem = efficiencyProblem(fuel, heating.heatingEfficiency ?? existing?.heatingEfficiency ?? null);
+        if (problem) {
+          blockHeatingProblem.set(bk, problem);
+          delete heating.heatingFuel;
+          delete heating.heatingEfficiency;
         }
       }
-      if (Object.keys(after).length) schoolChanges.push({ id: existing.id, name: existing.name, before, after });
-    }
-  }
-  const newBlocks: ImportPlan['newBlocks'] = [];
-  for (const bk of acceptedBlocks) {
-    const [sk = ''] = bk.split('|');
-    const existingSchool = schoolsByKey.get(sk);
-    const attrs = blockAttrs.get(bk);
-    newBlocks.push({
-      key: bk,
-      school: existingSchool ? { id: existingSchool.id } : { newKey: sk },
-      name: attrs?.name ?? bk,
-      yearBuilt: attrs?.yearBuilt ?? null,
-      airPermeabilityM3hM2: attrs?.airPermeabilityM3hM2 ?? null,
-      ...(blockHeatingOf.get(bk) ?? {}),
-    });
-  }
-  const blockChanges: ImportPlan['blockChanges'] = [];
-  for (const [bk, attrs] of blockAttrs) {
-    const [sk = ''] = bk.split('|');
-    const school = schoolsByKey.get(sk);
-    const block = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
-    if (!block || !acceptedSchools.has(sk)) continue;
-    const before: Record<string, string | number | null> = {};
-    const after: Record<string, string | number | null> = {};
-    const bh = blockHeatingOf.get(bk) ?? {};
-    for (const [, key] of BLOCK_HEATING_COLUMNS) {
-      const v = bh[key];
-      if (v !== undefined && !sameValue(v, block[key] ?? null)) {
-        before[key] = block[key] ?? null;
-        after[key] = v;
+      const carried = (row: ParsedRow, field: RegisterField) =>
+        row.values[field] !== null && row.values[field] !== undefined;
+
+      // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
+      const writes: RoomWrite[] = [];
+      const acceptedSchools = new Set<string>();
+      const acceptedBlocks = new Set<string>();
+      const warnedNewSchool = new Set<string>();
+      const rejectedRows: RejectedRow[] = [];
+      let rejected = 0;
+      // A rejected row's cells as read; what to fix in it is filled in from its errors once every problem is known.
+      const rejectedRow = (row: ParsedRow): RejectedRow => ({
+        row: row.rowNumber,
+        cells: (row.cells ?? []).map(plainCell),
+        fixes: [],
+      });
+      // Each school the file creates is described once: phase and region from the file, the person, the name or postcode.
+      const described = new Map<string, NewSchool>();
+      const describeNewSchool = (sk: string, name: string): NewSchool => {
+        let found = described.get(sk);
+        if (found) return found;
+        const choice = choices[sk] ?? {};
+        const fromFile = phaseOf.get(sk)?.phase;
+        const fromName = phaseFromName(name);
+        const postcode = postcodeOf.get(sk) ?? null;
+        const fromPostcode = regionFromPostcode(postcode ?? name);
+        const defaultPhase = estate.defaultPhase ?? 'primary';
+        const rows = rowsOfSchool.get(sk) ?? { first: 0, count: 0 };
+        found = {
+          key: sk,
+          name,
+          ...(fromFile
+            ? { phase: fromFile, phaseSource: 'file', phaseReason: 'the file’s phase column' }
+            : choice.phase
+              ? { phase: choice.phase, phaseSource: 'chosen', phaseReason: 'chosen in the preview' }
+              : fromName
+                ? { phase: fromName.phase, phaseSource: 'name', phaseReason: `the name says “${fromName.because}”` }
+                : { phase: defaultPhase, phaseSource: 'default', phaseReason: 'not known: the trust’s usual phase' }),
+          ...(choice.climateRegion
+            ? { climateRegion: choice.climateRegion, regionSource: 'chosen', regionReason: 'chosen in the preview' }
+            : fromPostcode
+              ? {
+                  climateRegion: fromPostcode.climateRegion,
+                  regionSource: 'postcode',
+                  regionReason: `postcode area ${fromPostcode.area}`,
+                }
+              : {
+                  climateRegion: estate.defaultClimateRegion,
+                  regionSource: 'default',
+                  regionReason: 'not known: the trust’s usual region',
+                }),
+          postcode,
+          firstRow: rows.first,
+          rowCount: rows.count,
+          ...(schoolHeatingOf.get(sk) ?? {}),
+        };
+        described.set(sk, found);
+        return found;
+      };
+      let unchanged = 0;
+
+      for (let i = 0; i < rows.length; i++) {
+        const row = rows[i] as ParsedRow;
+        const room = roomOfRow[i];
+        let hasError = row.problems.some((p) => p.severity === 'error') || refusedRows.has(row.rowNumber);
+        problems.push(...row.problems);
+        const error = (field: RegisterField, message: string) => {
+          problem(row, field, 'error', message);
+          hasError = true;
+        };
+        if (!room) {
+          if (typeof row.values.school !== 'string' || !row.values.school)
+            error('school', 'The school is missing; every room must name its school.');
+          if (!codeOf(row))
+            error('code', 'The room code is missing; every room needs a code that is unique within its school.');
+          rejected++;
+          rejectedRows.push(rejectedRow(row));
+          continue;
+        }
+        const { code, sk, existingSchool, existingRoom, blockKey, existingBlock } = room;
+        const schoolName = row.values.school as string;
+        const phase =
+          phaseOf.get(sk)?.phase ??
+          existingSchool?.phase ??
+          (estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName).phase : null);
+        const schoolHeating = schoolHeatingProblem.get(sk);
+        if (schoolHeating && carried(row, 'schoolHeatingEfficiency')) error('schoolHeatingEfficiency', schoolHeating);
+        else if (schoolHeating && carried(row, 'schoolHeatingFuel')) error('schoolHeatingFuel', schoolHeating);
+        const blockHeating = blockKey ? blockHeatingProblem.get(blockKey) : undefined;
+        if (blockHeating && carried(row, 'blockHeatingEfficiency')) error('blockHeatingEfficiency', blockHeating);
+        else if (blockHeating && carried(row, 'blockHeatingFuel')) error('blockHeatingFuel', blockHeating);
+        if (!existingSchool && estate.canCreateSchools === false)
+          error(
+            'school',
+            `"${schoolName}" is not one of the schools your membership covers; rooms can only be imported into those schools.`,
+          );
+        const newSchool =
+          !existingSchool && estate.canCreateSchools !== false ? describeNewSchool(sk, schoolName) : null;
+        if (newSchool && !warnedNewSchool.has(sk)) {
+          // Said once per school, on its first row: never an error, so the school's rooms still import.
+          warnedNewSchool.add(sk);
+          const guessed = [
+            newSchool.phaseSource === 'default' ? `phase set to ${label(newSchool.phase)}` : null,
+            newSchool.regionSource === 'default' ? `climate region set to ${label(newSchool.climateRegion)}` : null,
+          ].filter(Boolean);
+          if (guessed.length > 0)
+            problem(
+              row,
+              newSchool.phaseSource === 'default' ? 'schoolPhase' : 'school',
+              'warning',
+              `"${schoolName}" is a new school and the file does not say its ${newSchool.phaseSource === 'default' ? 'phase' : 'region'}${newSchool.phaseSource === 'default' && newSchool.regionSource === 'default' ? ' or region' : ''}: ${guessed.join(' and ')} (the trust's usual). Choose in the new schools list before importing, or change it later on the school's page.`,
+            );
+        }
+        if (room.repeats !== undefined)
+          error(
+            'code',
+            `Room code "${code}" appears again for ${schoolName} (first on row ${room.repeats}); room codes must be unique within a school.`,
+          );
+
+        for (const s of room.said) {
+          if (s.severity === 'error') error(s.field, s.message);
+          else problem(row, s.field, 'warning', s.message);
+        }
+        if (hasError || !room.fields) {
+          rejected++;
+          rejectedRows.push(rejectedRow(row));
+          // A rejected row keeps its problems; nothing of it is written.
+          continue;
+        }
+        // Said only of rows that import: a rejected row's errors are what to fix first.
+        for (const f of room.blanks) {
+          if (f !== 'ageGroup')
+            problem(
+              row,
+              f,
+              'warning',
+              `${columnOf(f).header} blank: stored as unknown; assessments assume a value and say so.`,
+            );
+          else if (ageGroupForPhase(phase) === null && has('ageGroup'))
+            problem(row, 'ageGroup', 'warning', 'Age group blank: assessments take it from the school phase.');
+        }
+        const { fields, write } = room;
+        acceptedSchools.add(sk);
+        if (blockKey && !existingBlock) acceptedBlocks.add(blockKey);
+
+        if (existingRoom) {
+          // The room's own fields that change (a change of block is a write, but not listed here).
+          const changedBefore = (write?.before ?? {}) as Record<string, unknown>;
+          const changedAfter = (write?.after ?? {}) as Record<string, unknown>;
+          const changed = Object.keys(changedAfter).filter((field) => field !== 'blockId');
+          if (changed.length > 0 && roomChanges.length < MAX_ROOM_CHANGES_LISTED)
+            roomChanges.push({
+              row: row.rowNumber,
+              school: schoolName,
+              code,
+              kind: 'changed',
+              fields: changed.map((field) => ({
+                field,
+                before: (changedBefore[field] ?? null) as string | number | null,
+                after: (changedAfter[field] ?? null) as string | number | null,
+              })),
+            });
+          if (!write) {
+            unchanged++;
+            continue;
+          }
+          writes.push(write);
+        } else {
+          writes.push(write as RoomWrite);
+          if (roomChanges.length < MAX_ROOM_CHANGES_LISTED)
+            roomChanges.push({
+              row: row.rowNumber,
+              school: schoolName,
+              code,
+              kind: 'new',
+              fields: ROOM_FIELDS.filter((f) => f !== 'code' && fields[f] !== null && fields[f] !== '').map((f) => ({
+                field: f,
+                before: null,
+                after: fields[f] as string | number | null,
+              })),
+            });
+        }
       }
-    }
-    if (has('yearBuilt') && attrs.yearBuilt !== null && attrs.yearBuilt !== block.yearBuilt) {
-      before.yearBuilt = block.yearBuilt;
-      after.yearBuilt = attrs.yearBuilt;
-    }
-    if (
-      has('airPermeabilityM3hM2') &&
-      attrs.airPermeabilityM3hM2 !== null &&
-      !sameValue(attrs.airPermeabilityM3hM2, block.airPermeabilityM3hM2)
-    ) {
-      before.airPermeabilityM3hM2 = block.airPermeabilityM3hM2;
-      after.airPermeabilityM3hM2 = attrs.airPermeabilityM3hM2;
-    }
-    if (Object.keys(after).length) blockChanges.push({ id: block.id, name: block.name, before, after });
-  }
 
-  const schoolIdsInFile = new Set([...schoolNameOf.keys()].map((sk) => schoolsByKey.get(sk)?.id).filter(Boolean));
-  const schoolNames = new Map(estate.schools.map((s) => [s.id, s.name]));
-  const missingRooms = estate.rooms
-    .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.get(r.schoolId)?.has(r.fields.code))
-    .map((r) => ({
-      id: r.id,
-      schoolName: schoolNames.get(r.schoolId) ?? '',
-      code: r.fields.code,
-      name: r.fields.name,
-    }));
+      const newSchools: ImportPlan['newSchools'] = [];
+      const schoolChanges: ImportPlan['schoolChanges'] = [];
+      for (const sk of acceptedSchools) {
+        const existing = schoolsByKey.get(sk);
+        const phase = phaseOf.get(sk)?.phase;
+        const heating = schoolHeatingOf.get(sk) ?? {};
+        if (!existing) {
+          const school = described.get(sk);
+          if (school) newSchools.push({ ...school, ...heating });
+        } else {
+          const before: Record<string, string | number | null> = {};
+          const after: Record<string, string | number | null> = {};
+          if (phase && phase !== existing.phase) {
+            before.phase = existing.phase;
+            after.phase = phase;
+          }
+          for (const [, key] of SCHOOL_HEATING_COLUMNS) {
+            const v = heating[key];
+            if (v !== undefined && !sameValue(v, existing[key] ?? null)) {
+              before[key] = existing[key] ?? null;
+              after[key] = v;
+            }
+          }
+          if (Object.keys(after).length) schoolChanges.push({ id: existing.id, name: existing.name, before, after });
+        }
+      }
+      const newBlocks: ImportPlan['newBlocks'] = [];
+      for (const bk of acceptedBlocks) {
+        const [sk = ''] = bk.split('|');
+        const existingSchool = schoolsByKey.get(sk);
+        const attrs = blockAttrs.get(bk);
+        newBlocks.push({
+          key: bk,
+          school: existingSchool ? { id: existingSchool.id } : { newKey: sk },
+          name: attrs?.name ?? bk,
+          yearBuilt: attrs?.yearBuilt ?? null,
+          airPermeabilityM3hM2: attrs?.airPermeabilityM3hM2 ?? null,
+          ...(blockHeatingOf.get(bk) ?? {}),
+        });
+      }
+      const blockChanges: ImportPlan['blockChanges'] = [];
+      for (const [bk, attrs] of blockAttrs) {
+        const [sk = ''] = bk.split('|');
+        const school = schoolsByKey.get(sk);
+        const block = school ? blocksByKey.get(`${school.id}|${bk.slice(sk.length + 1)}`) : undefined;
+        if (!block || !acceptedSchools.has(sk)) continue;
+        const before: Record<string, string | number | null> = {};
+        const after: Record<string, string | number | null> = {};
+        const bh = blockHeatingOf.get(bk) ?? {};
+        for (const [, key] of BLOCK_HEATING_COLUMNS) {
+          const v = bh[key];
+          if (v !== undefined && !sameValue(v, block[key] ?? null)) {
+            before[key] = block[key] ?? null;
+            after[key] = v;
+          }
+        }
+        if (has('yearBuilt') && attrs.yearBuilt !== null && attrs.yearBuilt !== block.yearBuilt) {
+          before.yearBuilt = block.yearBuilt;
+          after.yearBuilt = attrs.yearBuilt;
+        }
+        if (
+          has('airPermeabilityM3hM2') &&
+          attrs.airPermeabilityM3hM2 !== null &&
+          !sameValue(attrs.airPermeabilityM3hM2, block.airPermeabilityM3hM2)
+        ) {
+          before.airPermeabilityM3hM2 = block.airPermeabilityM3hM2;
+          after.airPermeabilityM3hM2 = attrs.airPermeabilityM3hM2;
+        }
+        if (Object.keys(after).length) blockChanges.push({ id: block.id, name: block.name, before, after });
+      }
 
-  for (const note of read.notes ?? [])
-    problems.push({
-      row: note.rowNumber,
-      column: '',
-      columnLetter: null,
-      value: note.text.slice(0, 200),
-      severity: 'warning',
-      message: 'Not a room (a note or heading, one text and nothing else): skipped.',
-    });
-  problems.sort((a, b) => a.row - b.row);
-  const fixesOf = new Map(rejectedRows.map((r) => [r.row, r.fixes]));
-  for (const p of problems) if (p.severity === 'error') fixesOf.get(p.row)?.push(p.message);
-  const shown = groupRepeatedWarnings(problems);
-  return {
-    newSchools,
-    newBlocks,
-    schoolChanges,
-    blockChanges,
-    roomWrites: writes,
-    roomChanges,
-    missingRooms,
-    problems: shown,
-    rejectedRows,
-    summary: {
-      rowsRead: read.rows.length + read.skipped,
-      rowsSkipped: read.skipped,
-      rowsRejected: rejected,
-      schoolsToCreate: newSchools.length,
-      blocksToCreate: newBlocks.length,
-      schoolsToChange: schoolChanges.length,
-      blocksToChange: blockChanges.length,
-      roomsToCreate: writes.filter((w) => !w.roomId).length,
-      roomsToChange: writes.filter((w) => w.roomId).length,
-      roomsUnchanged: unchanged,
-      roomsMissing: missingRooms.length,
-      errors: shown.filter((p) => p.severity === 'error').length,
-      warnings: shown.filter((p) => p.severity === 'warning').length,
+      const schoolIdsInFile = new Set([...schoolNameOf.keys()].map((sk) => schoolsByKey.get(sk)?.id).filter(Boolean));
+      const schoolNames = new Map(estate.schools.map((s) => [s.id, s.name]));
+      const missingRooms = estate.rooms
+        .filter((r) => schoolIdsInFile.has(r.schoolId) && !codesInFile.get(r.schoolId)?.has(r.fields.code))
+        .map((r) => ({
+          id: r.id,
+          schoolName: schoolNames.get(r.schoolId) ?? '',
+          code: r.fields.code,
+          name: r.fields.name,
+        }));
+
+      for (const note of read.notes ?? [])
+        problems.push({
+          row: note.rowNumber,
+          column: '',
+          columnLetter: null,
+          value: note.text.slice(0, 200),
+          severity: 'warning',
+          message: 'Not a room (a note or heading, one text and nothing else): skipped.',
+        });
+      problems.sort((a, b) => a.row - b.row);
+      const fixesOf = new Map(rejectedRows.map((r) => [r.row, r.fixes]));
+      for (const p of problems) if (p.severity === 'error') fixesOf.get(p.row)?.push(p.message);
+      const shown = groupRepeatedWarnings(problems);
+      return {
+        newSchools,
+        newBlocks,
+        schoolChanges,
+        blockChanges,
+        roomWrites: writes,
+        roomChanges,
+        missingRooms,
+        problems: shown,
+        rejectedRows,
+        summary: {
+          rowsRead: rows.length + read.skipped,
+          rowsSkipped: read.skipped,
+          rowsRejected: rejected,
+          schoolsToCreate: newSchools.length,
+          blocksToCreate: newBlocks.length,
+          schoolsToChange: schoolChanges.length,
+          blocksToChange: blockChanges.length,
+          roomsToCreate: writes.filter((w) => !w.roomId).length,
+          roomsToChange: writes.filter((w) => w.roomId).length,
+          roomsUnchanged: unchanged,
+          roomsMissing: missingRooms.length,
+          errors: shown.filter((p) => p.severity === 'error').length,
+          warnings: shown.filter((p) => p.severity === 'warning').length,
+        },
+      };
     },
   };
 }

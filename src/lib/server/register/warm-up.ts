@@ -6,7 +6,8 @@
 import ExcelJS from 'exceljs';
 import { label } from '../../engine/vocabulary';
 import { REGISTER_COLUMNS, type RegisterColumn } from './columns';
-import { analyseUpload } from './analyse';
+import { analyseSheets } from './analyse';
+import { readXlsx, type SheetStream } from './reader';
 import type { EstateSnapshot } from './plan';
 
 /** Rows of the warm-up register: enough for the reader's code to be compiled with what a register holds. */
@@ -73,7 +74,12 @@ export async function warmUpWorkbook(rows = WARM_UP_ROWS): Promise<Buffer> {
 /** The estate the warm-up register is planned against: none yet, so every row is a new room. */
 export const WARM_UP_ESTATE: EstateSnapshot = { schools: [], blocks: [], rooms: [], defaultClimateRegion: 'midlands' };
 
-/** Reads, checks and plans the warm-up register against an empty estate, as a preview would; the result is dropped. */
-export async function warmUpReader(): Promise<void> {
-  await analyseUpload(await warmUpWorkbook(), 'xlsx', new Map(), {}, WARM_UP_ESTATE);
+/**
+ * Reads, checks and plans the warm-up register against an empty estate, as a preview would; the result is dropped.
+ * `read` reads the workbook's sheets: in this thread, or in the sheet reader's (parse-worker.ts).
+ */
+export async function warmUpReader(
+  read: (bytes: Buffer) => AsyncIterable<SheetStream> = (bytes) => readXlsx(bytes),
+): Promise<void> {
+  await analyseSheets(read(await warmUpWorkbook()), new Map(), {}, WARM_UP_ESTATE);
 }
