@@ -167,9 +167,6 @@ export async function analyseSheets(
   });
   mark('read and check cells');
   if (!plan) throw new Error('The register was read without its rows being planned');
-  // Rows were added to the plan as they were read; the read rows are not needed past here, and letting them go keeps
-  // peak memory down on big files.
-  file.read.rows = [];
   const finished = plan.finish(file.read);
   plan = undefined;
   mark('compare with the estate');

@@ -31,7 +31,8 @@ export function readRegisterFile(
 
 /**
  * readRegisterFile over sheets as they are read (reader.ts, or another thread's reading: parse-worker.ts). Once the
- * header is found, `startRows` is asked for what takes each data row the moment it is read (e.g. startPlan's `add`).
+ * header is found, `startRows` is asked for what takes each data row the moment it is read (e.g. startPlan's `add`);
+ * the rows then go to it alone, and `read.rows` stays empty.
  */
 export async function readRegisterSheets(
   sheets: AsyncIterable<SheetStream>,
@@ -80,8 +81,9 @@ export async function readRegisterSheets(
         return;
       }
       const parsed = parseRow(row.rowNumber, row.values, compiled);
-      rows.push(parsed);
-      onRow?.(parsed);
+      // Rows given to `startRows`'s taker are its to keep.
+      if (onRow) onRow(parsed);
+      else rows.push(parsed);
     };
     for (const row of head) take(row);
     for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);

@@ -294,6 +294,12 @@ interface RoomOfRow {
   blanks: ('use' | 'pupils' | 'ventilationType' | 'ageGroup')[];
 }
 
+/** The register columns of a school's or block's heating: a file's heating can refuse every row that carries it. */
+const HEATING_COLUMNS = [
+  ...SCHOOL_HEATING_COLUMNS.map(([column]) => column),
+  ...BLOCK_HEATING_COLUMNS.map(([column]) => column),
+];
+
 /** A new room's fields that, left blank, are said as warnings if it imports (age group only where the phase does not say). */
 const BLANK_WARNED = ['use', 'pupils', 'ventilationType', 'ageGroup'] as const;
 const NO_BLANKS: RoomOfRow['blanks'] = [];
@@ -613,7 +619,20 @@ export function startPlan(
       rows.push(row);
       checkEstateValues(row);
       noteSchoolAndBlock(row);
-      roomOfRow.push(workOutRoom(row));
+      const room = workOutRoom(row);
+      roomOfRow.push(room);
+      // A row's cells as read are kept for the rejected-rows workbook. A row that imports whatever the other rows hold
+      // (only a school's or block's heating, which this row does not carry, could still refuse it) lets them go.
+      if (
+        room?.fields &&
+        room.repeats === undefined &&
+        (room.existingSchool || estate.canCreateSchools !== false) &&
+        !refusedRows.has(row.rowNumber) &&
+        !room.said.some((p) => p.severity === 'error') &&
+        !row.problems.some((p) => p.severity === 'error') &&
+        !HEATING_COLUMNS.some((field) => row.values[field] !== null && row.values[field] !== undefined)
+      )
+        row.cells = undefined;
     },
     finish(read) {
       // The heating the file would leave each school and block with must pass the editors' rule (an efficiency that fits

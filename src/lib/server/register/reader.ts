@@ -24,6 +24,12 @@ export interface SheetRow {
 export interface SheetStream {
   name: string;
   rows: AsyncIterable<SheetRow>;
+  /**
+   * The same rows in the batches the reader finds them in (an .xlsx only), for a consumer that takes them in bulk (the
+   * sheet reader thread, sheet-channel.ts): one wait per batch instead of one per row. A sheet is read by `rows` or by
+   * `batches`, not both.
+   */
+  batches?: AsyncIterable<SheetRow[]>;
 }
 
 export const tooManyRows = () =>
@@ -67,6 +73,9 @@ class MergeFiller {
   }
 }
 
+/** A piece of a worksheet as exceljs parses it: its events, rows among them. */
+type SheetEvents = { eventType: string; value: unknown }[];
+
 /**
  * Streams the worksheets of an .xlsx (exceljs's streaming reader, cached shared strings and styles). `maxRows`
  * (a register's MAX_ROWS unless given) refuses longer sheets with `tooMany`.
@@ -87,10 +96,7 @@ export async function* readXlsx(
   });
   try {
     for await (const worksheet of reader) {
-      const ws = worksheet as unknown as { id: number; name?: string } & AsyncIterable<{
-        number: number;
-        values: unknown[];
-      }>;
+      const ws = worksheet as unknown as { id: number; name?: string; parse(): AsyncIterable<SheetEvents> };
       // Before the workbook part is read, exceljs numbers a sheet by its part (sheet<N>.xml) and calls it "Sheet<N>";
       // after, it gives the workbook's sheet id and name. Either way the part, and so the sheet's own name, is known.
       const workbookRead = (reader as unknown as { model?: unknown }).model !== undefined;
@@ -99,36 +105,49 @@ export async function* readXlsx(
       const sheetName = facts.sheetNames.get(part)?.name ?? ws.name ?? `Sheet ${ws.id}`;
       const merges = facts.sheets.get(part)?.merges ?? [];
       const filler = merges.length ? new MergeFiller(merges) : null;
-      async function* rows(): AsyncGenerator<SheetRow> {
+      // exceljs's worksheet reader gives the rows of each piece of the sheet it parses as one batch of events; its own
+      // row iterator waits once per row on top of that.
+      const pieces = ws.parse();
+      async function* batches(): AsyncGenerator<SheetRow[]> {
         let previous = 0;
         try {
-          for await (const row of ws) {
-            // Row numbers come from the file: each must be a sheet row after the one before.
-            if (!Number.isInteger(row.number) || row.number <= previous || row.number > LAST_SHEET_ROW)
-              throw badRequest(
-                `The sheet "${sheetName}" lists its rows out of order or with impossible row numbers (after row ${previous}), so the file is damaged. Open it in your spreadsheet program, save it again as .xlsx and retry.`,
-              );
-            if (row.number > maxRows + 50) throw tooMany();
-            previous = row.number;
-            // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
-            // shifted down in place rather than copied.
-            const values = row.values as CellValue[];
-            const length = Math.min(values.length, MAX_COLUMNS + 1);
-            for (let i = 1; i < length; i++) {
-              const value = plainCellValue(values[i]);
-              if (typeof value === 'string' && value.includes('\u0000')) throw nulInRow(row.number);
-              values[i - 1] = value;
+          for await (const events of pieces) {
+            const batch: SheetRow[] = [];
+            for (const event of events) {
+              if (event.eventType !== 'row') continue;
+              const row = event.value as { number: number; values: unknown[] };
+              // Row numbers come from the file: each must be a sheet row after the one before.
+              if (!Number.isInteger(row.number) || row.number <= previous || row.number > LAST_SHEET_ROW)
+                throw badRequest(
+                  `The sheet "${sheetName}" lists its rows out of order or with impossible row numbers (after row ${previous}), so the file is damaged. Open it in your spreadsheet program, save it again as .xlsx and retry.`,
+                );
+              if (row.number > maxRows + 50) throw tooMany();
+              previous = row.number;
+              // exceljs row.values is 1-based (index 0 unused) and a fresh array each time; it is
+              // shifted down in place rather than copied.
+              const values = row.values as CellValue[];
+              const length = Math.min(values.length, MAX_COLUMNS + 1);
+              for (let i = 1; i < length; i++) {
+                const value = plainCellValue(values[i]);
+                if (typeof value === 'string' && value.includes('\u0000')) throw nulInRow(row.number);
+                values[i - 1] = value;
+              }
+              if (length > 0) values.length = length - 1;
+              const sheetRow = { rowNumber: row.number, values };
+              filler?.fill(sheetRow);
+              batch.push(sheetRow);
             }
-            if (length > 0) values.length = length - 1;
-            const sheetRow = { rowNumber: row.number, values };
-            filler?.fill(sheetRow);
-            yield sheetRow;
+            if (batch.length > 0) yield batch;
           }
         } catch (error) {
           throw unreadable(error);
         }
       }
-      yield { name: sheetName, rows: rows() };
+      const inBatches = batches();
+      async function* rows(): AsyncGenerator<SheetRow> {
+        for await (const batch of inBatches) yield* batch;
+      }
+      yield { name: sheetName, rows: rows(), batches: inBatches };
     }
   } catch (error) {
     throw unreadable(error);

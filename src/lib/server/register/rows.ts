@@ -40,8 +40,8 @@ export interface ParsedRow {
   /** null: the cell is blank; undefined: it could not be read (or its value was refused). */
   values: Partial<Record<RegisterField, string | number | null | undefined>>;
   problems: ImportProblem[];
-  /** Every cell of the row as read (kept for the rejected-rows workbook). */
-  cells?: CellValue[];
+  /** Every cell of the row as read (kept for the rejected-rows workbook; let go once the row is sure to import). */
+  cells?: CellValue[] | undefined;
 }
 
 /** What a row is: nothing, a total line to skip, a note or heading to skip, or a room. */

@@ -91,8 +91,8 @@ export function serveSheets(
       for await (const sheet of read(Buffer.from(bytes))) {
         port.postMessage({ id, sheet: sheet.name } satisfies FromSheetReader);
         let batch: (number | CellValue[])[] = [];
-        for await (const row of sheet.rows) {
-          batch.push(row.rowNumber, row.values);
+        for await (const rows of sheet.batches ?? oneByOne(sheet.rows)) {
+          for (const row of rows) batch.push(row.rowNumber, row.values);
           if (batch.length < 2 * ROWS_PER_BATCH) continue;
           await send(id, batch);
           batch = [];
@@ -121,6 +121,11 @@ export function serveSheets(
       resume();
     }
   });
+}
+
+/** Rows one at a time, as batches of one. */
+async function* oneByOne(rows: AsyncIterable<SheetRow>): AsyncGenerator<SheetRow[]> {
+  for await (const row of rows) yield [row];
 }
 
 /** Messages in arrival order, taken one at a time. */
