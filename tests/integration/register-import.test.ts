@@ -203,10 +203,13 @@ describe('importing a register through the API', () => {
     const shorter = Buffer.from(await wb.xlsx.writeBuffer());
     const before = await estateState(admin.trustId);
     const first = await upload(admin.cookie, 'shorter.xlsx', shorter);
+    // The message says why, if the upload is refused.
+    expect(first.status, `shorter.xlsx: ${JSON.stringify(first.body.error ?? null)}`).toBe(201);
     expect(first.body.missingRooms).toEqual([expect.objectContaining({ code: removedCode })]);
     await commit(admin.cookie, first.body.id, { rows: 'valid', deleteMissing: false });
     expect((await estateState(admin.trustId)).rooms).toHaveLength(before.rooms.length);
     const second = await upload(admin.cookie, 'shorter.xlsx', shorter);
+    expect(second.status, `shorter.xlsx again: ${JSON.stringify(second.body.error ?? null)}`).toBe(201);
     const done = await commit(admin.cookie, second.body.id, { rows: 'valid', deleteMissing: true });
     expect(done.status, JSON.stringify(done.body)).toBe(200);
     expect(done.body.outcome.roomsDeleted).toBe(1);
