@@ -123,6 +123,31 @@ describe('sheets read in another thread', () => {
     expect(finishedEarly).toBe(true);
   });
 
+  it('say when the reader has let go of a reading stopped early, only once its source has closed', async () => {
+    // A source whose closing takes a while, as exceljs's does when it has parked a sheet in temporary files: the
+    // reading's folder may go only after that.
+    let closed = false;
+    const client = channel(async function* () {
+      try {
+        yield {
+          name: 'endless',
+          rows: (async function* () {
+            for (let n = 1; ; n++) yield { rowNumber: n, values: [n] };
+          })(),
+        };
+      } finally {
+        await new Promise((resolve) => setTimeout(resolve, 50));
+        closed = true;
+      }
+    });
+    for await (const sheet of client.read(handOver(Buffer.from('x')), null)) {
+      for await (const row of sheet.rows) if (row.rowNumber === 5) break;
+      break;
+    }
+    await client.whenIdle();
+    expect(closed).toBe(true);
+  });
+
   it('fail with the reason when the reader thread is lost', async () => {
     const { port1, port2 } = new MessageChannel();
     ports.push(port1, port2);

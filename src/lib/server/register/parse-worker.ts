@@ -93,7 +93,7 @@ if (role === 'sheet-reader') {
   serveSheets((workerData as { port: MessagePort }).port, (bytes) => readXlsx(bytes), setThreadTempDir);
 } else if (parentPort) {
   const port = parentPort;
-  const sheets = startSheetReader();
+  let sheets = startSheetReader();
   let warming: Promise<void> = Promise.resolve();
   let jobTaken = false;
   port.on('message', (message: ParseJob | WarmUpRequest) => {
@@ -104,6 +104,8 @@ if (role === 'sheet-reader') {
       const tmpDir = message.warmUp.tmpDir;
       warming = warmUpReader((bytes) => sheets.read(ownBuffer(bytes), tmpDir))
         .catch(() => undefined)
+        // The warm-up's folder is removed when this says so: not before the sheet reader has let go of it.
+        .then(() => sheets.whenIdle())
         .then(() => port.postMessage({ warmed: true }));
       return;
     }
@@ -113,6 +115,8 @@ if (role === 'sheet-reader') {
     void warming.then(async () => {
       // The spreadsheet library's temporary files go to this upload's own folder.
       setThreadTempDir(job.tmpDir);
+      // A sheet reader lost while the spare waited is replaced rather than failing the upload.
+      if (sheets.isLost) sheets = startSheetReader();
       const reply = await work(job, sheets);
       const transfer = reply.ok ? [reply.analysis.rowsGz.buffer as ArrayBuffer] : [];
       port.postMessage(reply, transfer);

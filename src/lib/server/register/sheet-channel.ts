@@ -8,6 +8,8 @@
  * - The reader sends at most MAX_BATCHES_AHEAD batches that the analyst has not taken yet: a file read faster than it
  *   is checked waits in the reader, rather than piling up between the threads outside either heap's limit.
  * - An analyst that stops early (it found the register and needs no later sheet) says so, and the reader stops.
+ * - The reader says when it has let go of a reading (`ended`), however it ended: until then exceljs may still be using
+ *   the reading's folder for temporary files, so the folder must not be removed before (SheetReaderClient.whenIdle).
  */
 import type { MessagePort } from 'node:worker_threads';
 import { AppError } from '../http/errors';
@@ -40,6 +42,7 @@ export type FromSheetReader = { id: number } & (
   | { sheetEnd: true }
   | { done: true }
   | { error: PlainError }
+  | { ended: true }
 );
 
 export function plainError(error: unknown): PlainError {
@@ -105,6 +108,8 @@ export function serveSheets(
       port.postMessage({ id, done: true } satisfies FromSheetReader);
     } catch (error) {
       if (!stopped) port.postMessage({ id, error: plainError(error) } satisfies FromSheetReader);
+    } finally {
+      port.postMessage({ id, ended: true } satisfies FromSheetReader);
     }
   }
 
@@ -150,11 +155,31 @@ export class SheetReaderClient {
   private current = 0;
   private inbox = new Inbox<FromSheetReader>();
   private lost: PlainError | null = null;
+  /** The id of the last reading the reader has let go of. */
+  private lastEnded = 0;
+  private idleWaiters: (() => void)[] = [];
 
   constructor(private readonly port: MessagePort) {
     port.on('message', (message: FromSheetReader) => {
-      if (message.id === this.current) this.inbox.push(message);
+      if ('ended' in message) {
+        this.lastEnded = Math.max(this.lastEnded, message.id);
+        if (this.isIdle) for (const wake of this.idleWaiters.splice(0)) wake();
+      } else if (message.id === this.current) this.inbox.push(message);
     });
+  }
+
+  /** True once the reader thread is gone. */
+  get isLost(): boolean {
+    return this.lost !== null;
+  }
+
+  private get isIdle(): boolean {
+    return this.lost !== null || this.lastEnded === this.lastId;
+  }
+
+  /** Resolves once the reader has let go of every reading asked of it (or is gone): its temporary files may then go. */
+  whenIdle(): Promise<void> {
+    return this.isIdle ? Promise.resolve() : new Promise((resolve) => this.idleWaiters.push(resolve));
   }
 
   /** The reader thread is gone (`error` says why): the reading under way and any later one fail with it. */
@@ -162,6 +187,7 @@ export class SheetReaderClient {
     if (this.lost) return;
     this.lost = plainError(error);
     if (this.current) this.inbox.push({ id: this.current, error: this.lost });
+    for (const wake of this.idleWaiters.splice(0)) wake();
   }
 
   /** The sheets of the workbook `bytes` (handed over to the reader), read there with `tmpDir` for temporary files. */
