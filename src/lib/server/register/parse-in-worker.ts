@@ -2,7 +2,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
-import { AppError, badRequest } from '../http/errors';
+import { badRequest } from '../http/errors';
 import { FILE_READ_SLOTS, findBuiltWorker, READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
 import { analyseUpload, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
@@ -10,6 +10,7 @@ import type { SavedMappings } from './headers';
 import type { EstateSnapshot } from './plan';
 import { sweepStaleFolders, UPLOAD_FOLDER, WARM_UP_FOLDER } from './temp-folders';
 import type { ImportOptions } from './register.schemas';
+import { errorFromPlain, type PlainError } from './sheet-channel';
 
 /** The file the build emits for parse-worker.ts (see astro.config.mjs). */
 const WORKER_FILE = 'register-parse-worker.mjs';
@@ -41,9 +42,7 @@ export interface ParseJob {
 }
 
 /** What a worker answers: the analysis, or the error as plain data. */
-export type ParseReply =
-  | { ok: true; analysis: UploadAnalysis }
-  | { ok: false; error: { status?: number; code?: string; message: string; details?: unknown } };
+export type ParseReply = { ok: true; analysis: UploadAnalysis } | { ok: false; error: PlainError };
 
 /** Asks a spare to read our own small register first (warm-up.ts), with a folder for its temporary files. */
 export interface WarmUpRequest {
@@ -163,11 +162,8 @@ function runWorker(url: URL, job: ParseJob): { outcome: Promise<UploadAnalysis>;
       settle(() => {
         if (reply.ok) return resolve({ ...reply.analysis, rowsGz: Buffer.from(reply.analysis.rowsGz) });
         const e = reply.error;
-        reject(
-          e.status
-            ? new AppError(e.status, e.code ?? 'bad_request', e.message, e.details ?? null)
-            : badRequest(e.message),
-        );
+        // An error we did not expect is still about the file: a 400 that says what went wrong.
+        reject(e.status ? errorFromPlain(e) : badRequest(e.message));
       });
     });
     worker.once('error', (error: Error & { code?: string }) =>

@@ -11,7 +11,7 @@
  */
 import { MessageChannel, type MessagePort, parentPort, Worker, workerData } from 'node:worker_threads';
 import { setThreadTempDir } from '../config';
-import { AppError, badRequest } from '../http/errors';
+import { badRequest } from '../http/errors';
 import { READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
 import { analyseSheets, analyseUpload } from './analyse';
 import {
@@ -22,7 +22,7 @@ import {
   type WarmUpRequest,
 } from './parse-in-worker';
 import { readXlsx } from './reader';
-import { serveSheets, SheetReaderClient } from './sheet-channel';
+import { plainError, serveSheets, SheetReaderClient } from './sheet-channel';
 import { warmUpReader } from './warm-up';
 
 /** Starts the sheet reader thread, and the client that asks it for readings. */
@@ -78,12 +78,7 @@ async function work(job: ParseJob, sheets: SheetReaderClient): Promise<ParseRepl
         : await analyseUpload(Buffer.from(job.bytes), job.kind, saved, job.options, job.snapshot, mark);
     return { ok: true, analysis };
   } catch (error) {
-    if (error instanceof AppError)
-      return {
-        ok: false,
-        error: { status: error.status, code: error.code, message: error.message, details: error.details },
-      };
-    return { ok: false, error: { message: error instanceof Error ? error.message : String(error) } };
+    return { ok: false, error: plainError(error) };
   }
 }
 
