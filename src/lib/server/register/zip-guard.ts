@@ -11,6 +11,8 @@ interface ZipEntry {
   uncompressedSize: number;
   localOffset: number;
   dataStart: number;
+  /** Where the part's record in the table of contents starts. */
+  dirRecord: number;
 }
 
 /** Largest size any one part of a workbook may unpack to; a real 200,000-row sheet stays well under it. */
@@ -84,7 +86,7 @@ function readCentralDirectory(buf: Buffer): { entries: ZipEntry[]; dirOffset: nu
     const dataStart = localOffset + 30 + buf.readUInt16LE(localOffset + 26) + buf.readUInt16LE(localOffset + 28);
     if (dataStart + compressedSize > buf.length)
       throw notXlsx(`it seems to be cut short (the part "${name}" runs past the end of the file)`);
-    entries.push({ name, method, flags, crc, compressedSize, uncompressedSize, localOffset, dataStart });
+    entries.push({ name, method, flags, crc, compressedSize, uncompressedSize, localOffset, dataStart, dirRecord: p });
     p += 46 + nameLength + extraLength + commentLength;
   }
   return { entries, dirOffset };
@@ -156,6 +158,14 @@ export interface WorkbookFacts {
   sheets: Map<string, { merges: MergedRange[]; lastRow: number | null }>;
   /** Each worksheet part's own name and sheet id as the workbook lists them ("xl/worksheets/sheet1.xml" → "Rooms"). */
   sheetNames: Map<string, { name: string; sheetId: number }>;
+  /** Where each part lies in the file, as checked: the parts one after another, then the table of contents. */
+  layout: ZipLayout;
+}
+
+/** A checked zip's parts in file order: each part's name, its bytes [start, end) and its table-of-contents record. */
+export interface ZipLayout {
+  parts: { name: string; start: number; end: number; dirRecord: number }[];
+  dirOffset: number;
 }
 
 /** Reads a small XML part whole (the workbook and its relationships), within the same limits as every part. */
@@ -369,5 +379,39 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
     else if (entry.name === 'xl/_rels/workbook.xml.rels') relsXml = await smallPartText(buf, entry, budget);
     else await unpack(buf, entry, budget);
   }
-  return { sheets, sheetNames: sheetNamesOf(workbookXml, relsXml) };
+  const byOffset = [...entries].sort((a, b) => a.localOffset - b.localOffset);
+  const parts = byOffset.map((e, i) => ({
+    name: e.name,
+    start: e.localOffset,
+    end: byOffset[i + 1]?.localOffset ?? dirOffset,
+    dirRecord: e.dirRecord,
+  }));
+  return { sheets, sheetNames: sheetNamesOf(workbookXml, relsXml), layout: { parts, dirOffset } };
+}
+
+/**
+ * The same zip with its worksheets moved after every other part, and its table of contents pointing at the parts'
+ * new places. Only for a zip inspectXlsx passed (`layout` is what it checked).
+ *
+ * A streaming reader reads the parts in file order. exceljs needs the shared strings and the workbook's relationships
+ * before it can read a worksheet; a worksheet that comes first (as in files exceljs itself writes) is unpacked to a
+ * temporary file and read back afterwards, which for a 100,000-row register cost about a tenth of the reading.
+ */
+export function worksheetsLast(buf: Buffer, layout: ZipLayout): Buffer {
+  const isSheet = (name: string) => /^xl\/worksheets\/sheet\d+\.xml$/.test(name);
+  const order = [...layout.parts.filter((p) => !isSheet(p.name)), ...layout.parts.filter((p) => isSheet(p.name))];
+  if (order.every((p, i) => p === layout.parts[i])) return buf;
+  const out = Buffer.allocUnsafe(buf.length);
+  let at = 0;
+  for (const part of order) {
+    buf.copy(out, at, part.start, part.end);
+    at += part.end - part.start;
+  }
+  buf.copy(out, at, layout.dirOffset);
+  at = 0;
+  for (const part of order) {
+    out.writeUInt32LE(at, part.dirRecord + 42);
+    at += part.end - part.start;
+  }
+  return out;
 }
