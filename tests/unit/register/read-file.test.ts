@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { deflateRawSync } from 'node:zlib';
-import { readRegisterFile } from '../../../src/lib/server/register/parse';
+import { readRegisterFile, readRegisterSheets } from '../../../src/lib/server/register/parse';
 import { planImport, type EstateSnapshot } from '../../../src/lib/server/register/plan';
 import { readZip, writeZip } from '../../helpers/zip';
 import { MESSY_EXPECTED, messyRegister, roomRow, semicolonCsv, tidyRegister, toBuffer, trustSurvey } from './fixtures';
@@ -320,5 +320,39 @@ describe('a unit written in the row under the header', () => {
     const { file } = await preview(Buffer.from(csv), 'csv');
     expect([file.header.row, file.header.rowCount]).toEqual([1, 1]);
     expect(file.read.rows.map((r) => r.values.ceilingHeightM)).toEqual([2.7]);
+  });
+});
+
+describe('reading a sheet that arrives in batches', () => {
+  /** A sheet of a title, a header and `count` rooms, given as the reader would: in batches of `size` rows. */
+  function sheetInBatches(count: number, size: number) {
+    const header = ['School', 'Room code', 'Pupils'];
+    const rows = [
+      { rowNumber: 1, values: ['Room survey, autumn term'] },
+      { rowNumber: 3, values: header },
+      ...Array.from({ length: count }, (_, i) => ({
+        rowNumber: 4 + i,
+        values: ['Oak Primary', `R${i + 1}`, 20 + (i % 10)],
+      })),
+    ];
+    async function* batches() {
+      for (let i = 0; i < rows.length; i += size) yield rows.slice(i, i + size);
+    }
+    async function* one() {
+      for await (const batch of batches()) yield* batch;
+    }
+    return { name: 'Rooms', rows: one(), batches: batches() };
+  }
+
+  // Batches smaller than the rows searched for the header, one that ends inside them, and one larger than them all.
+  it.each([1, 7, 29, 30, 31, 1000])('reads every room once, in order, from batches of %i rows', async (size) => {
+    async function* sheets() {
+      yield sheetInBatches(95, size);
+    }
+    const file = await readRegisterSheets(sheets(), new Map());
+    expect(file.header.row).toBe(3);
+    expect(file.read.rows.map((r) => r.rowNumber)).toEqual(Array.from({ length: 95 }, (_, i) => 4 + i));
+    expect(file.read.rows.map((r) => r.values.code)).toEqual(Array.from({ length: 95 }, (_, i) => `R${i + 1}`));
+    expect(file.read.rows[94]?.values.pupils).toBe(24);
   });
 });

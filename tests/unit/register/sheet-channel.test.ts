@@ -11,9 +11,11 @@ import type { EstateSnapshot } from '../../../src/lib/server/register/plan';
 import { readXlsx, type SheetStream } from '../../../src/lib/server/register/reader';
 import {
   MAX_BATCHES_AHEAD,
+  packRows,
   ROWS_PER_BATCH,
   SheetReaderClient,
   serveSheets,
+  unpackRows,
 } from '../../../src/lib/server/register/sheet-channel';
 import { messyRegister, roomRow, tidyRegister, toBuffer } from './fixtures';
 
@@ -177,5 +179,35 @@ describe('a plan encoded as its rows arrive', () => {
     const analysis = await analyseUpload(await tidyRegister(rows), 'xlsx', new Map(), {}, emptyEstate);
     expect(analysis.summary).toMatchObject({ roomsToCreate: 2, rowsRejected: 1 });
     expect(roomLines(analysis.rowsGz).map((l) => Number(l.split('\t')[0]))).toEqual([2, 3]);
+  });
+});
+
+describe('rows packed to cross between threads', () => {
+  it('come back as they went: every kind of cell, rows of any width, across a real channel', async () => {
+    const rows = [
+      { rowNumber: 1, values: ['School', 'Pupils', 'Surveyed', 'Listed', ''] },
+      { rowNumber: 2, values: ['Oak Primary', 30, new Date('2026-03-09T00:00:00Z'), true, null] },
+      { rowNumber: 7, values: [] },
+      { rowNumber: 9, values: [null, -0, 1e-300, Number.MAX_VALUE, false, 'naïve café — 10 m²', new Date(Number.NaN)] },
+      { rowNumber: 1_048_576, values: [null, null, 'last row of a sheet'] },
+    ];
+    const packed = packRows(rows);
+    const { port1, port2 } = new MessageChannel();
+    ports.push(port1, port2);
+    const arrived = new Promise<typeof packed>((resolve) => port2.once('message', resolve));
+    port1.postMessage(packed, [
+      packed.rowNumbers.buffer,
+      packed.widths.buffer,
+      packed.kinds.buffer,
+      packed.numbers.buffer,
+    ]);
+    const back = unpackRows(await arrived);
+    expect(back).toEqual(rows);
+    expect(Object.is(back[3]?.values[1], -0)).toBe(true);
+    const invalidDate = back[3]?.values[6];
+    expect(invalidDate).toBeInstanceOf(Date);
+    expect(Number.isNaN((invalidDate as Date).getTime())).toBe(true);
+    // Handed over, not copied: the sender's arrays are empty now.
+    expect(packed.numbers.length).toBe(0);
   });
 });

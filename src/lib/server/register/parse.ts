@@ -2,7 +2,7 @@ import { AppError } from '../http/errors';
 import { REGISTER_COLUMNS } from './columns';
 import { applyMapping, detectHeader, HEADER_SEARCH_ROWS, type DetectedHeader, type SavedMappings } from './headers';
 import type { ReadRows } from './plan';
-import { readCsv, readXlsx, type SheetRow, type SheetStream } from './reader';
+import { batchesOf, readCsv, readXlsx, type SheetRow, type SheetStream } from './reader';
 import { classifyRow, compileColumns, parseRow, type ParsedRow } from './rows';
 import { cellText, type CellValue } from './values';
 import type { ImportOptions } from './register.schemas';
@@ -42,12 +42,16 @@ export async function readRegisterSheets(
 ): Promise<ReadRegister> {
   let firstTop: string[][] = [];
   for await (const sheet of sheets) {
-    const iterator = sheet.rows[Symbol.asyncIterator]();
+    const batches = batchesOf(sheet);
     const head: SheetRow[] = [];
+    // Rows read with the head's last batch, past HEADER_SEARCH_ROWS.
+    let rest: SheetRow[] = [];
     while (head.length < HEADER_SEARCH_ROWS) {
-      const next = await iterator.next();
+      const next = await batches.next();
       if (next.done) break;
-      head.push(next.value);
+      const room = HEADER_SEARCH_ROWS - head.length;
+      head.push(...next.value.slice(0, room));
+      rest = next.value.slice(room);
     }
     // Rows are numbered as the spreadsheet shows them; gaps (empty rows) are filled so indexes match.
     const grid: CellValue[][] = [];
@@ -57,7 +61,7 @@ export async function readRegisterSheets(
     let header = detectHeader(grid, saved, options.headerRow);
     if (!header) {
       // Not this sheet (e.g. a guide or a cover sheet): drain it and try the next.
-      for (let n = await iterator.next(); !n.done; n = await iterator.next());
+      for await (const _batch of batches);
       continue;
     }
     if (options.mapping) header = { ...header, columns: applyMapping(header.columns, options.mapping) };
@@ -86,7 +90,8 @@ export async function readRegisterSheets(
       else rows.push(parsed);
     };
     for (const row of head) take(row);
-    for (let n = await iterator.next(); !n.done; n = await iterator.next()) take(n.value);
+    for (const row of rest) take(row);
+    for await (const batch of batches) for (const row of batch) take(row);
     return { sheetName: sheet.name, header, topRows: topText(head), read: { rows, skipped, notes } };
   }
   throw new AppError(

@@ -25,11 +25,17 @@ export interface SheetStream {
   name: string;
   rows: AsyncIterable<SheetRow>;
   /**
-   * The same rows in the batches the reader finds them in (an .xlsx only), for a consumer that takes them in bulk (the
-   * sheet reader thread, sheet-channel.ts): one wait per batch instead of one per row. A sheet is read by `rows` or by
-   * `batches`, not both.
+   * The same rows in the batches the reader finds them in (an .xlsx, or one read in another thread), for a consumer
+   * that takes them in bulk: one wait per batch instead of one per row. A sheet is read by `rows` or by `batches`, not
+   * both (batchesOf picks).
    */
   batches?: AsyncIterable<SheetRow[]>;
+}
+
+/** A sheet's rows in batches: the reader's own, or batches of one row when it has none (a CSV). */
+export async function* batchesOf(sheet: SheetStream): AsyncGenerator<SheetRow[]> {
+  if (sheet.batches) yield* sheet.batches;
+  else for await (const row of sheet.rows) yield [row];
 }
 
 export const tooManyRows = () =>
