@@ -1,7 +1,7 @@
 import JSZip from 'jszip';
 import { describe, expect, it } from 'vitest';
 import { readXlsx } from '../../../src/lib/server/register/reader';
-import { inspectXlsx, worksheetsLast } from '../../../src/lib/server/register/zip-guard';
+import { forStreamingReader, inspectXlsx } from '../../../src/lib/server/register/zip-guard';
 import { readZip, writeZip } from '../../helpers/zip';
 import { roomRow, tidyRegister } from './fixtures';
 
@@ -57,21 +57,25 @@ describe('the upload guard reading a sheet in pieces', () => {
   });
 });
 
-/** The parts' names in the order they lie in the file, by the offsets its table of contents gives. */
-function fileOrder(zip: Buffer): string[] {
+/** The parts in the order they lie in the file (by the offsets its table of contents gives), and how each is stored. */
+function fileOrder(zip: Buffer): { name: string; method: number }[] {
   const eocd = zip.lastIndexOf(Buffer.from([0x50, 0x4b, 0x05, 0x06]));
   const count = zip.readUInt16LE(eocd + 10);
   let p = zip.readUInt32LE(eocd + 16);
-  const parts: { name: string; offset: number }[] = [];
+  const parts: { name: string; method: number; offset: number }[] = [];
   for (let i = 0; i < count; i++) {
     const nameLength = zip.readUInt16LE(p + 28);
-    parts.push({ name: zip.toString('utf8', p + 46, p + 46 + nameLength), offset: zip.readUInt32LE(p + 42) });
+    parts.push({
+      name: zip.toString('utf8', p + 46, p + 46 + nameLength),
+      method: zip.readUInt16LE(p + 10),
+      offset: zip.readUInt32LE(p + 42),
+    });
     p += 46 + nameLength + zip.readUInt16LE(p + 30) + zip.readUInt16LE(p + 32);
   }
-  return parts.sort((a, b) => a.offset - b.offset).map((part) => part.name);
+  return parts.sort((a, b) => a.offset - b.offset).map(({ name, method }) => ({ name, method }));
 }
 
-/** Every part's unpacked content, read by JSZip (which finds each part through the table of contents). */
+/** Every part's unpacked content, read by JSZip (which finds each part through the table of contents, and checks CRCs). */
 async function contents(zip: Buffer): Promise<Map<string, string>> {
   const archive = await JSZip.loadAsync(zip, { checkCRC32: true });
   const out = new Map<string, string>();
@@ -85,25 +89,33 @@ async function rowsOf(zip: Buffer): Promise<unknown[]> {
   return rows;
 }
 
-describe('worksheets moved after the other parts, for the streaming reader', () => {
+/** The workbook as forStreamingReader gives it to the spreadsheet library, in one piece. */
+async function forReader(zip: Buffer, keepBytes?: number): Promise<Buffer> {
+  return Buffer.concat([...forStreamingReader(zip, await inspectXlsx(zip, keepBytes))]);
+}
+
+const STORED = 0;
+const DEFLATED = 8;
+
+describe('the workbook as the streaming reader gets it', () => {
   const isSheet = (name: string) => name.startsWith('xl/worksheets/sheet');
+  const names = (parts: { name: string }[]) => parts.map((p) => p.name);
 
-  it('keeps every part and its content, and a table of contents that points at them', async () => {
+  it('has its worksheets last and stored unpacked, with every part and a table of contents that points at them', async () => {
     const zip = await tidyRegister([roomRow('Oak Primary', 'R1'), roomRow('Oak Primary', 'R2')]);
-    // exceljs writes the sheet before the shared strings (APPNOTE 4.3.6: parts may lie in any order).
+    // exceljs writes the sheet deflated, before the shared strings (APPNOTE 4.3.6: parts may lie in any order).
     const before = fileOrder(zip);
-    expect(before.indexOf(SHEET)).toBeLessThan(before.indexOf('xl/sharedStrings.xml'));
+    expect(names(before).indexOf(SHEET)).toBeLessThan(names(before).indexOf('xl/sharedStrings.xml'));
+    expect(before.find((p) => p.name === SHEET)?.method).toBe(DEFLATED);
 
-    const moved = worksheetsLast(zip, (await inspectXlsx(zip)).layout);
-    const after = fileOrder(moved);
-    expect(after.at(-1)).toBe(SHEET);
-    expect(after.filter((name) => !isSheet(name))).toEqual(before.filter((name) => !isSheet(name)));
-    expect(moved.length).toBe(zip.length);
-    expect(await contents(moved)).toEqual(await contents(zip));
+    const read = await forReader(zip);
+    const after = fileOrder(read);
+    expect(after.at(-1)).toEqual({ name: SHEET, method: STORED });
+    expect(after.filter((p) => !isSheet(p.name))).toEqual(before.filter((p) => !isSheet(p.name)));
+    expect(await contents(read)).toEqual(await contents(zip));
     // The guard's own walk through the parts, one after another, agrees with the table of contents.
-    const layout = (await inspectXlsx(moved)).layout;
-    expect(worksheetsLast(moved, layout)).toBe(moved);
-    expect(await rowsOf(moved)).toEqual(await rowsOf(zip));
+    await expect(inspectXlsx(read)).resolves.toBeDefined();
+    expect(await rowsOf(read)).toEqual(await rowsOf(zip));
   });
 
   it('keeps several worksheets in their own order behind the other parts', async () => {
@@ -115,8 +127,38 @@ describe('worksheets moved after the other parts, for the streaming reader', () 
     // sheet2, half the other parts, sheet1, the other half.
     const half = Math.ceil(rest.length / 2);
     const zip = writeZip([sheet2, ...rest.slice(0, half), sheet, ...rest.slice(half)]);
-    const moved = worksheetsLast(zip, (await inspectXlsx(zip)).layout);
-    expect(fileOrder(moved)).toEqual([...rest.map((p) => p.name), sheet2.name, SHEET]);
-    expect(await contents(moved)).toEqual(await contents(zip));
+    const read = await forReader(zip);
+    expect(names(fileOrder(read))).toEqual([...names(rest), sheet2.name, SHEET]);
+    expect(await contents(read)).toEqual(await contents(zip));
+  });
+
+  it('leaves a worksheet packed once the unpacked ones kept would pass the limit', async () => {
+    const parts = readZip(await tidyRegister([roomRow('Oak Primary', 'R1')]));
+    const sheet = parts.find((p) => p.name === SHEET);
+    if (!sheet) throw new Error('no sheet');
+    const big = {
+      name: 'xl/worksheets/sheet2.xml',
+      data: Buffer.concat([sheet.data, Buffer.from(`<!--${'x'.repeat(5000)}-->`)]),
+    };
+    const zip = writeZip([...parts, big]);
+    // Room for the first sheet unpacked, not for both.
+    const read = await forReader(zip, sheet.data.length + 100);
+    expect(fileOrder(read).slice(-2)).toEqual([
+      { name: SHEET, method: STORED },
+      { name: big.name, method: DEFLATED },
+    ]);
+    expect(await contents(read)).toEqual(await contents(zip));
+  });
+
+  it('reads a zip whose parts carry their sizes after the data, as streamed zips do', async () => {
+    const original = await tidyRegister([roomRow('Oak Primary', 'R1'), roomRow('Oak Primary', 'R2')]);
+    const archive = await JSZip.loadAsync(original);
+    const streamed = await archive.generateAsync({ type: 'nodebuffer', streamFiles: true, compression: 'DEFLATE' });
+    // JSZip's streamFiles sets bit 3 (sizes in a data descriptor) on every part (APPNOTE 4.4.4).
+    expect(streamed.readUInt16LE(6) & 0x0008).toBe(0x0008);
+    const read = await forReader(streamed);
+    expect(fileOrder(read).at(-1)).toEqual({ name: SHEET, method: STORED });
+    expect(await contents(read)).toEqual(await contents(original));
+    expect(await rowsOf(read)).toEqual(await rowsOf(original));
   });
 });

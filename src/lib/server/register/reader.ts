@@ -3,7 +3,7 @@ import ExcelJS from 'exceljs';
 import { AppError, badRequest } from '../http/errors';
 import { MAX_UPLOAD_BYTES } from '../http/request-guard';
 import { plainCellValue, type CellValue } from './values';
-import { inspectXlsx, type MergedRange, worksheetsLast } from './zip-guard';
+import { forStreamingReader, inspectXlsx, type MergedRange } from './zip-guard';
 
 /** The most rows a register may have; larger files are refused before they are read. */
 export const MAX_ROWS = 200_000;
@@ -93,7 +93,7 @@ export async function* readXlsx(
 ): AsyncGenerator<SheetStream> {
   const facts = await inspectXlsx(buf);
   for (const sheet of facts.sheets.values()) if ((sheet.lastRow ?? 0) > maxRows + 50) throw tooMany();
-  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([worksheetsLast(buf, facts.layout)]), {
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from(forStreamingReader(buf, facts)), {
     sharedStrings: 'cache',
     styles: 'cache',
     hyperlinks: 'ignore',

@@ -19,6 +19,11 @@ interface ZipEntry {
 export const MAX_ENTRY_BYTES = 256 * 1024 * 1024;
 /** Largest size all parts together may unpack to, counted as they are unpacked (not as the zip claims). */
 export const MAX_TOTAL_BYTES = 384 * 1024 * 1024;
+/**
+ * Most bytes of unpacked worksheets kept for the spreadsheet library (forStreamingReader): a 200,000-row register's
+ * sheet unpacks to about 130 MB. A workbook's worksheets beyond it reach the library packed, as they came.
+ */
+export const MAX_KEPT_BYTES = 192 * 1024 * 1024;
 /** Most merged ranges a sheet may have; a register merges school or block cells, a few thousand at most. */
 export const MAX_MERGED_RANGES = 5000;
 /** Most cells all of a sheet's merged ranges may cover (each is filled with its top-left value). */
@@ -42,7 +47,7 @@ const tooBig = (what: string, limitBytes: number) =>
     `${what} unpacks to more than ${limitBytes / 1024 / 1024} MB, far more than any room register (a "zip bomb"?)`,
   );
 
-function readCentralDirectory(buf: Buffer): { entries: ZipEntry[]; dirOffset: number } {
+function readCentralDirectory(buf: Buffer): { entries: ZipEntry[]; dirOffset: number; eocd: number } {
   const min = Math.max(0, buf.length - 65_557);
   let eocd = -1;
   for (let i = buf.length - 22; i >= min; i--) {
@@ -89,7 +94,7 @@ function readCentralDirectory(buf: Buffer): { entries: ZipEntry[]; dirOffset: nu
     entries.push({ name, method, flags, crc, compressedSize, uncompressedSize, localOffset, dataStart, dirRecord: p });
     p += 46 + nameLength + extraLength + commentLength;
   }
-  return { entries, dirOffset };
+  return { entries, dirOffset, eocd };
 }
 
 /**
@@ -155,17 +160,20 @@ export interface MergedRange {
 
 /** What the guard learned about a workbook that passed: worksheets' merged ranges and row counts. */
 export interface WorkbookFacts {
-  sheets: Map<string, { merges: MergedRange[]; lastRow: number | null }>;
+  sheets: Map<string, { merges: MergedRange[]; lastRow: number | null; unpacked: Buffer[] | null }>;
   /** Each worksheet part's own name and sheet id as the workbook lists them ("xl/worksheets/sheet1.xml" → "Rooms"). */
   sheetNames: Map<string, { name: string; sheetId: number }>;
   /** Where each part lies in the file, as checked: the parts one after another, then the table of contents. */
   layout: ZipLayout;
 }
 
-/** A checked zip's parts in file order: each part's name, its bytes [start, end) and its table-of-contents record. */
+/**
+ * A checked zip's parts in file order (each part's name, its bytes [start, end) and its table-of-contents record), and
+ * where its end record starts.
+ */
 export interface ZipLayout {
   parts: { name: string; start: number; end: number; dirRecord: number }[];
-  dirOffset: number;
+  endRecord: number;
 }
 
 /** Reads a small XML part whole (the workbook and its relationships), within the same limits as every part. */
@@ -294,7 +302,11 @@ async function sheetFacts(
   buf: Buffer,
   entry: ZipEntry,
   budget: Budget,
-): Promise<{ merges: MergedRange[]; lastRow: number | null }> {
+  keepBudget: Budget,
+): Promise<{ merges: MergedRange[]; lastRow: number | null; unpacked: Buffer[] | null }> {
+  /** The part as unpacked, while it fits what may still be kept (see UnpackedSheets). */
+  let kept: Buffer[] | null = [];
+  let keptBytes = 0;
   let head = '';
   let tail = '';
   let inMerges = false;
@@ -317,6 +329,11 @@ async function sheetFacts(
   /** The end of the chunk before, while <mergeCells> is still to come. */
   let before: Buffer = Buffer.alloc(0);
   await unpack(buf, entry, budget, (chunk) => {
+    if (kept) {
+      keptBytes += chunk.length;
+      if (keptBytes <= keepBudget.remaining) kept.push(chunk);
+      else kept = null;
+    }
     if (head.length < 4096) head += chunk.toString('latin1', 0, Math.min(chunk.length, 4096));
     // Only text from <mergeCells> on is decoded and examined; the rows before it are counted, not read.
     if (!inMerges) {
@@ -338,7 +355,8 @@ async function sheetFacts(
     tail = tail.slice(cut);
   });
   const dim = /<dimension ref="[A-Z]+\d+:[A-Z]+(\d+)"/.exec(head);
-  return { merges, lastRow: dim ? Number(dim[1]) : null };
+  if (kept) keepBudget.remaining -= keptBytes;
+  return { merges, lastRow: dim ? Number(dim[1]) : null, unpacked: kept };
 }
 
 /**
@@ -347,7 +365,7 @@ async function sheetFacts(
  * a sane size (counted while unpacking) and free of XML entity declarations, and holding a workbook.
  * Reads the merged ranges on the way (the streaming reader does not report them).
  */
-export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
+export async function inspectXlsx(buf: Buffer, keepBytes = MAX_KEPT_BYTES): Promise<WorkbookFacts> {
   if (buf.length >= 4 && buf.readUInt32BE(0) === 0xd0cf11e0) {
     throw badRequest(
       'This is an old-style .xls workbook (Excel 97–2003). Open it in your spreadsheet program, save it as .xlsx and upload it again.',
@@ -361,7 +379,7 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
         : 'it is not a zip-based .xlsx file (perhaps a PDF or a picture renamed)',
     );
   }
-  const { entries, dirOffset } = readCentralDirectory(buf);
+  const { entries, dirOffset, eocd } = readCentralDirectory(buf);
   if (!entries.some((e) => e.name === 'xl/workbook.xml')) {
     throw notXlsx(
       "it is a zip archive but holds no Excel workbook (perhaps a Word document or another program's file renamed)",
@@ -369,12 +387,13 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
   }
   checkLocalHeaders(buf, entries, dirOffset);
   const budget: Budget = { remaining: MAX_TOTAL_BYTES };
-  const sheets = new Map<string, { merges: MergedRange[]; lastRow: number | null }>();
+  const sheets: WorkbookFacts['sheets'] = new Map();
+  const keepBudget: Budget = { remaining: keepBytes };
   let workbookXml = '';
   let relsXml = '';
   for (const entry of entries) {
     if (/^xl\/worksheets\/sheet\d+\.xml$/.test(entry.name))
-      sheets.set(entry.name, await sheetFacts(buf, entry, budget));
+      sheets.set(entry.name, await sheetFacts(buf, entry, budget, keepBudget));
     else if (entry.name === 'xl/workbook.xml') workbookXml = await smallPartText(buf, entry, budget);
     else if (entry.name === 'xl/_rels/workbook.xml.rels') relsXml = await smallPartText(buf, entry, budget);
     else await unpack(buf, entry, budget);
@@ -386,32 +405,77 @@ export async function inspectXlsx(buf: Buffer): Promise<WorkbookFacts> {
     end: byOffset[i + 1]?.localOffset ?? dirOffset,
     dirRecord: e.dirRecord,
   }));
-  return { sheets, sheetNames: sheetNamesOf(workbookXml, relsXml), layout: { parts, dirOffset } };
+  return { sheets, sheetNames: sheetNamesOf(workbookXml, relsXml), layout: { parts, endRecord: eocd } };
 }
 
+/** Pieces a streaming reader is given the workbook in (exceljs's unzipper is slow with large stored pieces). */
+const READER_PIECE_BYTES = 64 * 1024;
+
+const isWorksheet = (name: string) => /^xl\/worksheets\/sheet\d+\.xml$/.test(name);
+
 /**
- * The same zip with its worksheets moved after every other part, and its table of contents pointing at the parts'
- * new places. Only for a zip inspectXlsx passed (`layout` is what it checked).
+ * The workbook as the spreadsheet library should read it, in pieces: the zip inspectXlsx checked (`facts`), its
+ * worksheets moved after every other part, and each worksheet the guard kept unpacked stored as it is rather than
+ * packed; its table of contents says where each part now lies and how it is stored.
  *
- * A streaming reader reads the parts in file order. exceljs needs the shared strings and the workbook's relationships
- * before it can read a worksheet; a worksheet that comes first (as in files exceljs itself writes) is unpacked to a
- * temporary file and read back afterwards, which for a 100,000-row register cost about a tenth of the reading.
+ * - A streaming reader reads the parts in file order. exceljs needs the shared strings and the workbook's relationships
+ *   before it can read a worksheet; a worksheet that comes first (as in files exceljs itself writes) is unpacked to a
+ *   temporary file and read back afterwards, which for a 100,000-row register cost about a tenth of the reading.
+ * - The guard has already unpacked every worksheet once. exceljs unpacking it again runs on Node's thread pool, and
+ *   waits for each piece: with the preview's other thread busy, those waits made the reading about a fifth slower.
  */
-export function worksheetsLast(buf: Buffer, layout: ZipLayout): Buffer {
-  const isSheet = (name: string) => /^xl\/worksheets\/sheet\d+\.xml$/.test(name);
-  const order = [...layout.parts.filter((p) => !isSheet(p.name)), ...layout.parts.filter((p) => isSheet(p.name))];
-  if (order.every((p, i) => p === layout.parts[i])) return buf;
-  const out = Buffer.allocUnsafe(buf.length);
+export function* forStreamingReader(buf: Buffer, facts: WorkbookFacts): Generator<Buffer> {
+  const { parts, endRecord } = facts.layout;
+  const order = [...parts.filter((p) => !isWorksheet(p.name)), ...parts.filter((p) => isWorksheet(p.name))];
+  const records: Buffer[] = [];
   let at = 0;
   for (const part of order) {
-    buf.copy(out, at, part.start, part.end);
-    at += part.end - part.start;
+    const record = Buffer.from(buf.subarray(part.dirRecord, part.dirRecord + dirRecordLength(buf, part.dirRecord)));
+    record.writeUInt32LE(at, 42);
+    const unpacked = facts.sheets.get(part.name)?.unpacked;
+    if (unpacked) {
+      const size = unpacked.reduce((n, chunk) => n + chunk.length, 0);
+      const header = storedHeader(buf, part.start, size, record.readUInt32LE(16));
+      // The table of contents says the same: stored, sizes known up front (no size record after the data).
+      record.writeUInt16LE(record.readUInt16LE(8) & ~FLAG_DATA_DESCRIPTOR, 8);
+      record.writeUInt16LE(0, 10);
+      record.writeUInt32LE(size, 20);
+      yield header;
+      for (const chunk of unpacked) yield* inPieces(chunk);
+      at += header.length + size;
+    } else {
+      yield* inPieces(buf.subarray(part.start, part.end));
+      at += part.end - part.start;
+    }
+    records.push(record);
   }
-  buf.copy(out, at, layout.dirOffset);
-  at = 0;
-  for (const part of order) {
-    out.writeUInt32LE(at, part.dirRecord + 42);
-    at += part.end - part.start;
-  }
-  return out;
+  const directory = Buffer.concat(records);
+  const end = Buffer.from(buf.subarray(endRecord));
+  end.writeUInt32LE(directory.length, 12);
+  end.writeUInt32LE(at, 16);
+  yield* inPieces(directory);
+  yield end;
+}
+
+function* inPieces(bytes: Buffer): Generator<Buffer> {
+  for (let i = 0; i < bytes.length; i += READER_PIECE_BYTES) yield bytes.subarray(i, i + READER_PIECE_BYTES);
+}
+
+/** The length of the table-of-contents record at `p`. */
+const dirRecordLength = (buf: Buffer, p: number) =>
+  46 + buf.readUInt16LE(p + 28) + buf.readUInt16LE(p + 30) + buf.readUInt16LE(p + 32);
+
+/** A local header for the part whose header is at `p`, rewritten as stored (method 0) with `size` bytes and `crc`. */
+function storedHeader(buf: Buffer, p: number, size: number, crc: number): Buffer {
+  const nameLength = buf.readUInt16LE(p + 26);
+  const header = Buffer.alloc(30 + nameLength);
+  buf.copy(header, 0, p, p + 30);
+  buf.copy(header, 30, p + 30, p + 30 + nameLength);
+  header.writeUInt16LE(buf.readUInt16LE(p + 6) & ~FLAG_DATA_DESCRIPTOR, 6);
+  header.writeUInt16LE(0, 8);
+  header.writeUInt32LE(crc, 14);
+  header.writeUInt32LE(size, 18);
+  header.writeUInt32LE(size, 22);
+  header.writeUInt16LE(0, 28);
+  return header;
 }
