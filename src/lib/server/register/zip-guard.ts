@@ -158,7 +158,10 @@ export interface MergedRange {
   right: number;
 }
 
-/** What the guard learned about a workbook that passed: worksheets' merged ranges and row counts. */
+/**
+ * What the guard learned about a workbook that passed: worksheets' merged ranges and row counts, and each worksheet as
+ * unpacked while it fits in MAX_KEPT_BYTES (else null).
+ */
 export interface WorkbookFacts {
   sheets: Map<string, { merges: MergedRange[]; lastRow: number | null; unpacked: Buffer[] | null }>;
   /** Each worksheet part's own name and sheet id as the workbook lists them ("xl/worksheets/sheet1.xml" → "Rooms"). */
@@ -304,7 +307,7 @@ async function sheetFacts(
   budget: Budget,
   keepBudget: Budget,
 ): Promise<{ merges: MergedRange[]; lastRow: number | null; unpacked: Buffer[] | null }> {
-  /** The part as unpacked, while it fits what may still be kept (see UnpackedSheets). */
+  /** The part as unpacked, while it fits in what may still be kept (MAX_KEPT_BYTES across the workbook). */
   let kept: Buffer[] | null = [];
   let keptBytes = 0;
   let head = '';
