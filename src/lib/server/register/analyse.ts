@@ -60,7 +60,7 @@ function planHead(plan: ImportPlan): string {
 }
 
 /** `parts` joined in a buffer that is the whole of its own memory, so it can be handed to another thread. */
-function ownedBuffer(parts: Uint8Array[]): Buffer {
+export function ownedBuffer(parts: Uint8Array[]): Buffer<ArrayBuffer> {
   const bytes = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
   let at = 0;
   for (const p of parts) {

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { badRequest } from '../http/errors';
 import { FILE_READ_SLOTS, findBuiltWorker, READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
-import { analyseUpload, type UploadAnalysis } from './analyse';
+import { analyseUpload, ownedBuffer, type UploadAnalysis } from './analyse';
 import type { RegisterField } from './columns';
 import type { SavedMappings } from './headers';
 import type { EstateSnapshot } from './plan';
@@ -205,9 +205,15 @@ export async function analyseUploadIsolated(
   try {
     const tmp = await mkdtemp(join(tmpdir(), UPLOAD_FOLDER));
     release = () => rm(tmp, { recursive: true, force: true }).finally(free);
-    const copy = new Uint8Array(bytes.length);
-    copy.set(bytes);
-    const job: ParseJob = { bytes: copy.buffer, kind, saved: [...saved], options, snapshot, timings, tmpDir: tmp };
+    const job: ParseJob = {
+      bytes: ownedBuffer([bytes]).buffer,
+      kind,
+      saved: [...saved],
+      options,
+      snapshot,
+      timings,
+      tmpDir: tmp,
+    };
     const { outcome, stopped } = runWorker(url, job);
     const releaseNow = release;
     release = async () => {};

@@ -13,7 +13,7 @@ import { MessageChannel, type MessagePort, parentPort, Worker, workerData } from
 import { setThreadTempDir } from '../config';
 import { badRequest } from '../http/errors';
 import { READER_YOUNG_GENERATION_MB } from '../workers/built-worker';
-import { analyseSheets, analyseUpload } from './analyse';
+import { analyseSheets, analyseUpload, ownedBuffer } from './analyse';
 import {
   type ParseJob,
   type ParseReply,
@@ -49,13 +49,6 @@ function startSheetReader(): SheetReaderClient {
   thread.unref();
   port1.unref();
   return client;
-}
-
-/** A copy of `bytes` in an ArrayBuffer of its own, to hand over to the sheet reader. */
-function ownBuffer(bytes: Uint8Array): ArrayBuffer {
-  const copy = new Uint8Array(bytes.length);
-  copy.set(bytes);
-  return copy.buffer;
 }
 
 function timer(on: boolean): (step: string) => void {
@@ -97,7 +90,7 @@ if (role === 'sheet-reader') {
       // The warm-up's temporary files go to a folder of its own, removed once it has ended.
       setThreadTempDir(message.warmUp.tmpDir);
       const tmpDir = message.warmUp.tmpDir;
-      warming = warmUpReader((bytes) => sheets.read(ownBuffer(bytes), tmpDir))
+      warming = warmUpReader((bytes) => sheets.read(ownedBuffer([bytes]).buffer, tmpDir))
         .catch(() => undefined)
         // The warm-up's folder is removed when this says so: not before the sheet reader has let go of it.
         .then(() => sheets.whenIdle())

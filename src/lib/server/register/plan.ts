@@ -306,6 +306,9 @@ const NO_BLANKS: RoomOfRow['blanks'] = [];
 /** A room with nothing to say (shared: most rooms have nothing). */
 const NOTHING_SAID: RoomOfRow['said'] = [];
 
+/** Whether a row gives a value for `field` (not blank, and read). */
+const carried = (row: ParsedRow, field: RegisterField) => row.values[field] !== null && row.values[field] !== undefined;
+
 /** The room code of a row as the plan matches it (trimmed), or null when blank. */
 const codeOf = (row: ParsedRow) =>
   row.values.code === null || row.values.code === undefined ? null : String(row.values.code).trim() || null;
@@ -630,7 +633,7 @@ export function startPlan(
         !refusedRows.has(row.rowNumber) &&
         !room.said.some((p) => p.severity === 'error') &&
         !row.problems.some((p) => p.severity === 'error') &&
-        !HEATING_COLUMNS.some((field) => row.values[field] !== null && row.values[field] !== undefined)
+        !HEATING_COLUMNS.some((field) => carried(row, field))
       )
         row.cells = undefined;
     },
@@ -664,8 +667,6 @@ export function startPlan(
           delete heating.heatingEfficiency;
         }
       }
-      const carried = (row: ParsedRow, field: RegisterField) =>
-        row.values[field] !== null && row.values[field] !== undefined;
 
       // Pass 2: each row becomes a room write, an unchanged room, or a rejected row.
       const writes: RoomWrite[] = [];
